@@ -1,0 +1,106 @@
+/**
+ * Entry point of the analysis: validate, solve each output state, pick the
+ * model that answers, attach checks. The closed form answers when the amplifier
+ * is linear within each state; the time-domain engine (when registered) answers
+ * whenever slew, delay, limits or clamps can change the result.
+ */
+import { hasDynamicLimits } from '../amplifiers/model.ts';
+import { CoreError } from '../errors.ts';
+import { CHECK_CODES, oscillationChecks, supplyChecks, type Check } from './checks.ts';
+import { closedFormOscillation } from './closed-form.ts';
+import type { AnalysisResult, ModelName, OscillationFigures } from './result.ts';
+import { solveState, type StateModel } from './state-model.ts';
+import { findTopology, TOPOLOGY_IDS } from './topologies/index.ts';
+import type { TopologyDefinition } from './topologies/topology.ts';
+import type { Circuit, OutputState } from './types.ts';
+import { validateCircuit } from './validate.ts';
+
+export type ModelChoice = 'auto' | ModelName;
+
+export interface AnalyzeOptions {
+  model?: ModelChoice;
+}
+
+/** A time-domain engine plugs in here (kept as a seam so the closed form has no dependency on it). */
+export type TimeDomainAnalyzer = (prepared: PreparedCircuit) => OscillationFigures;
+let timeDomainAnalyzer: TimeDomainAnalyzer | undefined;
+
+export function registerTimeDomainAnalyzer(fn: TimeDomainAnalyzer): void {
+  timeDomainAnalyzer = fn;
+}
+
+export interface PreparedCircuit {
+  circuit: Circuit;
+  topology: TopologyDefinition;
+  high: StateModel;
+  low: StateModel;
+}
+
+export function getTopology(id: string): TopologyDefinition {
+  const topology = findTopology(id);
+  if (!topology) {
+    throw new CoreError('unknown-reference', `Unknown topology '${id}'; known: ${TOPOLOGY_IDS.join(', ')}`, '/topology');
+  }
+  return topology;
+}
+
+function nominalPiece(topology: TopologyDefinition, state: OutputState) {
+  return {
+    state,
+    outputDriven: !(topology.needsOpenDrain && state === 'high'),
+    diodesOn: topology.nominalDiodes?.(state),
+  };
+}
+
+/** Validate and solve both output states (the expensive part is tiny: two small nodal solves). */
+export function prepareCircuit(circuit: Circuit): PreparedCircuit {
+  const topology = getTopology(circuit.topology);
+  validateCircuit(circuit, topology);
+  return {
+    circuit,
+    topology,
+    high: solveState(topology, circuit, nominalPiece(topology, 'high')),
+    low: solveState(topology, circuit, nominalPiece(topology, 'low')),
+  };
+}
+
+/** Closed-form figures only, without checks: the fast path for Monte Carlo and searches. */
+export function closedFormFigures(circuit: Circuit): OscillationFigures {
+  const p = prepareCircuit(circuit);
+  return closedFormOscillation(p.high, p.low, circuit.amplifier.quiescentCurrentA, circuit.amplifier.inputBiasCurrentA);
+}
+
+export function chooseModel(circuit: Circuit, choice: ModelChoice = 'auto'): ModelName {
+  if (choice !== 'auto') return choice;
+  return hasDynamicLimits(circuit.amplifier) && timeDomainAnalyzer ? 'time-domain' : 'closed-form';
+}
+
+export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): AnalysisResult {
+  const prepared = prepareCircuit(circuit);
+  const model = chooseModel(circuit, options.model);
+  let figures: OscillationFigures;
+  if (model === 'time-domain') {
+    if (!timeDomainAnalyzer) throw new CoreError('invalid-value', 'The time-domain model is not available', '/model');
+    figures = timeDomainAnalyzer(prepared);
+  } else {
+    figures = closedFormOscillation(prepared.high, prepared.low, circuit.amplifier.quiescentCurrentA, circuit.amplifier.inputBiasCurrentA);
+  }
+  const capacitanceF = circuit.parts[prepared.topology.capacitorRole];
+  const checks: Check[] = [
+    ...supplyChecks(circuit.supply, circuit.amplifier, capacitanceF),
+    ...oscillationChecks(figures, {
+      supply: circuit.supply,
+      amplifier: circuit.amplifier,
+      capacitanceF,
+      timingResistanceOhm: Math.max(prepared.high.tauS, prepared.low.tauS) / capacitanceF,
+    }),
+  ];
+  if (model === 'closed-form' && hasDynamicLimits(circuit.amplifier)) {
+    checks.push({
+      code: CHECK_CODES.dynamicsApproximated,
+      severity: 'info',
+      message: 'Answered by the closed form: slew rate, recovery delay, current limit and input clamps are not modelled in this answer',
+    });
+  }
+  return { ...figures, checks };
+}

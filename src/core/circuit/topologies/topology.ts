@@ -1,0 +1,37 @@
+/**
+ * A topology names its part roles and lists the passive branches it adds
+ * between the standard nodes (see nodes.ts). Everything else — rails, output
+ * stage, loads, bias currents — is common and added by the network builder.
+ */
+import type { Branch } from '../network.ts';
+import type { PieceConfig } from '../types.ts';
+
+export type PartKind = 'resistor' | 'capacitor';
+
+export interface RoleSpec {
+  kind: PartKind;
+  description: string;
+  required: boolean;
+}
+
+export interface TopologyDefinition {
+  id: string;
+  description: string;
+  roles: Readonly<Record<string, RoleSpec>>;
+  /** The timing capacitor's role (its value is the network's one capacitance). */
+  capacitorRole: string;
+  /** Topology-internal nodes beyond the standard ones. */
+  internalNodeCount: number;
+  /** Number of diodes whose conduction the piece configuration sets. */
+  diodeCount: number;
+  /** True when the output stage must be open drain (the pull-up supplies the high level). */
+  needsOpenDrain: boolean;
+  /** Passive branches for one linear piece. */
+  branches(parts: Readonly<Record<string, number>>, piece: PieceConfig): Branch[];
+  /** The diode conduction that the closed-form (one piece per state) model assumes. */
+  nominalDiodes?(state: PieceConfig['state']): boolean[];
+}
+
+export function resistor(from: number, to: number, resistanceOhm: number, label: string): Branch {
+  return { from, to, resistanceOhm, emfV: 0, label };
+}

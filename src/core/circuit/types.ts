@@ -1,0 +1,43 @@
+/** Plain circuit description the core works on: SI base units throughout. */
+import type { AmplifierModel } from '../amplifiers/model.ts';
+
+export type OutputState = 'high' | 'low';
+
+export interface Supply {
+  /** Positive rail relative to ground, V. */
+  positiveV: number;
+  /** Negative rail relative to ground, V (0 for a single supply). */
+  negativeV: number;
+}
+
+/** A resistive load on the output pin returned to a fixed voltage. */
+export interface OutputLoad {
+  resistanceOhm: number;
+  /** Voltage the load returns to, V (0 = ground). */
+  returnV: number;
+}
+
+/** Piecewise-linear diode: forward drop plus series resistance while conducting. */
+export interface DiodeModel {
+  forwardDropV: number;
+  resistanceOhm: number;
+}
+
+export interface Circuit {
+  topology: string;
+  supply: Supply;
+  amplifier: AmplifierModel;
+  /** Part values by role, in ohm or farad. */
+  parts: Readonly<Record<string, number>>;
+  load?: OutputLoad;
+  diode?: DiodeModel;
+}
+
+/** What differs between the linear pieces of one output state. */
+export interface PieceConfig {
+  state: OutputState;
+  /** False while the output stage does not drive (open drain released). */
+  outputDriven: boolean;
+  /** Conduction of the topology's diodes, in its own order (diode-steered topologies). */
+  diodesOn?: readonly boolean[];
+}
