@@ -1,0 +1,134 @@
+/**
+ * The fastify application: plugins, shared schemas, error mapping and routes.
+ * Thin by design — routes convert, call the core and shape the answer.
+ */
+import Fastify, { type FastifyInstance, type FastifyServerOptions } from 'fastify';
+import swagger from '@fastify/swagger';
+import swaggerUi from '@fastify/swagger-ui';
+import underPressure from '@fastify/under-pressure';
+import type { TypeBoxTypeProvider } from '@fastify/type-provider-typebox';
+import { randomUUID } from 'node:crypto';
+import type { ServiceConfig } from '../config.ts';
+import { DEFAULT_CONFIG } from '../config.ts';
+import { openSqliteStore, type Store } from '../store/index.ts';
+import { AmplifierDirectory } from './amplifier-directory.ts';
+import { parseApiKeyConfig } from './auth/api-keys.ts';
+import { registerAuth } from './auth/plugin.ts';
+import { Metrics } from './metrics.ts';
+import { errorHandler, problem, sendProblem } from './problem.ts';
+import { ROUTES } from './routes/index.ts';
+import { REGISTERED_SCHEMAS } from './schemas/index.ts';
+import type { Services } from './services.ts';
+import { storedAmplifierSource } from './stored-amplifiers.ts';
+
+export const API_VERSION = '1.0.0';
+
+export interface BuildOptions {
+  config?: Partial<ServiceConfig>;
+  /** An already-open store (tests); otherwise one is opened at config.databasePath. */
+  store?: Store;
+  logger?: FastifyServerOptions['logger'];
+}
+
+export async function buildApp(options: BuildOptions = {}): Promise<FastifyInstance> {
+  const config: ServiceConfig = { ...DEFAULT_CONFIG, ...options.config };
+  const app = Fastify({
+    logger: options.logger ?? false,
+    bodyLimit: config.bodyLimitBytes,
+    requestTimeout: config.requestTimeoutMs,
+    trustProxy: config.trustProxy === false ? false : config.trustProxy,
+    requestIdHeader: 'x-request-id',
+    genReqId: () => randomUUID(),
+    return503OnClosing: true,
+    ajv: { customOptions: { removeAdditional: false, coerceTypes: false, useDefaults: true } },
+  }).withTypeProvider<TypeBoxTypeProvider>();
+
+  const store = options.store ?? openSqliteStore(config.databasePath);
+  const services: Services = {
+    store,
+    amplifiers: new AmplifierDirectory(storedAmplifierSource(store)),
+    keys: parseApiKeyConfig(config.apiKeys),
+    metrics: new Metrics(),
+  };
+  app.decorate('services', services);
+  if (!options.store) app.addHook('onClose', async () => store.close());
+
+  app.setErrorHandler(errorHandler);
+  installMethodAwareNotFound(app);
+
+  app.addHook('onSend', async (request, reply) => {
+    reply.header('x-request-id', request.id);
+  });
+  app.addHook('onResponse', async (request, reply) => {
+    const route = request.routeOptions.url ?? 'unmatched';
+    services.metrics.observe(request.method, route, reply.statusCode, reply.elapsedTime / 1000);
+  });
+
+  await app.register(underPressure, {
+    maxEventLoopDelay: config.maxEventLoopDelayMs,
+    retryAfter: 5,
+    exposeStatusRoute: false,
+    customError: undefined,
+  });
+
+  await app.register(swagger, {
+    openapi: {
+      openapi: '3.1.0',
+      info: {
+        title: 'tickwright',
+        version: API_VERSION,
+        description:
+          'Sizes, checks and diagnoses RC relaxation oscillators built from an op-amp or comparator with hysteresis. All values are SI base units; errors are RFC 9457 problem details.',
+      },
+      servers: [{ url: '/' }],
+      components: {
+        securitySchemes: {
+          bearerKey: { type: 'http', scheme: 'bearer', description: 'API key (only when the service has keys configured)' },
+          headerKey: { type: 'apiKey', in: 'header', name: 'X-Api-Key' },
+        },
+      },
+      security: [{}, { bearerKey: [] }, { headerKey: [] }],
+    },
+    refResolver: { buildLocalReference: (json, _baseUri, _fragment, i) => (json.$id as string) ?? `schema-${i}` },
+  });
+  await app.register(swaggerUi, { routePrefix: '/docs' });
+
+  for (const schema of REGISTERED_SCHEMAS) app.addSchema(schema);
+  registerAuth(app, services.keys);
+  if (services.keys.isOpen) app.log.warn('No API keys configured (TICKWRIGHT_API_KEYS): the service is open to every caller');
+
+  for (const route of ROUTES) await app.register(route);
+  return app;
+}
+
+/**
+ * 404 for unknown paths, 405 with Allow for a known path with the wrong method.
+ * Route patterns are collected as they are added so parametric paths match too.
+ */
+function installMethodAwareNotFound(app: FastifyInstance): void {
+  const patterns: { method: string; regex: RegExp }[] = [];
+  app.addHook('onRoute', (route) => {
+    const methods = Array.isArray(route.method) ? route.method : [route.method];
+    const regex = new RegExp(
+      '^' +
+        route.url
+          .split('/')
+          .map((seg) => (seg.startsWith(':') ? '[^/]+' : seg === '*' ? '.*' : seg.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')))
+          .join('/') +
+        '/?$',
+    );
+    for (const m of methods) patterns.push({ method: m, regex });
+  });
+  app.setNotFoundHandler((request, reply) => {
+    const path = request.url.split('?')[0];
+    const allowed = [...new Set(patterns.filter((p) => p.regex.test(path)).map((p) => p.method))];
+    if (allowed.length > 0) {
+      return sendProblem(
+        reply,
+        problem(405, 'method-not-allowed', `${request.method} is not allowed on ${path}; allowed: ${allowed.join(', ')}`, request.url),
+        { allow: allowed.join(', ') },
+      );
+    }
+    return sendProblem(reply, problem(404, 'not-found', `No resource at ${path}`, request.url));
+  });
+}

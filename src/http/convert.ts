@@ -1,0 +1,76 @@
+/**
+ * Request bodies -> core inputs: value strings to numbers, null limits to
+ * Infinity, amplifier references resolved. Keeps the routes thin and the core
+ * free of wire formats.
+ */
+import { findTopology, resolveAmplifier, type AmplifierModel, type Circuit, type InlineAmplifier } from '../core/index.ts';
+import { CoreError } from '../core/errors.ts';
+import { parseComponentValue } from '../core/parts/value-parse.ts';
+import type { AmplifierDirectory } from './amplifier-directory.ts';
+import type { CircuitBody } from './schemas/circuit.ts';
+
+/** Default diode for steered topologies: small-signal silicon, common practice. */
+export const DEFAULT_DIODE = { forwardDropV: 0.6, resistanceOhm: 10 } as const;
+
+const LIMIT_FIELDS = ['supplyMaxV', 'outputCurrentLimitA', 'slewRateVPerS', 'differentialClampV'] as const;
+
+/** JSON null / absent limit -> Infinity for the core. */
+export function inlineAmplifierFromBody(body: Record<string, unknown>): InlineAmplifier {
+  const out: Record<string, unknown> = { ...body };
+  for (const key of LIMIT_FIELDS) {
+    if (out[key] === null) out[key] = Infinity;
+  }
+  return out as InlineAmplifier;
+}
+
+export function resolveAmplifierSpec(spec: string | Record<string, unknown>, directory: AmplifierDirectory, pointer = '/amplifier'): AmplifierModel {
+  return resolveAmplifier(typeof spec === 'string' ? spec : inlineAmplifierFromBody(spec), directory.lookup, pointer);
+}
+
+export function parseParts(topologyId: string, parts: Record<string, string | number | undefined>, pointer = '/parts'): Record<string, number> {
+  const topology = findTopology(topologyId);
+  const out: Record<string, number> = {};
+  for (const [role, value] of Object.entries(parts)) {
+    if (value === undefined) continue;
+    const kind = topology?.roles[role]?.kind ?? (role.startsWith('c') ? 'capacitor' : 'resistor');
+    out[role] = parseComponentValue(value, kind, `${pointer}/${role}`);
+  }
+  return out;
+}
+
+export function circuitFromBody(body: CircuitBody, directory: AmplifierDirectory, pointer = ''): Circuit {
+  const amplifier = resolveAmplifierSpec(body.amplifier as string | Record<string, unknown>, directory, `${pointer}/amplifier`);
+  const circuit: Circuit = {
+    topology: body.topology,
+    supply: { positiveV: body.supply.positiveV, negativeV: body.supply.negativeV ?? 0 },
+    amplifier,
+    parts: parseParts(body.topology, body.parts as Record<string, string | number | undefined>, `${pointer}/parts`),
+  };
+  if (body.load) circuit.load = { resistanceOhm: body.load.resistanceOhm, returnV: body.load.returnV ?? 0 };
+  if (body.diode) {
+    circuit.diode = {
+      forwardDropV: body.diode.forwardDropV ?? DEFAULT_DIODE.forwardDropV,
+      resistanceOhm: body.diode.resistanceOhm ?? DEFAULT_DIODE.resistanceOhm,
+    };
+  }
+  return circuit;
+}
+
+/** Prefix a core error's pointer when the circuit sits inside a larger body (e.g. /circuit). */
+export function withPointerPrefix<T>(prefix: string, fn: () => T): T {
+  try {
+    return fn();
+  } catch (err) {
+    if (err instanceof CoreError && err.pointer !== undefined && prefix && !err.pointer.startsWith(prefix)) {
+      throw new CoreError(err.code, err.message, prefix + err.pointer, err.details);
+    }
+    throw err;
+  }
+}
+
+/** JSON cannot carry Infinity: limits go out as null. */
+export function amplifierToJson(a: AmplifierModel): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(a)) out[k] = typeof v === 'number' && !Number.isFinite(v) ? null : v;
+  return out;
+}

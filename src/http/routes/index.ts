@@ -1,0 +1,7 @@
+/** Every route plugin, in registration order. Add a route: write its plugin and list it here. */
+import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
+import { amplifierReadRoutes } from './amplifiers.ts';
+import { analyzeRoutes } from './analyze.ts';
+import { systemRoutes } from './system.ts';
+
+export const ROUTES: FastifyPluginAsyncTypebox[] = [systemRoutes, analyzeRoutes, amplifierReadRoutes];

@@ -1,0 +1,35 @@
+/** Amplifier records as the API shows them: limits that do not exist are null. */
+import { Type } from 'typebox';
+
+const Nullable = (description: string) => Type.Union([Type.Number(), Type.Null()], { description });
+
+export const Amplifier = Type.Object(
+  {
+    id: Type.String(),
+    name: Type.String(),
+    technologyClass: Type.String(),
+    description: Type.String(),
+    figuresBasis: Type.Union([Type.Literal('ideal'), Type.Literal('class-typical'), Type.Literal('caller-supplied')], {
+      description: 'class-typical: figures typical of the technology class, from memory of the trade, not a datasheet',
+    }),
+    source: Type.Union([Type.Literal('built-in'), Type.Literal('registered')]),
+    outputStage: Type.Union([Type.Literal('push-pull'), Type.Literal('open-drain')]),
+    supplyMinV: Type.Number({ description: 'Minimum total supply span, V' }),
+    supplyMaxV: Nullable('Maximum total supply span, V (null: unlimited)'),
+    outputHeadroomHighV: Type.Number({ description: 'Output swing limit below V+ at light load, V' }),
+    outputHeadroomLowV: Type.Number({ description: 'Output swing limit above V− at light load, V' }),
+    outputResistanceOhm: Type.Number({ description: 'Output resistance, ohm' }),
+    outputCurrentLimitA: Nullable('Output current limit, A (null: none)'),
+    slewRateVPerS: Nullable('Slew rate, V/s (null: instant)'),
+    recoveryDelayS: Type.Number({ description: 'Saturation-recovery / propagation delay, s' }),
+    inputCommonModeLowMarginV: Nullable('Common-mode range lower end above V−, V (null: unlimited)'),
+    inputCommonModeHighMarginV: Nullable('Common-mode range upper end below V+, V (null: unlimited)'),
+    inputBiasCurrentA: Type.Number({ description: 'Bias current into each input, A' }),
+    inputOffsetV: Type.Number({ description: 'Input offset voltage, V' }),
+    differentialClampV: Nullable('Differential input clamp, V (null: none)'),
+    quiescentCurrentA: Type.Number({ description: 'Amplifier supply current, A' }),
+  },
+  { $id: 'Amplifier', additionalProperties: false },
+);
+
+export const AmplifierList = Type.Object({ amplifiers: Type.Array(Type.Unsafe(Type.Ref('Amplifier'))) }, { $id: 'AmplifierList', additionalProperties: false });

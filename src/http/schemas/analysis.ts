@@ -1,0 +1,70 @@
+/** Response schema of POST /v1/analyze. */
+import { Type } from 'typebox';
+import { Check, ref } from './common.ts';
+
+const StateSummary = Type.Object(
+  {
+    tauS: Type.Number({ description: 'Capacitor time constant in this state, s' }),
+    asymptoteV: Type.Number({ description: 'Capacitor voltage the state heads for, V' }),
+    switchingV: Type.Number({ description: 'Capacitor voltage at which the output leaves the state, V' }),
+    sourceV: Type.Union([Type.Number(), Type.Null()], { description: 'Output-stage source level, V (null: not driven)' }),
+    dwellS: Type.Number({ description: 'Time spent in the state, s' }),
+  },
+  { additionalProperties: false },
+);
+
+export const AmplifierSummary = Type.Object(
+  {
+    id: Type.String(),
+    name: Type.String(),
+    figuresBasis: Type.String(),
+  },
+  { additionalProperties: false },
+);
+
+export const Analysis = Type.Object(
+  {
+    topology: Type.String(),
+    amplifier: AmplifierSummary,
+    model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')], { description: 'Which model answered' }),
+    frequencyHz: Type.Number(),
+    periodS: Type.Number(),
+    dutyCycle: Type.Number({ description: 'Fraction of the period the output is high, between 50 % crossings' }),
+    timeHighS: Type.Number(),
+    timeLowS: Type.Number(),
+    firstEdgeS: Type.Number({ description: 'From power-up with the capacitor empty to the first output edge, s' }),
+    thresholds: Type.Object({ upperV: Type.Number(), lowerV: Type.Number(), hysteresisV: Type.Number() }, { additionalProperties: false }),
+    output: Type.Object({ highV: Type.Number(), lowV: Type.Number(), swingV: Type.Number() }, { additionalProperties: false }),
+    capacitor: Type.Object({ minV: Type.Number(), maxV: Type.Number() }, { additionalProperties: false }),
+    states: Type.Object({ high: StateSummary, low: StateSummary }, { additionalProperties: false }),
+    powerUp: Type.Object(
+      {
+        initialState: Type.Union([Type.Literal('high'), Type.Literal('low')]),
+        determinate: Type.Boolean({ description: 'False when both states are consistent at power-up (then high is assumed)' }),
+      },
+      { additionalProperties: false },
+    ),
+    currents: Type.Object(
+      {
+        outputPeakSourceA: Type.Number(),
+        outputPeakSinkA: Type.Number(),
+        supplyAverageA: Type.Number({ description: 'Mean current from the positive rail incl. quiescent current, A' }),
+        supplyPeakA: Type.Number(),
+      },
+      { additionalProperties: false },
+    ),
+    inputs: Type.Object(
+      {
+        nonInvertingMinV: Type.Number(),
+        nonInvertingMaxV: Type.Number(),
+        invertingMinV: Type.Number(),
+        invertingMaxV: Type.Number(),
+        differentialMaxV: Type.Number(),
+      },
+      { additionalProperties: false },
+    ),
+    biasThresholdShiftV: Type.Number({ description: 'Threshold shift from input bias current, V' }),
+    checks: Type.Array(ref(Check)),
+  },
+  { $id: 'Analysis', additionalProperties: true },
+);

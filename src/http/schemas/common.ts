@@ -1,0 +1,138 @@
+/**
+ * Shared typebox schemas. Each has an $id, is registered once with
+ * app.addSchema and referenced from routes, so it appears once under
+ * #/components/schemas in the OpenAPI document.
+ */
+import { Type, type Static, type TSchema } from 'typebox';
+
+/** Reference a registered schema while keeping its static type. */
+export function ref<T extends TSchema>(schema: T) {
+  const id = (schema as { $id?: string }).$id;
+  if (!id) throw new Error('ref() needs a schema with $id');
+  return Type.Unsafe<Static<T>>(Type.Ref(id));
+}
+
+export const ComponentValue = Type.Union(
+  [
+    Type.Number({ exclusiveMinimum: 0, description: 'SI base units: ohm for resistors, farad for capacitors' }),
+    Type.String({
+      minLength: 1,
+      maxLength: 40,
+      description: 'IEC 60062 RKM code ("4K7", "R47", "4n7") or SI-prefix form ("4.7k", "10 nF", "0.01u", "3.3 kΩ")',
+    }),
+  ],
+  { $id: 'ComponentValue', description: 'A component value as a number in SI base units or a value string' },
+);
+
+export const Supply = Type.Object(
+  {
+    positiveV: Type.Number({ description: 'Positive rail relative to ground, V' }),
+    negativeV: Type.Optional(Type.Number({ default: 0, description: 'Negative rail relative to ground, V (0 for a single supply)' })),
+  },
+  { $id: 'Supply', additionalProperties: false },
+);
+
+/** A limit that may be absent: null means "no such limit". */
+const Limit = (description: string) => Type.Optional(Type.Union([Type.Number({ exclusiveMinimum: 0 }), Type.Null()], { description }));
+const Figure = (description: string) => Type.Optional(Type.Number({ description }));
+
+export const amplifierFigureProperties = {
+  outputStage: Type.Optional(Type.Union([Type.Literal('push-pull'), Type.Literal('open-drain')], { description: 'Output stage type' })),
+  supplyMinV: Figure('Minimum total supply span V+ − V−, V'),
+  supplyMaxV: Limit('Maximum total supply span, V (null: unlimited)'),
+  outputHeadroomHighV: Figure('Light-load output swing limit below V+, V'),
+  outputHeadroomLowV: Figure('Light-load output swing limit above V− (saturation voltage for open drain), V'),
+  outputResistanceOhm: Figure('Output resistance behind the swing limit, ohm'),
+  outputCurrentLimitA: Limit('Output current limit, A (null: none)'),
+  slewRateVPerS: Limit('Slew rate, V/s (null: instant)'),
+  recoveryDelayS: Figure('Saturation-recovery or propagation delay, s'),
+  inputCommonModeLowMarginV: Figure('Common-mode range lower end relative to V−, V (negative: below the rail)'),
+  inputCommonModeHighMarginV: Figure('Common-mode range upper end below V+, V (negative: beyond the rail)'),
+  inputBiasCurrentA: Figure('Bias current into each input, A (negative for PNP inputs)'),
+  inputOffsetV: Figure('Input offset voltage, V'),
+  differentialClampV: Limit('Differential input clamp voltage, V (null: no clamp)'),
+  quiescentCurrentA: Figure('Amplifier supply current, A'),
+};
+
+export const AmplifierId = Type.String({ pattern: '^[a-z0-9][a-z0-9._-]{0,63}$', description: 'Id of a built-in archetype or a registered amplifier' });
+
+export const InlineAmplifier = Type.Object(
+  {
+    base: Type.Optional(AmplifierId),
+    name: Type.Optional(Type.String({ maxLength: 120 })),
+    ...amplifierFigureProperties,
+  },
+  {
+    $id: 'InlineAmplifier',
+    additionalProperties: false,
+    description: 'Amplifier figures given inline. Omitted fields are ideal, or taken from `base` when it names an archetype.',
+  },
+);
+
+export const AmplifierSpec = Type.Union([AmplifierId, ref(InlineAmplifier)], {
+  $id: 'AmplifierSpec',
+  description: 'An amplifier id, or inline figures',
+});
+
+export const Check = Type.Object(
+  {
+    code: Type.String({ description: 'Stable machine-readable code' }),
+    severity: Type.Union([Type.Literal('info'), Type.Literal('warning'), Type.Literal('error'), Type.Literal('caution')]),
+    message: Type.String(),
+  },
+  {
+    $id: 'Check',
+    additionalProperties: Type.Union([Type.Number(), Type.String(), Type.Boolean(), Type.Null()]),
+    description: 'A design check with the figures behind it (SI units) as further properties',
+  },
+);
+
+export const Problem = Type.Object(
+  {
+    type: Type.String({ description: 'URI reference identifying the problem type' }),
+    title: Type.String(),
+    status: Type.Integer(),
+    detail: Type.Optional(Type.String()),
+    instance: Type.Optional(Type.String()),
+    code: Type.Optional(Type.String({ description: 'Stable machine-readable code' })),
+    errors: Type.Optional(
+      Type.Array(
+        Type.Object({
+          pointer: Type.String({ description: 'JSON pointer (RFC 6901) into the request body, or a header/parameter name' }),
+          detail: Type.String(),
+        }),
+      ),
+    ),
+  },
+  { $id: 'Problem', additionalProperties: true, description: 'RFC 9457 problem details' },
+);
+
+export type ProblemBody = Static<typeof Problem>;
+
+export const SHARED_SCHEMAS: TSchema[] = [ComponentValue, Supply, InlineAmplifier, AmplifierSpec, Check, Problem];
+
+/** Error responses for a route, all as application/problem+json. */
+export function problemResponses(...statuses: number[]) {
+  const out: Record<number, unknown> = {};
+  for (const status of statuses) {
+    out[status] = {
+      description: PROBLEM_DESCRIPTIONS[status] ?? 'Problem',
+      content: { 'application/problem+json': { schema: ref(Problem) } },
+    };
+  }
+  return out;
+}
+
+const PROBLEM_DESCRIPTIONS: Record<number, string> = {
+  400: 'Malformed request: a field is missing, has the wrong type or cannot be parsed',
+  401: 'An API key is required',
+  403: 'The API key lacks the needed scope',
+  404: 'Not found',
+  409: 'Conflict',
+  412: 'The If-Match ETag is stale',
+  413: 'Body too large',
+  415: 'Unsupported media type',
+  422: 'Well-formed but physically impossible or unanswerable request',
+  428: 'If-Match is required to change an existing resource',
+  503: 'Overloaded; retry later',
+};

@@ -1,0 +1,8 @@
+/** Every shared schema, registered once with app.addSchema (order: dependencies first). */
+import type { TSchema } from 'typebox';
+import { Amplifier, AmplifierList } from './amplifier.ts';
+import { Analysis } from './analysis.ts';
+import { CIRCUIT_SCHEMAS } from './circuit.ts';
+import { SHARED_SCHEMAS } from './common.ts';
+
+export const REGISTERED_SCHEMAS: TSchema[] = [...SHARED_SCHEMAS, ...CIRCUIT_SCHEMAS, Analysis, Amplifier, AmplifierList];

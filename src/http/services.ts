@@ -1,0 +1,22 @@
+/** What routes need besides the request: the amplifier directory, the store, the key ring. */
+import type { Store } from '../store/index.ts';
+import type { AmplifierDirectory } from './amplifier-directory.ts';
+import type { ApiKeyRing } from './auth/api-keys.ts';
+import type { Metrics } from './metrics.ts';
+
+export interface Services {
+  amplifiers: AmplifierDirectory;
+  store: Store;
+  keys: ApiKeyRing;
+  metrics: Metrics;
+}
+
+declare module 'fastify' {
+  interface FastifyInstance {
+    services: Services;
+  }
+  interface FastifyContextConfig {
+    /** Scope a route needs when API keys are configured; 'none' for health and docs. */
+    scope?: 'none' | 'read' | 'write';
+  }
+}

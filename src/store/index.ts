@@ -1,0 +1,17 @@
+export { StoreError, isStoreError, type StoreErrorCode } from './errors.ts';
+export { DOCUMENT_ID_PATTERN, DOCUMENT_ID_PATTERN_SOURCE, isValidDocumentId } from './ids.ts';
+export { documentEtag, etagMatches } from './etag.ts';
+export { DEFAULT_DATABASE_PATH, MEMORY_DATABASE_PATH, resolveDatabasePath } from './db-path.ts';
+export { MIGRATIONS, applyMigrations, type Migration } from './migrations.ts';
+export { openSqliteStore, type SqliteStore, type SqliteStoreOptions } from './sqlite-store.ts';
+export type {
+  AmplifierBody,
+  CatalogueBody,
+  DocumentBody,
+  DocumentCollection,
+  DocumentSummary,
+  PutOptions,
+  PutResult,
+  Store,
+  StoredDocument,
+} from './types.ts';

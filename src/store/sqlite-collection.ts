@@ -1,0 +1,240 @@
+import { randomBytes } from 'node:crypto';
+import type Database from 'better-sqlite3';
+import { StoreError } from './errors.ts';
+import { documentEtag, etagMatches } from './etag.ts';
+import { isValidDocumentId } from './ids.ts';
+import type { DocumentBody, DocumentCollection, DocumentSummary, PutOptions, PutResult, StoredDocument } from './types.ts';
+
+interface DocumentRow {
+  id: string;
+  incarnation: string;
+  version: number;
+  body: string;
+  created_at: string;
+  updated_at: string;
+}
+
+type SummaryRow = Omit<DocumentRow, 'body'> & { body_bytes: number };
+
+/** One collection (catalogues, amplifiers...) as rows of the shared `documents` table. */
+export class SqliteDocumentCollection<T extends DocumentBody> implements DocumentCollection<T> {
+  private readonly db: Database.Database;
+  private readonly collection: string;
+  private readonly selectOne: Database.Statement<[string, string], DocumentRow>;
+  private readonly selectSummaries: Database.Statement<[string], SummaryRow>;
+  private readonly selectAll: Database.Statement<[string], DocumentRow>;
+  private readonly insertRow: Database.Statement<[string, string, string, string, string, string]>;
+  private readonly updateRow: Database.Statement<[string, string, string, string, number]>;
+  private readonly deleteRow: Database.Statement<[string, string]>;
+  private readonly putTransaction: (id: string, bodyText: string, expectedEtag: string | undefined, createOnly: boolean) => PutResult<T>;
+  private readonly deleteTransaction: (id: string, expectedEtag: string | undefined) => void;
+
+  constructor(db: Database.Database, collection: string) {
+    this.db = db;
+    this.collection = collection;
+    const columns = 'id, incarnation, version, created_at, updated_at';
+    this.selectOne = db.prepare(`SELECT ${columns}, body FROM documents WHERE collection = ? AND id = ?`);
+    this.selectSummaries = db.prepare(
+      `SELECT ${columns}, octet_length(body) AS body_bytes FROM documents WHERE collection = ? ORDER BY id`,
+    );
+    this.selectAll = db.prepare(`SELECT ${columns}, body FROM documents WHERE collection = ? ORDER BY id`);
+    this.insertRow = db.prepare(
+      `INSERT INTO documents (collection, id, incarnation, version, body, created_at, updated_at)
+       VALUES (?, ?, ?, 1, ?, ?, ?)`,
+    );
+    this.updateRow = db.prepare(
+      `UPDATE documents SET body = ?, updated_at = ?, version = version + 1
+       WHERE collection = ? AND id = ? AND version = ?`,
+    );
+    this.deleteRow = db.prepare('DELETE FROM documents WHERE collection = ? AND id = ?');
+
+    // IMMEDIATE takes the write lock before the read, so the ETag we check is
+    // still current when we write: a second writer waits (busy_timeout) and then
+    // sees the new version, failing its precondition. DEFERRED would let both
+    // read the same version and one fail late with SQLITE_BUSY instead.
+    const put = db.transaction((id: string, bodyText: string, expectedEtag: string | undefined, createOnly: boolean) =>
+      this.putLocked(id, bodyText, expectedEtag, createOnly),
+    );
+    this.putTransaction = (...args) => put.immediate(...args);
+    const remove = db.transaction((id: string, expectedEtag: string | undefined) => this.deleteLocked(id, expectedEtag));
+    this.deleteTransaction = (...args) => remove.immediate(...args);
+  }
+
+  get(id: string): StoredDocument<T> | undefined {
+    if (!isValidDocumentId(id)) return undefined;
+    const row = withSqliteErrors(() => this.selectOne.get(this.collection, id));
+    return row === undefined ? undefined : this.decode(row);
+  }
+
+  list(): DocumentSummary[] {
+    const rows = withSqliteErrors(() => this.selectSummaries.all(this.collection));
+    return rows.map((row) => ({ ...this.meta(row), bodyBytes: row.body_bytes }));
+  }
+
+  listWithBodies(): StoredDocument<T>[] {
+    const rows = withSqliteErrors(() => this.selectAll.all(this.collection));
+    return rows.map((row) => this.decode(row));
+  }
+
+  put(id: string, body: T, expectedEtag: string | undefined, options: PutOptions = {}): PutResult<T> {
+    this.assertId(id);
+    const bodyText = encodeBody(body);
+    return withSqliteErrors(() => this.putTransaction(id, bodyText, presentOrUndefined(expectedEtag), options.createOnly === true));
+  }
+
+  delete(id: string, expectedEtag: string | undefined): void {
+    if (!isValidDocumentId(id)) throw this.notFound(id);
+    withSqliteErrors(() => this.deleteTransaction(id, presentOrUndefined(expectedEtag)));
+  }
+
+  private putLocked(id: string, bodyText: string, expectedEtag: string | undefined, createOnly: boolean): PutResult<T> {
+    const existing = this.selectOne.get(this.collection, id);
+    const now = new Date().toISOString();
+    if (existing === undefined) {
+      if (expectedEtag !== undefined) {
+        // RFC 9110 §13.1.1: If-Match (even `*`) fails when there is no current representation.
+        throw new StoreError('precondition-failed', `${this.label(id)} does not exist, so If-Match cannot match`, {
+          collection: this.collection,
+          id,
+        });
+      }
+      const incarnation = randomBytes(8).toString('hex');
+      this.insertRow.run(this.collection, id, incarnation, bodyText, now, now);
+      return { outcome: 'created', doc: this.mustReadBack(id) };
+    }
+    const current = this.meta(existing);
+    if (createOnly) {
+      throw new StoreError('precondition-failed', `${this.label(id)} already exists`, {
+        collection: this.collection,
+        id,
+        currentEtag: current.etag,
+      });
+    }
+    this.checkPrecondition(id, expectedEtag, current.etag);
+    this.updateRow.run(bodyText, now, this.collection, id, existing.version);
+    return { outcome: 'updated', doc: this.mustReadBack(id) };
+  }
+
+  private deleteLocked(id: string, expectedEtag: string | undefined): void {
+    const existing = this.selectOne.get(this.collection, id);
+    if (existing === undefined) throw this.notFound(id);
+    this.checkPrecondition(id, expectedEtag, this.meta(existing).etag);
+    this.deleteRow.run(this.collection, id);
+  }
+
+  private checkPrecondition(id: string, expectedEtag: string | undefined, currentEtag: string): void {
+    if (expectedEtag === undefined) {
+      throw new StoreError(
+        'precondition-required',
+        `${this.label(id)} exists; send its current ETag in If-Match to change or delete it`,
+        { collection: this.collection, id },
+      );
+    }
+    if (!etagMatches(expectedEtag, currentEtag)) {
+      throw new StoreError('precondition-failed', `${this.label(id)} has changed since ETag ${expectedEtag}`, {
+        collection: this.collection,
+        id,
+        currentEtag,
+      });
+    }
+  }
+
+  private mustReadBack(id: string): StoredDocument<T> {
+    const row = this.selectOne.get(this.collection, id);
+    if (row === undefined) {
+      throw new StoreError('corrupt', `${this.label(id)} vanished inside its own write transaction`);
+    }
+    return this.decode(row);
+  }
+
+  private meta(row: Omit<DocumentRow, 'body'>): Omit<StoredDocument<T>, 'body'> {
+    if (!Number.isSafeInteger(row.version) || row.version < 1 || typeof row.incarnation !== 'string') {
+      throw new StoreError('corrupt', `${this.label(row.id)} has an unreadable version record`, {
+        collection: this.collection,
+        id: row.id,
+      });
+    }
+    return {
+      id: row.id,
+      version: row.version,
+      etag: documentEtag(this.collection, row.id, row.incarnation, row.version),
+      createdAt: row.created_at,
+      updatedAt: row.updated_at,
+    };
+  }
+
+  private decode(row: DocumentRow): StoredDocument<T> {
+    let body: unknown;
+    try {
+      body = JSON.parse(row.body);
+    } catch (cause) {
+      throw new StoreError('corrupt', `${this.label(row.id)} holds a body that is not valid JSON`, {
+        collection: this.collection,
+        id: row.id,
+      }, { cause });
+    }
+    if (!isPlainObject(body)) {
+      throw new StoreError('corrupt', `${this.label(row.id)} holds a body that is not a JSON object`, {
+        collection: this.collection,
+        id: row.id,
+      });
+    }
+    return { ...this.meta(row), body: body as T };
+  }
+
+  private assertId(id: string): void {
+    if (!isValidDocumentId(id)) {
+      throw new StoreError('invalid-id', `document id must match ^[a-z0-9][a-z0-9._-]{0,63}$`, {
+        collection: this.collection,
+      });
+    }
+  }
+
+  private notFound(id: string): StoreError {
+    return new StoreError('not-found', `${this.label(id)} does not exist`, { collection: this.collection, id });
+  }
+
+  private label(id: string): string {
+    return `${this.collection}/${id}`;
+  }
+}
+
+function presentOrUndefined(etag: string | undefined): string | undefined {
+  // An empty If-Match header is treated as absent rather than as a tag that never matches.
+  return etag === undefined || etag.trim() === '' ? undefined : etag;
+}
+
+function isPlainObject(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+function encodeBody(body: unknown): string {
+  // The HTTP layer validates bodies; this only stops programming errors from
+  // storing something that does not read back as an object.
+  if (!isPlainObject(body)) throw new TypeError('document body must be a JSON object');
+  return JSON.stringify(body);
+}
+
+/**
+ * Turn SQLite lock and corruption failures into StoreError; pass StoreError and
+ * everything else through unchanged.
+ */
+export function withSqliteErrors<R>(work: () => R): R {
+  try {
+    return work();
+  } catch (error) {
+    if (error instanceof StoreError) throw error;
+    const code = (error as { code?: unknown }).code;
+    if (typeof code === 'string') {
+      if (code.startsWith('SQLITE_BUSY') || code.startsWith('SQLITE_LOCKED')) {
+        throw new StoreError('conflict', 'the database stayed locked by another writer past busy_timeout; retry', {
+          sqliteCode: code,
+        }, { cause: error });
+      }
+      if (code.startsWith('SQLITE_CORRUPT') || code === 'SQLITE_NOTADB') {
+        throw new StoreError('corrupt', `the database file is damaged (${code})`, { sqliteCode: code }, { cause: error });
+      }
+    }
+    throw error;
+  }
+}

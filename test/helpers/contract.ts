@@ -1,0 +1,61 @@
+/**
+ * Contract checking against the generated OpenAPI document: every response a
+ * test sees can be validated against the schema the document declares for that
+ * route, status and media type (Ajv 2020-12, resolving $refs into the document).
+ */
+import Ajv2020 from 'ajv/dist/2020.js';
+import addFormats from 'ajv-formats';
+import type { LightMyRequestResponse } from 'fastify';
+import { expect } from 'vitest';
+import { generateOpenApiDocument } from '../../src/http/openapi-document.ts';
+
+type Doc = { paths: Record<string, Record<string, { responses: Record<string, { content?: Record<string, { schema: unknown }> }> }>> };
+
+let docPromise: Promise<Doc> | undefined;
+let ajv: InstanceType<typeof Ajv2020> | undefined;
+
+export function openApiDocument(): Promise<Doc> {
+  docPromise ??= generateOpenApiDocument().then((s) => JSON.parse(s) as Doc);
+  return docPromise;
+}
+
+async function validator() {
+  if (!ajv) {
+    const doc = await openApiDocument();
+    ajv = new Ajv2020({ strict: false, allErrors: true });
+    (addFormats as unknown as (a: unknown) => void)(ajv);
+    ajv.addSchema(doc as object, 'openapi');
+  }
+  return ajv;
+}
+
+/** OpenAPI path template for a fastify route url ("/v1/amplifiers/:id" -> "/v1/amplifiers/{id}"). */
+export function openApiPath(route: string): string {
+  return route.replace(/:([A-Za-z0-9_]+)/g, '{$1}');
+}
+
+/**
+ * Asserts the response matches the document: the route and status are declared,
+ * the media type is declared for that status, and a JSON body validates.
+ */
+export async function expectContract(res: LightMyRequestResponse, method: string, route: string): Promise<void> {
+  const doc = await openApiDocument();
+  const path = openApiPath(route);
+  const op = doc.paths[path]?.[method.toLowerCase()];
+  expect(op, `${method} ${path} is not in the OpenAPI document`).toBeDefined();
+  const status = String(res.statusCode);
+  const declared = op!.responses[status];
+  expect(declared, `${method} ${path} does not declare status ${status}`).toBeDefined();
+  const mediaType = String(res.headers['content-type'] ?? '').split(';')[0].trim();
+  const content = declared.content ?? {};
+  expect(Object.keys(content), `${method} ${path} ${status} does not declare ${mediaType}`).toContain(mediaType);
+  if (mediaType.endsWith('json')) {
+    const pointer = `openapi#/paths/${path.replace(/~/g, '~0').replace(/\//g, '~1')}/${method.toLowerCase()}/responses/${status}/content/${mediaType.replace(/\//g, '~1')}/schema`;
+    const v = await validator();
+    const validate = v.getSchema(pointer);
+    expect(validate, `no schema at ${pointer}`).toBeDefined();
+    const body = res.json();
+    const ok = validate!(body);
+    expect(ok, `${method} ${path} ${status} body violates the contract: ${JSON.stringify(validate!.errors)}`).toBe(true);
+  }
+}
