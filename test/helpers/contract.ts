@@ -3,16 +3,19 @@
  * test sees can be validated against the schema the document declares for that
  * route, status and media type (Ajv 2020-12, resolving $refs into the document).
  */
-import Ajv2020 from 'ajv/dist/2020.js';
+import Ajv2020Module from 'ajv/dist/2020.js';
 import addFormats from 'ajv-formats';
 import type { LightMyRequestResponse } from 'fastify';
 import { expect } from 'vitest';
 import { generateOpenApiDocument } from '../../src/http/openapi-document.ts';
 
+// ajv ships CommonJS: under NodeNext the class is the default export's `default`.
+const Ajv2020 = (Ajv2020Module as unknown as { default: typeof Ajv2020Module.default }).default ?? Ajv2020Module;
+
 type Doc = { paths: Record<string, Record<string, { responses: Record<string, { content?: Record<string, { schema: unknown }> }> }>> };
 
 let docPromise: Promise<Doc> | undefined;
-let ajv: InstanceType<typeof Ajv2020> | undefined;
+let ajv: InstanceType<typeof Ajv2020Module.default> | undefined;
 
 export function openApiDocument(): Promise<Doc> {
   docPromise ??= generateOpenApiDocument().then((s) => JSON.parse(s) as Doc);

@@ -1,0 +1,81 @@
+/** Operational endpoints and generic HTTP behaviour. */
+import type { FastifyInstance } from 'fastify';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { expectContract } from '../helpers/contract.ts';
+import { testApp } from '../helpers/app.ts';
+
+let app: FastifyInstance;
+beforeAll(async () => {
+  app = await testApp();
+});
+afterAll(async () => app.close());
+
+describe('system endpoints', () => {
+  it('GET /healthz and /readyz', async () => {
+    const h = await app.inject({ method: 'GET', url: '/healthz' });
+    expect(h.json()).toEqual({ status: 'ok' });
+    await expectContract(h, 'GET', '/healthz');
+    const r = await app.inject({ method: 'GET', url: '/readyz' });
+    expect(r.statusCode).toBe(200);
+    expect(r.json().checks.store).toBe(true);
+    await expectContract(r, 'GET', '/readyz');
+  });
+
+  it('GET /metrics is Prometheus text exposition format with request counters', async () => {
+    await app.inject({ method: 'GET', url: '/healthz' });
+    const m = await app.inject({ method: 'GET', url: '/metrics' });
+    expect(m.headers['content-type']).toMatch(/^text\/plain/);
+    expect(m.body).toMatch(/# TYPE tickwright_http_requests_total counter/);
+    expect(m.body).toMatch(/tickwright_http_requests_total\{method="GET",route="\/healthz",status="200"\} \d+/);
+    // Every non-comment line is "name{labels} value" or "name value".
+    for (const line of m.body.trim().split('\n').filter((l) => !l.startsWith('#'))) {
+      expect(line).toMatch(/^[a-z_]+(\{[^}]*\})? -?[0-9.e+-]+$/);
+    }
+    await expectContract(m, 'GET', '/metrics');
+  });
+
+  it('serves the contract at /openapi.json and the docs at /docs', async () => {
+    const doc = await app.inject({ method: 'GET', url: '/openapi.json' });
+    expect(doc.json().openapi).toBe('3.1.0');
+    const docs = await app.inject({ method: 'GET', url: '/docs' });
+    expect([200, 302]).toContain(docs.statusCode);
+  });
+
+  it('unknown path -> 404 problem; wrong method -> 405 with Allow', async () => {
+    const nf = await app.inject({ method: 'GET', url: '/v1/nothing-here' });
+    expect(nf.statusCode).toBe(404);
+    expect(nf.headers['content-type']).toMatch(/^application\/problem\+json/);
+    const na = await app.inject({ method: 'DELETE', url: '/v1/analyze' });
+    expect(na.statusCode).toBe(405);
+    expect(na.headers.allow).toBe('POST');
+    expect(na.json().status).toBe(405);
+  });
+
+  it('echoes a caller-supplied request id', async () => {
+    const res = await app.inject({ method: 'GET', url: '/healthz', headers: { 'x-request-id': 'trace-abc-123' } });
+    expect(res.headers['x-request-id']).toBe('trace-abc-123');
+  });
+});
+
+describe('amplifier table', () => {
+  it('lists ideal plus at least seven technology-class archetypes, every figure documented as class-typical', async () => {
+    const res = await app.inject({ method: 'GET', url: '/v1/amplifiers' });
+    await expectContract(res, 'GET', '/v1/amplifiers');
+    const { amplifiers } = res.json();
+    expect(amplifiers.find((a: { id: string }) => a.id === 'ideal')).toBeDefined();
+    const archetypes = amplifiers.filter((a: { figuresBasis: string }) => a.figuresBasis === 'class-typical');
+    expect(archetypes.length).toBeGreaterThanOrEqual(7);
+    expect(new Set(archetypes.map((a: { technologyClass: string }) => a.technologyClass)).size).toBe(archetypes.length);
+    expect(archetypes.some((a: { outputStage: string }) => a.outputStage === 'open-drain')).toBe(true);
+    expect(archetypes.some((a: { differentialClampV: number | null }) => a.differentialClampV !== null)).toBe(true);
+  });
+
+  it('GET /v1/amplifiers/{id}: limits that do not exist are null; unknown id -> 404', async () => {
+    const ideal = await app.inject({ method: 'GET', url: '/v1/amplifiers/ideal' });
+    await expectContract(ideal, 'GET', '/v1/amplifiers/:id');
+    expect(ideal.json().slewRateVPerS).toBeNull();
+    const missing = await app.inject({ method: 'GET', url: '/v1/amplifiers/not-a-part' });
+    expect(missing.statusCode).toBe(404);
+    await expectContract(missing, 'GET', '/v1/amplifiers/:id');
+  });
+});
