@@ -23,3 +23,4 @@ export { capacitanceChangeAt, parseDielectric } from './dielectric.ts';
 export type { CapacitanceChange, Dielectric, DielectricFamily } from './dielectric.ts';
 export { parseBomValueText } from './bom-value-text.ts';
 export type { BomValueText } from './bom-value-text.ts';
+export * from './catalogue.ts';

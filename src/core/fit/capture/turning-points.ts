@@ -1,0 +1,101 @@
+import { timeAt, clockLength } from './sample-clock.ts';
+import type { SampleClock } from './sample-clock.ts';
+
+/**
+ * Turning points (local maxima and minima) of the capacitor voltage, used as
+ * segment boundaries when no output channel was captured. Peak detection with
+ * hysteresis (common practice): an extreme is only accepted once the waveform
+ * has moved away from it by `hysteresisV`, so noise ripples on a slope do not
+ * count. A turning point is also only accepted when the waveform had come at
+ * least `hysteresisV` towards it beforehand, which drops the record's first
+ * sample (or a noise wiggle near it) posing as an extreme.
+ */
+export interface TurningPoint {
+  kind: 'max' | 'min';
+  index: number;
+  timeS: number;
+  valueV: number;
+}
+
+export interface TurningPointOptions {
+  /** Required excursion, V. Default: `hysteresisFraction` of the record's range. */
+  hysteresisV?: number;
+  /** Default 0.25 of (max - min): far above noise, well below the swing between switching levels. */
+  hysteresisFraction?: number;
+}
+
+export function findTurningPoints(values: Float64Array, clock: SampleClock, options: TurningPointOptions = {}): TurningPoint[] {
+  const n = Math.min(values.length, clockLength(clock));
+  const out: TurningPoint[] = [];
+  if (n < 3) return out;
+  let h = options.hysteresisV;
+  if (h === undefined) {
+    let minV = Infinity;
+    let maxV = -Infinity;
+    for (let i = 0; i < n; i++) {
+      const v = values[i];
+      if (v < minV) minV = v;
+      if (v > maxV) maxV = v;
+    }
+    h = (options.hysteresisFraction ?? 0.25) * (maxV - minV);
+  }
+  if (!(h > 0)) return out;
+
+  const push = (kind: 'max' | 'min', index: number): void => {
+    out.push({ kind, index, timeS: timeAt(clock, index), valueV: values[index] });
+  };
+
+  // mode 0: direction unknown; +1: heading for a maximum; -1: heading for a minimum.
+  let mode = 0;
+  let maxV = values[0];
+  let maxI = 0;
+  let minV = values[0];
+  let minI = 0;
+  for (let i = 1; i < n; i++) {
+    const v = values[i];
+    if (mode === 0) {
+      if (v > maxV) {
+        maxV = v;
+        maxI = i;
+      }
+      if (v < minV) {
+        minV = v;
+        minI = i;
+      }
+      if (v < maxV - h) {
+        // Falling now. The running maximum is a true peak only if the
+        // waveform rose by h into it (its minimum so far lies before it).
+        if (minI < maxI && maxV - minV >= h) push('max', maxI);
+        mode = -1;
+        minV = v;
+        minI = i;
+      } else if (v > minV + h) {
+        if (maxI < minI && maxV - minV >= h) push('min', minI);
+        mode = 1;
+        maxV = v;
+        maxI = i;
+      }
+    } else if (mode === 1) {
+      if (v > maxV) {
+        maxV = v;
+        maxI = i;
+      } else if (v < maxV - h) {
+        push('max', maxI);
+        mode = -1;
+        minV = v;
+        minI = i;
+      }
+    } else {
+      if (v < minV) {
+        minV = v;
+        minI = i;
+      } else if (v > minV + h) {
+        push('min', minI);
+        mode = 1;
+        maxV = v;
+        maxI = i;
+      }
+    }
+  }
+  return out;
+}

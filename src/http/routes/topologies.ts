@@ -1,0 +1,53 @@
+/** GET /v1/topologies: which circuits the service knows and the part roles each needs. */
+import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
+import { Type } from 'typebox';
+import { TOPOLOGIES } from '../../core/index.ts';
+import { problemResponses } from '../schemas/common.ts';
+
+const Role = Type.Object(
+  {
+    role: Type.String(),
+    kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor')]),
+    required: Type.Boolean(),
+    description: Type.String(),
+  },
+  { additionalProperties: false },
+);
+
+const TopologyList = Type.Object(
+  {
+    topologies: Type.Array(
+      Type.Object(
+        {
+          id: Type.String(),
+          description: Type.String(),
+          needsOpenDrain: Type.Boolean(),
+          roles: Type.Array(Role),
+        },
+        { additionalProperties: false },
+      ),
+    ),
+  },
+  { additionalProperties: false },
+);
+
+export const topologyRoutes: FastifyPluginAsyncTypebox = async (app) => {
+  app.get(
+    '/v1/topologies',
+    {
+      schema: {
+        tags: ['analysis'],
+        summary: 'List supported topologies and their part roles',
+        response: { 200: TopologyList, ...problemResponses(401, 403) },
+      },
+    },
+    async () => ({
+      topologies: TOPOLOGIES.map((t) => ({
+        id: t.id,
+        description: t.description,
+        needsOpenDrain: t.needsOpenDrain,
+        roles: Object.entries(t.roles).map(([role, spec]) => ({ role, kind: spec.kind, required: spec.required, description: spec.description })),
+      })),
+    }),
+  );
+};
