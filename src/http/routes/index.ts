@@ -3,5 +3,6 @@ import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import { amplifierReadRoutes } from './amplifiers.ts';
 import { analyzeRoutes } from './analyze.ts';
 import { systemRoutes } from './system.ts';
+import { topologyRoutes } from './topologies.ts';
 
-export const ROUTES: FastifyPluginAsyncTypebox[] = [systemRoutes, analyzeRoutes, amplifierReadRoutes];
+export const ROUTES: FastifyPluginAsyncTypebox[] = [systemRoutes, analyzeRoutes, topologyRoutes, amplifierReadRoutes];
