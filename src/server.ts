@@ -6,17 +6,12 @@
 import closeWithGrace from 'close-with-grace';
 import { configFromEnv } from './config.ts';
 import { buildApp } from './http/app.ts';
+import { serviceLoggerOptions } from './http/logger-options.ts';
 
 const config = configFromEnv();
 const app = await buildApp({
   config,
-  logger: {
-    level: config.logLevel,
-    redact: {
-      paths: ['req.headers.authorization', 'req.headers["x-api-key"]', 'req.headers.cookie'],
-      censor: '[redacted]',
-    },
-  },
+  logger: serviceLoggerOptions(config.logLevel),
 });
 
 closeWithGrace({ delay: 10_000 }, async ({ signal, err }) => {

@@ -49,8 +49,14 @@ export async function expectContract(res: LightMyRequestResponse, method: string
   const status = String(res.statusCode);
   const declared = op!.responses[status];
   expect(declared, `${method} ${path} does not declare status ${status}`).toBeDefined();
-  const mediaType = String(res.headers['content-type'] ?? '').split(';')[0].trim();
   const content = declared.content ?? {};
+  // 204 and 304 carry no body (RFC 9110 §15.3.5, §15.4.5): the document must not promise one.
+  if (res.statusCode === 204 || res.statusCode === 304) {
+    expect(res.body, `${method} ${path} ${status} must have an empty body`).toBe('');
+    expect(Object.keys(content), `${method} ${path} ${status} declares a body`).toEqual([]);
+    return;
+  }
+  const mediaType = String(res.headers['content-type'] ?? '').split(';')[0].trim();
   expect(Object.keys(content), `${method} ${path} ${status} does not declare ${mediaType}`).toContain(mediaType);
   if (mediaType.endsWith('json')) {
     const pointer = `openapi#/paths/${path.replace(/~/g, '~0').replace(/\//g, '~1')}/${method.toLowerCase()}/responses/${status}/content/${mediaType.replace(/\//g, '~1')}/schema`;

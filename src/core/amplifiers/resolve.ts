@@ -31,10 +31,12 @@ export function resolveAmplifier(
     base = lookup(spec.base);
     if (!base) throw new CoreError('unknown-reference', `No amplifier with id '${spec.base}' to use as base`, `${pointer}/base`);
   }
-  const figures = { ...(base ?? IDEAL_FIGURES) } as AmplifierFigures;
+  // Copy only the figures from the base: its identity (id, name, basis) must not leak into an inline model.
+  const start: AmplifierFigures = base ?? IDEAL_FIGURES;
+  const figures = {} as Record<string, unknown>;
   for (const key of FIGURE_KEYS) {
     const value = spec[key];
-    if (value !== undefined) (figures as unknown as Record<string, unknown>)[key] = value;
+    figures[key] = value !== undefined ? value : start[key];
   }
   const model: AmplifierModel = {
     id: 'inline',
@@ -42,7 +44,7 @@ export function resolveAmplifier(
     technologyClass: base?.technologyClass ?? 'caller-supplied',
     description: base ? `Inline figures over the '${base.id}' archetype` : 'Inline figures; omitted fields are ideal',
     figuresBasis: 'caller-supplied',
-    ...figures,
+    ...(figures as unknown as AmplifierFigures),
   };
   validateFigures(model, pointer);
   return model;

@@ -1,5 +1,6 @@
 /** Amplifier records as the API shows them: limits that do not exist are null. */
 import { Type } from 'typebox';
+import { AmplifierId, amplifierFigureProperties } from './common.ts';
 
 const Nullable = (description: string) => Type.Union([Type.Number(), Type.Null()], { description });
 
@@ -33,3 +34,18 @@ export const Amplifier = Type.Object(
 );
 
 export const AmplifierList = Type.Object({ amplifiers: Type.Array(Type.Unsafe(Type.Ref('Amplifier'))) }, { $id: 'AmplifierList', additionalProperties: false });
+
+/**
+ * What a caller PUTs to register an amplifier. Omitted figures are ideal, or
+ * taken from `base` when it names a built-in archetype; limits are null for "none".
+ */
+export const AmplifierRegistration = Type.Object(
+  {
+    name: Type.String({ minLength: 1, maxLength: 120 }),
+    technologyClass: Type.Optional(Type.String({ maxLength: 120, description: 'Technology class in words' })),
+    description: Type.Optional(Type.String({ maxLength: 2000 })),
+    base: Type.Optional(AmplifierId),
+    ...amplifierFigureProperties,
+  },
+  { $id: 'AmplifierRegistration', additionalProperties: false, description: 'A caller-registered amplifier model' },
+);

@@ -114,7 +114,8 @@ export const SHARED_SCHEMAS: TSchema[] = [ComponentValue, Supply, InlineAmplifie
 /** Error responses for a route, all as application/problem+json. */
 export function problemResponses(...statuses: number[]) {
   const out: Record<number, unknown> = {};
-  for (const status of statuses) {
+  // Any route can shed load with 503 (event-loop pressure or shutdown), so every route declares it.
+  for (const status of [...new Set([...statuses, 503])]) {
     out[status] = {
       description: PROBLEM_DESCRIPTIONS[status] ?? 'Problem',
       content: { 'application/problem+json': { schema: ref(Problem) } },

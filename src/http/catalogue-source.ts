@@ -1,0 +1,72 @@
+/**
+ * Stored catalogue bodies -> the core's Catalogue (values in SI base units,
+ * dielectric codes canonical). The same reading validates a PUT before it is
+ * stored and serves design/snap later, so what was accepted is what is used.
+ */
+import { CoreError } from '../core/errors.ts';
+import { parseComponentValue, parseDielectric, type Catalogue, type CataloguePart } from '../core/parts/index.ts';
+import { StoreError } from '../store/index.ts';
+import type { CataloguePartBody, CatalogueWriteBody } from './schemas/catalogue.ts';
+import type { Services } from './services.ts';
+
+/**
+ * The checks a schema cannot express, with a JSON pointer into the body for the
+ * first failure: value strings parse for their kind, dielectric codes parse and
+ * sit on capacitors only, part numbers are unique. Throws CoreError('invalid-value').
+ */
+export function readCatalogueParts(body: CatalogueWriteBody, pointer = ''): CataloguePart[] {
+  if (!Array.isArray(body.parts)) throw new CoreError('invalid-value', 'parts must be an array', `${pointer}/parts`);
+  const seenPartNumbers = new Map<string, number>();
+  return body.parts.map((part, index) => {
+    const at = `${pointer}/parts/${index}`;
+    const earlier = seenPartNumbers.get(part.partNumber);
+    if (earlier !== undefined) {
+      throw new CoreError('invalid-value', `part number '${part.partNumber}' already appears at /parts/${earlier}`, `${at}/partNumber`);
+    }
+    seenPartNumbers.set(part.partNumber, index);
+    return readPart(part, at);
+  });
+}
+
+function readPart(part: CataloguePartBody, at: string): CataloguePart {
+  const out: CataloguePart = {
+    kind: part.kind,
+    value: parseComponentValue(part.value, part.kind, `${at}/value`),
+    tolerance: part.tolerance,
+    partNumber: part.partNumber,
+    status: part.status,
+  };
+  if (part.dielectric !== undefined) {
+    if (part.kind !== 'capacitor') {
+      throw new CoreError('invalid-value', 'a dielectric belongs to capacitors only', `${at}/dielectric`);
+    }
+    out.dielectric = parseDielectric(part.dielectric, `${at}/dielectric`).code;
+  }
+  if (part.tempcoPpmPerK !== undefined) out.tempcoPpmPerK = part.tempcoPpmPerK;
+  if (part.ratedVoltageV !== undefined) out.ratedVoltageV = part.ratedVoltageV;
+  if (part.package !== undefined) out.package = part.package;
+  return out;
+}
+
+/**
+ * A stored catalogue for the calculation core. Missing -> CoreError('unknown-reference')
+ * at `pointer` (the request field that named it). A stored body that no longer reads
+ * is the store's fault, not the caller's: StoreError('corrupt').
+ */
+export function getCatalogue(services: Services, id: string, pointer?: string): Catalogue {
+  const doc = services.store.catalogues.get(id);
+  if (!doc) throw new CoreError('unknown-reference', `No catalogue with id '${id}'`, pointer);
+  const body = doc.body as unknown as CatalogueWriteBody;
+  let parts: CataloguePart[];
+  try {
+    parts = readCatalogueParts(body);
+  } catch (error) {
+    if (error instanceof CoreError) {
+      throw new StoreError('corrupt', `stored catalogue '${id}' no longer reads: ${error.message}`, { id, pointer: error.pointer }, { cause: error });
+    }
+    throw error;
+  }
+  const catalogue: Catalogue = { id, parts };
+  if (typeof body.name === 'string') catalogue.name = body.name;
+  return catalogue;
+}

@@ -1,0 +1,105 @@
+/**
+ * Stored parts catalogues (a company's approved values list). The write form is
+ * what callers PUT; the record form adds the stored metadata and each part's
+ * value in SI base units as the service read it.
+ */
+import { Type, type Static } from 'typebox';
+import { DOCUMENT_ID_PATTERN_SOURCE } from '../../store/index.ts';
+import { ComponentValue, ref } from './common.ts';
+
+export const MAX_CATALOGUE_PARTS = 20_000;
+
+export const CatalogueId = Type.String({
+  pattern: DOCUMENT_ID_PATTERN_SOURCE,
+  description: 'Catalogue id: a lowercase letter or digit, then up to 63 of [a-z0-9._-]',
+});
+
+const partProperties = {
+  kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor')]),
+  value: ref(ComponentValue),
+  tolerance: Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, description: 'Tolerance as a fraction (0.01 = 1 %)' }),
+  tempcoPpmPerK: Type.Optional(
+    Type.Number({ minimum: -100_000, maximum: 100_000, description: 'Temperature coefficient, ppm/K (resistors; capacitors when known explicitly)' }),
+  ),
+  dielectric: Type.Optional(
+    Type.String({
+      minLength: 1,
+      maxLength: 40,
+      description: 'Capacitors only: EIA-198 ceramic code (C0G, X7R, U2J...) or a technology (PP, PET, PPS, PEN, mica, tantalum, electrolytic)',
+    }),
+  ),
+  ratedVoltageV: Type.Optional(Type.Number({ exclusiveMinimum: 0, description: 'Rated voltage, V' })),
+  partNumber: Type.String({ minLength: 1, maxLength: 80, description: "The owner's own part number; unique within the catalogue" }),
+  package: Type.Optional(Type.String({ minLength: 1, maxLength: 40, description: 'Package or case, e.g. 0603' })),
+  status: Type.Union([Type.Literal('preferred'), Type.Literal('active'), Type.Literal('not-for-new-designs')], {
+    description: 'not-for-new-designs parts are kept for BOM checks but never chosen by design or snap',
+  }),
+};
+
+export const CataloguePart = Type.Object(partProperties, { $id: 'CataloguePart', additionalProperties: false });
+
+export const CatalogueWrite = Type.Object(
+  {
+    name: Type.Optional(Type.String({ maxLength: 200 })),
+    description: Type.Optional(Type.String({ maxLength: 2000 })),
+    parts: Type.Array(ref(CataloguePart), { minItems: 1, maxItems: MAX_CATALOGUE_PARTS }),
+  },
+  { $id: 'CatalogueWrite', additionalProperties: false, description: 'A parts catalogue as written by its owner' },
+);
+
+export const CataloguePartRecord = Type.Object(
+  {
+    ...partProperties,
+    valueSi: Type.Number({ description: 'The value in SI base units as the service read it: ohm for resistors, farad for capacitors' }),
+  },
+  { $id: 'CataloguePartRecord', additionalProperties: false },
+);
+
+const storedMetadata = {
+  id: Type.String(),
+  version: Type.Integer({ minimum: 1, description: '1 on creation, +1 on every update' }),
+  etag: Type.String({ description: 'Same as the ETag header: send it in If-Match to update or delete' }),
+  createdAt: Type.String({ format: 'date-time' }),
+  updatedAt: Type.String({ format: 'date-time' }),
+};
+
+export const Catalogue = Type.Object(
+  {
+    ...storedMetadata,
+    name: Type.Optional(Type.String()),
+    description: Type.Optional(Type.String()),
+    parts: Type.Array(ref(CataloguePartRecord)),
+  },
+  { $id: 'Catalogue', additionalProperties: false, description: 'A stored parts catalogue' },
+);
+
+export const PartCounts = Type.Object(
+  {
+    total: Type.Integer(),
+    resistors: Type.Integer(),
+    capacitors: Type.Integer(),
+    notForNewDesigns: Type.Integer({ description: 'Parts with status not-for-new-designs (included in the totals)' }),
+  },
+  { additionalProperties: false },
+);
+
+export const CatalogueSummary = Type.Object(
+  {
+    ...storedMetadata,
+    name: Type.Optional(Type.String()),
+    partCounts: PartCounts,
+  },
+  { $id: 'CatalogueSummary', additionalProperties: false },
+);
+
+export const CatalogueList = Type.Object(
+  { catalogues: Type.Array(ref(CatalogueSummary)) },
+  { $id: 'CatalogueList', additionalProperties: false, description: 'Every stored catalogue, ordered by id, without its parts' },
+);
+
+export type CatalogueWriteBody = Static<typeof CatalogueWrite>;
+export type CataloguePartBody = Static<typeof CataloguePart>;
+export type CatalogueRecord = Static<typeof Catalogue>;
+export type CatalogueSummaryRecord = Static<typeof CatalogueSummary>;
+
+export const CATALOGUE_SCHEMAS = [CataloguePart, CatalogueWrite, CataloguePartRecord, Catalogue, CatalogueSummary, CatalogueList];
