@@ -58,6 +58,7 @@ describe('PUT /v1/amplifiers/{id}', () => {
 
     const read = await call('GET', '/v1/amplifiers/bench-comp-a');
     expect(read.statusCode).toBe(200);
+    expect(read.headers.etag).toBe(res.headers.etag); // GET hands out the tag a later If-Match needs
     expect(read.json()).toEqual(record);
     const list = await call('GET', '/v1/amplifiers');
     expect(list.json().amplifiers.filter((a: { id: string }) => a.id === 'bench-comp-a')).toEqual([record]);
@@ -148,5 +149,24 @@ describe('DELETE /v1/amplifiers/{id}', () => {
   it('refuses built-in ids with 409', async () => {
     const res = await call('DELETE', '/v1/amplifiers/comparator-push-pull-cmos', undefined, { 'if-match': '*' });
     expect(res.statusCode).toBe(409);
+  });
+});
+
+describe('inline amplifiers over a base archetype', () => {
+  it('keep their own identity: an inline model is caller-supplied, not the base', async () => {
+    const res = await app.inject({
+      method: 'POST',
+      url: '/v1/analyze',
+      payload: {
+        topology: 'split-supply',
+        supply: { positiveV: 12, negativeV: -12 },
+        amplifier: { base: 'bipolar-split-supply-general', outputHeadroomHighV: 2 },
+        parts: { rTiming: '10k', cTiming: '10n', rFeedback: '10k', rGround: '10k' },
+      },
+    });
+    expect(res.statusCode).toBe(200);
+    expect(res.json().amplifier.id).toBe('inline');
+    expect(res.json().amplifier.figuresBasis).toBe('caller-supplied');
+    expect(res.json().output.highV).toBeLessThan(10.01);
   });
 });

@@ -35,9 +35,14 @@ export const amplifierReadRoutes: FastifyPluginAsyncTypebox = async (app) => {
         response: { 200: ref(Amplifier), ...problemResponses(400, 401, 403, 404) },
       },
     },
-    async (request) => {
+    async (request, reply) => {
       const amp = app.services.amplifiers.get(request.params.id);
       if (!amp) throw new HttpProblem(404, 'not-found', `No amplifier with id '${request.params.id}'`);
+      // Registered amplifiers carry their store ETag so a caller can update or delete with If-Match.
+      if (!isBuiltInAmplifierId(amp.id)) {
+        const doc = app.services.store.amplifiers.get(amp.id);
+        if (doc) reply.header('etag', doc.etag);
+      }
       return amplifierRecord(amp);
     },
   );
