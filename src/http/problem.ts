@@ -135,7 +135,12 @@ export function errorHandler(error: FastifyError | Error, request: FastifyReques
     case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
       return sendProblem(
         reply,
-        problem(415, 'unsupported-media-type', `Content-Type '${request.headers['content-type'] ?? ''}' is not accepted here; send application/json`, instance),
+        problem(
+          415,
+          'unsupported-media-type',
+          `Content-Type '${request.headers['content-type'] ?? ''}' is not accepted by this route; see the request body media types in /openapi.json (application/json unless stated)`,
+          instance,
+        ),
       );
     case 'FST_ERR_CTP_EMPTY_JSON_BODY':
       return sendProblem(reply, problem(400, 'empty-body', 'The JSON body is empty', instance, [{ pointer: '/', detail: 'body is empty' }]));
