@@ -79,3 +79,24 @@ describe('amplifier table', () => {
     await expectContract(missing, 'GET', '/v1/amplifiers/:id');
   });
 });
+
+describe('load shedding', () => {
+  it('answers 503 problem+json with Retry-After while the event loop is blocked beyond the limit', async () => {
+    const busy = await testApp({ config: { maxEventLoopDelayMs: 20 } });
+    try {
+      // Block the loop well past the limit and past under-pressure's sampling interval.
+      const until = Date.now() + 1500;
+      while (Date.now() < until) {
+        /* busy */
+      }
+      await new Promise((r) => setTimeout(r, 20));
+      const res = await busy.inject({ method: 'GET', url: '/v1/amplifiers' });
+      expect(res.statusCode).toBe(503);
+      expect(res.headers['retry-after']).toBeDefined();
+      expect(res.headers['content-type']).toMatch(/^application\/problem\+json/);
+      await expectContract(res, 'GET', '/v1/amplifiers');
+    } finally {
+      await busy.close();
+    }
+  });
+});
