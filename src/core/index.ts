@@ -8,3 +8,29 @@ export * from './circuit/result.ts';
 export * from './circuit/checks.ts';
 export * from './circuit/analyze.ts';
 export { TOPOLOGIES, TOPOLOGY_IDS, findTopology } from './circuit/topologies/index.ts';
+export * from './bom/index.ts';
+export * from './design/index.ts';
+export {
+  analyzeTimeDomain,
+  simulateTimeDomain,
+  waveformOfPrepared,
+  checkWaveformOptions,
+  MAX_WAVEFORM_SAMPLES,
+  MAX_WAVEFORM_PERIODS,
+  CLAMP_RESISTANCE_OHM,
+  type WaveformOptions,
+  type WaveformSamples,
+  type WaveformResult,
+  type TimeDomainFigures,
+  type TimeDomainRun,
+} from './circuit/engine/index.ts';
+export { DEFAULT_EDGE_FRACTION, MAX_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, type EdgeTimes } from './circuit/frequency-ceiling.ts';
+export { DEFAULT_STEERING_DIODE } from './circuit/topologies/diode-steered.ts';
+export { compileClosedForm, EVALUATION_STATUS, OUTPUT_SLOT, OUTPUT_LENGTH, type ClosedFormEvaluator, type EvaluationStatus } from './circuit/fast-evaluator.ts';
+export {
+  runToleranceAnalysis,
+  MONTE_CARLO_SAMPLE_CAP,
+  TIME_DOMAIN_SAMPLE_CAP,
+  type ToleranceRequest,
+  type ToleranceResult,
+} from './tolerance/index.ts';

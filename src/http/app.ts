@@ -20,6 +20,7 @@ import { ROUTES } from './routes/index.ts';
 import { REGISTERED_SCHEMAS } from './schemas/index.ts';
 import type { Services } from './services.ts';
 import { storedAmplifierSource } from './stored-amplifiers.ts';
+import { WorkerPool } from './workers/pool.ts';
 
 export const API_VERSION = '1.0.0';
 
@@ -49,9 +50,11 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
     amplifiers: new AmplifierDirectory(storedAmplifierSource(store)),
     keys: parseApiKeyConfig(config.apiKeys),
     metrics: new Metrics(),
+    workers: new WorkerPool({ threads: config.workerThreads }),
   };
   app.decorate('services', services);
   if (!options.store) app.addHook('onClose', async () => store.close());
+  app.addHook('onClose', async () => services.workers.close());
 
   app.setErrorHandler(errorHandler);
   installMethodAwareNotFound(app);
@@ -66,6 +69,9 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
 
   await app.register(underPressure, {
     maxEventLoopDelay: config.maxEventLoopDelayMs,
+    // under-pressure reads an interval with no loop samples (a blocked loop, e.g. start-up compiling the
+    // routes) as unbounded delay and sheds until the next sample: a short interval keeps that window small.
+    sampleInterval: 250,
     retryAfter: 5,
     exposeStatusRoute: false,
     customError: undefined,

@@ -8,6 +8,8 @@ import { hasDynamicLimits } from '../amplifiers/model.ts';
 import { CoreError } from '../errors.ts';
 import { CHECK_CODES, oscillationChecks, supplyChecks, type Check } from './checks.ts';
 import { closedFormOscillation } from './closed-form.ts';
+import { analyzeTimeDomain } from './engine/index.ts';
+import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck } from './frequency-ceiling.ts';
 import type { AnalysisResult, ModelName, OscillationFigures } from './result.ts';
 import { solveState, type StateModel } from './state-model.ts';
 import { findTopology, TOPOLOGY_IDS } from './topologies/index.ts';
@@ -19,11 +21,13 @@ export type ModelChoice = 'auto' | ModelName;
 
 export interface AnalyzeOptions {
   model?: ModelChoice;
+  /** Largest share of the period an edge may take before the design counts as slew-limited (0..0.5, default 0.05). */
+  edgeFractionLimit?: number;
 }
 
-/** A time-domain engine plugs in here (kept as a seam so the closed form has no dependency on it). */
+/** The time-domain model: the event-driven engine unless a caller registers another (tests, experiments). */
 export type TimeDomainAnalyzer = (prepared: PreparedCircuit) => OscillationFigures;
-let timeDomainAnalyzer: TimeDomainAnalyzer | undefined;
+let timeDomainAnalyzer: TimeDomainAnalyzer | undefined = analyzeTimeDomain;
 
 export function registerTimeDomainAnalyzer(fn: TimeDomainAnalyzer): void {
   timeDomainAnalyzer = fn;
@@ -76,6 +80,8 @@ export function chooseModel(circuit: Circuit, choice: ModelChoice = 'auto'): Mod
 }
 
 export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): AnalysisResult {
+  const edgeFraction = options.edgeFractionLimit ?? DEFAULT_EDGE_FRACTION;
+  checkEdgeFraction(edgeFraction);
   const prepared = prepareCircuit(circuit);
   const model = chooseModel(circuit, options.model);
   let figures: OscillationFigures;
@@ -102,5 +108,18 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
       message: 'Answered by the closed form: slew rate, recovery delay, current limit and input clamps are not modelled in this answer',
     });
   }
-  return { ...figures, checks };
+  // The ceiling is a property of the circuit/amplifier pair (delay + full swing at the slew rate);
+  // the check compares the edges of this answer (measured by the engine) with its period.
+  const estimated = nominalEdgeTimes(prepared);
+  const edges = figures.edges ?? estimated;
+  const ceilingHz = frequencyCeilingHz(estimated, edgeFraction);
+  const slewCheck = slewLimitedCheck(edges, figures.periodS, edgeFraction, ceilingHz);
+  if (slewCheck) checks.push(slewCheck);
+  return {
+    ...figures,
+    edges,
+    frequencyCeilingHz: Number.isFinite(ceilingHz) ? ceilingHz : null,
+    edgeFractionLimit: edgeFraction,
+    checks,
+  };
 }

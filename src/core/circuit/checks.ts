@@ -26,6 +26,7 @@ export const CHECK_CODES = {
   selv: 'selv-exceeded',
   storedEnergy: 'stored-energy',
   dynamicsApproximated: 'dynamics-approximated',
+  slewLimited: 'slew-limited',
 } as const;
 
 /** SELV limit for ripple-free DC in dry conditions (IEC 61140 / IEC 60364-4-41): 60 V. */
@@ -87,7 +88,8 @@ export function supplyChecks(supply: Supply, amplifier: AmplifierModel, capacita
 export function oscillationChecks(fig: OscillationFigures, ctx: CheckContext): Check[] {
   const checks: Check[] = [];
   const { amplifier, supply } = ctx;
-  const peakA = Math.max(fig.currents.outputPeakSourceA, fig.currents.outputPeakSinkA);
+  // When the engine models the limit, the output never exceeds it: judge what the network asked for.
+  const peakA = Math.max(fig.currents.outputPeakSourceA, fig.currents.outputPeakSinkA, fig.currentLimit?.demandPeakA ?? 0);
   if (peakA > amplifier.outputCurrentLimitA) {
     checks.push({
       code: CHECK_CODES.outputOverload,

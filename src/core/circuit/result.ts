@@ -51,8 +51,21 @@ export interface OscillationFigures {
   };
   /** Shift of the thresholds caused by input bias current through the decision-node resistance, V. */
   biasThresholdShiftV: number;
+  /** Edge durations, decision to output settled (delay + slew), s: measured by the time-domain engine, estimated otherwise. */
+  edges?: { riseTimeS: number; fallTimeS: number };
+  /** Time-domain engine only, when the output ran into its current limit during the cycle. */
+  currentLimit?: {
+    /** Share of the period spent current-limited (0..1). */
+    limitedFraction: number;
+    /** Largest current the network would have drawn from the voltage drive while limited, A. */
+    demandPeakA: number;
+  };
 }
 
 export interface AnalysisResult extends OscillationFigures {
+  /** Highest frequency at which the edges stay within edgeFractionLimit of the period, Hz (null: instant edges). */
+  frequencyCeilingHz?: number | null;
+  /** The edge fraction the ceiling and the slew-limited check use (0..0.5). */
+  edgeFractionLimit?: number;
   checks: Check[];
 }

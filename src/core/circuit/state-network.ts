@@ -17,7 +17,7 @@ export function buildStateNetwork(topology: TopologyDefinition, circuit: Circuit
   fixedV[NODE.negativeRail] = circuit.supply.negativeV;
   fixedV[NODE.loadReturn] = circuit.load ? circuit.load.returnV : 0;
 
-  const branches: Branch[] = topology.branches(circuit.parts, piece);
+  const branches: Branch[] = topology.branches(circuit.parts, piece, circuit.diode);
   const rOut = circuit.amplifier.outputResistanceOhm;
   let sourceNode: number;
   if (!piece.outputDriven) {

@@ -21,7 +21,7 @@ export const analyzeRoutes: FastifyPluginAsyncTypebox = async (app) => {
     },
     async (request) => {
       const circuit = circuitFromBody(request.body, app.services.amplifiers);
-      const result = analyzeCircuit(circuit, { model: request.body.model ?? 'auto' });
+      const result = analyzeCircuit(circuit, { model: request.body.model ?? 'auto', edgeFractionLimit: request.body.edgeFractionLimit });
       return {
         topology: circuit.topology,
         amplifier: { id: circuit.amplifier.id, name: circuit.amplifier.name, figuresBasis: circuit.amplifier.figuresBasis },

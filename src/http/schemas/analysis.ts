@@ -64,6 +64,30 @@ export const Analysis = Type.Object(
       { additionalProperties: false },
     ),
     biasThresholdShiftV: Type.Number({ description: 'Threshold shift from input bias current, V' }),
+    edges: Type.Optional(
+      Type.Object(
+        {
+          riseTimeS: Type.Number({ description: 'Decision to output settled high (recovery delay + slew), s' }),
+          fallTimeS: Type.Number({ description: 'Decision to output settled low, s' }),
+        },
+        { additionalProperties: false, description: 'Edge durations: measured by the time-domain engine, estimated from delay + swing/slew rate otherwise' },
+      ),
+    ),
+    currentLimit: Type.Optional(
+      Type.Object(
+        {
+          limitedFraction: Type.Number({ description: 'Share of the period the output spends in current limit (0..1)' }),
+          demandPeakA: Type.Number({ description: 'Largest current the network would have drawn from the voltage drive while limited, A' }),
+        },
+        { additionalProperties: false, description: 'Present when the time-domain engine saw the output run into its current limit' },
+      ),
+    ),
+    frequencyCeilingHz: Type.Optional(
+      Type.Union([Type.Number(), Type.Null()], {
+        description: 'Highest frequency at which both edges stay within edgeFractionLimit of the period, Hz (null: instant edges)',
+      }),
+    ),
+    edgeFractionLimit: Type.Optional(Type.Number({ description: 'Share of the period an edge may take before the slew-limited check fires' })),
     checks: Type.Array(ref(Check)),
   },
   { $id: 'Analysis', additionalProperties: true },

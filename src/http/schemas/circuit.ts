@@ -53,6 +53,14 @@ export const Circuit = Type.Object(
     load: Type.Optional(ref(OutputLoad)),
     diode: Type.Optional(ref(Diode)),
     model: Type.Optional(ModelChoice),
+    edgeFractionLimit: Type.Optional(
+      Type.Number({
+        exclusiveMinimum: 0,
+        maximum: 0.5,
+        default: 0.05,
+        description: 'Largest share of the period an edge (recovery delay + slew) may take before the design counts as slew-limited; also sets frequencyCeilingHz',
+      }),
+    ),
   },
   { $id: 'Circuit', additionalProperties: false },
 );

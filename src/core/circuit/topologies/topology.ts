@@ -4,7 +4,7 @@
  * stage, loads, bias currents — is common and added by the network builder.
  */
 import type { Branch } from '../network.ts';
-import type { PieceConfig } from '../types.ts';
+import type { DiodeModel, PieceConfig } from '../types.ts';
 
 export type PartKind = 'resistor' | 'capacitor';
 
@@ -26,8 +26,11 @@ export interface TopologyDefinition {
   diodeCount: number;
   /** True when the output stage must be open drain (the pull-up supplies the high level). */
   needsOpenDrain: boolean;
-  /** Passive branches for one linear piece. */
-  branches(parts: Readonly<Record<string, number>>, piece: PieceConfig): Branch[];
+  /** Passive branches for one linear piece (`diode`: the circuit's steering-diode model, when it gives one). */
+  branches(parts: Readonly<Record<string, number>>, piece: PieceConfig, diode?: DiodeModel): Branch[];
+  /** Labels of the branches that model each steering diode while it conducts, in diode order: each such
+   *  branch carries the forward drop as its EMF and its current must stay >= 0 (the engine watches it). */
+  diodeLabels?: readonly string[];
   /** The diode conduction that the closed-form (one piece per state) model assumes. */
   nominalDiodes?(state: PieceConfig['state']): boolean[];
 }

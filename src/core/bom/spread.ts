@@ -1,0 +1,211 @@
+/**
+ * The assembly's tolerance picture from the tolerance analysis
+ * (src/core/tolerance, runToleranceAnalysis): worst case over the corners and,
+ * when a minimum yield is asked for, Monte Carlo.
+ *
+ * Temperature is folded into each part's band before the analysis: a part
+ * whose value may move by ±t (tolerance) and by ±d over the temperature range
+ * enters as ±((1 + t)(1 + d) − 1). For the worst case this is exact when each
+ * part's temperature drift is an independent spread (resistor tempcos written
+ * as ±ppm/K, class I ceramics near 0 ppm/K, class II/III bands) and
+ * conservative otherwise (it ignores that a shared board temperature moves
+ * parts together, and takes the larger end of the range for every part). It
+ * keeps the analysis at one dimension per part plus the supply, so a batch of
+ * thousands stays fast; POST /v1/tolerance models temperature faithfully for
+ * a single design. The Monte Carlo yield draws each folded band with the
+ * analysis' default distribution.
+ *
+ * Drift d per line over the range (only when the assembly gives one):
+ * - capacitor with a dielectric: the largest change the dielectric's figures
+ *   allow at either end of the range (EIA-198 class I tempco, class II/III
+ *   band, film/electrolytic class-typical, see parts/dielectric.ts);
+ * - capacitor with an old tempco code only ("N750"): |tempco| × ΔT;
+ * - resistor with a tempco in the text or catalogue ("25ppm"): that × ΔT;
+ * - resistor with none: ±100 ppm/K × ΔT, a conservative figure for
+ *   general-purpose thick-film chips (common practice, from memory), reported
+ *   as tempco-assumed.
+ * ΔT is the larger distance of the range's ends from 25 °C (the reference
+ * temperature of tempcos and EIA-198 change figures).
+ *
+ * Always the closed form: microseconds per evaluation; the analysis checks say
+ * so (dynamics-approximated) when the amplifier's slew or delay would matter.
+ */
+import type { Circuit } from '../circuit/types.ts';
+import { CoreError } from '../errors.ts';
+import { capacitanceChangeAt, parseDielectric } from '../parts/dielectric.ts';
+import { REFERENCE_TEMPERATURE_C, runToleranceAnalysis, type ToleranceRequest } from '../tolerance/index.ts';
+import { BOM_RULES } from './codes.ts';
+import { at, ruleResult } from './rule.ts';
+import type { WorstCaseFigures, YieldFigures } from './rules/spec.ts';
+import type { BomAssembly, BomCheckOptions, BomLineReading, BomRuleResult, BomTemperatureRange } from './types.ts';
+
+/** Tempco magnitude assumed for a resistor that states none, ppm/K (common practice, from memory). */
+export const ASSUMED_RESISTOR_TEMPCO_PPM_PER_K = 100;
+
+/** Samples of a worst-case-only run: the analysis always draws some; one is the least. */
+const WORST_CASE_ONLY_SAMPLES = 1;
+
+export interface SpreadFigures {
+  worstCase: WorstCaseFigures;
+  yield?: YieldFigures;
+}
+
+export interface AssemblySpread {
+  worstCase?: WorstCaseFigures;
+  yield?: YieldFigures;
+  yieldSkippedBecause?: string;
+  rules: BomRuleResult[];
+}
+
+interface LineDrift {
+  /** Largest relative value change over the temperature range, fraction. */
+  drift: number;
+  withinRatedRange: boolean;
+  assumedTempco: boolean;
+}
+
+function deltaTemperatureK(range: BomTemperatureRange): number {
+  return Math.max(Math.abs(range.minC - REFERENCE_TEMPERATURE_C), Math.abs(range.maxC - REFERENCE_TEMPERATURE_C));
+}
+
+function lineDrift(line: BomLineReading, range: BomTemperatureRange): LineDrift {
+  const dT = deltaTemperatureK(range);
+  if (line.kind === 'resistor') {
+    const tempco = line.tempcoPpmPerK;
+    return { drift: Math.abs(tempco ?? ASSUMED_RESISTOR_TEMPCO_PPM_PER_K) * 1e-6 * dT, withinRatedRange: true, assumedTempco: tempco === undefined };
+  }
+  if (line.dielectricCode !== undefined) {
+    try {
+      const d = parseDielectric(line.dielectricCode);
+      const ends = [capacitanceChangeAt(d, range.minC), capacitanceChangeAt(d, range.maxC)];
+      const drift = Math.max(...ends.map((e) => Math.max(Math.abs(e.minFraction), Math.abs(e.maxFraction))));
+      return { drift, withinRatedRange: ends.every((e) => e.withinRatedRange), assumedTempco: false };
+    } catch {
+      // An unknown code was already reported by the dielectric rule; fall through to the tempco, if any.
+    }
+  }
+  return { drift: Math.abs(line.tempcoPpmPerK ?? 0) * 1e-6 * dT, withinRatedRange: true, assumedTempco: false };
+}
+
+/** The analysis request: one folded band per part, the supply band, the spec. */
+export function toleranceRequest(circuit: Circuit, lines: readonly BomLineReading[], assembly: BomAssembly, monteCarloSamples: number, seed: number): ToleranceRequest {
+  const tolerances: Record<string, number> = {};
+  for (const line of lines) {
+    const t = line.tolerance ?? 0;
+    const d = assembly.temperature ? lineDrift(line, assembly.temperature).drift : 0;
+    tolerances[line.role] = (1 + t) * (1 + d) - 1;
+  }
+  return {
+    circuit,
+    model: 'closed-form',
+    tolerances,
+    supplyTolerance: assembly.supply.tolerance,
+    monteCarlo: { samples: monteCarloSamples, seed },
+    spec: {
+      frequencyHz: assembly.spec.frequencyHz,
+      frequencyTolerance: assembly.spec.frequencyTolerance,
+      ...(assembly.spec.dutyMin !== undefined ? { dutyMin: assembly.spec.dutyMin } : {}),
+      ...(assembly.spec.dutyMax !== undefined ? { dutyMax: assembly.spec.dutyMax } : {}),
+    },
+  };
+}
+
+function temperatureRules(lines: readonly BomLineReading[], range: BomTemperatureRange | undefined): BomRuleResult[] {
+  if (!range) return [];
+  const rules: BomRuleResult[] = [];
+  for (const line of lines) {
+    const d = lineDrift(line, range);
+    if (d.assumedTempco) {
+      rules.push(
+        ruleResult(
+          BOM_RULES.tempcoAssumed,
+          `No temperature coefficient is stated for ${line.refdes}; ±${ASSUMED_RESISTOR_TEMPCO_PPM_PER_K} ppm/K is assumed over ${range.minC} to ${range.maxC} °C`,
+          { assumedTempcoPpmPerK: ASSUMED_RESISTOR_TEMPCO_PPM_PER_K, driftFraction: d.drift },
+          at(line),
+        ),
+      );
+    }
+    if (!d.withinRatedRange) {
+      rules.push(
+        ruleResult(
+          BOM_RULES.temperatureBeyondPartRating,
+          `${line.dielectricCode} is not rated over the whole ${range.minC} to ${range.maxC} °C range; its figures are extrapolated there`,
+          { dielectric: line.dielectricCode ?? null, minC: range.minC, maxC: range.maxC },
+          at(line),
+        ),
+      );
+    }
+  }
+  return rules;
+}
+
+/** Figures of one analysis run; identical designs in a batch share them through the cache. */
+function spreadFigures(request: ToleranceRequest, wantYield: boolean): SpreadFigures {
+  const run = runToleranceAnalysis(request);
+  const wc = run.worstCase;
+  const figures: SpreadFigures = {
+    worstCase: {
+      nominalFrequencyHz: run.nominal.frequencyHz,
+      nominalDutyCycle: run.nominal.dutyCycle,
+      frequencyMinHz: wc.frequencyMinHz,
+      frequencyMaxHz: wc.frequencyMaxHz,
+      dutyMin: wc.dutyMin,
+      dutyMax: wc.dutyMax,
+      method: wc.method,
+      cornersEvaluated: wc.cornersEvaluated,
+      latchedCorners: wc.latchedCorners,
+    },
+  };
+  if (wantYield && run.monteCarlo.yield !== null) {
+    figures.yield = { yield: run.monteCarlo.yield, samples: run.monteCarlo.samples, failedSamples: run.monteCarlo.latched, seed: run.monteCarlo.seed };
+  }
+  return figures;
+}
+
+/** What makes two analysis runs identical (the amplifier object is compared by identity through its id and figures). */
+function cacheKey(request: ToleranceRequest): string {
+  return JSON.stringify([request.circuit.topology, request.circuit.supply, request.circuit.parts, request.circuit.amplifier, request.tolerances, request.supplyTolerance, request.spec, request.monteCarlo]);
+}
+
+/** Most entries kept by a spread cache before it starts over (bounds a batch's memory). */
+export const SPREAD_CACHE_LIMIT = 2000;
+
+export function assemblySpread(
+  circuit: Circuit,
+  lines: readonly BomLineReading[],
+  assembly: BomAssembly,
+  options: BomCheckOptions,
+  cache?: Map<string, SpreadFigures | CoreError>,
+): AssemblySpread {
+  const wantYield = assembly.spec.minimumYield !== undefined && options.mode === 'full';
+  const request = toleranceRequest(circuit, lines, assembly, wantYield ? options.monteCarloSamples : WORST_CASE_ONLY_SAMPLES, options.seed);
+  const rules = temperatureRules(lines, assembly.temperature);
+  const key = cache ? cacheKey(request) : '';
+  let figures = cache?.get(key);
+  if (figures === undefined) {
+    try {
+      figures = spreadFigures(request, wantYield);
+    } catch (error) {
+      if (!(error instanceof CoreError)) throw error;
+      figures = error;
+    }
+    if (cache) {
+      if (cache.size >= SPREAD_CACHE_LIMIT) cache.clear();
+      cache.set(key, figures);
+    }
+  }
+  if (figures instanceof CoreError) {
+    rules.push(
+      ruleResult(BOM_RULES.circuitRejected, `The tolerance analysis refused this assembly: ${figures.message}`, {
+        coreCode: figures.code,
+        pointer: figures.pointer ?? null,
+        stage: 'tolerance',
+      }),
+    );
+    return { rules, yieldSkippedBecause: 'the tolerance analysis refused the assembly' };
+  }
+  const result: AssemblySpread = { rules, worstCase: figures.worstCase };
+  if (figures.yield) result.yield = figures.yield;
+  else result.yieldSkippedBecause = options.mode === 'worst-case' ? 'the request asked for worst case only (options.mode)' : 'not requested';
+  return result;
+}

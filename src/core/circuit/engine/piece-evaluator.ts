@@ -1,0 +1,164 @@
+/**
+ * Re-evaluates logged pieces after the walk: values, extremes, level crossings
+ * and integrals of any quantity affine in (v, s), all exact per piece.
+ */
+import type { ConfigCache } from './configs.ts';
+import { Kinematics } from './kinematics.ts';
+import { LOG, type PieceLog } from './piece-log.ts';
+import { AffineProbe, extremumTime, PieceEnds, solveBracket } from './root-solve.ts';
+
+export class PieceEvaluator {
+  readonly kin = new Kinematics();
+  private readonly probe = new AffineProbe(this.kin);
+  readonly ends = new PieceEnds();
+  startS = 0;
+  durationS = 0;
+  logic = 0;
+  target = 0;
+  key = 0;
+  /** ∫ v dt and ∫ s dt over the whole loaded piece (computed once per load). */
+  private fullIntegralV = 0;
+  private fullIntegralS = 0;
+  private readonly scratch = new Float64Array(2);
+
+  constructor(
+    private readonly log: PieceLog,
+    private readonly cache: ConfigCache,
+  ) {}
+
+  /** The configuration of the loaded piece. */
+  get config() {
+    return this.cache.get(this.key);
+  }
+
+  load(index: number): void {
+    const log = this.log;
+    const cfg = this.cache.get(log.get(index, LOG.key));
+    const s0 = log.get(index, LOG.s0);
+    const r = log.get(index, LOG.rate);
+    this.kin.set(cfg.a, cfg.b0 + cfg.bS * s0, cfg.bS * r, log.get(index, LOG.v0), s0, r);
+    this.startS = log.get(index, LOG.startS);
+    this.durationS = log.get(index, LOG.durationS);
+    this.logic = log.get(index, LOG.logic);
+    this.target = log.get(index, LOG.target);
+    this.key = cfg.key;
+    this.kin.endAndIntegral(this.durationS, this.scratch);
+    this.ends.fillWithEnd(this.kin, this.durationS, this.scratch[0]);
+    this.fullIntegralV = this.scratch[1];
+    this.fullIntegralS = this.kin.integralS(this.durationS);
+  }
+
+  /** ∫ g dt over the whole piece. */
+  integralFull(c0: number, cv: number, cs: number): number {
+    return c0 * this.durationS + cv * this.fullIntegralV + cs * this.fullIntegralS;
+  }
+
+  at(c0: number, cv: number, cs: number, t: number): number {
+    return c0 + cv * this.kin.v(t) + cs * this.kin.s(t);
+  }
+
+  atStart(c0: number, cv: number, cs: number): number {
+    return c0 + cv * this.ends.v0 + cs * this.ends.s0;
+  }
+
+  atEnd(c0: number, cv: number, cs: number): number {
+    return c0 + cv * this.ends.vT + cs * this.ends.sT;
+  }
+
+  /** Minimum and maximum over the piece into out[0], out[1]. */
+  extremes(c0: number, cv: number, cs: number, out: Float64Array): void {
+    const g0 = this.atStart(c0, cv, cs);
+    const gT = this.atEnd(c0, cv, cs);
+    let lo = Math.min(g0, gT);
+    let hi = Math.max(g0, gT);
+    const tExt = this.extremum(c0, cv, cs);
+    if (tExt >= 0) {
+      const g = this.at(c0, cv, cs, tExt);
+      lo = Math.min(lo, g);
+      hi = Math.max(hi, g);
+    }
+    out[0] = lo;
+    out[1] = hi;
+  }
+
+  /** Time of the interior extremum, or −1 when g is monotone over the piece. */
+  private extremum(c0: number, cv: number, cs: number): number {
+    const e = this.ends;
+    const r = this.kin.r;
+    const gd0 = cv * e.dv0 + cs * r;
+    const gdT = cv * e.dvT + cs * r;
+    if (!(gd0 < 0 && gdT > 0) && !(gd0 > 0 && gdT < 0)) return -1;
+    this.probe.setAffine(c0, cv, cs);
+    return extremumTime(this.probe, this.durationS, gd0, gdT);
+  }
+
+  /**
+   * Crossings of g through zero inside the piece (at most two): times into
+   * out[0..], directions (+1 rising, −1 falling) into dir[0..]; returns the count.
+   */
+  crossings(c0: number, cv: number, cs: number, out: Float64Array, dir: Int8Array, relativeTolerance?: number): number {
+    const T = this.durationS;
+    const g0 = this.atStart(c0, cv, cs);
+    const gT = this.atEnd(c0, cv, cs);
+    const tExt = this.extremum(c0, cv, cs);
+    let n = 0;
+    if (tExt < 0) {
+      n = this.crossIn(c0, cv, cs, 0, T, g0, gT, out, dir, n, relativeTolerance);
+    } else {
+      const gE = this.at(c0, cv, cs, tExt);
+      n = this.crossIn(c0, cv, cs, 0, tExt, g0, gE, out, dir, n, relativeTolerance);
+      n = this.crossIn(c0, cv, cs, tExt, T, gE, gT, out, dir, n, relativeTolerance);
+    }
+    return n;
+  }
+
+  private crossIn(c0: number, cv: number, cs: number, a: number, b: number, ga: number, gb: number, out: Float64Array, dir: Int8Array, n: number, tol?: number): number {
+    const probe = this.probe;
+    probe.order = 0;
+    if (ga >= 0 && gb < 0) {
+      probe.setAffine(c0, cv, cs);
+      out[n] = solveBracket(probe, a, b, ga, gb, tol);
+      dir[n] = -1;
+      return n + 1;
+    }
+    if (ga < 0 && gb >= 0) {
+      probe.setAffine(-c0, -cv, -cs);
+      out[n] = solveBracket(probe, a, b, -ga, -gb, tol);
+      dir[n] = 1;
+      return n + 1;
+    }
+    return n;
+  }
+
+  /** ∫ g dt over [t1, t2] inside the piece. */
+  integral(c0: number, cv: number, cs: number, t1: number, t2: number): number {
+    const k = this.kin;
+    const iv = k.integralV(t2) - (t1 > 0 ? k.integralV(t1) : 0);
+    const is = k.integralS(t2) - k.integralS(t1);
+    return c0 * (t2 - t1) + cv * iv + cs * is;
+  }
+
+  /** ∫ max(0, g) dt over the whole piece. */
+  positiveIntegral(c0: number, cv: number, cs: number, scratchT: Float64Array, scratchDir: Int8Array): number {
+    // The integrand is zero at a crossing, so a time error δ there costs only ~g'·δ²/2 of charge:
+    // a loose crossing tolerance keeps the integral exact to rounding.
+    const n = this.crossings(c0, cv, cs, scratchT, scratchDir, 1e-9);
+    if (n === 0) {
+      // One sign throughout (zero at an end at most).
+      return Math.max(this.atStart(c0, cv, cs), this.atEnd(c0, cv, cs)) > 0 ? this.integralFull(c0, cv, cs) : 0;
+    }
+    const T = this.durationS;
+    let total = 0;
+    let from = 0;
+    // The first segment has the sign opposite to the first crossing's direction.
+    let positive = scratchDir[0] < 0;
+    for (let i = 0; i < n; i++) {
+      const t = scratchT[i];
+      if (positive) total += this.integral(c0, cv, cs, from, t);
+      positive = scratchDir[i] > 0;
+      from = t;
+    }
+    if (positive) total += this.integral(c0, cv, cs, from, T);
+    return total;
+  }
+}

@@ -1,0 +1,50 @@
+/**
+ * A growable flat record of the pieces a walk went through: everything needed
+ * to re-evaluate any quantity at any time inside a piece afterwards (figures,
+ * crossings, waveform samples) without storing per-piece objects.
+ */
+export const LOG = {
+  startS: 0,
+  durationS: 1,
+  v0: 2,
+  s0: 3,
+  /** Source slope, V/s (0: settled or not driven). */
+  rate: 4,
+  key: 5,
+  /** Comparator decision (1 high, 0 low). */
+  logic: 6,
+  /** Level the output stage is heading for (the decision delayed by the recovery delay). */
+  target: 7,
+} as const;
+export const LOG_STRIDE = 8;
+
+export class PieceLog {
+  data = new Float64Array(16 * LOG_STRIDE);
+  count = 0;
+
+  clear(): void {
+    this.count = 0;
+  }
+
+  push(startS: number, durationS: number, v0: number, s0: number, rate: number, key: number, logic: number, target: number): void {
+    if ((this.count + 1) * LOG_STRIDE > this.data.length) {
+      const grown = new Float64Array(this.data.length * 2);
+      grown.set(this.data);
+      this.data = grown;
+    }
+    const i = this.count++ * LOG_STRIDE;
+    const d = this.data;
+    d[i] = startS;
+    d[i + 1] = durationS;
+    d[i + 2] = v0;
+    d[i + 3] = s0;
+    d[i + 4] = rate;
+    d[i + 5] = key;
+    d[i + 6] = logic;
+    d[i + 7] = target;
+  }
+
+  get(index: number, field: number): number {
+    return this.data[index * LOG_STRIDE + field];
+  }
+}

@@ -1,0 +1,511 @@
+/**
+ * The event-driven walk (DESIGN §3.2): from power-up, piece by piece, each solved
+ * exactly, until the switching state repeats.
+ *
+ * The model of the amplifier, and why:
+ * - The comparator decision flips the instant N crosses P + Vos (no input
+ *   hysteresis of its own; the network provides it).
+ * - The output stage follows the decision after the recovery delay: the level it
+ *   heads for is the decision delayed by recoveryDelayS (a pure delay, so a flip
+ *   that comes back before the delay elapses is still honoured in order). While
+ *   waiting, the output stays where it is — saturated, as after recovery.
+ * - It then moves at ±slew rate toward the new saturation level (the source s
+ *   ramps; the pin follows through the output resistance). Infinite slew rate:
+ *   a jump.
+ * - Current limit: when the stage would source or sink more than the limit it
+ *   becomes a current source of that size; s keeps its own motion so that the
+ *   walk knows when the voltage drive would ask for less again (leave event).
+ * - Open drain: the high level is "released" (no drive, no slew: pin
+ *   capacitance is not modelled, so the rise is set by the network at once); a
+ *   low level pulls down from the pin's voltage at the slew rate.
+ * - Input clamp and steering diodes: piecewise linear, on/off events.
+ *
+ * Every loop is bounded: a walk that does not repeat within the cycle bound
+ * ends with CoreError('not-converged'); one that stops switching ends with
+ * CoreError('no-oscillation') and says which state sticks and why.
+ */
+import { CoreError } from '../../errors.ts';
+import { formatVolts } from '../format.ts';
+import type { PreparedCircuit } from '../analyze.ts';
+import { saturationLevelV } from '../state-network.ts';
+import { BOUNDARY_TOLERANCE, CLAMP, ConfigCache, configKey, EVENT, STAGE, type ConfigModel } from './configs.ts';
+import { Kinematics } from './kinematics.ts';
+import { PieceEvaluator } from './piece-evaluator.ts';
+import { PieceLog } from './piece-log.ts';
+import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
+
+/** Full switching cycles the walk may take to repeat before it gives up. */
+export const MAX_CYCLES = 200;
+/** Events (of any kind) per cycle allowed before the walk counts as chattering. */
+const MAX_EVENTS_PER_CYCLE = 64;
+/** Change of the capacitor (and source) voltage at an edge, relative to the supply span, that counts as "repeats". */
+export const STEADY_STATE_TOLERANCE = 1e-12;
+/** Consecutive discrete changes at one instant before the configuration counts as inconsistent. */
+const MAX_RESOLUTION_STEPS = 32;
+/** Output flips waiting for the recovery delay at once. */
+const PENDING_CAPACITY = 16;
+
+const TIME_TARGET = -1;
+const TIME_SLEW_END = -2;
+
+export interface SteadyCycle {
+  /** Log index of the first piece of the repeating cycle (it starts at a decision, rising or falling). */
+  startIndex: number;
+  /** One past its last piece. */
+  endIndex: number;
+  startS: number;
+  periodS: number;
+  /** Time of the rising decision inside the cycle (= startS when the cycle starts at one), s. */
+  risingS: number;
+  /** Capacitor voltage at the rising and the falling decision. */
+  lowerV: number;
+  upperV: number;
+  /** Decision time from the rising to the falling decision, s. */
+  decisionHighS: number;
+  /** Decision to output settled at the new level, s (NaN when the motion never completes). */
+  riseS: number;
+  fallS: number;
+  /** Steady cycles the walk needed. */
+  cycles: number;
+}
+
+/** The switching state at one decision. */
+class DecisionRecord {
+  valid = false;
+  t = 0;
+  v = 0;
+  s = 0;
+  key = 0;
+  target = 0;
+  pending = 0;
+  pendingRelS = 0;
+  logIndex = 0;
+}
+
+export class OscillatorWalk {
+  readonly cache = new ConfigCache();
+  readonly log = new PieceLog();
+  /** Re-evaluates logged pieces (figures, samples); shares the walk's log and cache. */
+  readonly evaluator = new PieceEvaluator(this.log, this.cache);
+  private readonly kin = new Kinematics();
+  private readonly probe = new AffineProbe(this.kin);
+  private readonly ends = new PieceEnds();
+  prepared!: PreparedCircuit;
+  highV = 0;
+  lowV = 0;
+  private slewVPerS = Infinity;
+  private delayS = 0;
+  private vTol = 0;
+  private steadyTolV = 0;
+
+  t = 0;
+  v = 0;
+  s = 0;
+  rate = 0;
+  logic = 1;
+  target = 1;
+  stage: number = STAGE.driven;
+  clamp: number = CLAMP.off;
+  diodes = 0;
+  private readonly pending = new Float64Array(PENDING_CAPACITY);
+  private pendingHead = 0;
+  private pendingCount = 0;
+  private motionFlipS = 0;
+  private riseS = Number.NaN;
+  private fallS = Number.NaN;
+  private upperV = Number.NaN;
+  private events = 0;
+  private flippedNow = false;
+  private cycles = 0;
+  private lastRiseT = Number.NaN;
+  private lastRiseV = Number.NaN;
+  private lastFallT = Number.NaN;
+  private riseDoneT = Number.NaN;
+  private fallDoneT = Number.NaN;
+  /** Previous decision record per direction (index 0 falling, 1 rising), for steady-state detection. */
+  private readonly rec = [new DecisionRecord(), new DecisionRecord()];
+  private readonly accHistory = new Float64Array(3);
+  private accCount = 0;
+  private accKey = 0;
+  private accTarget = 0;
+  private accPending = 0;
+  private accPendingRelS = 0;
+  /** Time of the first extrapolation jump (NaN: the logged transient is the physical one throughout). */
+  extrapolatedAtS = Number.NaN;
+  steady: SteadyCycle | undefined;
+
+  /** Target a circuit (the walk object is reusable: nothing of the previous circuit survives). */
+  reset(prepared: PreparedCircuit): this {
+    this.prepared = prepared;
+    this.cache.reset(prepared);
+    const { circuit } = prepared;
+    this.highV = saturationLevelV(circuit, 'high');
+    this.lowV = saturationLevelV(circuit, 'low');
+    this.slewVPerS = circuit.amplifier.slewRateVPerS;
+    this.delayS = circuit.amplifier.recoveryDelayS;
+    this.vTol = BOUNDARY_TOLERANCE * this.cache.spanV;
+    this.steadyTolV = STEADY_STATE_TOLERANCE * this.cache.spanV;
+    this.riseS = this.fallS = this.upperV = Number.NaN;
+    this.lastRiseT = this.lastRiseV = this.lastFallT = this.riseDoneT = this.fallDoneT = Number.NaN;
+    return this;
+  }
+
+  get key(): number {
+    return configKey(this.stage, this.clamp, this.diodes);
+  }
+
+  /** Power-up: capacitor empty, output settled in `initial`. */
+  powerUp(initial: 'high' | 'low'): void {
+    const high = initial === 'high' ? 1 : 0;
+    this.t = 0;
+    this.v = 0;
+    this.logic = this.target = high;
+    this.stage = this.cache.openDrain && high ? STAGE.released : STAGE.driven;
+    this.s = high ? this.highV : this.lowV;
+    this.rate = 0;
+    this.clamp = CLAMP.off;
+    const nominal = this.prepared.topology.nominalDiodes?.(initial);
+    this.diodes = 0;
+    if (nominal) for (let k = 0; k < nominal.length; k++) if (nominal[k]) this.diodes |= 1 << k;
+    this.pendingCount = 0;
+    this.pendingHead = 0;
+    this.log.clear();
+    this.steady = undefined;
+    this.rec[0].valid = this.rec[1].valid = false;
+    this.accCount = 0;
+    this.extrapolatedAtS = Number.NaN;
+    this.events = 0;
+    this.cycles = 0;
+    this.resolve();
+    this.flippedNow = false;
+  }
+
+  /** Walk until the cycle repeats. */
+  runToSteadyState(): SteadyCycle {
+    const maxEvents = MAX_CYCLES * MAX_EVENTS_PER_CYCLE;
+    while (!this.steady) {
+      if (++this.events > maxEvents) {
+        throw new CoreError(
+          'not-converged',
+          `The time-domain walk took ${maxEvents} events without settling into a repeating cycle (the output chatters)`,
+          undefined,
+          { events: maxEvents },
+        );
+      }
+      this.step();
+    }
+    return this.steady;
+  }
+
+  private step(): void {
+    const cfg = this.cache.get(this.key);
+    const kin = this.kin;
+    kin.set(cfg.a, cfg.b0 + cfg.bS * this.s, cfg.bS * this.rate, this.v, this.s, this.rate);
+    let best = Infinity;
+    let kind = 0;
+    let index = 0;
+    if (this.pendingCount > 0) {
+      best = Math.max(0, this.pending[this.pendingHead] - this.t);
+      kind = TIME_TARGET;
+    }
+    if (this.rate !== 0) {
+      const dt = Math.max(0, (this.targetLevel() - this.s) / this.rate);
+      if (dt < best) {
+        best = dt;
+        kind = TIME_SLEW_END;
+      }
+    }
+    const ends = this.ends;
+    ends.fill(kin, best);
+    const sg = this.logic ? 1 : -1;
+    const probe = this.probe;
+    let te = firstExit(probe, ends, sg * cfg.hC, sg * cfg.hV, sg * cfg.hS, this.vTol);
+    if (te < best) {
+      best = te;
+      kind = EVENT.threshold;
+    }
+    for (let k = 0; k < cfg.eventCount; k++) {
+      te = firstExit(probe, ends, cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k]);
+      if (te < best) {
+        best = te;
+        kind = cfg.evKind[k];
+        index = cfg.evIndex[k];
+      }
+    }
+    if (best === Infinity) this.latch(cfg);
+    if (best > 0) {
+      this.log.push(this.t, best, this.v, this.s, this.rate, cfg.key, this.logic, this.target);
+      this.v = kin.v(best);
+      this.s = kin.s(best);
+      this.t += best;
+    }
+    this.apply(kind, index);
+    this.resolve();
+    if (this.flippedNow) {
+      this.flippedNow = false;
+      this.recordDecision();
+    }
+  }
+
+  private targetLevel(): number {
+    return this.target ? this.highV : this.lowV;
+  }
+
+  private apply(kind: number, index: number): void {
+    switch (kind) {
+      case TIME_TARGET:
+        this.pendingHead = (this.pendingHead + 1) % PENDING_CAPACITY;
+        this.pendingCount--;
+        this.changeTarget();
+        break;
+      case TIME_SLEW_END:
+        this.s = this.targetLevel();
+        this.rate = 0;
+        this.motionDone();
+        break;
+      case EVENT.threshold:
+        this.flipDecision();
+        break;
+      case EVENT.diode:
+        this.diodes ^= 1 << index;
+        break;
+      case EVENT.clampOnPAboveN:
+        this.clamp = CLAMP.pAboveN;
+        break;
+      case EVENT.clampOnNAboveP:
+        this.clamp = CLAMP.nAboveP;
+        break;
+      case EVENT.clampOff:
+        this.clamp = CLAMP.off;
+        break;
+      case EVENT.limitSource:
+        this.stage = STAGE.limitedSource;
+        break;
+      case EVENT.limitSink:
+        this.stage = STAGE.limitedSink;
+        break;
+      case EVENT.limitLeave:
+        this.stage = STAGE.driven;
+        break;
+    }
+  }
+
+  private flipDecision(): void {
+    this.logic ^= 1;
+    // The steady-state record is taken once the instant is fully resolved.
+    this.flippedNow = true;
+    if (this.logic === 0) {
+      this.upperV = this.v;
+      this.lastFallT = this.t;
+    } else {
+      this.lastRiseT = this.t;
+      this.lastRiseV = this.v;
+    }
+    if (this.delayS > 0) {
+      if (this.pendingCount === PENDING_CAPACITY) {
+        throw new CoreError('not-converged', 'The comparator flips faster than its recovery delay lets the output follow', undefined, {
+          recoveryDelayS: this.delayS,
+        });
+      }
+      this.pending[(this.pendingHead + this.pendingCount) % PENDING_CAPACITY] = this.t + this.delayS;
+      this.pendingCount++;
+    } else {
+      this.changeTarget();
+    }
+  }
+
+  /** The delayed decision reaches the output stage. */
+  private changeTarget(): void {
+    this.target ^= 1;
+    this.motionFlipS = this.t - this.delayS;
+    if (this.cache.openDrain) {
+      if (this.target) {
+        // Released: no drive and (without pin capacitance) no slew.
+        this.s = this.pinV();
+        this.stage = STAGE.released;
+        this.rate = 0;
+        this.motionDone();
+        return;
+      }
+      if (this.stage === STAGE.released) {
+        // The transistor starts pulling down from where the pin is.
+        this.s = this.pinV();
+        this.stage = STAGE.driven;
+      }
+    }
+    const level = this.targetLevel();
+    if (!Number.isFinite(this.slewVPerS) || this.s === level) {
+      this.s = level;
+      this.rate = 0;
+      this.motionDone();
+    } else {
+      this.rate = level > this.s ? this.slewVPerS : -this.slewVPerS;
+    }
+  }
+
+  private pinV(): number {
+    const cfg = this.cache.get(this.key);
+    return cfg.oC + cfg.oV * this.v + cfg.oS * this.s;
+  }
+
+  private motionDone(): void {
+    const d = this.t - this.motionFlipS;
+    if (this.target) {
+      this.riseS = d;
+      this.riseDoneT = this.t;
+    } else {
+      this.fallS = d;
+      this.fallDoneT = this.t;
+    }
+  }
+
+  /**
+   * After any discrete change, make the configuration consistent at this
+   * instant: flip whatever is already clearly violated (most violated first),
+   * e.g. a jump of the output that turns a diode or the clamp on at once.
+   */
+  private resolve(): void {
+    for (let step = 0; step < MAX_RESOLUTION_STEPS; step++) {
+      const cfg = this.cache.get(this.key);
+      const v = this.v;
+      const s = this.s;
+      const sg = this.logic ? 1 : -1;
+      let worst = (sg * (cfg.hC + cfg.hV * v + cfg.hS * s)) / this.vTol;
+      let kind: number = EVENT.threshold;
+      let index = 0;
+      for (let k = 0; k < cfg.eventCount; k++) {
+        const r = (cfg.evC[k] + cfg.evV[k] * v + cfg.evS[k] * s) / cfg.evTol[k];
+        if (r < worst) {
+          worst = r;
+          kind = cfg.evKind[k];
+          index = cfg.evIndex[k];
+        }
+      }
+      if (!(worst < -1)) return;
+      this.apply(kind, index);
+    }
+    throw new CoreError('not-converged', 'No consistent circuit configuration at a switching instant (the diodes, clamp or current limit chatter)', undefined, {
+      timeS: this.t,
+    });
+  }
+
+  /**
+   * At every decision (once the instant is resolved), compare the full switching
+   * state with the one at the previous decision of the same direction: equal
+   * within the tolerance means the cycle in between repeats for ever. Checking
+   * both directions finds the repeat half a cycle sooner after power-up.
+   */
+  private recordDecision(): void {
+    const pendingRelS = this.pendingCount > 0 ? this.pending[this.pendingHead] - this.t : 0;
+    const key = this.key;
+    const r = this.rec[this.logic];
+    if (
+      r.valid &&
+      this.t > r.t &&
+      key === r.key &&
+      this.target === r.target &&
+      this.pendingCount === r.pending &&
+      Math.abs(this.v - r.v) <= this.steadyTolV &&
+      Math.abs(this.s - r.s) <= this.steadyTolV &&
+      Math.abs(pendingRelS - r.pendingRelS) <= STEADY_STATE_TOLERANCE * (this.t - r.t)
+    ) {
+      const periodS = this.t - r.t;
+      const startS = r.t;
+      // Inside the cycle lies exactly one decision of the other direction: the latest one.
+      const decisionHighS = this.logic === 1 ? this.lastFallT - startS : this.t - this.lastRiseT;
+      this.steady = {
+        startIndex: r.logIndex,
+        endIndex: this.log.count,
+        startS,
+        periodS,
+        risingS: this.logic === 1 ? startS : this.lastRiseT,
+        lowerV: this.lastRiseV,
+        upperV: this.upperV,
+        decisionHighS,
+        // A motion that did not complete inside this cycle does not describe it.
+        riseS: this.riseDoneT >= startS ? this.riseS : Number.NaN,
+        fallS: this.fallDoneT >= startS ? this.fallS : Number.NaN,
+        cycles: this.cycles,
+      };
+      return;
+    }
+    if (this.logic === 1) {
+      if (++this.cycles > MAX_CYCLES) {
+        throw new CoreError('not-converged', `The oscillation did not repeat within ${MAX_CYCLES} cycles`, undefined, { cycles: MAX_CYCLES });
+      }
+      if (this.accelerate(key, pendingRelS)) this.rec[0].valid = false; // the state jumped: the falling record is stale
+    }
+    r.valid = true;
+    r.t = this.t;
+    r.v = this.v;
+    r.s = this.s;
+    r.key = key;
+    r.target = this.target;
+    r.pending = this.pendingCount;
+    r.pendingRelS = pendingRelS;
+    r.logIndex = this.log.count;
+  }
+
+  /**
+   * Slew-limited circuits whose output never reaches its saturation level
+   * approach their limit cycle geometrically, sometimes with a ratio close to 1
+   * (thousands of cycles). When three successive rising decisions show a
+   * geometric sequence of source voltages, jump to its limit (Aitken's Δ²) and
+   * let the walk confirm it; in the usual, settled case the state repeats
+   * exactly after one cycle and this never runs.
+   */
+  private accelerate(key: number, pendingRelS: number): boolean {
+    const h = this.accHistory;
+    const same = this.accCount > 0 && key === this.accKey && this.target === this.accTarget && this.pendingCount === this.accPending && Math.abs(pendingRelS - this.accPendingRelS) <= 1e-9 * Math.abs(pendingRelS) + 1e-15;
+    if (!same) this.accCount = 0;
+    this.accKey = key;
+    this.accTarget = this.target;
+    this.accPending = this.pendingCount;
+    this.accPendingRelS = pendingRelS;
+    h[0] = h[1];
+    h[1] = h[2];
+    h[2] = this.s;
+    if (++this.accCount < 3) return false;
+    const d1 = h[1] - h[0];
+    const d2 = h[2] - h[1];
+    const ratio = d2 / d1;
+    this.accCount = 0;
+    if (!(Math.abs(ratio) < 1 - 1e-9) || !(Math.abs(d2) > this.steadyTolV)) return false;
+    const sLimit = h[2] + (d2 * ratio) / (1 - ratio);
+    const cfg = this.cache.get(key);
+    if (!(cfg.hV !== 0) || !Number.isFinite(sLimit)) return false;
+    // A rising decision happens on the threshold: v follows from s there.
+    this.s = sLimit;
+    this.v = (cfg.hC + cfg.hS * sLimit) / -cfg.hV;
+    this.lastRiseV = this.v;
+    if (Number.isNaN(this.extrapolatedAtS)) this.extrapolatedAtS = this.t;
+    return true;
+  }
+
+  /** No event ever ends the piece: the circuit sits in one state for good. */
+  private latch(cfg: ConfigModel): never {
+    const state = this.target ? 'high' : 'low';
+    const s = this.s;
+    const thresholdV = (cfg.hC + cfg.hS * s) / -cfg.hV;
+    const where = this.target ? 'reach the upper' : 'fall to the lower';
+    const detail: string[] = [];
+    if (cfg.clamp !== CLAMP.off) detail.push('the input clamp conducting');
+    if (cfg.stage === STAGE.limitedSource || cfg.stage === STAGE.limitedSink) detail.push('the output in current limit');
+    const note = detail.length ? ` (with ${detail.join(' and ')})` : '';
+    if (!(cfg.a > 0)) {
+      throw new CoreError(
+        'no-oscillation',
+        `The output latches ${state}: in the ${state} state the timing capacitor has no resistive path${note}, so it never reaches the switching level ${formatVolts(thresholdV)}`,
+        undefined,
+        { stuckState: state, thresholdV, model: 'time-domain' },
+      );
+    }
+    const asymptoteV = (cfg.b0 + cfg.bS * s) / cfg.a;
+    throw new CoreError(
+      'no-oscillation',
+      `The output latches ${state}: in the ${state} state${note} the capacitor settles at ${formatVolts(asymptoteV)}, which does not ${where} threshold ${formatVolts(thresholdV)}`,
+      undefined,
+      { stuckState: state, asymptoteV, thresholdV, model: 'time-domain' },
+    );
+  }
+}

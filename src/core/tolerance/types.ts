@@ -1,0 +1,201 @@
+/**
+ * Tolerance analysis input and output, in core terms (SI units, fractions 0..1).
+ * JSON pointers in errors refer to the request body of POST /v1/tolerance.
+ */
+import type { ModelChoice } from '../circuit/analyze.ts';
+import type { ModelName } from '../circuit/result.ts';
+import type { Circuit } from '../circuit/types.ts';
+
+export type ToleranceDistribution = 'uniform' | 'normal';
+
+/** A part's temperature behaviour: a linear coefficient (with an optional ± spread), or a capacitor dielectric code. */
+export type TemperatureCoefficient =
+  | { tempcoPpmPerK: number; tempcoTolerancePpmPerK?: number }
+  | { dielectric: string };
+
+/** Amplifier figures that may spread, as fractions of their nominal value. */
+export const AMPLIFIER_SPREAD_FIELDS = [
+  'outputHeadroomHighV',
+  'outputHeadroomLowV',
+  'outputResistanceOhm',
+  'slewRateVPerS',
+  'recoveryDelayS',
+  'inputBiasCurrentA',
+  'inputOffsetV',
+] as const;
+export type AmplifierSpreadField = (typeof AMPLIFIER_SPREAD_FIELDS)[number];
+
+export type AmplifierSpreads = Partial<Record<AmplifierSpreadField, number>> & {
+  /** Input offset may lie anywhere within nominal ± this, V (offsets centre on 0, so a fraction of nominal rarely fits). */
+  inputOffsetRangeV?: number;
+};
+
+export interface TrackingGroup {
+  /** Parts that move together (e.g. one resistor network). */
+  roles: string[];
+  /** Spread of the shared draw, fraction (default: the largest tolerance given for the members). */
+  tolerance?: number;
+  /** Independent spread of each member on top of the shared draw, fraction (default 0). */
+  residualTolerance?: number;
+}
+
+export interface MonteCarloOptions {
+  samples: number;
+  /** Any integer; the same seed gives the same result. */
+  seed?: number;
+  distribution?: ToleranceDistribution;
+  /** Normal distribution only: σ as a fraction of the tolerance (default 1/3, i.e. tolerance = 3σ, common practice). */
+  sigmaPerTolerance?: number;
+}
+
+export interface FrequencySpec {
+  frequencyHz: number;
+  /** Allowed relative deviation from frequencyHz, fraction. */
+  frequencyTolerance: number;
+  dutyMin?: number;
+  dutyMax?: number;
+}
+
+export interface ToleranceRequest {
+  circuit: Circuit;
+  model?: ModelChoice;
+  /** Per-part tolerance by role, fraction (0.01 = 1 %). */
+  tolerances: Readonly<Record<string, number>>;
+  temperatureCoefficients?: Readonly<Record<string, TemperatureCoefficient>>;
+  temperature?: { minC: number; maxC: number };
+  /** Both rails scale by one shared draw within ± this fraction (or each on its own: supplyRailsIndependent). */
+  supplyTolerance?: number;
+  supplyRailsIndependent?: boolean;
+  amplifierSpreads?: AmplifierSpreads;
+  tracking?: readonly TrackingGroup[];
+  monteCarlo?: MonteCarloOptions;
+  spec?: FrequencySpec;
+  /** When set, the result carries a frequency histogram with this many bins. */
+  histogramBins?: number;
+}
+
+export interface DistributionSummary {
+  p0_1: number;
+  p1: number;
+  p5: number;
+  p50: number;
+  p95: number;
+  p99: number;
+  p99_9: number;
+  mean: number;
+  std: number;
+  min: number;
+  max: number;
+}
+
+export interface Corner {
+  frequencyHz: number;
+  dutyCycle: number;
+  /** Board temperature at the corner, °C (null when no temperature range was given). */
+  temperatureC: number | null;
+  /** Every varied parameter's value at the corner (SI units). */
+  values: Record<string, number>;
+  /** Relative change of each varied parameter against nominal (omitted for parameters whose nominal is 0). */
+  deviations: Record<string, number>;
+}
+
+export interface WorstCase {
+  frequencyMinHz: number;
+  frequencyMaxHz: number;
+  dutyMin: number;
+  dutyMax: number;
+  method: 'all-corners' | 'sensitivity-guided';
+  cornersEvaluated: number;
+  /** Corners at which the circuit does not oscillate (excluded from the extremes). */
+  latchedCorners: number;
+  corners: { frequencyMin: Corner; frequencyMax: Corner; dutyMin: Corner; dutyMax: Corner };
+  /** Whether every corner meets the spec (null without a spec). */
+  withinSpec: boolean | null;
+}
+
+export interface YieldDetail {
+  passing: number;
+  failing: number;
+  standardError: number;
+  /** Wilson score interval at 95 % confidence. */
+  interval95: { low: number; high: number };
+  frequencyPassFraction: number;
+  dutyPassFraction: number;
+}
+
+export interface MonteCarloResult {
+  samples: number;
+  seed: number;
+  distribution: ToleranceDistribution;
+  sigmaPerTolerance: number | null;
+  oscillating: number;
+  latched: number;
+  frequencyHz: DistributionSummary | null;
+  dutyCycle: DistributionSummary | null;
+  /** Fraction of samples inside the spec (latched samples fail); null without a spec. */
+  yield: number | null;
+  yieldDetail: YieldDetail | null;
+  elapsedS: number;
+  samplesPerSecond: number;
+}
+
+export interface PartSensitivity {
+  /** Part role, or the circuit-level parameter name for supply and amplifier figures. */
+  role: string;
+  kind: 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load';
+  /** d ln f / d ln x at nominal. */
+  sensitivity: number;
+  /** d(duty cycle) / d ln x at nominal. */
+  dutySensitivity: number;
+  /** Share of the first-order variance of ln f from this part's own variations (its tolerance, tempco or dielectric spread). */
+  varianceShare: number;
+}
+
+export interface VarianceSource {
+  source: string;
+  kind: VariationKind;
+  /** First-order share of the variance of ln f, 0..1. */
+  share: number;
+  /** First-order contribution to the relative standard deviation of f, fraction. */
+  relativeStd: number;
+}
+
+export type VariationKind =
+  | 'part-tolerance'
+  | 'tracking'
+  | 'tracking-residual'
+  | 'temperature'
+  | 'tempco-spread'
+  | 'dielectric-band'
+  | 'supply'
+  | 'amplifier';
+
+export interface TemperatureModelSummary {
+  role: string;
+  model: 'tempco' | 'dielectric';
+  dielectric: string | null;
+  /** Range of the relative value change over the temperature range (and its spread), fraction. */
+  changeMinFraction: number;
+  changeMaxFraction: number;
+  /** False when the temperature range leaves the dielectric's rated range. */
+  withinRatedRange: boolean;
+}
+
+export interface ToleranceNote {
+  code: string;
+  message: string;
+}
+
+export interface ToleranceResult {
+  model: ModelName;
+  nominal: { frequencyHz: number; dutyCycle: number };
+  worstCase: WorstCase;
+  monteCarlo: MonteCarloResult;
+  sensitivities: PartSensitivity[];
+  varianceSources: VarianceSource[];
+  /** First-order estimate of the relative standard deviation of f (root sum of squares of the sources). */
+  linearEstimate: { frequencyRelativeStd: number };
+  temperatureModels: TemperatureModelSummary[];
+  notes: ToleranceNote[];
+  histogram?: { edges: number[]; counts: number[] };
+}

@@ -1,0 +1,190 @@
+/**
+ * Worst case over the variation box. With few dimensions every corner is
+ * evaluated (the extremes of a function monotone in each variable sit at
+ * corners, and the model's parameters enter monotonically or bilinearly). With
+ * many, the search starts from the corner the signs of the one-at-a-time
+ * effects point to and then flips single coordinates, and when that stalls
+ * pairs of coordinates, while that improves the objective (a local search on
+ * the corners: it may miss an extreme that needs three coordinates at once).
+ */
+import { CoreError } from '../errors.ts';
+import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/fast-evaluator.ts';
+import type { SampleEvaluator } from './sample-evaluator.ts';
+import type { Corner, FrequencySpec, WorstCase } from './types.ts';
+import type { VariationModel } from './variation-model.ts';
+
+/** Exhaustive corner search up to this many dimensions (2^n corners), by model cost. */
+export const MAX_EXHAUSTIVE_DIMENSIONS = { 'closed-form': 14, 'time-domain': 7 } as const;
+const MAX_ASCENT_PASSES = 8;
+
+type Objective = 'frequencyMin' | 'frequencyMax' | 'dutyMin' | 'dutyMax';
+const OBJECTIVES: readonly Objective[] = ['frequencyMin', 'frequencyMax', 'dutyMin', 'dutyMax'];
+
+interface Found {
+  score: number;
+  point: Float64Array;
+  frequencyHz: number;
+  dutyCycle: number;
+}
+
+function score(objective: Objective, frequencyHz: number, dutyCycle: number): number {
+  switch (objective) {
+    case 'frequencyMin': return -frequencyHz;
+    case 'frequencyMax': return frequencyHz;
+    case 'dutyMin': return -dutyCycle;
+    case 'dutyMax': return dutyCycle;
+  }
+}
+
+export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluator, spec: FrequencySpec | undefined): WorstCase {
+  const dims = model.dimensions;
+  const n = dims.length;
+  const values = new Float64Array(model.nominal.length);
+  const out = new Float64Array(OUTPUT_LENGTH);
+  let evaluated = 0;
+  let latched = 0;
+  let allInSpec = true;
+  const seenLatched = new Set<string>();
+  const evaluate = (point: Float64Array): { frequencyHz: number; dutyCycle: number } | undefined => {
+    model.apply(point, values);
+    evaluated++;
+    if (evaluator.evaluate(values, out) !== EVALUATION_STATUS.ok) {
+      const key = point.join(',');
+      if (!seenLatched.has(key)) {
+        seenLatched.add(key);
+        latched++;
+      }
+      allInSpec = false;
+      return undefined;
+    }
+    const r = { frequencyHz: 1 / out[0], dutyCycle: out[1] };
+    if (spec && !meetsSpec(spec, r.frequencyHz, r.dutyCycle)) allInSpec = false;
+    return r;
+  };
+  const best = new Map<Objective, Found>();
+  const offer = (point: Float64Array, r: { frequencyHz: number; dutyCycle: number }) => {
+    for (const o of OBJECTIVES) {
+      const s = score(o, r.frequencyHz, r.dutyCycle);
+      const current = best.get(o);
+      if (!current || s > current.score) best.set(o, { score: s, point: Float64Array.from(point), ...r });
+    }
+  };
+  const corner = (bits: (k: number) => boolean) => Float64Array.from(dims, (d, k) => (bits(k) ? d.high : d.low));
+
+  const reference = model.referencePoint();
+  const nominal = evaluate(reference);
+  if (nominal) offer(reference, nominal);
+  let method: WorstCase['method'];
+  if (n <= MAX_EXHAUSTIVE_DIMENSIONS[evaluator.model]) {
+    method = 'all-corners';
+    const count = 2 ** n;
+    for (let mask = 0; mask < count; mask++) {
+      const point = corner((k) => ((mask >>> k) & 1) === 1);
+      const r = evaluate(point);
+      if (r) offer(point, r);
+    }
+  } else {
+    method = 'sensitivity-guided';
+    // One-at-a-time effect of each end of each dimension, from the centre.
+    const center = model.centerPoint();
+    const ends = dims.map((d, k) =>
+      [d.low, d.high].map((x) => {
+        const p = Float64Array.from(center);
+        p[k] = x;
+        return evaluate(p);
+      }),
+    );
+    for (const o of OBJECTIVES) {
+      const start = corner((k) => {
+        const [lo, hi] = ends[k];
+        if (!lo || !hi) return hi !== undefined;
+        return score(o, hi.frequencyHz, hi.dutyCycle) >= score(o, lo.frequencyHz, lo.dutyCycle);
+      });
+      let current = evaluate(start);
+      if (current) offer(start, current);
+      let point = start;
+      const better = (r: { frequencyHz: number; dutyCycle: number } | undefined) =>
+        r !== undefined && current !== undefined && score(o, r.frequencyHz, r.dutyCycle) > score(o, current.frequencyHz, current.dutyCycle);
+      const flip = (p: Float64Array, k: number) => {
+        p[k] = p[k] === dims[k].high ? dims[k].low : dims[k].high;
+      };
+      // Ascend by single flips; when stuck, try every pair once (interactions such as asymmetric rails and
+      // offsets can hide an extreme behind two coordinates); stop when neither helps.
+      for (let pass = 0; pass < MAX_ASCENT_PASSES && current; pass++) {
+        let improved = false;
+        for (let k = 0; k < n; k++) {
+          const candidate = Float64Array.from(point);
+          flip(candidate, k);
+          const r = evaluate(candidate);
+          if (!r) continue;
+          offer(candidate, r);
+          if (better(r)) {
+            point = candidate;
+            current = r;
+            improved = true;
+          }
+        }
+        if (improved) continue;
+        for (let k = 0; k < n; k++) {
+          for (let l = k + 1; l < n; l++) {
+            const candidate = Float64Array.from(point);
+            flip(candidate, k);
+            flip(candidate, l);
+            const r = evaluate(candidate);
+            if (!r) continue;
+            offer(candidate, r);
+            if (better(r)) {
+              point = candidate;
+              current = r;
+              improved = true;
+            }
+          }
+        }
+        if (!improved) break;
+      }
+    }
+  }
+  if (best.size === 0) throw new CoreError('no-oscillation', 'The circuit oscillates at no point of the tolerance box (nominal and corners all latch)');
+  const describe = (o: Objective): Corner => describeCorner(model, best.get(o)!);
+  const corners = { frequencyMin: describe('frequencyMin'), frequencyMax: describe('frequencyMax'), dutyMin: describe('dutyMin'), dutyMax: describe('dutyMax') };
+  return {
+    frequencyMinHz: corners.frequencyMin.frequencyHz,
+    frequencyMaxHz: corners.frequencyMax.frequencyHz,
+    dutyMin: corners.dutyMin.dutyCycle,
+    dutyMax: corners.dutyMax.dutyCycle,
+    method,
+    cornersEvaluated: evaluated,
+    latchedCorners: latched,
+    corners,
+    withinSpec: spec ? allInSpec : null,
+  };
+}
+
+export function meetsSpec(spec: FrequencySpec, frequencyHz: number, dutyCycle: number): boolean {
+  return (
+    Math.abs(frequencyHz - spec.frequencyHz) <= spec.frequencyHz * spec.frequencyTolerance &&
+    dutyCycle >= (spec.dutyMin ?? 0) &&
+    dutyCycle <= (spec.dutyMax ?? 1)
+  );
+}
+
+function describeCorner(model: VariationModel, found: Found): Corner {
+  const values = new Float64Array(model.nominal.length);
+  model.apply(found.point, values);
+  const v: Record<string, number> = {};
+  const deviations: Record<string, number> = {};
+  for (const i of model.variedParameters) {
+    const name = model.parameters[i].name;
+    v[name] = values[i];
+    const x0 = model.nominal[i];
+    if (x0 !== 0 && Number.isFinite(x0)) deviations[name] = values[i] / x0 - 1;
+  }
+  const t = model.temperatureDimension;
+  return {
+    frequencyHz: found.frequencyHz,
+    dutyCycle: found.dutyCycle,
+    temperatureC: t >= 0 ? found.point[t] : null,
+    values: v,
+    deviations,
+  };
+}

@@ -1,0 +1,64 @@
+/** POST /v1/design: a frequency (and duty) target -> ranked designs built from a series or catalogue. */
+import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
+import { designOscillator, type Design } from '../../core/design/index.ts';
+import { resolveAmplifierSpec } from '../convert.ts';
+import { problemResponses, ref } from '../schemas/common.ts';
+import { DesignRequest, DesignResponse, type DesignRequestBody } from '../schemas/design.ts';
+import { fittedPartsJson, predictionJson, roleSourcesFromBody } from './snap.ts';
+
+/** Series most boards stock (common practice): E24 resistors, E12 capacitors. */
+const DEFAULT_VALUES = { resistor: { series: 'E24' }, capacitor: { series: 'E12' } } as const;
+const DEFAULT_FREQUENCY_TOLERANCE = 0.01;
+
+function designJson(d: Design, rank: number, body: DesignRequestBody) {
+  const parts: Record<string, number> = {};
+  for (const [role, v] of Object.entries(d.parts)) parts[role] = v.value;
+  return {
+    rank,
+    topology: d.topology,
+    parts: fittedPartsJson(d.parts),
+    predicted: predictionJson(d.analysis),
+    frequencyError: d.frequencyError,
+    dutyCycleError: d.dutyCycleError,
+    hysteresisFraction: d.hysteresisFraction,
+    // Ready to POST to /v1/analyze (or /v1/tolerance) as it stands.
+    circuit: { topology: d.topology, supply: body.supply, amplifier: body.amplifier, parts },
+    checks: d.checks,
+  };
+}
+
+export const designRoutes: FastifyPluginAsyncTypebox = async (app) => {
+  app.post(
+    '/v1/design',
+    {
+      schema: {
+        tags: ['design'],
+        summary: 'Design an oscillator from a frequency target',
+        description:
+          'Ranked complete designs whose every part comes from the chosen series or catalogue, each analysed in full (predicted frequency and duty, checks). ' +
+          'Duty cycles from 10 % to 90 % by threshold placement in the single-supply divider. Timing resistances are bounded below by what the output can drive ' +
+          'and above by the bias-current error. No design within the tolerance, a supply outside the amplifier rating, a target above its frequency ceiling ' +
+          'or an empty value source answers 422 with the reason (and the closest design found in `figures`).',
+        body: ref(DesignRequest),
+        response: { 200: ref(DesignResponse), ...problemResponses(400, 401, 403, 413, 415, 422) },
+      },
+    },
+    async (request) => {
+      const body = request.body;
+      const amplifier = resolveAmplifierSpec(body.amplifier as string | Record<string, unknown>, app.services.amplifiers, '/amplifier');
+      const result = designOscillator({
+        targetFrequencyHz: body.targetFrequencyHz,
+        targetDutyCycle: body.targetDutyCycle,
+        dutyTolerance: body.dutyTolerance,
+        frequencyTolerance: body.frequencyTolerance ?? DEFAULT_FREQUENCY_TOLERANCE,
+        supply: { positiveV: body.supply.positiveV, negativeV: body.supply.negativeV ?? 0 },
+        amplifier,
+        values: roleSourcesFromBody((body.values ?? DEFAULT_VALUES) as never, app.services),
+        constraints: body.constraints,
+        topologies: body.topologies,
+        count: body.count,
+      });
+      return { designs: result.designs.map((d, i) => designJson(d, i + 1, body)), notes: result.notes } as never;
+    },
+  );
+};

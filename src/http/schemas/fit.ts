@@ -1,0 +1,283 @@
+/** Request and response schemas of POST /v1/fit (measurement fitting and diagnosis). */
+import { Type, type Static } from 'typebox';
+import { OBSERVABLES } from '../../core/fit/index.ts';
+import { Circuit } from './circuit.ts';
+import { ref } from './common.ts';
+
+const MEASUREMENT_WORDS: Record<(typeof OBSERVABLES)[number], string> = {
+  frequencyHz: 'Oscillation frequency, Hz (default uncertainty 0.1 %)',
+  dutyCycle: 'Output-high share of the period between 50 % crossings, 0..1 (default uncertainty 0.005)',
+  capacitorMinV: 'Lowest capacitor voltage (lower switching level incl. overshoot), V (default 1 % + 20 mV)',
+  capacitorMaxV: 'Highest capacitor voltage (upper switching level incl. overshoot), V (default 1 % + 20 mV)',
+  outputHighV: 'Output high level, V (default 1 % + 20 mV)',
+  outputLowV: 'Output low level, V (default 1 % + 20 mV)',
+  riseTimeS: '10–90 % rise time of the output, s (default 5 %)',
+  fallTimeS: '90–10 % fall time of the output, s (default 5 %)',
+  capacitorRisingTauS: 'Time constant of the charging capacitor, s (default 5 %)',
+  capacitorFallingTauS: 'Time constant of the discharging capacitor, s (default 5 %)',
+};
+
+export const ScalarMeasurement = Type.Union(
+  [
+    Type.Number({ description: 'The value; its uncertainty is the default for this figure' }),
+    Type.Object(
+      {
+        value: Type.Number(),
+        uncertainty: Type.Optional(Type.Number({ exclusiveMinimum: 0, description: 'Standard uncertainty (1σ), same unit as the value' })),
+      },
+      { additionalProperties: false },
+    ),
+  ],
+  { $id: 'ScalarMeasurement', description: 'A measured figure: a number, or {value, uncertainty} with its standard uncertainty (1σ)' },
+);
+
+export const FitMeasurements = Type.Object(
+  Object.fromEntries(OBSERVABLES.map((name) => [name, Type.Optional(Type.Unsafe<Static<typeof ScalarMeasurement>>({ $ref: 'ScalarMeasurement', description: MEASUREMENT_WORDS[name] }))])),
+  { $id: 'FitMeasurements', additionalProperties: false, description: 'Scalar figures read off a scope, each with its uncertainty' },
+);
+
+/**
+ * Sample arrays: `type: ['number', 'null']` is one type test per item for ajv
+ * (measured: a few ms per million samples), unlike an anyOf. JSON cannot carry
+ * NaN, so null stands for a sample the scope could not give; the capture
+ * analysis rejects it with 422 naming the index.
+ */
+const Samples = (description: string) =>
+  Type.Optional(Type.Unsafe<(number | null)[]>({ type: 'array', items: { type: ['number', 'null'] }, description }));
+
+export const FitCapture = Type.Object(
+  {
+    sampleIntervalS: Type.Optional(Type.Number({ exclusiveMinimum: 0, description: 'Sample interval, s (or give timeS)' })),
+    timeS: Samples('Sample instants, s, strictly increasing (wins over sampleIntervalS)'),
+    output: Samples('Amplifier output channel, V (null = missing sample, rejected with 422)'),
+    capacitor: Samples('Timing-capacitor channel, V (null = missing sample, rejected with 422)'),
+    csv: Type.Optional(
+      Type.String({
+        description:
+          'A scope CSV export as text, instead of the arrays: header/metadata lines, a time column (or a sample-interval entry) and channel columns, units in the header ("Time (us)", "CH1 [mV]" or a units row); tab, semicolon or comma separated, decimal commas accepted. The same text can be sent as a text/csv body, see the operation description.',
+      }),
+    ),
+    outputChannel: Type.Optional(Type.String({ maxLength: 120, description: 'CSV column name of the output channel (default: by name hints, then CH1)' })),
+    capacitorChannel: Type.Optional(Type.String({ maxLength: 120, description: 'CSV column name of the capacitor channel (default: by name hints, then CH2)' })),
+    verticalUncertainty: Type.Optional(
+      Type.Number({ exclusiveMinimum: 0, maximum: 0.5, description: 'Vertical accuracy, fraction: σ = f·|reading| ⊕ f·swing ⊕ half an ADC step (default 0.005)' }),
+    ),
+    timebaseUncertainty: Type.Optional(Type.Number({ exclusiveMinimum: 0, maximum: 0.1, description: 'Time-base accuracy, fraction (default 5e-5)' })),
+  },
+  { $id: 'FitCapture', additionalProperties: false, description: 'A scope capture: one or two channels as arrays with a sample interval or time column, or a CSV export' },
+);
+
+export const Tolerances = Type.Record(Type.String({ pattern: '^[A-Za-z][A-Za-z0-9]*$' }), Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1 }), {
+  $id: 'Tolerances',
+  description: 'Part tolerances by role as fractions (0.05 = 5 %); defaults 1 % for resistors and 10 % for capacitors. Read as ±3σ.',
+});
+
+export const FitRequest = Type.Object(
+  {
+    circuit: ref(Circuit),
+    tolerances: Type.Optional(ref(Tolerances)),
+    measurements: Type.Optional(ref(FitMeasurements)),
+    capture: Type.Optional(ref(FitCapture)),
+    diagnosis: Type.Optional(
+      Type.Object(
+        {
+          maxCauses: Type.Optional(Type.Union([Type.Literal(1), Type.Literal(2)], { description: 'Explanations with up to this many causes (default 2)' })),
+          maxExplanations: Type.Optional(Type.Integer({ minimum: 1, maximum: 50, description: 'How many ranked explanations to return (default 8)' })),
+        },
+        { additionalProperties: false },
+      ),
+    ),
+  },
+  { $id: 'FitRequest', additionalProperties: false },
+);
+export type FitRequestBody = Static<typeof FitRequest>;
+
+export const FitCsvQuery = Type.Object(
+  {
+    circuit: Type.Optional(Type.String({ description: 'text/csv bodies only (required then): the circuit as URL-encoded JSON, the same object as an /v1/analyze body' })),
+    tolerances: Type.Optional(Type.String({ description: 'text/csv bodies only: tolerances as URL-encoded JSON' })),
+    measurements: Type.Optional(Type.String({ description: 'text/csv bodies only: scalar measurements as URL-encoded JSON, combined with the capture' })),
+    outputChannel: Type.Optional(Type.String({ maxLength: 120, description: 'text/csv bodies only: CSV column of the output channel' })),
+    capacitorChannel: Type.Optional(Type.String({ maxLength: 120, description: 'text/csv bodies only: CSV column of the capacitor channel' })),
+    sampleIntervalS: Type.Optional(Type.String({ pattern: '^[0-9.eE+-]+$', description: 'text/csv bodies only: sample interval, s, when the file has neither a time column nor an interval entry' })),
+    maxCauses: Type.Optional(Type.Union([Type.Literal('1'), Type.Literal('2')], { description: 'text/csv bodies only: as diagnosis.maxCauses' })),
+  },
+  { additionalProperties: false },
+);
+export type FitCsvQueryString = Static<typeof FitCsvQuery>;
+
+// ---- response ----
+
+const NumberOrNull = (description?: string) => Type.Union([Type.Number(), Type.Null()], description ? { description } : {});
+const num = (description?: string) => Type.Number(description ? { description } : {});
+
+const Figures = Type.Object(
+  {
+    frequencyHz: num(),
+    periodS: num(),
+    dutyCycle: num(),
+    capacitorMinV: num(),
+    capacitorMaxV: num(),
+    outputHighV: num(),
+    outputLowV: num(),
+    riseTimeS: num(),
+    fallTimeS: num(),
+    capacitorRisingTauS: num(),
+    capacitorFallingTauS: num(),
+    upperThresholdV: num(),
+    lowerThresholdV: num(),
+    hysteresisRatio: num('(upper − lower threshold)/(output high − low)'),
+    effectiveEdgeDelayS: num('Recovery delay + half the slew ramp, s'),
+  },
+  { additionalProperties: false, description: 'Figures the forward model predicts' },
+);
+
+const ObservableName = Type.Union(OBSERVABLES.map((n) => Type.Literal(n)));
+
+const MeasurementReport = Type.Object(
+  {
+    name: ObservableName,
+    value: num(),
+    uncertainty: num('Standard uncertainty used, same unit'),
+    source: Type.Union([Type.Literal('scalar'), Type.Literal('capture')]),
+    nominal: num('What the nominal circuit predicts'),
+    fitted: num('What the fitted circuit predicts'),
+    nominalResidual: num('(nominal − measured)/uncertainty'),
+    fittedResidual: num('(fitted − measured)/uncertainty'),
+  },
+  { additionalProperties: false },
+);
+
+const EstimateProperties = {
+  parameter: Type.String({ description: 'Part role (cTiming, rTiming, ...) or amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS)' }),
+  kind: Type.Union([Type.Literal('part'), Type.Literal('amplifier')]),
+  unit: Type.Union([Type.Literal('ohm'), Type.Literal('F'), Type.Literal('V'), Type.Literal('V/s'), Type.Literal('s')]),
+  nominal: NumberOrNull('Nominal value (null: no limit, e.g. an instant slew rate)'),
+  estimate: NumberOrNull('MAP estimate (null: no limit)'),
+  standardDeviation: NumberOrNull('Posterior standard deviation, first order (null: unbounded)'),
+  priorStandardDeviation: NumberOrNull('Prior standard deviation at nominal'),
+  tolerance: Type.Optional(num('Part tolerance, fraction')),
+  shift: num('estimate − nominal (slew rate: in its reciprocal, s/V)'),
+  relativeShift: Type.Optional(num('estimate/nominal − 1 (parts)')),
+  shiftInTolerances: num('Shift over the tolerance (parts) or over the 3σ prior spread (amplifier effects)'),
+  posteriorToPriorSd: num('Posterior over prior width; near 1: the data say nothing about this parameter'),
+};
+
+export const ParameterEstimate = Type.Object(EstimateProperties, { $id: 'ParameterEstimate', additionalProperties: false });
+
+const Cause = Type.Object(
+  {
+    ...EstimateProperties,
+    withinTolerance: Type.Boolean(),
+    text: Type.String({ description: 'e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance"' }),
+  },
+  { additionalProperties: false },
+);
+
+const Explanation = Type.Object(
+  {
+    rank: Type.Integer({ minimum: 1 }),
+    causes: Type.Array(Cause, { minItems: 1, maxItems: 2 }),
+    score: num('Posterior probability among the nominal circuit and the candidates considered, 0..1'),
+    logEvidence: num('Laplace-approximated log evidence'),
+    residualChiSquare: num('χ² of the measurements this explanation leaves'),
+    measurementCount: Type.Integer(),
+    accountsForMeasurements: Type.Boolean({ description: 'Residual χ² within its 95 % bound' }),
+    residuals: Type.Array(
+      Type.Object(
+        { measurement: ObservableName, measured: num(), predicted: num(), uncertainty: num(), normalized: num('(predicted − measured)/uncertainty') },
+        { additionalProperties: false },
+      ),
+    ),
+    summary: Type.String(),
+  },
+  { $id: 'FitExplanation', additionalProperties: false },
+);
+
+const CaptureFeatures = Type.Object(
+  {
+    timingSource: Type.Union([Type.Literal('output'), Type.Literal('capacitor')]),
+    frequencyHz: num(),
+    periodS: num(),
+    periodJitterS: num('Standard deviation of the periods, s'),
+    periodMinS: num(),
+    periodMaxS: num(),
+    periodCount: Type.Integer(),
+    dutyCycle: num(),
+    outputHighV: Type.Optional(num('IEEE Std 181 histogram state level, V')),
+    outputLowV: Type.Optional(num()),
+    riseTimeS: Type.Optional(num('Mean 10–90 % transition duration, s')),
+    fallTimeS: Type.Optional(num()),
+    edgeCount: Type.Optional(Type.Integer()),
+    capacitorMinV: Type.Optional(num()),
+    capacitorMaxV: Type.Optional(num()),
+    upperSwitchV: Type.Optional(num('Capacitor voltage at the falling output edges (segment fits), V')),
+    lowerSwitchV: Type.Optional(num()),
+    risingTauS: Type.Optional(num('Fitted time constant of the charging segments, s')),
+    fallingTauS: Type.Optional(num()),
+    segmentCount: Type.Optional(Type.Integer()),
+    sampleCount: Type.Integer(),
+    sampleIntervalS: num(),
+    durationS: num(),
+  },
+  { additionalProperties: false },
+);
+
+export const FitResult = Type.Object(
+  {
+    forwardModel: Type.String({ description: 'What predicts the figures during the fit' }),
+    nominal: Figures,
+    fitted: Figures,
+    measurements: Type.Array(MeasurementReport),
+    capture: Type.Optional(
+      Type.Object(
+        { features: CaptureFeatures, notes: Type.Array(Type.String()), warnings: Type.Array(Type.String()) },
+        { additionalProperties: false, description: 'What the capture analysis (IEEE Std 181 levels, crossings, segment fits) found' },
+      ),
+    ),
+    estimates: Type.Array(ref(ParameterEstimate), { description: 'MAP estimates of every effective parameter, with priors from the nominal values and tolerances' }),
+    hysteresisRatio: Type.Object(
+      { nominal: num(), estimate: num(), standardDeviation: num() },
+      { additionalProperties: false, description: 'Derived, identifiable: (upper − lower threshold)/(output swing)' },
+    ),
+    indistinguishable: Type.Array(
+      Type.Object(
+        {
+          parameters: Type.Array(Type.String(), { minItems: 2, maxItems: 2 }),
+          correlation: num('Posterior correlation'),
+          sensitivityAlignment: num('Cosine between the data sensitivities of the two: ±1 = the measurements respond to both alike'),
+          distinguishingSigma: num('What the measurements could see of the difference between the two across a tolerance band, in σ (< 1: nothing)'),
+          note: Type.String(),
+        },
+        { additionalProperties: false },
+      ),
+      { description: 'Pairs the data cannot tell apart: whatever one does across its tolerance band, the other mimics to within the measurement uncertainty' },
+    ),
+    uninformed: Type.Array(Type.String(), { description: 'Parameters the data add (almost) nothing to: posterior width over 0.9 of the prior' }),
+    correlation: Type.Object(
+      { parameters: Type.Array(Type.String()), matrix: Type.Array(Type.Array(num())) },
+      { additionalProperties: false, description: 'Posterior correlation matrix' },
+    ),
+    fit: Type.Object(
+      { chiSquare: num('Data χ² at the estimate'), priorChiSquare: num(), measurementCount: Type.Integer(), iterations: Type.Integer(), converged: Type.Boolean() },
+      { additionalProperties: false },
+    ),
+    verdict: Type.Object(
+      {
+        agreesWithNominal: Type.Boolean(),
+        nominalChiSquare: num(),
+        measurementCount: Type.Integer(),
+        chiSquareBound95: num('95 % χ² bound (Wilson–Hilferty)'),
+        nominalScore: num('Posterior probability that nothing is off'),
+        statement: Type.String(),
+      },
+      { additionalProperties: false },
+    ),
+    explanations: Type.Array(ref(Explanation), { description: 'Ranked one- and two-cause explanations' }),
+    candidateCount: Type.Integer({ description: 'Candidates scored (single causes, and pairs that beat both their single causes)' }),
+    warnings: Type.Array(Type.String()),
+  },
+  { $id: 'FitResult', additionalProperties: false },
+);
+
+export const FIT_SCHEMAS = [ScalarMeasurement, FitMeasurements, FitCapture, Tolerances, FitRequest, ParameterEstimate, Explanation, FitResult];

@@ -1,0 +1,209 @@
+/** POST /v1/snap, and the value-source and fitted-part shapes design shares. */
+import { Type, type Static } from 'typebox';
+import { SERIES_NAMES } from '../../core/parts/index.ts';
+import { AmplifierSpec, Check, ComponentValue, ref, Supply } from './common.ts';
+
+const Fraction = (description: string) => Type.Number({ minimum: 0, maximum: 1, description });
+
+export const ValueSource = Type.Union(
+  [
+    Type.Object(
+      {
+        series: Type.Union(
+          SERIES_NAMES.map((n) => Type.Literal(n)),
+          { description: 'IEC 60063 preferred-number series' },
+        ),
+        tolerance: Type.Optional(Type.Number({ exclusiveMinimum: 0, maximum: 1, description: 'Part tolerance as a fraction (default: the tolerance usual for the series)' })),
+      },
+      { additionalProperties: false },
+    ),
+    Type.Object(
+      { catalogue: Type.String({ minLength: 1, maxLength: 64, description: 'Id of a stored catalogue; only parts not marked not-for-new-designs are used' }) },
+      { additionalProperties: false },
+    ),
+  ],
+  { $id: 'ValueSource', description: 'Where a role takes its values from: a series, or an approved-parts catalogue' },
+);
+
+const ROLE_PATTERN = '^[a-z][A-Za-z0-9]{0,31}$';
+
+export const ValueSources = Type.Object(
+  {
+    resistor: Type.Optional(ref(ValueSource)),
+    capacitor: Type.Optional(ref(ValueSource)),
+    roles: Type.Optional(
+      Type.Record(Type.String({ pattern: ROLE_PATTERN }), ref(ValueSource), { description: 'Per-role sources, overriding the per-kind ones (e.g. rTiming from a catalogue)' }),
+    ),
+  },
+  { $id: 'ValueSources', additionalProperties: false, description: 'Value source per kind of part, with per-role overrides' },
+);
+
+const SourceReference = {
+  tolerance: Type.Number({ description: 'Part tolerance, fraction' }),
+  series: Type.Optional(Type.String({ description: 'Series the value belongs to' })),
+  partNumber: Type.Optional(Type.String({ description: 'Catalogue part number' })),
+  catalogue: Type.Optional(Type.String({ description: 'Catalogue id' })),
+  dielectric: Type.Optional(Type.String()),
+};
+
+export const PartReference = Type.Object(
+  { value: Type.Number({ description: 'Ohm or farad' }), ...SourceReference },
+  { $id: 'PartReference', additionalProperties: false, description: 'One physical part: its value and where it comes from' },
+);
+
+const fittedProperties = {
+  value: Type.Number({ description: 'Effective value of the role, ohm or farad' }),
+  arrangement: Type.Union([Type.Literal('single'), Type.Literal('series'), Type.Literal('parallel')]),
+  tolerance: Type.Optional(SourceReference.tolerance),
+  series: SourceReference.series,
+  partNumber: SourceReference.partNumber,
+  catalogue: SourceReference.catalogue,
+  dielectric: SourceReference.dielectric,
+  parts: Type.Optional(Type.Array(ref(PartReference), { description: 'The two parts of a series or parallel combination' })),
+};
+
+export const FittedPart = Type.Object(
+  { role: Type.String(), ...fittedProperties },
+  {
+    $id: 'FittedPart',
+    additionalProperties: false,
+    description: 'A role filled by one part (its reference inline) or by two parts in series or parallel (listed in `parts`)',
+  },
+);
+
+export const SnapChoice = Type.Object(
+  { ...fittedProperties, error: Type.Number({ description: '(value − ideal) / ideal' }) },
+  { $id: 'SnapChoice', additionalProperties: false },
+);
+
+const ValueRequest = Type.Object(
+  {
+    ideal: ref(ComponentValue),
+    kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor')]),
+    source: ref(ValueSource),
+    combinations: Type.Optional(Type.Boolean({ default: false, description: 'Also look for the best two-part series or parallel combination' })),
+    label: Type.Optional(Type.String({ maxLength: 64, description: 'Echoed back (e.g. a reference designator)' })),
+  },
+  { additionalProperties: false },
+);
+
+const Ranges = Type.Object(
+  {
+    rMinOhm: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
+    rMaxOhm: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
+    cMinF: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
+    cMaxF: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
+  },
+  { additionalProperties: false, description: 'Value ranges searched (default 100 Ω to 10 MΩ, 100 pF to 10 µF)' },
+);
+
+export const SNAP_TOPOLOGIES = ['single-supply-divider', 'split-supply'] as const;
+
+const CircuitSnapRequest = Type.Object(
+  {
+    topology: Type.Union(SNAP_TOPOLOGIES.map((t) => Type.Literal(t))),
+    supply: ref(Supply),
+    amplifier: Type.Optional(ref(AmplifierSpec)),
+    targetFrequencyHz: Type.Number({ exclusiveMinimum: 0 }),
+    targetDutyCycle: Type.Optional(Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1 })),
+    dutyTolerance: Type.Optional(Fraction('Absolute duty-cycle tolerance when targetDutyCycle is given (default 0.02)')),
+    values: ref(ValueSources),
+    ranges: Type.Optional(Ranges),
+    dielectrics: Type.Optional(Type.Array(Type.String({ minLength: 1, maxLength: 16 }), { maxItems: 32, description: 'Allowed dielectric codes for catalogue capacitors' })),
+    hysteresis: Type.Optional(
+      Type.Object(
+        {
+          ideal: Type.Optional(
+            Type.Record(Type.String({ pattern: ROLE_PATTERN }), ref(ComponentValue), {
+              description: 'Ideal threshold-network values to snap near (rTop, rBottom, rFeedback or rFeedback, rGround); without them the network is free',
+            }),
+          ),
+          feedbackFractionMin: Type.Optional(Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, description: 'Split supply, free network: lowest β = rGround/(rGround+rFeedback) (default 0.1)' })),
+          feedbackFractionMax: Type.Optional(Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, description: 'Split supply, free network: highest β (default 0.9)' })),
+          hysteresisFraction: Type.Optional(Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, description: 'Single-supply divider, free network: hysteresis as a fraction of the swing (default 1/3)' })),
+        },
+        { additionalProperties: false },
+      ),
+    ),
+    combine: Type.Optional(Type.Union([Type.Literal('rTiming'), Type.Literal('cTiming')], { description: 'Role that may be a two-part series or parallel combination' })),
+    count: Type.Optional(Type.Integer({ minimum: 1, maximum: 50, default: 5 })),
+  },
+  { additionalProperties: false },
+);
+
+export const SnapRequest = Type.Object(
+  {
+    values: Type.Optional(Type.Array(ValueRequest, { maxItems: 200, description: 'Ideal values to snap one by one' })),
+    circuit: Type.Optional(CircuitSnapRequest),
+  },
+  { $id: 'SnapRequest', additionalProperties: false, description: 'Give `values`, `circuit` or both' },
+);
+
+export type SnapRequestBody = Static<typeof SnapRequest>;
+export type CircuitSnapBody = NonNullable<SnapRequestBody['circuit']>;
+
+const ValueSnapResult = Type.Object(
+  {
+    label: Type.Optional(Type.String()),
+    ideal: Type.Number(),
+    kind: Type.String(),
+    nearest: ref(SnapChoice),
+    lower: Type.Union([ref(SnapChoice), Type.Null()], { description: 'Largest value <= ideal (null: none in the source)' }),
+    higher: Type.Union([ref(SnapChoice), Type.Null()], { description: 'Smallest value >= ideal (null: none in the source)' }),
+    combination: Type.Optional(Type.Union([ref(SnapChoice), Type.Null()], { description: 'Best two-part combination when it beats the nearest single part' })),
+  },
+  { additionalProperties: false },
+);
+
+export const Prediction = Type.Object(
+  {
+    frequencyHz: Type.Number(),
+    dutyCycle: Type.Number(),
+    model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')]),
+    thresholds: Type.Object({ upperV: Type.Number(), lowerV: Type.Number() }, { additionalProperties: false }),
+    supplyCurrentA: Type.Number({ description: 'Mean supply current including the amplifier, A' }),
+  },
+  { $id: 'Prediction', additionalProperties: false, description: 'Figures from the full analysis of the fitted circuit (as POST /v1/analyze reports them)' },
+);
+
+const SnapCandidate = Type.Object(
+  {
+    topology: Type.String(),
+    parts: Type.Array(ref(FittedPart)),
+    predicted: ref(Prediction),
+    frequencyError: Type.Number({ description: '(predicted − target) / target' }),
+    dutyCycleError: Type.Union([Type.Number(), Type.Null()], { description: 'predicted − target duty cycle (null: no duty target)' }),
+    checks: Type.Array(ref(Check)),
+  },
+  { additionalProperties: false },
+);
+
+export const SnapResponse = Type.Object(
+  {
+    values: Type.Array(ValueSnapResult),
+    circuit: Type.Optional(
+      Type.Object(
+        {
+          candidates: Type.Array(SnapCandidate, { description: 'Best first by |frequencyError|' }),
+          search: Type.Object(
+            {
+              thresholdNetworks: Type.Integer(),
+              distinctThresholdNetworks: Type.Integer(),
+              resistorValues: Type.Integer(),
+              capacitorValues: Type.Integer(),
+              pairsExamined: Type.Integer({ description: 'Candidate evaluations of the screening search' }),
+              exhaustiveTuples: Type.Number({ description: 'Tuples an exhaustive search would evaluate' }),
+              closedFormEvaluations: Type.Integer(),
+              fullAnalyses: Type.Integer(),
+            },
+            { additionalProperties: false },
+          ),
+        },
+        { additionalProperties: false },
+      ),
+    ),
+  },
+  { $id: 'SnapResponse', additionalProperties: false },
+);
+
+export const SNAP_SCHEMAS = [ValueSource, ValueSources, PartReference, FittedPart, SnapChoice, Prediction, SnapRequest, SnapResponse];

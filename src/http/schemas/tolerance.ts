@@ -1,0 +1,259 @@
+/** Request and response of POST /v1/tolerance. */
+import { Type, type Static } from 'typebox';
+import { TOPOLOGIES } from '../../core/index.ts';
+import { AMPLIFIER_SPREAD_FIELDS, MAX_HISTOGRAM_BINS } from '../../core/tolerance/index.ts';
+import { Circuit } from './circuit.ts';
+import { ref } from './common.ts';
+
+const Fraction = (description: string) => Type.Number({ minimum: 0, exclusiveMaximum: 1, description });
+
+const ROLES = [...new Set(TOPOLOGIES.flatMap((t) => Object.keys(t.roles)))];
+
+function byRole<T extends Parameters<typeof Type.Optional>[0]>(schema: () => T) {
+  return Object.fromEntries(ROLES.map((role) => [role, Type.Optional(schema())]));
+}
+
+export const TemperatureCoefficient = Type.Union(
+  [
+    Type.Object(
+      {
+        tempcoPpmPerK: Type.Number({ description: 'Linear temperature coefficient, ppm/K (value × (1 + α·(T − 25 °C)))' }),
+        tempcoTolerancePpmPerK: Type.Optional(Type.Number({ minimum: 0, description: 'Spread of the coefficient, ± ppm/K (uniform)' })),
+      },
+      { additionalProperties: false },
+    ),
+    Type.Object(
+      {
+        dielectric: Type.String({
+          minLength: 1,
+          maxLength: 40,
+          description:
+            'Capacitor dielectric: an EIA-198 code (class I such as C0G or U2J: linear tempco ± its tolerance; class II/III such as X7R, X5R, Y5V: the code\'s change band, taken as uniform within the band at every temperature of the range) or a technology word (PP, PET, PPS, mica...)',
+        }),
+      },
+      { additionalProperties: false },
+    ),
+  ],
+  { $id: 'TemperatureCoefficient', description: 'A part\'s temperature behaviour' },
+);
+
+export const ToleranceRequest = Type.Object(
+  {
+    circuit: ref(Circuit),
+    tolerances: Type.Object(byRole(() => Fraction('Tolerance of this part, fraction (0.01 = 1 %)')), {
+      additionalProperties: false,
+      description: 'Per-part tolerance by role, fraction. Parts not listed are exact.',
+    }),
+    temperatureCoefficients: Type.Optional(
+      Type.Object(byRole(() => ref(TemperatureCoefficient)), { additionalProperties: false, description: 'Temperature behaviour by role' }),
+    ),
+    temperature: Type.Optional(
+      Type.Object(
+        {
+          minC: Type.Number({ description: 'Lowest board temperature, °C' }),
+          maxC: Type.Number({ description: 'Highest board temperature, °C' }),
+        },
+        { additionalProperties: false, description: 'Temperature range; Monte Carlo draws it uniformly, corners take its ends' },
+      ),
+    ),
+    supplyTolerance: Type.Optional(Fraction('Supply spread, fraction: both rails scale by one shared draw unless supplyRailsIndependent')),
+    supplyRailsIndependent: Type.Optional(Type.Boolean({ description: 'Draw each rail on its own (default false: one regulator, rails move together)' })),
+    amplifierSpreads: Type.Optional(
+      Type.Object(
+        {
+          ...Object.fromEntries(AMPLIFIER_SPREAD_FIELDS.map((f) => [f, Type.Optional(Fraction(`Spread of ${f}, fraction of its nominal value`))])),
+          inputOffsetRangeV: Type.Optional(Type.Number({ minimum: 0, maximum: 1, description: 'Input offset anywhere within nominal ± this, V' })),
+        },
+        {
+          additionalProperties: false,
+          description: 'Amplifier figure spreads. Slew rate and delay matter only when the time-domain model answers; spreads of a figure that is 0 or unlimited have no effect.',
+        },
+      ),
+    ),
+    tracking: Type.Optional(
+      Type.Array(
+        Type.Object(
+          {
+            roles: Type.Array(Type.Union(ROLES.map((r) => Type.Literal(r))), { minItems: 2, maxItems: 8, description: 'Parts that move together (one resistor network)' }),
+            tolerance: Type.Optional(Fraction('Spread of the shared draw (default: the largest tolerance of the members)')),
+            residualTolerance: Type.Optional(Fraction('Independent spread of each member on top of the shared draw (default 0)')),
+          },
+          { additionalProperties: false },
+        ),
+        { maxItems: 8, description: 'Tracking groups: members share one random draw (their own tolerances then only set the default)' },
+      ),
+    ),
+    monteCarlo: Type.Optional(
+      Type.Object(
+        {
+          samples: Type.Integer({ minimum: 1, description: 'Samples (up to 1e6 with the closed form; 422 beyond)' }),
+          seed: Type.Optional(Type.Integer({ minimum: 0, maximum: Number.MAX_SAFE_INTEGER, description: 'Seed (default 1): the same seed gives the same result' })),
+          distribution: Type.Optional(
+            Type.Union([Type.Literal('uniform'), Type.Literal('normal')], {
+              description: 'Of tolerances, supply and amplifier spreads (default normal). Normal is truncated at ± the tolerance.',
+            }),
+          ),
+          sigmaPerTolerance: Type.Optional(
+            Type.Number({ exclusiveMinimum: 0, maximum: 1, description: 'Normal only: σ as a fraction of the tolerance (default 1/3, tolerance = 3σ, common practice)' }),
+          ),
+        },
+        { additionalProperties: false, description: 'Monte Carlo settings (default 10 000 samples, seed 1, normal)' },
+      ),
+    ),
+    spec: Type.Optional(
+      Type.Object(
+        {
+          frequencyHz: Type.Number({ exclusiveMinimum: 0, description: 'Target frequency, Hz' }),
+          frequencyTolerance: Fraction('Allowed deviation from frequencyHz, fraction'),
+          dutyMin: Type.Optional(Type.Number({ minimum: 0, maximum: 1 })),
+          dutyMax: Type.Optional(Type.Number({ minimum: 0, maximum: 1 })),
+        },
+        { additionalProperties: false, description: 'Spec the yield is counted against' },
+      ),
+    ),
+    histogramBins: Type.Optional(Type.Integer({ minimum: 1, maximum: MAX_HISTOGRAM_BINS, description: 'Bars of the SVG histogram (default 60)' })),
+  },
+  { $id: 'ToleranceRequest', additionalProperties: false },
+);
+
+export type ToleranceRequestBody = Static<typeof ToleranceRequest>;
+
+const Summary = Type.Object(
+  {
+    p0_1: Type.Number(),
+    p1: Type.Number(),
+    p5: Type.Number(),
+    p50: Type.Number(),
+    p95: Type.Number(),
+    p99: Type.Number(),
+    p99_9: Type.Number(),
+    mean: Type.Number(),
+    std: Type.Number({ description: 'Sample standard deviation (n − 1)' }),
+    min: Type.Number(),
+    max: Type.Number(),
+  },
+  { $id: 'DistributionSummary', additionalProperties: false, description: 'Percentiles (Hyndman & Fan definition 7), mean, std, extremes' },
+);
+
+const NumberMap = (description: string) => Type.Object({}, { additionalProperties: Type.Number(), description });
+
+const Corner = Type.Object(
+  {
+    frequencyHz: Type.Number(),
+    dutyCycle: Type.Number(),
+    temperatureC: Type.Union([Type.Number(), Type.Null()]),
+    values: NumberMap('Value of every varied parameter at the corner, SI units'),
+    deviations: NumberMap('Relative change of each varied parameter against nominal'),
+  },
+  { $id: 'ToleranceCorner', additionalProperties: false },
+);
+
+export const ToleranceResult = Type.Object(
+  {
+    topology: Type.String(),
+    model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')], { description: 'Which model evaluated every point' }),
+    nominal: Type.Object({ frequencyHz: Type.Number(), dutyCycle: Type.Number() }, { additionalProperties: false }),
+    worstCase: Type.Object(
+      {
+        frequencyMinHz: Type.Number(),
+        frequencyMaxHz: Type.Number(),
+        dutyMin: Type.Number(),
+        dutyMax: Type.Number(),
+        method: Type.Union([Type.Literal('all-corners'), Type.Literal('sensitivity-guided')]),
+        cornersEvaluated: Type.Integer(),
+        latchedCorners: Type.Integer({ description: 'Corners at which the circuit does not oscillate' }),
+        corners: Type.Object(
+          { frequencyMin: ref(Corner), frequencyMax: ref(Corner), dutyMin: ref(Corner), dutyMax: ref(Corner) },
+          { additionalProperties: false, description: 'The corner that produced each extreme' },
+        ),
+        withinSpec: Type.Union([Type.Boolean(), Type.Null()], { description: 'Every corner meets the spec (null without a spec)' }),
+      },
+      { additionalProperties: false },
+    ),
+    monteCarlo: Type.Object(
+      {
+        samples: Type.Integer(),
+        seed: Type.Integer(),
+        distribution: Type.Union([Type.Literal('uniform'), Type.Literal('normal')]),
+        sigmaPerTolerance: Type.Union([Type.Number(), Type.Null()]),
+        oscillating: Type.Integer(),
+        latched: Type.Integer(),
+        frequencyHz: Type.Union([ref(Summary), Type.Null()]),
+        dutyCycle: Type.Union([ref(Summary), Type.Null()]),
+        yield: Type.Union([Type.Number(), Type.Null()], { description: 'Fraction of samples inside the spec (latched samples fail); null without a spec' }),
+        yieldDetail: Type.Union([
+          Type.Object(
+            {
+              passing: Type.Integer(),
+              failing: Type.Integer(),
+              standardError: Type.Number(),
+              interval95: Type.Object({ low: Type.Number(), high: Type.Number() }, { additionalProperties: false, description: 'Wilson score interval' }),
+              frequencyPassFraction: Type.Number(),
+              dutyPassFraction: Type.Number(),
+            },
+            { additionalProperties: false },
+          ),
+          Type.Null(),
+        ]),
+        elapsedS: Type.Number(),
+        samplesPerSecond: Type.Number(),
+      },
+      { additionalProperties: false },
+    ),
+    sensitivities: Type.Array(
+      Type.Object(
+        {
+          role: Type.String({ description: 'Part role, or the supply/amplifier parameter name' }),
+          kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor'), Type.Literal('supply'), Type.Literal('amplifier'), Type.Literal('load')]),
+          sensitivity: Type.Number({ description: 'd ln f / d ln x at nominal' }),
+          dutySensitivity: Type.Number({ description: 'd(duty) / d ln x at nominal' }),
+          varianceShare: Type.Number({ description: "Share of the first-order variance of ln f from this part's own variations" }),
+        },
+        { additionalProperties: false },
+      ),
+      { description: 'Ranked by |sensitivity|' },
+    ),
+    varianceSources: Type.Array(
+      Type.Object(
+        {
+          source: Type.String(),
+          kind: Type.Union([
+            Type.Literal('part-tolerance'),
+            Type.Literal('tracking'),
+            Type.Literal('tracking-residual'),
+            Type.Literal('temperature'),
+            Type.Literal('tempco-spread'),
+            Type.Literal('dielectric-band'),
+            Type.Literal('supply'),
+            Type.Literal('amplifier'),
+          ]),
+          share: Type.Number(),
+          relativeStd: Type.Number(),
+        },
+        { additionalProperties: false },
+      ),
+      { description: 'First-order variance budget of ln f by independent source, largest first' },
+    ),
+    linearEstimate: Type.Object(
+      { frequencyRelativeStd: Type.Number({ description: 'Root sum of squares of the sources, fraction' }) },
+      { additionalProperties: false },
+    ),
+    temperatureModels: Type.Array(
+      Type.Object(
+        {
+          role: Type.String(),
+          model: Type.Union([Type.Literal('tempco'), Type.Literal('dielectric')]),
+          dielectric: Type.Union([Type.String(), Type.Null()]),
+          changeMinFraction: Type.Number(),
+          changeMaxFraction: Type.Number(),
+          withinRatedRange: Type.Boolean(),
+        },
+        { additionalProperties: false },
+      ),
+    ),
+    notes: Type.Array(Type.Object({ code: Type.String(), message: Type.String() }, { additionalProperties: false })),
+  },
+  { $id: 'ToleranceResult', additionalProperties: false },
+);
+
+export const TOLERANCE_SCHEMAS = [TemperatureCoefficient, ToleranceRequest, Summary, Corner, ToleranceResult];

@@ -1,0 +1,108 @@
+/**
+ * A worker-thread pool (piscina) for heavy pure-core work, so one request never
+ * stalls the event loop (DESIGN §2). Routes call
+ *
+ *     const result = await app.services.workers.run('tolerance', input, { signal });
+ *
+ * with a task name from tasks.ts; input and output are structured-cloned. A
+ * CoreError thrown in the worker is rethrown here as a CoreError, so the usual
+ * problem+json mapping applies. A full queue rejects with 503 + Retry-After.
+ *
+ * The worker entry is worker.ts under tsx/vitest (loaded through tsx's ESM
+ * hooks, passed to the thread with --import) and worker.js after `npm run build`.
+ */
+import { createRequire } from 'node:module';
+import { availableParallelism } from 'node:os';
+import { pathToFileURL } from 'node:url';
+import { Piscina } from 'piscina';
+import { CoreError } from '../../core/errors.ts';
+import { HttpProblem } from '../problem.ts';
+import type { TaskName, TaskInput, TaskOutput } from './tasks.ts';
+import runTaskInline, { type TaskReply } from './worker.ts';
+
+export interface WorkerPoolOptions {
+  /** Worker threads; 0 runs tasks inline on the calling thread (debugging only: it blocks the event loop). */
+  threads: number;
+  /** Threads kept alive when idle (default 0: spawned on first use, so apps that never run heavy work start none). */
+  minThreads?: number;
+  /** Idle time before a thread above minThreads exits, ms. */
+  idleTimeoutMs?: number;
+  /** Tasks that may wait for a thread; beyond it run() rejects with 503 (default 8 per thread). */
+  maxQueue?: number;
+}
+
+export interface RunOptions {
+  /** Aborting cancels a queued task and terminates a running one. */
+  signal?: AbortSignal;
+}
+
+export interface WorkerPoolStats {
+  threads: number;
+  queued: number;
+  completed: number;
+}
+
+const RUNNING_FROM_SOURCE = import.meta.url.endsWith('.ts');
+
+/** Where the worker entry lives and what a thread needs to load it. */
+export function workerEntry(): { filename: string; execArgv: string[] } {
+  if (!RUNNING_FROM_SOURCE) return { filename: new URL('./worker.js', import.meta.url).href, execArgv: [] };
+  // TypeScript source: the thread loads tsx's ESM hooks first (tsx is a dev dependency; dist/ never needs it).
+  const tsxLoader = pathToFileURL(createRequire(import.meta.url).resolve('tsx')).href;
+  return { filename: new URL('./worker.ts', import.meta.url).href, execArgv: ['--import', tsxLoader] };
+}
+
+export class WorkerPool {
+  private readonly piscina: Piscina | undefined;
+  private closed = false;
+
+  constructor(readonly options: WorkerPoolOptions) {
+    const threads = Math.max(0, Math.floor(options.threads));
+    if (threads === 0) return;
+    const entry = workerEntry();
+    this.piscina = new Piscina({
+      filename: entry.filename,
+      execArgv: entry.execArgv,
+      maxThreads: threads,
+      minThreads: Math.min(threads, options.minThreads ?? 0),
+      idleTimeout: options.idleTimeoutMs ?? 60_000,
+      maxQueue: options.maxQueue ?? threads * 8,
+    });
+  }
+
+  /** Default size: the configured count, capped by the machine's parallelism. */
+  static sized(threads: number, extra: Omit<WorkerPoolOptions, 'threads'> = {}): WorkerPool {
+    return new WorkerPool({ threads: Math.min(threads, Math.max(1, availableParallelism())), ...extra });
+  }
+
+  async run<N extends TaskName>(task: N, input: TaskInput<N>, options: RunOptions = {}): Promise<TaskOutput<N>> {
+    if (this.closed) throw new HttpProblem(503, 'shutting-down', 'The service is shutting down', undefined, { 'retry-after': '5' });
+    let reply: TaskReply;
+    if (!this.piscina) {
+      reply = runTaskInline({ task, input });
+    } else {
+      try {
+        reply = (await this.piscina.run({ task, input }, { signal: options.signal })) as TaskReply;
+      } catch (err) {
+        if (err instanceof Error && /queue is at limit/i.test(err.message)) {
+          throw new HttpProblem(503, 'overloaded', 'All worker threads are busy and the queue is full; retry later', undefined, { 'retry-after': '2' });
+        }
+        throw err;
+      }
+    }
+    if (!reply.ok) throw new CoreError(reply.error.code, reply.error.message, reply.error.pointer, reply.error.details);
+    return reply.value as TaskOutput<N>;
+  }
+
+  get stats(): WorkerPoolStats {
+    if (!this.piscina) return { threads: 0, queued: 0, completed: 0 };
+    return { threads: this.piscina.threads.length, queued: this.piscina.queueSize, completed: this.piscina.completed };
+  }
+
+  /** Lets running tasks finish, then stops the threads. */
+  async close(): Promise<void> {
+    if (this.closed) return;
+    this.closed = true;
+    await this.piscina?.close();
+  }
+}

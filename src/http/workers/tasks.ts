@@ -1,0 +1,29 @@
+/**
+ * Named pure-core tasks the worker pool can run. Each is a synchronous function
+ * of structured-cloneable input (plain objects, numbers including Infinity,
+ * typed arrays) to structured-cloneable output. Add a task: import its core
+ * function here and list it; `WorkerPool.run(name, input)` is then typed by it.
+ * Only src/core imports belong here: this module is loaded inside worker threads.
+ */
+import { fitCircuit, type FitInput } from '../../core/fit/index.ts';
+import { runToleranceAnalysis, type ToleranceRequest } from '../../core/tolerance/index.ts';
+
+export const TASKS = {
+  /** POST /v1/tolerance: worst case, Monte Carlo, sensitivities. */
+  tolerance: (input: ToleranceRequest) => runToleranceAnalysis(input),
+  /** POST /v1/fit: capture analysis (up to millions of samples), MAP fit, diagnosis. */
+  fit: (input: FitInput) => fitCircuit(input),
+  /** Round trip through a worker (health and tests): echoes its input and names the thread. */
+  echo: <T>(input: T) => input,
+  /** Busy-waits for input.ms milliseconds, then answers (tests of event-loop freedom and queueing). */
+  spin: (input: { ms: number }) => {
+    const until = performance.now() + input.ms;
+    let spins = 0;
+    while (performance.now() < until) spins++;
+    return { spins };
+  },
+} as const;
+
+export type TaskName = keyof typeof TASKS;
+export type TaskInput<N extends TaskName> = Parameters<(typeof TASKS)[N]>[0];
+export type TaskOutput<N extends TaskName> = ReturnType<(typeof TASKS)[N]>;
