@@ -5,7 +5,7 @@
  *
  * Temperature is folded into each part's band before the analysis: a part
  * whose value may move by ±t (tolerance) and by ±d over the temperature range
- * enters as ±((1 + t)(1 + d) − 1). For the worst case this is exact when each
+ * enters with the larger of its folded sides, (1 + t)(1 + d↑) − 1 and 1 − (1 − t)(1 − d↓). For the worst case this is exact when each
  * part's temperature drift is an independent spread (resistor tempcos written
  * as ±ppm/K, class I ceramics near 0 ppm/K, class II/III bands) and
  * conservative otherwise (it ignores that a shared board temperature moves
@@ -42,6 +42,9 @@ import type { BomAssembly, BomCheckOptions, BomLineReading, BomRuleResult, BomTe
 /** Tempco magnitude assumed for a resistor that states none, ppm/K (common practice, from memory). */
 export const ASSUMED_RESISTOR_TEMPCO_PPM_PER_K = 100;
 
+/** Largest folded band handed to the tolerance analysis (it needs fractions below 1). */
+const MAX_FOLDED_TOLERANCE = 0.99;
+
 /** Samples of a worst-case-only run: the analysis always draws some; one is the least. */
 const WORST_CASE_ONLY_SAMPLES = 1;
 
@@ -58,8 +61,11 @@ export interface AssemblySpread {
 }
 
 interface LineDrift {
-  /** Largest relative value change over the temperature range, fraction. */
+  /** Largest relative value change over the temperature range, fraction (the larger side). */
   drift: number;
+  /** Largest rise and largest fall over the range, fractions ≥ 0 (class II/III bands are lopsided). */
+  driftUp: number;
+  driftDown: number;
   withinRatedRange: boolean;
   assumedTempco: boolean;
 }
@@ -72,19 +78,22 @@ function lineDrift(line: BomLineReading, range: BomTemperatureRange): LineDrift 
   const dT = deltaTemperatureK(range);
   if (line.kind === 'resistor') {
     const tempco = line.tempcoPpmPerK;
-    return { drift: Math.abs(tempco ?? ASSUMED_RESISTOR_TEMPCO_PPM_PER_K) * 1e-6 * dT, withinRatedRange: true, assumedTempco: tempco === undefined };
+    const drift = Math.abs(tempco ?? ASSUMED_RESISTOR_TEMPCO_PPM_PER_K) * 1e-6 * dT;
+    return { drift, driftUp: drift, driftDown: drift, withinRatedRange: true, assumedTempco: tempco === undefined };
   }
   if (line.dielectricCode !== undefined) {
     try {
       const d = parseDielectric(line.dielectricCode);
       const ends = [capacitanceChangeAt(d, range.minC), capacitanceChangeAt(d, range.maxC)];
-      const drift = Math.max(...ends.map((e) => Math.max(Math.abs(e.minFraction), Math.abs(e.maxFraction))));
-      return { drift, withinRatedRange: ends.every((e) => e.withinRatedRange), assumedTempco: false };
+      const driftUp = Math.max(0, ...ends.map((e) => e.maxFraction));
+      const driftDown = Math.max(0, ...ends.map((e) => -e.minFraction));
+      return { drift: Math.max(driftUp, driftDown), driftUp, driftDown, withinRatedRange: ends.every((e) => e.withinRatedRange), assumedTempco: false };
     } catch {
       // An unknown code was already reported by the dielectric rule; fall through to the tempco, if any.
     }
   }
-  return { drift: Math.abs(line.tempcoPpmPerK ?? 0) * 1e-6 * dT, withinRatedRange: true, assumedTempco: false };
+  const drift = Math.abs(line.tempcoPpmPerK ?? 0) * 1e-6 * dT;
+  return { drift, driftUp: drift, driftDown: drift, withinRatedRange: true, assumedTempco: false };
 }
 
 /** The analysis request: one folded band per part, the supply band, the spec. */
@@ -92,8 +101,13 @@ export function toleranceRequest(circuit: Circuit, lines: readonly BomLineReadin
   const tolerances: Record<string, number> = {};
   for (const line of lines) {
     const t = line.tolerance ?? 0;
-    const d = assembly.temperature ? lineDrift(line, assembly.temperature).drift : 0;
-    tolerances[line.role] = (1 + t) * (1 + d) - 1;
+    const d = assembly.temperature ? lineDrift(line, assembly.temperature) : { driftUp: 0, driftDown: 0 };
+    // Fold each side separately: up (1 + t)(1 + d↑) − 1, down 1 − (1 − t)(1 − d↓); the analysis takes one
+    // symmetric band, so the larger side. A class III band (−82 %) folds to just under 1; a band beyond
+    // that (only absurd inputs) is held below 1, which the analysis requires of a fraction.
+    const up = (1 + t) * (1 + d.driftUp) - 1;
+    const down = 1 - (1 - t) * (1 - d.driftDown);
+    tolerances[line.role] = Math.min(MAX_FOLDED_TOLERANCE, Math.max(up, down));
   }
   return {
     circuit,

@@ -138,6 +138,15 @@ describe('timing capacitor', () => {
     expect(rule.figures.family).toBe('ceramic-class-3');
     expect(rule.figures.changeMinFraction).toBe(-0.82);
   });
+  it('a Y5V band over a temperature range still gets a worst case: its −82 % side folds below 1 (EIA-198)', () => {
+    // 10 % part tolerance and the class III fall of 82 %: 1 − 0.9 × 0.18 = 0.838 down, so the frequency can
+    // rise to about 1/(1 − 0.838) ≈ 6× nominal, far outside a ±10 % spec — reported, not refused.
+    const result = check(withLine('C1', { value: '4n7 50V Y5V 10%' }, { temperature: { minC: 0, maxC: 50 } }));
+    expect(result.rules.some((r) => r.code === 'circuit-rejected')).toBe(false);
+    const outside = find(result, 'frequency-outside-spec');
+    expect(outside.figures.worstCaseMaxHz as number).toBeGreaterThan(5 * NOMINAL_FREQUENCY_HZ);
+    expect(result.pass).toBe(false);
+  });
   it('dielectric-unfit-for-timing: X7R is EIA-198 class II (±15 %)', () => {
     expect(find(check(withLine('C1', { value: '4n7 50V X7R 10%' })), 'dielectric-unfit-for-timing').figures.changeMaxFraction).toBe(0.15);
   });
