@@ -1,8 +1,8 @@
 /** Amplifier records as the API shows them: limits that do not exist are null. */
 import { Type } from 'typebox';
-import { AmplifierId, amplifierFigureProperties } from './common.ts';
+import { AmplifierId, amplifierFigureProperties, NullableNumber, StringEnum } from './common.ts';
 
-const Nullable = (description: string) => Type.Union([Type.Number(), Type.Null()], { description });
+const Nullable = (description: string) => NullableNumber({ description });
 
 export const Amplifier = Type.Object(
   {
@@ -10,11 +10,11 @@ export const Amplifier = Type.Object(
     name: Type.String(),
     technologyClass: Type.String(),
     description: Type.String(),
-    figuresBasis: Type.Union([Type.Literal('ideal'), Type.Literal('class-typical'), Type.Literal('caller-supplied')], {
+    figuresBasis: StringEnum(['ideal', 'class-typical', 'caller-supplied'], {
       description: 'class-typical: figures typical of the technology class, from memory of the trade, not a datasheet',
     }),
-    source: Type.Union([Type.Literal('built-in'), Type.Literal('registered')]),
-    outputStage: Type.Union([Type.Literal('push-pull'), Type.Literal('open-drain')]),
+    source: StringEnum(['built-in', 'registered']),
+    outputStage: StringEnum(['push-pull', 'open-drain']),
     supplyMinV: Type.Number({ description: 'Minimum total supply span, V' }),
     supplyMaxV: Nullable('Maximum total supply span, V (null: unlimited)'),
     outputHeadroomHighV: Type.Number({ description: 'Output swing limit below V+ at light load, V' }),

@@ -1,13 +1,13 @@
 /** Response schema of POST /v1/analyze. */
 import { Type } from 'typebox';
-import { Check, ref } from './common.ts';
+import { Check, NullableNumber, ref, StringEnum } from './common.ts';
 
 const StateSummary = Type.Object(
   {
     tauS: Type.Number({ description: 'Capacitor time constant in this state, s' }),
     asymptoteV: Type.Number({ description: 'Capacitor voltage the state heads for, V' }),
     switchingV: Type.Number({ description: 'Capacitor voltage at which the output leaves the state, V' }),
-    sourceV: Type.Union([Type.Number(), Type.Null()], { description: 'Output-stage source level, V (null: not driven)' }),
+    sourceV: NullableNumber({ description: 'Output-stage source level, V (null: not driven)' }),
     dwellS: Type.Number({ description: 'Time spent in the state, s' }),
   },
   { additionalProperties: false },
@@ -26,7 +26,7 @@ export const Analysis = Type.Object(
   {
     topology: Type.String(),
     amplifier: AmplifierSummary,
-    model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')], { description: 'Which model answered' }),
+    model: StringEnum(['closed-form', 'time-domain'], { description: 'Which model answered' }),
     frequencyHz: Type.Number(),
     periodS: Type.Number(),
     dutyCycle: Type.Number({ description: 'Fraction of the period the output is high, between 50 % crossings' }),
@@ -39,7 +39,7 @@ export const Analysis = Type.Object(
     states: Type.Object({ high: StateSummary, low: StateSummary }, { additionalProperties: false }),
     powerUp: Type.Object(
       {
-        initialState: Type.Union([Type.Literal('high'), Type.Literal('low')]),
+        initialState: StringEnum(['high', 'low']),
         determinate: Type.Boolean({ description: 'False when both states are consistent at power-up (then high is assumed)' }),
       },
       { additionalProperties: false },
@@ -83,12 +83,12 @@ export const Analysis = Type.Object(
       ),
     ),
     frequencyCeilingHz: Type.Optional(
-      Type.Union([Type.Number(), Type.Null()], {
+      NullableNumber({
         description: 'Highest frequency at which both edges stay within edgeFractionLimit of the period, Hz (null: instant edges)',
       }),
     ),
     edgeFractionLimit: Type.Optional(Type.Number({ description: 'Share of the period an edge may take before the slew-limited check fires' })),
     checks: Type.Array(ref(Check)),
   },
-  { $id: 'Analysis', additionalProperties: true },
+  { $id: 'Analysis', additionalProperties: false },
 );

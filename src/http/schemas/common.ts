@@ -5,6 +5,20 @@
  */
 import { Type, type Static, type TSchema } from 'typebox';
 
+/**
+ * A number or null, written as a JSON Schema type array rather than anyOf: the
+ * response serializer handles type arrays natively but checks anyOf branches
+ * with a validator at run time, and ajv reports a plainer error for it.
+ */
+export function NullableNumber(options: Record<string, unknown> = {}) {
+  return Type.Unsafe<number | null>({ type: ['number', 'null'], ...options });
+}
+
+/** A string from a fixed set, as `enum` (not an anyOf of consts, for the same reasons). */
+export function StringEnum<const T extends readonly string[]>(values: T, options: Record<string, unknown> = {}) {
+  return Type.Unsafe<T[number]>({ type: 'string', enum: [...values], ...options });
+}
+
 /** Reference a registered schema while keeping its static type. */
 export function ref<T extends TSchema>(schema: T) {
   const id = (schema as { $id?: string }).$id;
@@ -33,11 +47,11 @@ export const Supply = Type.Object(
 );
 
 /** A limit that may be absent: null means "no such limit". */
-const Limit = (description: string) => Type.Optional(Type.Union([Type.Number({ exclusiveMinimum: 0 }), Type.Null()], { description }));
+const Limit = (description: string) => Type.Optional(NullableNumber({ exclusiveMinimum: 0, description }));
 const Figure = (description: string) => Type.Optional(Type.Number({ description }));
 
 export const amplifierFigureProperties = {
-  outputStage: Type.Optional(Type.Union([Type.Literal('push-pull'), Type.Literal('open-drain')], { description: 'Output stage type' })),
+  outputStage: Type.Optional(StringEnum(['push-pull', 'open-drain'], { description: 'Output stage type' })),
   supplyMinV: Figure('Minimum total supply span V+ − V−, V'),
   supplyMaxV: Limit('Maximum total supply span, V (null: unlimited)'),
   outputHeadroomHighV: Figure('Light-load output swing limit below V+, V'),
@@ -77,12 +91,12 @@ export const AmplifierSpec = Type.Union([AmplifierId, ref(InlineAmplifier)], {
 export const Check = Type.Object(
   {
     code: Type.String({ description: 'Stable machine-readable code' }),
-    severity: Type.Union([Type.Literal('info'), Type.Literal('warning'), Type.Literal('error'), Type.Literal('caution')]),
+    severity: StringEnum(['info', 'warning', 'error', 'caution']),
     message: Type.String(),
   },
   {
     $id: 'Check',
-    additionalProperties: Type.Union([Type.Number(), Type.String(), Type.Boolean(), Type.Null()]),
+    additionalProperties: Type.Unsafe<number | string | boolean | null>({ type: ['number', 'string', 'boolean', 'null'] }),
     description: 'A design check with the figures behind it (SI units) as further properties',
   },
 );
