@@ -16,10 +16,8 @@ export interface OscillationConditions {
   upperV: number;
 }
 
-/** Throws 'no-oscillation' with the reason when the pair of states latches. */
-export function requireOscillation(high: StateModel, low: StateModel): OscillationConditions {
-  const upperV = high.switchingV;
-  const lowerV = low.switchingV;
+/** Throws 'no-oscillation' when the thresholds leave no hysteresis band (both models need one). */
+export function requireHysteresis(upperV: number, lowerV: number): void {
   if (!(upperV > lowerV)) {
     throw new CoreError(
       'no-oscillation',
@@ -28,6 +26,13 @@ export function requireOscillation(high: StateModel, low: StateModel): Oscillati
       { upperThresholdV: upperV, lowerThresholdV: lowerV },
     );
   }
+}
+
+/** Throws 'no-oscillation' with the reason when the pair of states latches. */
+export function requireOscillation(high: StateModel, low: StateModel): OscillationConditions {
+  const upperV = high.switchingV;
+  const lowerV = low.switchingV;
+  requireHysteresis(upperV, lowerV);
   if (!(high.asymptoteV > upperV)) {
     throw new CoreError(
       'no-oscillation',

@@ -14,7 +14,7 @@ import { Amplifier, AmplifierRegistration } from '../schemas/amplifier.ts';
 import { AmplifierId, problemResponses, ref } from '../schemas/common.ts';
 import { storedBodyToModel } from '../stored-amplifiers.ts';
 import { amplifierRecord } from './amplifiers.ts';
-import { ETAG_HEADER, PRECONDITION_HEADERS, ifMatchForStore, jsonResponse } from './catalogues.ts';
+import { ETAG_HEADER, PRECONDITION_HEADERS, ifMatchForStore, jsonResponse } from '../preconditions.ts';
 
 const idParams = Type.Object({ id: AmplifierId });
 

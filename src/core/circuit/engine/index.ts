@@ -3,10 +3,8 @@
  * exactly solved linear pieces until the switching state repeats, then read
  * the figures off the repeating cycle.
  */
-import { CoreError } from '../../errors.ts';
 import type { PreparedCircuit } from '../analyze.ts';
-import { powerUpState } from '../closed-form.ts';
-import { formatVolts } from '../format.ts';
+import { powerUpState, requireHysteresis } from '../closed-form.ts';
 import { nominalEdgeTimes } from '../frequency-ceiling.ts';
 import type { OscillationFigures } from '../result.ts';
 import { figuresFromWalk, type TimeDomainFigures, type WalkExtras } from './figures.ts';
@@ -29,21 +27,12 @@ export interface TimeDomainRun {
  * Without hysteresis there is nothing to oscillate between, whatever the
  * dynamics: the same refusal (and reason) the closed form gives.
  */
-function requireHysteresis(prepared: PreparedCircuit): void {
-  const upperV = prepared.high.switchingV;
-  const lowerV = prepared.low.switchingV;
-  if (!(upperV > lowerV)) {
-    throw new CoreError(
-      'no-oscillation',
-      `No hysteresis: the upper threshold (${formatVolts(upperV)}) is not above the lower one (${formatVolts(lowerV)}), so the output cannot hold a state`,
-      undefined,
-      { upperThresholdV: upperV, lowerThresholdV: lowerV },
-    );
-  }
+function requireHysteresisOf(prepared: PreparedCircuit): void {
+  requireHysteresis(prepared.high.switchingV, prepared.low.switchingV);
 }
 
 function walkToSteadyState(walk: OscillatorWalk, prepared: PreparedCircuit): SteadyCycle {
-  requireHysteresis(prepared);
+  requireHysteresisOf(prepared);
   walk.reset(prepared);
   walk.powerUp(powerUpState(prepared.high, prepared.low).initialState);
   return walk.runToSteadyState();

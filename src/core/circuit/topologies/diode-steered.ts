@@ -15,7 +15,8 @@ import { CoreError } from '../../errors.ts';
 import { NODE } from '../nodes.ts';
 import type { Branch } from '../network.ts';
 import type { DiodeModel } from '../types.ts';
-import { resistor, type TopologyDefinition } from './topology.ts';
+import { dividerThresholdBranches, ROLE, splitThresholdBranches } from './shared-parts.ts';
+import type { TopologyDefinition } from './topology.ts';
 
 /** Small-signal silicon diode, common practice (the HTTP layer uses the same default). */
 export const DEFAULT_STEERING_DIODE: Readonly<DiodeModel> = Object.freeze({ forwardDropV: 0.6, resistanceOhm: 10 });
@@ -38,20 +39,13 @@ function thresholdBranches(parts: Readonly<Record<string, number>>): Branch[] {
   if (has('rTop')) {
     if (!has('rBottom')) throw new CoreError('missing-part', "With rTop (single-rail arrangement) diode-steered needs rBottom", '/parts/rBottom');
     if (has('rGround')) throw new CoreError('unexpected-part', 'Give either rTop + rBottom (single rail) or rGround (split rails), not both', '/parts/rGround');
-    return [
-      resistor(NODE.positiveRail, NODE.decision, parts.rTop, 'rTop'),
-      resistor(NODE.decision, NODE.ground, parts.rBottom, 'rBottom'),
-      resistor(NODE.output, NODE.decision, parts.rFeedback, 'rFeedback'),
-    ];
+    return dividerThresholdBranches(parts);
   }
   if (has('rBottom')) throw new CoreError('missing-part', 'With rBottom (single-rail arrangement) diode-steered needs rTop', '/parts/rTop');
   if (!has('rGround')) {
     throw new CoreError('missing-part', 'diode-steered needs rGround (split rails) or rTop + rBottom (single rail)', '/parts/rGround');
   }
-  return [
-    resistor(NODE.output, NODE.decision, parts.rFeedback, 'rFeedback'),
-    resistor(NODE.decision, NODE.ground, parts.rGround, 'rGround'),
-  ];
+  return splitThresholdBranches(parts);
 }
 
 export const diodeSteered: TopologyDefinition = {
@@ -61,11 +55,11 @@ export const diodeSteered: TopologyDefinition = {
   roles: {
     rCharge: { kind: 'resistor', description: 'charge-path resistor, in series with the charge diode from the output to N', required: true },
     rDischarge: { kind: 'resistor', description: 'discharge-path resistor, in series with the discharge diode from N to the output', required: true },
-    cTiming: { kind: 'capacitor', description: 'timing capacitor, inverting input to ground', required: true },
-    rFeedback: { kind: 'resistor', description: 'positive-feedback resistor, output to non-inverting input', required: true },
-    rTop: { kind: 'resistor', description: 'single-rail arrangement: V+ to non-inverting input', required: false },
-    rBottom: { kind: 'resistor', description: 'single-rail arrangement: non-inverting input to ground', required: false },
-    rGround: { kind: 'resistor', description: 'split-rail arrangement: non-inverting input to ground (mid rail)', required: false },
+    cTiming: ROLE.cTiming,
+    rFeedback: ROLE.rFeedback,
+    rTop: { ...ROLE.rTop, description: `single-rail arrangement: ${ROLE.rTop.description}`, required: false },
+    rBottom: { ...ROLE.rBottom, description: `single-rail arrangement: ${ROLE.rBottom.description}`, required: false },
+    rGround: { ...ROLE.rGround, description: `split-rail arrangement: ${ROLE.rGround.description}`, required: false },
   },
   capacitorRole: 'cTiming',
   internalNodeCount: 0,

@@ -6,6 +6,7 @@
  * divider (rTop, rBottom, rFeedback) as in single-supply-divider.
  */
 import { NODE } from '../nodes.ts';
+import { dividerThresholdBranches, ROLE, timingBranch } from './shared-parts.ts';
 import { resistor, type TopologyDefinition } from './topology.ts';
 
 export const openDrainPullup: TopologyDefinition = {
@@ -14,11 +15,11 @@ export const openDrainPullup: TopologyDefinition = {
     'Open-drain comparator output with rPullup (V+ to output) giving the high level; rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground).',
   roles: {
     rPullup: { kind: 'resistor', description: 'pull-up resistor, V+ to the open-drain output', required: true },
-    rTiming: { kind: 'resistor', description: 'timing resistor, output to inverting input', required: true },
-    cTiming: { kind: 'capacitor', description: 'timing capacitor, inverting input to ground', required: true },
-    rTop: { kind: 'resistor', description: 'divider resistor, V+ to non-inverting input', required: true },
-    rBottom: { kind: 'resistor', description: 'divider resistor, non-inverting input to ground', required: true },
-    rFeedback: { kind: 'resistor', description: 'positive-feedback resistor, output to non-inverting input', required: true },
+    rTiming: ROLE.rTiming,
+    cTiming: ROLE.cTiming,
+    rTop: ROLE.rTop,
+    rBottom: ROLE.rBottom,
+    rFeedback: ROLE.rFeedback,
   },
   capacitorRole: 'cTiming',
   internalNodeCount: 0,
@@ -27,10 +28,8 @@ export const openDrainPullup: TopologyDefinition = {
   branches(parts) {
     return [
       resistor(NODE.positiveRail, NODE.output, parts.rPullup, 'rPullup'),
-      resistor(NODE.positiveRail, NODE.decision, parts.rTop, 'rTop'),
-      resistor(NODE.decision, NODE.ground, parts.rBottom, 'rBottom'),
-      resistor(NODE.output, NODE.decision, parts.rFeedback, 'rFeedback'),
-      resistor(NODE.output, NODE.capacitor, parts.rTiming, 'rTiming'),
+      ...dividerThresholdBranches(parts),
+      timingBranch(parts),
     ];
   },
 };
