@@ -96,3 +96,69 @@ describe('POST /v1/design', () => {
     expect(res.json().errors[0].pointer).toBe('/colour');
   });
 });
+
+describe('POST /v1/design beyond threshold placement (diode steering)', () => {
+  const steered = [
+    { targetFrequencyHz: 2000, targetDutyCycle: 0.05, supply: { positiveV: 5 }, amplifier: 'cmos-rrio-fast' },
+    { targetFrequencyHz: 800, targetDutyCycle: 0.96, dutyTolerance: 0.01, supply: { positiveV: 3.3 }, amplifier: 'comparator-push-pull-cmos' },
+    { targetFrequencyHz: 300, targetDutyCycle: 0.04, frequencyTolerance: 0.02, supply: { positiveV: 12, negativeV: -12 }, amplifier: 'bipolar-split-supply-general' },
+    { targetFrequencyHz: 1500, targetDutyCycle: 0.92, supply: { positiveV: 5 }, amplifier: 'cmos-rrio-fast', diode: { forwardDropV: 0.3 } },
+  ];
+
+  for (const body of steered) {
+    it(`round trip: ${body.targetDutyCycle * 100} % duty designs analysed by /v1/analyze land within their reported errors`, async () => {
+      const res = await post('/v1/design', body);
+      expect(res.statusCode).toBe(200);
+      const designs = res.json().designs as (DesignJson & { topology: string; circuit: { diode?: { forwardDropV: number; resistanceOhm: number } } })[];
+      expect(designs.length).toBeGreaterThan(0);
+      for (const d of designs) {
+        expect(d.topology).toBe('diode-steered');
+        // The design's own diode travels in its circuit (the request's, completed with the 10 Ω default).
+        expect(d.circuit.diode).toEqual({ forwardDropV: body.diode?.forwardDropV ?? 0.6, resistanceOhm: 10 });
+        const a = await post('/v1/analyze', d.circuit);
+        expect(a.statusCode).toBe(200);
+        const error = a.json().frequencyHz / body.targetFrequencyHz - 1;
+        expect(Math.abs(error)).toBeLessThanOrEqual(Math.abs(d.frequencyError) * (1 + 1e-9) + 1e-12);
+        expect(Math.abs(d.frequencyError)).toBeLessThanOrEqual(body.frequencyTolerance ?? 0.01);
+        expect(Math.abs(a.json().dutyCycle - body.targetDutyCycle)).toBeLessThanOrEqual(body.dutyTolerance ?? 0.02);
+        expect(a.json().dutyCycle - body.targetDutyCycle).toBeCloseTo(d.dutyCycleError, 9);
+        for (const p of d.parts) expect(p.series ?? p.partNumber).toBeDefined();
+      }
+    });
+  }
+
+  it('offers diode-steered designs at 50 % duty when topologies names it', async () => {
+    const res = await post('/v1/design', { targetFrequencyHz: 1000, supply: { positiveV: 5 }, amplifier: 'cmos-rrio-fast', topologies: ['diode-steered'] });
+    expect(res.statusCode).toBe(200);
+    expect(res.json().designs.every((d: { topology: string }) => d.topology === 'diode-steered')).toBe(true);
+  });
+
+  it('answers 422 at /targetDutyCycle when the duty needs a resistor ratio the bounds do not allow', async () => {
+    const res = await post('/v1/design', {
+      targetFrequencyHz: 1000,
+      targetDutyCycle: 0.002,
+      dutyTolerance: 0.001,
+      supply: { positiveV: 5 },
+      amplifier: 'cmos-rrio-fast',
+      constraints: { rMinOhm: 1e3, rMaxOhm: 220e3 },
+    });
+    expect(res.statusCode).toBe(422);
+    expect(res.json().code).toBe('infeasible');
+    expect(res.json().errors[0].pointer).toBe('/targetDutyCycle');
+    expect(res.json().detail).toMatch(/ratio/);
+    // Centred thresholds: the paths must stand in the ratio d/(1 − d) (hand derivation in steered-design.test.ts).
+    expect(res.json().figures.requiredResistanceRatio).toBeCloseTo(0.002 / 0.998, 9);
+  });
+
+  it('answers 422 for a duty cycle outside placement when the topologies named exclude steering', async () => {
+    const res = await post('/v1/design', {
+      targetFrequencyHz: 1000,
+      targetDutyCycle: 0.95,
+      supply: { positiveV: 5 },
+      amplifier: 'cmos-rrio-fast',
+      topologies: ['single-supply-divider'],
+    });
+    expect(res.statusCode).toBe(422);
+    expect(res.json().errors[0].pointer).toBe('/targetDutyCycle');
+  });
+});

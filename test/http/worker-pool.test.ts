@@ -29,9 +29,20 @@ describe('WorkerPool from the TypeScript source', () => {
   const pool = new WorkerPool({ threads: 1, maxQueue: 1 });
   afterAll(() => pool.close());
 
-  it('loads worker.ts through tsx', () => {
-    expect(workerEntry().filename.endsWith('/worker.ts')).toBe(true);
-    expect(workerEntry().execArgv[0]).toBe('--import');
+  it('loads worker.ts through a plain-JS entry that registers tsx first', () => {
+    expect(workerEntry().filename.endsWith('/source-entry.mjs')).toBe(true);
+    expect(workerEntry().execArgv).toEqual([]);
+  });
+
+  it('starts reliably: several fresh pools in a row each run a task in a thread', async () => {
+    for (let i = 0; i < 4; i++) {
+      const fresh = new WorkerPool({ threads: 1 });
+      try {
+        expect(await fresh.run('echo', { round: i })).toEqual({ round: i });
+      } finally {
+        await fresh.close();
+      }
+    }
   });
 
   it('runs a named task in a thread and returns its value', async () => {

@@ -10,22 +10,28 @@
  * near those ideals and the timing value sets to the joint search. Designs
  * outside the frequency or duty tolerance, with error-severity checks or above
  * the supply-current budget are dropped; none left -> 'infeasible' with the reasons.
+ * Duty cycles beyond what placement reaches go to the diode-steered topology
+ * (steered-design.ts), which sets them by the ratio of its two path resistors.
  */
 import type { AmplifierModel } from '../amplifiers/model.ts';
 import type { Check } from '../circuit/checks.ts';
 import { formatPercent, formatSi } from '../circuit/format.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
-import { TOPOLOGY_IDS } from '../circuit/topologies/index.ts';
-import type { Supply } from '../circuit/types.ts';
+import { DEFAULT_STEERING_DIODE } from '../circuit/topologies/diode-steered.ts';
+import { findTopology, TOPOLOGY_IDS } from '../circuit/topologies/index.ts';
+import type { DiodeModel, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { parseDielectric } from '../parts/dielectric.ts';
-import { decisionResistanceBounds, requireFeasibleRequest, timingResistorBounds } from './bounds.ts';
-import { hysteresisNear, joinHysteresis, thresholdTopology, THRESHOLD_TOPOLOGIES, type HysteresisCandidates } from './hysteresis.ts';
+import { requireFeasibleRequest, timingResistorBounds } from './bounds.ts';
+import { thresholdTopology, THRESHOLD_TOPOLOGIES } from './hysteresis.ts';
 import { DEFAULT_DUTY_TOLERANCE, jointSearch, type JointCandidate } from './joint-search.ts';
+import { NETWORK_BUDGET_SHARE, planWidth, type NetworkPlanContext } from './network-plan.ts';
 import { DEFAULT_RANGES, ValueSetCache, type RoleSources } from './role-sources.ts';
-import { preferredScaleOhm, scalesWithin } from './scales.ts';
+import { preferredScaleOhm } from './scales.ts';
 import type { RoleValue } from './snap-value.ts';
-import { networkThresholds, placeThresholds, screeningContext, solveDivider, type ScreeningContext, type ThresholdPair } from './thresholds.ts';
+import { designSteeredWidth, type RatioShortfall } from './steered-design.ts';
+import { STEERED_TOPOLOGY_ID, type SteeredCandidate } from './steered-search.ts';
+import { screeningContext } from './thresholds.ts';
 
 export interface DesignConstraints {
   rMinOhm?: number;
@@ -50,8 +56,13 @@ export interface DesignRequest {
   amplifier: AmplifierModel;
   values: RoleSources;
   constraints?: DesignConstraints;
-  /** Topologies to try (default: every one design supports that suits the supply). */
+  /**
+   * Topologies to try. Default: inside PLACEMENT_DUTY_RANGE every threshold-placement
+   * topology that suits the supply; outside it the diode-steered topology.
+   */
   topologies?: readonly string[];
+  /** Steering diodes of diode-steered designs (default DEFAULT_STEERING_DIODE). */
+  diode?: DiodeModel;
   /** Designs to return, default 5. */
   count?: number;
 }
@@ -66,6 +77,8 @@ export interface Design {
   hysteresisFraction: number;
   analysis: AnalysisResult;
   checks: Check[];
+  /** The diode model the design was analysed with (diode-steered designs). */
+  diode?: DiodeModel;
 }
 
 export interface DesignResult {
@@ -79,13 +92,7 @@ export const DEFAULT_DESIGN_COUNT = 5;
 export const HYSTERESIS_FRACTIONS: readonly number[] = [1 / 3, 1 / 5, 1 / 8];
 /** Duty cycles reachable by threshold placement alone (wider needs diode steering). */
 export const PLACEMENT_DUTY_RANGE = { min: 0.1, max: 0.9 } as const;
-/** Share of the supply-current budget given to the threshold network and to the timing branch (our design split). */
-const NETWORK_BUDGET_SHARE = 0.5;
-const SCALES_PER_WIDTH = 3;
 const DESIGN_BAND_LIMIT = 200;
-const SCALES_PER_DECADE = 2;
-
-const DIODE_STEERED_ID = 'diode-steered';
 
 function defaultTopologies(supply: Supply): string[] {
   const ids = TOPOLOGY_IDS.filter((id) => id in THRESHOLD_TOPOLOGIES);
@@ -99,93 +106,9 @@ function checkRequest(req: DesignRequest): { duty: number; count: number } {
   const duty = req.targetDutyCycle ?? 0.5;
   if (!(duty > 0 && duty < 1)) throw new CoreError('invalid-value', 'targetDutyCycle must lie strictly between 0 and 1', '/targetDutyCycle');
   if (!(req.frequencyTolerance > 0)) throw new CoreError('invalid-value', 'frequencyTolerance must be > 0', '/frequencyTolerance');
-  if (duty < PLACEMENT_DUTY_RANGE.min || duty > PLACEMENT_DUTY_RANGE.max) {
-    if (!TOPOLOGY_IDS.includes(DIODE_STEERED_ID)) {
-      throw new CoreError(
-        'infeasible',
-        `A duty cycle of ${formatPercent(duty)} is outside the ${PLACEMENT_DUTY_RANGE.min * 100} % to ${PLACEMENT_DUTY_RANGE.max * 100} % that threshold placement reaches, and no diode-steered topology is available`,
-        '/targetDutyCycle',
-        { targetDutyCycle: duty, placementMin: PLACEMENT_DUTY_RANGE.min, placementMax: PLACEMENT_DUTY_RANGE.max },
-      );
-    }
-    throw new CoreError('infeasible', `Design does not yet size the '${DIODE_STEERED_ID}' topology for a duty cycle of ${formatPercent(duty)}`, '/targetDutyCycle');
-  }
   const count = req.count ?? DEFAULT_DESIGN_COUNT;
   if (!(Number.isInteger(count) && count >= 1)) throw new CoreError('invalid-value', 'count must be a positive integer', '/count');
   return { duty, count };
-}
-
-function withinCommonMode(t: ThresholdPair, supply: Supply, amp: AmplifierModel): boolean {
-  return t.lowerV >= supply.negativeV + amp.inputCommonModeLowMarginV && t.upperV <= supply.positiveV - amp.inputCommonModeHighMarginV;
-}
-
-interface WidthPlan {
-  hysteresis: HysteresisCandidates;
-  thresholds: ThresholdPair;
-}
-
-interface Plan {
-  ctx: ScreeningContext;
-  cache: ValueSetCache;
-  rMin: number;
-  rMax: number;
-  budgetA: number;
-}
-
-/** Ideal networks near which to look, for one topology and width; a reason string when there are none. */
-function planWidth(topology: string, fraction: number, duty: number, req: DesignRequest, plan: Plan): WidthPlan | string {
-  const { ctx } = plan;
-  const { levels, supply } = ctx;
-  const swingV = levels.highV - levels.lowV;
-  const amp = req.amplifier;
-  let thresholds: ThresholdPair;
-  if (topology === 'single-supply-divider') {
-    thresholds = placeThresholds(duty, fraction * swingV, levels);
-    try {
-      solveDivider(thresholds, { ...ctx, inputBiasCurrentA: 0 }, 1);
-    } catch (err) {
-      if (err instanceof CoreError) return err.message;
-      throw err;
-    }
-  } else {
-    // β = rGround / (rGround + rFeedback) = width / swing.
-    thresholds = networkThresholds({ toGroundOhm: fraction, toOutputOhm: 1 - fraction }, { ...ctx, inputBiasCurrentA: 0 });
-  }
-  if (!withinCommonMode(thresholds, supply, amp)) {
-    return `thresholds ${thresholds.lowerV.toPrecision(3)} V / ${thresholds.upperV.toPrecision(3)} V fall outside the input common-mode range`;
-  }
-  const hysteresisV = thresholds.upperV - thresholds.lowerV;
-  const bounds = decisionResistanceBounds(fraction, levels, amp, hysteresisV);
-  // Fractions of the total conductance per branch at negligible bias: every resistor is Rp / fraction.
-  const fractions: Record<string, number> = {};
-  if (topology === 'single-supply-divider') {
-    const probe = solveDivider(thresholds, { ...ctx, inputBiasCurrentA: 0 }, 1);
-    for (const [role, r] of Object.entries(probe)) fractions[role] = 1 / r;
-  } else {
-    fractions.rFeedback = 1 - fraction;
-    fractions.rGround = fraction;
-  }
-  const fMax = Math.max(...Object.values(fractions));
-  const fMin = Math.min(...Object.values(fractions));
-  let pMin = Math.max(bounds.minOhm, plan.rMin * fMax);
-  const pMax = Math.min(bounds.maxOhm, plan.rMax * fMin);
-  if (Number.isFinite(plan.budgetA)) {
-    // Current from V+ through the network: at most supply span over the series path (rTop + rBottom, or rFeedback + rGround).
-    const spanV = supply.positiveV - supply.negativeV;
-    const pathFractions = topology === 'single-supply-divider' ? 1 / fractions.rTop + 1 / fractions.rBottom : 1 / fractions.rFeedback + 1 / fractions.rGround;
-    pMin = Math.max(pMin, spanV / (plan.budgetA * NETWORK_BUDGET_SHARE * pathFractions));
-  }
-  if (!(pMin <= pMax)) {
-    return `no threshold-network scale satisfies ${bounds.minReason} and ${bounds.maxReason} within the resistor range`;
-  }
-  const roles = thresholdTopology(topology).roles;
-  const sets = Object.fromEntries(roles.map((role) => [role, plan.cache.forRole(topology, role, { min: plan.rMin, max: plan.rMax })]));
-  const tables = scalesWithin(pMin, pMax, SCALES_PER_WIDTH, SCALES_PER_DECADE).map((scale) => {
-    const ideal: Record<string, number> =
-      topology === 'single-supply-divider' ? { ...solveDivider(thresholds, ctx, scale) } : { rFeedback: scale / (1 - fraction), rGround: scale / fraction };
-    return hysteresisNear({ topology, ideal, sets, ctx, neighbours: 2, basePreference: Math.abs(Math.log10(scale / preferredScaleOhm(pMin, pMax))) });
-  });
-  return { hysteresis: joinHysteresis(tables), thresholds };
 }
 
 function dielectricChecks(capacitor: RoleValue): Check[] {
@@ -205,8 +128,42 @@ function dielectricChecks(capacitor: RoleValue): Check[] {
   return out;
 }
 
-function toDesign(c: JointCandidate, fraction: number, duty: number): Design {
+function needsSteering(duty: number): boolean {
+  return duty < PLACEMENT_DUTY_RANGE.min || duty > PLACEMENT_DUTY_RANGE.max;
+}
+
+/** The topologies to design, with notes for those the duty cycle rules out. */
+function chooseTopologies(req: DesignRequest, duty: number, notes: string[]): string[] {
+  const steering = needsSteering(duty);
+  const asked = req.topologies ?? (steering ? [STEERED_TOPOLOGY_ID] : defaultTopologies(req.supply));
+  for (const t of asked) if (t !== STEERED_TOPOLOGY_ID) thresholdTopology(t); // throws with the supported list
+  if (!steering) return [...asked];
+  const range = `${PLACEMENT_DUTY_RANGE.min * 100} % to ${PLACEMENT_DUTY_RANGE.max * 100} %`;
+  const kept = asked.filter((t) => t === STEERED_TOPOLOGY_ID);
+  for (const t of asked) if (t !== STEERED_TOPOLOGY_ID) notes.push(`${t}: a duty cycle of ${formatPercent(duty)} is outside the ${range} that threshold placement reaches`);
+  if (kept.length === 0) {
+    const available = TOPOLOGY_IDS.includes(STEERED_TOPOLOGY_ID);
+    throw new CoreError(
+      'infeasible',
+      `A duty cycle of ${formatPercent(duty)} is outside the ${range} that threshold placement reaches` +
+        (available ? `; include '${STEERED_TOPOLOGY_ID}' in topologies (or leave topologies out) to steer it with diodes` : ', and no diode-steered topology is available'),
+      '/targetDutyCycle',
+      { targetDutyCycle: duty, placementMin: PLACEMENT_DUTY_RANGE.min, placementMax: PLACEMENT_DUTY_RANGE.max },
+    );
+  }
+  return kept;
+}
+
+/** Roles a topology's design fills (threshold network plus timing parts). */
+function designRoles(topology: string): readonly string[] {
+  if (topology === STEERED_TOPOLOGY_ID) return Object.keys(findTopology(topology)!.roles);
+  return [...THRESHOLD_TOPOLOGIES[topology].roles, 'rTiming', 'cTiming'];
+}
+
+function toDesign(c: JointCandidate | SteeredCandidate, fraction: number, duty: number): Design {
+  const diode = c.topology === STEERED_TOPOLOGY_ID ? (c.circuit.diode ?? DEFAULT_STEERING_DIODE) : undefined;
   return {
+    ...(diode ? { diode: { ...diode } } : {}),
     topology: c.topology,
     parts: c.parts,
     predicted: { frequencyHz: c.analysis.frequencyHz, dutyCycle: c.analysis.dutyCycle },
@@ -241,22 +198,53 @@ export function designOscillator(req: DesignRequest): DesignResult {
       );
     }
   }
-  const topologies = req.topologies ?? defaultTopologies(supply);
-  for (const t of topologies) thresholdTopology(t); // throws with the supported list
+  const notes: string[] = [];
+  const topologies = chooseTopologies(req, duty, notes);
   for (const role of Object.keys(req.values.roles ?? {})) {
-    const known = topologies.some((t) => THRESHOLD_TOPOLOGIES[t].roles.includes(role) || role === 'rTiming' || role === 'cTiming');
+    const known = topologies.some((t) => designRoles(t).includes(role));
     if (!known) throw new CoreError('unexpected-part', `No topology being designed has a role '${role}'`, `/values/roles/${role}`);
   }
   const cache = new ValueSetCache(req.values, c.dielectrics);
-  const plan: Plan = { ctx, cache, rMin, rMax, budgetA };
+  const plan: NetworkPlanContext = { ctx, amplifier: amp, cache, rMin, rMax, budgetA };
   const dutyTolerance = req.dutyTolerance ?? DEFAULT_DUTY_TOLERANCE;
-  const notes: string[] = [];
   const designs: Design[] = [];
   let best: Design | undefined;
+  const ratioShortfalls: RatioShortfall[] = [];
+  const keep = (d: Design) => {
+    if (!best || Math.abs(d.frequencyError) < Math.abs(best.frequencyError)) best = d;
+    const failing = d.checks.find((k) => k.severity === 'error');
+    if (Math.abs(d.frequencyError) > req.frequencyTolerance) return;
+    if (failing) return;
+    if (c.maxSupplyCurrentA !== undefined && d.analysis.currents.supplyAverageA > c.maxSupplyCurrentA) return;
+    designs.push(d);
+  };
   for (const topology of topologies) {
     for (const fraction of HYSTERESIS_FRACTIONS) {
       const label = `${topology}, hysteresis ${formatPercent(fraction)} of the swing`;
-      const width = planWidth(topology, fraction, duty, req, plan);
+      if (topology === STEERED_TOPOLOGY_ID) {
+        const outcome = designSteeredWidth(
+          {
+            fraction,
+            targetFrequencyHz: req.targetFrequencyHz,
+            targetDutyCycle: duty,
+            frequencyTolerance: req.frequencyTolerance,
+            dutyTolerance,
+            diode: req.diode ?? DEFAULT_STEERING_DIODE,
+            capacitorRange: { min: cMin, max: cMax },
+            count: count + 2,
+          },
+          plan,
+        );
+        if ('reason' in outcome) {
+          notes.push(`${label}: ${outcome.reason}`);
+          if (outcome.ratio) ratioShortfalls.push(outcome.ratio);
+          continue;
+        }
+        if (outcome.candidates.length === 0) notes.push(`${label}: no combination reaches the duty-cycle tolerance`);
+        for (const cand of outcome.candidates) keep(toDesign(cand, fraction, duty));
+        continue;
+      }
+      const width = planWidth(topology, fraction, duty, plan);
       if (typeof width === 'string') {
         notes.push(`${label}: ${width}`);
         continue;
@@ -288,21 +276,23 @@ export function designOscillator(req: DesignRequest): DesignResult {
         notes.push(`${label}: no combination reaches the duty-cycle tolerance`);
         continue;
       }
-      for (const cand of result.candidates) {
-        const d = toDesign(cand, fraction, duty);
-        if (!best || Math.abs(d.frequencyError) < Math.abs(best.frequencyError)) best = d;
-        const failing = d.checks.find((k) => k.severity === 'error');
-        if (Math.abs(d.frequencyError) > req.frequencyTolerance) continue;
-        if (failing) continue;
-        if (c.maxSupplyCurrentA !== undefined && d.analysis.currents.supplyAverageA > c.maxSupplyCurrentA) continue;
-        designs.push(d);
-      }
+      for (const cand of result.candidates) keep(toDesign(cand, fraction, duty));
     }
   }
   // Ranked by how much of each tolerance a design uses: frequency and duty together.
   const score = (d: Design) => Math.abs(d.frequencyError) / req.frequencyTolerance + Math.abs(d.dutyCycleError) / dutyTolerance;
   designs.sort((a, b) => score(a) - score(b));
   const unique = dedupe(designs).slice(0, count);
+  if (unique.length === 0 && topologies.length === 1 && ratioShortfalls.length === HYSTERESIS_FRACTIONS.length) {
+    // Every width failed on the resistor ratio alone: the duty cycle itself is out of reach.
+    const r = ratioShortfalls[0];
+    throw new CoreError(
+      'infeasible',
+      `No ${STEERED_TOPOLOGY_ID} design reaches a duty cycle of ${formatPercent(duty)}. ${notes.join('; ')}`,
+      '/targetDutyCycle',
+      { targetDutyCycle: duty, requiredResistanceRatio: r.requiredRatio, smallestResistanceRatio: r.smallestRatio, largestResistanceRatio: r.largestRatio },
+    );
+  }
   if (unique.length === 0) {
     const bestNote = best
       ? `; the closest found is ${formatPercent(best.frequencyError)} off (${best.topology})`

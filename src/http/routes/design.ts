@@ -1,7 +1,7 @@
 /** POST /v1/design: a frequency (and duty) target -> ranked designs built from a series or catalogue. */
 import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import { designOscillator, type Design } from '../../core/design/index.ts';
-import { resolveAmplifierSpec } from '../convert.ts';
+import { DEFAULT_DIODE, resolveAmplifierSpec } from '../convert.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
 import { DesignRequest, DesignResponse, type DesignRequestBody } from '../schemas/design.ts';
 import { fittedPartsJson, predictionJson, roleSourcesFromBody } from './snap.ts';
@@ -22,7 +22,7 @@ function designJson(d: Design, rank: number, body: DesignRequestBody) {
     dutyCycleError: d.dutyCycleError,
     hysteresisFraction: d.hysteresisFraction,
     // Ready to POST to /v1/analyze (or /v1/tolerance) as it stands.
-    circuit: { topology: d.topology, supply: body.supply, amplifier: body.amplifier, parts },
+    circuit: { topology: d.topology, supply: body.supply, amplifier: body.amplifier, parts, ...(d.diode ? { diode: d.diode } : {}) },
     checks: d.checks,
   };
 }
@@ -36,7 +36,8 @@ export const designRoutes: FastifyPluginAsyncTypebox = async (app) => {
         summary: 'Design an oscillator from a frequency target',
         description:
           'Ranked complete designs whose every part comes from the chosen series or catalogue, each analysed in full (predicted frequency and duty, checks). ' +
-          'Duty cycles from 10 % to 90 % by threshold placement in the single-supply divider. Timing resistances are bounded below by what the output can drive ' +
+          'Duty cycles from 10 % to 90 % by threshold placement in the single-supply divider, beyond that by diode steering (diode-steered: separate charge and ' +
+          'discharge resistors, the duty set by their ratio; also offered inside that range when `topologies` names it). Timing resistances are bounded below by what the output can drive ' +
           'and above by the bias-current error. No design within the tolerance, a supply outside the amplifier rating, a target above its frequency ceiling ' +
           'or an empty value source answers 422 with the reason (and the closest design found in `figures`).',
         body: ref(DesignRequest),
@@ -56,6 +57,7 @@ export const designRoutes: FastifyPluginAsyncTypebox = async (app) => {
         values: roleSourcesFromBody((body.values ?? DEFAULT_VALUES) as never, app.services),
         constraints: body.constraints,
         topologies: body.topologies,
+        diode: body.diode ? { forwardDropV: body.diode.forwardDropV ?? DEFAULT_DIODE.forwardDropV, resistanceOhm: body.diode.resistanceOhm ?? DEFAULT_DIODE.resistanceOhm } : undefined,
         count: body.count,
       });
       return { designs: result.designs.map((d, i) => designJson(d, i + 1, body)), notes: result.notes } as never;

@@ -1,14 +1,17 @@
 /** POST /v1/design: target -> ranked complete designs. */
 import { Type, type Static } from 'typebox';
 import { AmplifierSpec, Check, ref, Supply } from './common.ts';
-import { Circuit } from './circuit.ts';
+import { Circuit, Diode } from './circuit.ts';
 import { FittedPart, Prediction, SNAP_TOPOLOGIES, ValueSources } from './snap.ts';
+
+/** Topologies design sizes: the threshold-placement ones joint snap also handles, plus diode steering. */
+export const DESIGN_TOPOLOGIES = [...SNAP_TOPOLOGIES, 'diode-steered'] as const;
 
 export const DesignRequest = Type.Object(
   {
     targetFrequencyHz: Type.Number({ exclusiveMinimum: 0 }),
     targetDutyCycle: Type.Optional(
-      Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, default: 0.5, description: 'Fraction of the period the output is high; 0.1..0.9 by threshold placement' }),
+      Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, default: 0.5, description: 'Fraction of the period the output is high; 0.1..0.9 by threshold placement, beyond that by diode steering' }),
     ),
     dutyTolerance: Type.Optional(Type.Number({ minimum: 0, maximum: 1, description: 'Absolute duty-cycle tolerance (default 0.02)' })),
     frequencyTolerance: Type.Optional(
@@ -32,13 +35,24 @@ export const DesignRequest = Type.Object(
         { additionalProperties: false },
       ),
     ),
-    topologies: Type.Optional(Type.Array(Type.Union(SNAP_TOPOLOGIES.map((t) => Type.Literal(t))), { minItems: 1, maxItems: 4, uniqueItems: true })),
+    topologies: Type.Optional(
+      Type.Array(Type.Union(DESIGN_TOPOLOGIES.map((t) => Type.Literal(t))), {
+        minItems: 1,
+        maxItems: 4,
+        uniqueItems: true,
+        description:
+          'Default: the threshold-placement topologies that suit the supply for duty cycles of 0.1..0.9, diode-steered outside that range. Name diode-steered to have it offered inside the range too.',
+      }),
+    ),
+    diode: Type.Optional(ref(Diode)),
     count: Type.Optional(Type.Integer({ minimum: 1, maximum: 20, default: 5 })),
   },
   {
     $id: 'DesignRequest',
     additionalProperties: false,
-    description: 'Values default to E24 resistors and E12 capacitors when `values` is omitted.',
+    description:
+      'Values default to E24 resistors and E12 capacitors when `values` is omitted. `diode` models the steering diodes of diode-steered designs ' +
+      '(default 0.6 V forward drop, 10 Ω); each such design\'s `circuit` carries the model it was analysed with.',
   },
 );
 

@@ -11,9 +11,7 @@
  * The worker entry is worker.ts under tsx/vitest (loaded through tsx's ESM
  * hooks, passed to the thread with --import) and worker.js after `npm run build`.
  */
-import { createRequire } from 'node:module';
 import { availableParallelism } from 'node:os';
-import { pathToFileURL } from 'node:url';
 import { Piscina } from 'piscina';
 import { CoreError } from '../../core/errors.ts';
 import { HttpProblem } from '../problem.ts';
@@ -47,9 +45,9 @@ const RUNNING_FROM_SOURCE = import.meta.url.endsWith('.ts');
 /** Where the worker entry lives and what a thread needs to load it. */
 export function workerEntry(): { filename: string; execArgv: string[] } {
   if (!RUNNING_FROM_SOURCE) return { filename: new URL('./worker.js', import.meta.url).href, execArgv: [] };
-  // TypeScript source: the thread loads tsx's ESM hooks first (tsx is a dev dependency; dist/ never needs it).
-  const tsxLoader = pathToFileURL(createRequire(import.meta.url).resolve('tsx')).href;
-  return { filename: new URL('./worker.ts', import.meta.url).href, execArgv: ['--import', tsxLoader] };
+  // TypeScript source: a plain-JS entry registers tsx's hooks in the thread, then imports worker.ts
+  // (tsx is a dev dependency; dist/ never needs it).
+  return { filename: new URL('./source-entry.mjs', import.meta.url).href, execArgv: [] };
 }
 
 export class WorkerPool {

@@ -65,7 +65,7 @@ export interface FitReport {
 }
 
 export const FORWARD_MODEL_DESCRIPTION =
-  'closed form per output state (nodal network solve) with slew rate and recovery delay folded in as an effective edge delay of delay + ramp/2';
+  'closed form per output state (nodal network solve) with each slewing edge an exact effective step delay, recovery delay + τ·ln((e^x − 1)/x) for x = ramp/τ; the time-domain engine wherever that closed form does not hold (output resistance or open drain while slewing, unequal time constants, current limit or input clamp within reach, edges over half a state)';
 
 function prefixed(prefix: string, err: unknown): never {
   if (err instanceof CoreError) {
