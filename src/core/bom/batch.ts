@@ -4,6 +4,7 @@
  * write each result and drop it (memory bounded by one result, not the batch)
  * and can pause between results to keep its event loop responsive.
  */
+import { ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
 import { evaluateAssembly } from './evaluate-assembly.ts';
 import type { BomAssemblyResult, BomAssembly, BomCheckContext, BomCheckOptions } from './types.ts';
 
@@ -17,9 +18,10 @@ export const DEFAULT_BOM_OPTIONS: Readonly<BomCheckOptions> = Object.freeze({
   seed: 1,
 });
 
-/** Results in request order, computed lazily. */
+/** Results in request order, computed lazily; assemblies of one circuit shape share one compiled evaluator. */
 export function* evaluateAssemblies(assemblies: readonly BomAssembly[], ctx: BomCheckContext): Generator<BomAssemblyResult> {
-  for (let i = 0; i < assemblies.length; i++) yield evaluateAssembly(assemblies[i], i, ctx);
+  const batchCtx: BomCheckContext = ctx.compileCache ? ctx : { ...ctx, compileCache: new ClosedFormCompileCache() };
+  for (let i = 0; i < assemblies.length; i++) yield evaluateAssembly(assemblies[i], i, batchCtx);
 }
 
 export interface BomBatchSummary {

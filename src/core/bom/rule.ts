@@ -9,7 +9,9 @@ export interface RuleDefinition {
 /** Infinity and NaN cannot travel as JSON numbers: "no limit" becomes null. */
 function wireSafe(figures: Record<string, BomFigureValue | undefined>): Record<string, BomFigureValue> {
   const out: Record<string, BomFigureValue> = {};
-  for (const [k, v] of Object.entries(figures)) {
+  // for...in over a plain literal visits its own keys in the order Object.entries would, without the pair arrays.
+  for (const k in figures) {
+    const v = figures[k];
     if (v === undefined) continue;
     out[k] = typeof v === 'number' && !Number.isFinite(v) ? null : v;
   }

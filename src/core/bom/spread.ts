@@ -30,6 +30,7 @@
  * Always the closed form: microseconds per evaluation; the analysis checks say
  * so (dynamics-approximated) when the amplifier's slew or delay would matter.
  */
+import type { ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
 import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { capacitanceChangeAt, parseDielectric } from '../parts/dielectric.ts';
@@ -45,7 +46,10 @@ export const ASSUMED_RESISTOR_TEMPCO_PPM_PER_K = 100;
 /** Largest folded band handed to the tolerance analysis (it needs fractions below 1). */
 const MAX_FOLDED_TOLERANCE = 0.99;
 
-/** Samples of a worst-case-only run: the analysis always draws some; one is the least. */
+/**
+ * Samples written into a worst-case-only request. None are drawn (the run leaves Monte Carlo out,
+ * ToleranceParts); the figure only keeps the request a valid one for POST /v1/tolerance.
+ */
 const WORST_CASE_ONLY_SAMPLES = 1;
 
 export interface SpreadFigures {
@@ -60,7 +64,7 @@ export interface AssemblySpread {
   rules: BomRuleResult[];
 }
 
-interface LineDrift {
+export interface LineDrift {
   /** Largest relative value change over the temperature range, fraction (the larger side). */
   drift: number;
   /** Largest rise and largest fall over the range, fractions ≥ 0 (class II/III bands are lopsided). */
@@ -96,12 +100,28 @@ function lineDrift(line: BomLineReading, range: BomTemperatureRange): LineDrift 
   return { drift, driftUp: drift, driftDown: drift, withinRatedRange: true, assumedTempco: false };
 }
 
-/** The analysis request: one folded band per part, the supply band, the spec. */
-export function toleranceRequest(circuit: Circuit, lines: readonly BomLineReading[], assembly: BomAssembly, monteCarloSamples: number, seed: number): ToleranceRequest {
+/** Each line's drift over the assembly's temperature range (undefined without a range). */
+function lineDrifts(lines: readonly BomLineReading[], range: BomTemperatureRange | undefined): LineDrift[] | undefined {
+  return range ? lines.map((line) => lineDrift(line, range)) : undefined;
+}
+
+/**
+ * The analysis request: one folded band per part, the supply band, the spec. `drifts`: the lines'
+ * drifts when the caller has them already (lineDrifts, same order as lines).
+ */
+export function toleranceRequest(
+  circuit: Circuit,
+  lines: readonly BomLineReading[],
+  assembly: BomAssembly,
+  monteCarloSamples: number,
+  seed: number,
+  drifts: readonly LineDrift[] | undefined = lineDrifts(lines, assembly.temperature),
+): ToleranceRequest {
   const tolerances: Record<string, number> = {};
-  for (const line of lines) {
+  for (let i = 0; i < lines.length; i++) {
+    const line = lines[i];
     const t = line.tolerance ?? 0;
-    const d = assembly.temperature ? lineDrift(line, assembly.temperature) : { driftUp: 0, driftDown: 0 };
+    const d = drifts ? drifts[i] : { driftUp: 0, driftDown: 0 };
     // Fold each side separately: up (1 + t)(1 + d↑) − 1, down 1 − (1 − t)(1 − d↓); the analysis takes one
     // symmetric band, so the larger side. A class III band (−82 %) folds to just under 1; a band beyond
     // that (only absurd inputs) is held below 1, which the analysis requires of a fraction.
@@ -124,11 +144,12 @@ export function toleranceRequest(circuit: Circuit, lines: readonly BomLineReadin
   };
 }
 
-function temperatureRules(lines: readonly BomLineReading[], range: BomTemperatureRange | undefined): BomRuleResult[] {
-  if (!range) return [];
+function temperatureRules(lines: readonly BomLineReading[], range: BomTemperatureRange | undefined, drifts: readonly LineDrift[] | undefined): BomRuleResult[] {
+  if (!range || !drifts) return [];
   const rules: BomRuleResult[] = [];
-  for (const line of lines) {
-    const d = lineDrift(line, range);
+  for (let i = 0; i < lines.length; i++) {
+    const line = lines[i];
+    const d = drifts[i];
     if (d.assumedTempco) {
       rules.push(
         ruleResult(
@@ -153,9 +174,14 @@ function temperatureRules(lines: readonly BomLineReading[], range: BomTemperatur
   return rules;
 }
 
-/** Figures of one analysis run; identical designs in a batch share them through the cache. */
-function spreadFigures(request: ToleranceRequest, wantYield: boolean): SpreadFigures {
-  const run = runToleranceAnalysis(request);
+/**
+ * Figures of one analysis run; identical designs in a batch share them through the cache. Only
+ * the parts the rules read are computed: the worst case always, Monte Carlo only for a yield,
+ * sensitivities never (so a design whose nominal sits at the edge of latching, where a
+ * sensitivity step would stop it, still gets its worst case).
+ */
+function spreadFigures(request: ToleranceRequest, wantYield: boolean, compileCache: ClosedFormCompileCache | undefined): SpreadFigures {
+  const run = runToleranceAnalysis(request, { parts: { monteCarlo: wantYield, sensitivities: false }, compileCache });
   const wc = run.worstCase;
   const figures: SpreadFigures = {
     worstCase: {
@@ -170,7 +196,7 @@ function spreadFigures(request: ToleranceRequest, wantYield: boolean): SpreadFig
       latchedCorners: wc.latchedCorners,
     },
   };
-  if (wantYield && run.monteCarlo.yield !== null) {
+  if (wantYield && run.monteCarlo && run.monteCarlo.yield !== null) {
     figures.yield = { yield: run.monteCarlo.yield, samples: run.monteCarlo.samples, failedSamples: run.monteCarlo.latched, seed: run.monteCarlo.seed };
   }
   return figures;
@@ -190,15 +216,17 @@ export function assemblySpread(
   assembly: BomAssembly,
   options: BomCheckOptions,
   cache?: Map<string, SpreadFigures | CoreError>,
+  compileCache?: ClosedFormCompileCache,
 ): AssemblySpread {
   const wantYield = assembly.spec.minimumYield !== undefined && options.mode === 'full';
-  const request = toleranceRequest(circuit, lines, assembly, wantYield ? options.monteCarloSamples : WORST_CASE_ONLY_SAMPLES, options.seed);
-  const rules = temperatureRules(lines, assembly.temperature);
+  const drifts = lineDrifts(lines, assembly.temperature);
+  const request = toleranceRequest(circuit, lines, assembly, wantYield ? options.monteCarloSamples : WORST_CASE_ONLY_SAMPLES, options.seed, drifts);
+  const rules = temperatureRules(lines, assembly.temperature, drifts);
   const key = cache ? cacheKey(request) : '';
   let figures = cache?.get(key);
   if (figures === undefined) {
     try {
-      figures = spreadFigures(request, wantYield);
+      figures = spreadFigures(request, wantYield, compileCache);
     } catch (error) {
       if (!(error instanceof CoreError)) throw error;
       figures = error;

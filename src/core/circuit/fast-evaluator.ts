@@ -18,6 +18,7 @@
 import type { AmplifierModel } from '../amplifiers/model.ts';
 import { CoreError } from '../errors.ts';
 import { closedFormFigures, getTopology, prepareCircuit } from './analyze.ts';
+import { validateCircuit } from './validate.ts';
 import { dwellTimeS } from './exponential.ts';
 import { NODE } from './nodes.ts';
 import type { Branch } from './network.ts';
@@ -101,6 +102,12 @@ interface CompiledState {
   decisionRow: number;
   branchValue: Int32Array;
   branchOffset: Float64Array;
+  /** How many of the branches come from the topology (they lead; output resistance and load follow). */
+  topologyBranchCount: number;
+  /** Ends and emf of the topology branches, to recognise a circuit of the same structure (ClosedFormCompileCache). */
+  topologyFrom: Int32Array;
+  topologyTo: Int32Array;
+  topologyEmf: Float64Array;
   /** The stamping program, in solveNetwork's order (stampEnd from→to, then to→from, branch by branch). */
   opBranch: Int32Array;
   opCell: Int32Array;
@@ -287,6 +294,10 @@ function compileState(
     decisionRow: row[NODE.decision],
     branchValue: Int32Array.from(branches, (b) => b.valueIndex),
     branchOffset: Float64Array.from(branches, (b) => b.offsetOhm),
+    topologyBranchCount: topologyBranches.length,
+    topologyFrom: Int32Array.from(topologyBranches, (b) => b.from),
+    topologyTo: Int32Array.from(topologyBranches, (b) => b.to),
+    topologyEmf: Float64Array.from(topologyBranches, (b) => b.emfV),
     opBranch: Int32Array.from(ops, (o) => o.branch),
     opCell: Int32Array.from(ops, (o) => o.cell),
     opKind: Uint8Array.from(ops, (o) => o.kind),
@@ -320,7 +331,89 @@ export function compileClosedForm(circuit: Circuit): ClosedFormEvaluator {
   }
   const high = compileState(topology, circuit, 'high', highBranches, indexOf);
   const low = compileState(topology, circuit, 'low', lowBranches, indexOf);
-  return new CompiledEvaluator(parameters, nominal, indexOf, circuitAt, high, low, topology.capacitorRole, [...roleIndex.values()]);
+  return new CompiledEvaluator(parameters, nominal, indexOf, circuitAt, high, low, topology, Int32Array.from(roleIndex.values()));
+}
+
+/** What fixes a compiled evaluator's structure besides the topology's own branch ends: roles present, output resistance, load. */
+function shapeKey(circuit: Circuit, topology: TopologyDefinition): string {
+  let key = topology.id;
+  for (const role of Object.keys(topology.roles)) if (circuit.parts[role] !== undefined) key += `|${role}`;
+  return `${key}|rOut:${circuit.amplifier.outputResistanceOhm > 0 ? 1 : 0}|load:${circuit.load ? 1 : 0}`;
+}
+
+/** Shapes one ClosedFormCompileCache keeps before it starts over (a batch rarely has more than a handful). */
+export const DEFAULT_COMPILE_CACHE_SHAPES = 64;
+
+/**
+ * Compiled evaluators reused across circuits that differ only in values: a BOM
+ * batch checks thousands of assemblies of one topology and amplifier, each with
+ * its own part values, and compiling (validation, the probe solves that map
+ * each branch to its role, the stamping program) costs more than the worst-case
+ * corners themselves. A hit binds the cached program to the new circuit's
+ * nominal values and recomputes the topology branches' constant offsets (a
+ * diode's resistance), so the evaluator computes bit for bit what
+ * compileClosedForm would; a circuit whose branches differ in ends or emf (say
+ * another diode drop) is compiled afresh and replaces the entry.
+ *
+ * The assumption, true of every built-in topology: which role feeds a branch
+ * depends only on which roles are present, not on their values.
+ *
+ * The evaluators it returns share scratch buffers, which is safe because an
+ * evaluation never calls another evaluator (and each worker thread has its own
+ * module state). Give one cache per batch or per worker.
+ */
+export class ClosedFormCompileCache {
+  private readonly templates = new Map<string, CompiledEvaluator>();
+  private readonly out = new Float64Array(OUTPUT_LENGTH);
+  private reusedCount = 0;
+
+  constructor(readonly maxShapes: number = DEFAULT_COMPILE_CACHE_SHAPES) {}
+
+  /** Circuits answered from a cached shape so far (for tests and benchmarks). */
+  get reused(): number {
+    return this.reusedCount;
+  }
+
+  /** The same evaluator as compileClosedForm(circuit) gives (same values, same errors), compiled at most once per shape. */
+  compile(circuit: Circuit): ClosedFormEvaluator {
+    const topology = getTopology(circuit.topology);
+    const key = shapeKey(circuit, topology);
+    const template = this.templates.get(key);
+    if (template) {
+      // compileClosedForm validates first: same checks, same errors and pointers.
+      validateCircuit(circuit, topology);
+      const bound = template.rebind(circuit);
+      if (bound) {
+        // An evaluable nominal means the reference solve succeeds too (the arithmetic is the same);
+        // otherwise let the reference solve throw its own error, as compileClosedForm would.
+        if (bound.evaluate(bound.nominal, this.out) !== EVALUATION_STATUS.ok) prepareCircuit(circuit);
+        this.reusedCount++;
+        return bound;
+      }
+    }
+    const fresh = compileClosedForm(circuit);
+    if (fresh instanceof CompiledEvaluator) {
+      if (!template && this.templates.size >= this.maxShapes) this.templates.clear();
+      this.templates.set(key, fresh);
+    }
+    return fresh;
+  }
+}
+
+/** A compiled state with the offsets of another circuit's topology branches; undefined when their ends or emf differ. */
+function rebindState(topology: TopologyDefinition, circuit: Circuit, s: CompiledState, parameters: readonly ParameterInfo[]): CompiledState | undefined {
+  const branches = topology.branches(circuit.parts, nominalPiece(topology, s.state), circuit.diode);
+  const n = s.topologyBranchCount;
+  if (branches.length !== n) return undefined;
+  const offset = Float64Array.from(s.branchOffset);
+  for (let j = 0; j < n; j++) {
+    const b = branches[j];
+    if (b.from !== s.topologyFrom[j] || b.to !== s.topologyTo[j] || b.emfV !== s.topologyEmf[j]) return undefined;
+    const vi = s.branchValue[j];
+    // Same subtraction as mapTopologyBranches, so the offset is the one a fresh compile would record.
+    offset[j] = vi >= 0 ? b.resistanceOhm - circuit.parts[parameters[vi].name] : b.resistanceOhm;
+  }
+  return { ...s, branchOffset: offset };
 }
 
 /**
@@ -350,11 +443,11 @@ class CompiledEvaluator implements ClosedFormEvaluator {
     readonly circuitAt: (values: Float64Array) => Circuit,
     private readonly high: CompiledState,
     private readonly low: CompiledState,
-    capacitorRole: string,
-    roleSlots: number[],
+    private readonly topology: TopologyDefinition,
+    roleSlots: Int32Array,
   ) {
     this.conductance = new Float64Array(Math.max(high.branchValue.length, low.branchValue.length));
-    this.capIndex = indexOf(capacitorRole);
+    this.capIndex = indexOf(topology.capacitorRole);
     this.iPos = indexOf('supplyPositiveV');
     this.iNeg = indexOf('supplyNegativeV');
     this.iHeadHigh = indexOf('outputHeadroomHighV');
@@ -362,7 +455,20 @@ class CompiledEvaluator implements ClosedFormEvaluator {
     this.iOffset = indexOf('inputOffsetV');
     this.iBias = indexOf('inputBiasCurrentA');
     this.iLoadReturn = indexOf('loadReturnV');
-    this.roleSlots = Int32Array.from(roleSlots);
+    this.roleSlots = roleSlots;
+  }
+
+  /**
+   * This stamping program bound to another circuit of the same shape (see ClosedFormCompileCache; the
+   * caller has validated the circuit). Undefined when its topology branches differ in ends or emf.
+   */
+  rebind(circuit: Circuit): CompiledEvaluator | undefined {
+    const high = rebindState(this.topology, circuit, this.high, this.parameters);
+    const low = high && rebindState(this.topology, circuit, this.low, this.parameters);
+    if (!high || !low) return undefined;
+    const parameters = this.parameters;
+    const circuitAt = (values: Float64Array): Circuit => rebuildCircuit(circuit, parameters, values);
+    return new CompiledEvaluator(parameters, nominalValues(circuit, parameters), this.indexOf, circuitAt, high, low, this.topology, this.roleSlots);
   }
 
   /** solveNetwork + solveState for one state; writes tau, asymptote, switching level into this.stateOut. */

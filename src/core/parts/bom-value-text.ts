@@ -121,13 +121,35 @@ function inferKind(tokens: readonly string[]): ComponentKind | undefined {
   return capacitor ? 'capacitor' : 'resistor';
 }
 
-function isDielectricWord(token: string): boolean {
-  try {
-    parseDielectric(token);
-    return true;
-  } catch {
-    return false;
+/** Most tokens remembered by findDielectric before it starts over (bounds memory on odd inputs). */
+const DIELECTRIC_MEMO_LIMIT = 2048;
+/** Token -> its dielectric, or null for "not a dielectric". */
+const dielectricMemo = new Map<string, Dielectric | null>();
+
+/**
+ * The dielectric a token names, or undefined; never throws. parseDielectric reports an
+ * unknown word by throwing, and most tokens of a value column ("1%", "0603", "50V") are
+ * not dielectrics: an error with its stack for each of them costs far more than the parse.
+ * A token is parsed once and remembered (BOM batches repeat the same few tokens),
+ * so each distinct non-dielectric token costs one throw per process, not one per line.
+ * Each call returns its own copy, so a caller may not change what others get.
+ */
+function findDielectric(token: string): Dielectric | undefined {
+  let known = dielectricMemo.get(token);
+  if (known === undefined) {
+    try {
+      known = parseDielectric(token);
+    } catch {
+      known = null;
+    }
+    if (dielectricMemo.size >= DIELECTRIC_MEMO_LIMIT) dielectricMemo.clear();
+    dielectricMemo.set(token, known);
   }
+  return known === null ? undefined : { ...known };
+}
+
+function isDielectricWord(token: string): boolean {
+  return findDielectric(token) !== undefined;
 }
 
 function inAnySeries(value: number): boolean {
@@ -257,15 +279,17 @@ export function parseBomValueText(text: string, expectedKind?: ComponentKind): B
     if (kind !== 'resistor' && result.dielectric === undefined) {
       // Two-word names first ("aluminium electrolytic").
       const pair = tokens[i + 1] !== undefined ? `${t} ${tokens[i + 1]}` : undefined;
-      if (pair !== undefined && isDielectricWord(pair)) {
-        result.dielectric = parseDielectric(pair);
-        result.understood.push(`dielectric ${result.dielectric.code} (${result.dielectric.family}) from "${pair}"`);
+      const pairDielectric = pair !== undefined ? findDielectric(pair) : undefined;
+      if (pairDielectric) {
+        result.dielectric = pairDielectric;
+        result.understood.push(`dielectric ${pairDielectric.code} (${pairDielectric.family}) from "${pair}"`);
         i++;
         continue;
       }
-      if (isDielectricWord(t)) {
-        result.dielectric = parseDielectric(t);
-        result.understood.push(`dielectric ${result.dielectric.code} (${result.dielectric.family}) from "${t}"`);
+      const dielectric = findDielectric(t);
+      if (dielectric) {
+        result.dielectric = dielectric;
+        result.understood.push(`dielectric ${dielectric.code} (${dielectric.family}) from "${t}"`);
         continue;
       }
     }

@@ -5,9 +5,9 @@
  * runs it in a worker thread.
  */
 import { binValues } from '../plot/bin-values.ts';
-import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/fast-evaluator.ts';
+import { EVALUATION_STATUS, OUTPUT_LENGTH, type ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
 import { CoreError } from '../errors.ts';
-import { DEFAULT_SIGMA_PER_TOLERANCE, drawSamples } from './monte-carlo.ts';
+import { checkSigmaPerTolerance, DEFAULT_SIGMA_PER_TOLERANCE, drawSamples } from './monte-carlo.ts';
 import { createSampleEvaluator } from './sample-evaluator.ts';
 import { parameterSensitivities, varianceBudget } from './sensitivity.ts';
 import { summarize, wilsonInterval } from './statistics.ts';
@@ -59,21 +59,60 @@ export function monteCarloOptions(request: ToleranceRequest, model: 'closed-form
   return { samples, seed, distribution, sigmaPerTolerance };
 }
 
+/**
+ * Which parts of the analysis to compute. Nominal and worst case always run; each part left out
+ * (false) is skipped with its inputs: its fields are absent from the result, and its request
+ * options are neither used nor checked (monteCarlo.samples/seed and histogramBins for Monte Carlo).
+ * A part left out changes nothing in the others: each runs on its own buffers, so the worst case
+ * of a worst-case-only run is the full run's, number for number.
+ */
+export interface ToleranceParts {
+  /** Monte Carlo: samples, percentiles, yield, the histogram and the samples-latch note (default true). */
+  monteCarlo?: boolean;
+  /** Per-part sensitivities, the first-order variance budget and linearEstimate (default true). */
+  sensitivities?: boolean;
+}
+
 export interface ToleranceRunOptions {
   /** Keep the raw samples in the result (tests and benchmarks; never sent over HTTP). */
   keepSamples?: boolean;
+  /** Parts to compute (default: all). With this option the result type marks them optional. */
+  parts?: ToleranceParts;
+  /**
+   * Compiled evaluators to reuse across runs on circuits of one shape (a batch of assemblies):
+   * same results, no per-run compile once the shape is known. One cache per batch or worker.
+   */
+  compileCache?: ClosedFormCompileCache;
 }
 
 export interface ToleranceRun extends ToleranceResult {
   samples?: { frequencyHz: Float64Array; dutyCycle: Float64Array };
 }
 
-export function runToleranceAnalysis(request: ToleranceRequest, options: ToleranceRunOptions = {}): ToleranceRun {
-  const evaluator = withPrefix('/circuit', () => createSampleEvaluator(request.circuit, request.model ?? 'auto'));
+/** Fields that belong to a part that may be left out (ToleranceParts). */
+type OptionalPartFields = 'monteCarlo' | 'sensitivities' | 'varianceSources' | 'linearEstimate';
+
+/** A run with `parts` given: the parts' fields are present exactly when the part ran. */
+export type PartialToleranceRun = Omit<ToleranceRun, OptionalPartFields> & Partial<Pick<ToleranceRun, OptionalPartFields>>;
+
+/** The variance budget's distribution when Monte Carlo is left out (its sample options are then not checked). */
+function budgetDistribution(request: ToleranceRequest) {
+  const distribution = request.monteCarlo?.distribution ?? DEFAULT_MONTE_CARLO.distribution;
+  const sigmaPerTolerance = request.monteCarlo?.sigmaPerTolerance ?? DEFAULT_SIGMA_PER_TOLERANCE;
+  checkSigmaPerTolerance(sigmaPerTolerance);
+  return { distribution, sigmaPerTolerance };
+}
+
+export function runToleranceAnalysis(request: ToleranceRequest, options?: ToleranceRunOptions & { parts?: undefined }): ToleranceRun;
+export function runToleranceAnalysis(request: ToleranceRequest, options: ToleranceRunOptions): PartialToleranceRun;
+export function runToleranceAnalysis(request: ToleranceRequest, options: ToleranceRunOptions = {}): PartialToleranceRun {
+  const wantMonteCarlo = options.parts?.monteCarlo ?? true;
+  const wantSensitivities = options.parts?.sensitivities ?? true;
+  const evaluator = withPrefix('/circuit', () => createSampleEvaluator(request.circuit, request.model ?? 'auto', options.compileCache));
   const model = buildVariationModel(request, evaluator.parameters, evaluator.nominal, evaluator.model);
   if (request.spec) checkSpec(request.spec);
-  const mcOptions = monteCarloOptions(request, evaluator.model);
-  if (request.histogramBins !== undefined && !(Number.isInteger(request.histogramBins) && request.histogramBins >= 1 && request.histogramBins <= MAX_HISTOGRAM_BINS)) {
+  const mcOptions = wantMonteCarlo ? monteCarloOptions(request, evaluator.model) : undefined;
+  if (wantMonteCarlo && request.histogramBins !== undefined && !(Number.isInteger(request.histogramBins) && request.histogramBins >= 1 && request.histogramBins <= MAX_HISTOGRAM_BINS)) {
     throw new CoreError('invalid-value', `histogramBins must be an integer 1..${MAX_HISTOGRAM_BINS}`, '/histogramBins');
   }
 
@@ -86,42 +125,49 @@ export function runToleranceAnalysis(request: ToleranceRequest, options: Toleran
   const nominal = { frequencyHz: 1 / out[0], dutyCycle: out[1] };
 
   const worstCase = worstCaseSearch(model, evaluator, request.spec);
-  const drawn = drawSamples(model, evaluator, mcOptions);
-  const monteCarlo = monteCarloResult(drawn, mcOptions, request.spec);
+  const drawn = mcOptions ? drawSamples(model, evaluator, mcOptions) : undefined;
+  const monteCarlo = drawn && mcOptions ? monteCarloResult(drawn, mcOptions, request.spec) : undefined;
 
-  const budget = varianceBudget(evaluator, model, mcOptions.distribution, mcOptions.sigmaPerTolerance);
-  const sensitivities: PartSensitivity[] = parameterSensitivities(evaluator, model).map((s) => {
-    const i = evaluator.indexOf(s.role);
-    const own = budget.sources.filter((src) => {
-      const dim = model.dimensions.find((d) => d.name === src.source)!;
-      return OWN_KINDS.has(dim.kind) && dim.targets.length === 1 && dim.targets[0] === i;
+  let sensitivities: PartSensitivity[] | undefined;
+  let budget: ReturnType<typeof varianceBudget> | undefined;
+  if (wantSensitivities) {
+    const { distribution, sigmaPerTolerance } = mcOptions ?? budgetDistribution(request);
+    const b = varianceBudget(evaluator, model, distribution, sigmaPerTolerance);
+    budget = b;
+    sensitivities = parameterSensitivities(evaluator, model).map((s) => {
+      const i = evaluator.indexOf(s.role);
+      const own = b.sources.filter((src) => {
+        const dim = model.dimensions.find((d) => d.name === src.source)!;
+        return OWN_KINDS.has(dim.kind) && dim.targets.length === 1 && dim.targets[0] === i;
+      });
+      return { ...s, varianceShare: own.reduce((a, c) => a + c.share, 0) };
     });
-    return { ...s, varianceShare: own.reduce((a, b) => a + b.share, 0) };
-  });
-  sensitivities.sort((a, b) => Math.abs(b.sensitivity) - Math.abs(a.sensitivity));
+    sensitivities.sort((a, c) => Math.abs(c.sensitivity) - Math.abs(a.sensitivity));
+  }
 
   const notes = [...model.notes];
   if (worstCase.latchedCorners > 0) {
     notes.push({ code: 'corners-latch', message: `${worstCase.latchedCorners} corner(s) of the tolerance box do not oscillate: the design has no margin there` });
   }
-  if (drawn.latched > 0) {
+  if (drawn && mcOptions && drawn.latched > 0) {
     notes.push({ code: 'samples-latch', message: `${drawn.latched} of ${mcOptions.samples} Monte Carlo samples do not oscillate (counted as failing)` });
   }
   if (model.dimensions.length === 0) notes.push({ code: 'nothing-varies', message: 'No tolerance, temperature, supply or amplifier spread was given: every sample is the nominal circuit' });
 
-  const result: ToleranceRun = {
+  // Field order as before (model, nominal, worstCase, monteCarlo, sensitivities, ...): JSON answers keep their shape.
+  const result: PartialToleranceRun = {
     model: evaluator.model,
     nominal,
     worstCase,
-    monteCarlo,
-    sensitivities,
-    varianceSources: budget.sources,
-    linearEstimate: { frequencyRelativeStd: budget.relativeStd },
+    ...(monteCarlo ? { monteCarlo } : {}),
+    ...(sensitivities && budget
+      ? { sensitivities, varianceSources: budget.sources, linearEstimate: { frequencyRelativeStd: budget.relativeStd } }
+      : {}),
     temperatureModels: model.temperatureModels,
     notes,
   };
-  if (request.histogramBins !== undefined) result.histogram = histogram(drawn.frequencyHz, request.histogramBins, monteCarlo, request.spec);
-  if (options.keepSamples) result.samples = { frequencyHz: drawn.frequencyHz, dutyCycle: drawn.dutyCycle };
+  if (drawn && monteCarlo && request.histogramBins !== undefined) result.histogram = histogram(drawn.frequencyHz, request.histogramBins, monteCarlo, request.spec);
+  if (drawn && options.keepSamples) result.samples = { frequencyHz: drawn.frequencyHz, dutyCycle: drawn.dutyCycle };
   return result;
 }
 

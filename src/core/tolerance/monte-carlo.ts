@@ -33,11 +33,16 @@ export interface MonteCarloSamples {
   elapsedS: number;
 }
 
-export function drawSamples(model: VariationModel, evaluator: SampleEvaluator, options: SamplingOptions): MonteCarloSamples {
-  const { samples, seed, distribution, sigmaPerTolerance } = options;
+/** σ per tolerance must lie in (0, 1]: the normal draw is truncated at the tolerance, i.e. at u = ±1. */
+export function checkSigmaPerTolerance(sigmaPerTolerance: number): void {
   if (!(sigmaPerTolerance > 0 && sigmaPerTolerance <= 1)) {
     throw new CoreError('invalid-value', 'sigmaPerTolerance must be in (0, 1]', '/monteCarlo/sigmaPerTolerance');
   }
+}
+
+export function drawSamples(model: VariationModel, evaluator: SampleEvaluator, options: SamplingOptions): MonteCarloSamples {
+  const { samples, seed, distribution, sigmaPerTolerance } = options;
+  checkSigmaPerTolerance(sigmaPerTolerance);
   const started = performance.now();
   const rng = new Xoshiro128(seed);
   const dims = model.dimensions;

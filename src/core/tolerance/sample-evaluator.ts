@@ -5,7 +5,14 @@
  * layout followed by the two dynamic figures only the engine uses.
  */
 import { analyzeCircuit, chooseModel, type ModelChoice } from '../circuit/analyze.ts';
-import { compileClosedForm, EVALUATION_STATUS, type ClosedFormEvaluator, type EvaluationStatus, type ParameterInfo } from '../circuit/fast-evaluator.ts';
+import {
+  compileClosedForm,
+  EVALUATION_STATUS,
+  type ClosedFormCompileCache,
+  type ClosedFormEvaluator,
+  type EvaluationStatus,
+  type ParameterInfo,
+} from '../circuit/fast-evaluator.ts';
 import type { ModelName } from '../circuit/result.ts';
 import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
@@ -21,8 +28,9 @@ export interface SampleEvaluator {
   evaluate(values: Float64Array, out: Float64Array): EvaluationStatus;
 }
 
-export function createSampleEvaluator(circuit: Circuit, choice: ModelChoice = 'auto'): SampleEvaluator {
-  const closedForm = compileClosedForm(circuit);
+/** `compileCache`: reuse compiled structures across circuits of one shape (batches); same evaluator either way. */
+export function createSampleEvaluator(circuit: Circuit, choice: ModelChoice = 'auto', compileCache?: ClosedFormCompileCache): SampleEvaluator {
+  const closedForm = compileCache ? compileCache.compile(circuit) : compileClosedForm(circuit);
   const base = closedForm.parameters.length;
   const parameters: ParameterInfo[] = [...closedForm.parameters, ...DYNAMIC_PARAMETERS.map((name) => ({ name, kind: 'amplifier' as const }))];
   const nominal = new Float64Array(parameters.length);

@@ -39,6 +39,7 @@ function score(objective: Objective, frequencyHz: number, dutyCycle: number): nu
 export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluator, spec: FrequencySpec | undefined): WorstCase {
   const dims = model.dimensions;
   const n = dims.length;
+  const terms = model.terms;
   const values = new Float64Array(model.nominal.length);
   const out = new Float64Array(OUTPUT_LENGTH);
   let evaluated = 0;
@@ -46,7 +47,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
   let allInSpec = true;
   const seenLatched = new Set<string>();
   const evaluate = (point: Float64Array): { frequencyHz: number; dutyCycle: number } | undefined => {
-    model.apply(point, values);
+    terms.apply(point, values);
     evaluated++;
     if (evaluator.evaluate(values, out) !== EVALUATION_STATUS.ok) {
       const key = point.join(',');
@@ -61,12 +62,14 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     if (spec && !meetsSpec(spec, r.frequencyHz, r.dutyCycle)) allInSpec = false;
     return r;
   };
-  const best = new Map<Objective, Found>();
+  // Best point per objective, in OBJECTIVES order; the point is copied only when it improves, because
+  // callers may hand in a scratch buffer they go on to overwrite.
+  const best: (Found | undefined)[] = OBJECTIVES.map(() => undefined);
   const offer = (point: Float64Array, r: { frequencyHz: number; dutyCycle: number }) => {
-    for (const o of OBJECTIVES) {
-      const s = score(o, r.frequencyHz, r.dutyCycle);
-      const current = best.get(o);
-      if (!current || s > current.score) best.set(o, { score: s, point: Float64Array.from(point), ...r });
+    for (let o = 0; o < OBJECTIVES.length; o++) {
+      const s = score(OBJECTIVES[o], r.frequencyHz, r.dutyCycle);
+      const current = best[o];
+      if (!current || s > current.score) best[o] = { score: s, point: Float64Array.from(point), ...r };
     }
   };
   const corner = (bits: (k: number) => boolean) => Float64Array.from(dims, (d, k) => (bits(k) ? d.high : d.low));
@@ -78,8 +81,11 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
   if (n <= MAX_EXHAUSTIVE_DIMENSIONS[evaluator.model]) {
     method = 'all-corners';
     const count = 2 ** n;
+    const low = Float64Array.from(dims, (d) => d.low);
+    const high = Float64Array.from(dims, (d) => d.high);
+    const point = new Float64Array(n); // one scratch corner: offer copies what it keeps
     for (let mask = 0; mask < count; mask++) {
-      const point = corner((k) => ((mask >>> k) & 1) === 1);
+      for (let k = 0; k < n; k++) point[k] = ((mask >>> k) & 1) === 1 ? high[k] : low[k];
       const r = evaluate(point);
       if (r) offer(point, r);
     }
@@ -144,8 +150,8 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
       }
     }
   }
-  if (best.size === 0) throw new CoreError('no-oscillation', 'The circuit oscillates at no point of the tolerance box (nominal and corners all latch)');
-  const describe = (o: Objective): Corner => describeCorner(model, best.get(o)!);
+  if (best[0] === undefined) throw new CoreError('no-oscillation', 'The circuit oscillates at no point of the tolerance box (nominal and corners all latch)');
+  const describe = (o: Objective): Corner => describeCorner(model, best[OBJECTIVES.indexOf(o)]!);
   const corners = { frequencyMin: describe('frequencyMin'), frequencyMax: describe('frequencyMax'), dutyMin: describe('dutyMin'), dutyMax: describe('dutyMax') };
   return {
     frequencyMinHz: corners.frequencyMin.frequencyHz,

@@ -109,3 +109,29 @@ describe('parseBomValueText', () => {
     expect(r.unparsed).toEqual([]);
   });
 });
+
+describe('parseBomValueText: dielectric words read the same every time', () => {
+  // Dielectric codes by EIA-198 (C0G, X7R); "aluminium electrolytic" is a BOM word mapped by
+  // parts/dielectric.ts. The dielectric lookup remembers tokens it has seen: a second reading must
+  // give the same answer, and each reading its own object.
+  const texts: [string, ComponentKind | undefined, string | undefined][] = [
+    ['10nF 50V C0G 5%', 'capacitor', 'C0G'],
+    ['100n X7R 0402 10%', 'capacitor', 'X7R'],
+    ['47uF 25V aluminium electrolytic', 'capacitor', 'ELECTROLYTIC'],
+    ['4n7 X7R', undefined, 'X7R'], // kind inferred: the dielectric word says capacitor
+    ['10nF 50V 5%', 'capacitor', undefined],
+  ];
+  it('gives equal readings on repeat, and a fresh dielectric object per reading', () => {
+    for (const [text, kind, code] of texts) {
+      const first = parseBomValueText(text, kind);
+      const second = parseBomValueText(text, kind);
+      expect(second).toEqual(first);
+      expect(first.dielectric?.code).toBe(code);
+      if (code === undefined) continue;
+      expect(first.kind).toBe('capacitor');
+      expect(second.dielectric).not.toBe(first.dielectric);
+      first.dielectric!.code = 'changed by a caller';
+      expect(parseBomValueText(text, kind).dielectric?.code).toBe(code);
+    }
+  });
+});

@@ -132,3 +132,43 @@ describe('compileClosedForm', () => {
     ).toThrow(expect.objectContaining({ code: 'missing-part', pointer: '/parts/rGround' }));
   });
 });
+
+describe('compileClosedForm on a diode-steered circuit with its own diode', () => {
+  // Our own scenario: a ±5 V clock whose charge and discharge paths each run through a Schottky-like
+  // steering diode, 0.3 V and 2 Ω (invented figures, demo only). The reference is closedFormFigures,
+  // the path the compiled evaluator must reproduce (solveNetwork + solveState + closedFormOscillation).
+  const circuit: Circuit = {
+    topology: 'diode-steered',
+    supply: { positiveV: 5, negativeV: -5 },
+    amplifier: ideal,
+    parts: { rCharge: 10e3, rDischarge: 47e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 },
+    diode: { forwardDropV: 0.3, resistanceOhm: 2 },
+  };
+
+  it('uses the circuit’s diode, not the default one, and agrees with closedFormFigures to 1e-12', () => {
+    const ref = closedFormFigures(circuit);
+    const withDefaultDiode = closedFormFigures({ ...circuit, diode: undefined });
+    // The two diodes give clearly different periods, so an evaluator that ignored the diode would fail below.
+    expect(relErr(ref.periodS, withDefaultDiode.periodS)).toBeGreaterThan(1e-3);
+    const evaluator = compileClosedForm(circuit);
+    expect(evaluator.compiled).toBe(true);
+    const out = new Float64Array(OUTPUT_LENGTH);
+    expect(evaluator.evaluate(evaluator.nominal, out)).toBe(EVALUATION_STATUS.ok);
+    expect(relErr(out[OUTPUT_SLOT.periodS], ref.periodS)).toBeLessThan(1e-12);
+    expect(relErr(out[OUTPUT_SLOT.dutyCycle], ref.dutyCycle)).toBeLessThan(1e-12);
+    expect(relErr(out[OUTPUT_SLOT.timeHighS], ref.timeHighS)).toBeLessThan(1e-12);
+    expect(relErr(out[OUTPUT_SLOT.timeLowS], ref.timeLowS)).toBeLessThan(1e-12);
+  });
+
+  it('keeps the custom diode when values move (charge resistor +20 %)', () => {
+    const evaluator = compileClosedForm(circuit);
+    const values = Float64Array.from(evaluator.nominal);
+    values[evaluator.indexOf('rCharge')] *= 1.2;
+    const out = new Float64Array(OUTPUT_LENGTH);
+    expect(evaluator.evaluate(values, out)).toBe(EVALUATION_STATUS.ok);
+    const ref = closedFormFigures(evaluator.circuitAt(values));
+    expect(evaluator.circuitAt(values).diode).toEqual(circuit.diode);
+    expect(relErr(out[OUTPUT_SLOT.periodS], ref.periodS)).toBeLessThan(1e-12);
+    expect(relErr(out[OUTPUT_SLOT.dutyCycle], ref.dutyCycle)).toBeLessThan(1e-12);
+  });
+});
