@@ -55,8 +55,9 @@ const STRIDE = 4;
 export function solveNetwork(spec: NetworkSpec): NetworkSolution {
   const n = spec.nodeCount;
   const coeff = new Float64Array(n * STRIDE);
-  // Map unknown nodes to matrix rows.
-  const row = new Int32Array(n).fill(-1);
+  // Map unknown nodes to matrix rows (scratch reused across calls: solves are synchronous and tiny,
+  // and analyses run thousands per second, so per-call scratch would only feed the garbage collector).
+  const row = scratchRows(n);
   let m = 0;
   for (let k = 0; k < n; k++) {
     if (k === spec.capNode) {
@@ -70,7 +71,7 @@ export function solveNetwork(spec: NetworkSpec): NetworkSolution {
     }
   }
   const width = m + STRIDE; // augmented matrix: m columns + 4 right-hand sides
-  const a = new Float64Array(m * width);
+  const a = scratchMatrix(m * width);
   for (let k = 0; k < n; k++) {
     const r = row[k];
     if (r >= 0) {
@@ -117,6 +118,21 @@ export function solveNetwork(spec: NetworkSpec): NetworkSolution {
     qs -= g * -coeff[other * STRIDE + 2];
   }
   return { spec, coeff, capConstA: q0, capPerVoltV: qv, capPerSourceV: qs };
+}
+
+let rowScratch = new Int32Array(16);
+let matrixScratch = new Float64Array(256);
+
+function scratchRows(n: number): Int32Array {
+  if (rowScratch.length < n) rowScratch = new Int32Array(2 * n);
+  rowScratch.fill(-1, 0, n);
+  return rowScratch;
+}
+
+function scratchMatrix(size: number): Float64Array {
+  if (matrixScratch.length < size) matrixScratch = new Float64Array(2 * size);
+  matrixScratch.fill(0, 0, size);
+  return matrixScratch;
 }
 
 /** Stamp one end of a branch (node p, far end q) into KCL row of p. */
