@@ -118,6 +118,8 @@ interface DiodeTerminal {
 }
 
 const STRIDE = 4; // NetworkSolution.coeff layout: const, per v, per s, probe
+/** Shared by every circuit without steering diodes (never written). */
+const NO_DIODES: readonly DiodeTerminal[] = [];
 
 /**
  * Per-analysis cache of configuration models. The object is reusable: reset()
@@ -128,7 +130,7 @@ export class ConfigCache {
   private readonly slot = new Int16Array(KEY_SPACE).fill(-1);
   private readonly pool: ConfigModel[] = [];
   private used = 0;
-  private diodeTerminals: DiodeTerminal[] = [];
+  private diodeTerminals: readonly DiodeTerminal[] = NO_DIODES;
   prepared!: PreparedCircuit;
   capacitanceF = 0;
   spanV = 0;
@@ -148,8 +150,9 @@ export class ConfigCache {
     this.outputResistanceOhm = circuit.amplifier.outputResistanceOhm;
     this.openDrain = topology.needsOpenDrain;
     this.offsetV = circuit.amplifier.inputOffsetV;
-    this.diodeTerminals = topology.diodeCount ? findDiodeTerminals(prepared) : [];
-    this.slot.fill(-1);
+    this.diodeTerminals = topology.diodeCount ? findDiodeTerminals(prepared) : NO_DIODES;
+    // Only the slots the previous circuit filled need clearing.
+    for (let i = 0; i < this.used; i++) this.slot[this.pool[i].key] = -1;
     this.used = 0;
     // The nominal solves of the analysis are the diodes-nominal, clamp-off, not-limited pieces.
     this.adoptNominal(prepared.high.solution, 'high');
@@ -282,7 +285,9 @@ function currentLeaving(sol: NetworkSolution, node: number, m: ConfigModel, whic
   let s = 0;
   if (node >= 0) {
     const k = sol.coeff;
-    for (const b of sol.spec.branches) {
+    const branches = sol.spec.branches;
+    for (let n = 0; n < branches.length; n++) {
+      const b = branches[n];
       if (b.from !== node && b.to !== node) continue;
       const g = (b.from === node ? 1 : -1) / b.resistanceOhm;
       const f = b.from * STRIDE;
@@ -305,9 +310,7 @@ function currentLeaving(sol: NetworkSolution, node: number, m: ConfigModel, whic
 
 function diodeBits(on: readonly boolean[] | undefined): number {
   let bits = 0;
-  on?.forEach((x, k) => {
-    if (x) bits |= 1 << k;
-  });
+  if (on) for (let k = 0; k < on.length; k++) if (on[k]) bits |= 1 << k;
   return bits;
 }
 

@@ -12,9 +12,9 @@
  */
 import type { PreparedCircuit } from '../analyze.ts';
 import { powerUpState } from '../closed-form.ts';
-import type { EdgeTimes } from '../frequency-ceiling.ts';
+import { nominalEdgeTimes, type EdgeTimes } from '../frequency-ceiling.ts';
 import type { OscillationFigures, StateSummary } from '../result.ts';
-import { configKey, STAGE, type ConfigModel } from './configs.ts';
+import { configKey, STAGE, type ConfigCache, type ConfigModel } from './configs.ts';
 import type { PieceEvaluator } from './piece-evaluator.ts';
 import { LOG } from './piece-log.ts';
 import type { OscillatorWalk, SteadyCycle } from './walker.ts';
@@ -29,93 +29,160 @@ export interface WalkExtras {
   outputMidV: number;
 }
 
-const scratch2 = new Float64Array(2);
 let pinEndsBuffer = new Float64Array(32);
+let crossingMemoBuffer = new Float64Array(16);
 
 /** Pin voltage at both ends of each cycle piece (reused buffer). */
 function pinEndsScratch(pieces: number): Float64Array {
   if (pinEndsBuffer.length < 2 * pieces) pinEndsBuffer = new Float64Array(4 * pieces);
   return pinEndsBuffer;
 }
+
+/** Marks a cycle piece whose 50 % crossings have not been searched (any found time is >= 0). */
+const NOT_SEARCHED = -1;
+
+/**
+ * First 50 % crossing inside each cycle piece, as searched by the duty-cycle
+ * pass (NaN: none; NOT_SEARCHED), so that the first-edge search from power-up,
+ * which usually ends inside the first cycle, does not solve the same crossing
+ * twice. Reused buffer.
+ */
+function crossingMemoScratch(pieces: number): Float64Array {
+  if (crossingMemoBuffer.length < pieces) crossingMemoBuffer = new Float64Array(2 * pieces);
+  for (let k = 0; k < pieces; k++) crossingMemoBuffer[k] = NOT_SEARCHED;
+  return crossingMemoBuffer;
+}
 const scratchT = new Float64Array(2);
 const scratchDir = new Int8Array(2);
 
-export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallbackEdges: EdgeTimes, extras?: WalkExtras): TimeDomainFigures {
+/**
+ * ((x % m) + m) % m, the phase of x in [0, m), without the floating-point
+ * remainder where it is not needed: |x| < m leaves x % m = x exactly, and for
+ * m <= y < 2m the remainder is y − m, which is exact (Sterbenz). Same bits as
+ * the remainder form; the remainder is slow in V8.
+ */
+function phaseIn(x: number, m: number): number {
+  const r = x > -m && x < m ? x : x % m;
+  const y = r + m;
+  if (y < m) return y;
+  return y < 2 * m ? y - m : y % m;
+}
+
+/**
+ * Sums and extremes over the cycle pieces, one piece at a time (a reusable
+ * accumulator: figuresFromWalk is synchronous and never re-entered).
+ */
+class CycleTotals {
+  pinHighInt = 0;
+  pinHighS = 0;
+  pinLowInt = 0;
+  pinLowS = 0;
+  railCharge = 0;
+  sourcedCharge = 0;
+  capMin = Infinity;
+  capMax = -Infinity;
+  pMin = Infinity;
+  pMax = -Infinity;
+  diffMin = Infinity;
+  diffMax = -Infinity;
+  iMin = Infinity;
+  iMax = -Infinity;
+  supplyMax = -Infinity;
+  highPiece: ConfigModel | undefined;
+  lowPiece: ConfigModel | undefined;
+  limitedS = 0;
+  demandPeakA = 0;
+
+  clear(): void {
+    this.pinHighInt = this.pinHighS = this.pinLowInt = this.pinLowS = 0;
+    this.railCharge = this.sourcedCharge = 0;
+    this.capMin = this.pMin = this.diffMin = this.iMin = Infinity;
+    this.capMax = this.pMax = this.diffMax = this.iMax = this.supplyMax = -Infinity;
+    this.highPiece = this.lowPiece = undefined;
+    this.limitedS = this.demandPeakA = 0;
+  }
+
+  /** Adds the loaded piece; its pin voltage at both ends goes to pinEnds[j], pinEnds[j + 1]. */
+  add(ev: PieceEvaluator, cache: ConfigCache, pinEnds: Float64Array, j: number): void {
+    const cfg = ev.config;
+    const T = ev.durationS;
+    pinEnds[j] = ev.atStart(cfg.oC, cfg.oV, cfg.oS);
+    pinEnds[j + 1] = ev.atEnd(cfg.oC, cfg.oV, cfg.oS);
+    const pin = ev.integralFull(cfg.oC, cfg.oV, cfg.oS);
+    if (ev.target) {
+      this.pinHighInt += pin;
+      this.pinHighS += T;
+    } else {
+      this.pinLowInt += pin;
+      this.pinLowS += T;
+    }
+    if (ev.logic) this.highPiece = cfg;
+    else this.lowPiece = cfg;
+    this.railCharge += ev.integralFull(cfg.railC, cfg.railV, cfg.railS);
+    this.sourcedCharge += ev.positiveIntegral(cfg.iC, cfg.iV, cfg.iS, scratchT, scratchDir);
+    this.addRanges(ev, cfg, cache);
+  }
+
+  /**
+   * The extremes of the loaded piece. Kept apart from add, which is already
+   * large, so that the optimizing compiler can inline every range call here
+   * (measured a few per cent faster than one method).
+   */
+  private addRanges(ev: PieceEvaluator, cfg: ConfigModel, cache: ConfigCache): void {
+    const T = ev.durationS;
+    ev.range(0, 1, 0);
+    this.capMin = Math.min(this.capMin, ev.rangeMin);
+    this.capMax = Math.max(this.capMax, ev.rangeMax);
+    ev.range(cfg.pC, cfg.pV, cfg.pS);
+    this.pMin = Math.min(this.pMin, ev.rangeMin);
+    this.pMax = Math.max(this.pMax, ev.rangeMax);
+    ev.range(cfg.pC, cfg.pV - 1, cfg.pS);
+    this.diffMin = Math.min(this.diffMin, ev.rangeMin);
+    this.diffMax = Math.max(this.diffMax, ev.rangeMax);
+    if (cfg.iV !== 0 || cfg.iS !== 0) {
+      ev.range(cfg.iC, cfg.iV, cfg.iS);
+      this.iMin = Math.min(this.iMin, ev.rangeMin);
+      this.iMax = Math.max(this.iMax, ev.rangeMax);
+    } else {
+      this.iMin = Math.min(this.iMin, cfg.iC);
+      this.iMax = Math.max(this.iMax, cfg.iC);
+    }
+    if (cfg.stage === STAGE.limitedSource || cfg.stage === STAGE.limitedSink) {
+      // What the voltage drive would have delivered here (the same network with the stage driving).
+      this.limitedS += T;
+      const drive = cache.get(configKey(STAGE.driven, cfg.clamp, cfg.diodes));
+      ev.range(drive.iC, drive.iV, drive.iS);
+      this.demandPeakA = Math.max(this.demandPeakA, Math.abs(ev.rangeMin), Math.abs(ev.rangeMax));
+    }
+    // Peak draw from V+: the network's share plus whatever the output sources (max(rail, rail + iOut)).
+    ev.range(cfg.railC, cfg.railV, cfg.railS);
+    this.supplyMax = Math.max(this.supplyMax, ev.rangeMax);
+    ev.range(cfg.railC + cfg.iC, cfg.railV + cfg.iV, cfg.railS + cfg.iS);
+    this.supplyMax = Math.max(this.supplyMax, ev.rangeMax);
+  }
+}
+const totals = new CycleTotals();
+
+/**
+ * `fallbackEdges` stands in for an edge the cycle did not complete; undefined:
+ * the circuit's nominal edge times, worked out only when one is needed.
+ */
+export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallbackEdges: EdgeTimes | undefined, extras?: WalkExtras): TimeDomainFigures {
   const prepared = walk.prepared;
   const { circuit } = prepared;
   const ev = walk.evaluator;
   const periodS = cycle.periodS;
 
-  let pinHighInt = 0;
-  let pinHighS = 0;
-  let pinLowInt = 0;
-  let pinLowS = 0;
-  let railCharge = 0;
-  let sourcedCharge = 0;
-  let capMin = Infinity;
-  let capMax = -Infinity;
-  let pMin = Infinity;
-  let pMax = -Infinity;
-  let diffMin = Infinity;
-  let diffMax = -Infinity;
-  let iMin = Infinity;
-  let iMax = -Infinity;
-  let supplyMax = -Infinity;
-  let highPiece: ConfigModel | undefined;
-  let lowPiece: ConfigModel | undefined;
-
-  let limitedS = 0;
-  let demandPeakA = 0;
   const pinEnds = pinEndsScratch(cycle.endIndex - cycle.startIndex);
+  const sums = totals;
+  sums.clear();
   for (let i = cycle.startIndex; i < cycle.endIndex; i++) {
     ev.load(i);
-    const cfg = ev.config;
-    const T = ev.durationS;
-    const j = 2 * (i - cycle.startIndex);
-    pinEnds[j] = ev.atStart(cfg.oC, cfg.oV, cfg.oS);
-    pinEnds[j + 1] = ev.atEnd(cfg.oC, cfg.oV, cfg.oS);
-    const pin = ev.integralFull(cfg.oC, cfg.oV, cfg.oS);
-    if (ev.target) {
-      pinHighInt += pin;
-      pinHighS += T;
-    } else {
-      pinLowInt += pin;
-      pinLowS += T;
-    }
-    if (ev.logic) highPiece = cfg;
-    else lowPiece = cfg;
-    railCharge += ev.integralFull(cfg.railC, cfg.railV, cfg.railS);
-    sourcedCharge += ev.positiveIntegral(cfg.iC, cfg.iV, cfg.iS, scratchT, scratchDir);
-    ev.extremes(0, 1, 0, scratch2);
-    capMin = Math.min(capMin, scratch2[0]);
-    capMax = Math.max(capMax, scratch2[1]);
-    ev.extremes(cfg.pC, cfg.pV, cfg.pS, scratch2);
-    pMin = Math.min(pMin, scratch2[0]);
-    pMax = Math.max(pMax, scratch2[1]);
-    ev.extremes(cfg.pC, cfg.pV - 1, cfg.pS, scratch2);
-    diffMin = Math.min(diffMin, scratch2[0]);
-    diffMax = Math.max(diffMax, scratch2[1]);
-    if (cfg.iV !== 0 || cfg.iS !== 0) {
-      ev.extremes(cfg.iC, cfg.iV, cfg.iS, scratch2);
-      iMin = Math.min(iMin, scratch2[0]);
-      iMax = Math.max(iMax, scratch2[1]);
-    } else {
-      iMin = Math.min(iMin, cfg.iC);
-      iMax = Math.max(iMax, cfg.iC);
-    }
-    if (cfg.stage === STAGE.limitedSource || cfg.stage === STAGE.limitedSink) {
-      // What the voltage drive would have delivered here (the same network with the stage driving).
-      limitedS += T;
-      const drive = walk.cache.get(configKey(STAGE.driven, cfg.clamp, cfg.diodes));
-      ev.extremes(drive.iC, drive.iV, drive.iS, scratch2);
-      demandPeakA = Math.max(demandPeakA, Math.abs(scratch2[0]), Math.abs(scratch2[1]));
-    }
-    // Peak draw from V+: the network's share plus whatever the output sources (max(rail, rail + iOut)).
-    ev.extremes(cfg.railC, cfg.railV, cfg.railS, scratch2);
-    supplyMax = Math.max(supplyMax, scratch2[1]);
-    ev.extremes(cfg.railC + cfg.iC, cfg.railV + cfg.iV, cfg.railS + cfg.iS, scratch2);
-    supplyMax = Math.max(supplyMax, scratch2[1]);
+    sums.add(ev, walk.cache, pinEnds, 2 * (i - cycle.startIndex));
   }
+  const { pinHighInt, pinHighS, pinLowInt, pinLowS, railCharge, sourcedCharge, capMin, capMax, pMin, pMax, diffMin, diffMax, iMin, iMax, supplyMax, highPiece, lowPiece, limitedS, demandPeakA } = sums;
+  // The accumulator is reused: drop its references to this circuit's configurations.
+  sums.highPiece = sums.lowPiece = undefined;
   const highV = pinHighS > 0 ? pinHighInt / pinHighS : Number.NaN;
   const lowV = pinLowS > 0 ? pinLowInt / pinLowS : Number.NaN;
   const midV = 0.5 * (highV + lowV);
@@ -126,6 +193,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
   let fallAt = Number.NaN;
   const pieces = cycle.endIndex - cycle.startIndex;
   let prevEnd = pinEnds[2 * pieces - 1] - midV;
+  const memo = crossingMemoScratch(pieces);
   for (let i = cycle.startIndex; i < cycle.endIndex && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); i++) {
     const j = 2 * (i - cycle.startIndex);
     const start = pinEnds[j] - midV;
@@ -139,6 +207,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
     ev.load(i);
     const cfg = ev.config;
     const n = ev.crossings(cfg.oC - midV, cfg.oV, cfg.oS, scratchT, scratchDir);
+    memo[i - cycle.startIndex] = n > 0 ? scratchT[0] : Number.NaN;
     for (let k = 0; k < n; k++) {
       if (scratchDir[k] > 0 && Number.isNaN(riseAt)) riseAt = startS + scratchT[k];
       if (scratchDir[k] < 0 && Number.isNaN(fallAt)) fallAt = startS + scratchT[k];
@@ -146,17 +215,22 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
   }
   let timeHighS: number;
   if (!Number.isNaN(riseAt) && !Number.isNaN(fallAt)) {
-    timeHighS = (((fallAt - riseAt) % periodS) + periodS) % periodS;
+    timeHighS = phaseIn(fallAt - riseAt, periodS);
   } else {
     timeHighS = pinHighS; // the pin never crosses its midpoint: fall back to the drive intervals
   }
   const timeLowS = periodS - timeHighS;
 
-  const firstEdgeS = firstCrossing(ev, walk.log.count, midV);
-  const rise = Number.isNaN(cycle.riseS) ? fallbackEdges.riseTimeS : cycle.riseS;
-  const fall = Number.isNaN(cycle.fallS) ? fallbackEdges.fallTimeS : cycle.fallS;
+  const firstEdgeS = firstCrossing(ev, walk.log.count, midV, cycle.startIndex, cycle.endIndex, memo);
+  let rise = cycle.riseS;
+  let fall = cycle.fallS;
+  if (Number.isNaN(rise) || Number.isNaN(fall)) {
+    const fallback = fallbackEdges ?? nominalEdgeTimes(prepared);
+    if (Number.isNaN(rise)) rise = fallback.riseTimeS;
+    if (Number.isNaN(fall)) fall = fallback.fallTimeS;
+  }
 
-  return {
+  const figures: TimeDomainFigures = {
     model: 'time-domain',
     frequencyHz: 1 / periodS,
     periodS,
@@ -187,12 +261,18 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
     },
     biasThresholdShiftV: Math.abs(circuit.amplifier.inputBiasCurrentA) * Math.max(prepared.high.decisionResistanceOhm, prepared.low.decisionResistanceOhm),
     edges: { riseTimeS: rise, fallTimeS: fall },
-    ...(limitedS > 0 ? { currentLimit: { limitedFraction: limitedS / periodS, demandPeakA } } : {}),
   };
+  // Added last, as the spread form did (same key order), without building a throwaway object.
+  if (limitedS > 0) figures.currentLimit = { limitedFraction: limitedS / periodS, demandPeakA };
+  return figures;
 }
 
-/** First 50 % crossing of the pin from power-up (the log starts at t = 0). */
-function firstCrossing(ev: PieceEvaluator, count: number, midV: number): number {
+/**
+ * First 50 % crossing of the pin from power-up (the log starts at t = 0). Cycle
+ * pieces [memoStart, memoEnd) reuse the crossing the duty-cycle pass found
+ * (same function, same piece: the same search).
+ */
+function firstCrossing(ev: PieceEvaluator, count: number, midV: number, memoStart: number, memoEnd: number, memo: Float64Array): number {
   let prevEnd = Number.NaN;
   for (let i = 0; i < count; i++) {
     ev.load(i);
@@ -200,8 +280,13 @@ function firstCrossing(ev: PieceEvaluator, count: number, midV: number): number 
     const c0 = cfg.oC - midV;
     const start = ev.atStart(c0, cfg.oV, cfg.oS);
     if (!Number.isNaN(prevEnd) && prevEnd < 0 !== start < 0) return ev.startS;
-    const n = ev.crossings(c0, cfg.oV, cfg.oS, scratchT, scratchDir);
-    if (n > 0) return ev.startS + scratchT[0];
+    const known = i >= memoStart && i < memoEnd ? memo[i - memoStart] : NOT_SEARCHED;
+    if (known !== NOT_SEARCHED) {
+      if (!Number.isNaN(known)) return ev.startS + known;
+    } else {
+      const n = ev.crossings(c0, cfg.oV, cfg.oS, scratchT, scratchDir);
+      if (n > 0) return ev.startS + scratchT[0];
+    }
     prevEnd = ev.atEnd(c0, cfg.oV, cfg.oS);
   }
   return Number.NaN;

@@ -57,7 +57,7 @@ const sharedWalk = new OscillatorWalk();
 /** The analysis figures from the engine (the shape the closed form gives, plus measured edges). */
 export function analyzeTimeDomain(prepared: PreparedCircuit): OscillationFigures {
   const cycle = walkToSteadyState(sharedWalk, prepared);
-  return figuresFromWalk(sharedWalk, cycle, nominalEdgeTimes(prepared));
+  return figuresFromWalk(sharedWalk, cycle, undefined);
 }
 
 export interface WaveformResult {

@@ -13,7 +13,7 @@
  * every quantity affine in (v, s) has at most one extremum per piece. Root
  * finding and extremum search rely on that.
  */
-import { phiAll, series, SERIES_LIMIT } from './phi.ts';
+import { phiAll, series1, series2, SERIES_LIMIT } from './phi.ts';
 
 export class Kinematics {
   a = 0;
@@ -43,8 +43,8 @@ export class Kinematics {
     let p2: number;
     if (x < SERIES_LIMIT) {
       e = Math.exp(-x);
-      p1 = series(x, 1);
-      p2 = series(x, 2);
+      p1 = series1(x);
+      p2 = series2(x);
     } else {
       const m = Math.expm1(-x);
       e = 1 + m;

@@ -2,9 +2,9 @@
  * Re-evaluates logged pieces after the walk: values, extremes, level crossings
  * and integrals of any quantity affine in (v, s), all exact per piece.
  */
-import type { ConfigCache } from './configs.ts';
+import type { ConfigCache, ConfigModel } from './configs.ts';
 import { Kinematics } from './kinematics.ts';
-import { LOG, type PieceLog } from './piece-log.ts';
+import { LOG, LOG_STRIDE, type PieceLog } from './piece-log.ts';
 import { AffineProbe, extremumTime, PieceEnds, solveBracket } from './root-solve.ts';
 
 export class PieceEvaluator {
@@ -16,6 +16,14 @@ export class PieceEvaluator {
   logic = 0;
   target = 0;
   key = 0;
+  /** Minimum and maximum from the last range() call. */
+  rangeMin = 0;
+  rangeMax = 0;
+  /**
+   * A plain exponential piece whose v' keeps its sign: every g affine in (v, s)
+   * is then monotone, so no extremum search is needed (extremum() would say -1).
+   */
+  private monotone = false;
   /** ∫ v dt and ∫ s dt over the whole loaded piece (computed once per load). */
   private fullIntegralV = 0;
   private fullIntegralS = 0;
@@ -26,26 +34,30 @@ export class PieceEvaluator {
     private readonly cache: ConfigCache,
   ) {}
 
-  /** The configuration of the loaded piece. */
-  get config() {
-    return this.cache.get(this.key);
-  }
+  /** The configuration of the loaded piece (set by load: no cache lookup per use). */
+  config!: ConfigModel;
 
   load(index: number): void {
-    const log = this.log;
-    const cfg = this.cache.get(log.get(index, LOG.key));
-    const s0 = log.get(index, LOG.s0);
-    const r = log.get(index, LOG.rate);
-    this.kin.set(cfg.a, cfg.b0 + cfg.bS * s0, cfg.bS * r, log.get(index, LOG.v0), s0, r);
-    this.startS = log.get(index, LOG.startS);
-    this.durationS = log.get(index, LOG.durationS);
-    this.logic = log.get(index, LOG.logic);
-    this.target = log.get(index, LOG.target);
+    // The record read in place (this runs for every piece of every figure pass).
+    const d = this.log.data;
+    const base = index * LOG_STRIDE;
+    const cfg = this.cache.get(d[base + LOG.key]);
+    const s0 = d[base + LOG.s0];
+    const r = d[base + LOG.rate];
+    this.kin.set(cfg.a, cfg.b0 + cfg.bS * s0, cfg.bS * r, d[base + LOG.v0], s0, r);
+    this.startS = d[base + LOG.startS];
+    this.durationS = d[base + LOG.durationS];
+    this.logic = d[base + LOG.logic];
+    this.target = d[base + LOG.target];
     this.key = cfg.key;
-    this.kin.endAndIntegral(this.durationS, this.scratch);
-    this.ends.fillWithEnd(this.kin, this.durationS, this.scratch[0]);
-    this.fullIntegralV = this.scratch[1];
+    this.config = cfg;
+    // The walk logged the far end and ∫v with the piece: no φ-function evaluation here.
+    this.ends.fillWithEnd(this.kin, this.durationS, d[base + LOG.vEnd]);
+    this.fullIntegralV = d[base + LOG.integralV];
     this.fullIntegralS = this.kin.integralS(this.durationS);
+    const e = this.ends;
+    // With r = 0, g' = cv·v' has strictly opposite signs at the ends only if v' has.
+    this.monotone = r === 0 && !(e.dv0 < 0 && e.dvT > 0) && !(e.dv0 > 0 && e.dvT < 0);
   }
 
   /** ∫ g dt over the whole piece. */
@@ -67,22 +79,33 @@ export class PieceEvaluator {
 
   /** Minimum and maximum over the piece into out[0], out[1]. */
   extremes(c0: number, cv: number, cs: number, out: Float64Array): void {
-    const g0 = this.atStart(c0, cv, cs);
-    const gT = this.atEnd(c0, cv, cs);
+    this.range(c0, cv, cs);
+    out[0] = this.rangeMin;
+    out[1] = this.rangeMax;
+  }
+
+  /** Minimum and maximum over the piece into rangeMin, rangeMax. */
+  range(c0: number, cv: number, cs: number): void {
+    const e = this.ends;
+    const g0 = c0 + cv * e.v0 + cs * e.s0;
+    const gT = c0 + cv * e.vT + cs * e.sT;
     let lo = Math.min(g0, gT);
     let hi = Math.max(g0, gT);
-    const tExt = this.extremum(c0, cv, cs);
-    if (tExt >= 0) {
-      const g = this.at(c0, cv, cs, tExt);
-      lo = Math.min(lo, g);
-      hi = Math.max(hi, g);
+    if (!this.monotone) {
+      const tExt = this.extremum(c0, cv, cs);
+      if (tExt >= 0) {
+        const g = this.at(c0, cv, cs, tExt);
+        lo = Math.min(lo, g);
+        hi = Math.max(hi, g);
+      }
     }
-    out[0] = lo;
-    out[1] = hi;
+    this.rangeMin = lo;
+    this.rangeMax = hi;
   }
 
   /** Time of the interior extremum, or −1 when g is monotone over the piece. */
   private extremum(c0: number, cv: number, cs: number): number {
+    if (this.monotone) return -1;
     const e = this.ends;
     const r = this.kin.r;
     const gd0 = cv * e.dv0 + cs * r;
@@ -148,17 +171,34 @@ export class PieceEvaluator {
       return Math.max(this.atStart(c0, cv, cs), this.atEnd(c0, cv, cs)) > 0 ? this.integralFull(c0, cv, cs) : 0;
     }
     const T = this.durationS;
+    const k = this.kin;
     let total = 0;
     let from = 0;
+    // ∫₀^from v dt, computed once per crossing.
+    let ivFrom = 0;
     // The first segment has the sign opposite to the first crossing's direction.
     let positive = scratchDir[0] < 0;
     for (let i = 0; i < n; i++) {
       const t = scratchT[i];
-      if (positive) total += this.integral(c0, cv, cs, from, t);
+      const ivT = k.integralV(t);
+      if (positive) total += this.segment(c0, cv, cs, from, ivFrom, t, ivT);
       positive = scratchDir[i] > 0;
       from = t;
+      ivFrom = ivT;
     }
-    if (positive) total += this.integral(c0, cv, cs, from, T);
+    // The far end's integral is the one logged with the piece.
+    if (positive) total += this.segment(c0, cv, cs, from, ivFrom, T, this.fullIntegralV);
     return total;
+  }
+
+  /**
+   * integral(c0, cv, cs, t1, t2) with ∫₀^t v dt already known at both ends
+   * (iv1 is ignored for t1 = 0): the same arithmetic, without re-evaluating φ.
+   */
+  private segment(c0: number, cv: number, cs: number, t1: number, iv1: number, t2: number, iv2: number): number {
+    const k = this.kin;
+    const iv = iv2 - (t1 > 0 ? iv1 : 0);
+    const is = k.integralS(t2) - k.integralS(t1);
+    return c0 * (t2 - t1) + cv * iv + cs * is;
   }
 }

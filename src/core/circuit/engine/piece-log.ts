@@ -1,7 +1,10 @@
 /**
  * A growable flat record of the pieces a walk went through: everything needed
  * to re-evaluate any quantity at any time inside a piece afterwards (figures,
- * crossings, waveform samples) without storing per-piece objects.
+ * crossings, waveform samples) without storing per-piece objects. The walk
+ * also records what it already computed at the far end of each piece (the
+ * capacitor voltage and ∫v dt, from one evaluation of the φ-functions), so
+ * re-reading a piece costs no exponential.
  */
 export const LOG = {
   startS: 0,
@@ -15,8 +18,12 @@ export const LOG = {
   logic: 6,
   /** Level the output stage is heading for (the decision delayed by the recovery delay). */
   target: 7,
+  /** Capacitor voltage at the end of the piece, V. */
+  vEnd: 8,
+  /** ∫ v dt over the whole piece, V·s. */
+  integralV: 9,
 } as const;
-export const LOG_STRIDE = 8;
+export const LOG_STRIDE = 10;
 
 export class PieceLog {
   data = new Float64Array(16 * LOG_STRIDE);
@@ -26,7 +33,7 @@ export class PieceLog {
     this.count = 0;
   }
 
-  push(startS: number, durationS: number, v0: number, s0: number, rate: number, key: number, logic: number, target: number): void {
+  push(startS: number, durationS: number, v0: number, s0: number, rate: number, key: number, logic: number, target: number, vEnd: number, integralV: number): void {
     if ((this.count + 1) * LOG_STRIDE > this.data.length) {
       const grown = new Float64Array(this.data.length * 2);
       grown.set(this.data);
@@ -42,6 +49,8 @@ export class PieceLog {
     d[i + 5] = key;
     d[i + 6] = logic;
     d[i + 7] = target;
+    d[i + 8] = vEnd;
+    d[i + 9] = integralV;
   }
 
   get(index: number, field: number): number {

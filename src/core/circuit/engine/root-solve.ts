@@ -86,6 +86,9 @@ export class PieceEnds {
   vT = 0;
   dvT = 0;
   sT = 0;
+  /** ∫₀ᵀ v dt when fill() computed the far end (NaN otherwise): the walk logs it with the piece. */
+  integralV = Number.NaN;
+  private readonly endScratch = new Float64Array(2);
 
   /** Fill with a known far-end voltage (computed by the caller together with something else). */
   fillWithEnd(kin: Kinematics, durationS: number, vT: number): void {
@@ -94,6 +97,7 @@ export class PieceEnds {
     this.dv0 = kin.dv(0, kin.v0);
     this.s0 = kin.s0;
     this.vT = vT;
+    this.integralV = Number.NaN;
     this.dvT = kin.dv(durationS, vT);
     this.sT = kin.s(durationS);
   }
@@ -105,11 +109,15 @@ export class PieceEnds {
     this.dv0 = kin.dv(0, kin.v0);
     this.s0 = kin.s0;
     if (Number.isFinite(durationS) && (always || kin.r !== 0)) {
-      this.vT = kin.v(durationS);
+      // The end voltage and the integral share one evaluation of the φ-functions.
+      const out = this.endScratch;
+      kin.endAndIntegral(durationS, out);
+      this.vT = out[0];
+      this.integralV = out[1];
       this.dvT = kin.dv(durationS, this.vT);
       this.sT = kin.s(durationS);
     } else {
-      this.vT = this.dvT = this.sT = Number.NaN;
+      this.vT = this.dvT = this.sT = this.integralV = Number.NaN;
     }
   }
 }

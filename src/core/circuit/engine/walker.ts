@@ -90,6 +90,7 @@ export class OscillatorWalk {
   private readonly kin = new Kinematics();
   private readonly probe = new AffineProbe(this.kin);
   private readonly ends = new PieceEnds();
+  private readonly endScratch = new Float64Array(2);
   prepared!: PreparedCircuit;
   highV = 0;
   lowV = 0;
@@ -234,8 +235,20 @@ export class OscillatorWalk {
     }
     if (best === Infinity) this.latch(cfg);
     if (best > 0) {
-      this.log.push(this.t, best, this.v, this.s, this.rate, cfg.key, this.logic, this.target);
-      this.v = kin.v(best);
+      let vEnd: number;
+      let integralV: number;
+      if (best === ends.durationS && !Number.isNaN(ends.integralV)) {
+        // The piece runs to the time event whose far end the probe already evaluated.
+        vEnd = ends.vT;
+        integralV = ends.integralV;
+      } else {
+        const out = this.endScratch;
+        kin.endAndIntegral(best, out);
+        vEnd = out[0];
+        integralV = out[1];
+      }
+      this.log.push(this.t, best, this.v, this.s, this.rate, cfg.key, this.logic, this.target, vEnd, integralV);
+      this.v = vEnd;
       this.s = kin.s(best);
       this.t += best;
     }
