@@ -23,9 +23,9 @@ export const MAX_EDGE_FRACTION = 0.5;
 
 export interface EdgeTimes {
   /** From the decision to the output settled high (delay + slew), s. */
-  riseTimeS: number;
+  riseSettleS: number;
   /** From the decision to the output settled low, s. */
-  fallTimeS: number;
+  fallSettleS: number;
 }
 
 export function checkEdgeFraction(fraction: number, pointer = '/edgeFractionLimit'): void {
@@ -47,10 +47,10 @@ export function nominalEdgeTimes(prepared: PreparedCircuit): EdgeTimes {
   const slew = amplifier.slewRateVPerS;
   if (prepared.topology.needsOpenDrain) {
     const releasedV = evalAffine(high.outputPin, high.switchingV);
-    return { riseTimeS: delayS, fallTimeS: delayS + slewTimeS(releasedV - low.sourceV, slew) };
+    return { riseSettleS: delayS, fallSettleS: delayS + slewTimeS(releasedV - low.sourceV, slew) };
   }
   const edgeS = delayS + slewTimeS(high.sourceV - low.sourceV, slew);
-  return { riseTimeS: edgeS, fallTimeS: edgeS };
+  return { riseSettleS: edgeS, fallSettleS: edgeS };
 }
 
 function slewTimeS(swingV: number, slewVPerS: number): number {
@@ -59,13 +59,13 @@ function slewTimeS(swingV: number, slewVPerS: number): number {
 
 /** Highest frequency with both edges within `fraction` of the period, Hz (Infinity: instant edges). */
 export function frequencyCeilingHz(edges: EdgeTimes, fraction = DEFAULT_EDGE_FRACTION): number {
-  const edgeS = Math.max(edges.riseTimeS, edges.fallTimeS);
+  const edgeS = Math.max(edges.riseSettleS, edges.fallSettleS);
   return edgeS > 0 ? fraction / edgeS : Infinity;
 }
 
 /** A warning when the edges already take more than `fraction` of the period. */
 export function slewLimitedCheck(edges: EdgeTimes, periodS: number, fraction: number, ceilingHz: number): Check | undefined {
-  const edgeS = Math.max(edges.riseTimeS, edges.fallTimeS);
+  const edgeS = Math.max(edges.riseSettleS, edges.fallSettleS);
   const share = edgeS / periodS;
   if (!(share > fraction)) return undefined;
   return {
@@ -73,8 +73,8 @@ export function slewLimitedCheck(edges: EdgeTimes, periodS: number, fraction: nu
     severity: 'warning',
     message: `Each edge takes up to ${formatSeconds(edgeS)} (recovery delay + slew), ${formatPercent(share)} of the period, beyond the ${formatPercent(fraction)} allowed: the amplifier's speed, not the timing network, sets part of the frequency. This pair stays within the limit up to ${formatSi(ceilingHz, 'Hz')}`,
     edgeTimeS: edgeS,
-    riseTimeS: edges.riseTimeS,
-    fallTimeS: edges.fallTimeS,
+    riseSettleS: edges.riseSettleS,
+    fallSettleS: edges.fallSettleS,
     periodS,
     fractionOfPeriod: share,
     edgeFractionLimit: fraction,

@@ -52,7 +52,7 @@ export interface OscillationFigures {
   /** Shift of the thresholds caused by input bias current through the decision-node resistance, V. */
   biasThresholdShiftV: number;
   /** Edge durations, decision to output settled (delay + slew), s: measured by the time-domain engine, estimated otherwise. */
-  edges?: { riseTimeS: number; fallTimeS: number };
+  edges?: { riseSettleS: number; fallSettleS: number };
   /** Time-domain engine only, when the output ran into its current limit during the cycle. */
   currentLimit?: {
     /** Share of the period spent current-limited (0..1). */

@@ -67,8 +67,10 @@ export const Analysis = Type.Object(
     edges: Type.Optional(
       Type.Object(
         {
-          riseTimeS: Type.Number({ description: 'Decision to output settled high (recovery delay + slew), s' }),
-          fallTimeS: Type.Number({ description: 'Decision to output settled low, s' }),
+          riseSettleS: Type.Number({
+            description: 'From the comparator decision to the output settled high (recovery delay + full-swing slew), s; not the 10–90 % rise time',
+          }),
+          fallSettleS: Type.Number({ description: 'From the comparator decision to the output settled low, s' }),
         },
         { additionalProperties: false, description: 'Edge durations: measured by the time-domain engine, estimated from delay + swing/slew rate otherwise' },
       ),

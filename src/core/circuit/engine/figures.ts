@@ -226,8 +226,8 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
   let fall = cycle.fallS;
   if (Number.isNaN(rise) || Number.isNaN(fall)) {
     const fallback = fallbackEdges ?? nominalEdgeTimes(prepared);
-    if (Number.isNaN(rise)) rise = fallback.riseTimeS;
-    if (Number.isNaN(fall)) fall = fallback.fallTimeS;
+    if (Number.isNaN(rise)) rise = fallback.riseSettleS;
+    if (Number.isNaN(fall)) fall = fallback.fallSettleS;
   }
 
   const figures: TimeDomainFigures = {
@@ -260,7 +260,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
       differentialMaxV: Math.max(Math.abs(diffMin), Math.abs(diffMax)),
     },
     biasThresholdShiftV: Math.abs(circuit.amplifier.inputBiasCurrentA) * Math.max(prepared.high.decisionResistanceOhm, prepared.low.decisionResistanceOhm),
-    edges: { riseTimeS: rise, fallTimeS: fall },
+    edges: { riseSettleS: rise, fallSettleS: fall },
   };
   // Added last, as the spread form did (same key order), without building a throwaway object.
   if (limitedS > 0) figures.currentLimit = { limitedFraction: limitedS / periodS, demandPeakA };
