@@ -21,7 +21,7 @@ import { closedFormFigures, getTopology, prepareCircuit } from './analyze.ts';
 import { validateCircuit } from './validate.ts';
 import { dwellTimeS } from './exponential.ts';
 import { NODE } from './nodes.ts';
-import type { Branch } from './network.ts';
+import { gaussJordan, type Branch } from './network.ts';
 import type { TopologyDefinition } from './topologies/topology.ts';
 import type { Circuit, OutputState, PieceConfig } from './types.ts';
 
@@ -501,34 +501,8 @@ class CompiledEvaluator implements ClosedFormEvaluator {
         default: a[cell] += g * values[s.opSlot[o]];
       }
     }
-    // Gauss–Jordan with partial pivoting, as network.ts.
-    for (let col = 0; col < m; col++) {
-      let pivot = col;
-      let best = Math.abs(a[col * width + col]);
-      for (let r = col + 1; r < m; r++) {
-        const v = Math.abs(a[r * width + col]);
-        if (v > best) {
-          best = v;
-          pivot = r;
-        }
-      }
-      if (!(best > 0)) return EVALUATION_STATUS.noPath;
-      if (pivot !== col) {
-        for (let c = 0; c < width; c++) {
-          const t = a[col * width + c];
-          a[col * width + c] = a[pivot * width + c];
-          a[pivot * width + c] = t;
-        }
-      }
-      const inv = 1 / a[col * width + col];
-      for (let c = col; c < width; c++) a[col * width + c] *= inv;
-      for (let r = 0; r < m; r++) {
-        if (r === col) continue;
-        const f = a[r * width + col];
-        if (f === 0) continue;
-        for (let c = col; c < width; c++) a[r * width + c] -= f * a[col * width + c];
-      }
-    }
+    // Gauss–Jordan with partial pivoting: the same routine as network.ts, so results agree bit for bit.
+    if (!gaussJordan(a, m, width)) return EVALUATION_STATUS.noPath;
     for (let r = 0; r < m; r++) {
       const k = rowNode[r] * STRIDE;
       coeff[k] = a[r * width + m];

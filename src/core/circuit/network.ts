@@ -161,8 +161,20 @@ function stampEnd(
   }
 }
 
-/** Gauss–Jordan elimination with partial pivoting on an m×m system with 4 right-hand sides. */
+/** Gauss–Jordan on the m×m system with 4 right-hand sides; a missing pivot is a floating node. */
 function eliminate(a: Float64Array, m: number, width: number, spec: NetworkSpec): void {
+  if (!gaussJordan(a, m, width)) {
+    throw new CoreError('no-oscillation', `The network has a floating node (no DC path) in a ${spec.nodeCount}-node state`);
+  }
+}
+
+/**
+ * Gauss–Jordan elimination with partial pivoting, in place, on an m×m system
+ * stored row-major with `width − m` right-hand sides after the matrix. False
+ * when a column has no pivot (a node without a DC path). Shared with the
+ * compiled evaluator so both give bit-identical answers.
+ */
+export function gaussJordan(a: Float64Array, m: number, width: number): boolean {
   for (let col = 0; col < m; col++) {
     let pivot = col;
     let best = Math.abs(a[col * width + col]);
@@ -173,9 +185,7 @@ function eliminate(a: Float64Array, m: number, width: number, spec: NetworkSpec)
         pivot = r;
       }
     }
-    if (!(best > 0)) {
-      throw new CoreError('no-oscillation', `The network has a floating node (no DC path) in a ${spec.nodeCount}-node state`);
-    }
+    if (!(best > 0)) return false;
     if (pivot !== col) {
       for (let c = 0; c < width; c++) {
         const t = a[col * width + c];
@@ -192,6 +202,7 @@ function eliminate(a: Float64Array, m: number, width: number, spec: NetworkSpec)
       for (let c = col; c < width; c++) a[r * width + c] -= f * a[col * width + c];
     }
   }
+  return true;
 }
 
 /** Voltage of a node for given v and source voltage. */
