@@ -16,10 +16,11 @@
  * engine whenever one is registered and the amplifier has dynamics).
  */
 import type { AmplifierModel } from '../amplifiers/model.ts';
-import { analyzeCircuit, closedFormFigures } from '../circuit/analyze.ts';
+import { closedFormFigures } from '../circuit/analyze.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
 import type { Circuit, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
+import { analyseInRankOrder } from './full-analysis.ts';
 import type { HysteresisCandidates, HysteresisTable } from './hysteresis.ts';
 import { ascendingOrder } from './sorted-order.ts';
 import { bestCombination, type RoleValue } from './snap-value.ts';
@@ -418,31 +419,24 @@ export function jointSearch(input: JointSearchInput): JointSearchResult {
         ranked = rankedFor(passHz);
       }
     }
-    let taken = 0;
-    for (const { e } of ranked) {
-      if (taken >= input.count) break;
-      if (analysedKeys.has(e.key)) continue;
-      analysedKeys.add(e.key);
-      taken++;
-      stats.fullAnalyses++;
-      let analysis: AnalysisResult;
-      try {
-        analysis = analyzeCircuit(e.circuit);
-      } catch (err) {
-        if (err instanceof CoreError && err.code === 'no-oscillation') continue;
-        throw err;
-      }
-      if (!dutyOk(analysis.dutyCycle)) continue;
-      analysed.push({
-        topology: input.topology,
-        parts: e.parts,
-        circuit: e.circuit,
-        analysis,
-        frequencyError: analysis.frequencyHz / f - 1,
-        dutyCycleError: duty === undefined ? null : analysis.dutyCycle - duty,
-        preference: e.preference,
-      });
-    }
+    analyseInRankOrder(
+      ranked.map((r) => r.e),
+      input.count,
+      analysedKeys,
+      stats,
+      (e, analysis) => {
+        if (!dutyOk(analysis.dutyCycle)) return;
+        analysed.push({
+          topology: input.topology,
+          parts: e.parts,
+          circuit: e.circuit,
+          analysis,
+          frequencyError: analysis.frequencyHz / f - 1,
+          dutyCycleError: duty === undefined ? null : analysis.dutyCycle - duty,
+          preference: e.preference,
+        });
+      },
+    );
     return ranked;
   };
 

@@ -16,10 +16,11 @@
  * evaluated by the closed form and the best of those by analyzeCircuit.
  */
 import type { AmplifierModel } from '../amplifiers/model.ts';
-import { analyzeCircuit, closedFormFigures } from '../circuit/analyze.ts';
+import { closedFormFigures } from '../circuit/analyze.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
 import type { Circuit, DiodeModel, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
+import { analyseInRankOrder } from './full-analysis.ts';
 import type { HysteresisCandidates } from './hysteresis.ts';
 import type { RoleValue } from './snap-value.ts';
 import { steeredDwellFactors, type SteeredFactors } from './steered-timing.ts';
@@ -250,33 +251,26 @@ export function steeredSearch(input: SteeredSearchInput): SteeredSearchResult {
         return { e, s: score(periodS / p - 1, e.timeHighS / p - passDuty) };
       })
       .sort((a, b) => a.s - b.s || a.e.preference - b.e.preference);
-    let taken = 0;
-    for (const { e } of ranked) {
-      if (taken >= input.count) break;
-      if (analysedKeys.has(e.key)) continue;
-      analysedKeys.add(e.key);
-      taken++;
-      stats.fullAnalyses++;
-      let analysis: AnalysisResult;
-      try {
-        analysis = analyzeCircuit(e.circuit);
-      } catch (err) {
-        if (err instanceof CoreError && err.code === 'no-oscillation') continue;
-        throw err;
-      }
-      const dutyCycleError = analysis.dutyCycle - duty;
-      if (Math.abs(dutyCycleError) > input.dutyTolerance) continue;
-      analysed.push({
-        topology: STEERED_TOPOLOGY_ID,
-        parts: e.parts,
-        circuit: e.circuit,
-        analysis,
-        frequencyError: analysis.frequencyHz / f - 1,
-        dutyCycleError,
-        preference: e.preference,
-        closedForm: e,
-      });
-    }
+    analyseInRankOrder(
+      ranked.map((r) => r.e),
+      input.count,
+      analysedKeys,
+      stats,
+      (e, analysis) => {
+        const dutyCycleError = analysis.dutyCycle - duty;
+        if (Math.abs(dutyCycleError) > input.dutyTolerance) return;
+        analysed.push({
+          topology: STEERED_TOPOLOGY_ID,
+          parts: e.parts,
+          circuit: e.circuit,
+          analysis,
+          frequencyError: analysis.frequencyHz / f - 1,
+          dutyCycleError,
+          preference: e.preference,
+          closedForm: e,
+        });
+      },
+    );
   };
 
   const target: PassTargets = { timeHighS: duty / f, timeLowS: (1 - duty) / f };
