@@ -162,3 +162,39 @@ describe('POST /v1/design beyond threshold placement (diode steering)', () => {
     expect(res.json().errors[0].pointer).toBe('/targetDutyCycle');
   });
 });
+
+describe('POST /v1/design runs off the event loop', () => {
+  it('answers /healthz while a long design search is in flight (the search runs in a worker thread)', async () => {
+    const busyApp = await testApp({ config: { workerThreads: 1 } });
+    try {
+      const order: string[] = [];
+      const design = busyApp
+        .inject({
+          method: 'POST',
+          url: '/v1/design',
+          payload: {
+            targetFrequencyHz: 3300,
+            targetDutyCycle: 0.97,
+            frequencyTolerance: 0.01,
+            supply: { positiveV: 5 },
+            amplifier: 'cmos-rrio-fast',
+            values: { resistor: { series: 'E192' } },
+            count: 5,
+          },
+        })
+        .then((r) => {
+          order.push('design');
+          return r;
+        });
+      await new Promise((r) => setTimeout(r, 20)); // let the search reach the worker
+      const health = await busyApp.inject({ method: 'GET', url: '/healthz' });
+      order.push('healthz');
+      const res = await design;
+      expect(health.statusCode).toBe(200);
+      expect(res.statusCode, res.body.slice(0, 300)).toBe(200);
+      expect(order).toEqual(['healthz', 'design']);
+    } finally {
+      await busyApp.close();
+    }
+  });
+});

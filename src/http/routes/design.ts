@@ -1,9 +1,10 @@
 /** POST /v1/design: a frequency (and duty) target -> ranked designs built from a series or catalogue. */
 import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
-import { designOscillator, type Design } from '../../core/design/index.ts';
+import type { Design } from '../../core/design/index.ts';
 import { DEFAULT_DIODE, resolveAmplifierSpec } from '../convert.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
 import { DesignRequest, DesignResponse, type DesignRequestBody } from '../schemas/design.ts';
+import { runForRequest } from '../workers/run-for-request.ts';
 import { fittedPartsJson, predictionJson, roleSourcesFromBody } from './snap.ts';
 
 /** Series most boards stock (common practice): E24 resistors, E12 capacitors. */
@@ -44,22 +45,24 @@ export const designRoutes: FastifyPluginAsyncTypebox = async (app) => {
         response: { 200: ref(DesignResponse), ...problemResponses(400, 401, 403, 413, 415, 422) },
       },
     },
-    async (request) => {
+    async (request, reply) => {
       const body = request.body;
       const amplifier = resolveAmplifierSpec(body.amplifier as string | Record<string, unknown>, app.services.amplifiers, '/amplifier');
-      const result = designOscillator({
+      // Off the event loop: a search with full analyses of its best candidates can take a few hundred ms.
+      const result = await runForRequest(app.services.workers, reply, 'design', {
         targetFrequencyHz: body.targetFrequencyHz,
         targetDutyCycle: body.targetDutyCycle,
         dutyTolerance: body.dutyTolerance,
         frequencyTolerance: body.frequencyTolerance ?? DEFAULT_FREQUENCY_TOLERANCE,
         supply: { positiveV: body.supply.positiveV, negativeV: body.supply.negativeV ?? 0 },
         amplifier,
-        values: roleSourcesFromBody((body.values ?? DEFAULT_VALUES) as never, app.services),
+        // A kind the caller leaves out keeps its default series (values.resistor alone still gets E12 capacitors).
+        values: roleSourcesFromBody({ ...DEFAULT_VALUES, ...body.values } as never, app.services),
         constraints: body.constraints,
         topologies: body.topologies,
         diode: body.diode ? { forwardDropV: body.diode.forwardDropV ?? DEFAULT_DIODE.forwardDropV, resistanceOhm: body.diode.resistanceOhm ?? DEFAULT_DIODE.resistanceOhm } : undefined,
         count: body.count,
-      });
+      }, 'design');
       return { designs: result.designs.map((d, i) => designJson(d, i + 1, body)), notes: result.notes } as never;
     },
   );

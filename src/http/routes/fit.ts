@@ -18,6 +18,7 @@ import type { Static } from 'typebox';
 import type { CaptureSpec, FitInput, FitReport } from '../../core/fit/index.ts';
 import { circuitFromBody, withPointerPrefix } from '../convert.ts';
 import { HttpProblem, validationToPointer } from '../problem.ts';
+import { runForRequest } from '../workers/run-for-request.ts';
 import { FitCsvQuery, FitRequest, FitResult, type FitCsvQueryString, type FitRequestBody } from '../schemas/fit.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
 import type { CircuitBody } from '../schemas/circuit.ts';
@@ -160,17 +161,7 @@ export const fitRoutes: FastifyPluginAsyncTypebox = async (app) => {
       if (body.capture) input.capture = captureSpec(body.capture);
       if (body.diagnosis) input.diagnosis = body.diagnosis;
       // Off the event loop: a capture of millions of samples takes a good part of a second.
-      const abort = new AbortController();
-      reply.raw.once('close', () => {
-        if (!reply.raw.writableFinished) abort.abort();
-      });
-      let report: FitReport;
-      try {
-        report = await app.services.workers.run('fit', input, { signal: abort.signal });
-      } catch (err) {
-        if (abort.signal.aborted) throw new HttpProblem(400, 'client-closed', 'The client closed the connection; the fit was cancelled');
-        throw err;
-      }
+      const report: FitReport = await runForRequest(app.services.workers, reply, 'fit', input, 'fit');
       return shapeFitReport(report);
     },
   );

@@ -11,6 +11,7 @@ import { renderHistogramSvg } from '../../core/plot/index.ts';
 import { monteCarloOptions, type ToleranceRequest, type ToleranceResult } from '../../core/tolerance/index.ts';
 import { circuitFromBody, withPointerPrefix } from '../convert.ts';
 import { HttpProblem } from '../problem.ts';
+import { runForRequest } from '../workers/run-for-request.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
 import { ToleranceRequest as ToleranceRequestSchema, ToleranceResult as ToleranceResultSchema, type ToleranceRequestBody } from '../schemas/tolerance.ts';
 
@@ -72,17 +73,7 @@ export const toleranceRoutes: FastifyPluginAsyncTypebox = async (app) => {
       const coreRequest = toCoreRequest(body, circuit, kind === 'svg');
       // Refuse an oversized run before it takes a thread.
       monteCarloOptions(coreRequest, chooseModel(circuit, coreRequest.model));
-      const abort = new AbortController();
-      reply.raw.once('close', () => {
-        if (!reply.raw.writableFinished) abort.abort();
-      });
-      let result: ToleranceResult;
-      try {
-        result = await app.services.workers.run('tolerance', coreRequest, { signal: abort.signal });
-      } catch (err) {
-        if (abort.signal.aborted) throw new HttpProblem(400, 'client-closed', 'The client closed the connection; the run was cancelled');
-        throw err;
-      }
+      const result: ToleranceResult = await runForRequest(app.services.workers, reply, 'tolerance', coreRequest, 'run');
       if (kind === 'svg') return reply.type(SVG).send(histogramSvg(result, coreRequest));
       const { histogram: _omit, ...json } = result;
       void _omit;

@@ -5,12 +5,15 @@
  * function here and list it; `WorkerPool.run(name, input)` is then typed by it.
  * Only src/core imports belong here: this module is loaded inside worker threads.
  */
+import { designOscillator, type DesignRequest } from '../../core/design/index.ts';
 import { fitCircuit, type FitInput } from '../../core/fit/index.ts';
 import { runToleranceAnalysis, type ToleranceRequest } from '../../core/tolerance/index.ts';
 
 export const TASKS = {
   /** POST /v1/tolerance: worst case, Monte Carlo, sensitivities. */
   tolerance: (input: ToleranceRequest) => runToleranceAnalysis(input),
+  /** POST /v1/design: searches over series or catalogues with full analyses (tens to hundreds of ms). */
+  design: (input: DesignRequest) => designOscillator(input),
   /** POST /v1/fit: capture analysis (up to millions of samples), MAP fit, diagnosis. */
   fit: (input: FitInput) => fitCircuit(input),
   /** Round trip through a worker (health and tests): echoes its input and names the thread. */

@@ -27,7 +27,6 @@ export class PieceEvaluator {
   /** ∫ v dt and ∫ s dt over the whole loaded piece (computed once per load). */
   private fullIntegralV = 0;
   private fullIntegralS = 0;
-  private readonly scratch = new Float64Array(2);
 
   constructor(
     private readonly log: PieceLog,
