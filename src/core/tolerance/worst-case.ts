@@ -114,36 +114,30 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
       const flip = (p: Float64Array, k: number) => {
         p[k] = p[k] === dims[k].high ? dims[k].low : dims[k].high;
       };
+      /** Evaluate the point with coordinates k (and l) flipped; move there when it improves the objective. */
+      const tryFlips = (k: number, l?: number): boolean => {
+        const candidate = Float64Array.from(point);
+        flip(candidate, k);
+        if (l !== undefined) flip(candidate, l);
+        const r = evaluate(candidate);
+        if (!r) return false;
+        offer(candidate, r);
+        if (!better(r)) return false;
+        point = candidate;
+        current = r;
+        return true;
+      };
       // Ascend by single flips; when stuck, try every pair once (interactions such as asymmetric rails and
       // offsets can hide an extreme behind two coordinates); stop when neither helps.
       for (let pass = 0; pass < MAX_ASCENT_PASSES && current; pass++) {
         let improved = false;
         for (let k = 0; k < n; k++) {
-          const candidate = Float64Array.from(point);
-          flip(candidate, k);
-          const r = evaluate(candidate);
-          if (!r) continue;
-          offer(candidate, r);
-          if (better(r)) {
-            point = candidate;
-            current = r;
-            improved = true;
-          }
+          if (tryFlips(k)) improved = true;
         }
         if (improved) continue;
         for (let k = 0; k < n; k++) {
           for (let l = k + 1; l < n; l++) {
-            const candidate = Float64Array.from(point);
-            flip(candidate, k);
-            flip(candidate, l);
-            const r = evaluate(candidate);
-            if (!r) continue;
-            offer(candidate, r);
-            if (better(r)) {
-              point = candidate;
-              current = r;
-              improved = true;
-            }
+            if (tryFlips(k, l)) improved = true;
           }
         }
         if (!improved) break;

@@ -120,3 +120,18 @@ export function astable(a: Astable, sampleIntervalS: number, count: number): { o
   }
   return { output, capacitor, edgesS };
 }
+
+/**
+ * What a bench scope does to a clean two-channel record (our own demo settings): Gaussian noise (20 mV on
+ * the output, 5 mV on the capacitor), channel offsets (+30 mV, −10 mV) and 8-bit ADCs over ±3 V / ±1.5 V.
+ * Shared by the fit tests whatever made the clean record (closed-form synthesis or the engine).
+ */
+export function benchScopeRecord(clean: { output: Float64Array; capacitor: Float64Array }, sampleIntervalS: number, seed: number) {
+  addNoise(clean.output, 0.02, seed);
+  addNoise(clean.capacitor, 0.005, seed + 1);
+  for (let i = 0; i < clean.output.length; i++) clean.output[i] += 0.03;
+  for (let i = 0; i < clean.capacitor.length; i++) clean.capacitor[i] -= 0.01;
+  quantise(clean.output, 8, -3, 3);
+  quantise(clean.capacitor, 8, -1.5, 1.5);
+  return { sampleIntervalS, output: clean.output, capacitor: clean.capacitor };
+}

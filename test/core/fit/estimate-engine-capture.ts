@@ -11,7 +11,7 @@
 import { analyzeCircuit, prepareCircuit } from '../../../src/core/circuit/analyze.ts';
 import { waveformOfPrepared } from '../../../src/core/circuit/engine/index.ts';
 import type { Circuit } from '../../../src/core/circuit/types.ts';
-import { addNoise, quantise } from './capture-synth.ts';
+import { benchScopeRecord } from './capture-synth.ts';
 
 export interface EngineCaptureOptions {
   sampleIntervalS: number;
@@ -35,13 +35,5 @@ export function engineBenchRecord(truth: Circuit, seed: number) {
   const dt = 50e-9;
   const n = 40_000;
   const cap = engineCapture(truth, { sampleIntervalS: dt, sampleCount: n, phaseS: 37e-6 });
-  addNoise(cap.output, 0.02, seed);
-  addNoise(cap.capacitor, 0.005, seed + 1);
-  for (let i = 0; i < n; i++) {
-    cap.output[i] += 0.03; // probe/channel offsets
-    cap.capacitor[i] -= 0.01;
-  }
-  quantise(cap.output, 8, -3, 3);
-  quantise(cap.capacitor, 8, -1.5, 1.5);
-  return { sampleIntervalS: dt, output: cap.output, capacitor: cap.capacitor };
+  return benchScopeRecord(cap, dt, seed);
 }

@@ -6,7 +6,7 @@ import { createFitSetup } from '../../../src/core/fit/estimate/setup.ts';
 import { estimateParameters } from '../../../src/core/fit/estimate/estimate.ts';
 import { scalarMeasurements } from '../../../src/core/fit/estimate/measurements.ts';
 import { fitCircuit } from '../../../src/core/fit/index.ts';
-import { addNoise, quantise } from './capture-synth.ts';
+import { benchScopeRecord } from './capture-synth.ts';
 import { synthesizeCapture } from './estimate-capture-synth.ts';
 import { bridgeClock, bridgeClockTolerances, withAmplifier, withParts } from './estimate-scenario.ts';
 
@@ -101,15 +101,7 @@ function benchRecord(truth: typeof bridgeClock, seed: number) {
   const dt = 50e-9;
   const n = 40_000; // 2 ms, about 19 periods
   const cap = synthesizeCapture(truth, { sampleIntervalS: dt, sampleCount: n, phaseS: 37e-6 });
-  addNoise(cap.output, 0.02, seed);
-  addNoise(cap.capacitor, 0.005, seed + 1);
-  for (let i = 0; i < n; i++) {
-    cap.output[i] += 0.03; // probe/channel offsets
-    cap.capacitor[i] -= 0.01;
-  }
-  quantise(cap.output, 8, -3, 3);
-  quantise(cap.capacitor, 8, -1.5, 1.5);
-  return { sampleIntervalS: dt, output: cap.output, capacitor: cap.capacitor };
+  return benchScopeRecord(cap, dt, seed);
 }
 
 function estimateOf(report: ReturnType<typeof fitCircuit>, name: string) {
