@@ -39,7 +39,7 @@ function ratePerSecond(seconds: number, batch: number, step: () => number): { ra
   let check = 0;
   const c0 = process.cpuUsage();
   const t0 = performance.now();
-  let t = t0;
+  let t: number;
   while ((t = performance.now()) - t0 < seconds * 1000) {
     for (let i = 0; i < batch; i++) check += step();
     n += batch;

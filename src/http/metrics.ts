@@ -22,7 +22,7 @@ export class Metrics {
     const hkey = `method="${method}",route="${escapeLabel(route)}"`;
     let h = this.durations.get(hkey);
     if (!h) {
-      h = { counts: new Array(BUCKETS_S.length).fill(0), sumS: 0, count: 0 };
+      h = { counts: new Array<number>(BUCKETS_S.length).fill(0), sumS: 0, count: 0 };
       this.durations.set(hkey, h);
     }
     for (let i = 0; i < BUCKETS_S.length; i++) if (durationS <= BUCKETS_S[i]) h.counts[i]++;

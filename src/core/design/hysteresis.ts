@@ -196,7 +196,7 @@ export function hysteresisNear(options: NearOptions): HysteresisCandidates {
   const out: HysteresisOption[] = [];
   let considered = 0;
   const values: Record<string, number> = {};
-  const chosen: number[] = new Array(perRole.length).fill(0);
+  const chosen = new Array<number>(perRole.length).fill(0);
   const visit = (depth: number): void => {
     if (depth === perRole.length) {
       considered++;

@@ -252,7 +252,12 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
       const gs = guards(y[0], y[1]);
       let worst = -1e-9 * span;
       let pick: (() => void) | undefined;
-      for (const q of gs) if (q.g < worst) ((worst = q.g), (pick = q.act));
+      for (const q of gs) {
+        if (q.g < worst) {
+          worst = q.g;
+          pick = q.act;
+        }
+      }
       if (!pick) return;
       pick();
     }
@@ -294,11 +299,17 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     // next time event
     let tEnd = t + 50 * rMin * C;
     let timeEvent: 'horizon' | 'target' | 'slew' = 'horizon';
-    if (d.pending.length && d.pending[0] < tEnd) ((tEnd = d.pending[0]), (timeEvent = 'target'));
+    if (d.pending.length && d.pending[0] < tEnd) {
+      tEnd = d.pending[0];
+      timeEvent = 'target';
+    }
     if (d.rate !== 0) {
       const level = d.target ? vHigh : vLow;
       const ts = t + (level - y[1]) / d.rate;
-      if (ts < tEnd) ((tEnd = ts), (timeEvent = 'slew'));
+      if (ts < tEnd) {
+        tEnd = ts;
+        timeEvent = 'slew';
+      }
     }
     let hit: { tt: number; yy: number[]; k: number } | undefined;
     let prevG = guards(y[0], y[1]).map((q) => q.g);
@@ -321,7 +332,10 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
               if (gm >= 0) a = mid;
               else b = mid;
             }
-            if (b < firstT) ((firstT = b), (first = k));
+            if (b < firstT) {
+              firstT = b;
+              first = k;
+            }
           }
         }
         if (observer) {
@@ -378,8 +392,13 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
         for (let k = 0; k + 1 < marks.length; k++) {
           const dI = marks[k + 1].I - marks[k].I;
           const dT = marks[k + 1].t - marks[k].t;
-          if (marks[k].target) ((hiI += dI), (hiT += dT));
-          else ((loI += dI), (loT += dT));
+          if (marks[k].target) {
+            hiI += dI;
+            hiT += dT;
+          } else {
+            loI += dI;
+            loT += dT;
+          }
         }
         converged = n;
         observer = { mid: 0.5 * (hiI / hiT + loI / loT), rise: NaN, fall: NaN, prev: NaN };
@@ -395,5 +414,5 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
       return { periodS, dutyCycle: high, upperV, lowerV: risingV[m - 1], highV: o.hi, lowV: o.lo, cycles: m, rhsEvaluations: evals };
     }
   }
-  throw new Error(`reference: no steady state; rising ${JSON.stringify(risingTimes.slice(-4))} v ${JSON.stringify(risingV.slice(-3))} t=${t} logic=${d.logic} target=${d.target} stage=${d.stage} pending=${d.pending} rate=${d.rate}`);
+  throw new Error(`reference: no steady state; rising ${JSON.stringify(risingTimes.slice(-4))} v ${JSON.stringify(risingV.slice(-3))} t=${t} logic=${d.logic} target=${d.target} stage=${d.stage} pending=${d.pending.join(',')} rate=${d.rate}`);
 }

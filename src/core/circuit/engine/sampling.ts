@@ -63,13 +63,12 @@ export function sampleWaveform(walk: OscillatorWalk, cycle: SteadyCycle, options
   for (let k = 0; k < n; k++) {
     const rel = (spanS * k) / (n - 1);
     let t = windowStartS + rel;
-    let lo = 0;
     let hi = log.count;
     if (!options.includePowerUp || t >= transientEndS) {
       // Fold into the repeating cycle.
       const phase = (t - cycle.startS) % cycle.periodS;
       t = cycle.startS + phase;
-      lo = cycle.startIndex;
+      const lo = cycle.startIndex;
       hi = cycle.endIndex;
       if (index < lo || index >= hi || log.get(index, LOG.startS) > t) index = lo;
     }
