@@ -77,8 +77,9 @@ export class PointsShape implements BiasShape {
   /** Capacitance at 0 V of the caller's curve, F. */
   readonly zeroBiasF: number;
   constructor(points: readonly CapacitancePoint[], pointer?: string) {
-    if (!Array.isArray(points) || points.length === 0) invalid('a C(V) curve needs at least one point', pointer);
-    const sorted = points
+    const list: readonly CapacitancePoint[] = points;
+    if (!Array.isArray(list as unknown) || list.length === 0) invalid('a C(V) curve needs at least one point', pointer);
+    const sorted = list
       .map((p, i) => {
         if (!Number.isFinite(p.voltageV) || p.voltageV < 0) invalid('voltageV must be finite and ≥ 0', `${pointer ?? ''}/${i}/voltageV`);
         if (!Number.isFinite(p.capacitanceF) || p.capacitanceF <= 0) invalid('capacitanceF must be finite and > 0', `${pointer ?? ''}/${i}/capacitanceF`);
