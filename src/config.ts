@@ -17,8 +17,24 @@ export interface ServiceConfig {
   trustProxy: string[] | false;
   /** Worker threads for heavy work (Monte Carlo, batches, long captures). */
   workerThreads: number;
-  /** Event-loop delay above which requests are shed with 503. */
+  /** Event-loop delay above which requests are shed with 503 (never /healthz; 0 = off). */
   maxEventLoopDelayMs: number;
+  /** Failed API-key attempts allowed per client per window before 429 (0 = no limit). */
+  authFailureLimit: number;
+  /** Window over which failed API-key attempts are counted, ms. */
+  authFailureWindowMs: number;
+  /** Longest a worker-pool task may run (queue wait excluded) before it is stopped and answered 503, ms. */
+  taskDeadlineMs: number;
+  /** Open client connections the server accepts at once; beyond it new connections are closed at once. */
+  maxConnections: number;
+  /** On SIGTERM/SIGINT: how long in-flight requests may take before running tasks are cancelled, ms. */
+  shutdownGraceMs: number;
+  /** Bodies at least this large (by Content-Length) count as large uploads, bytes. */
+  largeBodyBytes: number;
+  /** Large uploads read and processed at once; more get 503 + Retry-After. */
+  largeBodyConcurrency: number;
+  /** Deepest nesting of arrays/objects a JSON body may have (checked before parsing). */
+  maxJsonDepth: number;
 }
 
 export const DEFAULT_CONFIG: ServiceConfig = {
@@ -32,6 +48,14 @@ export const DEFAULT_CONFIG: ServiceConfig = {
   trustProxy: false,
   workerThreads: 2,
   maxEventLoopDelayMs: 1000,
+  authFailureLimit: 20,
+  authFailureWindowMs: 60_000,
+  taskDeadlineMs: 30_000,
+  maxConnections: 1000,
+  shutdownGraceMs: 10_000,
+  largeBodyBytes: 8 * 1024 * 1024,
+  largeBodyConcurrency: 2,
+  maxJsonDepth: 64,
 };
 
 function int(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
@@ -55,5 +79,13 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env): ServiceConf
     trustProxy: trust ? trust.split(',').map((s) => s.trim()).filter(Boolean) : false,
     workerThreads: int(env, 'TICKWRIGHT_WORKER_THREADS', DEFAULT_CONFIG.workerThreads, 1, 64),
     maxEventLoopDelayMs: int(env, 'TICKWRIGHT_MAX_EVENT_LOOP_DELAY_MS', DEFAULT_CONFIG.maxEventLoopDelayMs, 10, 60_000),
+    authFailureLimit: int(env, 'TICKWRIGHT_AUTH_FAILURE_LIMIT', DEFAULT_CONFIG.authFailureLimit, 0, 1_000_000),
+    authFailureWindowMs: int(env, 'TICKWRIGHT_AUTH_FAILURE_WINDOW_MS', DEFAULT_CONFIG.authFailureWindowMs, 1000, 86_400_000),
+    taskDeadlineMs: int(env, 'TICKWRIGHT_TASK_DEADLINE_MS', DEFAULT_CONFIG.taskDeadlineMs, 100, 3_600_000),
+    maxConnections: int(env, 'TICKWRIGHT_MAX_CONNECTIONS', DEFAULT_CONFIG.maxConnections, 1, 1_000_000),
+    shutdownGraceMs: int(env, 'TICKWRIGHT_SHUTDOWN_GRACE_MS', DEFAULT_CONFIG.shutdownGraceMs, 0, 600_000),
+    largeBodyBytes: int(env, 'TICKWRIGHT_LARGE_BODY_BYTES', DEFAULT_CONFIG.largeBodyBytes, 1024, 1024 * 1024 * 1024),
+    largeBodyConcurrency: int(env, 'TICKWRIGHT_LARGE_BODY_CONCURRENCY', DEFAULT_CONFIG.largeBodyConcurrency, 1, 1024),
+    maxJsonDepth: int(env, 'TICKWRIGHT_MAX_JSON_DEPTH', DEFAULT_CONFIG.maxJsonDepth, 8, 10_000),
   };
 }

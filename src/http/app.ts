@@ -14,6 +14,7 @@ import { openSqliteStore, type Store } from '../store/index.ts';
 import { AmplifierDirectory } from './amplifier-directory.ts';
 import { parseApiKeyConfig } from './auth/api-keys.ts';
 import { registerAuth } from './auth/plugin.ts';
+import { DOCS_PREFIX, installRouteAccess } from './auth/route-access.ts';
 import { Metrics } from './metrics.ts';
 import { errorHandler, problem, sendProblem } from './problem.ts';
 import { ROUTES } from './routes/index.ts';
@@ -57,6 +58,8 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
   app.addHook('onClose', async () => services.workers.close());
 
   app.setErrorHandler(errorHandler);
+  // Before any plugin adds routes: every route gets its access decided at registration.
+  installRouteAccess(app);
   installMethodAwareNotFound(app);
 
   // Callback-style hooks: they run on every request, and fastify's promise path for hooks costs more.
@@ -100,10 +103,10 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
     },
     refResolver: { buildLocalReference: (json, _baseUri, _fragment, i) => (json.$id as string) ?? `schema-${i}` },
   });
-  await app.register(swaggerUi, { routePrefix: '/docs' });
+  await app.register(swaggerUi, { routePrefix: DOCS_PREFIX });
 
   for (const schema of REGISTERED_SCHEMAS) app.addSchema(schema);
-  registerAuth(app, services.keys);
+  await registerAuth(app, services.keys, { failureLimit: config.authFailureLimit, failureWindowMs: config.authFailureWindowMs });
   if (services.keys.isOpen) app.log.warn('No API keys configured (TICKWRIGHT_API_KEYS): the service is open to every caller');
 
   for (const route of ROUTES) await app.register(route);

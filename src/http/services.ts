@@ -18,8 +18,4 @@ declare module 'fastify' {
   interface FastifyInstance {
     services: Services;
   }
-  interface FastifyContextConfig {
-    /** Scope a route needs when API keys are configured; 'none' for health and docs. */
-    scope?: 'none' | 'read' | 'write';
-  }
 }

@@ -184,3 +184,39 @@ describe('logging', () => {
     expect(keyed.text()).not.toMatch(/open to every caller/);
   });
 });
+
+describe('failed-key limit', () => {
+  // Limiting failed authentication per client is common practice (OWASP Authentication Cheat Sheet,
+  // "Protect against automated attacks"); 429 with Retry-After per RFC 6585 §4.
+  it('answers 429 problem+json with Retry-After once a client exceeds the configured failures, correct key included', async () => {
+    const app = await keyedApp({ config: { apiKeys: KEYS, authFailureLimit: 3, authFailureWindowMs: 60_000 } });
+    const attempt = (who: Who) => app.inject({ method: 'GET', url: '/v1/catalogues', headers: keyHeaders(who) });
+    // A missing key is not a guess: it does not count.
+    expect((await attempt('none')).statusCode).toBe(401);
+    for (let i = 0; i < 3; i++) expect((await attempt('wrong')).statusCode).toBe(401);
+    const limited = await attempt('wrong');
+    expect(limited.statusCode).toBe(429);
+    await expectContract(limited, 'GET', '/v1/catalogues');
+    expect(limited.headers['content-type']).toMatch(/^application\/problem\+json/);
+    expect(limited.json().code).toBe('too-many-auth-failures');
+    const retryAfterS = Number(limited.headers['retry-after']);
+    expect(retryAfterS).toBeGreaterThanOrEqual(1);
+    expect(retryAfterS).toBeLessThanOrEqual(60);
+    // While over the limit even the right key is refused, so guessing cannot tell a hit from a miss.
+    expect((await attempt('read')).statusCode).toBe(429);
+    // Public routes stay reachable.
+    expect((await app.inject({ method: 'GET', url: '/healthz' })).statusCode).toBe(200);
+  });
+
+  it('counts per client: another address is not limited', async () => {
+    const app = await keyedApp({ config: { apiKeys: KEYS, authFailureLimit: 2, authFailureWindowMs: 60_000 } });
+    for (let i = 0; i < 3; i++) await app.inject({ method: 'GET', url: '/v1/catalogues', headers: keyHeaders('wrong'), remoteAddress: '10.0.0.1' });
+    expect((await app.inject({ method: 'GET', url: '/v1/catalogues', headers: keyHeaders('read'), remoteAddress: '10.0.0.1' })).statusCode).toBe(429);
+    expect((await app.inject({ method: 'GET', url: '/v1/catalogues', headers: keyHeaders('read'), remoteAddress: '10.0.0.2' })).statusCode).toBe(200);
+  });
+
+  it('is off with a limit of 0', async () => {
+    const app = await keyedApp({ config: { apiKeys: KEYS, authFailureLimit: 0 } });
+    for (let i = 0; i < 30; i++) expect((await app.inject({ method: 'GET', url: '/v1/catalogues', headers: keyHeaders('wrong') })).statusCode).toBe(401);
+  });
+});

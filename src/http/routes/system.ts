@@ -12,14 +12,14 @@ const Ready = Type.Object(
 export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
   app.get(
     '/healthz',
-    { config: { scope: 'none' }, schema: { tags: ['system'], summary: 'Liveness: the process answers', response: { 200: Health } } },
+    { config: { access: 'public' }, schema: { tags: ['system'], summary: 'Liveness: the process answers', response: { 200: Health } } },
     async () => ({ status: 'ok' }),
   );
 
   app.get(
     '/readyz',
     {
-      config: { scope: 'none' },
+      config: { access: 'public' },
       schema: { tags: ['system'], summary: 'Readiness: the store answers', response: { 200: Ready, 503: Ready } },
     },
     async (_request, reply) => {
@@ -31,7 +31,7 @@ export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
   app.get(
     '/metrics',
     {
-      config: { scope: 'none' },
+      config: { access: 'public' },
       schema: {
         tags: ['system'],
         summary: 'Prometheus metrics (text exposition format)',
@@ -41,6 +41,6 @@ export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
     async (_request, reply) => reply.type('text/plain; version=0.0.4; charset=utf-8').send(app.services.metrics.render()),
   );
 
-  app.get('/openapi.json', { config: { scope: 'none' }, schema: { hide: true } }, async () => app.swagger());
+  app.get('/openapi.json', { config: { access: 'public' }, schema: { hide: true } }, async () => app.swagger());
   void problemResponses;
 };

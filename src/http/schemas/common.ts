@@ -128,8 +128,10 @@ export const SHARED_SCHEMAS: TSchema[] = [ComponentValue, Supply, InlineAmplifie
 /** Error responses for a route, all as application/problem+json. */
 export function problemResponses(...statuses: number[]) {
   const out: Record<number, unknown> = {};
-  // Any route can shed load with 503 (event-loop pressure or shutdown), so every route declares it.
-  for (const status of [...new Set([...statuses, 503])]) {
+  // Any route can shed load with 503 (event-loop pressure or shutdown), so every route declares it;
+  // a route that needs a key can answer 429 to a client with too many failed keys (auth/plugin.ts).
+  const limited = statuses.includes(401) ? [429] : [];
+  for (const status of [...new Set([...statuses, ...limited, 503])]) {
     out[status] = {
       description: PROBLEM_DESCRIPTIONS[status] ?? 'Problem',
       content: { 'application/problem+json': { schema: ref(Problem) } },
@@ -149,5 +151,6 @@ const PROBLEM_DESCRIPTIONS: Record<number, string> = {
   415: 'Unsupported media type',
   422: 'Well-formed but physically impossible or unanswerable request',
   428: 'If-Match is required to change an existing resource',
+  429: 'Too many failed API-key attempts from this client; retry after Retry-After seconds',
   503: 'Overloaded; retry later',
 };
