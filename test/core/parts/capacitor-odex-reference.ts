@@ -29,8 +29,8 @@ export interface ChargeOde {
   conductanceS: number;
 }
 
-function solver(): OdexSolver {
-  const s = new odex.Solver(1);
+function solver(dimension = 1): OdexSolver {
+  const s = new odex.Solver(dimension);
   s.relativeTolerance = 1e-12;
   s.absoluteTolerance = 1e-13;
   s.maxSteps = 1e6;
@@ -69,4 +69,14 @@ export function odexTimeTo(p: ChargeOde, v0: number, v1: number, horizonS: numbe
     prevY = y[0];
   });
   return found;
+}
+
+/** v(tS) of r(v)·v' = k0 + k1·t − a·v (a moving source: the slew piece) by odex. */
+export function odexRampVoltageAt(shape: BiasShape, a: number, k0: number, k1: number, v0: number, tS: number): number {
+  return solver().solve((x, y) => [(k0 + k1 * x - a * y[0]) / shape.ratio(y[0])], 0, [v0], tS).y[0];
+}
+
+/** ∫₀ᵀ v dt of the same ODE by odex (the integral carried as a second state). */
+export function odexRampIntegral(shape: BiasShape, a: number, k0: number, k1: number, v0: number, tS: number): number {
+  return solver(2).solve((x, y) => [(k0 + k1 * x - a * y[0]) / shape.ratio(y[0]), y[0]], 0, [v0, 0], tS).y[1];
 }

@@ -6,3 +6,4 @@ export * from './ageing.ts';
 export * from './insulation.ts';
 export { NonlinearCharge, chargeBetween, effectiveCapacitanceF, CHARGE_RELATIVE_TOLERANCE } from './charging.ts';
 export { integrateAdaptive, lastQuadratureError } from './quadrature.ts';
+export { ChebyshevPiece } from './chebyshev-piece.ts';

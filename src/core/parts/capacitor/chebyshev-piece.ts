@@ -1,0 +1,239 @@
+/**
+ * The capacitor voltage inside a piece whose SOURCE MOVES (the output stage
+ * slewing) and whose capacitance depends on voltage:
+ *
+ *     r(v)·dv/dt = k0 + k1·t − a·v        (r = C(v)/C(0); a, k0, k1 per unit C(0))
+ *
+ * This ODE does not separate (the time appears on the right), so the
+ * quadrature of charging.ts does not apply. It is solved as a whole-interval
+ * spectral collocation (Picard iteration on Chebyshev–Lobatto nodes with
+ * Clenshaw–Curtis integration, the "Picard–Chebyshev" method), started from the
+ * exact exponential-plus-ramp solution with the capacitance frozen at its start,
+ * over as few sub-intervals as keep a·h/r small enough for the iteration to
+ * contract fast. The result is a polynomial per sub-interval, so any time inside
+ * the piece is evaluated (and root-solved) without stepping: the same dense
+ * answer serves the events, the figures and the waveform samples.
+ *
+ * Slew pieces are short against the time constant in any working oscillator,
+ * so one sub-interval is the usual case.
+ */
+import type { BiasShape } from './dc-bias.ts';
+
+/** Polynomial degree per sub-interval. */
+const N = 12;
+/** a·h / r bound per sub-interval: the Picard contraction factor is about this. */
+const CONTRACTION = 0.2;
+const MAX_PICARD = 60;
+const MAX_SEGMENTS = 512;
+/** Converged when the node values change by less than this, relative to the voltage scale. */
+const PICARD_TOLERANCE = 1e-14;
+
+// cos(π·j·k/N) for k = 0..N+1 (row k), j = 0..N: Lobatto nodes x_j = cos(πj/N) run from +1 down to −1.
+const COS = new Float64Array((N + 2) * (N + 1));
+for (let k = 0; k <= N + 1; k++) for (let j = 0; j <= N; j++) COS[k * (N + 1) + j] = Math.cos((Math.PI * j * k) / N);
+const NODE_X = Float64Array.from({ length: N + 1 }, (_, j) => Math.cos((Math.PI * j) / N));
+
+/** Chebyshev coefficients (true coefficients: p = Σ c_k T_k) of the interpolant through node values f_j. */
+function coefficients(f: Float64Array, c: Float64Array): void {
+  for (let k = 0; k <= N; k++) {
+    let s = 0.5 * (f[0] * COS[k * (N + 1)] + f[N] * COS[k * (N + 1) + N]);
+    for (let j = 1; j < N; j++) s += f[j] * COS[k * (N + 1) + j];
+    c[k] = (2 / N) * s;
+  }
+  c[0] *= 0.5;
+  c[N] *= 0.5;
+}
+
+/** Antiderivative coefficients b (degree N+1) of p = Σ c_k T_k with I(−1) = 0. */
+function antiderivative(c: Float64Array, b: Float64Array): void {
+  const at = (k: number) => (k <= N ? c[k] : 0);
+  b[1] = c[0] - 0.5 * at(2);
+  for (let k = 2; k <= N + 1; k++) b[k] = (at(k - 1) - at(k + 1)) / (2 * k);
+  let s = 0;
+  for (let k = 1; k <= N + 1; k++) s += k & 1 ? -b[k] : b[k];
+  b[0] = -s;
+}
+
+/** Σ_{k=0}^{n} c_k T_k(x) by Clenshaw's recurrence. */
+function clenshaw(c: Float64Array, n: number, x: number, offset = 0): number {
+  let b1 = 0;
+  let b2 = 0;
+  for (let k = n; k >= 1; k--) {
+    const t = 2 * x * b1 - b2 + c[offset + k];
+    b2 = b1;
+    b1 = t;
+  }
+  return x * b1 - b2 + c[offset];
+}
+
+export class ChebyshevPiece {
+  private shape!: BiasShape;
+  private a = 0;
+  private k0 = 0;
+  private k1 = 0;
+  private v0 = 0;
+  private scaleV = 1;
+  /** Length of the next sub-interval; start and length of each solved one (lengths adapt). */
+  private h = 0;
+  private segments = 0;
+  private readonly segStart = new Float64Array(MAX_SEGMENTS + 1);
+  private readonly segLen = new Float64Array(MAX_SEGMENTS);
+  /** Chebyshev coefficients of v per segment (N+1 each) and of its antiderivative (N+2 each). */
+  private readonly cv = new Float64Array(MAX_SEGMENTS * (N + 1));
+  private readonly ci = new Float64Array(MAX_SEGMENTS * (N + 2));
+  /** ∫ v dt from 0 to the start of each segment. */
+  private readonly integralAtStart = new Float64Array(MAX_SEGMENTS + 1);
+  private readonly f = new Float64Array(N + 1);
+  private readonly vNodes = new Float64Array(N + 1);
+  private readonly c = new Float64Array(N + 1);
+  private readonly b = new Float64Array(N + 2);
+
+  /**
+   * r(v)·v' = k0 + k1·t − a·v from v(0) = v0; scaleV sets the convergence tolerance (the supply span);
+   * horizonS (when known: the end of the slew) bounds the first sub-interval.
+   */
+  set(shape: BiasShape, a: number, k0: number, k1: number, v0: number, scaleV: number, horizonS = Infinity): this {
+    this.shape = shape;
+    this.a = a;
+    this.k0 = k0;
+    this.k1 = k1;
+    this.v0 = v0;
+    this.scaleV = Math.max(scaleV, Math.abs(v0), 1e-300);
+    this.segments = 0;
+    this.integralAtStart[0] = 0;
+    // Sub-interval length from the fastest rate the piece can have: a over the smallest ratio near v0.
+    const rNear = Math.min(shape.ratio(v0), shape.ratio(k0 / (a || 1)));
+    this.h = a > 0 ? (CONTRACTION * Math.max(rNear, 1e-3)) / a : Infinity;
+    if (horizonS > 0 && horizonS < this.h) this.h = horizonS;
+    this.segStart[0] = 0;
+    return this;
+  }
+
+  /** Solve segments until t is covered. */
+  private cover(t: number): void {
+    if (!Number.isFinite(this.h)) {
+      // No resistive path: r(v)·v' = k0 + k1·t has k1 = 0 too (the source cannot reach the capacitor); one segment to t.
+      if (this.segments === 0) this.h = Math.max(t, 1e-300);
+    }
+    while (this.segStart[this.segments] < t) {
+      if (this.segments === MAX_SEGMENTS) throw new Error('ChebyshevPiece: piece longer than the segment budget');
+      this.solveSegment(this.segments);
+      this.segments++;
+    }
+  }
+
+  /**
+   * Solve sub-interval m; halve its length while the last Chebyshev coefficients
+   * show the polynomial has not resolved v (a large change of C(v) inside it).
+   */
+  private solveSegment(m: number): void {
+    const tA = this.segStart[m];
+    const vA = m === 0 ? this.v0 : this.valueIn(m - 1, 1);
+    const tailTol = 1e-13 * this.scaleV;
+    for (let tries = 0; tries < 40; tries++) {
+      this.picard(tA, vA);
+      const c = this.c;
+      if (Math.abs(c[N]) + Math.abs(c[N - 1]) <= tailTol) break;
+      this.h *= 0.5;
+    }
+    const h = this.h;
+    const { b, c } = this;
+    this.segLen[m] = h;
+    this.segStart[m + 1] = tA + h;
+    // Store v's coefficients and its antiderivative's (for ∫v dt) for dense evaluation.
+    const cv = this.cv;
+    const base = m * (N + 1);
+    for (let k = 0; k <= N; k++) cv[base + k] = c[k];
+    antiderivative(c, b);
+    const ci = this.ci;
+    const baseI = m * (N + 2);
+    for (let k = 0; k <= N + 1; k++) ci[baseI + k] = b[k];
+    this.integralAtStart[m + 1] = this.integralAtStart[m] + 0.5 * h * clenshaw(b, N + 1, 1);
+  }
+
+  /** Picard iteration on one sub-interval of length h from (tA, vA); leaves v's Chebyshev coefficients in c. */
+  private picard(tA: number, vA: number): void {
+    const h = this.h;
+    const { f, vNodes, c, b } = this;
+    // Start: the frozen-capacitance exact motion (exponential + ramp), good to the capacitance change over the segment.
+    const rA = this.shape.ratio(vA);
+    const a = this.a / rA;
+    const k0 = this.k0 / rA;
+    const k1 = this.k1 / rA;
+    for (let j = 0; j <= N; j++) {
+      const dt = ((NODE_X[j] + 1) * h) / 2;
+      vNodes[j] = frozen(a, k0 + k1 * tA, k1, vA, dt);
+    }
+    const tol = PICARD_TOLERANCE * this.scaleV;
+    let converged = false;
+    for (let it = 0; it < MAX_PICARD && !converged; it++) {
+      for (let j = 0; j <= N; j++) {
+        const t = tA + ((NODE_X[j] + 1) * h) / 2;
+        const v = vNodes[j];
+        f[j] = (this.k0 + this.k1 * t - this.a * v) / this.shape.ratio(v);
+      }
+      coefficients(f, c);
+      antiderivative(c, b);
+      let change = 0;
+      for (let j = 0; j <= N; j++) {
+        let s = 0;
+        for (let k = 0; k <= N + 1; k++) s += b[k] * COS[k * (N + 1) + j];
+        const next = vA + 0.5 * h * s;
+        const d = Math.abs(next - vNodes[j]);
+        if (d > change) change = d;
+        vNodes[j] = next;
+      }
+      converged = change <= tol;
+    }
+    coefficients(vNodes, c);
+  }
+
+  /** v at local coordinate x ∈ [−1, 1] of segment m. */
+  private valueIn(m: number, x: number): number {
+    return clenshaw(this.cv, N, x, m * (N + 1));
+  }
+
+  private locM = 0;
+  private locX = 0;
+  /** Segment and local coordinate of t (into locM, locX). */
+  private locate(t: number): void {
+    this.cover(t);
+    // Pieces have a handful of sub-intervals: a linear scan from the end is enough.
+    let m = this.segments - 1;
+    while (m > 0 && this.segStart[m] > t) m--;
+    const x = (2 * (t - this.segStart[m])) / this.segLen[m] - 1;
+    this.locM = m;
+    this.locX = Math.min(1, Math.max(-1, x));
+  }
+
+  /** v(t), t ≥ 0 into the piece. */
+  v(t: number): number {
+    if (t <= 0) return this.v0;
+    this.locate(t);
+    return this.valueIn(this.locM, this.locX);
+  }
+
+  /** dv/dt from the ODE itself at (t, v). */
+  dv(t: number, v: number): number {
+    return (this.k0 + this.k1 * t - this.a * v) / this.shape.ratio(v);
+  }
+
+  /** ∫₀ᵀ v dt. */
+  integralV(T: number): number {
+    if (T <= 0) return 0;
+    this.locate(T);
+    const m = this.locM;
+    const x = this.locX;
+    return this.integralAtStart[m] + 0.5 * this.segLen[m] * clenshaw(this.ci, N + 1, x, m * (N + 2));
+  }
+}
+
+/** Exact solution of v' = k0 + k1·t − a·v from v0 after dt (the linear capacitor), for the starting guess. */
+function frozen(a: number, k0: number, k1: number, v0: number, dt: number): number {
+  if (a * dt < 1e-8) return v0 + (k0 - a * v0) * dt + 0.5 * (k1 - a * (k0 - a * v0)) * dt * dt;
+  const e = Math.exp(-a * dt);
+  // Particular solution of a ramp drive: (k0 − k1/a + k1·t)/a.
+  const vp0 = (k0 - k1 / a) / a;
+  const vpT = vp0 + (k1 / a) * dt;
+  return vpT + (v0 - vp0) * e;
+}
