@@ -1,0 +1,3259 @@
+/**
+ * Generated from openapi/openapi.json by openapi-typescript: do not edit.
+ * Regenerate with `npm run client:generate` (`npm run openapi:write` runs it too).
+ */
+
+export interface paths {
+    "/healthz": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Liveness: the process answers */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            status: string;
+                        };
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/readyz": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Readiness: the store answers */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            status: string;
+                            checks: {
+                                store: boolean;
+                            };
+                        };
+                    };
+                };
+                /** @description Default Response */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            status: string;
+                            checks: {
+                                store: boolean;
+                            };
+                        };
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/metrics": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Prometheus metrics (text exposition format) */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Metrics */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "text/plain": string;
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/analyze": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Analyse a relaxation oscillator
+         * @description Steady-state frequency, duty cycle, thresholds, output levels, dwell times, time to the first edge, currents and design checks for a given circuit and amplifier.
+         */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["Circuit"];
+                };
+            };
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Analysis"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/topologies": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** List supported topologies and their part roles */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            topologies: {
+                                id: string;
+                                description: string;
+                                needsOpenDrain: boolean;
+                                roles: {
+                                    role: string;
+                                    kind: "resistor" | "capacitor";
+                                    required: boolean;
+                                    description: string;
+                                }[];
+                            }[];
+                        };
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/amplifiers": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * List amplifiers
+         * @description Built-in technology-class archetypes (figures typical of the class) and registered amplifiers.
+         */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["AmplifierList"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/amplifiers/{id}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Get one amplifier */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    /** @description Id of a built-in archetype or a registered amplifier */
+                    id: string;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Amplifier"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Not found */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        /**
+         * Register or replace an amplifier
+         * @description Creates (201) or replaces (200) a registered amplifier. Omitted figures are ideal, or come from `base` (a built-in archetype). Replacing needs the current ETag in If-Match. Built-in ids answer 409.
+         */
+        put: {
+            parameters: {
+                query?: never;
+                header?: {
+                    /** @description ETag of the version being replaced or deleted; required when the resource exists (428 without, 412 when stale) */
+                    "if-match"?: string;
+                };
+                path: {
+                    /** @description Id of a built-in archetype or a registered amplifier */
+                    id: string;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["AmplifierRegistration"];
+                };
+            };
+            responses: {
+                /** @description Replaced */
+                200: {
+                    headers: {
+                        /** @description Strong entity tag of this version; send it in If-Match to change it */
+                        etag?: string;
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Amplifier"];
+                    };
+                };
+                /** @description Created */
+                201: {
+                    headers: {
+                        /** @description Strong entity tag of this version; send it in If-Match to change it */
+                        etag?: string;
+                        /** @description URL of the new amplifier */
+                        location?: string;
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Amplifier"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Conflict */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The If-Match ETag is stale */
+                412: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description If-Match is required to change an existing resource */
+                428: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        post?: never;
+        /**
+         * Delete a registered amplifier
+         * @description Needs the current ETag in If-Match. Built-in ids answer 409.
+         */
+        delete: {
+            parameters: {
+                query?: never;
+                header?: {
+                    /** @description ETag of the version being replaced or deleted; required when the resource exists (428 without, 412 when stale) */
+                    "if-match"?: string;
+                };
+                path: {
+                    /** @description Id of a built-in archetype or a registered amplifier */
+                    id: string;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Deleted */
+                204: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content?: never;
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Not found */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Conflict */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The If-Match ETag is stale */
+                412: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description If-Match is required to change an existing resource */
+                428: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/series": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** List the IEC 60063 preferred-number series */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description The IEC 60063 series the service knows */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["SeriesList"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/series/{name}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * One IEC 60063 series over a range of decades
+         * @description The mantissas of one decade and the values from 10^fromDecade up to, not including, 10^(toDecade+1). Without a range the values are the decade starting at 1. Values are unit-free: read them as ohm or farad.
+         */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description First decade as a power of ten: 3 starts the values at 1000 (1 kΩ, or 1 nF with -9). -15..14; default 0, or toDecade when only that is given */
+                    fromDecade?: string;
+                    /** @description Last decade as a power of ten, inclusive: 4 ends the values below 100000. -15..14; default fromDecade */
+                    toDecade?: string;
+                };
+                header?: never;
+                path: {
+                    /** @description Series name, case-insensitive: E3, E6, E12, E24, E48, E96, E192 */
+                    name: string;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description An IEC 60063 preferred-number series over a range of decades */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Series"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Not found */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/catalogues": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** List stored catalogues */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Every stored catalogue, ordered by id, without its parts */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["CatalogueList"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/catalogues/{id}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Get one catalogue
+         * @description Send If-None-Match with a held ETag to get 304 when nothing changed.
+         */
+        get: {
+            parameters: {
+                query?: never;
+                header?: {
+                    /** @description ETag(s) already held */
+                    "if-none-match"?: string;
+                };
+                path: {
+                    /** @description Catalogue id: a lowercase letter or digit, then up to 63 of [a-z0-9._-] */
+                    id: string;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description The catalogue */
+                200: {
+                    headers: {
+                        /** @description Strong entity tag of this version; send it in If-Match to change it */
+                        etag?: string;
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Catalogue"];
+                    };
+                };
+                /** @description Not modified since the ETag in If-None-Match */
+                304: {
+                    headers: {
+                        /** @description Strong entity tag of this version; send it in If-Match to change it */
+                        etag?: string;
+                        [name: string]: unknown;
+                    };
+                    content?: never;
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Not found */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        /**
+         * Create or replace a catalogue
+         * @description Creates the catalogue (201) or replaces it (200). Replacing needs the current ETag in If-Match; `If-None-Match: *` makes the request create-only. Every part is checked before anything is stored.
+         */
+        put: {
+            parameters: {
+                query?: never;
+                header?: {
+                    /** @description ETag of the version being replaced or deleted; required when the resource exists (428 without, 412 when stale) */
+                    "if-match"?: string;
+                    /** @description * = create only: 412 if the id exists */
+                    "if-none-match"?: "*";
+                };
+                path: {
+                    /** @description Catalogue id: a lowercase letter or digit, then up to 63 of [a-z0-9._-] */
+                    id: string;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["CatalogueWrite"];
+                };
+            };
+            responses: {
+                /** @description Replaced */
+                200: {
+                    headers: {
+                        /** @description Strong entity tag of this version; send it in If-Match to change it */
+                        etag?: string;
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Catalogue"];
+                    };
+                };
+                /** @description Created */
+                201: {
+                    headers: {
+                        /** @description Strong entity tag of this version; send it in If-Match to change it */
+                        etag?: string;
+                        /** @description URL of the new catalogue */
+                        location?: string;
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Catalogue"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Conflict */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The If-Match ETag is stale */
+                412: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description If-Match is required to change an existing resource */
+                428: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        post?: never;
+        /**
+         * Delete a catalogue
+         * @description Needs the current ETag in If-Match.
+         */
+        delete: {
+            parameters: {
+                query?: never;
+                header?: {
+                    /** @description ETag of the version being replaced or deleted; required when the resource exists (428 without, 412 when stale) */
+                    "if-match"?: string;
+                };
+                path: {
+                    /** @description Catalogue id: a lowercase letter or digit, then up to 63 of [a-z0-9._-] */
+                    id: string;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Deleted */
+                204: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content?: never;
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Not found */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Conflict */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The If-Match ETag is stale */
+                412: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description If-Match is required to change an existing resource */
+                428: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/bom-checks": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Check BOM assemblies against their timing spec
+         * @description For each assembly: reads the BOM value text of the parts the role map names, checks values against the declared series or catalogue, part status, dielectric, electrolytics, voltage rating, the analysis checks (output drive, common-mode range, supply range, SELV) and the worst-case frequency, duty and Monte Carlo yield against the spec. A bad assembly gets a failed result explaining why; it never fails the batch. With Accept: application/x-ndjson the results stream one JSON object per line, in request order, as they finish.
+         */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["BomCheckRequest"];
+                };
+            };
+            responses: {
+                /** @description One result per assembly: a JSON document, or NDJSON (one BomCheckResult per line) on request */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["BomCheckResponse"];
+                        "application/x-ndjson": components["schemas"]["BomCheckResult"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/fit": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Fit measurements to the circuit and diagnose the difference
+         * @description From scalar scope figures and/or a capture (one or two channels: output, capacitor) to fitted effective parameters (part values, output levels, slew rate, recovery delay) with uncertainties, the pairs the data cannot tell apart, and ranked one- and two-cause explanations. Captures are analysed by IEEE Std 181 (histogram state levels, 50 % crossings, 10–90 % transitions) plus exponential fits of the capacitor segments. Send JSON (FitRequest; a CSV export may go in capture.csv), or the scope CSV itself as a text/csv body with the circuit as URL-encoded JSON in ?circuit= (and optionally ?tolerances=, ?measurements=, ?outputChannel=, ?capacitorChannel=, ?sampleIntervalS=). Bad captures (flat line, too few edges, clipped channel, mismatched lengths, missing samples, unreadable CSV) answer 422 with the reason.
+         */
+        post: {
+            parameters: {
+                query?: {
+                    /** @description text/csv bodies only (required then): the circuit as URL-encoded JSON, the same object as an /v1/analyze body */
+                    circuit?: string;
+                    /** @description text/csv bodies only: tolerances as URL-encoded JSON */
+                    tolerances?: string;
+                    /** @description text/csv bodies only: scalar measurements as URL-encoded JSON, combined with the capture */
+                    measurements?: string;
+                    /** @description text/csv bodies only: CSV column of the output channel */
+                    outputChannel?: string;
+                    /** @description text/csv bodies only: CSV column of the capacitor channel */
+                    capacitorChannel?: string;
+                    /** @description text/csv bodies only: sample interval, s, when the file has neither a time column nor an interval entry */
+                    sampleIntervalS?: string;
+                    /** @description text/csv bodies only: as diagnosis.maxCauses */
+                    maxCauses?: "1" | "2";
+                };
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["FitRequest"];
+                    "text/csv": string;
+                };
+            };
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["FitResult"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/snap": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Snap ideal values to a series or catalogue
+         * @description Per value: the nearest, next-lower and next-higher values of a series or catalogue with their errors, optionally the best two-part combination. Per circuit: the best joint choices of timing resistor, timing capacitor and threshold-network resistors for a frequency (and duty) target, each analysed in full.
+         */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["SnapRequest"];
+                };
+            };
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["SnapResponse"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/design": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Design an oscillator from a frequency target
+         * @description Ranked complete designs whose every part comes from the chosen series or catalogue, each analysed in full (predicted frequency and duty, checks). Duty cycles from 10 % to 90 % by threshold placement in the single-supply divider, beyond that by diode steering (diode-steered: separate charge and discharge resistors, the duty set by their ratio; also offered inside that range when `topologies` names it). Timing resistances are bounded below by what the output can drive and above by the bias-current error. No design within the tolerance, a supply outside the amplifier rating, a target above its frequency ceiling or an empty value source answers 422 with the reason (and the closest design found in `figures`).
+         */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["DesignRequest"];
+                };
+            };
+            responses: {
+                /** @description Default Response */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["DesignResponse"];
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/tolerance": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Worst case, Monte Carlo and sensitivities over tolerance, temperature and supply
+         * @description Corners (all of them for up to 14 varied quantities, a sensitivity-guided search beyond), a seeded Monte Carlo (uniform, or normal with σ = tolerance/3 truncated at the tolerance) with percentiles and yield against a spec, d ln f / d ln x per part with each part's share of the first-order variance. With Accept: image/svg+xml, a histogram of the Monte Carlo frequencies with the spec limits and percentiles marked. Runs in a worker thread.
+         */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["ToleranceRequest"];
+                };
+            };
+            responses: {
+                /** @description The analysis (JSON) or its frequency histogram (SVG) */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["ToleranceResult"];
+                        "image/svg+xml": string;
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Problem */
+                406: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/waveform": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Sampled waveforms of a relaxation oscillator
+         * @description Capacitor, output and threshold-node voltages over a number of periods on a uniform time grid, solved exactly piece by piece by the time-domain engine (slew, recovery delay, current limit, clamps and diodes included). Send `Accept: image/svg+xml` for an SVG plot instead of JSON.
+         */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["WaveformRequest"];
+                };
+            };
+            responses: {
+                /** @description The samples (JSON) or their plot (SVG) */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Waveform"];
+                        "image/svg+xml": string;
+                    };
+                };
+                /** @description Malformed request: a field is missing, has the wrong type or cannot be parsed */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description An API key is required */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description The API key lacks the needed scope */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Problem */
+                406: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Body too large */
+                413: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Unsupported media type */
+                415: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+}
+export type webhooks = Record<string, never>;
+export interface components {
+    schemas: {
+        /** @description A component value as a number in SI base units or a value string */
+        ComponentValue: number | string;
+        Supply: {
+            /** @description Positive rail relative to ground, V */
+            positiveV: number;
+            /**
+             * @description Negative rail relative to ground, V (0 for a single supply)
+             * @default 0
+             */
+            negativeV?: number;
+        };
+        /** @description Amplifier figures given inline. Omitted fields are ideal, or taken from `base` when it names an archetype. */
+        InlineAmplifier: {
+            /** @description Id of a built-in archetype or a registered amplifier */
+            base?: string;
+            name?: string;
+            /**
+             * @description Output stage type
+             * @enum {string}
+             */
+            outputStage?: "push-pull" | "open-drain";
+            /** @description Minimum total supply span V+ − V−, V */
+            supplyMinV?: number;
+            /** @description Maximum total supply span, V (null: unlimited) */
+            supplyMaxV?: number | null;
+            /** @description Light-load output swing limit below V+, V */
+            outputHeadroomHighV?: number;
+            /** @description Light-load output swing limit above V− (saturation voltage for open drain), V */
+            outputHeadroomLowV?: number;
+            /** @description Output resistance behind the swing limit, ohm */
+            outputResistanceOhm?: number;
+            /** @description Output current limit, A (null: none) */
+            outputCurrentLimitA?: number | null;
+            /** @description Slew rate, V/s (null: instant) */
+            slewRateVPerS?: number | null;
+            /** @description Saturation-recovery or propagation delay, s */
+            recoveryDelayS?: number;
+            /** @description Common-mode range lower end relative to V−, V (negative: below the rail) */
+            inputCommonModeLowMarginV?: number;
+            /** @description Common-mode range upper end below V+, V (negative: beyond the rail) */
+            inputCommonModeHighMarginV?: number;
+            /** @description Bias current into each input, A (negative for PNP inputs) */
+            inputBiasCurrentA?: number;
+            /** @description Input offset voltage, V */
+            inputOffsetV?: number;
+            /** @description Differential input clamp voltage, V (null: no clamp) */
+            differentialClampV?: number | null;
+            /** @description Amplifier supply current, A */
+            quiescentCurrentA?: number;
+        };
+        /** @description An amplifier id, or inline figures */
+        AmplifierSpec: string | components["schemas"]["InlineAmplifier"];
+        /** @description A design check with the figures behind it (SI units) as further properties */
+        Check: {
+            /** @description Stable machine-readable code */
+            code: string;
+            /** @enum {string} */
+            severity: "info" | "warning" | "error" | "caution";
+            message: string;
+        } & {
+            [key: string]: number | string | boolean | null;
+        };
+        /** @description RFC 9457 problem details */
+        Problem: {
+            /** @description URI reference identifying the problem type */
+            type: string;
+            title: string;
+            status: number;
+            detail?: string;
+            instance?: string;
+            /** @description Stable machine-readable code */
+            code?: string;
+            errors?: {
+                /** @description JSON pointer (RFC 6901) into the request body, or a header/parameter name */
+                pointer: string;
+                detail: string;
+            }[];
+        } & {
+            [key: string]: unknown;
+        };
+        /** @description Part values by role. Which roles a topology needs: see the topology descriptions. */
+        Parts: {
+            rTiming?: components["schemas"]["ComponentValue"];
+            cTiming?: components["schemas"]["ComponentValue"];
+            rTop?: components["schemas"]["ComponentValue"];
+            rBottom?: components["schemas"]["ComponentValue"];
+            rFeedback?: components["schemas"]["ComponentValue"];
+            rGround?: components["schemas"]["ComponentValue"];
+            rCharge?: components["schemas"]["ComponentValue"];
+            rDischarge?: components["schemas"]["ComponentValue"];
+            rPullup?: components["schemas"]["ComponentValue"];
+        };
+        OutputLoad: {
+            /** @description Load resistance on the output pin, ohm */
+            resistanceOhm: number;
+            /**
+             * @description Voltage the load returns to, V
+             * @default 0
+             */
+            returnV?: number;
+        };
+        Diode: {
+            /** @description Forward drop, V */
+            forwardDropV?: number;
+            /** @description Series resistance while conducting, ohm */
+            resistanceOhm?: number;
+        };
+        Circuit: {
+            /** @description single-supply-divider: Single rail: rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground). | split-supply: Split rails: rFeedback (output to P) and rGround (P to ground) set the thresholds; rTiming (output to N) charges cTiming (N to ground). | diode-steered: Separate charge and discharge paths: rCharge + diode (output to N, conducts while high) and rDischarge + diode (N to output, conducts while low) charge cTiming; thresholds from rTop + rBottom + rFeedback (single rail) or rFeedback + rGround (split rails). Diode: forward drop + resistance (`diode`, default 0.6 V, 10 Ω). | open-drain-pullup: Open-drain comparator output with rPullup (V+ to output) giving the high level; rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground). */
+            topology: "single-supply-divider" | "split-supply" | "diode-steered" | "open-drain-pullup";
+            supply: components["schemas"]["Supply"];
+            amplifier: components["schemas"]["AmplifierSpec"];
+            parts: components["schemas"]["Parts"];
+            load?: components["schemas"]["OutputLoad"];
+            diode?: components["schemas"]["Diode"];
+            /** @description Which model answers; auto picks the time-domain engine whenever slew, delay, limits or clamps matter */
+            model?: "auto" | "closed-form" | "time-domain";
+            /**
+             * @description Largest share of the period an edge (recovery delay + slew) may take before the design counts as slew-limited; also sets frequencyCeilingHz
+             * @default 0.05
+             */
+            edgeFractionLimit?: number;
+        };
+        Analysis: {
+            topology: string;
+            amplifier: {
+                id: string;
+                name: string;
+                figuresBasis: string;
+            };
+            /**
+             * @description Which model answered
+             * @enum {string}
+             */
+            model: "closed-form" | "time-domain";
+            frequencyHz: number;
+            periodS: number;
+            /** @description Fraction of the period the output is high, between 50 % crossings */
+            dutyCycle: number;
+            timeHighS: number;
+            timeLowS: number;
+            /** @description From power-up with the capacitor empty to the first output edge, s */
+            firstEdgeS: number;
+            thresholds: {
+                upperV: number;
+                lowerV: number;
+                hysteresisV: number;
+            };
+            output: {
+                highV: number;
+                lowV: number;
+                swingV: number;
+            };
+            capacitor: {
+                minV: number;
+                maxV: number;
+            };
+            states: {
+                high: {
+                    /** @description Capacitor time constant in this state, s */
+                    tauS: number;
+                    /** @description Capacitor voltage the state heads for, V */
+                    asymptoteV: number;
+                    /** @description Capacitor voltage at which the output leaves the state, V */
+                    switchingV: number;
+                    /** @description Output-stage source level, V (null: not driven) */
+                    sourceV: number | null;
+                    /** @description Time spent in the state, s */
+                    dwellS: number;
+                };
+                low: {
+                    /** @description Capacitor time constant in this state, s */
+                    tauS: number;
+                    /** @description Capacitor voltage the state heads for, V */
+                    asymptoteV: number;
+                    /** @description Capacitor voltage at which the output leaves the state, V */
+                    switchingV: number;
+                    /** @description Output-stage source level, V (null: not driven) */
+                    sourceV: number | null;
+                    /** @description Time spent in the state, s */
+                    dwellS: number;
+                };
+            };
+            powerUp: {
+                /** @enum {string} */
+                initialState: "high" | "low";
+                /** @description False when both states are consistent at power-up (then high is assumed) */
+                determinate: boolean;
+            };
+            currents: {
+                outputPeakSourceA: number;
+                outputPeakSinkA: number;
+                /** @description Mean current from the positive rail incl. quiescent current, A */
+                supplyAverageA: number;
+                supplyPeakA: number;
+            };
+            inputs: {
+                nonInvertingMinV: number;
+                nonInvertingMaxV: number;
+                invertingMinV: number;
+                invertingMaxV: number;
+                differentialMaxV: number;
+            };
+            /** @description Threshold shift from input bias current, V */
+            biasThresholdShiftV: number;
+            /** @description Edge durations: measured by the time-domain engine, estimated from delay + swing/slew rate otherwise */
+            edges?: {
+                /** @description From the comparator decision to the output settled high (recovery delay + full-swing slew), s; not the 10–90 % rise time */
+                riseSettleS: number;
+                /** @description From the comparator decision to the output settled low, s */
+                fallSettleS: number;
+            };
+            /** @description Present when the time-domain engine saw the output run into its current limit */
+            currentLimit?: {
+                /** @description Share of the period the output spends in current limit (0..1) */
+                limitedFraction: number;
+                /** @description Largest current the network would have drawn from the voltage drive while limited, A */
+                demandPeakA: number;
+            };
+            /** @description Highest frequency at which both edges stay within edgeFractionLimit of the period, Hz (null: instant edges) */
+            frequencyCeilingHz?: number | null;
+            /** @description Share of the period an edge may take before the slew-limited check fires */
+            edgeFractionLimit?: number;
+            checks: components["schemas"]["Check"][];
+        };
+        Amplifier: {
+            id: string;
+            name: string;
+            technologyClass: string;
+            description: string;
+            /**
+             * @description class-typical: figures typical of the technology class, from memory of the trade, not a datasheet
+             * @enum {string}
+             */
+            figuresBasis: "ideal" | "class-typical" | "caller-supplied";
+            /** @enum {string} */
+            source: "built-in" | "registered";
+            /** @enum {string} */
+            outputStage: "push-pull" | "open-drain";
+            /** @description Minimum total supply span, V */
+            supplyMinV: number;
+            /** @description Maximum total supply span, V (null: unlimited) */
+            supplyMaxV: number | null;
+            /** @description Output swing limit below V+ at light load, V */
+            outputHeadroomHighV: number;
+            /** @description Output swing limit above V− at light load, V */
+            outputHeadroomLowV: number;
+            /** @description Output resistance, ohm */
+            outputResistanceOhm: number;
+            /** @description Output current limit, A (null: none) */
+            outputCurrentLimitA: number | null;
+            /** @description Slew rate, V/s (null: instant) */
+            slewRateVPerS: number | null;
+            /** @description Saturation-recovery / propagation delay, s */
+            recoveryDelayS: number;
+            /** @description Common-mode range lower end above V−, V (null: unlimited) */
+            inputCommonModeLowMarginV: number | null;
+            /** @description Common-mode range upper end below V+, V (null: unlimited) */
+            inputCommonModeHighMarginV: number | null;
+            /** @description Bias current into each input, A */
+            inputBiasCurrentA: number;
+            /** @description Input offset voltage, V */
+            inputOffsetV: number;
+            /** @description Differential input clamp, V (null: none) */
+            differentialClampV: number | null;
+            /** @description Amplifier supply current, A */
+            quiescentCurrentA: number;
+        };
+        AmplifierList: {
+            amplifiers: components["schemas"]["Amplifier"][];
+        };
+        /** @description A caller-registered amplifier model */
+        AmplifierRegistration: {
+            name: string;
+            /** @description Technology class in words */
+            technologyClass?: string;
+            description?: string;
+            /** @description Id of a built-in archetype or a registered amplifier */
+            base?: string;
+            /**
+             * @description Output stage type
+             * @enum {string}
+             */
+            outputStage?: "push-pull" | "open-drain";
+            /** @description Minimum total supply span V+ − V−, V */
+            supplyMinV?: number;
+            /** @description Maximum total supply span, V (null: unlimited) */
+            supplyMaxV?: number | null;
+            /** @description Light-load output swing limit below V+, V */
+            outputHeadroomHighV?: number;
+            /** @description Light-load output swing limit above V− (saturation voltage for open drain), V */
+            outputHeadroomLowV?: number;
+            /** @description Output resistance behind the swing limit, ohm */
+            outputResistanceOhm?: number;
+            /** @description Output current limit, A (null: none) */
+            outputCurrentLimitA?: number | null;
+            /** @description Slew rate, V/s (null: instant) */
+            slewRateVPerS?: number | null;
+            /** @description Saturation-recovery or propagation delay, s */
+            recoveryDelayS?: number;
+            /** @description Common-mode range lower end relative to V−, V (negative: below the rail) */
+            inputCommonModeLowMarginV?: number;
+            /** @description Common-mode range upper end below V+, V (negative: beyond the rail) */
+            inputCommonModeHighMarginV?: number;
+            /** @description Bias current into each input, A (negative for PNP inputs) */
+            inputBiasCurrentA?: number;
+            /** @description Input offset voltage, V */
+            inputOffsetV?: number;
+            /** @description Differential input clamp voltage, V (null: no clamp) */
+            differentialClampV?: number | null;
+            /** @description Amplifier supply current, A */
+            quiescentCurrentA?: number;
+        };
+        /** @description An IEC 60063 preferred-number series over a range of decades */
+        Series: {
+            /** @description Canonical series name (E3 ... E192) */
+            name: string;
+            valuesPerDecade: number;
+            /** @description Figures each value carries: 2 for E3..E24, 3 for E48..E192 (IEC 60063) */
+            significantFigures: number;
+            /** @description Tolerance usually sold with the series, as a fraction (0.05 = 5 %) */
+            tolerance: number;
+            /**
+             * @description The tolerance is trade practice, not part of IEC 60063
+             * @enum {string}
+             */
+            toleranceBasis: "common practice";
+            /** @description One decade as mantissas in [1, 10), ascending */
+            mantissas: number[];
+            fromDecade: number;
+            toDecade: number;
+            /** @description Every series value from 10^fromDecade up to (not including) 10^(toDecade+1), ascending */
+            values: number[];
+        };
+        /** @description The IEC 60063 series the service knows */
+        SeriesList: {
+            series: {
+                name: string;
+                valuesPerDecade: number;
+                /** @description Tolerance usually sold with the series, as a fraction (common practice) */
+                tolerance: number;
+            }[];
+        };
+        CataloguePart: {
+            kind: "resistor" | "capacitor";
+            value: components["schemas"]["ComponentValue"];
+            /** @description Tolerance as a fraction (0.01 = 1 %) */
+            tolerance: number;
+            /** @description Temperature coefficient, ppm/K (resistors; capacitors when known explicitly) */
+            tempcoPpmPerK?: number;
+            /** @description Capacitors only: EIA-198 ceramic code (C0G, X7R, U2J...) or a technology (PP, PET, PPS, PEN, mica, tantalum, electrolytic) */
+            dielectric?: string;
+            /** @description Rated voltage, V */
+            ratedVoltageV?: number;
+            /** @description The owner's own part number; unique within the catalogue */
+            partNumber: string;
+            /** @description Package or case, e.g. 0603 */
+            package?: string;
+            /** @description not-for-new-designs parts are kept for BOM checks but never chosen by design or snap */
+            status: "preferred" | "active" | "not-for-new-designs";
+        };
+        /** @description A parts catalogue as written by its owner */
+        CatalogueWrite: {
+            name?: string;
+            description?: string;
+            parts: components["schemas"]["CataloguePart"][];
+        };
+        CataloguePartRecord: {
+            kind: "resistor" | "capacitor";
+            value: components["schemas"]["ComponentValue"];
+            /** @description Tolerance as a fraction (0.01 = 1 %) */
+            tolerance: number;
+            /** @description Temperature coefficient, ppm/K (resistors; capacitors when known explicitly) */
+            tempcoPpmPerK?: number;
+            /** @description Capacitors only: EIA-198 ceramic code (C0G, X7R, U2J...) or a technology (PP, PET, PPS, PEN, mica, tantalum, electrolytic) */
+            dielectric?: string;
+            /** @description Rated voltage, V */
+            ratedVoltageV?: number;
+            /** @description The owner's own part number; unique within the catalogue */
+            partNumber: string;
+            /** @description Package or case, e.g. 0603 */
+            package?: string;
+            /** @description not-for-new-designs parts are kept for BOM checks but never chosen by design or snap */
+            status: "preferred" | "active" | "not-for-new-designs";
+            /** @description The value in SI base units as the service read it: ohm for resistors, farad for capacitors */
+            valueSi: number;
+        };
+        /** @description A stored parts catalogue */
+        Catalogue: {
+            id: string;
+            /** @description 1 on creation, +1 on every update */
+            version: number;
+            /** @description Same as the ETag header: send it in If-Match to update or delete */
+            etag: string;
+            /** Format: date-time */
+            createdAt: string;
+            /** Format: date-time */
+            updatedAt: string;
+            name?: string;
+            description?: string;
+            parts: components["schemas"]["CataloguePartRecord"][];
+        };
+        CatalogueSummary: {
+            id: string;
+            /** @description 1 on creation, +1 on every update */
+            version: number;
+            /** @description Same as the ETag header: send it in If-Match to update or delete */
+            etag: string;
+            /** Format: date-time */
+            createdAt: string;
+            /** Format: date-time */
+            updatedAt: string;
+            name?: string;
+            partCounts: {
+                total: number;
+                resistors: number;
+                capacitors: number;
+                /** @description Parts with status not-for-new-designs (included in the totals) */
+                notForNewDesigns: number;
+            };
+        };
+        /** @description Every stored catalogue, ordered by id, without its parts */
+        CatalogueList: {
+            catalogues: components["schemas"]["CatalogueSummary"][];
+        };
+        BomLine: {
+            /** @description Reference designator, or several that share the line ("R3, R7" or "R3 R7"); compared trimmed and case-blind */
+            refdes: string;
+            /** @description The value column as the BOM carries it: IEC 60062 RKM ("4K7", "R47", "4n7"), numeric codes ("103", "4702"), EIA-96 ("01C"), SI form ("10nF"), with tolerance, voltage, dielectric, tempco and package in any order ("3K3 1% 0603", "10nF 50V C0G 5%", "4u7/16V X5R", "103 K"). Empty or null: no value. */
+            value: string | null;
+            /** @description The owner's part number; looked up in the catalogue when one is named */
+            partNumber?: string;
+            /** @description Free text; tolerance, voltage, dielectric, tempco and package missing from the value are read from it */
+            description?: string;
+        };
+        BomSupply: {
+            /** @description Nominal positive rail relative to ground, V */
+            positiveV: number;
+            /**
+             * @description Nominal negative rail relative to ground, V (0 for a single supply)
+             * @default 0
+             */
+            negativeV?: number;
+            /**
+             * @description Regulation band of both rails as a fraction (0.05: each rail ±5 %); the checks run at both ends
+             * @default 0
+             */
+            tolerance?: number;
+        };
+        BomTemperatureRange: {
+            /** @description Lowest ambient temperature, °C */
+            minC: number;
+            /** @description Highest ambient temperature, °C */
+            maxC: number;
+        };
+        BomSpec: {
+            /** @description Target frequency, Hz */
+            frequencyHz: number;
+            /** @description Allowed deviation from frequencyHz as a fraction (0.05 = ±5 %) */
+            frequencyTolerance: number;
+            /** @description Lowest allowed duty cycle, fraction of the period high */
+            dutyMin?: number;
+            /** @description Highest allowed duty cycle, fraction of the period high */
+            dutyMax?: number;
+            /** @description Minimum fraction of boards inside the spec (Monte Carlo); omit for no yield rule */
+            minimumYield?: number;
+        };
+        BomAssembly: {
+            /** @description The caller's id for the assembly (echoed in its result) */
+            id: string;
+            /** @description BOM lines; only those the role map names are checked */
+            lines: components["schemas"]["BomLine"][];
+            /** @description Topology role -> reference designator, e.g. {"rTiming": "R12", "cTiming": "C4"} */
+            roles: {
+                [key: string]: string;
+            };
+            /** @description Topology id: single-supply-divider, split-supply, diode-steered, open-drain-pullup (an unknown one fails this assembly only) */
+            topology: string;
+            amplifier: components["schemas"]["AmplifierSpec"];
+            supply: components["schemas"]["BomSupply"];
+            temperature?: components["schemas"]["BomTemperatureRange"];
+            spec: components["schemas"]["BomSpec"];
+            /** @description Id of a stored parts catalogue to check part numbers, values and status against */
+            catalogue?: string;
+            /** @description The preferred-number series the design uses: one for every role ("E24"), or per role ({"rTiming": "E96", "cTiming": "E6"}) */
+            series?: string | {
+                [key: string]: string;
+            };
+            assumedTolerance?: {
+                /** @description Tolerance assumed for resistors that state none (default 0.05) */
+                resistor?: number;
+                /** @description Tolerance assumed for capacitors that state none (default 0.1) */
+                capacitor?: number;
+            };
+        };
+        BomCheckOptions: {
+            /**
+             * @description full: worst case and, where a minimum yield is given, Monte Carlo; worst-case: no Monte Carlo (faster)
+             * @default full
+             */
+            mode?: "full" | "worst-case";
+            /**
+             * @description Lowest rule severity that fails an assembly
+             * @default error
+             */
+            failOn?: "error" | "warning";
+            /**
+             * @description Monte Carlo samples per assembly
+             * @default 500
+             */
+            monteCarloSamples?: number;
+            /**
+             * @description Monte Carlo seed (same seed, same figures)
+             * @default 1
+             */
+            seed?: number;
+        };
+        BomCheckRequest: {
+            assemblies: components["schemas"]["BomAssembly"][];
+            options?: components["schemas"]["BomCheckOptions"];
+        };
+        BomRule: {
+            /** @description Stable rule code: role-unassigned, role-unknown, refdes-missing, refdes-duplicated, topology-unknown, amplifier-unresolved, catalogue-unavailable, series-unknown, spec-inconsistent, value-read, value-unreadable, value-text-leftover, tolerance-assumed, tempco-assumed, value-off-series, part-number-unlisted, value-disagrees-with-catalogue, value-not-in-catalogue, part-not-for-new-designs, dielectric-unfit-for-timing, electrolytic-in-timing-path, dielectric-unstated, voltage-rating-below-supply, voltage-rating-unstated, temperature-beyond-part-rating, circuit-rejected, supply-outside-amplifier-range, output-drive-exceeded, inputs-outside-common-mode, input-clamp-conducts, bias-shifts-thresholds, selv-caution, stored-energy-caution, dynamics-approximated, frequency-within-spec, frequency-outside-spec, duty-within-spec, duty-outside-spec, yield-met, yield-below-minimum, yield-not-evaluated, evaluation-failed; checks the analysis adds later arrive as analysis-<code> */
+            code: string;
+            severity: "error" | "warning" | "caution" | "info";
+            message: string;
+            /** @description The designator the rule is about */
+            refdes?: string;
+            /** @description The topology role that designator fills */
+            role?: string;
+            /** @description The figures behind the message, SI units (null: no limit / not known) */
+            figures: {
+                [key: string]: number | string | boolean | null;
+            };
+            /** @description value-read only: what the value text was read as, in words */
+            understood?: string[];
+        };
+        BomCheckResult: {
+            id: string;
+            /** @description Position of the assembly in the request */
+            index: number;
+            /** @description False when any rule at or above options.failOn severity fired */
+            pass: boolean;
+            /** @description Rule results by severity */
+            counts: {
+                error: number;
+                warning: number;
+                caution: number;
+                info: number;
+            };
+            rules: components["schemas"]["BomRule"][];
+        };
+        BomCheckResponse: {
+            results: components["schemas"]["BomCheckResult"][];
+            summary: {
+                assemblies: number;
+                passed: number;
+                failed: number;
+            };
+        };
+        /** @description A measured figure: a number, or {value, uncertainty} with its standard uncertainty (1σ) */
+        ScalarMeasurement: number | {
+            value: number;
+            /** @description Standard uncertainty (1σ), same unit as the value */
+            uncertainty?: number;
+        };
+        /** @description Scalar figures read off a scope, each with its uncertainty */
+        FitMeasurements: {
+            frequencyHz?: components["schemas"]["ScalarMeasurement"];
+            dutyCycle?: components["schemas"]["ScalarMeasurement"];
+            capacitorMinV?: components["schemas"]["ScalarMeasurement"];
+            capacitorMaxV?: components["schemas"]["ScalarMeasurement"];
+            outputHighV?: components["schemas"]["ScalarMeasurement"];
+            outputLowV?: components["schemas"]["ScalarMeasurement"];
+            riseTimeS?: components["schemas"]["ScalarMeasurement"];
+            fallTimeS?: components["schemas"]["ScalarMeasurement"];
+            capacitorRisingTauS?: components["schemas"]["ScalarMeasurement"];
+            capacitorFallingTauS?: components["schemas"]["ScalarMeasurement"];
+        };
+        /** @description A scope capture: one or two channels as arrays with a sample interval or time column, or a CSV export */
+        FitCapture: {
+            /** @description Sample interval, s (or give timeS) */
+            sampleIntervalS?: number;
+            /** @description Sample instants, s, strictly increasing (wins over sampleIntervalS) */
+            timeS?: (number | null)[];
+            /** @description Amplifier output channel, V (null = missing sample, rejected with 422) */
+            output?: (number | null)[];
+            /** @description Timing-capacitor channel, V (null = missing sample, rejected with 422) */
+            capacitor?: (number | null)[];
+            /** @description A scope CSV export as text, instead of the arrays: header/metadata lines, a time column (or a sample-interval entry) and channel columns, units in the header ("Time (us)", "CH1 [mV]" or a units row); tab, semicolon or comma separated, decimal commas accepted. The same text can be sent as a text/csv body, see the operation description. */
+            csv?: string;
+            /** @description CSV column name of the output channel (default: by name hints, then CH1) */
+            outputChannel?: string;
+            /** @description CSV column name of the capacitor channel (default: by name hints, then CH2) */
+            capacitorChannel?: string;
+            /** @description Vertical accuracy, fraction: σ = f·|reading| ⊕ f·swing ⊕ half an ADC step (default 0.005) */
+            verticalUncertainty?: number;
+            /** @description Time-base accuracy, fraction (default 5e-5) */
+            timebaseUncertainty?: number;
+        };
+        /** @description Part tolerances by role as fractions (0.05 = 5 %); defaults 1 % for resistors and 10 % for capacitors. Read as ±3σ. */
+        Tolerances: {
+            [key: string]: number;
+        };
+        FitRequest: {
+            circuit: components["schemas"]["Circuit"];
+            tolerances?: components["schemas"]["Tolerances"];
+            measurements?: components["schemas"]["FitMeasurements"];
+            capture?: components["schemas"]["FitCapture"];
+            diagnosis?: {
+                /** @description Explanations with up to this many causes (default 2) */
+                maxCauses?: 1 | 2;
+                /** @description How many ranked explanations to return (default 8) */
+                maxExplanations?: number;
+            };
+        };
+        ParameterEstimate: {
+            /** @description Part role (cTiming, rTiming, ...) or amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS) */
+            parameter: string;
+            kind: "part" | "amplifier";
+            unit: "ohm" | "F" | "V" | "V/s" | "s";
+            /** @description Nominal value (null: no limit, e.g. an instant slew rate) */
+            nominal: number | null;
+            /** @description MAP estimate (null: no limit) */
+            estimate: number | null;
+            /** @description Posterior standard deviation, first order (null: unbounded) */
+            standardDeviation: number | null;
+            /** @description Prior standard deviation at nominal */
+            priorStandardDeviation: number | null;
+            /** @description Part tolerance, fraction */
+            tolerance?: number;
+            /** @description estimate − nominal (slew rate: in its reciprocal, s/V) */
+            shift: number;
+            /** @description estimate/nominal − 1 (parts) */
+            relativeShift?: number;
+            /** @description Shift over the tolerance (parts) or over the 3σ prior spread (amplifier effects) */
+            shiftInTolerances: number;
+            /** @description Posterior over prior width; near 1: the data say nothing about this parameter */
+            posteriorToPriorSd: number;
+        };
+        FitExplanation: {
+            rank: number;
+            causes: {
+                /** @description Part role (cTiming, rTiming, ...) or amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS) */
+                parameter: string;
+                kind: "part" | "amplifier";
+                unit: "ohm" | "F" | "V" | "V/s" | "s";
+                /** @description Nominal value (null: no limit, e.g. an instant slew rate) */
+                nominal: number | null;
+                /** @description MAP estimate (null: no limit) */
+                estimate: number | null;
+                /** @description Posterior standard deviation, first order (null: unbounded) */
+                standardDeviation: number | null;
+                /** @description Prior standard deviation at nominal */
+                priorStandardDeviation: number | null;
+                /** @description Part tolerance, fraction */
+                tolerance?: number;
+                /** @description estimate − nominal (slew rate: in its reciprocal, s/V) */
+                shift: number;
+                /** @description estimate/nominal − 1 (parts) */
+                relativeShift?: number;
+                /** @description Shift over the tolerance (parts) or over the 3σ prior spread (amplifier effects) */
+                shiftInTolerances: number;
+                /** @description Posterior over prior width; near 1: the data say nothing about this parameter */
+                posteriorToPriorSd: number;
+                withinTolerance: boolean;
+                /** @description e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance" */
+                text: string;
+            }[];
+            /** @description Posterior probability among the nominal circuit and the candidates considered, 0..1 */
+            score: number;
+            /** @description Laplace-approximated log evidence */
+            logEvidence: number;
+            /** @description χ² of the measurements this explanation leaves */
+            residualChiSquare: number;
+            measurementCount: number;
+            /** @description Residual χ² within its 95 % bound */
+            accountsForMeasurements: boolean;
+            residuals: {
+                measurement: "frequencyHz" | "dutyCycle" | "capacitorMinV" | "capacitorMaxV" | "outputHighV" | "outputLowV" | "riseTimeS" | "fallTimeS" | "capacitorRisingTauS" | "capacitorFallingTauS";
+                measured: number;
+                predicted: number;
+                uncertainty: number;
+                /** @description (predicted − measured)/uncertainty */
+                normalized: number;
+            }[];
+            summary: string;
+        };
+        FitResult: {
+            /** @description What predicts the figures during the fit */
+            forwardModel: string;
+            /** @description Figures the forward model predicts */
+            nominal: {
+                frequencyHz: number;
+                periodS: number;
+                dutyCycle: number;
+                capacitorMinV: number;
+                capacitorMaxV: number;
+                outputHighV: number;
+                outputLowV: number;
+                riseTimeS: number;
+                fallTimeS: number;
+                capacitorRisingTauS: number;
+                capacitorFallingTauS: number;
+                upperThresholdV: number;
+                lowerThresholdV: number;
+                /** @description (upper − lower threshold)/(output high − low) */
+                hysteresisRatio: number;
+                /** @description Recovery delay + half the slew ramp, s */
+                effectiveEdgeDelayS: number;
+            };
+            /** @description Figures the forward model predicts */
+            fitted: {
+                frequencyHz: number;
+                periodS: number;
+                dutyCycle: number;
+                capacitorMinV: number;
+                capacitorMaxV: number;
+                outputHighV: number;
+                outputLowV: number;
+                riseTimeS: number;
+                fallTimeS: number;
+                capacitorRisingTauS: number;
+                capacitorFallingTauS: number;
+                upperThresholdV: number;
+                lowerThresholdV: number;
+                /** @description (upper − lower threshold)/(output high − low) */
+                hysteresisRatio: number;
+                /** @description Recovery delay + half the slew ramp, s */
+                effectiveEdgeDelayS: number;
+            };
+            measurements: {
+                name: "frequencyHz" | "dutyCycle" | "capacitorMinV" | "capacitorMaxV" | "outputHighV" | "outputLowV" | "riseTimeS" | "fallTimeS" | "capacitorRisingTauS" | "capacitorFallingTauS";
+                value: number;
+                /** @description Standard uncertainty used, same unit */
+                uncertainty: number;
+                source: "scalar" | "capture";
+                /** @description What the nominal circuit predicts */
+                nominal: number;
+                /** @description What the fitted circuit predicts */
+                fitted: number;
+                /** @description (nominal − measured)/uncertainty */
+                nominalResidual: number;
+                /** @description (fitted − measured)/uncertainty */
+                fittedResidual: number;
+            }[];
+            /** @description What the capture analysis (IEEE Std 181 levels, crossings, segment fits) found */
+            capture?: {
+                features: {
+                    timingSource: "output" | "capacitor";
+                    frequencyHz: number;
+                    periodS: number;
+                    /** @description Standard deviation of the periods, s */
+                    periodJitterS: number;
+                    periodMinS: number;
+                    periodMaxS: number;
+                    periodCount: number;
+                    dutyCycle: number;
+                    /** @description IEEE Std 181 histogram state level, V */
+                    outputHighV?: number;
+                    outputLowV?: number;
+                    /** @description Mean 10–90 % transition duration, s */
+                    riseTimeS?: number;
+                    fallTimeS?: number;
+                    edgeCount?: number;
+                    capacitorMinV?: number;
+                    capacitorMaxV?: number;
+                    /** @description Capacitor voltage at the falling output edges (segment fits), V */
+                    upperSwitchV?: number;
+                    lowerSwitchV?: number;
+                    /** @description Fitted time constant of the charging segments, s */
+                    risingTauS?: number;
+                    fallingTauS?: number;
+                    segmentCount?: number;
+                    sampleCount: number;
+                    sampleIntervalS: number;
+                    durationS: number;
+                };
+                notes: string[];
+                warnings: string[];
+            };
+            /** @description MAP estimates of every effective parameter, with priors from the nominal values and tolerances */
+            estimates: components["schemas"]["ParameterEstimate"][];
+            /** @description Derived, identifiable: (upper − lower threshold)/(output swing) */
+            hysteresisRatio: {
+                nominal: number;
+                estimate: number;
+                standardDeviation: number;
+            };
+            /** @description Pairs the data cannot tell apart: whatever one does across its tolerance band, the other mimics to within the measurement uncertainty */
+            indistinguishable: {
+                parameters: string[];
+                /** @description Posterior correlation */
+                correlation: number;
+                /** @description Cosine between the data sensitivities of the two: ±1 = the measurements respond to both alike */
+                sensitivityAlignment: number;
+                /** @description What the measurements could see of the difference between the two across a tolerance band, in σ (< 1: nothing) */
+                distinguishingSigma: number;
+                note: string;
+            }[];
+            /** @description Parameters the data add (almost) nothing to: posterior width over 0.9 of the prior */
+            uninformed: string[];
+            /** @description Posterior correlation matrix */
+            correlation: {
+                parameters: string[];
+                matrix: number[][];
+            };
+            fit: {
+                /** @description Data χ² at the estimate */
+                chiSquare: number;
+                priorChiSquare: number;
+                measurementCount: number;
+                iterations: number;
+                converged: boolean;
+            };
+            verdict: {
+                agreesWithNominal: boolean;
+                nominalChiSquare: number;
+                measurementCount: number;
+                /** @description 95 % χ² bound (Wilson–Hilferty) */
+                chiSquareBound95: number;
+                /** @description Posterior probability that nothing is off */
+                nominalScore: number;
+                statement: string;
+            };
+            /** @description Ranked one- and two-cause explanations */
+            explanations: components["schemas"]["FitExplanation"][];
+            /** @description Candidates scored (single causes, and pairs that beat both their single causes) */
+            candidateCount: number;
+            warnings: string[];
+        };
+        /** @description Where a role takes its values from: a series, or an approved-parts catalogue */
+        ValueSource: {
+            /** @description IEC 60063 preferred-number series */
+            series: "E3" | "E6" | "E12" | "E24" | "E48" | "E96" | "E192";
+            /** @description Part tolerance as a fraction (default: the tolerance usual for the series) */
+            tolerance?: number;
+        } | {
+            /** @description Id of a stored catalogue; only parts not marked not-for-new-designs are used */
+            catalogue: string;
+        };
+        /** @description Value source per kind of part, with per-role overrides */
+        ValueSources: {
+            resistor?: components["schemas"]["ValueSource"];
+            capacitor?: components["schemas"]["ValueSource"];
+            /** @description Per-role sources, overriding the per-kind ones (e.g. rTiming from a catalogue) */
+            roles?: {
+                [key: string]: components["schemas"]["ValueSource"];
+            };
+        };
+        /** @description One physical part: its value and where it comes from */
+        PartReference: {
+            /** @description Ohm or farad */
+            value: number;
+            /** @description Part tolerance, fraction */
+            tolerance: number;
+            /** @description Series the value belongs to */
+            series?: string;
+            /** @description Catalogue part number */
+            partNumber?: string;
+            /** @description Catalogue id */
+            catalogue?: string;
+            dielectric?: string;
+        };
+        /** @description A role filled by one part (its reference inline) or by two parts in series or parallel (listed in `parts`) */
+        FittedPart: {
+            role: string;
+            /** @description Effective value of the role, ohm or farad */
+            value: number;
+            arrangement: "single" | "series" | "parallel";
+            /** @description Part tolerance, fraction */
+            tolerance?: number;
+            /** @description Series the value belongs to */
+            series?: string;
+            /** @description Catalogue part number */
+            partNumber?: string;
+            /** @description Catalogue id */
+            catalogue?: string;
+            dielectric?: string;
+            /** @description The two parts of a series or parallel combination */
+            parts?: components["schemas"]["PartReference"][];
+        };
+        SnapChoice: {
+            /** @description Effective value of the role, ohm or farad */
+            value: number;
+            arrangement: "single" | "series" | "parallel";
+            /** @description Part tolerance, fraction */
+            tolerance?: number;
+            /** @description Series the value belongs to */
+            series?: string;
+            /** @description Catalogue part number */
+            partNumber?: string;
+            /** @description Catalogue id */
+            catalogue?: string;
+            dielectric?: string;
+            /** @description The two parts of a series or parallel combination */
+            parts?: components["schemas"]["PartReference"][];
+            /** @description (value − ideal) / ideal */
+            error: number;
+        };
+        /** @description Figures from the full analysis of the fitted circuit (as POST /v1/analyze reports them) */
+        Prediction: {
+            frequencyHz: number;
+            dutyCycle: number;
+            model: "closed-form" | "time-domain";
+            thresholds: {
+                upperV: number;
+                lowerV: number;
+            };
+            /** @description Mean supply current including the amplifier, A */
+            supplyCurrentA: number;
+        };
+        /** @description Give `values`, `circuit` or both */
+        SnapRequest: {
+            /** @description Ideal values to snap one by one */
+            values?: {
+                ideal: components["schemas"]["ComponentValue"];
+                kind: "resistor" | "capacitor";
+                source: components["schemas"]["ValueSource"];
+                /**
+                 * @description Also look for the best two-part series or parallel combination
+                 * @default false
+                 */
+                combinations?: boolean;
+                /** @description Echoed back (e.g. a reference designator) */
+                label?: string;
+            }[];
+            circuit?: {
+                topology: "single-supply-divider" | "split-supply";
+                supply: components["schemas"]["Supply"];
+                amplifier?: components["schemas"]["AmplifierSpec"];
+                targetFrequencyHz: number;
+                targetDutyCycle?: number;
+                /** @description Absolute duty-cycle tolerance when targetDutyCycle is given (default 0.02) */
+                dutyTolerance?: number;
+                values: components["schemas"]["ValueSources"];
+                /** @description Value ranges searched (default 100 Ω to 10 MΩ, 100 pF to 10 µF) */
+                ranges?: {
+                    rMinOhm?: number;
+                    rMaxOhm?: number;
+                    cMinF?: number;
+                    cMaxF?: number;
+                };
+                /** @description Allowed dielectric codes for catalogue capacitors */
+                dielectrics?: string[];
+                hysteresis?: {
+                    /** @description Ideal threshold-network values to snap near (rTop, rBottom, rFeedback or rFeedback, rGround); without them the network is free */
+                    ideal?: {
+                        [key: string]: components["schemas"]["ComponentValue"];
+                    };
+                    /** @description Split supply, free network: lowest β = rGround/(rGround+rFeedback) (default 0.1) */
+                    feedbackFractionMin?: number;
+                    /** @description Split supply, free network: highest β (default 0.9) */
+                    feedbackFractionMax?: number;
+                    /** @description Single-supply divider, free network: hysteresis as a fraction of the swing (default 1/3) */
+                    hysteresisFraction?: number;
+                };
+                /** @description Role that may be a two-part series or parallel combination */
+                combine?: "rTiming" | "cTiming";
+                /** @default 5 */
+                count?: number;
+            };
+        };
+        SnapResponse: {
+            values: {
+                label?: string;
+                ideal: number;
+                kind: string;
+                nearest: components["schemas"]["SnapChoice"];
+                /** @description Largest value <= ideal (null: none in the source) */
+                lower: components["schemas"]["SnapChoice"] | null;
+                /** @description Smallest value >= ideal (null: none in the source) */
+                higher: components["schemas"]["SnapChoice"] | null;
+                /** @description Best two-part combination when it beats the nearest single part */
+                combination?: components["schemas"]["SnapChoice"] | null;
+            }[];
+            circuit?: {
+                /** @description Best first by |frequencyError| */
+                candidates: {
+                    topology: string;
+                    parts: components["schemas"]["FittedPart"][];
+                    predicted: components["schemas"]["Prediction"];
+                    /** @description (predicted − target) / target */
+                    frequencyError: number;
+                    /** @description predicted − target duty cycle (null: no duty target) */
+                    dutyCycleError: number | null;
+                    checks: components["schemas"]["Check"][];
+                }[];
+                search: {
+                    thresholdNetworks: number;
+                    distinctThresholdNetworks: number;
+                    resistorValues: number;
+                    capacitorValues: number;
+                    /** @description Candidate evaluations of the screening search */
+                    pairsExamined: number;
+                    /** @description Tuples an exhaustive search would evaluate */
+                    exhaustiveTuples: number;
+                    closedFormEvaluations: number;
+                    fullAnalyses: number;
+                };
+            };
+        };
+        /** @description Values default to E24 resistors and E12 capacitors when `values` is omitted. `diode` models the steering diodes of diode-steered designs (default 0.6 V forward drop, 10 Ω); each such design's `circuit` carries the model it was analysed with. */
+        DesignRequest: {
+            targetFrequencyHz: number;
+            /**
+             * @description Fraction of the period the output is high; 0.1..0.9 by threshold placement, beyond that by diode steering
+             * @default 0.5
+             */
+            targetDutyCycle?: number;
+            /** @description Absolute duty-cycle tolerance (default 0.02) */
+            dutyTolerance?: number;
+            /**
+             * @description Largest |frequencyError| a design may have, fraction
+             * @default 0.01
+             */
+            frequencyTolerance?: number;
+            supply: components["schemas"]["Supply"];
+            amplifier: components["schemas"]["AmplifierSpec"];
+            values?: components["schemas"]["ValueSources"];
+            constraints?: {
+                rMinOhm?: number;
+                rMaxOhm?: number;
+                cMinF?: number;
+                cMaxF?: number;
+                /** @description Allowed dielectric codes for catalogue timing capacitors */
+                dielectrics?: string[];
+                /** @description Mean supply current budget including the amplifier, A */
+                maxSupplyCurrentA?: number;
+            };
+            /** @description Default: the threshold-placement topologies that suit the supply for duty cycles of 0.1..0.9, diode-steered outside that range. Name diode-steered to have it offered inside the range too. */
+            topologies?: ("single-supply-divider" | "split-supply" | "diode-steered")[];
+            diode?: components["schemas"]["Diode"];
+            /** @default 5 */
+            count?: number;
+        };
+        DesignResponse: {
+            /** @description Ranked by the share of the frequency and duty tolerances used (|frequencyError|/frequencyTolerance + |dutyCycleError|/dutyTolerance), best first */
+            designs: {
+                rank: number;
+                topology: string;
+                parts: components["schemas"]["FittedPart"][];
+                predicted: components["schemas"]["Prediction"];
+                /** @description (predicted − target) / target, from the full analysis */
+                frequencyError: number;
+                /** @description predicted − target duty cycle */
+                dutyCycleError: number;
+                /** @description Hysteresis the design was built around, as a fraction of the output swing */
+                hysteresisFraction: number;
+                circuit: components["schemas"]["Circuit"];
+                checks: components["schemas"]["Check"][];
+            }[];
+            /** @description Topologies or hysteresis widths that gave nothing, and why */
+            notes: string[];
+        };
+        /** @description A part's temperature behaviour */
+        TemperatureCoefficient: {
+            /** @description Linear temperature coefficient, ppm/K (value × (1 + α·(T − 25 °C))) */
+            tempcoPpmPerK: number;
+            /** @description Spread of the coefficient, ± ppm/K (uniform) */
+            tempcoTolerancePpmPerK?: number;
+        } | {
+            /** @description Capacitor dielectric: an EIA-198 code (class I such as C0G or U2J: linear tempco ± its tolerance; class II/III such as X7R, X5R, Y5V: the code's change band, taken as uniform within the band at every temperature of the range) or a technology word (PP, PET, PPS, mica...) */
+            dielectric: string;
+        };
+        ToleranceRequest: {
+            circuit: components["schemas"]["Circuit"];
+            /** @description Per-part tolerance by role, fraction. Parts not listed are exact. */
+            tolerances: {
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                rTiming?: number;
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                cTiming?: number;
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                rTop?: number;
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                rBottom?: number;
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                rFeedback?: number;
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                rGround?: number;
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                rCharge?: number;
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                rDischarge?: number;
+                /** @description Tolerance of this part, fraction (0.01 = 1 %) */
+                rPullup?: number;
+            };
+            /** @description Temperature behaviour by role */
+            temperatureCoefficients?: {
+                rTiming?: components["schemas"]["TemperatureCoefficient"];
+                cTiming?: components["schemas"]["TemperatureCoefficient"];
+                rTop?: components["schemas"]["TemperatureCoefficient"];
+                rBottom?: components["schemas"]["TemperatureCoefficient"];
+                rFeedback?: components["schemas"]["TemperatureCoefficient"];
+                rGround?: components["schemas"]["TemperatureCoefficient"];
+                rCharge?: components["schemas"]["TemperatureCoefficient"];
+                rDischarge?: components["schemas"]["TemperatureCoefficient"];
+                rPullup?: components["schemas"]["TemperatureCoefficient"];
+            };
+            /** @description Temperature range; Monte Carlo draws it uniformly, corners take its ends */
+            temperature?: {
+                /** @description Lowest board temperature, °C */
+                minC: number;
+                /** @description Highest board temperature, °C */
+                maxC: number;
+            };
+            /** @description Supply spread, fraction: both rails scale by one shared draw unless supplyRailsIndependent */
+            supplyTolerance?: number;
+            /** @description Draw each rail on its own (default false: one regulator, rails move together) */
+            supplyRailsIndependent?: boolean;
+            /** @description Amplifier figure spreads. Slew rate and delay matter only when the time-domain model answers; spreads of a figure that is 0 or unlimited have no effect. */
+            amplifierSpreads?: {
+                /** @description Spread of outputHeadroomHighV, fraction of its nominal value */
+                outputHeadroomHighV?: number;
+                /** @description Spread of outputHeadroomLowV, fraction of its nominal value */
+                outputHeadroomLowV?: number;
+                /** @description Spread of outputResistanceOhm, fraction of its nominal value */
+                outputResistanceOhm?: number;
+                /** @description Spread of slewRateVPerS, fraction of its nominal value */
+                slewRateVPerS?: number;
+                /** @description Spread of recoveryDelayS, fraction of its nominal value */
+                recoveryDelayS?: number;
+                /** @description Spread of inputBiasCurrentA, fraction of its nominal value */
+                inputBiasCurrentA?: number;
+                /** @description Spread of inputOffsetV, fraction of its nominal value */
+                inputOffsetV?: number;
+                /** @description Input offset anywhere within nominal ± this, V */
+                inputOffsetRangeV?: number;
+            };
+            /** @description Tracking groups: members share one random draw (their own tolerances then only set the default) */
+            tracking?: {
+                /** @description Parts that move together (one resistor network) */
+                roles: ("rTiming" | "cTiming" | "rTop" | "rBottom" | "rFeedback" | "rGround" | "rCharge" | "rDischarge" | "rPullup")[];
+                /** @description Spread of the shared draw (default: the largest tolerance of the members) */
+                tolerance?: number;
+                /** @description Independent spread of each member on top of the shared draw (default 0) */
+                residualTolerance?: number;
+            }[];
+            /** @description Monte Carlo settings (default 10 000 samples, seed 1, normal) */
+            monteCarlo?: {
+                /** @description Samples (up to 1e6 with the closed form; 422 beyond) */
+                samples: number;
+                /** @description Seed (default 1): the same seed gives the same result */
+                seed?: number;
+                /** @description Of tolerances, supply and amplifier spreads (default normal). Normal is truncated at ± the tolerance. */
+                distribution?: "uniform" | "normal";
+                /** @description Normal only: σ as a fraction of the tolerance (default 1/3, tolerance = 3σ, common practice) */
+                sigmaPerTolerance?: number;
+            };
+            /** @description Spec the yield is counted against */
+            spec?: {
+                /** @description Target frequency, Hz */
+                frequencyHz: number;
+                /** @description Allowed deviation from frequencyHz, fraction */
+                frequencyTolerance: number;
+                dutyMin?: number;
+                dutyMax?: number;
+            };
+            /** @description Bars of the SVG histogram (default 60) */
+            histogramBins?: number;
+        };
+        /** @description Percentiles (Hyndman & Fan definition 7), mean, std, extremes */
+        DistributionSummary: {
+            p0_1: number;
+            p1: number;
+            p5: number;
+            p50: number;
+            p95: number;
+            p99: number;
+            p99_9: number;
+            mean: number;
+            /** @description Sample standard deviation (n − 1) */
+            std: number;
+            min: number;
+            max: number;
+        };
+        ToleranceCorner: {
+            frequencyHz: number;
+            dutyCycle: number;
+            temperatureC: number | null;
+            /** @description Value of every varied parameter at the corner, SI units */
+            values: {
+                [key: string]: number;
+            };
+            /** @description Relative change of each varied parameter against nominal */
+            deviations: {
+                [key: string]: number;
+            };
+        };
+        ToleranceResult: {
+            topology: string;
+            /** @description Which model evaluated every point */
+            model: "closed-form" | "time-domain";
+            nominal: {
+                frequencyHz: number;
+                dutyCycle: number;
+            };
+            worstCase: {
+                frequencyMinHz: number;
+                frequencyMaxHz: number;
+                dutyMin: number;
+                dutyMax: number;
+                method: "all-corners" | "sensitivity-guided";
+                cornersEvaluated: number;
+                /** @description Corners at which the circuit does not oscillate */
+                latchedCorners: number;
+                /** @description The corner that produced each extreme */
+                corners: {
+                    frequencyMin: components["schemas"]["ToleranceCorner"];
+                    frequencyMax: components["schemas"]["ToleranceCorner"];
+                    dutyMin: components["schemas"]["ToleranceCorner"];
+                    dutyMax: components["schemas"]["ToleranceCorner"];
+                };
+                /** @description Every corner meets the spec (null without a spec) */
+                withinSpec: boolean | null;
+            };
+            monteCarlo: {
+                samples: number;
+                seed: number;
+                distribution: "uniform" | "normal";
+                sigmaPerTolerance: number | null;
+                oscillating: number;
+                latched: number;
+                frequencyHz: components["schemas"]["DistributionSummary"] | null;
+                dutyCycle: components["schemas"]["DistributionSummary"] | null;
+                /** @description Fraction of samples inside the spec (latched samples fail); null without a spec */
+                yield: number | null;
+                yieldDetail: {
+                    passing: number;
+                    failing: number;
+                    standardError: number;
+                    /** @description Wilson score interval */
+                    interval95: {
+                        low: number;
+                        high: number;
+                    };
+                    frequencyPassFraction: number;
+                    dutyPassFraction: number;
+                } | null;
+                elapsedS: number;
+                samplesPerSecond: number;
+            };
+            /** @description Ranked by |sensitivity| */
+            sensitivities: {
+                /** @description Part role, or the supply/amplifier parameter name */
+                role: string;
+                kind: "resistor" | "capacitor" | "supply" | "amplifier" | "load";
+                /** @description d ln f / d ln x at nominal */
+                sensitivity: number;
+                /** @description d(duty) / d ln x at nominal */
+                dutySensitivity: number;
+                /** @description Share of the first-order variance of ln f from this part's own variations */
+                varianceShare: number;
+            }[];
+            /** @description First-order variance budget of ln f by independent source, largest first */
+            varianceSources: {
+                source: string;
+                kind: "part-tolerance" | "tracking" | "tracking-residual" | "temperature" | "tempco-spread" | "dielectric-band" | "supply" | "amplifier";
+                share: number;
+                relativeStd: number;
+            }[];
+            linearEstimate: {
+                /** @description Root sum of squares of the sources, fraction */
+                frequencyRelativeStd: number;
+            };
+            temperatureModels: {
+                role: string;
+                model: "tempco" | "dielectric";
+                dielectric: string | null;
+                changeMinFraction: number;
+                changeMaxFraction: number;
+                withinRatedRange: boolean;
+            }[];
+            notes: {
+                code: string;
+                message: string;
+            }[];
+        };
+        WaveformRequest: {
+            circuit: components["schemas"]["Circuit"];
+            /**
+             * @description Periods of the steady oscillation to cover
+             * @default 3
+             */
+            periods?: number;
+            /**
+             * @description Samples on a uniform time grid, both ends included; more than 200000 is refused with 422
+             * @default 2000
+             */
+            samples?: number;
+            /**
+             * @description Start at power-up with the capacitor empty instead of at a rising decision of the steady state
+             * @default false
+             */
+            includePowerUp?: boolean;
+        };
+        Waveform: {
+            /**
+             * @description Waveforms always come from the time-domain engine
+             * @enum {string}
+             */
+            model: "time-domain";
+            frequencyHz: number;
+            periodS: number;
+            /** @description Fraction of the period the output is high, between 50 % crossings */
+            dutyCycle: number;
+            thresholds: {
+                upperV: number;
+                lowerV: number;
+            };
+            includePowerUp: boolean;
+            /** @description Sample times from the window start (power-up, or a rising decision), s */
+            timeS: number[];
+            /** @description Timing-capacitor voltage (inverting input N), V */
+            capacitorV: number[];
+            /** @description Output pin voltage, V */
+            outputV: number[];
+            /** @description Threshold node (non-inverting input P), V */
+            decisionV: number[];
+        };
+    };
+    responses: never;
+    parameters: never;
+    requestBodies: never;
+    headers: never;
+    pathItems: never;
+}
+export type $defs = Record<string, never>;
+export type operations = Record<string, never>;
