@@ -222,6 +222,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -295,6 +304,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -354,6 +372,15 @@ export interface paths {
                 };
                 /** @description The API key lacks the needed scope */
                 403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -438,6 +465,15 @@ export interface paths {
                 };
                 /** @description Not found */
                 404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -584,6 +620,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -685,6 +730,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -738,6 +792,15 @@ export interface paths {
                 };
                 /** @description The API key lacks the needed scope */
                 403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -837,6 +900,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -893,6 +965,15 @@ export interface paths {
                 };
                 /** @description The API key lacks the needed scope */
                 403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -994,6 +1075,15 @@ export interface paths {
                 };
                 /** @description Not found */
                 404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1133,6 +1223,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -1227,6 +1326,15 @@ export interface paths {
                 };
                 /** @description If-Match is required to change an existing resource */
                 428: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1333,6 +1441,15 @@ export interface paths {
                 };
                 /** @description Well-formed but physically impossible or unanswerable request */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1462,6 +1579,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -1568,6 +1694,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -1667,6 +1802,15 @@ export interface paths {
                 };
                 /** @description Well-formed but physically impossible or unanswerable request */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1790,6 +1934,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Overloaded; retry later */
                 503: {
                     headers: {
@@ -1899,6 +2052,15 @@ export interface paths {
                 };
                 /** @description Well-formed but physically impossible or unanswerable request */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
+                429: {
                     headers: {
                         [name: string]: unknown;
                     };

@@ -29,8 +29,6 @@ import {
   type ToleranceView,
 } from './views.ts';
 
-type Action = (session: Session, ...args: never[]) => Promise<ExitCode>;
-
 function positiveNumber(name: string) {
   return (raw: string): number => {
     const n = Number(raw);

@@ -211,7 +211,7 @@ export function amplifierListView(body: { amplifiers: { id: string; name: string
 
 /** Any flat record (an amplifier) as a two-column table; nested values as JSON. */
 export function recordView(record: Record<string, unknown>): string {
-  return figures(Object.entries(record).map(([k, v]) => [k, v === null ? '—' : typeof v === 'object' ? JSON.stringify(v) : String(v)]));
+  return figures(Object.entries(record).map(([k, v]) => [k, v === null ? '—' : typeof v === 'string' ? v : JSON.stringify(v)]));
 }
 
 export function catalogueListView(body: { catalogues: { id: string; name?: string; version: number; partCounts: { total: number } }[] }): string {
