@@ -21,7 +21,7 @@ const HTTP_SECONDS = 3;
 
 // Our own scenario: a 3.3 V single-rail wake-up timer on a class-typical CMOS rail-to-rail part.
 const circuit: Circuit = {
-  topology: 'single-supply-divider',
+  topology: 'three-resistor-divider',
   supply: { positiveV: 3.3, negativeV: 0 },
   amplifier: findBuiltInAmplifier('cmos-rro-micropower')!,
   parts: { rTiming: 47e3, cTiming: 22e-9, rTop: 100e3, rBottom: 100e3, rFeedback: 100e3 },

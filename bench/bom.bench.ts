@@ -46,7 +46,7 @@ function assemblies(count: number, distinct: number): BomAssembly[] {
         { refdes: 'U1', value: 'quad op-amp' },
       ],
       roles: { rTiming: 'R1', cTiming: 'C1', rTop: 'R2', rBottom: 'R3', rFeedback: 'R4' },
-      topology: 'single-supply-divider',
+      topology: 'three-resistor-divider',
       amplifier: 'cmos-rrio-fast',
       supply: { positiveV: 5, negativeV: 0, tolerance: 0.05 },
       temperature: { minC: -20, maxC: 70 },
@@ -93,7 +93,7 @@ function baseline(): number {
     const r = E24_KOHM[Math.floor(rnd() * E24_KOHM.length)];
     const c = E24_NF[Math.floor(rnd() * E24_NF.length)];
     const rDiv = E24_KOHM[Math.floor(rnd() * E24_KOHM.length)];
-    analyzeCircuit({ topology: 'single-supply-divider', supply: { positiveV: 5, negativeV: 0 }, amplifier: amp, parts: { rTiming: r, cTiming: c, rTop: rDiv, rBottom: rDiv, rFeedback: rDiv } }, { model: 'closed-form' });
+    analyzeCircuit({ topology: 'three-resistor-divider', supply: { positiveV: 5, negativeV: 0 }, amplifier: amp, parts: { rTiming: r, cTiming: c, rTop: rDiv, rBottom: rDiv, rFeedback: rDiv } }, { model: 'closed-form' });
     n++;
   }
   return n;

@@ -23,7 +23,7 @@ const ODEX_RUNS = 8;
 
 // Our own scenario: a ±12 V test-fixture clock on a slow general-purpose bipolar part.
 const circuit: Circuit = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 12, negativeV: -12 },
   amplifier: findBuiltInAmplifier('bipolar-split-supply-general')!,
   parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 10e3, rGround: 10e3 },

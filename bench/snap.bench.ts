@@ -22,7 +22,7 @@ const values = { resistor: { series: 'E96' as const }, capacitor: { series: 'E12
 
 function run(targetHz: number) {
   return jointSnap({
-    topology: 'split-supply',
+    topology: 'two-resistor-feedback',
     supply,
     amplifier,
     targetFrequencyHz: targetHz,
@@ -81,7 +81,7 @@ const exhaustiveMs = perTupleMs * tuples;
 
 // A reduced space small enough to walk in full: same method, E24 over two decades.
 const small = jointSnap({
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply,
   amplifier,
   targetFrequencyHz: 1234.5,

@@ -20,7 +20,7 @@ import { openSqliteStore } from '../src/store/index.ts';
 
 // Our own scenario: a ±5 V split-rail 5 kHz sensor excitation clock, 1 % resistors, 5 % C0G, ±5 % supply, 0..70 °C.
 const circuit: Circuit = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 5, negativeV: -5 },
   amplifier: findBuiltInAmplifier('ideal')!,
   parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 },

@@ -7,7 +7,7 @@ export * from './circuit/types.ts';
 export * from './circuit/result.ts';
 export * from './circuit/checks.ts';
 export * from './circuit/analyze.ts';
-export { TOPOLOGIES, TOPOLOGY_IDS, findTopology } from './circuit/topologies/index.ts';
+export { TOPOLOGIES, TOPOLOGY_IDS, TOPOLOGY_ALIASES, findTopology, canonicalTopologyId, acceptedTopologyIds, designable, snappable, aliasNote } from './circuit/topologies/index.ts';
 export * from './bom/index.ts';
 export * from './design/index.ts';
 export {

@@ -3,7 +3,7 @@
  * Infinity, amplifier references resolved. Keeps the routes thin and the core
  * free of wire formats.
  */
-import { findTopology, resolveAmplifier, type AmplifierModel, type Circuit, type InlineAmplifier } from '../core/index.ts';
+import { canonicalTopologyId, findTopology, resolveAmplifier, type AmplifierModel, type Circuit, type InlineAmplifier } from '../core/index.ts';
 import { CoreError } from '../core/errors.ts';
 import { parseComponentValue } from '../core/parts/value-parse.ts';
 import type { AmplifierDirectory } from './amplifier-directory.ts';
@@ -41,7 +41,8 @@ export function parseParts(topologyId: string, parts: Record<string, string | nu
 export function circuitFromBody(body: CircuitBody, directory: AmplifierDirectory, pointer = ''): Circuit {
   const amplifier = resolveAmplifierSpec(body.amplifier as string | Record<string, unknown>, directory, `${pointer}/amplifier`);
   const circuit: Circuit = {
-    topology: body.topology,
+    // A deprecated alias names the same topology; answers carry the current id.
+    topology: canonicalTopologyId(body.topology),
     supply: { positiveV: body.supply.positiveV, negativeV: body.supply.negativeV ?? 0 },
     amplifier,
     parts: parseParts(body.topology, body.parts as Record<string, string | number | undefined>, `${pointer}/parts`),

@@ -80,7 +80,7 @@ describe('PUT /v1/amplifiers/{id}', () => {
       method: 'POST',
       url: '/v1/analyze',
       payload: {
-        topology: 'split-supply',
+        topology: 'two-resistor-feedback',
         supply: { positiveV: 5, negativeV: -5 },
         amplifier: 'my-ideal',
         parts: { rTiming: 10_000, cTiming: 1e-8, rFeedback: 10_000, rGround: 10_000 },
@@ -158,7 +158,7 @@ describe('inline amplifiers over a base archetype', () => {
       method: 'POST',
       url: '/v1/analyze',
       payload: {
-        topology: 'split-supply',
+        topology: 'two-resistor-feedback',
         supply: { positiveV: 12, negativeV: -12 },
         amplifier: { base: 'bipolar-split-supply-general', outputHeadroomHighV: 2 },
         parts: { rTiming: '10k', cTiming: '10n', rFeedback: '10k', rGround: '10k' },

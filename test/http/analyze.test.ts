@@ -13,7 +13,7 @@ afterAll(async () => app.close());
 
 // Our own scenario: a 9 V battery-powered beacon blinker on a single supply.
 const beacon = {
-  topology: 'single-supply-divider',
+  topology: 'three-resistor-divider',
   supply: { positiveV: 9, negativeV: 0 },
   amplifier: 'ideal',
   parts: { rTiming: 22000, cTiming: '4n7', rTop: '68k', rBottom: '68k', rFeedback: '68k' },
@@ -109,9 +109,9 @@ describe('POST /v1/analyze', () => {
       fc.asyncProperty(
         fc.oneof(
           fc.jsonValue(),
-          fc.record({ topology: fc.constantFrom('split-supply', 'single-supply-divider', 'x'), supply: fc.jsonValue(), amplifier: fc.jsonValue(), parts: fc.jsonValue() }),
+          fc.record({ topology: fc.constantFrom('two-resistor-feedback', 'three-resistor-divider', 'x'), supply: fc.jsonValue(), amplifier: fc.jsonValue(), parts: fc.jsonValue() }),
           fc.record({
-            topology: fc.constant('split-supply'),
+            topology: fc.constant('two-resistor-feedback'),
             supply: fc.record({ positiveV: fc.double(), negativeV: fc.double() }),
             amplifier: fc.constantFrom('ideal', 'jfet-input-general'),
             parts: fc.record({ rTiming: fc.double(), cTiming: fc.double(), rFeedback: fc.oneof(fc.double(), fc.string()), rGround: fc.double() }),

@@ -31,7 +31,7 @@ const clean = {
     { refdes: 'U1', value: 'op-amp' },
   ],
   roles: { rTiming: 'R1', cTiming: 'C1', rTop: 'R2', rBottom: 'R3', rFeedback: 'R4' },
-  topology: 'single-supply-divider',
+  topology: 'three-resistor-divider',
   amplifier: 'ideal',
   supply: { positiveV: 5, tolerance: 0.02 },
   temperature: { minC: 0, maxC: 50 },

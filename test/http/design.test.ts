@@ -156,7 +156,7 @@ describe('POST /v1/design beyond threshold placement (diode steering)', () => {
       targetDutyCycle: 0.95,
       supply: { positiveV: 5 },
       amplifier: 'cmos-rrio-fast',
-      topologies: ['single-supply-divider'],
+      topologies: ['three-resistor-divider'],
     });
     expect(res.statusCode).toBe(422);
     expect(res.json().errors[0].pointer).toBe('/targetDutyCycle');

@@ -15,7 +15,7 @@ afterAll(async () => app.close());
 
 // Our own scenario (see test/core/fit/estimate-scenario.ts): a ±2.5 V 10 kHz bridge-excitation clock.
 const circuit = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 2.5, negativeV: -2.5 },
   amplifier: { base: 'cmos-rrio-fast', outputResistanceOhm: 0 },
   parts: { rTiming: '16k', cTiming: '4n7', rFeedback: '22k', rGround: '10k' },

@@ -16,7 +16,7 @@ beforeAll(async () => {
 afterAll(async () => app.close());
 
 const circuit = {
-  topology: 'single-supply-divider',
+  topology: 'three-resistor-divider',
   supply: { positiveV: 5, negativeV: 0 },
   amplifier: 'cmos-rrio-fast',
   parts: { rTiming: '2k2', cTiming: '180n', rTop: '5k1', rBottom: '5k1', rFeedback: '18k' },
@@ -41,7 +41,7 @@ const VALID: Record<string, unknown> = {
           { refdes: 'R4', value: '18K 1%' },
         ],
         roles: { rTiming: 'R1', cTiming: 'C1', rTop: 'R2', rBottom: 'R3', rFeedback: 'R4' },
-        topology: 'single-supply-divider',
+        topology: 'three-resistor-divider',
         amplifier: 'cmos-rrio-fast',
         supply: { positiveV: 5 },
         spec: { frequencyHz: 5000, frequencyTolerance: 0.1 },

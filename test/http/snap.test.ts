@@ -81,7 +81,7 @@ describe('POST /v1/snap, circuit', () => {
   it('returns joint choices ranked by frequency error, each analysed', async () => {
     const res = await snap({
       circuit: {
-        topology: 'split-supply',
+        topology: 'two-resistor-feedback',
         supply: { positiveV: 9, negativeV: -9 },
         amplifier: 'ideal',
         targetFrequencyHz: 4321,
@@ -111,7 +111,7 @@ describe('POST /v1/snap, circuit', () => {
   it('snaps near ideal divider values for a duty target, with a two-part timing resistor allowed', async () => {
     const res = await snap({
       circuit: {
-        topology: 'single-supply-divider',
+        topology: 'three-resistor-divider',
         supply: { positiveV: 5 },
         amplifier: 'cmos-rrio-fast',
         targetFrequencyHz: 1000,
@@ -134,7 +134,7 @@ describe('POST /v1/snap, circuit', () => {
   it('puts circuit errors under /circuit', async () => {
     const res = await snap({
       circuit: {
-        topology: 'split-supply',
+        topology: 'two-resistor-feedback',
         supply: { positiveV: 9, negativeV: -9 },
         targetFrequencyHz: 1000,
         values: { resistor: { series: 'E24' }, capacitor: { catalogue: 'absent' } },

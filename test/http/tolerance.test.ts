@@ -17,7 +17,7 @@ afterAll(async () => app.close());
 
 // Our own scenario: a ±5 V split-rail 5 kHz reference clock for a sensor front end.
 const clock = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 5, negativeV: -5 },
   amplifier: 'ideal',
   parts: { rTiming: '10k', cTiming: '10n', rFeedback: '20k', rGround: '10k' },
@@ -45,7 +45,7 @@ describe('POST /v1/tolerance', () => {
     });
     expect(res.statusCode).toBe(200);
     const body = res.json();
-    expect(body.topology).toBe('split-supply');
+    expect(body.topology).toBe('two-resistor-feedback');
     expect(body.nominal.frequencyHz / f0 - 1).toBeCloseTo(0, 12);
     const wc = body.worstCase;
     expect(wc.frequencyMinHz).toBeLessThan(f0);

@@ -15,7 +15,7 @@ afterAll(async () => app.close());
 
 // Our own scenario: a ±12 V test-fixture clock on a slow general-purpose part.
 const fixtureClock = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 12, negativeV: -12 },
   amplifier: 'bipolar-split-supply-general',
   parts: { rTiming: '10k', cTiming: '10n', rFeedback: '10k', rGround: '10k' },
@@ -98,7 +98,7 @@ describe('POST /v1/waveform', () => {
     // A weak output (1 kΩ) into a 100 Ω load only reaches 5·100/1100 ≈ 0.45 V when high, while the
     // divider puts the upper threshold near (5 + 0.45)/3 ≈ 1.8 V: the capacitor never gets there.
     const weak = {
-      topology: 'single-supply-divider',
+      topology: 'three-resistor-divider',
       supply: { positiveV: 5 },
       amplifier: { outputResistanceOhm: 1000, slewRateVPerS: 1e6 },
       load: { resistanceOhm: 100 },

@@ -14,7 +14,7 @@ import { HttpProblem } from '../../src/http/problem.ts';
 import { WorkerPool, workerEntry } from '../../src/http/workers/pool.ts';
 
 const circuit = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 5, negativeV: -5 },
   amplifier: {
     id: 'ideal-copy', name: 'ideal', technologyClass: 'ideal', description: 'ideal', figuresBasis: 'ideal' as const, outputStage: 'push-pull' as const,

@@ -17,20 +17,18 @@ import type { AmplifierModel } from '../amplifiers/model.ts';
 import type { Check } from '../circuit/checks.ts';
 import { formatPercent, formatSi } from '../circuit/format.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
-import { DEFAULT_STEERING_DIODE } from '../circuit/topologies/diode-steered.ts';
-import { findTopology, TOPOLOGY_IDS } from '../circuit/topologies/index.ts';
+import { canonicalTopologyId, findTopology, TOPOLOGIES } from '../circuit/topologies/index.ts';
 import type { DiodeModel, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { parseDielectric } from '../parts/dielectric.ts';
 import { requireFeasibleRequest, timingResistorBounds } from './bounds.ts';
-import { thresholdTopology, THRESHOLD_TOPOLOGIES } from './hysteresis.ts';
 import { DEFAULT_DUTY_TOLERANCE, jointSearch, type JointCandidate } from './joint-search.ts';
 import { NETWORK_BUDGET_SHARE, planWidth, type NetworkPlanContext } from './network-plan.ts';
 import { DEFAULT_RANGES, ValueSetCache, type RoleSources } from './role-sources.ts';
 import { preferredScaleOhm } from './scales.ts';
 import type { RoleValue } from './snap-value.ts';
 import { designSteeredWidth, type RatioShortfall } from './steered-design.ts';
-import { STEERED_TOPOLOGY_ID, type SteeredCandidate } from './steered-search.ts';
+import type { SteeredCandidate } from './steered-search.ts';
 import { screeningContext } from './thresholds.ts';
 
 export interface DesignConstraints {
@@ -94,11 +92,14 @@ export const HYSTERESIS_FRACTIONS: readonly number[] = [1 / 3, 1 / 5, 1 / 8];
 export const PLACEMENT_DUTY_RANGE = { min: 0.1, max: 0.9 } as const;
 const DESIGN_BAND_LIMIT = 200;
 
+/** Threshold-placement topologies (one shared timing resistor) whose network suits the supply. */
 function defaultTopologies(supply: Supply): string[] {
-  const ids = TOPOLOGY_IDS.filter((id) => id in THRESHOLD_TOPOLOGIES);
-  // The split-supply network needs a rail below ground to return its thresholds around.
-  return ids.filter((id) => id !== 'split-supply' || supply.negativeV < 0);
+  // A feedback network needs a rail below ground to return its thresholds around.
+  return TOPOLOGIES.filter((t) => t.design?.timing.kind === 'shared' && t.design.thresholdNetworks.some((n) => !n.needsNegativeRail || supply.negativeV < 0)).map((t) => t.id);
 }
+
+const isSteered = (id: string): boolean => findTopology(id)?.design?.timing.kind === 'steered';
+const STEERED_IDS = TOPOLOGIES.filter((t) => t.design?.timing.kind === 'steered').map((t) => t.id);
 
 function checkRequest(req: DesignRequest): { duty: number; count: number } {
   const f = req.targetFrequencyHz;
@@ -135,18 +136,25 @@ function needsSteering(duty: number): boolean {
 /** The topologies to design, with notes for those the duty cycle rules out. */
 function chooseTopologies(req: DesignRequest, duty: number, notes: string[]): string[] {
   const steering = needsSteering(duty);
-  const asked = req.topologies ?? (steering ? [STEERED_TOPOLOGY_ID] : defaultTopologies(req.supply));
-  for (const t of asked) if (t !== STEERED_TOPOLOGY_ID) thresholdTopology(t); // throws with the supported list
-  if (!steering) return [...asked];
+  // Deprecated aliases name the same topologies; designs carry the current ids.
+  const asked = [...new Set((req.topologies ?? (steering ? STEERED_IDS : defaultTopologies(req.supply))).map(canonicalTopologyId))];
+  for (const t of asked) {
+    const def = findTopology(t);
+    if (!def?.design) {
+      const supported = TOPOLOGIES.filter((d) => d.design).map((d) => d.id);
+      throw new CoreError('infeasible', `Design does not size topology '${t}' (supported: ${supported.join(', ')})`, '/topologies');
+    }
+  }
+  if (!steering) return asked;
   const range = `${PLACEMENT_DUTY_RANGE.min * 100} % to ${PLACEMENT_DUTY_RANGE.max * 100} %`;
-  const kept = asked.filter((t) => t === STEERED_TOPOLOGY_ID);
-  for (const t of asked) if (t !== STEERED_TOPOLOGY_ID) notes.push(`${t}: a duty cycle of ${formatPercent(duty)} is outside the ${range} that threshold placement reaches`);
+  const kept = asked.filter(isSteered);
+  for (const t of asked) if (!isSteered(t)) notes.push(`${t}: a duty cycle of ${formatPercent(duty)} is outside the ${range} that threshold placement reaches`);
   if (kept.length === 0) {
-    const available = TOPOLOGY_IDS.includes(STEERED_TOPOLOGY_ID);
+    const available = STEERED_IDS.length > 0;
     throw new CoreError(
       'infeasible',
       `A duty cycle of ${formatPercent(duty)} is outside the ${range} that threshold placement reaches` +
-        (available ? `; include '${STEERED_TOPOLOGY_ID}' in topologies (or leave topologies out) to steer it with diodes` : ', and no diode-steered topology is available'),
+        (available ? `; include '${STEERED_IDS[0]}' in topologies (or leave topologies out) to steer it with diodes` : ', and no diode-steered topology is available'),
       '/targetDutyCycle',
       { targetDutyCycle: duty, placementMin: PLACEMENT_DUTY_RANGE.min, placementMax: PLACEMENT_DUTY_RANGE.max },
     );
@@ -154,14 +162,16 @@ function chooseTopologies(req: DesignRequest, duty: number, notes: string[]): st
   return kept;
 }
 
-/** Roles a topology's design fills (threshold network plus timing parts). */
+/** Roles a topology's design fills (its threshold networks plus timing parts), from the registry. */
 function designRoles(topology: string): readonly string[] {
-  if (topology === STEERED_TOPOLOGY_ID) return Object.keys(findTopology(topology)!.roles);
-  return [...THRESHOLD_TOPOLOGIES[topology].roles, 'rTiming', 'cTiming'];
+  const d = findTopology(topology)!.design!;
+  const timing = d.timing.kind === 'shared' ? [d.timing.resistor, d.timing.capacitor] : [d.timing.charge, d.timing.discharge, d.timing.capacitor];
+  return [...new Set([...d.thresholdNetworks.flatMap((n) => n.roles), ...timing])];
 }
 
 function toDesign(c: JointCandidate | SteeredCandidate, fraction: number, duty: number): Design {
-  const diode = c.topology === STEERED_TOPOLOGY_ID ? (c.circuit.diode ?? DEFAULT_STEERING_DIODE) : undefined;
+  const timing = findTopology(c.topology)!.design!.timing;
+  const diode = timing.kind === 'steered' ? (c.circuit.diode ?? timing.defaultDiode) : undefined;
   return {
     ...(diode ? { diode: { ...diode } } : {}),
     topology: c.topology,
@@ -221,15 +231,18 @@ export function designOscillator(req: DesignRequest): DesignResult {
   for (const topology of topologies) {
     for (const fraction of HYSTERESIS_FRACTIONS) {
       const label = `${topology}, hysteresis ${formatPercent(fraction)} of the swing`;
-      if (topology === STEERED_TOPOLOGY_ID) {
+      const def = findTopology(topology)!;
+      const paths = def.design!.timing;
+      if (paths.kind === 'steered') {
         const outcome = designSteeredWidth(
+          def,
           {
             fraction,
             targetFrequencyHz: req.targetFrequencyHz,
             targetDutyCycle: duty,
             frequencyTolerance: req.frequencyTolerance,
             dutyTolerance,
-            diode: req.diode ?? DEFAULT_STEERING_DIODE,
+            diode: req.diode ?? paths.defaultDiode,
             capacitorRange: { min: cMin, max: cMax },
             count: count + 2,
           },
@@ -244,7 +257,7 @@ export function designOscillator(req: DesignRequest): DesignResult {
         for (const cand of outcome.candidates) keep(toDesign(cand, fraction, duty));
         continue;
       }
-      const width = planWidth(topology, fraction, duty, plan);
+      const width = planWidth(def.design!.thresholdNetworks[0], topology, fraction, duty, plan);
       if (typeof width === 'string') {
         notes.push(`${label}: ${width}`);
         continue;
@@ -257,8 +270,8 @@ export function designOscillator(req: DesignRequest): DesignResult {
         notes.push(`${label}: no timing resistance satisfies ${tb.minReason} and ${tb.maxReason} within the resistor range`);
         continue;
       }
-      const resistor = cache.forRole(topology, 'rTiming', { min: trMin, max: trMax });
-      const capacitor = cache.forRole(topology, 'cTiming', { min: cMin, max: cMax });
+      const resistor = cache.forRole(topology, paths.resistor, { min: trMin, max: trMax });
+      const capacitor = cache.forRole(topology, paths.capacitor, { min: cMin, max: cMax });
       const result = jointSearch({
         topology,
         supply,
@@ -288,7 +301,7 @@ export function designOscillator(req: DesignRequest): DesignResult {
     const r = ratioShortfalls[0];
     throw new CoreError(
       'infeasible',
-      `No ${STEERED_TOPOLOGY_ID} design reaches a duty cycle of ${formatPercent(duty)}. ${notes.join('; ')}`,
+      `No ${topologies[0]} design reaches a duty cycle of ${formatPercent(duty)}. ${notes.join('; ')}`,
       '/targetDutyCycle',
       { targetDutyCycle: duty, requiredResistanceRatio: r.requiredRatio, smallestResistanceRatio: r.smallestRatio, largestResistanceRatio: r.largestRatio },
     );

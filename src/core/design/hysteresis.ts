@@ -3,15 +3,16 @@
  * thresholds and dwell factors. Two ways to produce them:
  * - near an ideal network: every combination of the few values either side of
  *   each ideal resistor (a handful of networks);
- * - free ratio (split supply): every feedback/ground pair whose feedback fraction
+ * - free ratio (two-resistor feedback): every feedback/ground pair whose feedback fraction
  *   lies in a window. Pairs with the same ratio (decade shifts of one another)
  *   give the same thresholds, so they are merged and the pair whose scale is
  *   nearest the preferred decision-node resistance represents them.
  */
+import { findTopology, snappable, TOPOLOGIES, type ThresholdNetworkSpec } from '../circuit/topologies/index.ts';
 import { CoreError } from '../errors.ts';
 import type { RoleValue } from './snap-value.ts';
 import { neighbourIndices } from './snap-value.ts';
-import { networkThresholds, timingFactors, type DecisionNetwork, type ScreeningContext, type ThresholdPair, type TimingFactors } from './thresholds.ts';
+import { networkThresholds, timingFactors, type ScreeningContext, type ThresholdPair, type TimingFactors } from './thresholds.ts';
 import { lowerBound, type ValueSet } from './value-set.ts';
 
 export interface HysteresisOption {
@@ -136,29 +137,17 @@ export function joinHysteresis(list: readonly HysteresisCandidates[]): Hysteresi
   return { table, networksConsidered: considered };
 }
 
-/** Which roles of a topology form its threshold network, and how they sit around the decision node. */
-export interface ThresholdTopology {
-  roles: readonly string[];
-  network(values: Readonly<Record<string, number>>): DecisionNetwork;
-}
-
-export const THRESHOLD_TOPOLOGIES: Readonly<Record<string, ThresholdTopology>> = {
-  'single-supply-divider': {
-    roles: ['rTop', 'rBottom', 'rFeedback'],
-    network: (v) => ({ toPositiveOhm: v.rTop, toGroundOhm: v.rBottom, toOutputOhm: v.rFeedback }),
-  },
-  'split-supply': {
-    roles: ['rFeedback', 'rGround'],
-    network: (v) => ({ toGroundOhm: v.rGround, toOutputOhm: v.rFeedback }),
-  },
-};
-
-export function thresholdTopology(topology: string): ThresholdTopology {
-  const t = THRESHOLD_TOPOLOGIES[topology];
-  if (!t) {
-    throw new CoreError('infeasible', `Design and joint snap do not support topology '${topology}' yet (supported: ${Object.keys(THRESHOLD_TOPOLOGIES).join(', ')})`, '/topology');
+/**
+ * The threshold network joint snap and plain design size for a topology, from the registry:
+ * topologies with one shared timing resistor and a single threshold network.
+ */
+export function thresholdTopology(topology: string): ThresholdNetworkSpec {
+  const def = findTopology(topology);
+  if (!def || !snappable(def)) {
+    const supported = TOPOLOGIES.filter(snappable).map((t) => t.id);
+    throw new CoreError('infeasible', `Threshold-network sizing does not support topology '${topology}' (supported: ${supported.join(', ')})`, '/topology');
   }
-  return t;
+  return def.design!.thresholdNetworks[0];
 }
 
 /** Distance of a scale from the preferred one, in decades (0 when no preference). */
@@ -167,7 +156,10 @@ function scaleDistance(valueOhm: number, preferredOhm: number | undefined): numb
 }
 
 export interface NearOptions {
-  topology: string;
+  /** Topology whose threshold network to build (ignored when `network` is given). */
+  topology?: string;
+  /** The threshold network itself (e.g. one of a diode-steered topology's arrangements). */
+  network?: ThresholdNetworkSpec;
   /** Ideal values of the threshold-network roles, ohm. */
   ideal: Readonly<Record<string, number>>;
   sets: Readonly<Record<string, ValueSet>>;
@@ -180,7 +172,7 @@ export interface NearOptions {
 
 /** Every combination of the options nearest each ideal value. */
 export function hysteresisNear(options: NearOptions): HysteresisCandidates {
-  const topo = thresholdTopology(options.topology);
+  const topo = options.network ?? thresholdTopology(options.topology ?? '');
   const n = options.neighbours ?? 2;
   const perRole = topo.roles.map((role) => {
     const set = options.sets[role];
@@ -259,7 +251,7 @@ export function decadePeriod(values: Float64Array): number {
   return p;
 }
 
-/** Every split-supply pair in the fraction window, merged by ratio. */
+/** Every two-resistor feedback pair in the fraction window, merged by ratio. */
 export function hysteresisFreeRatio(o: FreeRatioOptions): HysteresisCandidates {
   if (!(o.feedbackFractionMin > 0 && o.feedbackFractionMax < 1 && o.feedbackFractionMin <= o.feedbackFractionMax)) {
     throw new CoreError('invalid-value', 'The feedback-fraction window must lie within (0, 1) with min <= max', '/hysteresis');

@@ -18,6 +18,7 @@
 import type { AmplifierModel } from '../amplifiers/model.ts';
 import { closedFormFigures } from '../circuit/analyze.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
+import { findTopology } from '../circuit/topologies/index.ts';
 import type { Circuit, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { analyseInRankOrder } from './full-analysis.ts';
@@ -341,9 +342,14 @@ function rankEvaluated(a: { frequencyError: number; preference: number }, b: { f
   return Math.abs(a.frequencyError) - Math.abs(b.frequencyError) || a.preference - b.preference;
 }
 
-export function jointSearch(input: JointSearchInput): JointSearchResult {
+export function jointSearch(request: JointSearchInput): JointSearchResult {
+  const def = findTopology(request.topology);
+  // Answers carry the current id even when the request named a deprecated alias.
+  const input: JointSearchInput = def ? { ...request, topology: def.id } : request;
   const f = input.targetFrequencyHz;
   if (!(f > 0) || !Number.isFinite(f)) throw new CoreError('invalid-value', 'targetFrequencyHz must be a finite frequency > 0', '/targetFrequencyHz');
+  const roles = def?.design?.timing;
+  if (roles?.kind !== 'shared') throw new CoreError('infeasible', `The joint search sizes topologies with one shared timing resistor, not '${input.topology}'`, '/topology');
   const dutyTol = input.dutyTolerance ?? DEFAULT_DUTY_TOLERANCE;
   const duty = input.targetDutyCycle;
   const dutyOk = (d: number) => duty === undefined || Math.abs(d - duty) <= dutyTol;
@@ -377,7 +383,7 @@ export function jointSearch(input: JointSearchInput): JointSearchResult {
     for (const p of pairs) {
       const nets = expand ? table.realizations(p.option) : [table.parts(p.option)];
       nets.forEach((net, n) => {
-        const parts = { ...net, rTiming: p.resistor, cTiming: p.capacitor };
+        const parts = { ...net, [roles.resistor]: p.resistor, [roles.capacitor]: p.capacitor };
         const key = partsKey(parts);
         if (seen.has(key)) return;
         seen.add(key);

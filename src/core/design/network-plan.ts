@@ -8,10 +8,11 @@ import type { AmplifierModel } from '../amplifiers/model.ts';
 import type { Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { decisionResistanceBounds } from './bounds.ts';
-import { hysteresisNear, joinHysteresis, thresholdTopology, type HysteresisCandidates } from './hysteresis.ts';
+import type { ThresholdNetworkSpec } from '../circuit/topologies/index.ts';
+import { hysteresisNear, joinHysteresis, type HysteresisCandidates } from './hysteresis.ts';
 import type { ValueSetCache } from './role-sources.ts';
 import { preferredScaleOhm, scalesWithin } from './scales.ts';
-import { networkThresholds, placeThresholds, solveDivider, type ScreeningContext, type ThresholdPair } from './thresholds.ts';
+import type { ScreeningContext, ThresholdPair } from './thresholds.ts';
 
 /** Share of the supply-current budget given to the threshold network and to the timing branch (our design split). */
 export const NETWORK_BUDGET_SHARE = 0.5;
@@ -29,10 +30,8 @@ export interface NetworkPlanContext {
 }
 
 export interface NetworkPlanOptions {
-  /** Threshold pair to build (single-supply divider); default: placed for the duty cycle. */
-  thresholds?: ThresholdPair;
-  /** Topology whose value sources the network roles draw from (default: the network's own). */
-  valuesTopology?: string;
+  /** Centre the pair on the swing instead of placing it for the duty cycle (diode steering sets the duty). */
+  centred?: boolean;
 }
 
 export interface WidthPlan {
@@ -45,61 +44,53 @@ export function withinCommonMode(t: ThresholdPair, supply: Supply, amp: Amplifie
 }
 
 /**
- * Ideal networks near which to look, for one threshold-network topology
- * ('single-supply-divider' or 'split-supply') and width; a reason string when there are none.
+ * Ideal networks near which to look, for one threshold network (`network`, of topology
+ * `valuesTopology`, whose value sources its roles draw from) and width; a reason string when there are none.
  */
-export function planWidth(topology: string, fraction: number, duty: number, plan: NetworkPlanContext, options: NetworkPlanOptions = {}): WidthPlan | string {
+export function planWidth(
+  network: ThresholdNetworkSpec,
+  valuesTopology: string,
+  fraction: number,
+  duty: number,
+  plan: NetworkPlanContext,
+  options: NetworkPlanOptions = {},
+): WidthPlan | string {
   const { ctx } = plan;
   const { levels, supply } = ctx;
-  const swingV = levels.highV - levels.lowV;
   const amp = plan.amplifier;
+  const noBias = { ...ctx, inputBiasCurrentA: 0 };
   let thresholds: ThresholdPair;
-  if (topology === 'single-supply-divider') {
-    try {
-      thresholds = options.thresholds ?? placeThresholds(duty, fraction * swingV, levels);
-      solveDivider(thresholds, { ...ctx, inputBiasCurrentA: 0 }, 1);
-    } catch (err) {
-      if (err instanceof CoreError) return err.message;
-      throw err;
-    }
-  } else {
-    // β = rGround / (rGround + rFeedback) = width / swing.
-    thresholds = networkThresholds({ toGroundOhm: fraction, toOutputOhm: 1 - fraction }, { ...ctx, inputBiasCurrentA: 0 });
+  let fractions: Record<string, number>;
+  try {
+    thresholds = options.centred ? network.centred(fraction, ctx) : network.thresholds(fraction, duty, ctx);
+    // Fractions of the total conductance per branch at negligible bias: every resistor is Rp / fraction.
+    fractions = Object.fromEntries(Object.entries(network.solve(thresholds, noBias, 1)).map(([role, r]) => [role, 1 / r]));
+  } catch (err) {
+    if (err instanceof CoreError) return err.message;
+    throw err;
   }
   if (!withinCommonMode(thresholds, supply, amp)) {
     return `thresholds ${thresholds.lowerV.toPrecision(3)} V / ${thresholds.upperV.toPrecision(3)} V fall outside the input common-mode range`;
   }
   const hysteresisV = thresholds.upperV - thresholds.lowerV;
   const bounds = decisionResistanceBounds(fraction, levels, amp, hysteresisV);
-  // Fractions of the total conductance per branch at negligible bias: every resistor is Rp / fraction.
-  const fractions: Record<string, number> = {};
-  if (topology === 'single-supply-divider') {
-    const probe = solveDivider(thresholds, { ...ctx, inputBiasCurrentA: 0 }, 1);
-    for (const [role, r] of Object.entries(probe)) fractions[role] = 1 / r;
-  } else {
-    fractions.rFeedback = 1 - fraction;
-    fractions.rGround = fraction;
-  }
   const fMax = Math.max(...Object.values(fractions));
   const fMin = Math.min(...Object.values(fractions));
   let pMin = Math.max(bounds.minOhm, plan.rMin * fMax);
   const pMax = Math.min(bounds.maxOhm, plan.rMax * fMin);
   if (Number.isFinite(plan.budgetA)) {
-    // Current from V+ through the network: at most supply span over the series path (rTop + rBottom, or rFeedback + rGround).
+    // Current through the network's rail path: at most the supply span over its series resistance.
     const spanV = supply.positiveV - supply.negativeV;
-    const pathFractions = topology === 'single-supply-divider' ? 1 / fractions.rTop + 1 / fractions.rBottom : 1 / fractions.rFeedback + 1 / fractions.rGround;
+    const pathFractions = network.railPathRoles.reduce((sum, role) => sum + 1 / fractions[role], 0);
     pMin = Math.max(pMin, spanV / (plan.budgetA * NETWORK_BUDGET_SHARE * pathFractions));
   }
   if (!(pMin <= pMax)) {
     return `no threshold-network scale satisfies ${bounds.minReason} and ${bounds.maxReason} within the resistor range`;
   }
-  const roles = thresholdTopology(topology).roles;
-  const valuesTopology = options.valuesTopology ?? topology;
-  const sets = Object.fromEntries(roles.map((role) => [role, plan.cache.forRole(valuesTopology, role, { min: plan.rMin, max: plan.rMax })]));
+  const sets = Object.fromEntries(network.roles.map((role) => [role, plan.cache.forRole(valuesTopology, role, { min: plan.rMin, max: plan.rMax })]));
   const tables = scalesWithin(pMin, pMax, SCALES_PER_WIDTH, SCALES_PER_DECADE).map((scale) => {
-    const ideal: Record<string, number> =
-      topology === 'single-supply-divider' ? { ...solveDivider(thresholds, ctx, scale) } : { rFeedback: scale / (1 - fraction), rGround: scale / fraction };
-    return hysteresisNear({ topology, ideal, sets, ctx, neighbours: 2, basePreference: Math.abs(Math.log10(scale / preferredScaleOhm(pMin, pMax))) });
+    const ideal = network.solve(thresholds, ctx, scale);
+    return hysteresisNear({ network, ideal, sets, ctx, neighbours: 2, basePreference: Math.abs(Math.log10(scale / preferredScaleOhm(pMin, pMax))) });
   });
   return { hysteresis: joinHysteresis(tables), thresholds };
 }

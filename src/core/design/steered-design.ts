@@ -4,11 +4,13 @@
  * rails), the range each steering resistor may take, whether the duty cycle's
  * resistor ratio fits in those ranges at all, then the joint search.
  */
+import type { ThresholdNetworkSpec, TopologyDefinition } from '../circuit/topologies/index.ts';
 import type { DiodeModel } from '../circuit/types.ts';
+import { CoreError } from '../errors.ts';
 import { formatPercent, formatSi } from '../circuit/format.ts';
 import { NETWORK_BUDGET_SHARE, planWidth, type NetworkPlanContext } from './network-plan.ts';
-import { STEERED_TOPOLOGY_ID, steeredSearch, type SteeredCandidate } from './steered-search.ts';
-import { centredThresholds, steeredDwellFactors, steeringResistorBounds } from './steered-timing.ts';
+import { steeredSearch, type SteeredCandidate } from './steered-search.ts';
+import { steeredDwellFactors, steeringResistorBounds } from './steered-timing.ts';
 import type { ThresholdPair } from './thresholds.ts';
 import type { ValueRange } from './value-set.ts';
 
@@ -35,19 +37,28 @@ export type SteeredWidthOutcome =
   | { candidates: SteeredCandidate[]; thresholds: ThresholdPair }
   | { reason: string; ratio?: RatioShortfall };
 
-/** Threshold-network arrangement by supply: a rail below ground returns the thresholds around ground. */
-export function steeredArrangement(negativeV: number): 'single-supply-divider' | 'split-supply' {
-  return negativeV < 0 ? 'split-supply' : 'single-supply-divider';
+/** The steered topology's threshold network for this supply: its first arrangement the supply suits (registry order). */
+export function steeredArrangement(topology: TopologyDefinition, negativeV: number): ThresholdNetworkSpec {
+  const networks = topology.design?.thresholdNetworks ?? [];
+  const fits = networks.find((n) => !n.needsNegativeRail || negativeV < 0);
+  if (!fits) throw new CoreError('infeasible', `Topology '${topology.id}' has no threshold network for this supply`, '/supply');
+  return fits;
 }
 
-export function designSteeredWidth(req: SteeredWidthRequest, plan: NetworkPlanContext): SteeredWidthOutcome {
+/** The steered topology's timing roles (registry). */
+function steeredRoles(topology: TopologyDefinition): { charge: string; discharge: string; capacitor: string } {
+  const t = topology.design?.timing;
+  if (t?.kind !== 'steered') throw new CoreError('infeasible', `Topology '${topology.id}' has no steered timing paths`, '/topologies');
+  return t;
+}
+
+export function designSteeredWidth(topology: TopologyDefinition, req: SteeredWidthRequest, plan: NetworkPlanContext): SteeredWidthOutcome {
   const { ctx, amplifier: amp } = plan;
   const { levels, supply } = ctx;
   const { diode, fraction } = req;
-  const arrangement = steeredArrangement(supply.negativeV);
-  const swingV = levels.highV - levels.lowV;
-  const centred = arrangement === 'single-supply-divider' ? centredThresholds(fraction * swingV, levels) : undefined;
-  const width = planWidth(arrangement, fraction, req.targetDutyCycle, plan, { thresholds: centred, valuesTopology: STEERED_TOPOLOGY_ID });
+  const roles = steeredRoles(topology);
+  const arrangement = steeredArrangement(topology, supply.negativeV);
+  const width = planWidth(arrangement, topology.id, fraction, req.targetDutyCycle, plan, { centred: true });
   if (typeof width === 'string') return { reason: width };
   const t = width.thresholds;
   const factors = steeredDwellFactors(t, levels, diode.forwardDropV);
@@ -67,8 +78,8 @@ export function designSteeredWidth(req: SteeredWidthRequest, plan: NetworkPlanCo
   }
   if (!(chargeMin <= chargeMax)) return { reason: `no rCharge satisfies ${b.charge.minReason} and ${b.charge.maxReason} within the resistor range` };
   if (!(dischargeMin <= dischargeMax)) return { reason: `no rDischarge satisfies ${b.discharge.minReason} and ${b.discharge.maxReason} within the resistor range` };
-  const charge = plan.cache.forRole(STEERED_TOPOLOGY_ID, 'rCharge', { min: chargeMin, max: chargeMax });
-  const discharge = plan.cache.forRole(STEERED_TOPOLOGY_ID, 'rDischarge', { min: dischargeMin, max: dischargeMax });
+  const charge = plan.cache.forRole(topology.id, roles.charge, { min: chargeMin, max: chargeMax });
+  const discharge = plan.cache.forRole(topology.id, roles.discharge, { min: dischargeMin, max: dischargeMax });
 
   // Duty fixes the ratio of the two path resistances; the duty tolerance widens it a little.
   const extraOhm = diode.resistanceOhm + amp.outputResistanceOhm;
@@ -94,8 +105,10 @@ export function designSteeredWidth(req: SteeredWidthRequest, plan: NetworkPlanCo
       ratio: { requiredRatio, smallestRatio, largestRatio },
     };
   }
-  const capacitor = plan.cache.forRole(STEERED_TOPOLOGY_ID, 'cTiming', req.capacitorRange);
+  const capacitor = plan.cache.forRole(topology.id, roles.capacitor, req.capacitorRange);
   const result = steeredSearch({
+    topology: topology.id,
+    roles,
     supply,
     amplifier: amp,
     diode,

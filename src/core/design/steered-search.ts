@@ -28,9 +28,11 @@ import type { OutputLevels } from './thresholds.ts';
 import { TopN } from './top-n.ts';
 import { lowerBound, type ValueSet } from './value-set.ts';
 
-export const STEERED_TOPOLOGY_ID = 'diode-steered';
 
 export interface SteeredSearchInput {
+  /** The steered topology's id and its timing roles (registry). */
+  topology: string;
+  roles: { charge: string; discharge: string; capacitor: string };
   supply: Supply;
   amplifier: AmplifierModel;
   diode: DiodeModel;
@@ -219,16 +221,16 @@ export function steeredSearch(input: SteeredSearchInput): SteeredSearchResult {
     for (const s of list) {
       const parts: Record<string, RoleValue> = {
         ...table.parts(s.row),
-        rCharge: single(input.charge, s.charge),
-        rDischarge: single(input.discharge, s.discharge),
-        cTiming: single(input.capacitor, s.capacitor),
+        [input.roles.charge]: single(input.charge, s.charge),
+        [input.roles.discharge]: single(input.discharge, s.discharge),
+        [input.roles.capacitor]: single(input.capacitor, s.capacitor),
       };
       const key = partsKey(parts);
       if (seen.has(key)) continue;
       seen.add(key);
       const values: Record<string, number> = {};
       for (const [role, v] of Object.entries(parts)) values[role] = v.value;
-      const circuit: Circuit = { topology: STEERED_TOPOLOGY_ID, supply: input.supply, amplifier: input.amplifier, parts: values, diode: input.diode };
+      const circuit: Circuit = { topology: input.topology, supply: input.supply, amplifier: input.amplifier, parts: values, diode: input.diode };
       stats.closedFormEvaluations++;
       try {
         const fig = closedFormFigures(circuit);
@@ -260,7 +262,7 @@ export function steeredSearch(input: SteeredSearchInput): SteeredSearchResult {
         const dutyCycleError = analysis.dutyCycle - duty;
         if (Math.abs(dutyCycleError) > input.dutyTolerance) return;
         analysed.push({
-          topology: STEERED_TOPOLOGY_ID,
+          topology: input.topology,
           parts: e.parts,
           circuit: e.circuit,
           analysis,

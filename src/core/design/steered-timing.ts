@@ -33,16 +33,8 @@ export function steeredDwellFactors(t: ThresholdPair, levels: OutputLevels, forw
   return { highTau: Math.log((top - t.lowerV) / (top - t.upperV)), lowTau: Math.log((t.upperV - bottom) / (t.lowerV - bottom)) };
 }
 
-/**
- * A threshold pair of the given width centred on the middle of the swing. Both
- * asymptotes sit the same forward drop inside the levels, so a centred pair gives
- * equal dwell factors and the duty cycle is the ratio of the path resistances
- * alone, at every width (our design choice: no placement on top of steering).
- */
-export function centredThresholds(widthV: number, levels: OutputLevels): ThresholdPair {
-  const midV = (levels.highV + levels.lowV) / 2;
-  return { lowerV: midV - widthV / 2, upperV: midV + widthV / 2 };
-}
+/** Centred pairs are the threshold solver's (the steered topology's threshold networks use them). */
+export { centredThresholds } from '../circuit/topologies/threshold-solver.ts';
 
 export interface SteeringBounds {
   /** Bounds on rCharge itself (the diode resistance is already taken off), ohm. */

@@ -13,6 +13,7 @@ import { Readable } from 'node:stream';
 import { setImmediate as nextTurn } from 'node:timers/promises';
 import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import {
+  canonicalTopologyId,
   CoreError,
   DEFAULT_BOM_OPTIONS,
   evaluateAssemblies,
@@ -52,7 +53,7 @@ export function bomAssemblyFromBody(body: BomAssemblyBody): BomAssembly {
     id: body.id,
     lines: body.lines.map((l) => ({ ...l, value: l.value ?? '' })),
     roles: body.roles,
-    topology: body.topology,
+    topology: canonicalTopologyId(body.topology),
     amplifier: typeof body.amplifier === 'string' ? body.amplifier : inlineAmplifierFromBody(body.amplifier as Record<string, unknown>),
     supply: { positiveV: body.supply.positiveV, negativeV: body.supply.negativeV ?? 0, tolerance: body.supply.tolerance ?? 0 },
     spec: body.spec,

@@ -9,6 +9,9 @@ const Role = Type.Object(
     role: Type.String(),
     kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor')]),
     required: Type.Boolean(),
+    purpose: Type.Union([Type.Literal('timing'), Type.Literal('thresholds'), Type.Literal('output-level')], {
+      description: 'What the role sets: the dwell times, the switching thresholds, or the output high level (a pull-up)',
+    }),
     description: Type.String(),
   },
   { additionalProperties: false },
@@ -19,8 +22,10 @@ const TopologyList = Type.Object(
     topologies: Type.Array(
       Type.Object(
         {
-          id: Type.String(),
+          id: Type.String({ description: 'Names the network; the supply is its own field' }),
+          deprecatedAliases: Type.Array(Type.String(), { description: 'Earlier ids still accepted as input for one release; answers use `id`' }),
           description: Type.String(),
+          designable: Type.Boolean({ description: 'POST /v1/design sizes it' }),
           needsOpenDrain: Type.Boolean(),
           roles: Type.Array(Role),
         },
@@ -44,9 +49,11 @@ export const topologyRoutes: FastifyPluginAsyncTypebox = async (app) => {
     async () => ({
       topologies: TOPOLOGIES.map((t) => ({
         id: t.id,
+        deprecatedAliases: [...(t.aliases ?? [])],
         description: t.description,
+        designable: t.design !== undefined,
         needsOpenDrain: t.needsOpenDrain,
-        roles: Object.entries(t.roles).map(([role, spec]) => ({ role, kind: spec.kind, required: spec.required, description: spec.description })),
+        roles: Object.entries(t.roles).map(([role, spec]) => ({ role, kind: spec.kind, required: spec.required, purpose: spec.purpose, description: spec.description })),
       })),
     }),
   );

@@ -1,6 +1,6 @@
 /** The circuit description shared by analyze, waveform, tolerance and fit requests. */
 import { Type, type Static } from 'typebox';
-import { TOPOLOGIES, TOPOLOGY_IDS } from '../../core/index.ts';
+import { acceptedTopologyIds, aliasNote, TOPOLOGIES } from '../../core/index.ts';
 import { AmplifierSpec, ComponentValue, ref, Supply } from './common.ts';
 
 /** Every role of every topology; the core checks which ones the chosen topology needs. */
@@ -44,8 +44,8 @@ export const ModelChoice = Type.Union([Type.Literal('auto'), Type.Literal('close
 export const Circuit = Type.Object(
   {
     topology: Type.Union(
-      TOPOLOGY_IDS.map((id) => Type.Literal(id)),
-      { description: TOPOLOGIES.map((t) => `${t.id}: ${t.description}`).join(' | ') },
+      acceptedTopologyIds().map((id) => Type.Literal(id)),
+      { description: `${TOPOLOGIES.map((t) => `${t.id}: ${t.description}`).join(' | ')}. ${aliasNote()}` },
     ),
     supply: ref(Supply),
     amplifier: ref(AmplifierSpec),

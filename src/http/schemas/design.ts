@@ -2,10 +2,11 @@
 import { Type, type Static } from 'typebox';
 import { AmplifierSpec, Check, ref, Supply } from './common.ts';
 import { Circuit, Diode } from './circuit.ts';
-import { FittedPart, Prediction, SNAP_TOPOLOGIES, ValueSources } from './snap.ts';
+import { acceptedTopologyIds, aliasNote, designable, TOPOLOGIES } from '../../core/index.ts';
+import { FittedPart, Prediction, ValueSources } from './snap.ts';
 
-/** Topologies design sizes: the threshold-placement ones joint snap also handles, plus diode steering. */
-export const DESIGN_TOPOLOGIES = [...SNAP_TOPOLOGIES, 'diode-steered'] as const;
+/** Topologies design sizes (registry), with their deprecated aliases. */
+export const DESIGN_TOPOLOGIES: readonly string[] = acceptedTopologyIds(designable);
 
 export const DesignRequest = Type.Object(
   {
@@ -41,7 +42,8 @@ export const DesignRequest = Type.Object(
         maxItems: 4,
         uniqueItems: true,
         description:
-          'Default: the threshold-placement topologies that suit the supply for duty cycles of 0.1..0.9, diode-steered outside that range. Name diode-steered to have it offered inside the range too.',
+          'Default: the threshold-placement topologies that suit the supply for duty cycles of 0.1..0.9, diode-steered outside that range. Name diode-steered to have it offered inside the range too. ' +
+          aliasNote(TOPOLOGIES.filter(designable).map((t) => t.id)),
       }),
     ),
     diode: Type.Optional(ref(Diode)),

@@ -1,5 +1,6 @@
 /** POST /v1/snap, and the value-source and fitted-part shapes design shares. */
 import { Type, type Static } from 'typebox';
+import { acceptedTopologyIds, aliasNote, snappable, TOPOLOGIES } from '../../core/index.ts';
 import { SERIES_NAMES } from '../../core/parts/index.ts';
 import { AmplifierSpec, Check, ComponentValue, ref, Supply } from './common.ts';
 
@@ -97,11 +98,12 @@ const Ranges = Type.Object(
   { additionalProperties: false, description: 'Value ranges searched (default 100 Ω to 10 MΩ, 100 pF to 10 µF)' },
 );
 
-export const SNAP_TOPOLOGIES = ['single-supply-divider', 'split-supply'] as const;
+/** Topologies joint snap sizes (registry: one shared timing resistor, one threshold network), with their deprecated aliases. */
+export const SNAP_TOPOLOGIES: readonly string[] = acceptedTopologyIds(snappable);
 
 const CircuitSnapRequest = Type.Object(
   {
-    topology: Type.Union(SNAP_TOPOLOGIES.map((t) => Type.Literal(t))),
+    topology: Type.Union(SNAP_TOPOLOGIES.map((t) => Type.Literal(t)), { description: aliasNote(TOPOLOGIES.filter(snappable).map((t) => t.id)) }),
     supply: ref(Supply),
     amplifier: Type.Optional(ref(AmplifierSpec)),
     targetFrequencyHz: Type.Number({ exclusiveMinimum: 0 }),

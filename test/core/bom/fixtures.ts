@@ -26,7 +26,7 @@ export function baseAssembly(overrides: Partial<BomAssembly> = {}): BomAssembly 
     id: 'probe-clock-rev-b',
     lines: baseLines(),
     roles: { rTiming: 'R1', cTiming: 'C1', rTop: 'R2', rBottom: 'R3', rFeedback: 'R4' },
-    topology: 'single-supply-divider',
+    topology: 'three-resistor-divider',
     amplifier: 'ideal',
     supply: { positiveV: 5, negativeV: 0, tolerance: 0 },
     spec: { frequencyHz: NOMINAL_FREQUENCY_HZ, frequencyTolerance: 0.1 },

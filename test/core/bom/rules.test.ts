@@ -152,7 +152,7 @@ describe('timing capacitor', () => {
   });
   it('electrolytic-in-timing-path, and reverse-biased on split rails', () => {
     const split: Partial<BomAssembly> = {
-      topology: 'split-supply',
+      topology: 'two-resistor-feedback',
       roles: { rTiming: 'R1', cTiming: 'C1', rFeedback: 'R2', rGround: 'R3' },
       supply: { positiveV: 5, negativeV: -5, tolerance: 0 },
     };

@@ -52,13 +52,13 @@ const timing = fc.record({ r: logUniform(4.7e3, 100e3), c: logUniform(1e-9, 47e-
 
 const circuitArb: fc.Arbitrary<Circuit> = fc.oneof(
   fc.record({ n: split, t: timing, amp: dynamics(fc.constantFrom(...pushPull)) }).map(({ n, t, amp }) => ({
-    topology: 'split-supply',
+    topology: 'two-resistor-feedback',
     supply: { positiveV: n.v, negativeV: -n.v },
     amplifier: amp,
     parts: { rTiming: t.r, cTiming: t.c, rFeedback: n.rFeedback, rGround: n.rGround },
   })),
   fc.record({ n: divider, t: timing, amp: dynamics(fc.constantFrom(...pushPull)), load: fc.option(logUniform(2e3, 50e3), { nil: undefined }) }).map(({ n, t, amp, load }) => ({
-    topology: 'single-supply-divider',
+    topology: 'three-resistor-divider',
     supply: { positiveV: n.v, negativeV: 0 },
     amplifier: amp,
     parts: { rTiming: t.r, cTiming: t.c, rTop: n.rTop, rBottom: n.rBottom, rFeedback: n.rFeedback },

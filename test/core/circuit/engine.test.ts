@@ -26,9 +26,9 @@ const staticAmp = amp({ outputHeadroomHighV: 0.8, outputHeadroomLowV: 0.3, outpu
 
 // Our own scenarios, one per topology.
 const circuits: Record<string, Circuit> = {
-  split: { topology: 'split-supply', supply: { positiveV: 12, negativeV: -12 }, amplifier: staticAmp, parts: { rTiming: 15e3, cTiming: 22e-9, rFeedback: 27e3, rGround: 10e3 } },
+  split: { topology: 'two-resistor-feedback', supply: { positiveV: 12, negativeV: -12 }, amplifier: staticAmp, parts: { rTiming: 15e3, cTiming: 22e-9, rFeedback: 27e3, rGround: 10e3 } },
   divider: {
-    topology: 'single-supply-divider',
+    topology: 'three-resistor-divider',
     supply: { positiveV: 5, negativeV: 0 },
     amplifier: staticAmp,
     parts: { rTiming: 47e3, cTiming: 3.3e-9, rTop: 100e3, rBottom: 68e3, rFeedback: 150e3 },
@@ -101,7 +101,7 @@ describe('slow general-purpose amplifier at tens of kHz', () => {
   // Class-typical bipolar single-supply op-amp: 0.4 V/µs, 4 µs recovery (archetype table, from memory of the trade).
   const slow = findBuiltInAmplifier('bipolar-single-supply-general')!;
   const clock: Circuit = {
-    topology: 'single-supply-divider',
+    topology: 'three-resistor-divider',
     supply: { positiveV: 12, negativeV: 0 },
     amplifier: slow,
     parts: { rTiming: 6.8e3, cTiming: 10e-9, rTop: 47e3, rBottom: 47e3, rFeedback: 47e3 },
@@ -163,7 +163,7 @@ describe('circuits that latch', () => {
     // 1 kΩ output into 100 Ω: the high level is 5·100/1100 ≈ 0.45 V, the upper threshold ≈ 1.8 V.
     expectLatch(
       {
-        topology: 'single-supply-divider',
+        topology: 'three-resistor-divider',
         supply: { positiveV: 5, negativeV: 0 },
         amplifier: amp({ outputResistanceOhm: 1000, slewRateVPerS: 2e6, recoveryDelayS: 1e-6 }),
         load: { resistanceOhm: 100, returnV: 0 },

@@ -15,7 +15,7 @@ function amp(overrides: Partial<AmplifierModel>): AmplifierModel {
 function split(rTiming: number, cTiming: number, beta: number, railV = 10, amplifier = ideal): Circuit {
   // β = rGround / (rGround + rFeedback); pick rGround + rFeedback = 100 kΩ.
   return {
-    topology: 'split-supply',
+    topology: 'two-resistor-feedback',
     supply: { positiveV: railV, negativeV: -railV },
     amplifier,
     parts: { rTiming, cTiming, rGround: beta * 1e5, rFeedback: (1 - beta) * 1e5 },
@@ -23,7 +23,7 @@ function split(rTiming: number, cTiming: number, beta: number, railV = 10, ampli
 }
 
 function divider(rTiming: number, cTiming: number, r: { rTop: number; rBottom: number; rFeedback: number }, supplyV: number, amplifier = ideal): Circuit {
-  return { topology: 'single-supply-divider', supply: { positiveV: supplyV, negativeV: 0 }, amplifier, parts: { rTiming, cTiming, ...r } };
+  return { topology: 'three-resistor-divider', supply: { positiveV: supplyV, negativeV: 0 }, amplifier, parts: { rTiming, cTiming, ...r } };
 }
 
 describe('split-supply astable, ideal amplifier (Sedra & Smith, Microelectronic Circuits, op-amp astable multivibrator)', () => {
@@ -129,7 +129,7 @@ describe('single-supply divider, three equal resistors', () => {
     const Ro = 200;
     const parts = { rTiming: 2e3, cTiming: 1e-7, rFeedback: 10e3, rGround: 10e3 };
     const Vs = 10;
-    const r = analyzeCircuit({ topology: 'split-supply', supply: { positiveV: Vs, negativeV: -Vs }, amplifier: amp({ outputResistanceOhm: Ro }), parts });
+    const r = analyzeCircuit({ topology: 'two-resistor-feedback', supply: { positiveV: Vs, negativeV: -Vs }, amplifier: amp({ outputResistanceOhm: Ro }), parts });
     // Thevenin seen by the capacitor: Ro in series? No — the pin loads Ro with (rFeedback + rGround) as well.
     // Pin node: (Vs − Vpin)/Ro = (Vpin − v)/rTiming + Vpin/(rFeedback + rGround). Solve for Vpin(v), then
     // iCap = (Vpin − v)/rTiming = a − v/Rth. Here by hand with numbers:

@@ -122,7 +122,7 @@ describe('open-drain-pullup', () => {
     expect(() => analyzeCircuit({ ...openDrain(1e3), amplifier: ideal })).toThrow(/open-drain output stage/);
     expect(() =>
       analyzeCircuit({
-        topology: 'split-supply',
+        topology: 'two-resistor-feedback',
         supply: { positiveV: 5, negativeV: -5 },
         amplifier: amp({ outputStage: 'open-drain' }),
         parts: { rTiming: 1e4, cTiming: 1e-8, rFeedback: 1e4, rGround: 1e4 },

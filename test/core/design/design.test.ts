@@ -42,7 +42,7 @@ describe('designOscillator', () => {
       const { designs } = designOscillator(request({ targetDutyCycle: duty, targetFrequencyHz: 800 }));
       expect(designs.length).toBeGreaterThan(0);
       for (const d of designs) {
-        expect(d.topology).toBe('single-supply-divider');
+        expect(d.topology).toBe('three-resistor-divider');
         expect(Math.abs(d.predicted.dutyCycle - duty)).toBeLessThanOrEqual(0.02);
       }
     }
@@ -50,7 +50,7 @@ describe('designOscillator', () => {
 
   it('designs for split rails with an archetype whose output stops short of the rails', () => {
     const { designs } = designOscillator(request({ supply: { positiveV: 12, negativeV: -12 }, amplifier: amp('bipolar-split-supply-general'), targetFrequencyHz: 300 }));
-    expect(designs.some((d) => d.topology === 'split-supply')).toBe(true);
+    expect(designs.some((d) => d.topology === 'two-resistor-feedback')).toBe(true);
   });
 
   it('keeps the timing resistor where the output can drive it (the trade rule on output current)', () => {
@@ -101,7 +101,7 @@ describe('designOscillator', () => {
       [{ supply: { positiveV: 12, negativeV: -12 }, amplifier: amp('bipolar-split-supply-general'), targetFrequencyHz: 50e3 }, /frequency ceiling/, '/targetFrequencyHz'],
       [{ supply: { positiveV: 15, negativeV: 0 } }, /outside the amplifier's rated/, '/supply'],
       // Threshold placement alone stops at 90 % (diode steering, tested in steered-design.test.ts, goes further).
-      [{ targetDutyCycle: 0.95, topologies: ['single-supply-divider'] }, /duty cycle/, '/targetDutyCycle'],
+      [{ targetDutyCycle: 0.95, topologies: ['three-resistor-divider'] }, /duty cycle/, '/targetDutyCycle'],
       [{ values: { resistor: { series: 'E24' }, capacitor: { catalogue: { id: 'empty', parts: [] } } } }, /no designable capacitor/, '/values/capacitor'],
       [{ constraints: { maxSupplyCurrentA: 1e-4 } }, /supply-current budget/, '/constraints/maxSupplyCurrentA'],
       [{ frequencyTolerance: 1e-9, values: { resistor: { series: 'E3' }, capacitor: { series: 'E3' } } }, /No design meets/, undefined],

@@ -61,7 +61,7 @@ describe('joint snap, split supply, free ratio', () => {
         if (beta < window.min || beta > window.max) continue;
         for (const rTiming of timingR) {
           for (const cTiming of timingC) {
-            const e = relError({ topology: 'split-supply', supply, amplifier, parts: { rFeedback, rGround, rTiming, cTiming } }, targetHz);
+            const e = relError({ topology: 'two-resistor-feedback', supply, amplifier, parts: { rFeedback, rGround, rTiming, cTiming } }, targetHz);
             if (e && e.error < best) best = e.error;
           }
         }
@@ -72,7 +72,7 @@ describe('joint snap, split supply, free ratio', () => {
 
   function search(amplifier: AmplifierModel, targetHz: number) {
     return jointSnap({
-      topology: 'split-supply',
+      topology: 'two-resistor-feedback',
       supply,
       amplifier,
       targetFrequencyHz: targetHz,
@@ -121,16 +121,16 @@ describe('joint search, single-supply divider with a duty target', () => {
         for (const rFeedback of dividerValues)
           for (const rTiming of timingR)
             for (const cTiming of timingC) {
-              const e = relError({ topology: 'single-supply-divider', supply, amplifier: ideal, parts: { rTop, rBottom, rFeedback, rTiming, cTiming } }, targetHz);
+              const e = relError({ topology: 'three-resistor-divider', supply, amplifier: ideal, parts: { rTop, rBottom, rFeedback, rTiming, cTiming } }, targetHz);
               if (e && Math.abs(e.duty - duty) <= dutyTolerance && e.error < best) best = e.error;
             }
     const ctx = screeningContext(supply, ideal);
     const set = buildValueSet({ series: 'E3' }, 'resistor', { min: 1e3, max: 99e3 });
     // Neighbours wide enough to take in every value: the search space is every triple, as in the exhaustive loop.
-    const hysteresis = hysteresisNear({ topology: 'single-supply-divider', ideal: { rTop: 10e3, rBottom: 10e3, rFeedback: 10e3 }, sets: { rTop: set, rBottom: set, rFeedback: set }, ctx, neighbours: 10 });
+    const hysteresis = hysteresisNear({ topology: 'three-resistor-divider', ideal: { rTop: 10e3, rBottom: 10e3, rFeedback: 10e3 }, sets: { rTop: set, rBottom: set, rFeedback: set }, ctx, neighbours: 10 });
     expect(hysteresis.networksConsidered).toBe(dividerValues.length ** 3);
     const result = jointSearch({
-      topology: 'single-supply-divider',
+      topology: 'three-resistor-divider',
       supply,
       amplifier: ideal,
       targetFrequencyHz: targetHz,
@@ -163,16 +163,16 @@ describe('joint search with two-part timing resistors', () => {
     let best = Infinity;
     for (const rTiming of options)
       for (const cTiming of cValues) {
-        const e = relError({ topology: 'split-supply', supply, amplifier: ideal, parts: { ...parts, rTiming, cTiming } }, targetHz);
+        const e = relError({ topology: 'two-resistor-feedback', supply, amplifier: ideal, parts: { ...parts, rTiming, cTiming } }, targetHz);
         if (e && e.error < best) best = e.error;
       }
     const ctx = screeningContext(supply, ideal);
     const set = buildValueSet({ series: 'E6' }, 'resistor', { min: 1e3, max: 99.9e3 });
-    const near = hysteresisNear({ topology: 'split-supply', ideal: parts, sets: { rFeedback: set, rGround: set }, ctx, neighbours: 1 });
+    const near = hysteresisNear({ topology: 'two-resistor-feedback', ideal: parts, sets: { rFeedback: set, rGround: set }, ctx, neighbours: 1 });
     const only = hysteresisFromOptions([near.table.option(0)].filter((o) => o.parts.rFeedback.value === 10e3 && o.parts.rGround.value === 10e3));
     expect(only.table.count).toBe(1);
     const result = jointSearch({
-      topology: 'split-supply',
+      topology: 'two-resistor-feedback',
       supply,
       amplifier: ideal,
       targetFrequencyHz: targetHz,

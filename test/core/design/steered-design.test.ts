@@ -149,7 +149,7 @@ describe('designOscillator beyond threshold placement (diode steering)', () => {
   it('offers steered designs inside 10..90 % only when asked for', () => {
     const plain = designOscillator(request({ targetDutyCycle: 0.5 }));
     expect(plain.designs.every((d) => d.topology !== 'diode-steered')).toBe(true);
-    const asked = designOscillator(request({ targetDutyCycle: 0.5, topologies: ['diode-steered', 'single-supply-divider'] }));
+    const asked = designOscillator(request({ targetDutyCycle: 0.5, topologies: ['diode-steered', 'three-resistor-divider'] }));
     expect(asked.designs.some((d) => d.topology === 'diode-steered')).toBe(true);
   });
 
@@ -192,7 +192,7 @@ describe('designOscillator beyond threshold placement (diode steering)', () => {
   });
 
   it('still refuses a duty cycle outside placement when the topologies named exclude steering', () => {
-    const e = designError(request({ targetDutyCycle: 0.05, topologies: ['single-supply-divider'] }));
+    const e = designError(request({ targetDutyCycle: 0.05, topologies: ['three-resistor-divider'] }));
     expect(e.code).toBe('infeasible');
     expect(e.pointer).toBe('/targetDutyCycle');
     expect(e.message).toMatch(/diode-steered/);

@@ -37,7 +37,7 @@ describe('threshold arithmetic against textbook results', () => {
       const t = placeThresholds(duty, 5 / 5, ctx.levels);
       expect(t.upperV - t.lowerV).toBeCloseTo(1, 12);
       const r = solveDivider(t, ctx, 8e3);
-      const a = analyzeCircuit({ topology: 'single-supply-divider', supply: single5, amplifier: ideal, parts: { ...r, rTiming: 100e3, cTiming: 10e-9 } });
+      const a = analyzeCircuit({ topology: 'three-resistor-divider', supply: single5, amplifier: ideal, parts: { ...r, rTiming: 100e3, cTiming: 10e-9 } });
       // The analysis (an independent path: nodal analysis of the network) lands on the placed thresholds and duty.
       expect(a.thresholds.lowerV).toBeCloseTo(t.lowerV, 9);
       expect(a.thresholds.upperV).toBeCloseTo(t.upperV, 9);
@@ -57,7 +57,7 @@ describe('threshold arithmetic against textbook results', () => {
     const ctx = screeningContext(supply, amp);
     const t = placeThresholds(0.4, 2, ctx.levels);
     const r = solveDivider(t, ctx, 20e3);
-    const a = analyzeCircuit({ topology: 'single-supply-divider', supply, amplifier: amp, parts: { ...r, rTiming: 220e3, cTiming: 10e-9 }, }, { model: 'closed-form' });
+    const a = analyzeCircuit({ topology: 'three-resistor-divider', supply, amplifier: amp, parts: { ...r, rTiming: 220e3, cTiming: 10e-9 }, }, { model: 'closed-form' });
     // Loading through the output resistance is the only effect the screening model leaves out: millivolts.
     expect(Math.abs(a.thresholds.lowerV - t.lowerV)).toBeLessThan(5e-3);
     expect(Math.abs(a.thresholds.upperV - t.upperV)).toBeLessThan(5e-3);

@@ -9,7 +9,7 @@ import { findBuiltInAmplifier, resolveAmplifier, type Circuit } from '../../../s
 export const bridgeClockAmplifier = resolveAmplifier({ base: 'cmos-rrio-fast', outputResistanceOhm: 0 }, (id) => findBuiltInAmplifier(id));
 
 export const bridgeClock: Circuit = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 2.5, negativeV: -2.5 },
   amplifier: bridgeClockAmplifier,
   parts: { rTiming: 16000, cTiming: 4.7e-9, rFeedback: 22000, rGround: 10000 },

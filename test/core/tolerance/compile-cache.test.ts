@@ -49,7 +49,7 @@ describe('ClosedFormCompileCache', () => {
     let compared = 0;
     fc.assert(
       fc.property(dividerArb, fc.double({ min: 3, max: 15, noNaN: true }), factorsArb, (parts, vPos, factors) => {
-        const circuit: Circuit = { topology: 'single-supply-divider', supply: { positiveV: vPos, negativeV: 0 }, amplifier: ideal, parts };
+        const circuit: Circuit = { topology: 'three-resistor-divider', supply: { positiveV: vPos, negativeV: 0 }, amplifier: ideal, parts };
         const fresh = refusal(() => compileClosedForm(circuit));
         const cached = refusal(() => cache.compile(circuit));
         expect(cached).toEqual(fresh);
@@ -92,7 +92,7 @@ describe('ClosedFormCompileCache', () => {
   it('keeps shapes apart: output resistance, load and present roles each change the structure', () => {
     const cache = new ClosedFormCompileCache();
     const split: Circuit = {
-      topology: 'split-supply',
+      topology: 'two-resistor-feedback',
       supply: { positiveV: 12, negativeV: -12 },
       amplifier: ideal,
       parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 },
@@ -128,7 +128,7 @@ describe('ClosedFormCompileCache', () => {
   it('refuses a bad circuit of a cached shape exactly as compileClosedForm does', () => {
     const cache = new ClosedFormCompileCache();
     const good: Circuit = {
-      topology: 'split-supply',
+      topology: 'two-resistor-feedback',
       supply: { positiveV: 5, negativeV: -5 },
       amplifier: ideal,
       parts: { rTiming: 10e3, cTiming: 1e-9, rFeedback: 10e3, rGround: 10e3 },

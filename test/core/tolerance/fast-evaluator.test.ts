@@ -36,13 +36,13 @@ const circuitArb: fc.Arbitrary<Circuit> = fc
   .map(({ split, amp, vPos, vNeg, r, c, load }) => {
     const circuit: Circuit = split
       ? {
-          topology: 'split-supply',
+          topology: 'two-resistor-feedback',
           supply: { positiveV: vPos, negativeV: -vNeg },
           amplifier: { ...ideal, ...amp },
           parts: { rTiming: r[0], cTiming: c, rFeedback: r[1], rGround: r[2] },
         }
       : {
-          topology: 'single-supply-divider',
+          topology: 'three-resistor-divider',
           supply: { positiveV: vPos, negativeV: 0 },
           amplifier: { ...ideal, ...amp },
           parts: { rTiming: r[0], cTiming: c, rTop: r[1], rBottom: r[2], rFeedback: r[3] },
@@ -101,7 +101,7 @@ describe('compileClosedForm', () => {
   it('reproduces the textbook split-supply period T = 2RC·ln((1+β)/(1−β))', () => {
     // Sedra & Smith, Microelectronic Circuits, op-amp astable multivibrator: β = R1/(R1+R2).
     const parts = { rTiming: 10e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 };
-    const evaluator = compileClosedForm({ topology: 'split-supply', supply: { positiveV: 12, negativeV: -12 }, amplifier: ideal, parts });
+    const evaluator = compileClosedForm({ topology: 'two-resistor-feedback', supply: { positiveV: 12, negativeV: -12 }, amplifier: ideal, parts });
     const out = new Float64Array(OUTPUT_LENGTH);
     evaluator.evaluate(evaluator.nominal, out);
     const beta = parts.rGround / (parts.rGround + parts.rFeedback);
@@ -111,7 +111,7 @@ describe('compileClosedForm', () => {
 
   it('reports non-physical values and latching instead of throwing', () => {
     const evaluator = compileClosedForm({
-      topology: 'split-supply',
+      topology: 'two-resistor-feedback',
       supply: { positiveV: 5, negativeV: -5 },
       amplifier: ideal,
       parts: { rTiming: 10e3, cTiming: 1e-9, rFeedback: 10e3, rGround: 10e3 },
@@ -128,7 +128,7 @@ describe('compileClosedForm', () => {
 
   it('validates the circuit once, at compile time, with a pointer', () => {
     expect(() =>
-      compileClosedForm({ topology: 'split-supply', supply: { positiveV: 5, negativeV: -5 }, amplifier: ideal, parts: { rTiming: 1e3, cTiming: 1e-9, rFeedback: 1e3 } }),
+      compileClosedForm({ topology: 'two-resistor-feedback', supply: { positiveV: 5, negativeV: -5 }, amplifier: ideal, parts: { rTiming: 1e3, cTiming: 1e-9, rFeedback: 1e3 } }),
     ).toThrow(expect.objectContaining({ code: 'missing-part', pointer: '/parts/rGround' }));
   });
 });

@@ -14,7 +14,7 @@ import { buildVariationModel } from '../../../src/core/tolerance/variation-model
 
 const ideal = findBuiltInAmplifier('ideal')!;
 const parts = { rTiming: 10e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 };
-const circuit: Circuit = { topology: 'split-supply', supply: { positiveV: 12, negativeV: -12 }, amplifier: ideal, parts };
+const circuit: Circuit = { topology: 'two-resistor-feedback', supply: { positiveV: 12, negativeV: -12 }, amplifier: ideal, parts };
 const beta = parts.rGround / (parts.rGround + parts.rFeedback);
 const L = Math.log((1 + beta) / (1 - beta));
 const f0 = 1 / (2 * parts.rTiming * parts.cTiming * L);

@@ -15,7 +15,7 @@ const ideal = findBuiltInAmplifier('ideal')!;
 
 // Our own scenarios (invented values, demo only).
 const split: Circuit = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 12, negativeV: -12 },
   amplifier: ideal,
   parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 },

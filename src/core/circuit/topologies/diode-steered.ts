@@ -3,8 +3,8 @@
  * while the output is high and discharges through rDischarge and a second diode
  * while it is low, so the two dwell times — and the duty cycle — are set
  * independently. The threshold network is either arrangement of the plain
- * astables: rTop + rBottom + rFeedback (single rail, like single-supply-divider)
- * or rFeedback + rGround (split rails, like split-supply); which one is chosen
+ * astables: rTop + rBottom + rFeedback (like three-resistor-divider)
+ * or rFeedback + rGround (like two-resistor-feedback); which one is chosen
  * by the parts given.
  *
  * Each diode is piecewise linear (forward drop + series resistance while it
@@ -16,6 +16,7 @@ import { NODE } from '../nodes.ts';
 import type { Branch } from '../network.ts';
 import type { DiodeModel } from '../types.ts';
 import { dividerThresholdBranches, ROLE, splitThresholdBranches } from './shared-parts.ts';
+import { DIVIDER_NETWORK, FEEDBACK_NETWORK } from './threshold-networks.ts';
 import type { TopologyDefinition } from './topology.ts';
 
 /** Small-signal silicon diode, common practice (the HTTP layer uses the same default). */
@@ -53,8 +54,8 @@ export const diodeSteered: TopologyDefinition = {
   description:
     'Separate charge and discharge paths: rCharge + diode (output to N, conducts while high) and rDischarge + diode (N to output, conducts while low) charge cTiming; thresholds from rTop + rBottom + rFeedback (single rail) or rFeedback + rGround (split rails). Diode: forward drop + resistance (`diode`, default 0.6 V, 10 Ω).',
   roles: {
-    rCharge: { kind: 'resistor', description: 'charge-path resistor, in series with the charge diode from the output to N', required: true },
-    rDischarge: { kind: 'resistor', description: 'discharge-path resistor, in series with the discharge diode from N to the output', required: true },
+    rCharge: { kind: 'resistor', description: 'charge-path resistor, in series with the charge diode from the output to N', required: true, purpose: 'timing' },
+    rDischarge: { kind: 'resistor', description: 'discharge-path resistor, in series with the discharge diode from N to the output', required: true, purpose: 'timing' },
     cTiming: ROLE.cTiming,
     rFeedback: ROLE.rFeedback,
     rTop: { ...ROLE.rTop, description: `single-rail arrangement: ${ROLE.rTop.description}`, required: false },
@@ -77,5 +78,10 @@ export const diodeSteered: TopologyDefinition = {
   },
   nominalDiodes(state) {
     return state === 'high' ? [true, false] : [false, true];
+  },
+  design: {
+    timing: { kind: 'steered', charge: 'rCharge', discharge: 'rDischarge', capacitor: 'cTiming', defaultDiode: DEFAULT_STEERING_DIODE },
+    // Around ground on split rails; the divider (thresholds centred on the swing) otherwise.
+    thresholdNetworks: [FEEDBACK_NETWORK, DIVIDER_NETWORK],
   },
 };

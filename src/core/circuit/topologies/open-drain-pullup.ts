@@ -3,7 +3,7 @@
  * pulls the pin down; in the high state it is released and rPullup to V+ —
  * together with whatever the pin feeds (the feedback and timing resistors, an
  * external load) — sets the high level. Thresholds come from a single-rail
- * divider (rTop, rBottom, rFeedback) as in single-supply-divider.
+ * divider (rTop, rBottom, rFeedback) as in three-resistor-divider.
  */
 import { NODE } from '../nodes.ts';
 import { dividerThresholdBranches, ROLE, timingBranch } from './shared-parts.ts';
@@ -14,7 +14,7 @@ export const openDrainPullup: TopologyDefinition = {
   description:
     'Open-drain comparator output with rPullup (V+ to output) giving the high level; rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground).',
   roles: {
-    rPullup: { kind: 'resistor', description: 'pull-up resistor, V+ to the open-drain output', required: true },
+    rPullup: { kind: 'resistor', description: 'pull-up resistor, V+ to the open-drain output', required: true, purpose: 'output-level' },
     rTiming: ROLE.rTiming,
     cTiming: ROLE.cTiming,
     rTop: ROLE.rTop,

@@ -7,13 +7,16 @@ import { NODE } from '../nodes.ts';
 import { resistor, type RoleSpec } from './topology.ts';
 
 export const ROLE = {
-  rTiming: { kind: 'resistor', description: 'timing resistor, output to inverting input', required: true },
-  cTiming: { kind: 'capacitor', description: 'timing capacitor, inverting input to ground', required: true },
-  rTop: { kind: 'resistor', description: 'divider resistor, V+ to non-inverting input', required: true },
-  rBottom: { kind: 'resistor', description: 'divider resistor, non-inverting input to ground', required: true },
-  rFeedback: { kind: 'resistor', description: 'positive-feedback resistor, output to non-inverting input', required: true },
-  rGround: { kind: 'resistor', description: 'non-inverting input to ground (mid rail)', required: true },
+  rTiming: { kind: 'resistor', description: 'timing resistor, output to inverting input', required: true, purpose: 'timing' },
+  cTiming: { kind: 'capacitor', description: 'timing capacitor, inverting input to ground', required: true, purpose: 'timing' },
+  rTop: { kind: 'resistor', description: 'divider resistor, V+ to non-inverting input', required: true, purpose: 'thresholds' },
+  rBottom: { kind: 'resistor', description: 'divider resistor, non-inverting input to ground', required: true, purpose: 'thresholds' },
+  rFeedback: { kind: 'resistor', description: 'positive-feedback resistor, output to non-inverting input', required: true, purpose: 'thresholds' },
+  rGround: { kind: 'resistor', description: 'non-inverting input to ground (mid rail)', required: true, purpose: 'thresholds' },
 } as const satisfies Record<string, RoleSpec>;
+
+/** One timing resistor for both dwells, the usual plain astable. */
+export const SHARED_TIMING = { kind: 'shared', resistor: 'rTiming', capacitor: 'cTiming' } as const;
 
 /** Single-rail threshold network: rTop to V+, rBottom to ground, rFeedback from the output. */
 export function dividerThresholdBranches(parts: Readonly<Record<string, number>>): Branch[] {
