@@ -35,6 +35,8 @@ export const BOM_RULES = {
   voltageRatingBelowSupply: { code: 'voltage-rating-below-supply', severity: 'error' },
   voltageRatingUnstated: { code: 'voltage-rating-unstated', severity: 'info' },
   temperatureBeyondPartRating: { code: 'temperature-beyond-part-rating', severity: 'warning' },
+  biasDerating: { code: 'bias-derating', severity: 'warning' },
+  biasDeratingLeavesSpec: { code: 'bias-derating-leaves-spec', severity: 'error' },
   // --- circuit behaviour (from the analysis checks) ---
   circuitRejected: { code: 'circuit-rejected', severity: 'error' },
   supplyOutsideAmplifierRange: { code: 'supply-outside-amplifier-range', severity: 'error' },

@@ -17,7 +17,7 @@ import { BOM_RULES } from './codes.ts';
 import { readBomLine } from './read-line.ts';
 import { ruleResult } from './rule.ts';
 import { catalogueRules } from './rules/catalogue.ts';
-import { dielectricRule, voltageRatingRule } from './rules/capacitor.ts';
+import { biasDeratingRule, dielectricRule, voltageRatingRule } from './rules/capacitor.ts';
 import { circuitRules, supplyAt } from './rules/circuit.ts';
 import { seriesRule } from './rules/series.ts';
 import { dutyRule, frequencyRule, yieldRule, yieldSkippedRule } from './rules/spec.ts';
@@ -143,6 +143,7 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
   let circuit: Circuit | undefined;
   let capacitorPeakV: number | undefined;
   let capacitorMinV: number | undefined;
+  let nominalAnalysis: ReturnType<typeof circuitRules>['nominal'];
   if (complete && amplifier) {
     const parts: Record<string, number> = {};
     for (const l of readings) parts[l.role] = l.value as number;
@@ -150,6 +151,7 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
     const evaluation = circuitRules(circuit, assembly.supply);
     rules.push(...evaluation.rules);
     if (!evaluation.nominal) circuit = undefined;
+    nominalAnalysis = evaluation.nominal;
     capacitorPeakV = evaluation.capacitorPeakV;
     capacitorMinV = evaluation.capacitorMinV;
   }
@@ -161,6 +163,10 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
     if (d) rules.push(d);
     const v = voltageRatingRule(line, { highestRailV, operatingPeakV: capacitorPeakV });
     if (v) rules.push(v);
+    if (line.role === topology.capacitorRole) {
+      const b = biasDeratingRule(line, nominalAnalysis?.states, nominalAnalysis?.frequencyHz, assembly.spec);
+      if (b) rules.push(b);
+    }
   }
 
   if (!circuit || inconsistent.length > 0) {

@@ -10,10 +10,21 @@
  * range — not the span V+ − V−, which never appears across a capacitor to
  * ground — and reports the steady-state peak beside it.
  */
+import { formatSi } from '../../circuit/format.ts';
+import type { StateSummary } from '../../circuit/result.ts';
+import {
+  CASE_SIZES,
+  DEFAULT_CASE_SIZE,
+  DEFAULT_RATED_VOLTAGE_V,
+  deratedTiming,
+  isBiasDependent,
+  typicalBiasShape,
+  type CaseSize,
+} from '../../parts/capacitor/index.ts';
 import { parseDielectric, type Dielectric } from '../../parts/dielectric.ts';
 import { BOM_RULES } from '../codes.ts';
 import { at, ruleResult } from '../rule.ts';
-import type { BomLineReading, BomRuleResult } from '../types.ts';
+import type { BomLineReading, BomRuleResult, BomSpec } from '../types.ts';
 
 function dielectricOf(line: BomLineReading): Dielectric | undefined {
   if (line.dielectricCode === undefined) return undefined;
@@ -84,4 +95,62 @@ export function voltageRatingRule(line: BomLineReading, v: CapacitorVoltages): B
     { ratedVoltageV: line.ratedVoltageV, highestRailV: v.highestRailV, operatingPeakV: v.operatingPeakV },
     at(line),
   );
+}
+
+/**
+ * bias-derating (warning) or bias-derating-leaves-spec (error): a class II/III
+ * timing capacitor loses capacitance with the DC bias it actually sees. Over the
+ * steady swing between the thresholds, the class-typical C(V) curve for its
+ * dielectric, rating and case (docs/model.md; typical of the class, from memory)
+ * gives the effective capacitance, and the non-linear piece of each state gives
+ * the frequency the board will run at — judged against the spec band.
+ */
+export function biasDeratingRule(
+  line: BomLineReading,
+  states: { high: StateSummary; low: StateSummary } | undefined,
+  nominalFrequencyHz: number | undefined,
+  spec: BomSpec,
+): BomRuleResult | undefined {
+  if (line.kind !== 'capacitor' || line.value === undefined || !states || nominalFrequencyHz === undefined) return undefined;
+  const d = dielectricOf(line);
+  if (!isBiasDependent(d)) return undefined;
+  const caseSize: CaseSize = (CASE_SIZES as readonly string[]).includes(line.packageCode ?? '') ? (line.packageCode as CaseSize) : DEFAULT_CASE_SIZE;
+  const ratedVoltageV = line.ratedVoltageV ?? DEFAULT_RATED_VOLTAGE_V;
+  const shape = typicalBiasShape(d, ratedVoltageV, caseSize);
+  const derated = deratedTiming(states, shape, line.value, line.value);
+  const lowHz = spec.frequencyHz * (1 - spec.frequencyTolerance);
+  const highHz = spec.frequencyHz * (1 + spec.frequencyTolerance);
+  const inside = derated.frequencyHz >= lowHz && derated.frequencyHz <= highHz;
+  const swingLowV = Math.min(states.low.switchingV, states.high.switchingV);
+  const swingHighV = Math.max(states.low.switchingV, states.high.switchingV);
+  const peakV = Math.max(Math.abs(swingLowV), Math.abs(swingHighV));
+  const assumed = [
+    line.ratedVoltageV === undefined ? `a ${DEFAULT_RATED_VOLTAGE_V} V rating` : '',
+    caseSize !== line.packageCode ? `a ${DEFAULT_CASE_SIZE} case` : '',
+  ].filter(Boolean);
+  const figures = {
+    dielectric: d!.code,
+    ratedVoltageV,
+    caseSize,
+    curveBasis: 'class-typical',
+    swingLowV,
+    swingHighV,
+    peakOverRatedFraction: peakV / ratedVoltageV,
+    markedCapacitanceF: line.value,
+    effectiveCapacitanceF: derated.effectiveCapacitanceF,
+    effectiveFraction: derated.effectiveFraction,
+    nominalFrequencyHz,
+    deratedFrequencyHz: derated.frequencyHz,
+    specLowHz: lowHz,
+    specHighHz: highHz,
+  };
+  const pct = (x: number) => `${Number((x * 100).toPrecision(3))} %`;
+  const message =
+    `${line.refdes} (${d!.code}, ${ratedVoltageV} V, ${caseSize}) sees ${Number(swingLowV.toPrecision(3))}…${Number(swingHighV.toPrecision(3))} V ` +
+    `(${pct(peakV / ratedVoltageV)} of its rating): over that swing a class-typical part keeps about ${pct(derated.effectiveFraction)} of its marked ` +
+    `${formatSi(line.value, 'F')} (${formatSi(derated.effectiveCapacitanceF, 'F')}), so the clock runs near ${formatSi(derated.frequencyHz, 'Hz')} ` +
+    `instead of ${formatSi(nominalFrequencyHz, 'Hz')}` +
+    (inside ? `, still inside the spec ${formatSi(lowHz, 'Hz')} to ${formatSi(highHz, 'Hz')}` : `, outside the spec ${formatSi(lowHz, 'Hz')} to ${formatSi(highHz, 'Hz')}`) +
+    (assumed.length ? ` (assuming ${assumed.join(' and ')}: none stated)` : '');
+  return ruleResult(inside ? BOM_RULES.biasDerating : BOM_RULES.biasDeratingLeavesSpec, message, figures, at(line));
 }
