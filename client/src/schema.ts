@@ -273,13 +273,20 @@ export interface paths {
                     content: {
                         "application/json": {
                             topologies: {
+                                /** @description Names the network; the supply is its own field */
                                 id: string;
+                                /** @description Earlier ids still accepted as input for one release; answers use `id` */
+                                deprecatedAliases: string[];
                                 description: string;
+                                /** @description POST /v1/design sizes it */
+                                designable: boolean;
                                 needsOpenDrain: boolean;
                                 roles: {
                                     role: string;
                                     kind: "resistor" | "capacitor";
                                     required: boolean;
+                                    /** @description What the role sets: the dwell times, the switching thresholds, or the output high level (a pull-up) */
+                                    purpose: "timing" | "thresholds" | "output-level";
                                     description: string;
                                 }[];
                             }[];
@@ -2197,8 +2204,8 @@ export interface components {
             resistanceOhm?: number;
         };
         Circuit: {
-            /** @description single-supply-divider: Single rail: rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground). | split-supply: Split rails: rFeedback (output to P) and rGround (P to ground) set the thresholds; rTiming (output to N) charges cTiming (N to ground). | diode-steered: Separate charge and discharge paths: rCharge + diode (output to N, conducts while high) and rDischarge + diode (N to output, conducts while low) charge cTiming; thresholds from rTop + rBottom + rFeedback (single rail) or rFeedback + rGround (split rails). Diode: forward drop + resistance (`diode`, default 0.6 V, 10 Ω). | open-drain-pullup: Open-drain comparator output with rPullup (V+ to output) giving the high level; rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground). */
-            topology: "single-supply-divider" | "split-supply" | "diode-steered" | "open-drain-pullup";
+            /** @description three-resistor-divider: rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds anywhere in the swing; rTiming (output to N) charges cTiming (N to ground). Any supply. | two-resistor-feedback: rFeedback (output to P) and rGround (P to ground) set the thresholds at ±β of the output levels; rTiming (output to N) charges cTiming (N to ground). Needs a rail below ground. | diode-steered: Separate charge and discharge paths: rCharge + diode (output to N, conducts while high) and rDischarge + diode (N to output, conducts while low) charge cTiming; thresholds from rTop + rBottom + rFeedback (single rail) or rFeedback + rGround (split rails). Diode: forward drop + resistance (`diode`, default 0.6 V, 10 Ω). | open-drain-pullup: Open-drain comparator output with rPullup (V+ to output) giving the high level; rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground).. Deprecated aliases, accepted for one release (answers use the current id): single-supply-divider → three-resistor-divider, split-supply → two-resistor-feedback. */
+            topology: "three-resistor-divider" | "two-resistor-feedback" | "diode-steered" | "open-drain-pullup" | "single-supply-divider" | "split-supply";
             supply: components["schemas"]["Supply"];
             amplifier: components["schemas"]["AmplifierSpec"];
             parts: components["schemas"]["Parts"];
@@ -2565,7 +2572,7 @@ export interface components {
             roles: {
                 [key: string]: string;
             };
-            /** @description Topology id: single-supply-divider, split-supply, diode-steered, open-drain-pullup (an unknown one fails this assembly only) */
+            /** @description Topology id: three-resistor-divider, two-resistor-feedback, diode-steered, open-drain-pullup (an unknown one fails this assembly only) */
             topology: string;
             amplifier: components["schemas"]["AmplifierSpec"];
             supply: components["schemas"]["BomSupply"];
@@ -3017,7 +3024,8 @@ export interface components {
                 label?: string;
             }[];
             circuit?: {
-                topology: "single-supply-divider" | "split-supply";
+                /** @description Deprecated aliases, accepted for one release (answers use the current id): single-supply-divider → three-resistor-divider, split-supply → two-resistor-feedback. */
+                topology: "three-resistor-divider" | "two-resistor-feedback" | "single-supply-divider" | "split-supply";
                 supply: components["schemas"]["Supply"];
                 amplifier?: components["schemas"]["AmplifierSpec"];
                 targetFrequencyHz: number;
@@ -3119,8 +3127,8 @@ export interface components {
                 /** @description Mean supply current budget including the amplifier, A */
                 maxSupplyCurrentA?: number;
             };
-            /** @description Default: the threshold-placement topologies that suit the supply for duty cycles of 0.1..0.9, diode-steered outside that range. Name diode-steered to have it offered inside the range too. */
-            topologies?: ("single-supply-divider" | "split-supply" | "diode-steered")[];
+            /** @description Default: the threshold-placement topologies that suit the supply for duty cycles of 0.1..0.9, diode-steered outside that range. Name diode-steered to have it offered inside the range too. Deprecated aliases, accepted for one release (answers use the current id): single-supply-divider → three-resistor-divider, split-supply → two-resistor-feedback. */
+            topologies?: ("three-resistor-divider" | "two-resistor-feedback" | "diode-steered" | "single-supply-divider" | "split-supply")[];
             diode?: components["schemas"]["Diode"];
             /** @default 5 */
             count?: number;

@@ -22,7 +22,7 @@ const WRITE_KEY = 'cli-write-key';
 
 /** Scenarios of our own (README). */
 const PROBE_CLOCK = {
-  topology: 'single-supply-divider',
+  topology: 'three-resistor-divider',
   supply: { positiveV: 5 },
   amplifier: 'cmos-rrio-fast',
   parts: { rTiming: '15k', cTiming: '10n', rTop: '100k', rBottom: '100k', rFeedback: '100k' },
@@ -30,7 +30,7 @@ const PROBE_CLOCK = {
 const DESIGN = { targetFrequencyHz: 5000, targetDutyCycle: 0.5, frequencyTolerance: 0.01, supply: { positiveV: 5 }, amplifier: 'cmos-rrio-fast', count: 2 };
 const TOLERANCE = {
   circuit: {
-    topology: 'single-supply-divider',
+    topology: 'three-resistor-divider',
     supply: { positiveV: 5 },
     amplifier: 'cmos-rrio-fast',
     parts: { rTiming: '2k2', cTiming: '180n', rTop: '5k1', rBottom: '5k1', rFeedback: '18k' },
@@ -50,7 +50,7 @@ const BOM_CSV = [
 ].join('\r\n');
 const BOM_ASSEMBLY = {
   roles: { rTiming: 'R1', cTiming: 'C1', rTop: 'R2', rBottom: 'R3', rFeedback: 'R4' },
-  topology: 'single-supply-divider',
+  topology: 'three-resistor-divider',
   amplifier: 'cmos-rrio-fast',
   supply: { positiveV: 5, tolerance: 0.05 },
   temperature: { minC: 0, maxC: 50 },
@@ -63,7 +63,7 @@ const CATALOGUE = {
 };
 // The second scenario: a ±2.5 V bridge-excitation clock whose capacitor came out 8 % high.
 const FIT_CIRCUIT = {
-  topology: 'split-supply',
+  topology: 'two-resistor-feedback',
   supply: { positiveV: 2.5, negativeV: -2.5 },
   amplifier: { base: 'cmos-rrio-fast', outputResistanceOhm: 0 },
   parts: { rTiming: '16k', cTiming: '4n7', rFeedback: '22k', rGround: '10k' },

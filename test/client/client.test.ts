@@ -15,7 +15,7 @@ const WRITE_KEY = 'client-write-key';
 
 /** A scenario of our own (README): 5 V single supply, 15 kΩ / 10 nF, equal 100 kΩ hysteresis divider. */
 const PROBE_CLOCK: Schemas['Circuit'] = {
-  topology: 'single-supply-divider',
+  topology: 'three-resistor-divider',
   supply: { positiveV: 5 },
   amplifier: 'cmos-rrio-fast',
   parts: { rTiming: '15k', cTiming: '10n', rTop: '100k', rBottom: '100k', rFeedback: '100k' },
