@@ -54,7 +54,7 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
     workers: new WorkerPool({ threads: config.workerThreads }),
   };
   app.decorate('services', services);
-  if (!options.store) app.addHook('onClose', async () => store.close());
+  if (!options.store) app.addHook('onClose', async () => await store.close());
   app.addHook('onClose', async () => services.workers.close());
 
   app.setErrorHandler(errorHandler);

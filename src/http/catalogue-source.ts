@@ -53,8 +53,8 @@ function readPart(part: CataloguePartBody, at: string): CataloguePart {
  * at `pointer` (the request field that named it). A stored body that no longer reads
  * is the store's fault, not the caller's: StoreError('corrupt').
  */
-export function getCatalogue(services: Services, id: string, pointer?: string): Catalogue {
-  const doc = services.store.catalogues.get(id);
+export async function getCatalogue(services: Services, id: string, pointer?: string): Promise<Catalogue> {
+  const doc = await services.store.catalogues.get(id);
   if (!doc) throw new CoreError('unknown-reference', `No catalogue with id '${id}'`, pointer);
   const body = doc.body as unknown as CatalogueWriteBody;
   let parts: CataloguePart[];
@@ -69,4 +69,49 @@ export function getCatalogue(services: Services, id: string, pointer?: string): 
   const catalogue: Catalogue = { id, parts };
   if (typeof body.name === 'string') catalogue.name = body.name;
   return catalogue;
+}
+
+/** Synchronous catalogue resolution for one request (the core reads catalogues mid-calculation). */
+export type CatalogueLookup = (id: string, pointer?: string) => Catalogue;
+
+/**
+ * Read every catalogue a request names, once and in parallel, before the
+ * synchronous core runs. Each outcome is kept, failures included, and replayed
+ * when the core asks for that id: a missing id answers unknown-reference at the
+ * pointer of the field that named it, a corrupt one throws its StoreError then
+ * (so a BOM batch can still fail just the assembly that names it).
+ */
+export async function catalogueLookupFor(services: Services, ids: Iterable<unknown>): Promise<CatalogueLookup> {
+  const wanted = [...new Set([...ids].filter((id): id is string => typeof id === 'string'))];
+  const outcomes = new Map<string, Catalogue | { failure: unknown }>();
+  await Promise.all(
+    wanted.map(async (id) => {
+      try {
+        outcomes.set(id, await getCatalogue(services, id));
+      } catch (failure) {
+        outcomes.set(id, { failure });
+      }
+    }),
+  );
+  return (id, pointer) => {
+    const outcome = outcomes.get(id);
+    if (outcome === undefined || ('failure' in outcome && outcome.failure instanceof CoreError && outcome.failure.code === 'unknown-reference')) {
+      throw new CoreError('unknown-reference', `No catalogue with id '${id}'`, pointer);
+    }
+    if ('failure' in outcome) throw outcome.failure;
+    return outcome;
+  };
+}
+
+/** Catalogue ids named anywhere in a value-source subtree of a request body (`{ catalogue: id }` objects). */
+export function cataloguesNamedIn(node: unknown, out: string[] = []): string[] {
+  if (Array.isArray(node)) {
+    for (const item of node) cataloguesNamedIn(item, out);
+  } else if (typeof node === 'object' && node !== null) {
+    for (const [key, value] of Object.entries(node)) {
+      if (key === 'catalogue' && typeof value === 'string') out.push(value);
+      else cataloguesNamedIn(value, out);
+    }
+  }
+  return out;
 }

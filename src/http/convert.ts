@@ -6,7 +6,7 @@
 import { canonicalTopologyId, findTopology, resolveAmplifier, type AmplifierModel, type Circuit, type InlineAmplifier } from '../core/index.ts';
 import { CoreError } from '../core/errors.ts';
 import { parseComponentValue } from '../core/parts/value-parse.ts';
-import type { AmplifierDirectory } from './amplifier-directory.ts';
+import type { AmplifierLookup } from './amplifier-directory.ts';
 import type { CircuitBody } from './schemas/circuit.ts';
 
 /** Default diode for steered topologies: small-signal silicon, common practice. */
@@ -23,7 +23,7 @@ export function inlineAmplifierFromBody(body: Record<string, unknown>): InlineAm
   return out as InlineAmplifier;
 }
 
-export function resolveAmplifierSpec(spec: string | Record<string, unknown>, directory: AmplifierDirectory, pointer = '/amplifier'): AmplifierModel {
+export function resolveAmplifierSpec(spec: string | Record<string, unknown>, directory: AmplifierLookup, pointer = '/amplifier'): AmplifierModel {
   return resolveAmplifier(typeof spec === 'string' ? spec : inlineAmplifierFromBody(spec), directory.lookup, pointer);
 }
 
@@ -38,7 +38,7 @@ export function parseParts(topologyId: string, parts: Record<string, string | nu
   return out;
 }
 
-export function circuitFromBody(body: CircuitBody, directory: AmplifierDirectory, pointer = ''): Circuit {
+export function circuitFromBody(body: CircuitBody, directory: AmplifierLookup, pointer = ''): Circuit {
   const amplifier = resolveAmplifierSpec(body.amplifier as string | Record<string, unknown>, directory, `${pointer}/amplifier`);
   const circuit: Circuit = {
     // A deprecated alias names the same topology; answers carry the current id.

@@ -24,12 +24,15 @@ export function entityTags(header: HeaderValue): string[] {
  * otherwise any listed tag, which the store then rejects as stale.
  * `currentEtag` is only consulted for lists, so a single tag costs no extra read.
  */
-export function ifMatchForStore(header: HeaderValue, currentEtag: () => string | undefined): string | undefined {
+export async function ifMatchForStore(
+  header: HeaderValue,
+  currentEtag: () => Promise<string | undefined>,
+): Promise<string | undefined> {
   const tags = entityTags(header);
   if (tags.length === 0) return undefined;
   if (tags.includes('*')) return '*';
   if (tags.length === 1) return tags[0];
-  const current = currentEtag();
+  const current = await currentEtag();
   return tags.find((t) => t === current) ?? tags[0];
 }
 

@@ -19,12 +19,12 @@ export function storedBodyToModel(id: string, body: Record<string, unknown>): Am
 
 export function storedAmplifierSource(store: Store): RegisteredAmplifierSource {
   return {
-    get(id) {
-      const doc = store.amplifiers.get(id);
+    async get(id) {
+      const doc = await store.amplifiers.get(id);
       return doc ? storedBodyToModel(id, doc.body) : undefined;
     },
-    list() {
-      return store.amplifiers.listWithBodies().map((d) => storedBodyToModel(d.id, d.body));
+    async list() {
+      return (await store.amplifiers.listWithBodies()).map((d) => storedBodyToModel(d.id, d.body));
     },
   };
 }

@@ -60,29 +60,31 @@ export class SqliteDocumentCollection<T extends DocumentBody> implements Documen
     this.deleteTransaction = (...args) => remove.immediate(...args);
   }
 
-  get(id: string): StoredDocument<T> | undefined {
+  // The SQLite driver is synchronous; the async methods keep the shared contract
+  // (a failure becomes a rejection, never a synchronous throw).
+  async get(id: string): Promise<StoredDocument<T> | undefined> {
     if (!isValidDocumentId(id)) return undefined;
     const row = withSqliteErrors(() => this.selectOne.get(this.collection, id));
     return row === undefined ? undefined : this.decode(row);
   }
 
-  list(): DocumentSummary[] {
+  async list(): Promise<DocumentSummary[]> {
     const rows = withSqliteErrors(() => this.selectSummaries.all(this.collection));
     return rows.map((row) => ({ ...this.meta(row), bodyBytes: row.body_bytes }));
   }
 
-  listWithBodies(): StoredDocument<T>[] {
+  async listWithBodies(): Promise<StoredDocument<T>[]> {
     const rows = withSqliteErrors(() => this.selectAll.all(this.collection));
     return rows.map((row) => this.decode(row));
   }
 
-  put(id: string, body: T, expectedEtag: string | undefined, options: PutOptions = {}): PutResult<T> {
+  async put(id: string, body: T, expectedEtag: string | undefined, options: PutOptions = {}): Promise<PutResult<T>> {
     this.assertId(id);
     const bodyText = encodeBody(body);
     return withSqliteErrors(() => this.putTransaction(id, bodyText, presentOrUndefined(expectedEtag), options.createOnly === true));
   }
 
-  delete(id: string, expectedEtag: string | undefined): void {
+  async delete(id: string, expectedEtag: string | undefined): Promise<void> {
     if (!isValidDocumentId(id)) throw this.notFound(id);
     withSqliteErrors(() => this.deleteTransaction(id, presentOrUndefined(expectedEtag)));
   }

@@ -78,7 +78,9 @@ class SqliteStoreImpl implements SqliteStore {
     this.amplifiers = new SqliteDocumentCollection(db, 'amplifiers');
   }
 
-  ping(): boolean {
+  readonly backend = 'sqlite' as const;
+
+  async ping(): Promise<boolean> {
     if (!this.db.open) return false;
     try {
       return this.db.prepare('SELECT 1').pluck().get() === 1;
@@ -87,7 +89,7 @@ class SqliteStoreImpl implements SqliteStore {
     }
   }
 
-  close(): void {
+  async close(): Promise<void> {
     if (this.db.open) this.db.close();
   }
 }

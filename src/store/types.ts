@@ -1,7 +1,8 @@
 /**
- * The storage contract. It is deliberately small and synchronous-looking so a
- * server database (behind a connection pool) could replace SQLite later by
- * implementing the same shape; nothing outside src/store/ imports SQLite.
+ * The storage contract, implemented by the embedded SQLite store and by the
+ * PostgreSQL store (several replicas on one database). Every call is async: a
+ * server database answers over a connection pool. Nothing outside src/store/
+ * imports a database driver.
  *
  * Bodies are opaque JSON objects here: the HTTP layer validates them against
  * its schemas BEFORE storing and narrows the type after reading.
@@ -46,11 +47,11 @@ export interface PutResult<T> {
 
 export interface DocumentCollection<T> {
   /** undefined when the id does not exist (or is not a valid id). Throws StoreError 'corrupt' on unreadable data. */
-  get(id: string): StoredDocument<T> | undefined;
+  get(id: string): Promise<StoredDocument<T> | undefined>;
   /** Metadata of every document, ordered by id (byte order; ids are ASCII). Bodies are not loaded. */
-  list(): DocumentSummary[];
+  list(): Promise<DocumentSummary[]>;
   /** Every document with its body, ordered by id. For small collections (amplifiers); catalogues can be large. */
-  listWithBodies(): StoredDocument<T>[];
+  listWithBodies(): Promise<StoredDocument<T>[]>;
   /**
    * Create or replace. `expectedEtag` is the caller's If-Match value (one quoted
    * strong tag, or `*` meaning "must exist"):
@@ -58,22 +59,27 @@ export interface DocumentCollection<T> {
    *   - id exists, expectedEtag stale           -> StoreError 'precondition-failed'
    *   - id missing, expectedEtag present        -> StoreError 'precondition-failed'
    *   - id exists and options.createOnly        -> StoreError 'precondition-failed'
-   * The existence/ETag check and the write run in ONE immediate transaction, so
-   * of two writers holding the same ETag exactly one succeeds.
+   * The ETag check and the write are atomic (SQLite: one IMMEDIATE transaction;
+   * PostgreSQL: one compare-and-set statement), so of two writers holding the
+   * same ETag exactly one succeeds, whichever replica each talks to.
    */
-  put(id: string, body: T, expectedEtag: string | undefined, options?: PutOptions): PutResult<T>;
+  put(id: string, body: T, expectedEtag: string | undefined, options?: PutOptions): Promise<PutResult<T>>;
   /**
    * Delete an existing document. Missing id -> 'not-found'; absent ETag ->
    * 'precondition-required'; stale -> 'precondition-failed'. Atomic like put.
    */
-  delete(id: string, expectedEtag: string | undefined): void;
+  delete(id: string, expectedEtag: string | undefined): Promise<void>;
 }
+
+export type StoreBackend = 'sqlite' | 'postgres';
 
 export interface Store {
   catalogues: DocumentCollection<CatalogueBody>;
   amplifiers: DocumentCollection<AmplifierBody>;
-  /** true when the database answers a trivial query; never throws (for /readyz). */
-  ping(): boolean;
-  /** Release the database; idempotent. Calls after close throw. */
-  close(): void;
+  /** Which database answers: 'sqlite' or 'postgres' (logs, metrics labels). */
+  readonly backend: StoreBackend;
+  /** true when the database answers a trivial query; never rejects (for /readyz). */
+  ping(): Promise<boolean>;
+  /** Release the database; idempotent. Calls after close reject. */
+  close(): Promise<void>;
 }

@@ -237,7 +237,7 @@ describe('DELETE /v1/catalogues/{id}', () => {
 describe('getCatalogue (for design and snap)', () => {
   it('returns parts in SI units with canonical dielectric codes', async () => {
     await put('/v1/catalogues/bench', benchCatalogue());
-    const catalogue = getCatalogue(app.services, 'bench', '/catalogue');
+    const catalogue = await getCatalogue(app.services, 'bench', '/catalogue');
     expect(catalogue.id).toBe('bench');
     expect(catalogue.name).toBe('Bench clock parts');
     expect(catalogue.parts.map((p) => p.value)).toEqual([4700, 0.47, 100000, 4.7e-9, 1e-7]);
@@ -247,10 +247,10 @@ describe('getCatalogue (for design and snap)', () => {
     expect(catalogue.parts[0]).toMatchObject({ tempcoPpmPerK: 100, package: '0603', status: 'preferred', partNumber: 'TW-R-0001' });
   });
 
-  it('throws unknown-reference at the caller pointer for a missing id', () => {
+  it('throws unknown-reference at the caller pointer for a missing id', async () => {
     let caught: unknown;
     try {
-      getCatalogue(app.services, 'not-stored', '/catalogue');
+      await getCatalogue(app.services, 'not-stored', '/catalogue');
     } catch (error) {
       caught = error;
     }
@@ -272,12 +272,12 @@ describe('persistence and concurrent writers (file store)', () => {
     const first = await testApp({ store: openSqliteStore(file) });
     const created = (await send(first, 'PUT', '/v1/catalogues/bench', { payload: benchCatalogue() })).json();
     await first.close();
-    first.services.store.close();
+    await first.services.store.close();
 
     const second = await testApp({ store: openSqliteStore(file) });
     cleanups.push(async () => {
       await second.close();
-      second.services.store.close();
+      await second.services.store.close();
     });
     const res = await send(second, 'GET', '/v1/catalogues/bench');
     expect(res.statusCode).toBe(200);
@@ -291,7 +291,7 @@ describe('persistence and concurrent writers (file store)', () => {
     for (const r of replicas) {
       cleanups.push(async () => {
         await r.close();
-        r.services.store.close();
+        await r.services.store.close();
       });
     }
     const created = (await send(replicas[0], 'PUT', '/v1/catalogues/bench', { payload: benchCatalogue() })).json();

@@ -50,8 +50,8 @@ describe('optimistic concurrency across processes', () => {
     cleanups.push(() => rmSync(dir, { recursive: true, force: true }));
     const file = path.join(dir, 'race.db');
     const observer = openSqliteStore(file);
-    cleanups.push(() => observer.close());
-    observer.catalogues.put('shared', { writer: 'none', round: -1 }, undefined);
+    cleanups.push(() => void observer.close());
+    await observer.catalogues.put('shared', { writer: 'none', round: -1 }, undefined);
 
     const left = startContender(file, 'left');
     const right = startContender(file, 'right');
@@ -59,11 +59,11 @@ describe('optimistic concurrency across processes', () => {
 
     const rounds = 40;
     for (let round = 0; round < rounds; round += 1) {
-      const before = observer.catalogues.get('shared')!;
+      const before = (await observer.catalogues.get('shared'))!;
       // Both commands leave in the same tick; the two processes then race for the write lock.
       const answers = await Promise.all([left.put(round, before.etag), right.put(round, before.etag)]);
       expect([...answers].sort()).toEqual(['ok', 'precondition-failed']);
-      const after = observer.catalogues.get('shared')!;
+      const after = (await observer.catalogues.get('shared'))!;
       expect(after.version).toBe(before.version + 1); // no lost update, no double update
       expect(after.body).toEqual({ writer: answers[0] === 'ok' ? 'left' : 'right', round });
     }

@@ -49,16 +49,16 @@ describe('durability under kill -9', () => {
     raw.close();
 
     const store = openSqliteStore(file);
-    cleanups.push(() => store.close());
-    const stored = new Set(store.catalogues.list().map((d) => d.id));
+    cleanups.push(() => void store.close());
+    const stored = new Set((await store.catalogues.list()).map((d) => d.id));
     const missing = acknowledgedIds.filter((id) => !stored.has(id));
     expect(missing).toEqual([]);
     for (const id of acknowledgedIds) {
       const index = Number(id.slice('doc-'.length));
-      expect(store.catalogues.get(id)?.body).toMatchObject({ index });
+      expect((await store.catalogues.get(id))?.body).toMatchObject({ index });
     }
     // At most one commit can have happened after the last acknowledgement we read.
-    const counter = store.amplifiers.get('counter')!;
+    const counter = (await store.amplifiers.get('counter'))!;
     expect(counter.version).toBeGreaterThanOrEqual(acknowledgedCounterVersion);
     expect(counter.version).toBeLessThanOrEqual(acknowledgedCounterVersion + 1);
     expect(Number(counter.body.lastIndex)).toBeGreaterThanOrEqual(acknowledgedCounterIndex);

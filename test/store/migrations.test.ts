@@ -33,23 +33,23 @@ function ledger(file: string): Array<{ id: number; name: string; applied_at: str
 }
 
 describe('schema migrations', () => {
-  it('applies every step on a new file and none on reopen', () => {
+  it('applies every step on a new file and none on reopen', async () => {
     const file = tempFile('m.db');
     const first = openSqliteStore(file);
     expect(first.migrationsAppliedAtOpen).toEqual(MIGRATIONS.map((m) => m.id));
-    first.catalogues.put('survives', { v: 1 }, undefined);
-    first.close();
+    await first.catalogues.put('survives', { v: 1 }, undefined);
+    await first.close();
     const before = ledger(file);
     expect(before.map((r) => r.id)).toEqual(MIGRATIONS.map((m) => m.id));
 
     const second = openSqliteStore(file);
-    cleanups.push(() => second.close());
+    cleanups.push(() => void second.close());
     expect(second.migrationsAppliedAtOpen).toEqual([]);
     expect(ledger(file)).toEqual(before); // same rows, same applied_at: nothing re-ran
-    expect(second.catalogues.get('survives')?.body).toEqual({ v: 1 });
+    expect((await second.catalogues.get('survives'))?.body).toEqual({ v: 1 });
   });
 
-  it('runs each step exactly once, in order, and only the new ones later', () => {
+  it('runs each step exactly once, in order, and only the new ones later', async () => {
     const db = new Database(':memory:');
     cleanups.push(() => db.close());
     const steps: Migration[] = [
@@ -64,7 +64,7 @@ describe('schema migrations', () => {
     expect(db.prepare('SELECT step FROM log ORDER BY rowid').pluck().all()).toEqual([2, 5]);
   });
 
-  it('rolls back every step of a failing run', () => {
+  it('rolls back every step of a failing run', async () => {
     const db = new Database(':memory:');
     cleanups.push(() => db.close());
     const steps: Migration[] = [
@@ -77,7 +77,7 @@ describe('schema migrations', () => {
     expect(tables).not.toContain('schema_migrations');
   });
 
-  it('refuses a database written by a newer schema', () => {
+  it('refuses a database written by a newer schema', async () => {
     const db = new Database(':memory:');
     cleanups.push(() => db.close());
     applyMigrations(db, [...MIGRATIONS, { id: 999, name: 'future', sql: 'CREATE TABLE future (x INTEGER)' }]);
@@ -92,7 +92,7 @@ describe('schema migrations', () => {
     expect((caught as StoreError).message).toContain('999');
   });
 
-  it('rejects a migration list that is not strictly increasing', () => {
+  it('rejects a migration list that is not strictly increasing', async () => {
     const db = new Database(':memory:');
     cleanups.push(() => db.close());
     expect(() =>

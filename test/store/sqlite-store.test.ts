@@ -22,13 +22,13 @@ function tempDir(): string {
 
 function open(file: string): SqliteStore {
   const store = openSqliteStore(file);
-  cleanups.push(() => store.close());
+  cleanups.push(() => void store.close());
   return store;
 }
 
-function storeErrorCode(work: () => unknown): StoreErrorCode | 'no error' | 'other error' {
+async function storeErrorCode(work: () => Promise<unknown>): Promise<StoreErrorCode | 'no error' | 'other error'> {
   try {
-    work();
+    await work();
     return 'no error';
   } catch (error) {
     return error instanceof StoreError ? error.code : 'other error';
@@ -40,136 +40,136 @@ function storeErrorCode(work: () => unknown): StoreErrorCode | 'no error' | 'oth
 const STRONG_ETAG = /^"[\x21\x23-\x7e]*"$/;
 
 describe('document CRUD', () => {
-  it('creates, reads, updates and deletes with increasing versions and changing ETags', () => {
+  it('creates, reads, updates and deletes with increasing versions and changing ETags', async () => {
     const store = open(':memory:');
-    const created = store.catalogues.put('bench-a', { parts: ['4k7'] }, undefined);
+    const created = (await store.catalogues.put('bench-a', { parts: ['4k7'] }, undefined));
     expect(created.outcome).toBe('created');
     expect(created.doc.version).toBe(1);
     expect(created.doc.etag).toMatch(STRONG_ETAG);
     expect(created.doc.body).toEqual({ parts: ['4k7'] });
-    expect(store.catalogues.get('bench-a')).toEqual(created.doc);
+    expect((await store.catalogues.get('bench-a'))).toEqual(created.doc);
 
-    const updated = store.catalogues.put('bench-a', { parts: ['4k7', '10n'] }, created.doc.etag);
+    const updated = (await store.catalogues.put('bench-a', { parts: ['4k7', '10n'] }, created.doc.etag));
     expect(updated.outcome).toBe('updated');
     expect(updated.doc.version).toBe(2);
     expect(updated.doc.etag).toMatch(STRONG_ETAG);
     expect(updated.doc.etag).not.toBe(created.doc.etag);
     expect(updated.doc.createdAt).toBe(created.doc.createdAt);
     expect(Date.parse(updated.doc.updatedAt)).toBeGreaterThanOrEqual(Date.parse(created.doc.updatedAt));
-    expect(store.catalogues.get('bench-a')?.body).toEqual({ parts: ['4k7', '10n'] });
+    expect((await store.catalogues.get('bench-a'))?.body).toEqual({ parts: ['4k7', '10n'] });
 
-    const third = store.catalogues.put('bench-a', { parts: [] }, updated.doc.etag);
+    const third = (await store.catalogues.put('bench-a', { parts: [] }, updated.doc.etag));
     expect(third.doc.version).toBe(3);
     expect(new Set([created.doc.etag, updated.doc.etag, third.doc.etag]).size).toBe(3);
 
-    store.catalogues.delete('bench-a', third.doc.etag);
-    expect(store.catalogues.get('bench-a')).toBeUndefined();
-    expect(store.catalogues.list()).toEqual([]);
+    await store.catalogues.delete('bench-a', third.doc.etag);
+    expect((await store.catalogues.get('bench-a'))).toBeUndefined();
+    expect((await store.catalogues.list())).toEqual([]);
   });
 
-  it('keeps collections apart', () => {
+  it('keeps collections apart', async () => {
     const store = open(':memory:');
-    store.catalogues.put('same-id', { kind: 'catalogue' }, undefined);
-    store.amplifiers.put('same-id', { kind: 'amplifier' }, undefined);
-    expect(store.catalogues.get('same-id')?.body).toEqual({ kind: 'catalogue' });
-    expect(store.amplifiers.get('same-id')?.body).toEqual({ kind: 'amplifier' });
-    expect(store.catalogues.get('same-id')?.etag).not.toBe(store.amplifiers.get('same-id')?.etag);
+    await store.catalogues.put('same-id', { kind: 'catalogue' }, undefined);
+    await store.amplifiers.put('same-id', { kind: 'amplifier' }, undefined);
+    expect((await store.catalogues.get('same-id'))?.body).toEqual({ kind: 'catalogue' });
+    expect((await store.amplifiers.get('same-id'))?.body).toEqual({ kind: 'amplifier' });
+    expect((await store.catalogues.get('same-id'))?.etag).not.toBe((await store.amplifiers.get('same-id'))?.etag);
   });
 
-  it('lists summaries and full documents ordered by id', () => {
+  it('lists summaries and full documents ordered by id', async () => {
     const store = open(':memory:');
     const ids = ['zeta', 'alpha.2', 'alpha-1', '9lives', 'alpha_3', 'm'];
-    for (const id of ids) store.amplifiers.put(id, { name: id, note: 'é' }, undefined);
+    for (const id of ids) await store.amplifiers.put(id, { name: id, note: 'é' }, undefined);
     // Expected order from JavaScript's code-unit sort, independent of SQLite (ids are ASCII).
     const expectedOrder = [...ids].sort();
-    const summaries = store.amplifiers.list();
+    const summaries = (await store.amplifiers.list());
     expect(summaries.map((s) => s.id)).toEqual(expectedOrder);
     for (const summary of summaries) {
       expect(summary).not.toHaveProperty('body');
       expect(summary.version).toBe(1);
-      expect(summary.etag).toBe(store.amplifiers.get(summary.id)?.etag);
+      expect(summary.etag).toBe((await store.amplifiers.get(summary.id))?.etag);
       // Byte length per the UTF-8 encoding of the stored JSON (Node's Buffer as the reference).
       expect(summary.bodyBytes).toBe(Buffer.byteLength(JSON.stringify({ name: summary.id, note: 'é' }), 'utf8'));
     }
-    expect(store.amplifiers.listWithBodies().map((d) => [d.id, d.body.name])).toEqual(expectedOrder.map((id) => [id, id]));
+    expect((await store.amplifiers.listWithBodies()).map((d) => [d.id, d.body.name])).toEqual(expectedOrder.map((id) => [id, id]));
   });
 
-  it('does not reuse an ETag when an id is deleted and created again', () => {
+  it('does not reuse an ETag when an id is deleted and created again', async () => {
     const store = open(':memory:');
-    const first = store.catalogues.put('reborn', { n: 1 }, undefined);
-    store.catalogues.delete('reborn', first.doc.etag);
-    const second = store.catalogues.put('reborn', { n: 2 }, undefined);
+    const first = (await store.catalogues.put('reborn', { n: 1 }, undefined));
+    await store.catalogues.delete('reborn', first.doc.etag);
+    const second = (await store.catalogues.put('reborn', { n: 2 }, undefined));
     expect(second.doc.version).toBe(1);
     expect(second.doc.etag).not.toBe(first.doc.etag);
-    expect(storeErrorCode(() => store.catalogues.put('reborn', { n: 3 }, first.doc.etag))).toBe('precondition-failed');
+    expect(await storeErrorCode(async () => (await store.catalogues.put('reborn', { n: 3 }, first.doc.etag)))).toBe('precondition-failed');
   });
 });
 
 describe('preconditions (RFC 9110 §13.1.1 If-Match, RFC 6585 §3 428)', () => {
-  it('requires an ETag to change or delete an existing document', () => {
+  it('requires an ETag to change or delete an existing document', async () => {
     const store = open(':memory:');
-    store.catalogues.put('guarded', { v: 1 }, undefined);
-    expect(storeErrorCode(() => store.catalogues.put('guarded', { v: 2 }, undefined))).toBe('precondition-required');
-    expect(storeErrorCode(() => store.catalogues.put('guarded', { v: 2 }, '  '))).toBe('precondition-required');
-    expect(storeErrorCode(() => store.catalogues.delete('guarded', undefined))).toBe('precondition-required');
-    expect(store.catalogues.get('guarded')?.version).toBe(1);
+    await store.catalogues.put('guarded', { v: 1 }, undefined);
+    expect(await storeErrorCode(async () => (await store.catalogues.put('guarded', { v: 2 }, undefined)))).toBe('precondition-required');
+    expect(await storeErrorCode(async () => (await store.catalogues.put('guarded', { v: 2 }, '  ')))).toBe('precondition-required');
+    expect(await storeErrorCode(async () => (await store.catalogues.delete('guarded', undefined)))).toBe('precondition-required');
+    expect((await store.catalogues.get('guarded'))?.version).toBe(1);
   });
 
-  it('rejects a stale or weak ETag with precondition-failed and leaves the document unchanged', () => {
+  it('rejects a stale or weak ETag with precondition-failed and leaves the document unchanged', async () => {
     const store = open(':memory:');
-    const v1 = store.catalogues.put('guarded', { v: 1 }, undefined).doc;
-    const v2 = store.catalogues.put('guarded', { v: 2 }, v1.etag).doc;
-    expect(storeErrorCode(() => store.catalogues.put('guarded', { v: 3 }, v1.etag))).toBe('precondition-failed');
-    expect(storeErrorCode(() => store.catalogues.delete('guarded', v1.etag))).toBe('precondition-failed');
+    const v1 = (await store.catalogues.put('guarded', { v: 1 }, undefined)).doc;
+    const v2 = (await store.catalogues.put('guarded', { v: 2 }, v1.etag)).doc;
+    expect(await storeErrorCode(async () => (await store.catalogues.put('guarded', { v: 3 }, v1.etag)))).toBe('precondition-failed');
+    expect(await storeErrorCode(async () => (await store.catalogues.delete('guarded', v1.etag)))).toBe('precondition-failed');
     // Strong comparison: W/"x" never matches "x" (RFC 9110 §8.8.3.2).
-    expect(storeErrorCode(() => store.catalogues.put('guarded', { v: 3 }, `W/${v2.etag}`))).toBe('precondition-failed');
-    expect(store.catalogues.get('guarded')).toEqual(v2);
+    expect(await storeErrorCode(async () => (await store.catalogues.put('guarded', { v: 3 }, `W/${v2.etag}`)))).toBe('precondition-failed');
+    expect((await store.catalogues.get('guarded'))).toEqual(v2);
   });
 
-  it('accepts If-Match: * for an existing document and rejects it for a missing one', () => {
+  it('accepts If-Match: * for an existing document and rejects it for a missing one', async () => {
     const store = open(':memory:');
-    expect(storeErrorCode(() => store.catalogues.put('absent', { v: 1 }, '*'))).toBe('precondition-failed');
-    expect(store.catalogues.get('absent')).toBeUndefined();
-    store.catalogues.put('present', { v: 1 }, undefined);
-    expect(store.catalogues.put('present', { v: 2 }, '*').doc.version).toBe(2);
+    expect(await storeErrorCode(async () => (await store.catalogues.put('absent', { v: 1 }, '*')))).toBe('precondition-failed');
+    expect((await store.catalogues.get('absent'))).toBeUndefined();
+    await store.catalogues.put('present', { v: 1 }, undefined);
+    expect((await store.catalogues.put('present', { v: 2 }, '*')).doc.version).toBe(2);
   });
 
-  it('rejects creating a new id when an If-Match is given', () => {
+  it('rejects creating a new id when an If-Match is given', async () => {
     const store = open(':memory:');
-    const other = store.catalogues.put('other', { v: 1 }, undefined).doc;
-    expect(storeErrorCode(() => store.catalogues.put('fresh', { v: 1 }, other.etag))).toBe('precondition-failed');
-    expect(store.catalogues.get('fresh')).toBeUndefined();
+    const other = (await store.catalogues.put('other', { v: 1 }, undefined)).doc;
+    expect(await storeErrorCode(async () => (await store.catalogues.put('fresh', { v: 1 }, other.etag)))).toBe('precondition-failed');
+    expect((await store.catalogues.get('fresh'))).toBeUndefined();
   });
 
-  it('supports create-only puts (If-None-Match: *)', () => {
+  it('supports create-only puts (If-None-Match: *)', async () => {
     const store = open(':memory:');
-    expect(store.catalogues.put('once', { v: 1 }, undefined, { createOnly: true }).outcome).toBe('created');
-    expect(storeErrorCode(() => store.catalogues.put('once', { v: 2 }, undefined, { createOnly: true }))).toBe('precondition-failed');
+    expect((await store.catalogues.put('once', { v: 1 }, undefined, { createOnly: true })).outcome).toBe('created');
+    expect(await storeErrorCode(async () => (await store.catalogues.put('once', { v: 2 }, undefined, { createOnly: true })))).toBe('precondition-failed');
   });
 
-  it('reports not-found for deleting a missing id', () => {
+  it('reports not-found for deleting a missing id', async () => {
     const store = open(':memory:');
-    expect(storeErrorCode(() => store.catalogues.delete('nothing-here', '"1-0000"'))).toBe('not-found');
-    expect(storeErrorCode(() => store.catalogues.delete('nothing-here', undefined))).toBe('not-found');
+    expect(await storeErrorCode(async () => (await store.catalogues.delete('nothing-here', '"1-0000"')))).toBe('not-found');
+    expect(await storeErrorCode(async () => (await store.catalogues.delete('nothing-here', undefined)))).toBe('not-found');
   });
 
-  it('lets exactly one of two stores on the same file win with the same ETag', () => {
+  it('lets exactly one of two stores on the same file win with the same ETag', async () => {
     const file = path.join(tempDir(), 'shared.db');
     const first = open(file);
     const second = open(file);
-    const base = first.catalogues.put('contested', { by: 'none' }, undefined).doc;
-    expect(second.catalogues.get('contested')?.etag).toBe(base.etag);
+    const base = (await first.catalogues.put('contested', { by: 'none' }, undefined)).doc;
+    expect((await second.catalogues.get('contested'))?.etag).toBe(base.etag);
     const outcomes = [
-      storeErrorCode(() => first.catalogues.put('contested', { by: 'first' }, base.etag)),
-      storeErrorCode(() => second.catalogues.put('contested', { by: 'second' }, base.etag)),
+      await storeErrorCode(async () => (await first.catalogues.put('contested', { by: 'first' }, base.etag))),
+      await storeErrorCode(async () => (await second.catalogues.put('contested', { by: 'second' }, base.etag))),
     ];
     expect(outcomes).toEqual(['no error', 'precondition-failed']);
-    expect(second.catalogues.get('contested')).toMatchObject({ version: 2, body: { by: 'first' } });
+    expect((await second.catalogues.get('contested'))).toMatchObject({ version: 2, body: { by: 'first' } });
   });
 });
 
 describe('ids', () => {
-  it('accepts and rejects ids per the documented pattern', () => {
+  it('accepts and rejects ids per the documented pattern', async () => {
     for (const id of ['a', '0', 'lab-bench_2.v1', 'a'.repeat(64)]) expect(isValidDocumentId(id)).toBe(true);
     for (const id of ['', 'A', '-a', '.a', '_a', 'a b', 'a/b', 'é', 'a'.repeat(65), 'a\n']) {
       expect(isValidDocumentId(id)).toBe(false);
@@ -177,32 +177,32 @@ describe('ids', () => {
     }
   });
 
-  it('refuses to store under an invalid id and treats reads of one as missing', () => {
+  it('refuses to store under an invalid id and treats reads of one as missing', async () => {
     const store = open(':memory:');
-    expect(storeErrorCode(() => store.catalogues.put('Bad Id', { v: 1 }, undefined))).toBe('invalid-id');
-    expect(store.catalogues.get('Bad Id')).toBeUndefined();
-    expect(storeErrorCode(() => store.catalogues.delete('Bad Id', '"x"'))).toBe('not-found');
+    expect(await storeErrorCode(async () => (await store.catalogues.put('Bad Id', { v: 1 }, undefined)))).toBe('invalid-id');
+    expect((await store.catalogues.get('Bad Id'))).toBeUndefined();
+    expect(await storeErrorCode(async () => (await store.catalogues.delete('Bad Id', '"x"')))).toBe('not-found');
   });
 });
 
 describe('persistence and health', () => {
-  it('reads back after close and reopen', () => {
+  it('reads back after close and reopen', async () => {
     const file = path.join(tempDir(), 'nested', 'dir', 'persist.db');
     const writer = openSqliteStore(file);
-    const written = writer.amplifiers.put('kept', { slewRateVPerS: 0.5e6, label: 'kept' }, undefined).doc;
-    const again = writer.amplifiers.put('kept', { slewRateVPerS: 1.5e6, label: 'kept' }, written.etag).doc;
-    writer.close();
-    writer.close(); // idempotent
+    const written = (await writer.amplifiers.put('kept', { slewRateVPerS: 0.5e6, label: 'kept' }, undefined)).doc;
+    const again = (await writer.amplifiers.put('kept', { slewRateVPerS: 1.5e6, label: 'kept' }, written.etag)).doc;
+    await writer.close();
+    await writer.close(); // idempotent
 
     const reader = open(file);
-    expect(reader.amplifiers.get('kept')).toEqual(again);
-    expect(reader.amplifiers.list().map((d) => d.id)).toEqual(['kept']);
+    expect((await reader.amplifiers.get('kept'))).toEqual(again);
+    expect((await reader.amplifiers.list()).map((d) => d.id)).toEqual(['kept']);
   });
 
-  it('opens a file database with WAL, synchronous FULL, foreign keys and a busy timeout', () => {
+  it('opens a file database with WAL, synchronous FULL, foreign keys and a busy timeout', async () => {
     const file = path.join(tempDir(), 'pragmas.db');
     const store = open(file);
-    expect(store.ping()).toBe(true);
+    expect((await store.ping())).toBe(true);
     const probe = new Database(file);
     cleanups.push(() => probe.close());
     // journal_mode is persistent in the file for WAL (SQLite docs, "Persistence of WAL mode").
@@ -214,19 +214,19 @@ describe('persistence and health', () => {
     expect(internal.pragma('busy_timeout', { simple: true })).toBe(5000);
   });
 
-  it('ping reports false after close', () => {
+  it('ping reports false after close', async () => {
     const store = openSqliteStore(':memory:');
-    expect(store.ping()).toBe(true);
-    store.close();
-    expect(store.ping()).toBe(false);
+    expect((await store.ping())).toBe(true);
+    await store.close();
+    expect((await store.ping())).toBe(false);
   });
 
-  it('reports an unreadable stored body as corrupt instead of crashing', () => {
+  it('reports an unreadable stored body as corrupt instead of crashing', async () => {
     const file = path.join(tempDir(), 'corrupt.db');
     const store = open(file);
-    store.catalogues.put('fine', { ok: true }, undefined);
-    store.catalogues.put('broken', { ok: true }, undefined);
-    store.catalogues.put('array', { ok: true }, undefined);
+    await store.catalogues.put('fine', { ok: true }, undefined);
+    await store.catalogues.put('broken', { ok: true }, undefined);
+    await store.catalogues.put('array', { ok: true }, undefined);
     const tamper = new Database(file);
     // Bypass the json_valid CHECK to simulate damage that the schema would normally stop.
     tamper.pragma('ignore_check_constraints = ON');
@@ -234,23 +234,23 @@ describe('persistence and health', () => {
     tamper.prepare(`UPDATE documents SET body = '[1,2]' WHERE id = 'array'`).run();
     tamper.close();
 
-    expect(store.catalogues.get('fine')?.body).toEqual({ ok: true });
+    expect((await store.catalogues.get('fine'))?.body).toEqual({ ok: true });
     let caught: unknown;
     try {
-      store.catalogues.get('broken');
+      await store.catalogues.get('broken');
     } catch (error) {
       caught = error;
     }
     expect(caught).toBeInstanceOf(StoreError);
     expect((caught as StoreError).code).toBe('corrupt');
     expect((caught as StoreError).message).toContain('catalogues/broken');
-    expect(storeErrorCode(() => store.catalogues.get('array'))).toBe('corrupt');
-    expect(storeErrorCode(() => store.catalogues.listWithBodies())).toBe('corrupt');
+    expect(await storeErrorCode(async () => (await store.catalogues.get('array')))).toBe('corrupt');
+    expect(await storeErrorCode(async () => (await store.catalogues.listWithBodies()))).toBe('corrupt');
     // Summaries do not parse bodies, so a listing still works and shows the damaged ids.
-    expect(store.catalogues.list().map((d) => d.id)).toEqual(['array', 'broken', 'fine']);
+    expect((await store.catalogues.list()).map((d) => d.id)).toEqual(['array', 'broken', 'fine']);
   });
 
-  it('resolves the database path from TICKWRIGHT_DB_PATH or the default under the working directory', () => {
+  it('resolves the database path from TICKWRIGHT_DB_PATH or the default under the working directory', async () => {
     const cwd = path.resolve('/srv/tickwright');
     expect(resolveDatabasePath({}, cwd)).toBe(path.join(cwd, 'data', 'tickwright.db'));
     expect(resolveDatabasePath({ TICKWRIGHT_DB_PATH: '' }, cwd)).toBe(path.join(cwd, 'data', 'tickwright.db'));

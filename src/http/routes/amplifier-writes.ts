@@ -53,8 +53,8 @@ export const amplifierWriteRoutes: FastifyPluginAsyncTypebox = async (app) => {
       const { id } = request.params;
       // Same resolution the directory applies on every read, with pointers into this body.
       resolveAmplifier(inlineAmplifierFromBody(request.body), findBuiltInAmplifier, '');
-      const expected = ifMatchForStore(request.headers['if-match'], () => collection.get(id)?.etag);
-      const result = collection.put(id, request.body as unknown as AmplifierBody, expected);
+      const expected = await ifMatchForStore(request.headers['if-match'], async () => (await collection.get(id))?.etag);
+      const result = await collection.put(id, request.body as unknown as AmplifierBody, expected);
       reply.header('etag', result.doc.etag);
       if (result.outcome === 'created') reply.code(201).header('location', `/v1/amplifiers/${id}`);
       else reply.code(200);
@@ -77,7 +77,7 @@ export const amplifierWriteRoutes: FastifyPluginAsyncTypebox = async (app) => {
     },
     async (request, reply) => {
       const { id } = request.params;
-      collection.delete(id, ifMatchForStore(request.headers['if-match'], () => collection.get(id)?.etag));
+      await collection.delete(id, await ifMatchForStore(request.headers['if-match'], async () => (await collection.get(id))?.etag));
       return reply.code(204).send(null);
     },
   );

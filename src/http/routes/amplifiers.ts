@@ -22,7 +22,7 @@ export const amplifierReadRoutes: FastifyPluginAsyncTypebox = async (app) => {
         response: { 200: ref(AmplifierList), ...problemResponses(401, 403) },
       },
     },
-    async () => ({ amplifiers: app.services.amplifiers.list().map(amplifierRecord) }),
+    async () => ({ amplifiers: (await app.services.amplifiers.list()).map(amplifierRecord) }),
   );
 
   app.get(
@@ -36,11 +36,11 @@ export const amplifierReadRoutes: FastifyPluginAsyncTypebox = async (app) => {
       },
     },
     async (request, reply) => {
-      const amp = app.services.amplifiers.get(request.params.id);
+      const amp = await app.services.amplifiers.get(request.params.id);
       if (!amp) throw new HttpProblem(404, 'not-found', `No amplifier with id '${request.params.id}'`);
       // Registered amplifiers carry their store ETag so a caller can update or delete with If-Match.
       if (!isBuiltInAmplifierId(amp.id)) {
-        const doc = app.services.store.amplifiers.get(amp.id);
+        const doc = await app.services.store.amplifiers.get(amp.id);
         if (doc) reply.header('etag', doc.etag);
       }
       return amplifierRecord(amp);

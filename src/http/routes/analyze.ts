@@ -20,7 +20,7 @@ export const analyzeRoutes: FastifyPluginAsyncTypebox = async (app) => {
       },
     },
     async (request) => {
-      const circuit = circuitFromBody(request.body, app.services.amplifiers);
+      const circuit = circuitFromBody(request.body, await app.services.amplifiers.forSpecs(request.body.amplifier));
       const result = analyzeCircuit(circuit, { model: request.body.model ?? 'auto', edgeFractionLimit: request.body.edgeFractionLimit });
       return {
         topology: circuit.topology,

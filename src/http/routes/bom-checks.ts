@@ -24,7 +24,7 @@ import {
   type BomCheckContext,
 } from '../../core/index.ts';
 import type { Catalogue, SeriesName } from '../../core/parts/index.ts';
-import { getCatalogue } from '../catalogue-source.ts';
+import { catalogueLookupFor, type CatalogueLookup } from '../catalogue-source.ts';
 import { inlineAmplifierFromBody } from '../convert.ts';
 import { BomCheckRequest, BomCheckResponse, BomCheckResult, type BomAssemblyBody } from '../schemas/bom.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
@@ -72,14 +72,14 @@ function wantsNdjson(accept: string | undefined): boolean {
   return typeof accept === 'string' && accept.toLowerCase().includes(NDJSON_MEDIA_TYPE);
 }
 
-/** Catalogue lookups for one request: each id is read from the store once, failures included. */
-function catalogueLookup(services: Services): (id: string) => Catalogue {
+/** Catalogue lookups for one request: each id was read from the store once up front, failures included. */
+function catalogueLookup(read: CatalogueLookup): (id: string) => Catalogue {
   const cache = new Map<string, Catalogue | CoreError>();
   return (id) => {
     let entry = cache.get(id);
     if (entry === undefined) {
       try {
-        entry = getCatalogue(services, id, '/catalogue');
+        entry = read(id, '/catalogue');
       } catch (error) {
         entry =
           error instanceof CoreError
@@ -143,9 +143,13 @@ export const bomCheckRoutes: FastifyPluginAsyncTypebox = async (app) => {
     },
     async (request, reply) => {
       const body = request.body;
+      const [amplifiers, catalogues] = await Promise.all([
+        app.services.amplifiers.forSpecs(...body.assemblies.map((a) => a.amplifier)),
+        catalogueLookupFor(app.services, body.assemblies.map((a) => a.catalogue)),
+      ]);
       const ctx: BomCheckContext = {
-        lookupAmplifier: app.services.amplifiers.lookup,
-        lookupCatalogue: catalogueLookup(app.services),
+        lookupAmplifier: amplifiers.lookup,
+        lookupCatalogue: catalogueLookup(catalogues),
         options: { ...DEFAULT_BOM_OPTIONS, ...body.options },
         spreadCache: new Map(),
       };

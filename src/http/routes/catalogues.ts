@@ -91,11 +91,11 @@ export const catalogueRoutes: FastifyPluginAsyncTypebox = async (app) => {
     async () => {
       const out: CatalogueSummaryRecord[] = [];
       const present = new Set<string>();
-      for (const meta of collection.list()) {
+      for (const meta of await collection.list()) {
         present.add(meta.id);
         let summary = summaries.get(meta.id);
         if (summary?.etag !== meta.etag) {
-          const doc = collection.get(meta.id);
+          const doc = await collection.get(meta.id);
           if (!doc) continue; // deleted between list() and get()
           summary = summaryOf(doc);
           summaries.set(meta.id, summary);
@@ -124,7 +124,7 @@ export const catalogueRoutes: FastifyPluginAsyncTypebox = async (app) => {
       },
     },
     async (request, reply) => {
-      const doc = collection.get(request.params.id);
+      const doc = await collection.get(request.params.id);
       if (!doc) throw new StoreError('not-found', `No catalogue with id '${request.params.id}'`);
       reply.header('etag', doc.etag);
       if (ifNoneMatchHits(request.headers['if-none-match'], doc.etag)) return reply.code(304).send(undefined as never);
@@ -158,8 +158,8 @@ export const catalogueRoutes: FastifyPluginAsyncTypebox = async (app) => {
       const { id } = request.params;
       // Validate first: nothing reaches the store unless every part reads.
       const parts = readCatalogueParts(request.body);
-      const expected = ifMatchForStore(request.headers['if-match'], () => collection.get(id)?.etag);
-      const result = collection.put(id, request.body as unknown as CatalogueBody, expected, {
+      const expected = await ifMatchForStore(request.headers['if-match'], async () => (await collection.get(id))?.etag);
+      const result = await collection.put(id, request.body as unknown as CatalogueBody, expected, {
         createOnly: request.headers['if-none-match'] === '*',
       });
       reply.header('etag', result.doc.etag);
@@ -183,7 +183,7 @@ export const catalogueRoutes: FastifyPluginAsyncTypebox = async (app) => {
     },
     async (request, reply) => {
       const { id } = request.params;
-      collection.delete(id, ifMatchForStore(request.headers['if-match'], () => collection.get(id)?.etag));
+      await collection.delete(id, await ifMatchForStore(request.headers['if-match'], async () => (await collection.get(id))?.etag));
       summaries.delete(id);
       return reply.code(204).send(null);
     },

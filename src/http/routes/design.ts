@@ -5,7 +5,7 @@ import { DEFAULT_DIODE, resolveAmplifierSpec } from '../convert.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
 import { DesignRequest, DesignResponse, type DesignRequestBody } from '../schemas/design.ts';
 import { runForRequest } from '../workers/run-for-request.ts';
-import { fittedPartsJson, predictionJson, roleSourcesFromBody } from './snap.ts';
+import { fittedPartsJson, predictionJson, roleSourcesFromBody, storedFor } from './snap.ts';
 
 /** Series most boards stock (common practice): E24 resistors, E12 capacitors. */
 const DEFAULT_VALUES = { resistor: { series: 'E24' }, capacitor: { series: 'E12' } } as const;
@@ -47,7 +47,8 @@ export const designRoutes: FastifyPluginAsyncTypebox = async (app) => {
     },
     async (request, reply) => {
       const body = request.body;
-      const amplifier = resolveAmplifierSpec(body.amplifier as string | Record<string, unknown>, app.services.amplifiers, '/amplifier');
+      const stored = await storedFor(app.services, [body.amplifier], body.values);
+      const amplifier = resolveAmplifierSpec(body.amplifier as string | Record<string, unknown>, stored.amplifiers, '/amplifier');
       // Off the event loop: a search with full analyses of its best candidates can take a few hundred ms.
       const result = await runForRequest(app.services.workers, reply, 'design', {
         targetFrequencyHz: body.targetFrequencyHz,
@@ -57,7 +58,7 @@ export const designRoutes: FastifyPluginAsyncTypebox = async (app) => {
         supply: { positiveV: body.supply.positiveV, negativeV: body.supply.negativeV ?? 0 },
         amplifier,
         // A kind the caller leaves out keeps its default series (values.resistor alone still gets E12 capacitors).
-        values: roleSourcesFromBody({ ...DEFAULT_VALUES, ...body.values } as never, app.services),
+        values: roleSourcesFromBody({ ...DEFAULT_VALUES, ...body.values } as never, stored),
         constraints: body.constraints,
         topologies: body.topologies,
         diode: body.diode ? { forwardDropV: body.diode.forwardDropV ?? DEFAULT_DIODE.forwardDropV, resistanceOhm: body.diode.resistanceOhm ?? DEFAULT_DIODE.resistanceOhm } : undefined,

@@ -154,7 +154,8 @@ export const fitRoutes: FastifyPluginAsyncTypebox = async (app) => {
     async (request, reply) => {
       const raw = request.body as unknown;
       const body = typeof raw === 'string' ? bodyFromCsvRequest(request, raw, request.query as FitCsvQueryString) : (raw as FitRequestBody);
-      const circuit = withPointerPrefix('/circuit', () => circuitFromBody(body.circuit as CircuitBody, app.services.amplifiers, '/circuit'));
+      const amplifiers = await app.services.amplifiers.forSpecs((body.circuit as CircuitBody | undefined)?.amplifier);
+      const circuit = withPointerPrefix('/circuit', () => circuitFromBody(body.circuit as CircuitBody, amplifiers, '/circuit'));
       const input: FitInput = { circuit };
       if (body.tolerances) input.tolerances = body.tolerances;
       if (body.measurements) input.measurements = body.measurements as FitInput['measurements'];

@@ -3,7 +3,8 @@ import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import { buildValueSet, jointSnap, snapValue, type JointCandidate, type RoleSources, type RoleValue, type SnapChoice, type ValueSource } from '../../core/design/index.ts';
 import { parseComponentValue } from '../../core/parts/value-parse.ts';
 import type { AnalysisResult } from '../../core/index.ts';
-import { getCatalogue } from '../catalogue-source.ts';
+import { catalogueLookupFor, cataloguesNamedIn, type CatalogueLookup } from '../catalogue-source.ts';
+import type { AmplifierLookup } from '../amplifier-directory.ts';
 import { resolveAmplifierSpec, withPointerPrefix } from '../convert.ts';
 import { HttpProblem } from '../problem.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
@@ -12,14 +13,29 @@ import type { Services } from '../services.ts';
 
 type SourceBody = { series: string; tolerance?: number } | { catalogue: string };
 
-export function valueSourceFromBody(src: SourceBody, services: Services, pointer: string): ValueSource {
-  if ('catalogue' in src) return { catalogue: getCatalogue(services, src.catalogue, `${pointer}/catalogue`) };
+/** What the synchronous helpers below read stored documents through (read up front by `storedFor`). */
+export interface StoredLookups {
+  amplifiers: AmplifierLookup;
+  catalogue: CatalogueLookup;
+}
+
+/** Read the registered amplifiers and catalogues a request names, before the synchronous work. */
+export async function storedFor(services: Services, amplifierSpecs: unknown[], valueSources: unknown): Promise<StoredLookups> {
+  const [amplifiers, catalogue] = await Promise.all([
+    services.amplifiers.forSpecs(...amplifierSpecs),
+    catalogueLookupFor(services, cataloguesNamedIn(valueSources)),
+  ]);
+  return { amplifiers, catalogue };
+}
+
+export function valueSourceFromBody(src: SourceBody, services: StoredLookups, pointer: string): ValueSource {
+  if ('catalogue' in src) return { catalogue: services.catalogue(src.catalogue, `${pointer}/catalogue`) };
   return src as ValueSource;
 }
 
 export function roleSourcesFromBody(
   body: { resistor?: SourceBody; capacitor?: SourceBody; roles?: Record<string, SourceBody> },
-  services: Services,
+  services: StoredLookups,
   pointer = '/values',
 ): RoleSources {
   const out: { resistor?: ValueSource; capacitor?: ValueSource; roles?: Record<string, ValueSource> } = {};
@@ -68,7 +84,7 @@ function choiceJson(c: SnapChoice | null | undefined) {
 /** Widest span a single-value snap needs around its ideal: neighbours and two-part partners down to 1/1000 of it. */
 const SINGLE_SPAN = 1000;
 
-function snapOneValue(v: NonNullable<SnapRequestBody['values']>[number], index: number, services: Services) {
+function snapOneValue(v: NonNullable<SnapRequestBody['values']>[number], index: number, services: StoredLookups) {
   const at = `/values/${index}`;
   const ideal = parseComponentValue(v.ideal, v.kind, `${at}/ideal`);
   const source = valueSourceFromBody(v.source as SourceBody, services, `${at}/source`);
@@ -98,7 +114,7 @@ function candidateJson(c: JointCandidate) {
   };
 }
 
-function snapCircuit(body: CircuitSnapBody, services: Services) {
+function snapCircuit(body: CircuitSnapBody, services: StoredLookups) {
   const amplifier = resolveAmplifierSpec((body.amplifier ?? 'ideal') as string | Record<string, unknown>, services.amplifiers, '/amplifier');
   const r = body.ranges ?? {};
   let ideal: Record<string, number> | undefined;
@@ -147,11 +163,12 @@ export const snapRoutes: FastifyPluginAsyncTypebox = async (app) => {
       if (!body.values && !body.circuit) {
         throw new HttpProblem(400, 'validation', 'Give `values`, `circuit` or both', [{ pointer: '/', detail: 'needs values or circuit' }]);
       }
-      const values = (body.values ?? []).map((v, i) => snapOneValue(v, i, app.services));
+      const stored = await storedFor(app.services, [body.circuit?.amplifier], [body.values, body.circuit?.values]);
+      const values = (body.values ?? []).map((v, i) => snapOneValue(v, i, stored));
       const out: Record<string, unknown> = { values };
       if (body.circuit) {
         const circuit = body.circuit;
-        out.circuit = withPointerPrefix('/circuit', () => snapCircuit(circuit, app.services));
+        out.circuit = withPointerPrefix('/circuit', () => snapCircuit(circuit, stored));
       }
       return out as never;
     },

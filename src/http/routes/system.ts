@@ -23,7 +23,7 @@ export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
       schema: { tags: ['system'], summary: 'Readiness: the store answers', response: { 200: Ready, 503: Ready } },
     },
     async (_request, reply) => {
-      const store = app.services.store.ping();
+      const store = await app.services.store.ping();
       return reply.code(store ? 200 : 503).send({ status: store ? 'ready' : 'not-ready', checks: { store } });
     },
   );

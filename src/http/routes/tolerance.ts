@@ -69,7 +69,8 @@ export const toleranceRoutes: FastifyPluginAsyncTypebox = async (app) => {
         throw new HttpProblem(406, 'not-acceptable', `This resource answers ${JSON_TYPE} or ${SVG}; Accept was '${request.headers.accept}'`);
       }
       const body = request.body as ToleranceRequestBody;
-      const circuit = withPointerPrefix('/circuit', () => circuitFromBody(body.circuit, app.services.amplifiers, '/circuit'));
+      const amplifiers = await app.services.amplifiers.forSpecs(body.circuit.amplifier);
+      const circuit = withPointerPrefix('/circuit', () => circuitFromBody(body.circuit, amplifiers, '/circuit'));
       const coreRequest = toCoreRequest(body, circuit, kind === 'svg');
       // Refuse an oversized run before it takes a thread.
       monteCarloOptions(coreRequest, chooseModel(circuit, coreRequest.model));

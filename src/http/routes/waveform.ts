@@ -87,7 +87,7 @@ export const waveformRoutes: FastifyPluginAsyncTypebox = async (app) => {
         throw new HttpProblem(406, 'not-acceptable', `This resource is available as ${OFFERED.join(' or ')}`);
       }
       const body = request.body;
-      const circuit = circuitFromBody(body.circuit, app.services.amplifiers, '/circuit');
+      const circuit = circuitFromBody(body.circuit, await app.services.amplifiers.forSpecs(body.circuit.amplifier), '/circuit');
       const prepared = withPointerPrefix('/circuit', () => prepareCircuit(circuit));
       const includePowerUp = body.includePowerUp ?? false;
       const { samples, figures } = waveformOfPrepared(prepared, {
