@@ -28,7 +28,6 @@ import { catalogueLookupFor, type CatalogueLookup } from '../catalogue-source.ts
 import { inlineAmplifierFromBody } from '../convert.ts';
 import { BomCheckRequest, BomCheckResponse, BomCheckResult, type BomAssemblyBody } from '../schemas/bom.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
-import type { Services } from '../services.ts';
 
 export const NDJSON_MEDIA_TYPE = 'application/x-ndjson';
 
