@@ -23,7 +23,8 @@ import { FitCsvQuery, FitRequest, FitResult, type FitCsvQueryString, type FitReq
 import { problemResponses, ref } from '../schemas/common.ts';
 import type { CircuitBody } from '../schemas/circuit.ts';
 
-const CSV_TYPES = ['text/csv', 'application/csv'];
+/** Only text/csv is CSV (RFC 7111); any other text is not read as a capture. */
+const CSV_TYPES = ['text/csv'];
 
 function toSamples(xs: readonly (number | null)[] | undefined): Float64Array | undefined {
   if (xs === undefined) return undefined;
@@ -120,6 +121,7 @@ export function shapeFitReport(report: FitReport): Static<typeof FitResult> {
     },
     verdict: diagnosis.verdict,
     explanations: diagnosis.explanations,
+    ambiguities: diagnosis.ambiguities,
     candidateCount: diagnosis.candidateCount,
     warnings: report.warnings,
   };
@@ -153,6 +155,13 @@ export const fitRoutes: FastifyPluginAsyncTypebox = async (app) => {
     },
     async (request, reply) => {
       const raw = request.body as unknown;
+      const contentType = (request.headers['content-type'] ?? '').split(';')[0].trim().toLowerCase();
+      if (raw === undefined || raw === null) {
+        throw new HttpProblem(400, 'validation', 'POST /v1/fit needs a body: a FitRequest as application/json, or a scope CSV as text/csv', [{ pointer: '', detail: 'a body is required' }]);
+      }
+      if (typeof raw === 'string' && !CSV_TYPES.includes(contentType)) {
+        throw new HttpProblem(415, 'unsupported-media-type', `/v1/fit reads application/json or text/csv, not ${contentType || 'an untyped body'}`);
+      }
       const body = typeof raw === 'string' ? bodyFromCsvRequest(request, raw, request.query as FitCsvQueryString) : (raw as FitRequestBody);
       const amplifiers = await app.services.amplifiers.forSpecs((body.circuit as CircuitBody | undefined)?.amplifier);
       const circuit = withPointerPrefix('/circuit', () => circuitFromBody(body.circuit as CircuitBody, amplifiers, '/circuit'));

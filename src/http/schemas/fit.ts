@@ -7,14 +7,15 @@ import { ref } from './common.ts';
 const MEASUREMENT_WORDS: Record<(typeof OBSERVABLES)[number], string> = {
   frequencyHz: 'Oscillation frequency, Hz (default uncertainty 0.1 %)',
   dutyCycle: 'Output-high share of the period between 50 % crossings, 0..1 (default uncertainty 0.005)',
-  capacitorMinV: 'Lowest capacitor voltage (lower switching level incl. overshoot), V (default 1 % + 20 mV)',
-  capacitorMaxV: 'Highest capacitor voltage (upper switching level incl. overshoot), V (default 1 % + 20 mV)',
-  outputHighV: 'Output high level, V (default 1 % + 20 mV)',
-  outputLowV: 'Output low level, V (default 1 % + 20 mV)',
+  capacitorMinV: 'Lowest capacitor voltage (its turning point, overshoot included), V (default 1 % + 20 mV)',
+  capacitorMaxV: 'Highest capacitor voltage (its turning point, overshoot included), V (default 1 % + 20 mV)',
+  outputHighV: 'Settled output high level, V (default 1 % + 20 mV)',
+  outputLowV: 'Settled output low level, V (default 1 % + 20 mV)',
   riseTimeS: '10–90 % rise time of the output, s (default 5 %)',
   fallTimeS: '90–10 % fall time of the output, s (default 5 %)',
   capacitorRisingTauS: 'Time constant of the charging capacitor, s (default 5 %)',
   capacitorFallingTauS: 'Time constant of the discharging capacitor, s (default 5 %)',
+  capacitorAboveMidShare: 'Share of the period the capacitor spends above the middle of its range, 0..1 (default uncertainty 0.005)',
 };
 
 export const ScalarMeasurement = Type.Union(
@@ -47,7 +48,7 @@ const Samples = (description: string) =>
 
 export const FitCapture = Type.Object(
   {
-    sampleIntervalS: Type.Optional(Type.Number({ exclusiveMinimum: 0, description: 'Sample interval, s (or give timeS)' })),
+    sampleIntervalS: Type.Optional(Type.Number({ minimum: 1e-15, maximum: 1e3, description: 'Sample interval, s, from 1 fs to 1000 s (or give timeS)' })),
     timeS: Samples('Sample instants, s, strictly increasing (wins over sampleIntervalS)'),
     output: Samples('Amplifier output channel, V (null = missing sample, rejected with 422)'),
     capacitor: Samples('Timing-capacitor channel, V (null = missing sample, rejected with 422)'),
@@ -67,9 +68,9 @@ export const FitCapture = Type.Object(
   { $id: 'FitCapture', additionalProperties: false, description: 'A scope capture: one or two channels as arrays with a sample interval or time column, or a CSV export' },
 );
 
-export const Tolerances = Type.Record(Type.String({ pattern: '^[A-Za-z][A-Za-z0-9]*$' }), Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1 }), {
+export const Tolerances = Type.Record(Type.String({ pattern: '^[A-Za-z][A-Za-z0-9]*$' }), Type.Number({ minimum: 1e-4, exclusiveMaximum: 1 }), {
   $id: 'Tolerances',
-  description: 'Part tolerances by role as fractions (0.05 = 5 %); defaults 1 % for resistors and 10 % for capacitors. Read as ±3σ.',
+  description: 'Part tolerances by role as fractions from 1e-4 (0.01 %) to below 1 (0.05 = 5 %); defaults 1 % for resistors and 10 % for capacitors. Read as ±3σ.',
 });
 
 export const FitRequest = Type.Object(
@@ -124,10 +125,10 @@ const Figures = Type.Object(
     fallTimeS: num(),
     capacitorRisingTauS: num(),
     capacitorFallingTauS: num(),
-    upperThresholdV: num(),
+    capacitorAboveMidShare: num('Share of the period the capacitor spends above the middle of its range'),
+    upperThresholdV: num('Switching level at node P, V'),
     lowerThresholdV: num(),
     hysteresisRatio: num('(upper − lower threshold)/(output high − low)'),
-    effectiveEdgeDelayS: num('Recovery delay + half the slew ramp, s'),
   },
   { additionalProperties: false, description: 'Figures the forward model predicts' },
 );
@@ -149,9 +150,11 @@ const MeasurementReport = Type.Object(
 );
 
 const EstimateProperties = {
-  parameter: Type.String({ description: 'Part role (cTiming, rTiming, ...) or amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS)' }),
-  kind: Type.Union([Type.Literal('part'), Type.Literal('amplifier')]),
-  unit: Type.Union([Type.Literal('ohm'), Type.Literal('F'), Type.Literal('V'), Type.Literal('V/s'), Type.Literal('s')]),
+  parameter: Type.String({
+    description: 'Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA) or supplyScale',
+  }),
+  kind: Type.Union([Type.Literal('part'), Type.Literal('amplifier'), Type.Literal('supply')]),
+  unit: Type.Union([Type.Literal('ohm'), Type.Literal('F'), Type.Literal('V'), Type.Literal('V/s'), Type.Literal('s'), Type.Literal('A'), Type.Literal('1')]),
   nominal: NumberOrNull('Nominal value (null: no limit, e.g. an instant slew rate)'),
   estimate: NumberOrNull('MAP estimate (null: no limit)'),
   standardDeviation: NumberOrNull('Posterior standard deviation, first order (null: unbounded)'),
@@ -169,6 +172,9 @@ const Cause = Type.Object(
   {
     ...EstimateProperties,
     withinTolerance: Type.Boolean(),
+    fault: Type.Union([Type.Literal('off'), Type.Literal('neighbouring-value'), Type.Literal('decade-slip'), Type.Literal('swapped')], {
+      description: 'off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted',
+    }),
     text: Type.String({ description: 'e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance"' }),
   },
   { additionalProperties: false },
@@ -177,12 +183,14 @@ const Cause = Type.Object(
 const Explanation = Type.Object(
   {
     rank: Type.Integer({ minimum: 1 }),
+    hypothesis: Type.String({ description: 'Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom' }),
     causes: Type.Array(Cause, { minItems: 1, maxItems: 2 }),
-    score: num('Posterior probability among the nominal circuit and the candidates considered, 0..1'),
-    logEvidence: num('Laplace-approximated log evidence'),
-    residualChiSquare: num('χ² of the measurements this explanation leaves'),
+    score: num('Posterior probability among the nominal circuit and the explanations listed (they sum to one with verdict.nominalScore)'),
+    logEvidence: num('Laplace-approximated log evidence times prior'),
+    residualChiSquare: num('χ² of the measurements this explanation leaves, the other effects allowed their tolerances'),
     measurementCount: Type.Integer(),
     accountsForMeasurements: Type.Boolean({ description: 'Residual χ² within its 95 % bound' }),
+    passesGoodnessOfFit: Type.Boolean({ description: 'Residual χ² within its 1e-3 bound; one that fails never outranks one that passes' }),
     residuals: Type.Array(
       Type.Object(
         { measurement: ObservableName, measured: num(), predicted: num(), uncertainty: num(), normalized: num('(predicted − measured)/uncertainty') },
@@ -203,19 +211,18 @@ const CaptureFeatures = Type.Object(
     periodMinS: num(),
     periodMaxS: num(),
     periodCount: Type.Integer(),
-    dutyCycle: num(),
-    outputHighV: Type.Optional(num('IEEE Std 181 histogram state level, V')),
+    dutyCycle: Type.Optional(num()),
+    outputHighV: Type.Optional(num('Settled output level (IEEE Std 181 histogram levels refined over the settled parts of the states), V')),
     outputLowV: Type.Optional(num()),
     riseTimeS: Type.Optional(num('Mean 10–90 % transition duration, s')),
     fallTimeS: Type.Optional(num()),
     edgeCount: Type.Optional(Type.Integer()),
     capacitorMinV: Type.Optional(num()),
     capacitorMaxV: Type.Optional(num()),
-    upperSwitchV: Type.Optional(num('Capacitor voltage at the falling output edges (segment fits), V')),
-    lowerSwitchV: Type.Optional(num()),
-    risingTauS: Type.Optional(num('Fitted time constant of the charging segments, s')),
+    risingTauS: Type.Optional(num('Windowed time constant of the charging segments, s')),
     fallingTauS: Type.Optional(num()),
-    segmentCount: Type.Optional(Type.Integer()),
+    capacitorAboveMidShare: Type.Optional(num('Share of the period the capacitor spends above the middle of its range')),
+    turningPointCount: Type.Optional(Type.Integer()),
     sampleCount: Type.Integer(),
     sampleIntervalS: num(),
     durationS: num(),
@@ -265,7 +272,8 @@ export const FitResult = Type.Object(
     verdict: Type.Object(
       {
         agreesWithNominal: Type.Boolean(),
-        nominalChiSquare: num(),
+        nominalChiSquare: num('χ² with every part at its nominal value'),
+        toleranceChiSquare: num('χ² allowing every effect its tolerance or class spread (what the verdict tests)'),
         measurementCount: Type.Integer(),
         chiSquareBound95: num('95 % χ² bound (Wilson–Hilferty)'),
         nominalScore: num('Posterior probability that nothing is off'),
@@ -273,8 +281,30 @@ export const FitResult = Type.Object(
       },
       { additionalProperties: false },
     ),
-    explanations: Type.Array(ref(Explanation), { description: 'Ranked one- and two-cause explanations' }),
-    candidateCount: Type.Integer({ description: 'Candidates scored (single causes, and pairs that beat both their single causes)' }),
+    explanations: Type.Array(ref(Explanation), { description: 'Ranked one- and two-cause explanations, wrong parts included' }),
+    ambiguities: Type.Array(
+      Type.Object(
+        {
+          hypotheses: Type.Array(Type.String()),
+          measuredSeparationSigma: num('Largest difference of their predictions on the measured figures, in σ'),
+          statement: Type.String(),
+          separatingMeasurement: Type.Optional(
+            Type.Object(
+              {
+                action: Type.String(),
+                figure: Type.String(),
+                predictions: Type.Array(Type.Object({ hypothesis: Type.String(), value: num() }, { additionalProperties: false })),
+                separationSigma: num('Difference of the predictions over a typical bench uncertainty of that figure'),
+              },
+              { additionalProperties: false },
+            ),
+          ),
+        },
+        { additionalProperties: false },
+      ),
+      { description: 'Leading hypotheses the measurements cannot tell apart, and the measurement that would (computed from their predictions)' },
+    ),
+    candidateCount: Type.Integer({ description: 'Hypotheses scored' }),
     warnings: Type.Array(Type.String()),
   },
   { $id: 'FitResult', additionalProperties: false },

@@ -23,12 +23,12 @@ describe('analyzeCapture on a 1e6-sample capture', () => {
     expect(f.sampleCount).toBe(count);
     expect(Math.abs(f.periodS / periodS - 1)).toBeLessThan(1e-4);
     expect(f.periodCount).toBeGreaterThan(140);
-    expect(Math.abs(f.dutyCycle - 0.5)).toBeLessThan(1e-3);
+    expect(Math.abs(f.dutyCycle! - 0.5)).toBeLessThan(1e-3);
     expect(Math.abs(f.risingTauS! / tauS - 1)).toBeLessThan(2e-3);
     expect(Math.abs(f.fallingTauS! / tauS - 1)).toBeLessThan(2e-3);
-    expect(Math.abs(f.upperSwitchV! - beta * L)).toBeLessThan(0.01);
-    expect(Math.abs(f.lowerSwitchV! + beta * L)).toBeLessThan(0.01);
-    expect(f.segmentCount).toBeGreaterThan(140);
+    expect(Math.abs(f.capacitorMaxV! - beta * L)).toBeLessThan(0.01);
+    expect(Math.abs(f.capacitorMinV! + beta * L)).toBeLessThan(0.01);
+    expect(f.turningPointCount).toBeGreaterThan(140);
     // state levels by the IEEE 181 histogram method: 50 mV noise averaged over ~5e5 samples per state
     expect(Math.abs(f.outputHighV! - L)).toBeLessThan(0.005);
     expect(Math.abs(f.outputLowV! + L)).toBeLessThan(0.005);

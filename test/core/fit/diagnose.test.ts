@@ -31,7 +31,8 @@ const firstCauses = (r: FitReport) => r.diagnosis.explanations[0].causes.map((c)
 describe('ranked explanations from synthetic captures with one known cause', () => {
   it('a capacitor 7.5 % high: cTiming alone ranks first, inside its tolerance', () => {
     const r = diagnoseCapture(withParts(bridgeClock, { cTiming: 4.7e-9 * 1.075 }), 101);
-    expect(r.diagnosis.verdict.agreesWithNominal).toBe(false);
+    // +7.5 % on a 10 % capacitor is inside its tolerance: the board is in order, and the best explanation still names it.
+    expect(r.diagnosis.verdict.agreesWithNominal).toBe(true);
     const best = r.diagnosis.explanations[0];
     expect(firstCauses(r)).toEqual(['cTiming']);
     expect(best.causes[0].relativeShift!).toBeGreaterThan(0.06);
@@ -39,12 +40,11 @@ describe('ranked explanations from synthetic captures with one known cause', () 
     expect(best.causes[0].withinTolerance).toBe(true);
     expect(best.causes[0].text).toMatch(/^cTiming \+7\.\d %.*inside its 10 % tolerance$/);
     expect(best.accountsForMeasurements).toBe(true);
-    expect(best.score).toBeGreaterThan(0.5);
-    expect(r.diagnosis.verdict.statement).toContain('Most plausible: cTiming');
-    // Scores are posterior probabilities over the candidates: ranked and at most 1 in total.
+    expect(r.diagnosis.verdict.statement).toMatch(/^The measurements agree with the nominal circuit within its tolerances/);
+    // Scores are posterior probabilities over the nominal circuit and the explanations listed: ranked, summing to one.
     const scores = r.diagnosis.explanations.map((e) => e.score);
     expect([...scores].sort((a, b) => b - a)).toEqual(scores);
-    expect(scores.reduce((a, b) => a + b, 0) + r.diagnosis.verdict.nominalScore).toBeLessThanOrEqual(1 + 1e-9);
+    expect(scores.reduce((a, b) => a + b, 0) + r.diagnosis.verdict.nominalScore).toBeCloseTo(1, 9);
   });
 
   it('an output that stops 0.35 V short of the positive rail: outputHighV ranks first', () => {
@@ -62,8 +62,8 @@ describe('ranked explanations from synthetic captures with one known cause', () 
     expect(Math.abs(e.estimate! / 2e6 - 1)).toBeLessThan(0.1);
   });
 
-  it('two causes at once (capacitor +6 %, output high short by 0.3 V): the pair ranks first', () => {
-    const truth = withAmplifier(withParts(bridgeClock, { cTiming: 4.7e-9 * 1.06 }), { outputHeadroomHighV: 0.32 });
+  it('two causes at once (capacitor +25 %, beyond its 10 % tolerance, and output high short by 0.3 V): the pair ranks first', () => {
+    const truth = withAmplifier(withParts(bridgeClock, { cTiming: 4.7e-9 * 1.25 }), { outputHeadroomHighV: 0.32 });
     const r = diagnoseCapture(truth, 131);
     expect(firstCauses(r)).toEqual(['cTiming', 'outputHighV']);
     expect(r.diagnosis.explanations[0].accountsForMeasurements).toBe(true);
@@ -72,7 +72,7 @@ describe('ranked explanations from synthetic captures with one known cause', () 
   it('the nominal circuit itself: a plain statement that the measurements agree', () => {
     const r = diagnoseCapture(bridgeClock, 141);
     expect(r.diagnosis.verdict.agreesWithNominal).toBe(true);
-    expect(r.diagnosis.verdict.statement).toMatch(/^The measurements agree with the nominal circuit within their uncertainty/);
+    expect(r.diagnosis.verdict.statement).toMatch(/^The measurements agree with the nominal circuit within its tolerances/);
     expect(r.diagnosis.verdict.nominalChiSquare).toBeLessThanOrEqual(r.diagnosis.verdict.chiSquareBound95);
   });
 });

@@ -1,12 +1,11 @@
 import { CoreError } from '../../errors.ts';
-import { analyzeEdges, intervalStats } from './crossings.ts';
-import type { CrossingOptions, IntervalStats } from './crossings.ts';
-import { analyzeCapacitorSegments } from './exp-segments.ts';
-import type { CapacitorSegmentAnalysis } from './exp-segments.ts';
+import { analyzeEdges } from './crossings.ts';
+import type { CrossingOptions } from './crossings.ts';
+import { readCapacitor, readOutput, type Spread } from './scope-readings.ts';
 import { assertFiniteSamples } from './sample-checks.ts';
 import { explicitClock, uniformClock } from './sample-clock.ts';
 import type { SampleClock } from './sample-clock.ts';
-import type { TurningPoint } from './turning-points.ts';
+import { findTurningPoints } from './turning-points.ts';
 
 /**
  * Everything a relaxation-oscillator scope capture tells us, from one or both
@@ -28,12 +27,7 @@ export interface CaptureInput {
   capacitor?: ArrayLike<number>;
 }
 
-export interface CaptureAnalysisOptions extends CrossingOptions {
-  /** Points fitted per capacitor segment (default 2000). */
-  maxFitPoints?: number;
-  /** Share of each capacitor segment left out of the fit at both ends (default 0.02). */
-  guardFraction?: number;
-}
+export type CaptureAnalysisOptions = CrossingOptions;
 
 export interface CaptureFeatures {
   /** Which channel the period, duty and edges came from. */
@@ -45,34 +39,40 @@ export interface CaptureFeatures {
   periodMinS: number;
   periodMaxS: number;
   periodCount: number;
-  /** Output-high share of the period, 0..1 (from the capacitor alone: its rising share). */
-  dutyCycle: number;
+  /** Output-high share of the period between 50 % crossings, 0..1 (output channel only). */
+  dutyCycle?: number;
   outputHighV?: number;
   outputLowV?: number;
   /** Mean 10-90 % transition durations of the output, s. */
   riseTimeS?: number;
   fallTimeS?: number;
   edgeCount?: number;
+  /** Capacitor turning points (local fits on both sides), averaged, V. */
   capacitorMinV?: number;
   capacitorMaxV?: number;
-  /** Capacitor voltage at the switching instants, averaged, V. */
-  upperSwitchV?: number;
-  lowerSwitchV?: number;
-  /** Fitted time constant of the charging / discharging pieces, s. */
+  /** Windowed time constants of the charging / discharging segments, s. */
   risingTauS?: number;
   fallingTauS?: number;
-  segmentCount?: number;
+  /** Share of the period the capacitor spends above the middle of its range, 0..1. */
+  capacitorAboveMidShare?: number;
+  turningPointCount?: number;
   sampleCount: number;
   /** Mean sample spacing, s, and the record's length, s. */
   sampleIntervalS: number;
   durationS: number;
   warnings: string[];
+  /** Spread of the per-cycle readings behind each figure (for the uncertainties; not reported). */
+  spreads: Partial<Record<'dutyCycle' | 'riseTimeS' | 'fallTimeS' | 'capacitorMaxV' | 'capacitorMinV' | 'risingTauS' | 'fallingTauS' | 'capacitorAboveMidShare', Spread>>;
 }
 
 /** A capacitor record with more than this share of samples at exactly its extreme is clipped. */
 const CAPACITOR_CLIPPED_FRACTION = 0.05;
 /** ...and more than this many times the samples on the next value in from it. */
 const CLIPPED_PLATEAU_RATIO = 4;
+
+/** Sample intervals a scope can have: 1 fs to 1000 s (our bounds, far beyond any instrument's). */
+export const MIN_SAMPLE_INTERVAL_S = 1e-15;
+export const MAX_SAMPLE_INTERVAL_S = 1e3;
 
 function bad(message: string, reason: string, pointer?: string, extra: Record<string, unknown> = {}): CoreError {
   return new CoreError('bad-capture', message, pointer, { reason, ...extra });
@@ -84,8 +84,8 @@ function toFloat64(xs: ArrayLike<number>): Float64Array {
 
 function buildClock(input: CaptureInput, n: number, warnings: string[]): SampleClock {
   const dt = input.sampleIntervalS;
-  if (dt !== undefined && !(Number.isFinite(dt) && dt > 0)) {
-    throw bad(`sampleIntervalS must be a positive number of seconds, got ${dt}`, 'bad-sample-interval', '/sampleIntervalS');
+  if (dt !== undefined && !(Number.isFinite(dt) && dt >= MIN_SAMPLE_INTERVAL_S && dt <= MAX_SAMPLE_INTERVAL_S)) {
+    throw bad(`sampleIntervalS must be from ${MIN_SAMPLE_INTERVAL_S} s to ${MAX_SAMPLE_INTERVAL_S} s, got ${dt}`, 'bad-sample-interval', '/sampleIntervalS');
   }
   if (input.timeS === undefined) {
     if (dt === undefined) throw bad('the capture needs either timeS or sampleIntervalS', 'no-time-base', '/sampleIntervalS');
@@ -161,32 +161,6 @@ function capacitorExtremes(v: Float64Array): { minV: number; maxV: number } {
   return { minV, maxV };
 }
 
-/** Period and duty from the capacitor's turning points (output high while the capacitor charges). */
-function timingFromTurningPoints(tps: readonly TurningPoint[]): { period: IntervalStats; dutyCycle: number } {
-  const maxima = tps.filter((p) => p.kind === 'max');
-  const minima = tps.filter((p) => p.kind === 'min');
-  if (maxima.length < 2 && minima.length < 2) {
-    const what = tps.length === 0 ? 'no turning point' : tps.length === 1 ? 'one edge only (one turning point)' : 'one edge in each direction only';
-    throw bad(`capacitor shows ${what}: at least two switching instants in the same direction (one full period) are needed`, 'too-few-edges', '/capacitor', {
-      edgeCount: tps.length,
-    });
-  }
-  const periods: number[] = [];
-  for (let k = 1; k < maxima.length; k++) periods.push(maxima[k].timeS - maxima[k - 1].timeS);
-  for (let k = 1; k < minima.length; k++) periods.push(minima[k].timeS - minima[k - 1].timeS);
-  const duties: number[] = [];
-  for (let k = 0; k + 2 < tps.length; k++) {
-    const a = tps[k];
-    const b = tps[k + 1];
-    const c = tps[k + 2];
-    const rising = a.kind === 'min' ? b.timeS - a.timeS : c.timeS - b.timeS;
-    duties.push(rising / (c.timeS - a.timeS));
-  }
-  let sum = 0;
-  for (const d of duties) sum += d;
-  return { period: intervalStats(periods), dutyCycle: sum / duties.length };
-}
-
 export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOptions = {}): CaptureFeatures {
   const warnings: string[] = [];
   if (input.output === undefined && input.capacitor === undefined) {
@@ -202,83 +176,88 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
   const clock = buildClock(input, n, warnings);
   if (output !== undefined) assertFiniteSamples(output, 'output', '/output');
   if (capacitor !== undefined) assertFiniteSamples(capacitor, 'capacitor', '/capacitor');
-  const capacitorRange = capacitor === undefined ? undefined : capacitorExtremes(capacitor);
+  if (capacitor !== undefined) capacitorExtremes(capacitor);
 
   const t0 = clock.kind === 'uniform' ? clock.startS : clock.timeS[0];
   const tEnd = clock.kind === 'uniform' ? clock.startS + (n - 1) * clock.intervalS : clock.timeS[n - 1];
   const durationS = tEnd - t0;
   const sampleIntervalS = durationS / (n - 1);
-  const segmentOptions = {
-    ...(options.maxFitPoints === undefined ? {} : { maxFitPoints: options.maxFitPoints }),
-    ...(options.guardFraction === undefined ? {} : { guardFraction: options.guardFraction }),
-    channelName: 'capacitor',
-    pointer: '/capacitor',
-  };
+  if (!(sampleIntervalS >= MIN_SAMPLE_INTERVAL_S) || !Number.isFinite(durationS)) {
+    throw bad(`the record spans ${durationS} s over ${n} samples: not a usable time base`, 'bad-sample-interval', input.timeS !== undefined ? '/timeS' : '/sampleIntervalS');
+  }
 
+  const spreads: CaptureFeatures['spreads'] = {};
   let features: CaptureFeatures;
-  let segments: CapacitorSegmentAnalysis | undefined;
   if (output !== undefined) {
     const edges = analyzeEdges(output, clock, { ...options, channelName: 'output', pointer: '/output' });
+    const read = readOutput(output, clock, edges.levels.highV, edges.levels.lowV);
+    const period = Number.isFinite(read.period.meanS) ? read.period : edges.period;
     features = {
       timingSource: 'output',
-      frequencyHz: edges.frequencyHz,
-      periodS: edges.period.meanS,
-      periodJitterS: edges.period.stdS,
-      periodMinS: edges.period.minS,
-      periodMaxS: edges.period.maxS,
-      periodCount: edges.period.count,
-      dutyCycle: edges.dutyCycle,
-      outputHighV: edges.levels.highV,
-      outputLowV: edges.levels.lowV,
-      edgeCount: edges.transitions.length,
+      frequencyHz: 1 / period.meanS,
+      periodS: period.meanS,
+      periodJitterS: period.stdS,
+      periodMinS: period.minS,
+      periodMaxS: period.maxS,
+      periodCount: period.count,
+      outputHighV: read.highV,
+      outputLowV: read.lowV,
+      edgeCount: read.transitions.length,
       sampleCount: n,
       sampleIntervalS,
       durationS,
       warnings,
+      spreads,
     };
-    if (edges.riseTimeS !== undefined) features.riseTimeS = edges.riseTimeS;
-    if (edges.fallTimeS !== undefined) features.fallTimeS = edges.fallTimeS;
-    const slowest = Math.max(edges.riseTimeS ?? 0, edges.fallTimeS ?? 0);
-    if (slowest > 0.05 * edges.period.meanS) {
-      warnings.push(
-        `output transitions take ${((slowest / edges.period.meanS) * 100).toFixed(1)} % of the period: edges are slow against the period (slew-limited?)`,
-      );
+    if (read.duty) ((features.dutyCycle = read.duty.mean), (spreads.dutyCycle = read.duty));
+    if (read.rise) ((features.riseTimeS = read.rise.mean), (spreads.riseTimeS = read.rise));
+    if (read.fall) ((features.fallTimeS = read.fall.mean), (spreads.fallTimeS = read.fall));
+    const slowest = Math.max(features.riseTimeS ?? 0, features.fallTimeS ?? 0);
+    if (slowest > 0.05 * features.periodS) {
+      warnings.push(`output transitions take ${((slowest / features.periodS) * 100).toFixed(1)} % of the period: edges are slow against the period (slew-limited?)`);
     }
-    if (capacitor !== undefined) {
-      segments = analyzeCapacitorSegments(capacitor, clock, { ...segmentOptions, edgeTimesS: edges.transitions.map((tr) => tr.timeS) });
+  }
+  if (capacitor !== undefined) {
+    const turning = findTurningPoints(capacitor, clock);
+    const maxima = turning.filter((p) => p.kind === 'max').length;
+    const minima = turning.filter((p) => p.kind === 'min').length;
+    if (output === undefined && maxima < 2 && minima < 2) {
+      const what = turning.length === 0 ? 'no turning point' : turning.length === 1 ? 'one edge only (one turning point)' : 'one edge in each direction only';
+      throw bad(`capacitor shows ${what}: at least two switching instants in the same direction (one full period) are needed`, 'too-few-edges', '/capacitor', {
+        edgeCount: turning.length,
+      });
     }
-  } else {
-    segments = analyzeCapacitorSegments(capacitor!, clock, segmentOptions);
-    const timing = timingFromTurningPoints(segments.turningPoints ?? []);
-    features = {
-      timingSource: 'capacitor',
-      frequencyHz: 1 / timing.period.meanS,
-      periodS: timing.period.meanS,
-      periodJitterS: timing.period.stdS,
-      periodMinS: timing.period.minS,
-      periodMaxS: timing.period.maxS,
-      periodCount: timing.period.count,
-      dutyCycle: timing.dutyCycle,
-      sampleCount: n,
-      sampleIntervalS,
-      durationS,
-      warnings,
-    };
-    warnings.push('no output channel: period and duty come from the capacitor turning points; the duty cycle assumes the output is high while the capacitor charges');
+    let periodHintS = features! ? features.periodS : Number.NaN;
+    if (!Number.isFinite(periodHintS)) periodHintS = turning.length > 2 ? (2 * (turning[turning.length - 1].timeS - turning[0].timeS)) / (turning.length - 1) : durationS;
+    const read = readCapacitor(capacitor, clock, turning, periodHintS);
+    if (features! === undefined) {
+      if (read.period === undefined) throw bad('capacitor turning points too close to the record ends to time a full period', 'too-few-edges', '/capacitor', { edgeCount: turning.length });
+      features = {
+        timingSource: 'capacitor',
+        frequencyHz: 1 / read.period.meanS,
+        periodS: read.period.meanS,
+        periodJitterS: read.period.stdS,
+        periodMinS: read.period.minS,
+        periodMaxS: read.period.maxS,
+        periodCount: read.period.count,
+        sampleCount: n,
+        sampleIntervalS,
+        durationS,
+        warnings,
+        spreads,
+      };
+      warnings.push('no output channel: the period comes from the capacitor turning points; the duty cycle is read as the share of the period the capacitor spends above its mid level');
+    }
+    const f = features;
+    f.turningPointCount = read.turningPointCount;
+    if (read.maxV) ((f.capacitorMaxV = read.maxV.mean), (spreads.capacitorMaxV = read.maxV));
+    if (read.minV) ((f.capacitorMinV = read.minV.mean), (spreads.capacitorMinV = read.minV));
+    if (read.risingTau) ((f.risingTauS = read.risingTau.mean), (spreads.risingTauS = read.risingTau));
+    if (read.fallingTau) ((f.fallingTauS = read.fallingTau.mean), (spreads.fallingTauS = read.fallingTau));
+    if (read.aboveMidShare) ((f.capacitorAboveMidShare = read.aboveMidShare.mean), (spreads.capacitorAboveMidShare = read.aboveMidShare));
+    if (read.risingTau === undefined && read.fallingTau === undefined) warnings.push('no complete capacitor stretch between two turning points: no time constant');
   }
-
-  if (capacitorRange !== undefined && segments !== undefined) {
-    const ext = capacitorRange;
-    features.capacitorMinV = ext.minV;
-    features.capacitorMaxV = ext.maxV;
-    features.segmentCount = segments.segments.length;
-    if (segments.upperSwitchV !== undefined) features.upperSwitchV = segments.upperSwitchV;
-    if (segments.lowerSwitchV !== undefined) features.lowerSwitchV = segments.lowerSwitchV;
-    if (segments.risingTauS !== undefined) features.risingTauS = segments.risingTauS;
-    if (segments.fallingTauS !== undefined) features.fallingTauS = segments.fallingTauS;
-    warnings.push(...segments.warnings);
-    if (segments.segments.length === 0) warnings.push('no complete capacitor segment could be fitted');
-  }
-  if (features.periodCount < 3) warnings.push(`only ${features.periodCount} period(s) in the record: jitter and averages rest on very few cycles`);
-  return features;
+  const f = features!;
+  if (f.periodCount < 3) warnings.push(`only ${f.periodCount} period(s) in the record: jitter and averages rest on very few cycles`);
+  return f;
 }

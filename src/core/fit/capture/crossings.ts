@@ -2,8 +2,11 @@ import { CoreError } from '../../errors.ts';
 import { referenceLevelV, stateLevels } from './levels.ts';
 import type { StateLevels } from './levels.ts';
 import { assertFiniteSamples } from './sample-checks.ts';
-import { timeAt, clockLength } from './sample-clock.ts';
+import { timeAt as timeAtImported, clockLength } from './sample-clock.ts';
 import type { SampleClock } from './sample-clock.ts';
+
+/** Module-local bindings: hot per-sample loops call these directly, not through an import binding (CJS transforms make each such call a property read). */
+const timeAt = timeAtImported;
 
 /**
  * Reference-level crossings and transitions of a two-state waveform, with the

@@ -365,6 +365,15 @@ export function parseCaptureCsv(text: string, options: ParseCaptureCsvOptions = 
       notes.push(`column ${dataCols[c] + 1}: ${label} converted to ${unit.base}`);
     }
     if (c === timeCol) {
+      // A time column whose unit is written but is not a time unit ("(furlongs)", "(Ts)") is refused, never read as seconds.
+      const written = label ?? (nameRow === undefined ? undefined : /[([]\s*([^()[\]]+?)\s*[)\]]\s*$/.exec(nameRow[c])?.[1]);
+      if (written !== undefined && unit?.base !== 's') {
+        throw badCapture(`column ${dataCols[c] + 1} ("${nameRow?.[c] ?? written}") is the time column but its unit "${written}" is not a unit of time (s, ms, us, ns, ps)`, {
+          reason: 'bad-time-unit',
+          column: dataCols[c] + 1,
+          unit: written,
+        });
+      }
       if (unit === undefined) notes.push(`column ${dataCols[c] + 1} has no unit: time taken as seconds`);
       result.timeS = values;
       continue;
@@ -378,6 +387,17 @@ export function parseCaptureCsv(text: string, options: ParseCaptureCsvOptions = 
       notes.push(`column ${dataCols[c] + 1}: unit "${label}" not recognised, values kept as written`);
     }
     result.channels.push(channel);
+  }
+  const seen = new Map<string, number>();
+  for (let k = 0; k < result.channels.length; k++) {
+    const key = result.channels[k].name.toLowerCase();
+    if (seen.has(key)) {
+      throw badCapture(`two channel columns are both named "${result.channels[k].name}": rename one so the output and capacitor channels can be told apart`, {
+        reason: 'duplicate-channel',
+        channel: result.channels[k].name,
+      });
+    }
+    seen.set(key, k);
   }
   if (sampleIntervalS !== undefined) result.sampleIntervalS = sampleIntervalS;
   if (result.channels.length === 0) throw badCapture('the CSV has a time column but no channel', { reason: 'no-channel' });

@@ -6,9 +6,5 @@ export * from './channel-map.ts';
 export * from './levels.ts';
 export * from './crossings.ts';
 export * from './turning-points.ts';
-export * from './exp-fit.ts';
-export {
-  analyzeCapacitorSegments,
-} from './exp-segments.ts';
-export type { CapacitorSegment, CapacitorSegmentAnalysis, CapacitorSegmentOptions } from './exp-segments.ts';
+export * from './scope-readings.ts';
 export * from './analyze-capture.ts';

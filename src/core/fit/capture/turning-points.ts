@@ -1,5 +1,8 @@
-import { timeAt, clockLength } from './sample-clock.ts';
+import { timeAt as timeAtImported, clockLength } from './sample-clock.ts';
 import type { SampleClock } from './sample-clock.ts';
+
+/** Module-local bindings: hot per-sample loops call these directly, not through an import binding (CJS transforms make each such call a property read). */
+const timeAt = timeAtImported;
 
 /**
  * Turning points (local maxima and minima) of the capacitor voltage, used as

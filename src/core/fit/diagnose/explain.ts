@@ -1,28 +1,41 @@
 /**
- * Ranked one- and two-cause explanations. Each candidate frees one parameter
- * (or a pair), holds the rest at nominal and is fitted by MAP. Candidates are
- * compared by their Laplace-approximated evidence
- *     ln Z = −½(χ²_data + χ²_prior) − ½·ln det(JᵀJ + I) + |S|·ln(priorOdds),
- * the Bayesian model comparison of MacKay (Information Theory, Inference and
- * Learning Algorithms, ch. 28): a good fit scores, a shift far outside the
- * tolerance costs through χ²_prior, and a parameter the data pin down tightly
- * pays its Occam factor. Each cause carries a prior odds of
- * CAUSE_PRIOR_ODDS against "this parameter is at nominal" (our choice: one
- * part in five notably off), so a second cause must earn its place. Scores
- * are posterior probabilities normalised over the nominal circuit and every
- * candidate considered; a pair is considered only when it beats both of its
- * single causes.
+ * Ranked explanations by evidence. Every hypothesis (hypotheses.ts) is scored
+ * by its marginal likelihood times its prior, the Bayesian model comparison of
+ * MacKay (Information Theory, Inference and Learning Algorithms, ch. 28):
+ *
+ * - the effects a hypothesis does not free still wander within their
+ *   tolerances (the `nuisance` priors of parameters.ts); they are marginalised
+ *   in the linear approximation around the nominal circuit: with J the
+ *   measurements' sensitivity to them (in prior σ), the measurements are
+ *   Gaussian with covariance C = I + J·Jᵀ (in measurement σ), so residuals are
+ *   whitened by C's Cholesky factor and ln det C enters the evidence;
+ * - the freed effects are fitted by MAP (map-lm.ts) in their bounded spaces
+ *   with their `off` priors; the Laplace approximation around the MAP gives
+ *       ln Z = ln P(H) − ½(χ²_data + χ²_prior) − ½ ln det(JᵀJ + I) − ½ ln det C;
+ * - a hypothesis whose whitened χ² fails the goodness-of-fit test at the 1e-3
+ *   level never outranks one that passes: its evidence is capped at 1/1000 of
+ *   the weakest passing one (our rule), so ranks and scores agree;
+ * - scores are posterior probabilities normalised over the nominal circuit and
+ *   the explanations listed.
+ * When the leading hypotheses predict the measured figures alike, the
+ * diagnosis says so and computes which further measurement separates them.
  */
+import { defaultUncertainty, OBSERVABLES, type ObservableName } from '../estimate/measurements.ts';
 import { describeEstimate, type ParameterEstimate } from '../estimate/estimate.ts';
+import type { PredictedFigures } from '../estimate/forward.ts';
+import { cholesky, choleskyLogDet } from '../estimate/linalg.ts';
+import { naturalSd } from '../estimate/parameters.ts';
 import { fitSubset, nominalChiSquare, type FitSetup } from '../estimate/setup.ts';
-import { chiSquareQuantile95 } from './chi-square.ts';
-import { describeShift } from './wording.ts';
+import { chiSquareQuantile95, chiSquareQuantile999 } from './chi-square.ts';
+import { buildHypotheses, pairHypothesis, type Hypothesis, type WrongPartKind } from './hypotheses.ts';
+import { describeShift, formatNatural } from './wording.ts';
 
-export const CAUSE_PRIOR_ODDS = 0.25;
+export type FaultKind = 'off' | WrongPartKind;
 
 export interface Cause extends ParameterEstimate {
-  /** |shift| within the tolerance band (3σ of the prior). */
+  /** |shift| within the tolerance band (parts) or the 3σ nuisance spread (others). */
   withinTolerance: boolean;
+  fault: FaultKind;
   text: string;
 }
 
@@ -37,26 +50,52 @@ export interface ResidualEntry {
 
 export interface Explanation {
   rank: number;
+  hypothesis: string;
   causes: Cause[];
-  /** Posterior probability among the candidates considered, 0..1. */
+  /** Posterior probability among the nominal circuit and the explanations listed, 0..1. */
   score: number;
   logEvidence: number;
-  /** χ² of the measurements this explanation leaves. */
+  /** χ² this explanation leaves, allowing the other effects their tolerances. */
   residualChiSquare: number;
   measurementCount: number;
-  /** True when the residual χ² is within the 95 % bound for the measurement count. */
+  /** Residual χ² within its 95 % bound. */
   accountsForMeasurements: boolean;
+  /** Residual χ² within the 1e-3 goodness-of-fit bound. */
+  passesGoodnessOfFit: boolean;
   residuals: ResidualEntry[];
   summary: string;
 }
 
+export interface SeparatingMeasurement {
+  /** What to do, in words. */
+  action: string;
+  /** The figure that would separate them (an observable, a switching level, or the frequency after a part swap). */
+  figure: string;
+  /** What each hypothesis predicts for it. */
+  predictions: { hypothesis: string; value: number }[];
+  /** The predictions' difference over a typical bench uncertainty of that figure. */
+  separationSigma: number;
+}
+
+export interface Ambiguity {
+  /** Hypotheses the measurements cannot tell apart (the leader first). */
+  hypotheses: string[];
+  /** Largest difference of their predictions on the measured figures, in measurement σ. */
+  measuredSeparationSigma: number;
+  statement: string;
+  separatingMeasurement?: SeparatingMeasurement;
+}
+
 export interface Verdict {
   agreesWithNominal: boolean;
+  /** χ² of the nominal circuit with every part at its nominal value. */
   nominalChiSquare: number;
+  /** χ² of the nominal circuit allowing every effect its tolerance (what the verdict tests). */
+  toleranceChiSquare: number;
   measurementCount: number;
   /** 95 % upper bound of χ² for that many measurements (Wilson–Hilferty). */
   chiSquareBound95: number;
-  /** Posterior probability that nothing is off, among the candidates considered. */
+  /** Posterior probability that nothing is off, among the hypotheses listed. */
   nominalScore: number;
   statement: string;
 }
@@ -64,6 +103,8 @@ export interface Verdict {
 export interface Diagnosis {
   verdict: Verdict;
   explanations: Explanation[];
+  /** Leading hypotheses the measurements cannot separate, with the measurement that would. */
+  ambiguities: Ambiguity[];
   candidateCount: number;
 }
 
@@ -74,100 +115,312 @@ export interface DiagnoseOptions {
   maxExplanations?: number;
 }
 
-interface Candidate {
-  active: number[];
+/** Single `off` causes combined into pairs: the best this many (our bound on the cost). */
+const PAIR_POOL = 6;
+/** Nuisance sensitivities by a step of this many prior σ. */
+const NUISANCE_STEP = 0.3;
+/** A hypothesis counts as a contender at this share of the leader's posterior (our choice). */
+const CONTENDER_SHARE = 0.2;
+/** Predictions closer than this on every measured figure, in σ, cannot be told apart (our choice). */
+const SEPARABLE_SIGMA = 1;
+const LN_GOF_CAP = Math.log(1000);
+
+interface Scored {
+  h: Hypothesis;
   x: Float64Array;
-  dataChiSquare: number;
-  logEvidence: number;
   /** Posterior covariance of the active parameters (fitted space). */
   covariance: Float64Array;
+  chiSquare: number;
+  logEvidence: number;
+  passes: boolean;
 }
 
-export function residualEntries(setup: FitSetup, x: Float64Array): ResidualEntry[] {
-  const fig = setup.figuresAt(x);
+export function residualEntries(setup: FitSetup, fig: PredictedFigures): ResidualEntry[] {
   return setup.measurements.map((m) => {
     const predicted = fig[m.name];
     return { measurement: m.name, measured: m.value, predicted, uncertainty: m.uncertainty, normalized: (predicted - m.value) / m.uncertainty };
   });
 }
 
+/** Whitening by C = I + Σ_{j∈S} J_j J_jᵀ: returns the transform and ln det C. */
+function whitener(columns: readonly Float64Array[], m: number, excluded: readonly number[]): { whiten: (r: Float64Array) => Float64Array; logDet: number } {
+  const c = new Float64Array(m * m);
+  for (let i = 0; i < m; i++) c[i * m + i] = 1;
+  columns.forEach((col, j) => {
+    if (excluded.includes(j)) return;
+    for (let p = 0; p < m; p++) for (let q = 0; q < m; q++) c[p * m + q] += col[p] * col[q];
+  });
+  const l = cholesky(c, m)!;
+  const whiten = (r: Float64Array) => {
+    const y = new Float64Array(m);
+    for (let i = 0; i < m; i++) {
+      let s = r[i];
+      for (let k = 0; k < i; k++) s -= l[i * m + k] * y[k];
+      y[i] = s / l[i * m + i];
+    }
+    return y;
+  };
+  return { whiten, logDet: choleskyLogDet(l, m) };
+}
+
+const sumSq = (v: ArrayLike<number>) => {
+  let s = 0;
+  for (let i = 0; i < v.length; i++) s += v[i] * v[i];
+  return s;
+};
+
 export function diagnose(setup: FitSetup, options: DiagnoseOptions = {}): Diagnosis {
-  const n = setup.parameters.length;
+  const params = setup.parameters;
+  const n = params.length;
+  const m = setup.measurements.length;
   const maxCauses = options.maxCauses ?? 2;
   const maxExplanations = options.maxExplanations ?? 8;
-  const subsets: number[][] = [];
-  for (let a = 0; a < n; a++) subsets.push([a]);
-  if (maxCauses >= 2) for (let a = 0; a < n; a++) for (let b = a + 1; b < n; b++) subsets.push([a, b]);
 
-  const chiNominal = nominalChiSquare(setup);
-  const logNominal = -0.5 * chiNominal;
-  const candidates: Candidate[] = [];
-  for (const active of subsets) {
-    const fit = fitSubset(setup, active);
-    const s = fit.solution;
-    candidates.push({
-      active,
-      x: fit.x,
-      dataChiSquare: s.dataChiSquare,
-      covariance: s.covariance,
-      logEvidence: -0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal + active.length * Math.log(CAUSE_PRIOR_ODDS),
-    });
+  // Sensitivity of the normalised residuals to each effect's nuisance spread (one prior σ).
+  const r0 = setup.residualsAt(setup.nominalX);
+  const columns: Float64Array[] = params.map((p, j) => {
+    const x = Float64Array.from(setup.nominalX);
+    x[j] += NUISANCE_STEP * p.priorSd;
+    let rp: Float64Array;
+    try {
+      rp = setup.residualsAt(x);
+    } catch {
+      return new Float64Array(m);
+    }
+    return Float64Array.from(rp, (v, i) => (Number.isFinite(v) ? (v - r0[i]) / NUISANCE_STEP : 0));
+  });
+  const all = whitener(columns, m, []);
+
+  const score = (h: Hypothesis): Scored | undefined => {
+    if (h.kind !== 'off') {
+      let r: Float64Array;
+      try {
+        r = setup.residualsAt(setup.nominalX, h.parts);
+      } catch {
+        return undefined; // the wrong part stops the oscillation: not what was measured
+      }
+      const chi = sumSq(all.whiten(r));
+      if (!Number.isFinite(chi)) return undefined;
+      return { h, x: setup.nominalX, covariance: new Float64Array(0), chiSquare: chi, logEvidence: h.logPrior - 0.5 * chi - 0.5 * all.logDet, passes: chi <= chiSquareQuantile999(m) };
+    }
+    const w = whitener(columns, m, h.active);
+    try {
+      const fit = fitSubset(setup, h.active, { priorSd: h.active.map((j) => params[j].offSd), transform: w.whiten, maxIterations: 60 });
+      const s = fit.solution;
+      const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
+      return { h, x: fit.x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - h.active.length)) };
+    } catch {
+      return undefined;
+    }
+  };
+
+  const hypotheses = buildHypotheses(setup.circuit, params);
+  const scored: Scored[] = [];
+  for (const h of hypotheses) {
+    const s = score(h);
+    if (s) scored.push(s);
   }
-  // A pair is kept only when it beats both of its single causes: otherwise the
-  // second cause adds nothing the data ask for, and listing it would crowd the ranking.
-  const singleEvidence = new Map(candidates.filter((c) => c.active.length === 1).map((c) => [c.active[0], c.logEvidence]));
-  const considered = candidates.filter(
-    (c) => c.active.length === 1 || c.active.every((j) => c.logEvidence > (singleEvidence.get(j) ?? -Infinity)),
-  );
-  const top = Math.max(logNominal, ...considered.map((c) => c.logEvidence));
-  const total = Math.exp(logNominal - top) + considered.reduce((acc, c) => acc + Math.exp(c.logEvidence - top), 0);
-  const score = (logZ: number) => Math.exp(logZ - top) / total;
-  const m = setup.measurements.length;
-  const bound = chiSquareQuantile95(m);
+  if (maxCauses >= 2) {
+    const singles = scored.filter((s) => s.h.kind === 'off').sort((a, b) => b.logEvidence - a.logEvidence).slice(0, PAIR_POOL);
+    for (let a = 0; a < singles.length; a++) {
+      for (let b = a + 1; b < singles.length; b++) {
+        const s = score(pairHypothesis(singles[a].h, singles[b].h, params));
+        if (s) scored.push(s);
+      }
+    }
+  }
+  // Goodness of fit first: a failing hypothesis gets at most 1/1000 of the weakest passing one's evidence.
+  const passing = scored.filter((s) => s.passes);
+  if (passing.length > 0) {
+    const floor = Math.min(...passing.map((s) => s.logEvidence)) - LN_GOF_CAP;
+    for (const s of scored) if (!s.passes) s.logEvidence = Math.min(s.logEvidence, floor);
+  }
+  scored.sort((a, b) => b.logEvidence - a.logEvidence);
+  const nominal = scored.find((s) => s.h.kind === 'nominal')!;
+  const faults = scored.filter((s) => s.h.kind !== 'nominal').slice(0, maxExplanations);
+  const listed = [nominal, ...faults];
+  const top = Math.max(...listed.map((s) => s.logEvidence));
+  const total = listed.reduce((acc, s) => acc + Math.exp(s.logEvidence - top), 0);
+  const posterior = (s: Scored) => Math.exp(s.logEvidence - top) / total;
 
-  const ranked = [...considered].sort((p, q) => q.logEvidence - p.logEvidence).slice(0, maxExplanations);
-  const explanations: Explanation[] = ranked.map((c, k) => {
-    const k2 = c.active.length;
-    const causes: Cause[] = c.active.map((j, i) => {
-      const p = setup.parameters[j];
-      const e = describeEstimate(p, c.x[j], Math.sqrt(Math.max(0, c.covariance[i * k2 + i])));
-      return { ...e, withinTolerance: Math.abs(e.shiftInTolerances) <= 1, text: describeShift(e, p.label) };
-    });
-    const entries = residualEntries(setup, c.x);
-    const accounts = c.dataChiSquare <= bound;
-    const words = causes.map((x) => x.text).join('; and ');
+  const bound95 = chiSquareQuantile95(m);
+  const figuresOf = (s: Scored) => setup.figuresAt(s.x, s.h.parts);
+  const figureCache = new Map<Scored, PredictedFigures>();
+  const figs = (s: Scored) => {
+    let f = figureCache.get(s);
+    if (!f) figureCache.set(s, (f = figuresOf(s)));
+    return f;
+  };
+
+  const explanations: Explanation[] = faults.map((s, k) => {
+    const causes = causesOf(setup, s);
+    const words = causes.map((c) => c.text).join('; and ');
+    const dof = Math.max(1, m - s.h.active.length);
+    const accounts = s.chiSquare <= chiSquareQuantile95(dof);
     return {
       rank: k + 1,
+      hypothesis: s.h.id,
       causes,
-      score: score(c.logEvidence),
-      logEvidence: c.logEvidence,
-      residualChiSquare: c.dataChiSquare,
+      score: posterior(s),
+      logEvidence: s.logEvidence,
+      residualChiSquare: s.chiSquare,
       measurementCount: m,
       accountsForMeasurements: accounts,
-      residuals: entries,
+      passesGoodnessOfFit: s.passes,
+      residuals: residualEntries(setup, figs(s)),
       summary: accounts
-        ? `${words}: accounts for the measurements (χ² ${c.dataChiSquare.toPrecision(3)} for ${m})`
-        : `${words}: leaves χ² ${c.dataChiSquare.toPrecision(3)} for ${m} measurements (95 % bound ${bound.toPrecision(3)})`,
+        ? `${words}: accounts for the measurements (χ² ${s.chiSquare.toPrecision(3)} for ${m}, other parts within their tolerances)`
+        : `${words}: leaves χ² ${s.chiSquare.toPrecision(3)} for ${m} measurements (95 % bound ${chiSquareQuantile95(dof).toPrecision(3)})${s.passes ? '' : ', failing the goodness-of-fit test at the 1e-3 level'}`,
     };
   });
-  const agrees = chiNominal <= bound;
+
+  // Contenders the measured figures cannot separate from the leader.
+  const ambiguities: Ambiguity[] = [];
+  const leader = listed.reduce((a, b) => (b.logEvidence > a.logEvidence ? b : a));
+  const contenders = listed.filter((s) => s !== leader && posterior(s) >= CONTENDER_SHARE * posterior(leader));
+  if (contenders.length > 0) {
+    const fl = figs(leader);
+    const alike: { s: Scored; sep: number }[] = [];
+    for (const c of contenders) {
+      const fc = figs(c);
+      let sep = 0;
+      for (const meas of setup.measurements) sep = Math.max(sep, Math.abs(fl[meas.name] - fc[meas.name]) / meas.uncertainty);
+      if (sep < SEPARABLE_SIGMA) alike.push({ s: c, sep });
+    }
+    if (alike.length > 0) {
+      const names = [leader, ...alike.map((a) => a.s)].map((s) => s.h.id);
+      const best = separatingMeasurement(setup, leader, alike[0].s, figs);
+      const label = (s: Scored) => (s.h.kind === 'nominal' ? 'nothing off' : causesOf(setup, s).map((c) => c.parameter + (c.fault === 'off' ? '' : ` (${c.fault})`)).join(' + '));
+      const statement =
+        `The measured figures cannot tell ${label(leader)} from ${alike.map((a) => label(a.s)).join(', ')} (their predictions differ by at most ${Math.max(...alike.map((a) => a.sep)).toPrecision(2)} σ).` +
+        (best ? ` To separate them: ${best.action} — ${best.predictions.map((p) => `${p.hypothesis} predicts ${formatFigure(best.figure, p.value)}`).join(', ')} (${best.separationSigma.toPrecision(2)} σ apart).` : '');
+      const amb: Ambiguity = { hypotheses: names, measuredSeparationSigma: Math.max(...alike.map((a) => a.sep)), statement };
+      if (best) amb.separatingMeasurement = best;
+      ambiguities.push(amb);
+    }
+  }
+
+  const tolChi = nominal.chiSquare;
+  const agrees = leader === nominal && nominal.passes;
+  const chiRaw = nominalChiSquare(setup);
   const best = explanations[0];
   let statement: string;
   if (agrees) {
-    statement = `The measurements agree with the nominal circuit within their uncertainty (χ² ${chiNominal.toPrecision(3)} for ${m} measurement${m === 1 ? '' : 's'}, 95 % bound ${bound.toPrecision(3)}).`;
+    statement = `The measurements agree with the nominal circuit within its tolerances (χ² ${tolChi.toPrecision(3)} for ${m} measurement${m === 1 ? '' : 's'}, 95 % bound ${bound95.toPrecision(3)}).`;
   } else if (best === undefined) {
-    statement = `The measurements depart from the nominal circuit (χ² ${chiNominal.toPrecision(3)} for ${m}), and there is no parameter to explain it.`;
+    statement = `The measurements depart from the nominal circuit (χ² ${tolChi.toPrecision(3)} for ${m}), and no hypothesis explains it.`;
   } else {
-    const tail = best.accountsForMeasurements
-      ? ''
-      : ' No one- or two-cause explanation accounts for every measurement: look for a further effect (wiring, a different part, a model limit).';
+    const tail = best.passesGoodnessOfFit ? '' : ' No hypothesis passes the goodness-of-fit test: look for a further effect (wiring, a different part, a model limit).';
     statement =
-      `The measurements depart from the nominal circuit (χ² ${chiNominal.toPrecision(3)} for ${m} measurement${m === 1 ? '' : 's'}, 95 % bound ${bound.toPrecision(3)}). ` +
-      `Most plausible: ${best.causes.map((c) => c.text).join('; and ')} (score ${best.score.toPrecision(2)}).${tail}`;
+      `The measurements depart from the nominal circuit (χ² ${tolChi.toPrecision(3)} for ${m} measurement${m === 1 ? '' : 's'} allowing the tolerances, 95 % bound ${bound95.toPrecision(3)}). ` +
+      `Most plausible: ${best.causes.map((c) => c.text).join('; and ')} (probability ${best.score.toPrecision(2)}).${tail}` +
+      (ambiguities.length > 0 ? ` ${ambiguities[0].statement}` : '');
   }
   return {
-    verdict: { agreesWithNominal: agrees, nominalChiSquare: chiNominal, measurementCount: m, chiSquareBound95: bound, nominalScore: score(logNominal), statement },
+    verdict: {
+      agreesWithNominal: agrees,
+      nominalChiSquare: chiRaw,
+      toleranceChiSquare: tolChi,
+      measurementCount: m,
+      chiSquareBound95: bound95,
+      nominalScore: posterior(nominal),
+      statement,
+    },
     explanations,
-    candidateCount: considered.length,
+    ambiguities,
+    candidateCount: scored.length,
   };
 }
+
+function causesOf(setup: FitSetup, s: Scored): Cause[] {
+  const params = setup.parameters;
+  if (s.h.kind === 'wrong-part') {
+    const wp = s.h.wrongPart!;
+    return wp.roles.map((role) => {
+      const j = params.findIndex((p) => p.name === role);
+      const p = params[j];
+      const value = s.h.parts![role];
+      const e = describeEstimate(p, Math.log(value / p.nominal), 0);
+      e.standardDeviation = naturalSd(p, Math.log(value / p.nominal), p.priorSd);
+      e.posteriorToPriorSd = 1;
+      return { ...e, withinTolerance: false, fault: wp.kind, text: `${wp.words}: ${formatNatural(p.unit, value)} instead of ${formatNatural(p.unit, p.nominal)}` };
+    });
+  }
+  const k = s.h.active.length;
+  return s.h.active.map((j, i) => {
+    const p = params[j];
+    const e = describeEstimate(p, s.x[j], Math.sqrt(Math.max(0, s.covariance[i * k + i])));
+    return { ...e, withinTolerance: Math.abs(e.shiftInTolerances) <= 1, fault: 'off' as const, text: describeShift(e, p.label) };
+  });
+}
+
+const PROBE_FIGURES: Record<string, string> = {
+  upperThresholdV: 'probe node P (the non-inverting input) and read its upper switching level',
+  lowerThresholdV: 'probe node P (the non-inverting input) and read its lower switching level',
+};
+
+function formatFigure(figure: string, value: number): string {
+  if (figure.endsWith('V')) return formatNatural('V', value);
+  if (figure.endsWith('S')) return formatNatural('s', value);
+  if (figure.endsWith('Hz')) return `${Number(value.toPrecision(5))} Hz`;
+  return Number(value.toPrecision(4)).toString();
+}
+
+/**
+ * The measurement that best separates two hypotheses: each figure not yet
+ * measured (a scope figure, or node P's switching levels), and each "fit a
+ * part of known value in role r, then measure the frequency" experiment,
+ * scored by the difference of the two predictions over a typical bench
+ * uncertainty of that figure (defaultUncertainty: cursor readouts).
+ */
+function separatingMeasurement(setup: FitSetup, a: Scored, b: Scored, figs: (s: Scored) => PredictedFigures): SeparatingMeasurement | undefined {
+  const measured = new Set(setup.measurements.map((m) => m.name));
+  const fa = figs(a);
+  const fb = figs(b);
+  const candidates: SeparatingMeasurement[] = [];
+  const nameOf = (s: Scored) => s.h.id;
+  for (const name of OBSERVABLES) {
+    if (measured.has(name)) continue;
+    const u = defaultUncertainty(name as ObservableName, fa[name]);
+    if (!(u > 0)) continue;
+    candidates.push({
+      action: `measure ${name}`,
+      figure: name,
+      predictions: [{ hypothesis: nameOf(a), value: fa[name] }, { hypothesis: nameOf(b), value: fb[name] }],
+      separationSigma: Math.abs(fa[name] - fb[name]) / u,
+    });
+  }
+  for (const name of ['upperThresholdV', 'lowerThresholdV'] as const) {
+    const u = defaultUncertainty('capacitorMaxV', fa[name]);
+    candidates.push({ action: PROBE_FIGURES[name], figure: name, predictions: [{ hypothesis: nameOf(a), value: fa[name] }, { hypothesis: nameOf(b), value: fb[name] }], separationSigma: Math.abs(fa[name] - fb[name]) / u });
+  }
+  // Swap experiments: a known part in role r restores what r was blamed for, and nothing else.
+  for (const p of setup.parameters) {
+    if (p.kind !== 'part') continue;
+    const known = { [p.name]: p.nominal };
+    try {
+      const at = (s: Scored) => {
+        const x = Float64Array.from(s.x);
+        const j = setup.parameters.indexOf(p);
+        x[j] = 0;
+        return setup.figuresAt(x, { ...s.h.parts, ...known }).frequencyHz;
+      };
+      const va = at(a);
+      const vb = at(b);
+      const u = defaultUncertainty('frequencyHz', va);
+      candidates.push({
+        action: `fit a ${p.unit === 'F' ? 'capacitor' : 'resistor'} of known value (${formatNatural(p.unit, p.nominal)}, measured) as ${p.name} and measure the frequency`,
+        figure: `frequencyHz with a known ${p.name}`,
+        predictions: [{ hypothesis: nameOf(a), value: va }, { hypothesis: nameOf(b), value: vb }],
+        separationSigma: Math.abs(va - vb) / u,
+      });
+    } catch {
+      // that swap stops the oscillation under one hypothesis: not a useful experiment
+    }
+  }
+  const finite = candidates.filter((c) => Number.isFinite(c.separationSigma));
+  if (finite.length === 0) return undefined;
+  const best = finite.reduce((x, y) => (y.separationSigma > x.separationSigma ? y : x));
+  return best.separationSigma >= SEPARABLE_SIGMA ? best : undefined;
+}
+

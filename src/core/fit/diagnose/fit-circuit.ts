@@ -9,7 +9,7 @@ import { analyzeCapture, type CaptureFeatures, type CaptureInput, type CaptureAn
 import { mapChannels, type ChannelChoice } from '../capture/channel-map.ts';
 import { parseCaptureCsv } from '../capture/csv.ts';
 import { estimateParameters, type EstimationResult } from '../estimate/estimate.ts';
-import type { PredictedFigures } from '../estimate/forward.ts';
+import { FORWARD_MODEL_DESCRIPTION, type PredictedFigures } from '../estimate/forward.ts';
 import {
   captureMeasurements,
   estimateStepV,
@@ -48,7 +48,7 @@ export interface MeasurementReport extends Measurement {
 }
 
 export interface CaptureReport {
-  features: Omit<CaptureFeatures, 'warnings'>;
+  features: Omit<CaptureFeatures, 'warnings' | 'spreads'>;
   /** How the capture was read (CSV layout, channel choice, uncertainty choices). */
   notes: string[];
   warnings: string[];
@@ -63,9 +63,6 @@ export interface FitReport {
   diagnosis: Diagnosis;
   warnings: string[];
 }
-
-export const FORWARD_MODEL_DESCRIPTION =
-  'closed form per output state (nodal network solve) with each slewing edge an exact effective step delay, recovery delay + τ·ln((e^x − 1)/x) for x = ramp/τ; the time-domain engine wherever that closed form does not hold (output resistance or open drain while slewing, unequal time constants, current limit or input clamp within reach, edges over half a state)';
 
 function prefixed(prefix: string, err: unknown): never {
   if (err instanceof CoreError) {
@@ -149,11 +146,17 @@ export function fitCircuit(input: FitInput): FitReport {
   let fromCapture: Measurement[] = [];
   if (input.capture !== undefined) {
     const read = readCapture(input.capture, input.captureOptions);
-    const { warnings: captureWarnings, ...features } = read.features;
+    const { warnings: captureWarnings, spreads: _spreads, ...features } = read.features;
+    void _spreads;
     captureReport = { features, notes: read.notes, warnings: captureWarnings };
     fromCapture = read.measurements;
   }
-  const measurements = merge(scalars, fromCapture, warnings);
+  const merged = merge(scalars, fromCapture, warnings);
+  const probe = createFitSetup(input.circuit, [], input.tolerances);
+  // A figure the model cannot form for this circuit (e.g. settled levels when the edges fill the states) is left out, not fitted.
+  const measurements = merged.filter((m) => Number.isFinite(probe.nominalFigures[m.name]));
+  const dropped = merged.filter((m) => !measurements.includes(m)).map((m) => m.name);
+  if (dropped.length > 0) warnings.push(`the model cannot form ${dropped.join(', ')} for this circuit (the edges take up the states): left out of the fit`);
   const setup = createFitSetup(input.circuit, measurements, input.tolerances);
   requireMeasurements(setup);
   const { x: _x, covariance: _cov, ...estimation } = estimateParameters(setup);

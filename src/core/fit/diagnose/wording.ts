@@ -1,6 +1,7 @@
 /** Plain words for a parameter shift: in its unit, in per cent and in tolerances. */
 import { formatSeconds, formatSi, formatVolts } from '../../circuit/format.ts';
 import type { ParameterEstimate } from '../estimate/estimate.ts';
+import type { FitParameter } from '../estimate/parameters.ts';
 
 function signed(text: string, value: number): string {
   return value >= 0 ? `+${text}` : text.startsWith('-') || text.startsWith('−') ? text : `-${text}`;
@@ -19,8 +20,8 @@ function bandWords(times: number, band: string): string {
   return `${Number(k.toPrecision(2))}× its ${band}`;
 }
 
-function natural(e: ParameterEstimate, value: number): string {
-  switch (e.unit) {
+export function formatNatural(unit: FitParameter['unit'], value: number): string {
+  switch (unit) {
     case 'V':
       return formatVolts(value);
     case 's':
@@ -32,15 +33,19 @@ function natural(e: ParameterEstimate, value: number): string {
       return formatSi(value, 'Ω', 3);
     case 'F':
       return formatSi(value, 'F', 3);
+    case 'A':
+      return formatSi(value, 'A', 3);
+    case '1':
+      return signedPercent(value - 1);
   }
 }
 
-/** "cTiming +8.9 %, inside its 10 % tolerance" / "recovery delay 4 µs -> 11.5 µs, 1.9× its assumed spread". */
+/** "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance" / "recovery delay 4 µs -> 11.5 µs, 1.9× its typical spread". */
 export function describeShift(e: ParameterEstimate, label: string): string {
   if (e.kind === 'part') {
     const tol = `${Number((e.tolerance! * 100).toPrecision(3))} % tolerance`;
-    return `${e.parameter} ${signedPercent(e.relativeShift!)} (${natural(e, e.nominal)} -> ${natural(e, e.estimate)}), ${bandWords(e.shiftInTolerances, tol)}`;
+    return `${e.parameter} ${signedPercent(e.relativeShift!)} (${formatNatural(e.unit, e.nominal)} -> ${formatNatural(e.unit, e.estimate)}), ${bandWords(e.shiftInTolerances, tol)}`;
   }
-  const spread = e.unit === 'V/s' ? 'assumed spread' : `assumed spread of ±${natural(e, 3 * e.priorStandardDeviation)}`;
-  return `${label} ${natural(e, e.nominal)} -> ${natural(e, e.estimate)}, ${bandWords(e.shiftInTolerances, spread)}`;
+  if (e.kind === 'supply') return `${label} ${formatNatural('1', e.estimate)} off nominal, ${bandWords(e.shiftInTolerances, 'expected spread')}`;
+  return `${label} ${formatNatural(e.unit, e.nominal)} -> ${formatNatural(e.unit, e.estimate)}, ${bandWords(e.shiftInTolerances, 'class-typical spread')}`;
 }

@@ -23,11 +23,11 @@ export interface ParameterEstimate {
   priorStandardDeviation: number;
   /** Part tolerance, fraction (parts only). */
   tolerance?: number;
-  /** estimate − nominal, natural units (for the slew rate: in its reciprocal, see shiftInTolerances). */
+  /** estimate − nominal, natural units. */
   shift: number;
   /** estimate/nominal − 1 (parts only). */
   relativeShift?: number;
-  /** Shift over the tolerance band (3σ of the prior), in the fitted space. */
+  /** Shift over the tolerance band (parts) or over the 3σ nuisance spread (others), in the fitted space. */
   shiftInTolerances: number;
   /** Posterior/prior standard deviation in the fitted space: near 1 means the data say nothing about it. */
   posteriorToPriorSd: number;
@@ -75,7 +75,7 @@ export function describeEstimate(p: FitParameter, x: number, sdX: number): Param
     estimate,
     standardDeviation: naturalSd(p, x, sdX),
     priorStandardDeviation: naturalSd(p, p.priorMean, p.priorSd),
-    shift: p.space === 'reciprocal' ? x - p.priorMean : estimate - p.nominal,
+    shift: estimate - p.nominal,
     shiftInTolerances: (x - p.priorMean) / (TOLERANCE_SIGMAS * p.priorSd),
     posteriorToPriorSd: sdX / p.priorSd,
   };
@@ -91,7 +91,8 @@ export function describeEstimate(p: FitParameter, x: number, sdX: number): Param
 export function estimateParameters(setup: FitSetup): EstimationResult {
   const n = setup.parameters.length;
   const all = Array.from({ length: n }, (_, j) => j);
-  const fit = fitSubset(setup, all);
+  // Parts keep their tolerance priors; amplifier effects and the supply may sit anywhere in their physical range.
+  const fit = fitSubset(setup, all, { priorSd: setup.parameters.map((p) => (p.kind === 'part' ? p.priorSd : p.offSd)) });
   const cov = fit.solution.covariance;
   const sd = Array.from({ length: n }, (_, j) => Math.sqrt(Math.max(0, cov[j * n + j])));
   const correlation = Array.from({ length: n }, (_, p) => Array.from({ length: n }, (_, q) => (sd[p] > 0 && sd[q] > 0 ? cov[p * n + q] / (sd[p] * sd[q]) : 0)));
@@ -103,6 +104,7 @@ export function estimateParameters(setup: FitSetup): EstimationResult {
   const jac = fit.solution.jacobian;
   const m = setup.measurements.length;
   const columns = all.map((j) => Float64Array.from({ length: m }, (_, i) => jac[i * n + j] * TOLERANCE_SIGMAS * setup.parameters[j].priorSd));
+  // (the sensitivity columns scale by the nuisance spread: "what a tolerance band of it does to the data")
   const norms = columns.map((c) => Math.sqrt(c.reduce((acc, v) => acc + v * v, 0)));
   const indistinguishable: IndistinguishablePair[] = [];
   for (let p = 0; p < n; p++) {

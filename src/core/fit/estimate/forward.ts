@@ -1,187 +1,225 @@
 /**
- * The forward model of the fit: effective circuit -> the figures a scope
- * shows, defined as the capture analysis measures them. Two ways to get them:
- *
- * 1. Closed form (microseconds). Static behaviour comes from the per-state
- *    network solve (the state models the closed form uses); slew rate and
- *    recovery delay enter as an EFFECTIVE STEP DELAY per edge. A first-order RC
- *    whose asymptote ramps linearly for Tr ends the ramp exactly where a step
- *    delayed by
- *        d = τ·ln((e^x − 1)/x),  x = Tr/τ   (= Tr/2 + τx²/24 + O(x⁴))
- *    would have put it (solve dv/dt = (a(t) − v)/τ over the ramp and match).
- *    The older mid-ramp rule d = Tr/2 is off by τx²/24 per edge. Until
- *    recoveryDelay + d after the decision the capacitor keeps heading for the
- *    old asymptote; the new state runs from there. This is exact (to rounding)
- *    when both states share one time constant, the ramp ends inside its state,
- *    the output resistance does not shift the pin's 50 % crossing and no
- *    current limit, input clamp or diode acts during the edge.
- * 2. The exact time-domain engine (forward-engine.ts), read the same way.
- *
- * predictFigures takes the closed form where those conditions hold (checked
- * per evaluation) and the engine elsewhere. Both agree within
- * FORWARD_MODEL_TIMING_ERROR / FORWARD_MODEL_LEVEL_ERROR where the closed form
- * is chosen (test/core/fit/estimate-forward-engine.test.ts holds it to that),
- * so the switch adds no step the fit's finite differences could trip over,
- * and the fit may treat the forward model as exact: that budget is the model
- * error it assumes.
+ * The forward model of the fit: circuit -> the figures a scope shows. It IS the
+ * time-domain engine (per-state nodal solve + event-driven piece walk, DESIGN
+ * §2.1): the engine walks to its steady cycle and the figures are read off the
+ * exact logged pieces with the definitions of ../definitions/scope-definitions.ts,
+ * the same ones the capture analysis applies to samples. There is no second
+ * copy of the physics here: only the reading of a solved cycle.
  */
 import { prepareCircuit, type PreparedCircuit } from '../../circuit/analyze.ts';
-import { requireOscillation } from '../../circuit/closed-form.ts';
-import { evalAffine } from '../../circuit/state-model.ts';
+import { powerUpState, requireHysteresis } from '../../circuit/closed-form.ts';
+import { OscillatorWalk, type SteadyCycle } from '../../circuit/engine/walker.ts';
 import type { Circuit } from '../../circuit/types.ts';
-import { engineFigures } from './forward-engine.ts';
+import { CoreError } from '../../errors.ts';
+import {
+  LEVEL_ITERATIONS,
+  LEVEL_MARGIN,
+  REF_HIGH,
+  REF_LOW,
+  REF_MID,
+  TAU_WINDOW_HIGH,
+  TAU_WINDOW_LOW,
+  tauFromWindowMeans,
+} from '../definitions/scope-definitions.ts';
 
 export interface PredictedFigures {
   frequencyHz: number;
   periodS: number;
   /** Output-high share of the period between 50 % crossings, 0..1. */
   dutyCycle: number;
-  /** Capacitor at the output's 50 % crossings as the capture's segment fits read it (overshoot included), V. */
+  /** Capacitor turning points (overshoot included), V. */
   capacitorMinV: number;
   capacitorMaxV: number;
-  /** Output pin levels, V. */
+  /** Settled output levels, V. */
   outputHighV: number;
   outputLowV: number;
-  /** 10–90 % transition durations of a linear slew across the source swing, s. */
+  /** 10–90 % transition durations, s. */
   riseTimeS: number;
   fallTimeS: number;
-  /** Capacitor time constants while charging (output high) / discharging, s. */
+  /** Windowed time constants of the charging / discharging capacitor, s. */
   capacitorRisingTauS: number;
   capacitorFallingTauS: number;
-  /** Switching levels without overshoot, V. */
+  /** Share of the period the capacitor spends above the middle of its range, 0..1. */
+  capacitorAboveMidShare: number;
+  /** Switching levels (capacitor at the decisions), V. */
   upperThresholdV: number;
   lowerThresholdV: number;
-  /** Hysteresis over output swing, (upper − lower)/(high − low): topology-independent and identifiable. */
+  /** Hysteresis over output swing, (upper − lower)/(high − low). */
   hysteresisRatio: number;
-  /** Decision to the output's 50 % crossing (recovery delay + half the ramp), s. */
-  effectiveEdgeDelayS: number;
 }
 
-/** IEEE Std 181 10 % and 90 % reference levels: a linear ramp spends 80 % of its duration between them. */
-const TEN_TO_NINETY_SHARE = 0.8;
+export const FORWARD_MODEL_DESCRIPTION =
+  'the time-domain engine (per-state nodal solve and event-driven piece walk, the model of /v1/analyze) walked to its steady cycle; figures read off the exact cycle with the same definitions the capture analysis applies to samples';
+
+/** Coefficients of a quantity affine in (v, s) for the loaded piece. */
+const PIN = 0;
+const CAP = 1;
 
 /**
- * Model error the fit assumes of its forward model on timing figures
- * (period, duty cycle × period, edge durations), relative to the period:
- * one fifth of the smallest default capture uncertainty on a timing figure
- * (the 5e-5 time base of measurements.ts), so treating the model as exact
- * inflates a residual's variance by at most 4 % (our choice).
+ * Reads figures off a steady cycle: values, first crossings, integrals over
+ * windows that may wrap around the cycle end. Times are absolute walk times;
+ * any time is folded into [cycle.startS, cycle.startS + period).
  */
-export const FORWARD_MODEL_TIMING_ERROR = 1e-5;
-/** The same on voltages, relative to the output swing: 1/50 of the default 0.5 % vertical uncertainty (our choice). */
-export const FORWARD_MODEL_LEVEL_ERROR = 1e-4;
-/** The closed form needs delay + ramp to end inside the state: at most this share of it (our margin). */
-const EDGE_SHARE_LIMIT = 0.5;
-/** ...and the edge to stay this far inside the current limit and the input clamp (our margin). */
-const LIMIT_MARGIN = 0.8;
-/** Time constants this close (relative) count as one. */
-const SAME_TAU = 1e-9;
+class CycleReader {
+  private readonly crossT = new Float64Array(2);
+  private readonly crossDir = new Int8Array(2);
+  constructor(
+    private readonly walk: OscillatorWalk,
+    private readonly cycle: SteadyCycle,
+  ) {}
 
-export type ForwardModelChoice = 'auto' | 'closed-form' | 'time-domain';
-
-/** Effective step delay of a linear ramp of duration rampS into a first-order RC of time constant tauS, s. */
-export function rampStepDelayS(rampS: number, tauS: number): number {
-  if (!(rampS > 0)) return 0;
-  const x = rampS / tauS;
-  // ln(expm1(x)/x) loses digits for tiny x; its series is x/2 + x²/24 − x⁴/2880.
-  return x < 1e-3 ? tauS * (x / 2 + (x * x) / 24 - (x * x * x * x) / 2880) : tauS * Math.log(Math.expm1(x) / x);
-}
-
-interface ClosedForm {
-  figures: PredictedFigures;
-  /** Recovery delay + ramp: decision to the end of the edge, s. */
-  edgeS: number;
-  rampS: number;
-}
-
-export function predictFigures(circuit: Circuit, model: ForwardModelChoice = 'auto'): PredictedFigures {
-  const prepared = prepareCircuit(circuit);
-  if (model === 'time-domain') return engineFigures(prepared);
-  const closed = closedForm(prepared);
-  if (model === 'closed-form' || closedFormHolds(prepared, closed)) return closed.figures;
-  return engineFigures(prepared);
-}
-
-/** Which model predictFigures('auto') uses for this circuit. */
-export function forwardModelFor(circuit: Circuit): 'closed-form' | 'time-domain' {
-  const prepared = prepareCircuit(circuit);
-  return closedFormHolds(prepared, closedForm(prepared)) ? 'closed-form' : 'time-domain';
-}
-
-function closedFormHolds(prepared: PreparedCircuit, closed: ClosedForm): boolean {
-  const { circuit, high, low } = prepared;
-  const amp = circuit.amplifier;
-  const f = closed.figures;
-  const slewing = Number.isFinite(amp.slewRateVPerS);
-  // Open drain: the closed form has no slew for the pull-down edge.
-  if (slewing && circuit.amplifier.outputStage === 'open-drain') return false;
-  if (closed.rampS > 0 && Math.abs(high.tauS - low.tauS) > SAME_TAU * high.tauS) return false;
-  // Output resistance: the pin's 50 % crossing leaves mid-ramp (the pin sags with the load).
-  if (closed.rampS > 0 && !(amp.outputResistanceOhm === 0)) return false;
-  const shortest = Math.min(f.dutyCycle, 1 - f.dutyCycle) * f.periodS;
-  if (!(closed.edgeS <= EDGE_SHARE_LIMIT * shortest)) return false;
-  // Largest output current and input difference come right after an edge (capacitor at its extreme).
-  if (Number.isFinite(amp.outputCurrentLimitA)) {
-    const peakA = Math.max(Math.abs(evalAffine(high.outputCurrent, f.capacitorMinV)), Math.abs(evalAffine(low.outputCurrent, f.capacitorMaxV)));
-    if (!(peakA <= LIMIT_MARGIN * amp.outputCurrentLimitA)) return false;
+  private coef(kind: number): [number, number, number] {
+    const cfg = this.walk.evaluator.config;
+    return kind === PIN ? [cfg.oC, cfg.oV, cfg.oS] : [0, 1, 0];
   }
-  if (Number.isFinite(amp.differentialClampV)) {
-    const diffV = Math.max(Math.abs(evalAffine(high.decision, f.capacitorMinV) - f.capacitorMinV), Math.abs(evalAffine(low.decision, f.capacitorMaxV) - f.capacitorMaxV));
-    if (!(diffV <= LIMIT_MARGIN * amp.differentialClampV)) return false;
+
+  fold(tS: number): number {
+    const c = this.cycle;
+    const phase = (((tS - c.startS) % c.periodS) + c.periodS) % c.periodS;
+    return c.startS + phase;
   }
-  return true;
+
+  /** First crossing of `kind` through levelV in each direction after the cycle start: [rise, fall]. */
+  crossings(kind: number, levelV: number): [number, number] {
+    const ev = this.walk.evaluator;
+    const { startIndex, endIndex } = this.cycle;
+    let rise = Number.NaN;
+    let fall = Number.NaN;
+    ev.load(endIndex - 1);
+    let [c0, cv, cs] = this.coef(kind);
+    let prevEnd = ev.atEnd(c0 - levelV, cv, cs);
+    for (let i = startIndex; i < endIndex; i++) {
+      ev.load(i);
+      [c0, cv, cs] = this.coef(kind);
+      c0 -= levelV;
+      const start = ev.atStart(c0, cv, cs);
+      if (prevEnd < 0 && start >= 0 && Number.isNaN(rise)) rise = ev.startS;
+      if (prevEnd >= 0 && start < 0 && Number.isNaN(fall)) fall = ev.startS;
+      const n = ev.crossings(c0, cv, cs, this.crossT, this.crossDir);
+      for (let k = 0; k < n; k++) {
+        if (this.crossDir[k] > 0 && Number.isNaN(rise)) rise = ev.startS + this.crossT[k];
+        if (this.crossDir[k] < 0 && Number.isNaN(fall)) fall = ev.startS + this.crossT[k];
+      }
+      prevEnd = ev.atEnd(c0, cv, cs);
+    }
+    return [rise, fall];
+  }
+
+  /** Capacitor turning points: [time of the maximum, max, time of the minimum, min]. */
+  turningPoints(): [number, number, number, number] {
+    const ev = this.walk.evaluator;
+    const { startIndex, endIndex } = this.cycle;
+    let maxT = Number.NaN;
+    let maxV = -Infinity;
+    let minT = Number.NaN;
+    let minV = Infinity;
+    const consider = (t: number, v: number) => {
+      if (v > maxV) ((maxV = v), (maxT = t));
+      if (v < minV) ((minV = v), (minT = t));
+    };
+    for (let i = startIndex; i < endIndex; i++) {
+      ev.load(i);
+      const cfg = ev.config;
+      consider(ev.startS, ev.ends.v0);
+      // v' = b0 + bS·s − a·v is affine in (v, s) and monotone within a piece: at most one interior zero.
+      const n = ev.crossings(cfg.b0, -cfg.a, cfg.bS, this.crossT, this.crossDir);
+      for (let k = 0; k < n; k++) consider(ev.startS + this.crossT[k], ev.kin.v(this.crossT[k]));
+    }
+    return [maxT, maxV, minT, minV];
+  }
+
+  /** ∫ over [t1, t2] (t2 − t1 ≤ one period) of `kind`. */
+  integral(kind: number, t1: number, t2: number): number {
+    const span = t2 - t1;
+    if (!(span > 0)) return 0;
+    const a = this.fold(t1);
+    const end = this.cycle.startS + this.cycle.periodS;
+    if (a + span <= end) return this.integralInside(kind, a, a + span);
+    return this.integralInside(kind, a, end) + this.integralInside(kind, this.cycle.startS, this.cycle.startS + (a + span - end));
+  }
+
+  private integralInside(kind: number, a: number, b: number): number {
+    const ev = this.walk.evaluator;
+    let total = 0;
+    for (let i = this.cycle.startIndex; i < this.cycle.endIndex; i++) {
+      ev.load(i);
+      const p0 = ev.startS;
+      const p1 = p0 + ev.durationS;
+      if (p1 <= a || p0 >= b) continue;
+      const [c0, cv, cs] = this.coef(kind);
+      total += ev.integral(c0, cv, cs, Math.max(a, p0) - p0, Math.min(b, p1) - p0);
+    }
+    return total;
+  }
 }
 
-function closedForm(prepared: PreparedCircuit): ClosedForm {
-  const { circuit, high, low } = prepared;
-  const { upperV, lowerV } = requireOscillation(high, low);
-  const sourceSwingV = Number.isFinite(high.sourceV) && Number.isFinite(low.sourceV) ? Math.abs(high.sourceV - low.sourceV) : Number.NaN;
-  const slew = circuit.amplifier.slewRateVPerS;
-  // Open drain: the released edge is the pull-up's RC, not a slew (predictFigures hands finite slew there to the engine).
-  const rampS = Number.isFinite(slew) && slew > 0 && Number.isFinite(sourceSwingV) ? sourceSwingV / slew : 0;
-  const recoveryS = circuit.amplifier.recoveryDelayS;
-  // Decision to the output's 50 % crossing (mid-ramp), and to the effective step of each edge.
-  const crossingS = recoveryS + rampS / 2;
-  const intoHighS = recoveryS + rampStepDelayS(rampS, high.tauS);
-  const intoLowS = recoveryS + rampStepDelayS(rampS, low.tauS);
+/** One walk reused by every evaluation: the fit calls this thousands of times, synchronously. */
+const walk = new OscillatorWalk();
 
-  // The old state's exponential continued to the effective step: where the new state starts.
-  const startHighV = low.asymptoteV + (lowerV - low.asymptoteV) * Math.exp(-intoHighS / low.tauS);
-  const startLowV = high.asymptoteV + (upperV - high.asymptoteV) * Math.exp(-intoLowS / high.tauS);
-  const timeHighS = high.tauS * Math.log((high.asymptoteV - startHighV) / (high.asymptoteV - upperV)) + intoHighS;
-  const timeLowS = low.tauS * Math.log((low.asymptoteV - startLowV) / (low.asymptoteV - lowerV)) + intoLowS;
-  const periodS = timeHighS + timeLowS;
-  // The capture's segment fits give the capacitor at the 50 % crossing twice, the old state's
-  // exponential carried forward and the new one's carried back, and pool them.
-  const atFallV =
-    0.5 *
-    (high.asymptoteV + (upperV - high.asymptoteV) * Math.exp(-crossingS / high.tauS) +
-      (low.asymptoteV + (startLowV - low.asymptoteV) * Math.exp((intoLowS - crossingS) / low.tauS)));
-  const atRiseV =
-    0.5 *
-    (low.asymptoteV + (lowerV - low.asymptoteV) * Math.exp(-crossingS / low.tauS) +
-      (high.asymptoteV + (startHighV - high.asymptoteV) * Math.exp((intoHighS - crossingS) / high.tauS)));
-  const edgeS = TEN_TO_NINETY_SHARE * rampS;
-  // Pin levels: the pin is affine in v, so its mean over a state is the pin at the
-  // state's mean capacitor voltage, v∞ + τ·(v_start − v_end)/duration (exact for one exponential).
-  const outputHighV = evalAffine(high.outputPin, high.asymptoteV + (high.tauS * (startHighV - startLowV)) / timeHighS);
-  const outputLowV = evalAffine(low.outputPin, low.asymptoteV + (low.tauS * (startLowV - startHighV)) / timeLowS);
-  const figures: PredictedFigures = {
+const mod = (x: number, m: number) => ((x % m) + m) % m;
+
+export function figuresOfPrepared(prepared: PreparedCircuit): PredictedFigures {
+  requireHysteresis(prepared.high.switchingV, prepared.low.switchingV);
+  walk.reset(prepared);
+  walk.powerUp(powerUpState(prepared.high, prepared.low).initialState);
+  const cycle = walk.runToSteadyState();
+  const r = new CycleReader(walk, cycle);
+  const periodS = cycle.periodS;
+
+  // Output levels: settled means, iterated with the reference instants they define.
+  let highV = walk.highV;
+  let lowV = walk.lowV;
+  let mid: [number, number] = [Number.NaN, Number.NaN];
+  let low: [number, number] = mid;
+  let high: [number, number] = mid;
+  for (let pass = 0; pass < LEVEL_ITERATIONS; pass++) {
+    const swing = highV - lowV;
+    low = r.crossings(PIN, lowV + REF_LOW * swing);
+    high = r.crossings(PIN, lowV + REF_HIGH * swing);
+    const riseDur = mod(high[0] - low[0], periodS);
+    const fallDur = mod(low[1] - high[1], periodS);
+    // High: from the rise's 90 % instant to the fall's 90 % instant; low: 10 % fall to 10 % rise.
+    const hA = high[0] + LEVEL_MARGIN * riseDur;
+    const hB = high[0] + mod(high[1] - high[0], periodS) - LEVEL_MARGIN * fallDur;
+    const lA = low[1] + LEVEL_MARGIN * fallDur;
+    const lB = low[1] + mod(low[0] - low[1], periodS) - LEVEL_MARGIN * riseDur;
+    if (!(hB > hA && lB > lA)) break; // edges fill the states: keep the previous levels
+    highV = r.integral(PIN, hA, hB) / (hB - hA);
+    lowV = r.integral(PIN, lA, lB) / (lB - lA);
+  }
+  const swing = highV - lowV;
+  if (!(swing > 0)) throw new CoreError('no-oscillation', 'the output does not swing between two levels');
+  low = r.crossings(PIN, lowV + REF_LOW * swing);
+  high = r.crossings(PIN, lowV + REF_HIGH * swing);
+  mid = r.crossings(PIN, lowV + REF_MID * swing);
+  const [, maxV, , minV] = r.turningPoints();
+  const rangeV = maxV - minV;
+  const capLow = r.crossings(CAP, minV + TAU_WINDOW_LOW * rangeV);
+  const capHigh = r.crossings(CAP, minV + TAU_WINDOW_HIGH * rangeV);
+  const capMid = r.crossings(CAP, minV + 0.5 * rangeV);
+  const tauOf = (fromT: number, toT: number) => {
+    const h = mod(toT - fromT, periodS) / 3;
+    return tauFromWindowMeans(r.integral(CAP, fromT, fromT + h) / h, r.integral(CAP, fromT + h, fromT + 2 * h) / h, r.integral(CAP, fromT + 2 * h, fromT + 3 * h) / h, h);
+  };
+  return {
     frequencyHz: 1 / periodS,
     periodS,
-    dutyCycle: timeHighS / periodS,
-    capacitorMinV: atRiseV,
-    capacitorMaxV: atFallV,
-    outputHighV,
-    outputLowV,
-    riseTimeS: edgeS,
-    fallTimeS: edgeS,
-    capacitorRisingTauS: high.tauS,
-    capacitorFallingTauS: low.tauS,
-    upperThresholdV: upperV,
-    lowerThresholdV: lowerV,
-    hysteresisRatio: (upperV - lowerV) / (outputHighV - outputLowV),
-    effectiveEdgeDelayS: crossingS,
+    dutyCycle: mod(mid[1] - mid[0], periodS) / periodS,
+    capacitorMinV: minV,
+    capacitorMaxV: maxV,
+    outputHighV: highV,
+    outputLowV: lowV,
+    riseTimeS: mod(high[0] - low[0], periodS),
+    fallTimeS: mod(low[1] - high[1], periodS),
+    capacitorRisingTauS: tauOf(capLow[0], capHigh[0]),
+    capacitorFallingTauS: tauOf(capHigh[1], capLow[1]),
+    capacitorAboveMidShare: mod(capMid[1] - capMid[0], periodS) / periodS,
+    upperThresholdV: cycle.upperV,
+    lowerThresholdV: cycle.lowerV,
+    hysteresisRatio: (cycle.upperV - cycle.lowerV) / swing,
   };
-  return { figures, edgeS: recoveryS + rampS, rampS };
+}
+
+export function predictFigures(circuit: Circuit): PredictedFigures {
+  return figuresOfPrepared(prepareCircuit(circuit));
 }

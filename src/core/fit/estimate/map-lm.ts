@@ -96,7 +96,8 @@ export function solveMap(problem: MapProblem, options: MapOptions = {}): MapSolu
   const tryResiduals = (z: Float64Array): Float64Array | undefined => {
     try {
       const r = problem.residuals(toX(z));
-      for (let i = 0; i < r.length; i++) if (!Number.isFinite(r[i])) return undefined;
+      // Squares must stay finite too: a residual of 1e200 is as useless to the step as Infinity.
+      for (let i = 0; i < r.length; i++) if (!(Math.abs(r[i]) < 1e150)) return undefined;
       return r;
     } catch (err) {
       if (err instanceof CoreError) return undefined;
@@ -111,7 +112,7 @@ export function solveMap(problem: MapProblem, options: MapOptions = {}): MapSolu
   if (r === undefined) {
     // The caller's start (normally the nominal circuit) must be evaluable: that error is the caller's to see.
     problem.residuals(toX(z));
-    throw new CoreError('not-converged', 'the model gives non-finite figures at the start point');
+    throw new CoreError('not-converged', 'the measurements are so far from the model (or so precise) that the fit cannot take a step: check their values and uncertainties');
   }
   const m = r.length;
   let cost = sumSquares(r) + sumSquares(z);
@@ -180,7 +181,7 @@ export function solveMap(problem: MapProblem, options: MapOptions = {}): MapSolu
       for (let j = 0; j < n; j++) largest = Math.max(largest, Math.abs(trial[j] - z[j]) * Math.sqrt(a[j * n + j]));
       const rt = tryResiduals(trial);
       const trialCost = rt === undefined ? Infinity : sumSquares(rt) + sumSquares(trial);
-      if (trialCost <= cost) {
+      if (rt !== undefined && trialCost <= cost) {
         const relativeGain = (cost - trialCost) / Math.max(cost, 1e-300);
         z = trial;
         r = rt!;
@@ -204,7 +205,9 @@ export function solveMap(problem: MapProblem, options: MapOptions = {}): MapSolu
   jac = jacobianZ(z, r); // the covariance needs the slopes at the final point
 
   const a = normal(jac);
-  const l = cholesky(a, n)!; // JᵀJ + I is positive definite
+  const l = cholesky(a, n);
+  // JᵀJ + I is positive definite in exact arithmetic; only non-finite slopes can break it.
+  if (l === undefined) throw new CoreError('not-converged', 'the fit met slopes it cannot use (non-finite); check the measurement values and uncertainties');
   const covZ = choleskyInverse(l, n);
   const covariance = new Float64Array(n * n);
   for (let p = 0; p < n; p++) for (let q = 0; q < n; q++) covariance[p * n + q] = covZ[p * n + q] * sd[p] * sd[q];

@@ -18,6 +18,7 @@ export const OBSERVABLES = [
   'fallTimeS',
   'capacitorRisingTauS',
   'capacitorFallingTauS',
+  'capacitorAboveMidShare',
 ] as const satisfies readonly (keyof PredictedFigures)[];
 export type ObservableName = (typeof OBSERVABLES)[number];
 
@@ -44,6 +45,7 @@ export function defaultUncertainty(name: ObservableName, value: number): number 
     case 'frequencyHz':
       return 1e-3 * Math.abs(value);
     case 'dutyCycle':
+    case 'capacitorAboveMidShare':
       return 5e-3;
     case 'riseTimeS':
     case 'fallTimeS':
@@ -54,6 +56,23 @@ export function defaultUncertainty(name: ObservableName, value: number): number 
       return 0.01 * Math.abs(value) + 0.02;
   }
 }
+
+/** Smallest relative standard uncertainty accepted (our bound). */
+export const MIN_RELATIVE_UNCERTAINTY = 1e-9;
+/** Scale for the relative floor when a value is near zero (a level of 0 V still has volts of scale). */
+const UNCERTAINTY_SCALE: Record<ObservableName, number> = {
+  frequencyHz: 0,
+  dutyCycle: 1,
+  capacitorMinV: 1,
+  capacitorMaxV: 1,
+  outputHighV: 1,
+  outputLowV: 1,
+  riseTimeS: 1e-12,
+  fallTimeS: 1e-12,
+  capacitorRisingTauS: 0,
+  capacitorFallingTauS: 0,
+  capacitorAboveMidShare: 1,
+};
 
 const POSITIVE: ReadonlySet<ObservableName> = new Set(['frequencyHz', 'capacitorRisingTauS', 'capacitorFallingTauS']);
 
@@ -71,9 +90,16 @@ export function scalarMeasurements(input: ScalarMeasurements, pointer = '/measur
     if (POSITIVE.has(name) && !(value > 0)) throw new CoreError('invalid-value', `${key} must be > 0`, at);
     if (name === 'dutyCycle' && !(value > 0 && value < 1)) throw new CoreError('invalid-value', 'dutyCycle is a fraction between 0 and 1', at);
     if ((name === 'riseTimeS' || name === 'fallTimeS') && !(value >= 0)) throw new CoreError('invalid-value', `${key} must be >= 0`, at);
+    if (name === 'capacitorAboveMidShare' && !(value > 0 && value < 1)) throw new CoreError('invalid-value', 'capacitorAboveMidShare is a fraction between 0 and 1', at);
     const given = typeof raw === 'number' ? undefined : raw.uncertainty;
     if (given !== undefined && !(given > 0 && Number.isFinite(given))) {
       throw new CoreError('invalid-value', `the uncertainty of ${key} must be a finite number > 0`, `${pointer}/${key}/uncertainty`);
+    }
+    // No instrument resolves a figure to better than a part in 1e9 (our bound): a tighter
+    // uncertainty is a typing slip, and would overflow the fit's normalised residuals.
+    const floor = MIN_RELATIVE_UNCERTAINTY * Math.max(Math.abs(value), UNCERTAINTY_SCALE[name]);
+    if (given !== undefined && given < floor) {
+      throw new CoreError('invalid-value', `the uncertainty of ${key} must be at least ${floor.toPrecision(3)} (a part in 1e9 of the value)`, `${pointer}/${key}/uncertainty`);
     }
     const uncertainty = given ?? defaultUncertainty(name, value);
     if (!(uncertainty > 0)) {
@@ -97,9 +123,9 @@ export interface CaptureUncertaintyOptions {
   capacitorStepV?: number;
 }
 
-/** Relative uncertainty of a segment-fitted time constant (our default, beside the time base). */
+/** Relative uncertainty floor of a windowed time constant (our default, beside the time base). */
 const TAU_RELATIVE_UNCERTAINTY = 5e-3;
-/** Floor for the duty cycle from crossings (our default). */
+/** Floor for duty cycle and rising share (our default). */
 const DUTY_FLOOR = 2e-4;
 /** Transition durations: 2 % of the reading and one sample interval (interpolation between samples). */
 const EDGE_RELATIVE_UNCERTAINTY = 0.02;
@@ -107,8 +133,9 @@ const EDGE_RELATIVE_UNCERTAINTY = 0.02;
 /**
  * Measurements from capture features. Frequency: the mean of N periods has
  * the period jitter over √N, the end-point crossing quantisation
- * Δt/(√6·N) and the time base. Switching levels: the segment fits'
- * capacitor voltage at the output edges (less noise-biased than the raw extremes).
+ * Δt/(√6·N) and the time base. Per-cycle readings (duty, edges, turning
+ * points, time constants) add the standard error of their mean; levels add
+ * the vertical accuracy and half an ADC step.
  */
 export function captureMeasurements(f: CaptureFeatures, options: CaptureUncertaintyOptions = {}): { measurements: Measurement[]; notes: string[] } {
   const vertical = options.verticalUncertainty ?? 5e-3;
@@ -116,8 +143,12 @@ export function captureMeasurements(f: CaptureFeatures, options: CaptureUncertai
   const notes: string[] = [];
   const out: Measurement[] = [];
   const push = (name: ObservableName, value: number | undefined, uncertainty: number) => {
-    if (value === undefined || !Number.isFinite(value) || !(uncertainty > 0)) return;
+    if (value === undefined || !Number.isFinite(value) || !(uncertainty > 0) || !Number.isFinite(uncertainty)) return;
     out.push({ name, value, uncertainty, source: 'capture' });
+  };
+  const sem = (key: keyof CaptureFeatures['spreads']) => {
+    const s = f.spreads[key];
+    return s && s.count > 1 ? s.sd / Math.sqrt(s.count) : 0;
   };
   const n = Math.max(1, f.periodCount);
   const dt = f.sampleIntervalS;
@@ -125,31 +156,27 @@ export function captureMeasurements(f: CaptureFeatures, options: CaptureUncertai
   const quantRel = dt / (Math.sqrt(6) * n * f.periodS);
   const freqRel = Math.hypot(jitterRel / Math.sqrt(n), quantRel, timebase);
   push('frequencyHz', f.frequencyHz, f.frequencyHz * freqRel);
-  const dutyFloor = f.timingSource === 'capacitor' ? 10 * DUTY_FLOOR : DUTY_FLOOR;
-  push('dutyCycle', f.dutyCycle, Math.hypot(jitterRel / Math.sqrt(n), dt / (f.periodS * Math.sqrt(6 * n)), dutyFloor));
-  if (f.timingSource === 'capacitor') notes.push('duty cycle from the capacitor turning points: given ten times the usual uncertainty floor');
+  const timing = Math.hypot(dt / (f.periodS * Math.sqrt(6 * n)), DUTY_FLOOR);
+  push('dutyCycle', f.dutyCycle, Math.hypot(sem('dutyCycle'), timing));
+  push('capacitorAboveMidShare', f.capacitorAboveMidShare, Math.hypot(sem('capacitorAboveMidShare'), timing));
 
-  const level = (value: number, swingV: number, stepV: number | undefined) =>
-    Math.hypot(vertical * value, vertical * swingV, (stepV ?? 0) / 2);
+  const level = (value: number, swingV: number, stepV: number | undefined, semV: number) => Math.hypot(vertical * value, vertical * swingV, (stepV ?? 0) / 2, semV);
   if (f.outputHighV !== undefined && f.outputLowV !== undefined) {
     const swing = Math.abs(f.outputHighV - f.outputLowV);
-    push('outputHighV', f.outputHighV, level(f.outputHighV, swing, options.outputStepV));
-    push('outputLowV', f.outputLowV, level(f.outputLowV, swing, options.outputStepV));
-    const edge = (t: number) => Math.hypot(EDGE_RELATIVE_UNCERTAINTY * t, dt);
-    if (f.riseTimeS !== undefined) push('riseTimeS', f.riseTimeS, edge(f.riseTimeS));
-    if (f.fallTimeS !== undefined) push('fallTimeS', f.fallTimeS, edge(f.fallTimeS));
+    push('outputHighV', f.outputHighV, level(f.outputHighV, swing, options.outputStepV, 0));
+    push('outputLowV', f.outputLowV, level(f.outputLowV, swing, options.outputStepV, 0));
+    const edge = (t: number, semS: number) => Math.hypot(EDGE_RELATIVE_UNCERTAINTY * t, dt, semS);
+    if (f.riseTimeS !== undefined) push('riseTimeS', f.riseTimeS, edge(f.riseTimeS, sem('riseTimeS')));
+    if (f.fallTimeS !== undefined) push('fallTimeS', f.fallTimeS, edge(f.fallTimeS, sem('fallTimeS')));
   }
-  const capHigh = f.upperSwitchV ?? f.capacitorMaxV;
-  const capLow = f.lowerSwitchV ?? f.capacitorMinV;
-  if (capHigh !== undefined && capLow !== undefined) {
-    if (f.upperSwitchV === undefined || f.lowerSwitchV === undefined) notes.push('capacitor extremes taken from the raw samples (no segment fit): noise biases them outward');
-    const swing = Math.abs(capHigh - capLow);
-    push('capacitorMaxV', capHigh, level(capHigh, swing, options.capacitorStepV));
-    push('capacitorMinV', capLow, level(capLow, swing, options.capacitorStepV));
+  if (f.capacitorMaxV !== undefined && f.capacitorMinV !== undefined) {
+    const swing = Math.abs(f.capacitorMaxV - f.capacitorMinV);
+    push('capacitorMaxV', f.capacitorMaxV, level(f.capacitorMaxV, swing, options.capacitorStepV, sem('capacitorMaxV')));
+    push('capacitorMinV', f.capacitorMinV, level(f.capacitorMinV, swing, options.capacitorStepV, sem('capacitorMinV')));
   }
-  const tauRel = Math.hypot(TAU_RELATIVE_UNCERTAINTY, timebase);
-  if (f.risingTauS !== undefined) push('capacitorRisingTauS', f.risingTauS, tauRel * f.risingTauS);
-  if (f.fallingTauS !== undefined) push('capacitorFallingTauS', f.fallingTauS, tauRel * f.fallingTauS);
+  const tau = (value: number | undefined, semS: number) => (value === undefined ? 0 : Math.hypot(TAU_RELATIVE_UNCERTAINTY * value, timebase * value, semS));
+  push('capacitorRisingTauS', f.risingTauS, tau(f.risingTauS, sem('risingTauS')));
+  push('capacitorFallingTauS', f.fallingTauS, tau(f.fallingTauS, sem('fallingTauS')));
   return { measurements: out, notes };
 }
 

@@ -1,44 +1,53 @@
 /**
- * The effective parameters the fit can move, with their priors.
+ * The effects the fit can move, each with a transform that keeps it physical
+ * and two priors.
  *
- * - Every part role of the topology (cTiming, rTiming, rFeedback, ...), in log
- *   space x = ln(value/nominal), prior N(0, (tolerance/3)²): the tolerance read
- *   as a ±3σ band (common practice). Only ratios of the threshold resistors
- *   matter to the waveform, so some of them cannot be told apart; the priors
- *   keep the fit determinate and the correlations say so.
- * - outputHighV / outputLowV: the output stage's light-load source levels
- *   (supply minus headroom), linear, prior σ = max(0.1 V, 2 % of the supply
- *   span) — our assumption for how far a class-typical headroom may be off.
- * - recoveryDelayS: linear, ≥ 0, prior σ = max(2 × nominal, 1 % of the
- *   nominal period) — our assumption: class-typical dynamic figures are
- *   uncertain by a factor of a few, and deep saturation in open-loop use can
- *   stretch recovery well beyond a quoted figure.
- * - slewRateVPerS: fitted as its reciprocal (edge time per volt, s/V, ≥ 0, so
- *   "instant" is the finite value 0), prior σ = max(2 × nominal, 1 % of the
- *   nominal period per volt of swing) — our assumption, as above.
- * For open-drain outputs the high level is the pull-up's and outputHighV is not fitted.
+ * Transforms (bounded optimisation by reparametrisation):
+ * - parts: x = ln(value/nominal) — every value positive;
+ * - amplifier effects and the supply: x = logit of the position inside a
+ *   physical range [lo, hi] (on a log scale for slew rate and output
+ *   resistance), so no estimate leaves the range: output levels stay within the
+ *   rails (an open-drain low level at or above the negative rail), delays ≥ 0.
+ * Priors (Gaussian in x):
+ * - `nuisance`: how far the effect wanders on a board that is in order — a
+ *   part within its tolerance read as ±3σ (common practice), an amplifier
+ *   figure about ±50 % (1σ) around its class-typical value, the supply ±1 %
+ *   (our assumptions);
+ * - `off`: the prior of the hypothesis "this effect is what is wrong": a part
+ *   out of tolerance, log-normal with σ = 0.2 (a factor 1.8 at 3σ); an
+ *   amplifier figure or the supply anywhere in its range (σ = 1.8 in logit
+ *   space is close to flat across it). Our assumptions, documented here.
+ * Ranges for amplifier effects (our assumption until the amplifier figures
+ * table carries fit bounds): a factor of five either side of the class-typical
+ * figure; levels from the rail to 4 × the headroom + 0.5 V inside it; delay 0
+ * to 5 × typical; offset ±(5 × typical + 2 mV); bias ±(5 × typical + 10 nA);
+ * supply ±20 %.
  */
 import type { AmplifierModel } from '../../amplifiers/model.ts';
 import { getTopology } from '../../circuit/analyze.ts';
 import type { Circuit } from '../../circuit/types.ts';
 import { CoreError } from '../../errors.ts';
 
-export type ParameterKind = 'part' | 'amplifier';
-export type ParameterSpace = 'log' | 'linear' | 'reciprocal';
+export type ParameterKind = 'part' | 'amplifier' | 'supply';
+export type ParameterSpace = 'log' | 'logit' | 'log-logit';
 
 export interface FitParameter {
-  /** Part role (cTiming...) or amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS). */
+  /** Part role (cTiming...), amplifier effect (outputHighV, slewRateVPerS, ...) or supplyScale. */
   name: string;
   kind: ParameterKind;
-  /** SI unit of the natural value. */
-  unit: 'ohm' | 'F' | 'V' | 'V/s' | 's';
+  unit: 'ohm' | 'F' | 'V' | 'V/s' | 's' | 'A' | '1';
   space: ParameterSpace;
-  /** Natural value in the nominal circuit (Infinity for an instant slew rate). */
+  /** Natural value in the nominal circuit. */
   nominal: number;
-  /** Prior in the fitted space. */
+  /** Physical range (natural units) for logit spaces. */
+  lo: number;
+  hi: number;
+  /** Fitted-space value of the nominal. */
   priorMean: number;
+  /** Nuisance prior σ (fitted space): the board is in order. */
   priorSd: number;
-  lower?: number;
+  /** Prior σ when this effect is the hypothesis (fitted space). */
+  offSd: number;
   /** Part tolerance as a fraction (parts only). */
   tolerance?: number;
   /** Words for messages. */
@@ -49,21 +58,39 @@ export interface FitParameter {
 export const DEFAULT_TOLERANCE = { resistor: 0.01, capacitor: 0.1 } as const;
 /** A tolerance is a ±3σ band (common practice). */
 export const TOLERANCE_SIGMAS = 3;
+/** Smallest tolerance accepted: 0.01 % (the tightest precision resistors sold, common practice). */
+export const MIN_TOLERANCE = 1e-4;
 
-/** Prior width of slew and delay: this many times the nominal figure, at least this share of the period (our assumptions). */
-const DYNAMIC_PRIOR_FACTOR = 2;
-const DYNAMIC_PRIOR_PERIOD_SHARE = 0.01;
+const PART_OFF_SD = 0.2;
+const AMP_NUISANCE_SD = 0.6;
+const AMP_OFF_SD = 1.8;
+const RANGE_FACTOR = 5;
+const SUPPLY_RANGE = 0.2;
+const SUPPLY_NUISANCE = 0.01;
 
-export const AMPLIFIER_PARAMETERS = ['outputHighV', 'outputLowV', 'slewRateVPerS', 'recoveryDelayS'] as const;
-export type AmplifierParameterName = (typeof AMPLIFIER_PARAMETERS)[number];
+const logistic = (x: number) => 1 / (1 + Math.exp(-x));
+const logit = (p: number) => Math.log(p / (1 - p));
 
-export function buildParameters(circuit: Circuit, nominalPeriodS: number, nominalSwingV: number, tolerances: Readonly<Record<string, number>> = {}): FitParameter[] {
+function ranged(name: string, kind: ParameterKind, unit: FitParameter['unit'], space: 'logit' | 'log-logit', nominal: number, lo: number, hi: number, label: string, nuisanceShare?: number): FitParameter | undefined {
+  if (!(Number.isFinite(nominal) && Number.isFinite(lo) && Number.isFinite(hi) && hi > lo)) return undefined;
+  const [a, b, v] = space === 'log-logit' ? [Math.log(lo), Math.log(hi), Math.log(nominal)] : [lo, hi, nominal];
+  const p = (v - a) / (b - a);
+  if (!(p > 1e-6 && p < 1 - 1e-6)) return undefined;
+  const mean = logit(p);
+  // A nuisance spread given as a share of the value becomes a logit σ through the slope at the nominal.
+  const sd = nuisanceShare === undefined ? AMP_NUISANCE_SD : nuisanceShare / ((b - a) * p * (1 - p)) / (space === 'log-logit' ? 1 : 1 / Math.abs(nominal));
+  return { name, kind, unit, space, nominal, lo, hi, priorMean: mean, priorSd: sd, offSd: AMP_OFF_SD, label };
+}
+
+export function buildParameters(circuit: Circuit, tolerances: Readonly<Record<string, number>> = {}): FitParameter[] {
   const topology = getTopology(circuit.topology);
   for (const [role, tol] of Object.entries(tolerances)) {
     if (!(role in topology.roles)) {
       throw new CoreError('unexpected-part', `tolerances names '${role}', which topology '${topology.id}' does not have; its roles are ${Object.keys(topology.roles).join(', ')}`, `/tolerances/${role}`);
     }
-    if (!(tol > 0 && tol < 1)) throw new CoreError('invalid-value', `tolerance of ${role} must be a fraction between 0 and 1 (0.05 for 5 %)`, `/tolerances/${role}`);
+    if (!(tol >= MIN_TOLERANCE && tol < 1)) {
+      throw new CoreError('invalid-value', `tolerance of ${role} must be a fraction from ${MIN_TOLERANCE} (0.01 %) to below 1 (0.05 for 5 %), got ${tol}`, `/tolerances/${role}`);
+    }
   }
   const params: FitParameter[] = [];
   for (const [role, spec] of Object.entries(topology.roles)) {
@@ -76,58 +103,64 @@ export function buildParameters(circuit: Circuit, nominalPeriodS: number, nomina
       unit: spec.kind === 'capacitor' ? 'F' : 'ohm',
       space: 'log',
       nominal: value,
+      lo: 0,
+      hi: Infinity,
       priorMean: 0,
       // ln(1 ± t) is asymmetric; the 3σ band is matched on the mean of both sides' log widths.
       priorSd: (Math.log(1 + tolerance) - Math.log(1 - tolerance)) / 2 / TOLERANCE_SIGMAS,
+      offSd: PART_OFF_SD,
       tolerance,
       label: `${role} (${spec.description.split(',')[0]})`,
     });
   }
   const amp = circuit.amplifier;
-  const span = circuit.supply.positiveV - circuit.supply.negativeV;
-  const levelSd = Math.max(0.1, 0.02 * span);
+  const { positiveV, negativeV } = circuit.supply;
+  const add = (p: FitParameter | undefined) => p && params.push(p);
   if (amp.outputStage !== 'open-drain') {
-    const highV = circuit.supply.positiveV - amp.outputHeadroomHighV;
-    params.push({ name: 'outputHighV', kind: 'amplifier', unit: 'V', space: 'linear', nominal: highV, priorMean: highV, priorSd: levelSd, label: 'output high level' });
+    const h = amp.outputHeadroomHighV;
+    add(ranged('outputHighV', 'amplifier', 'V', 'logit', positiveV - h, positiveV - (4 * h + 0.5), positiveV, 'output high level'));
   }
-  const lowV = circuit.supply.negativeV + amp.outputHeadroomLowV;
-  params.push({ name: 'outputLowV', kind: 'amplifier', unit: 'V', space: 'linear', nominal: lowV, priorMean: lowV, priorSd: levelSd, label: 'output low level' });
-  const perVolt = 1 / Math.max(nominalSwingV, 1e-3);
-  const uNominal = Number.isFinite(amp.slewRateVPerS) ? 1 / amp.slewRateVPerS : 0;
-  params.push({
-    name: 'slewRateVPerS',
-    kind: 'amplifier',
-    unit: 'V/s',
-    space: 'reciprocal',
-    nominal: amp.slewRateVPerS,
-    priorMean: uNominal,
-    priorSd: Math.max(DYNAMIC_PRIOR_FACTOR * uNominal, DYNAMIC_PRIOR_PERIOD_SHARE * nominalPeriodS * perVolt),
-    lower: 0,
-    label: 'slew rate',
-  });
-  params.push({
-    name: 'recoveryDelayS',
-    kind: 'amplifier',
-    unit: 's',
-    space: 'linear',
-    nominal: amp.recoveryDelayS,
-    priorMean: amp.recoveryDelayS,
-    priorSd: Math.max(DYNAMIC_PRIOR_FACTOR * amp.recoveryDelayS, DYNAMIC_PRIOR_PERIOD_SHARE * nominalPeriodS),
-    lower: 0,
-    label: 'recovery delay',
-  });
+  const l = amp.outputHeadroomLowV;
+  add(ranged('outputLowV', 'amplifier', 'V', 'logit', negativeV + l, negativeV, negativeV + 4 * l + 0.5, amp.outputStage === 'open-drain' ? 'open-drain low level' : 'output low level'));
+  const sr = amp.slewRateVPerS;
+  add(ranged('slewRateVPerS', 'amplifier', 'V/s', 'log-logit', sr, sr / RANGE_FACTOR, sr * RANGE_FACTOR, 'slew rate'));
+  const d = amp.recoveryDelayS;
+  add(ranged('recoveryDelayS', 'amplifier', 's', 'logit', d, 0, RANGE_FACTOR * d, amp.outputStage === 'open-drain' ? 'propagation delay' : 'recovery delay'));
+  const ro = amp.outputResistanceOhm;
+  add(ranged('outputResistanceOhm', 'amplifier', 'ohm', 'log-logit', ro, ro / RANGE_FACTOR, ro * RANGE_FACTOR, 'output resistance'));
+  const os = Math.abs(amp.inputOffsetV) * RANGE_FACTOR + 2e-3;
+  add(ranged('inputOffsetV', 'amplifier', 'V', 'logit', amp.inputOffsetV, -os, os, 'input offset'));
+  const ib = Math.abs(amp.inputBiasCurrentA) * RANGE_FACTOR + 10e-9;
+  add(ranged('inputBiasCurrentA', 'amplifier', 'A', 'logit', amp.inputBiasCurrentA, -ib, ib, 'input bias current'));
+  add(ranged('supplyScale', 'supply', '1', 'logit', 1, 1 - SUPPLY_RANGE, 1 + SUPPLY_RANGE, 'supply voltage', SUPPLY_NUISANCE));
   return params;
 }
 
-/** Natural value (ohm, F, V, V/s, s) of a parameter at its fitted-space value. */
+/** Natural value of a parameter at its fitted-space value. */
 export function naturalValue(p: FitParameter, x: number): number {
   switch (p.space) {
     case 'log':
       return p.nominal * Math.exp(x);
-    case 'linear':
-      return x;
-    case 'reciprocal':
-      return x > 0 ? 1 / x : Infinity;
+    case 'logit':
+      return p.lo + (p.hi - p.lo) * logistic(x);
+    case 'log-logit':
+      return Math.exp(Math.log(p.lo) + (Math.log(p.hi) - Math.log(p.lo)) * logistic(x));
+  }
+}
+
+/** Fitted-space value of a natural value (clamped inside a range). */
+export function fittedValue(p: FitParameter, v: number): number {
+  switch (p.space) {
+    case 'log':
+      return Math.log(v / p.nominal);
+    case 'logit': {
+      const q = Math.min(1 - 1e-12, Math.max(1e-12, (v - p.lo) / (p.hi - p.lo)));
+      return logit(q);
+    }
+    case 'log-logit': {
+      const q = Math.min(1 - 1e-12, Math.max(1e-12, (Math.log(v) - Math.log(p.lo)) / (Math.log(p.hi) - Math.log(p.lo))));
+      return logit(q);
+    }
   }
 }
 
@@ -136,30 +169,37 @@ export function naturalSd(p: FitParameter, x: number, sdX: number): number {
   switch (p.space) {
     case 'log':
       return p.nominal * Math.exp(x) * sdX;
-    case 'linear':
-      return sdX;
-    case 'reciprocal':
-      return x > 0 ? sdX / (x * x) : Infinity;
+    case 'logit': {
+      const q = logistic(x);
+      return (p.hi - p.lo) * q * (1 - q) * sdX;
+    }
+    case 'log-logit': {
+      const q = logistic(x);
+      return naturalValue(p, x) * (Math.log(p.hi) - Math.log(p.lo)) * q * (1 - q) * sdX;
+    }
   }
 }
 
-/** The circuit with every parameter at the given fitted-space values. */
-export function circuitAt(base: Circuit, params: readonly FitParameter[], x: ArrayLike<number>): Circuit {
-  const parts: Record<string, number> = { ...base.parts };
+/** The circuit with every parameter at the given fitted-space values (parts overridden by `parts`). */
+export function circuitAt(base: Circuit, params: readonly FitParameter[], x: ArrayLike<number>, parts?: Readonly<Record<string, number>>): Circuit {
+  const partValues: Record<string, number> = { ...base.parts, ...parts };
   const amplifier: AmplifierModel = { ...base.amplifier };
+  let supply = base.supply;
+  let highV: number | undefined;
+  let lowV: number | undefined;
   for (let j = 0; j < params.length; j++) {
     const p = params[j];
-    const v = naturalValue(p, x[j]);
     if (p.kind === 'part') {
-      parts[p.name] = v;
+      partValues[p.name] = (parts?.[p.name] ?? base.parts[p.name]) * Math.exp(x[j]);
       continue;
     }
-    switch (p.name as AmplifierParameterName) {
+    const v = naturalValue(p, x[j]);
+    switch (p.name) {
       case 'outputHighV':
-        amplifier.outputHeadroomHighV = base.supply.positiveV - v;
+        highV = v;
         break;
       case 'outputLowV':
-        amplifier.outputHeadroomLowV = v - base.supply.negativeV;
+        lowV = v;
         break;
       case 'slewRateVPerS':
         amplifier.slewRateVPerS = v;
@@ -167,9 +207,24 @@ export function circuitAt(base: Circuit, params: readonly FitParameter[], x: Arr
       case 'recoveryDelayS':
         amplifier.recoveryDelayS = Math.max(0, v);
         break;
+      case 'outputResistanceOhm':
+        amplifier.outputResistanceOhm = v;
+        break;
+      case 'inputOffsetV':
+        amplifier.inputOffsetV = v;
+        break;
+      case 'inputBiasCurrentA':
+        amplifier.inputBiasCurrentA = v;
+        break;
+      case 'supplyScale':
+        supply = { positiveV: base.supply.positiveV * v, negativeV: base.supply.negativeV * v };
+        break;
     }
   }
-  return { ...base, parts, amplifier };
+  // Levels are absolute; the supply scale moves the rails, and the headroom is what is left.
+  if (highV !== undefined) amplifier.outputHeadroomHighV = Math.max(0, base.supply.positiveV - highV);
+  if (lowV !== undefined) amplifier.outputHeadroomLowV = Math.max(0, lowV - base.supply.negativeV);
+  return { ...base, supply, parts: partValues, amplifier };
 }
 
 export function nominalVector(params: readonly FitParameter[]): Float64Array {

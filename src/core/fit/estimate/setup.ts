@@ -1,7 +1,7 @@
 /**
  * Binds a nominal circuit, its fit parameters and the measurements into one
  * residual function, and fits any subset of the parameters (the others held
- * at nominal) — the full estimate and every candidate explanation use it.
+ * at nominal) — the full estimate and every hypothesis of the diagnosis use it.
  */
 import type { Circuit } from '../../circuit/types.ts';
 import { CoreError } from '../../errors.ts';
@@ -16,17 +16,17 @@ export interface FitSetup {
   measurements: Measurement[];
   nominalX: Float64Array;
   nominalFigures: PredictedFigures;
-  figuresAt(x: ArrayLike<number>): PredictedFigures;
-  residualsAt(x: ArrayLike<number>): Float64Array;
+  figuresAt(x: ArrayLike<number>, parts?: Readonly<Record<string, number>>): PredictedFigures;
+  residualsAt(x: ArrayLike<number>, parts?: Readonly<Record<string, number>>): Float64Array;
 }
 
 export function createFitSetup(circuit: Circuit, measurements: Measurement[], tolerances: Readonly<Record<string, number>> = {}): FitSetup {
   const nominalFigures = predictFigures(circuit);
-  const parameters = buildParameters(circuit, nominalFigures.periodS, Math.abs(nominalFigures.outputHighV - nominalFigures.outputLowV), tolerances);
+  const parameters = buildParameters(circuit, tolerances);
   const nominalX = nominalVector(parameters);
-  const figuresAt = (x: ArrayLike<number>) => predictFigures(circuitAt(circuit, parameters, x));
-  const residualsAt = (x: ArrayLike<number>) => {
-    const fig = figuresAt(x);
+  const figuresAt = (x: ArrayLike<number>, parts?: Readonly<Record<string, number>>) => predictFigures(circuitAt(circuit, parameters, x, parts));
+  const residualsAt = (x: ArrayLike<number>, parts?: Readonly<Record<string, number>>) => {
+    const fig = figuresAt(x, parts);
     const r = new Float64Array(measurements.length);
     for (let i = 0; i < measurements.length; i++) {
       const m = measurements[i];
@@ -42,30 +42,40 @@ export interface SubsetFit {
   active: number[];
   /** Full parameter vector (inactive ones at nominal). */
   x: Float64Array;
-  /** Covariance of the active parameters, in the fitted space. */
   solution: MapSolution;
 }
 
-export function fitSubset(setup: FitSetup, active: readonly number[], start?: ArrayLike<number>): SubsetFit {
+export interface SubsetOptions {
+  /** Prior σ per active parameter (default: the nuisance priors). */
+  priorSd?: readonly number[];
+  /** Residual transform (e.g. whitening by the nuisance covariance). */
+  transform?: (r: Float64Array) => Float64Array;
+  start?: ArrayLike<number>;
+  maxIterations?: number;
+}
+
+export function fitSubset(setup: FitSetup, active: readonly number[], options: SubsetOptions = {}): SubsetFit {
   const params = active.map((j) => setup.parameters[j]);
   const embed = (xs: Float64Array): Float64Array => {
     const full = Float64Array.from(setup.nominalX);
     for (let k = 0; k < active.length; k++) full[active[k]] = xs[k];
     return full;
   };
-  const solution = solveMap({
-    size: active.length,
-    priorMean: params.map((p) => p.priorMean),
-    priorSd: params.map((p) => p.priorSd),
-    lower: params.map((p) => p.lower ?? -Infinity),
-    upper: params.map(() => Infinity),
-    residuals: (xs) => setup.residualsAt(embed(xs)),
-    ...(start ? { start: active.map((j) => start[j]) } : {}),
-  });
+  const transform = options.transform ?? ((r: Float64Array) => r);
+  const solution = solveMap(
+    {
+      size: active.length,
+      priorMean: params.map((p) => p.priorMean),
+      priorSd: options.priorSd ?? params.map((p) => p.priorSd),
+      residuals: (xs) => transform(setup.residualsAt(embed(xs))),
+      ...(options.start ? { start: active.map((j) => options.start![j]) } : {}),
+    },
+    options.maxIterations === undefined ? {} : { maxIterations: options.maxIterations },
+  );
   return { active: [...active], x: embed(solution.x), solution };
 }
 
-/** χ² of the nominal circuit against the measurements. */
+/** χ² of the nominal circuit against the measurements (no allowance for tolerances). */
 export function nominalChiSquare(setup: FitSetup): number {
   const r = setup.residualsAt(setup.nominalX);
   let s = 0;

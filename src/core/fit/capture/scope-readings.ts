@@ -1,0 +1,292 @@
+/**
+ * The capture side of the shared figure definitions
+ * (../definitions/scope-definitions.ts): settled output levels, reference-level
+ * instants, capacitor turning points and windowed time constants, read off
+ * sampled, noisy, quantised records. Every pass is a loop over the typed array;
+ * nothing is copied.
+ */
+import {
+  EXTREME_WINDOW_SHARE,
+  LEVEL_ITERATIONS,
+  LEVEL_MARGIN,
+  REF_HIGH,
+  REF_LOW,
+  CROSSING_WINDOW_SHARE,
+  TAU_WINDOW_HIGH,
+  TAU_WINDOW_LOW,
+  tauFromWindowMeans,
+} from '../definitions/scope-definitions.ts';
+import { findTransitions, intervalStats, type IntervalStats, type Transition } from './crossings.ts';
+import { clockLength, indexAtTime as indexAtTimeImported, timeAt as timeAtImported, type SampleClock } from './sample-clock.ts';
+import type { TurningPoint } from './turning-points.ts';
+
+/** Module-local bindings: hot per-sample loops call these directly, not through an import binding (CJS transforms make each such call a property read). */
+const timeAt = timeAtImported;
+const indexAtTime = indexAtTimeImported;
+
+export interface Spread {
+  mean: number;
+  /** Standard deviation of the individual readings (0 with one). */
+  sd: number;
+  count: number;
+}
+
+function spread(xs: readonly number[]): Spread | undefined {
+  const finite = xs.filter(Number.isFinite);
+  if (finite.length === 0) return undefined;
+  const s = intervalStats(finite);
+  return { mean: s.meanS, sd: s.stdS, count: s.count };
+}
+
+export interface OutputReadings {
+  highV: number;
+  lowV: number;
+  transitions: Transition[];
+  period: IntervalStats;
+  duty: Spread | undefined;
+  rise: Spread | undefined;
+  fall: Spread | undefined;
+  /** Samples averaged into each level. */
+  highSamples: number;
+  lowSamples: number;
+}
+
+/** Mean of the samples with times in [a, b]; returns [sum, count]. */
+function windowSum(values: Float64Array, clock: SampleClock, a: number, b: number): [number, number] {
+  const n = Math.min(values.length, clockLength(clock));
+  const i0 = Math.max(0, Math.ceil(indexAtTime(clock, a)));
+  const i1 = Math.min(n - 1, Math.floor(indexAtTime(clock, b)));
+  let sum = 0;
+  for (let i = i0; i <= i1; i++) sum += values[i];
+  return [sum, Math.max(0, i1 - i0 + 1)];
+}
+
+/**
+ * Settled levels and reference instants of the output, starting from the
+ * histogram levels and iterating the shared definition.
+ */
+export function readOutput(values: Float64Array, clock: SampleClock, startHighV: number, startLowV: number): OutputReadings {
+  let highV = startHighV;
+  let lowV = startLowV;
+  let highSamples = 0;
+  let lowSamples = 0;
+  let transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV });
+  for (let pass = 0; pass < LEVEL_ITERATIONS; pass++) {
+    let hs = 0;
+    let hn = 0;
+    let ls = 0;
+    let ln = 0;
+    for (let k = 0; k + 1 < transitions.length; k++) {
+      const a = transitions[k];
+      const b = transitions[k + 1];
+      // Settled part: LEVEL_MARGIN durations past the arriving reference instant, before the departing one.
+      const from = a.endS + LEVEL_MARGIN * a.durationS;
+      const to = b.startS - LEVEL_MARGIN * b.durationS;
+      if (!(to > from)) continue;
+      const [s, c] = windowSum(values, clock, from, to);
+      if (a.direction === 'rising') ((hs += s), (hn += c));
+      else ((ls += s), (ln += c));
+    }
+    if (hn === 0 || ln === 0) break;
+    highV = hs / hn;
+    lowV = ls / ln;
+    highSamples = hn;
+    lowSamples = ln;
+    transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV });
+  }
+  const rising = transitions.filter((t) => t.direction === 'rising');
+  const falling = transitions.filter((t) => t.direction === 'falling');
+  const periods: number[] = [];
+  for (let k = 1; k < rising.length; k++) periods.push(rising[k].timeS - rising[k - 1].timeS);
+  for (let k = 1; k < falling.length; k++) periods.push(falling[k].timeS - falling[k - 1].timeS);
+  const duties: number[] = [];
+  for (let k = 0; k + 2 < transitions.length; k++) {
+    const [a, b, c] = [transitions[k], transitions[k + 1], transitions[k + 2]];
+    duties.push(a.direction === 'rising' ? (b.timeS - a.timeS) / (c.timeS - a.timeS) : 1 - (b.timeS - a.timeS) / (c.timeS - a.timeS));
+  }
+  return {
+    highV,
+    lowV,
+    transitions,
+    period: intervalStats(periods.length > 0 ? periods : [Number.NaN]),
+    duty: spread(duties),
+    rise: spread(rising.map((t) => t.durationS)),
+    fall: spread(falling.map((t) => t.durationS)),
+    highSamples,
+    lowSamples,
+  };
+}
+
+/** Least-squares quadratic through samples [i0, i1] in u = t − t0: [c0, c1, c2] (undefined if singular). */
+function quadraticFit(values: Float64Array, clock: SampleClock, i0: number, i1: number, t0: number): [number, number, number] | undefined {
+  let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, y0 = 0, y1 = 0, y2 = 0;
+  for (let i = i0; i <= i1; i++) {
+    const u = timeAt(clock, i) - t0;
+    const u2 = u * u;
+    const y = values[i];
+    s0 += 1;
+    s1 += u;
+    s2 += u2;
+    s3 += u2 * u;
+    s4 += u2 * u2;
+    y0 += y;
+    y1 += y * u;
+    y2 += y * u2;
+  }
+  // Cramer's rule on the 3×3 normal equations.
+  const det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+  if (!(Math.abs(det) > 0)) return undefined;
+  const c0 = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+  const c1 = (s0 * (y1 * s4 - y2 * s3) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
+  const c2 = (s0 * (s2 * y2 - s3 * y1) - s1 * (s1 * y2 - s2 * y1) + y0 * (s1 * s3 - s2 * s2)) / det;
+  return [c0, c1, c2];
+}
+
+const SCAN_STEPS = 64;
+
+/**
+ * A turning point from noisy samples: quadratic fits on each side of it, and
+ * the extreme of their lower (for a maximum) envelope — exact for a corner
+ * (an instant edge) and for a smooth peak alike. One refit around the found instant.
+ */
+function refineTurningPoint(values: Float64Array, clock: SampleClock, index: number, kind: 'max' | 'min', halfWidth: number): { timeS: number; valueV: number } | undefined {
+  const n = Math.min(values.length, clockLength(clock));
+  let p = index;
+  let best: { timeS: number; valueV: number } | undefined;
+  for (let pass = 0; pass < 2; pass++) {
+    if (p - halfWidth < 0 || p + halfWidth > n - 1) return undefined;
+    const t0 = timeAt(clock, p);
+    const left = quadraticFit(values, clock, p - halfWidth, p, t0);
+    const right = quadraticFit(values, clock, p, p + halfWidth, t0);
+    if (!left || !right) return undefined;
+    const span = (timeAt(clock, p + (halfWidth >> 1)) - timeAt(clock, p - (halfWidth >> 1))) / 2;
+    const sign = kind === 'max' ? 1 : -1;
+    let bestScore = -Infinity;
+    for (let k = 0; k <= SCAN_STEPS; k++) {
+      const u = -span + (2 * span * k) / SCAN_STEPS;
+      const l = left[0] + u * (left[1] + u * left[2]);
+      const r = right[0] + u * (right[1] + u * right[2]);
+      const score = sign * Math.min(sign * l, sign * r);
+      if (sign * score > bestScore) {
+        bestScore = sign * score;
+        best = { timeS: t0 + u, valueV: score };
+      }
+    }
+    const next = Math.round(indexAtTime(clock, best!.timeS));
+    if (next === p) break;
+    p = next;
+  }
+  return best;
+}
+
+/** ∫ of the linear interpolant of the samples over [a, b] (inside the record). */
+function sampleIntegral(values: Float64Array, clock: SampleClock, a: number, b: number): number {
+  const fa = indexAtTime(clock, a);
+  const fb = indexAtTime(clock, b);
+  const ia = Math.floor(fa);
+  const ib = Math.floor(fb);
+  const at = (f: number) => {
+    const i = Math.floor(f);
+    const w = f - i;
+    return w === 0 ? values[i] : values[i] + w * (values[i + 1] - values[i]);
+  };
+  if (ia === ib) return ((at(fa) + at(fb)) / 2) * (b - a);
+  let total = ((at(fa) + values[ia + 1]) / 2) * (timeAt(clock, ia + 1) - a);
+  for (let i = ia + 1; i < ib; i++) total += ((values[i] + values[i + 1]) / 2) * (timeAt(clock, i + 1) - timeAt(clock, i));
+  total += ((values[ib] + at(fb)) / 2) * (b - timeAt(clock, ib));
+  return total;
+}
+
+/**
+ * Instant the samples cross levelV between indices [from, to] in the given
+ * direction: the first sample past the level, then a local quadratic fit over
+ * ±halfWidth samples solved for the level (noise averages out; a noisy record
+ * that wiggles across the level still gives one instant).
+ */
+function levelCrossing(values: Float64Array, clock: SampleClock, from: number, to: number, levelV: number, rising: boolean, halfWidth: number): number {
+  const n = Math.min(values.length, clockLength(clock));
+  let i = from;
+  while (i <= to && (rising ? values[i] < levelV : values[i] > levelV)) i++;
+  if (i > to || i - halfWidth < 0 || i + halfWidth > n - 1) return Number.NaN;
+  const t0 = timeAt(clock, i);
+  const q = quadraticFit(values, clock, i - halfWidth, i + halfWidth, t0);
+  if (!q) return Number.NaN;
+  // Root of c0 − level + c1·u + c2·u² nearest u = 0 (Newton from 0 converges on the steep part).
+  let u = 0;
+  for (let k = 0; k < 20; k++) {
+    const f = q[0] - levelV + u * (q[1] + u * q[2]);
+    const d = q[1] + 2 * u * q[2];
+    if (!(Math.abs(d) > 0)) return Number.NaN;
+    const step = f / d;
+    u -= step;
+    if (Math.abs(step) < 1e-12 * (Math.abs(u) + (timeAt(clock, i + 1) - t0))) break;
+  }
+  const spanS = timeAt(clock, i + halfWidth) - t0;
+  return Math.abs(u) <= spanS ? t0 + u : Number.NaN;
+}
+
+export interface CapacitorReadings {
+  maxV: Spread | undefined;
+  minV: Spread | undefined;
+  risingTau: Spread | undefined;
+  fallingTau: Spread | undefined;
+  aboveMidShare: Spread | undefined;
+  /** Period from same-direction mid-level crossings. */
+  period: IntervalStats | undefined;
+  turningPointCount: number;
+}
+
+export function readCapacitor(values: Float64Array, clock: SampleClock, turningPoints: readonly TurningPoint[], periodHintS: number): CapacitorReadings {
+  const n = Math.min(values.length, clockLength(clock));
+  const dt = (timeAt(clock, n - 1) - timeAt(clock, 0)) / (n - 1);
+  const halfWidth = Math.max(4, Math.round((EXTREME_WINDOW_SHARE * periodHintS) / dt));
+  const crossWidth = Math.max(3, Math.round((CROSSING_WINDOW_SHARE * periodHintS) / dt));
+  const refined: { kind: 'max' | 'min'; index: number; timeS: number; valueV: number }[] = [];
+  for (const tp of turningPoints) {
+    const r = refineTurningPoint(values, clock, tp.index, tp.kind, halfWidth);
+    if (r) refined.push({ kind: tp.kind, index: tp.index, ...r });
+  }
+  const maxV = spread(refined.filter((p) => p.kind === 'max').map((p) => p.valueV));
+  const minV = spread(refined.filter((p) => p.kind === 'min').map((p) => p.valueV));
+  const out: CapacitorReadings = { maxV, minV, risingTau: undefined, fallingTau: undefined, aboveMidShare: undefined, period: undefined, turningPointCount: refined.length };
+  if (!maxV || !minV) return out;
+  const rangeV = maxV.mean - minV.mean;
+  const low = minV.mean + TAU_WINDOW_LOW * rangeV;
+  const mid = minV.mean + 0.5 * rangeV;
+  const high = minV.mean + TAU_WINDOW_HIGH * rangeV;
+  const rising: number[] = [];
+  const falling: number[] = [];
+  const ups: number[] = [];
+  const downs: number[] = [];
+  const tauOver = (a: number, b: number) => {
+    const h = (b - a) / 3;
+    if (!(h > 2 * dt)) return Number.NaN;
+    return tauFromWindowMeans(sampleIntegral(values, clock, a, a + h) / h, sampleIntegral(values, clock, a + h, a + 2 * h) / h, sampleIntegral(values, clock, a + 2 * h, b) / h, h);
+  };
+  // Between turning points the stretch is monotone (up to noise): cross the three levels in order.
+  for (let k = 0; k + 1 < turningPoints.length; k++) {
+    const a = turningPoints[k];
+    const b = turningPoints[k + 1];
+    if (a.kind === b.kind) continue;
+    const up = a.kind === 'min';
+    const [first, last] = up ? [low, high] : [high, low];
+    const t1 = levelCrossing(values, clock, a.index, b.index, first, up, crossWidth);
+    const tm = levelCrossing(values, clock, a.index, b.index, mid, up, crossWidth);
+    const t2 = levelCrossing(values, clock, a.index, b.index, last, up, crossWidth);
+    if (Number.isFinite(tm)) (up ? ups : downs).push(tm);
+    if (Number.isFinite(t1) && Number.isFinite(t2)) (up ? rising : falling).push(tauOver(t1, t2));
+  }
+  const periods: number[] = [];
+  for (let k = 1; k < ups.length; k++) periods.push(ups[k] - ups[k - 1]);
+  for (let k = 1; k < downs.length; k++) periods.push(downs[k] - downs[k - 1]);
+  const shares: number[] = [];
+  for (let k = 0; k + 1 < ups.length; k++) {
+    const down = downs.find((t) => t > ups[k] && t < ups[k + 1]);
+    if (down !== undefined) shares.push((down - ups[k]) / (ups[k + 1] - ups[k]));
+  }
+  out.risingTau = spread(rising);
+  out.fallingTau = spread(falling);
+  out.aboveMidShare = spread(shares);
+  if (periods.length > 0) out.period = intervalStats(periods);
+  return out;
+}
