@@ -2674,10 +2674,11 @@ export interface components {
             fallTimeS?: components["schemas"]["ScalarMeasurement"];
             capacitorRisingTauS?: components["schemas"]["ScalarMeasurement"];
             capacitorFallingTauS?: components["schemas"]["ScalarMeasurement"];
+            capacitorAboveMidShare?: components["schemas"]["ScalarMeasurement"];
         };
         /** @description A scope capture: one or two channels as arrays with a sample interval or time column, or a CSV export */
         FitCapture: {
-            /** @description Sample interval, s (or give timeS) */
+            /** @description Sample interval, s, from 1 fs to 1000 s (or give timeS) */
             sampleIntervalS?: number;
             /** @description Sample instants, s, strictly increasing (wins over sampleIntervalS) */
             timeS?: (number | null)[];
@@ -2696,7 +2697,7 @@ export interface components {
             /** @description Time-base accuracy, fraction (default 5e-5) */
             timebaseUncertainty?: number;
         };
-        /** @description Part tolerances by role as fractions (0.05 = 5 %); defaults 1 % for resistors and 10 % for capacitors. Read as ±3σ. */
+        /** @description Part tolerances by role as fractions from 1e-4 (0.01 %) to below 1 (0.05 = 5 %); defaults 1 % for resistors and 10 % for capacitors. Read as ±3σ. */
         Tolerances: {
             [key: string]: number;
         };
@@ -2713,10 +2714,10 @@ export interface components {
             };
         };
         ParameterEstimate: {
-            /** @description Part role (cTiming, rTiming, ...) or amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS) */
+            /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA) or supplyScale */
             parameter: string;
-            kind: "part" | "amplifier";
-            unit: "ohm" | "F" | "V" | "V/s" | "s";
+            kind: "part" | "amplifier" | "supply";
+            unit: "ohm" | "F" | "V" | "V/s" | "s" | "A" | "1";
             /** @description Nominal value (null: no limit, e.g. an instant slew rate) */
             nominal: number | null;
             /** @description MAP estimate (null: no limit) */
@@ -2738,11 +2739,13 @@ export interface components {
         };
         FitExplanation: {
             rank: number;
+            /** @description Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom */
+            hypothesis: string;
             causes: {
-                /** @description Part role (cTiming, rTiming, ...) or amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS) */
+                /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA) or supplyScale */
                 parameter: string;
-                kind: "part" | "amplifier";
-                unit: "ohm" | "F" | "V" | "V/s" | "s";
+                kind: "part" | "amplifier" | "supply";
+                unit: "ohm" | "F" | "V" | "V/s" | "s" | "A" | "1";
                 /** @description Nominal value (null: no limit, e.g. an instant slew rate) */
                 nominal: number | null;
                 /** @description MAP estimate (null: no limit) */
@@ -2762,20 +2765,24 @@ export interface components {
                 /** @description Posterior over prior width; near 1: the data say nothing about this parameter */
                 posteriorToPriorSd: number;
                 withinTolerance: boolean;
+                /** @description off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted */
+                fault: "off" | "neighbouring-value" | "decade-slip" | "swapped";
                 /** @description e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance" */
                 text: string;
             }[];
-            /** @description Posterior probability among the nominal circuit and the candidates considered, 0..1 */
+            /** @description Posterior probability among the nominal circuit and the explanations listed (they sum to one with verdict.nominalScore) */
             score: number;
-            /** @description Laplace-approximated log evidence */
+            /** @description Laplace-approximated log evidence times prior */
             logEvidence: number;
-            /** @description χ² of the measurements this explanation leaves */
+            /** @description χ² of the measurements this explanation leaves, the other effects allowed their tolerances */
             residualChiSquare: number;
             measurementCount: number;
             /** @description Residual χ² within its 95 % bound */
             accountsForMeasurements: boolean;
+            /** @description Residual χ² within its 1e-3 bound; one that fails never outranks one that passes */
+            passesGoodnessOfFit: boolean;
             residuals: {
-                measurement: "frequencyHz" | "dutyCycle" | "capacitorMinV" | "capacitorMaxV" | "outputHighV" | "outputLowV" | "riseTimeS" | "fallTimeS" | "capacitorRisingTauS" | "capacitorFallingTauS";
+                measurement: "frequencyHz" | "dutyCycle" | "capacitorMinV" | "capacitorMaxV" | "outputHighV" | "outputLowV" | "riseTimeS" | "fallTimeS" | "capacitorRisingTauS" | "capacitorFallingTauS" | "capacitorAboveMidShare";
                 measured: number;
                 predicted: number;
                 uncertainty: number;
@@ -2800,12 +2807,13 @@ export interface components {
                 fallTimeS: number;
                 capacitorRisingTauS: number;
                 capacitorFallingTauS: number;
+                /** @description Share of the period the capacitor spends above the middle of its range */
+                capacitorAboveMidShare: number;
+                /** @description Switching level at node P, V */
                 upperThresholdV: number;
                 lowerThresholdV: number;
                 /** @description (upper − lower threshold)/(output high − low) */
                 hysteresisRatio: number;
-                /** @description Recovery delay + half the slew ramp, s */
-                effectiveEdgeDelayS: number;
             };
             /** @description Figures the forward model predicts */
             fitted: {
@@ -2820,15 +2828,16 @@ export interface components {
                 fallTimeS: number;
                 capacitorRisingTauS: number;
                 capacitorFallingTauS: number;
+                /** @description Share of the period the capacitor spends above the middle of its range */
+                capacitorAboveMidShare: number;
+                /** @description Switching level at node P, V */
                 upperThresholdV: number;
                 lowerThresholdV: number;
                 /** @description (upper − lower threshold)/(output high − low) */
                 hysteresisRatio: number;
-                /** @description Recovery delay + half the slew ramp, s */
-                effectiveEdgeDelayS: number;
             };
             measurements: {
-                name: "frequencyHz" | "dutyCycle" | "capacitorMinV" | "capacitorMaxV" | "outputHighV" | "outputLowV" | "riseTimeS" | "fallTimeS" | "capacitorRisingTauS" | "capacitorFallingTauS";
+                name: "frequencyHz" | "dutyCycle" | "capacitorMinV" | "capacitorMaxV" | "outputHighV" | "outputLowV" | "riseTimeS" | "fallTimeS" | "capacitorRisingTauS" | "capacitorFallingTauS" | "capacitorAboveMidShare";
                 value: number;
                 /** @description Standard uncertainty used, same unit */
                 uncertainty: number;
@@ -2853,8 +2862,8 @@ export interface components {
                     periodMinS: number;
                     periodMaxS: number;
                     periodCount: number;
-                    dutyCycle: number;
-                    /** @description IEEE Std 181 histogram state level, V */
+                    dutyCycle?: number;
+                    /** @description Settled output level (IEEE Std 181 histogram levels refined over the settled parts of the states), V */
                     outputHighV?: number;
                     outputLowV?: number;
                     /** @description Mean 10–90 % transition duration, s */
@@ -2863,13 +2872,12 @@ export interface components {
                     edgeCount?: number;
                     capacitorMinV?: number;
                     capacitorMaxV?: number;
-                    /** @description Capacitor voltage at the falling output edges (segment fits), V */
-                    upperSwitchV?: number;
-                    lowerSwitchV?: number;
-                    /** @description Fitted time constant of the charging segments, s */
+                    /** @description Windowed time constant of the charging segments, s */
                     risingTauS?: number;
                     fallingTauS?: number;
-                    segmentCount?: number;
+                    /** @description Share of the period the capacitor spends above the middle of its range */
+                    capacitorAboveMidShare?: number;
+                    turningPointCount?: number;
                     sampleCount: number;
                     sampleIntervalS: number;
                     durationS: number;
@@ -2913,7 +2921,10 @@ export interface components {
             };
             verdict: {
                 agreesWithNominal: boolean;
+                /** @description χ² with every part at its nominal value */
                 nominalChiSquare: number;
+                /** @description χ² allowing every effect its tolerance or class spread (what the verdict tests) */
+                toleranceChiSquare: number;
                 measurementCount: number;
                 /** @description 95 % χ² bound (Wilson–Hilferty) */
                 chiSquareBound95: number;
@@ -2921,9 +2932,26 @@ export interface components {
                 nominalScore: number;
                 statement: string;
             };
-            /** @description Ranked one- and two-cause explanations */
+            /** @description Ranked one- and two-cause explanations, wrong parts included */
             explanations: components["schemas"]["FitExplanation"][];
-            /** @description Candidates scored (single causes, and pairs that beat both their single causes) */
+            /** @description Leading hypotheses the measurements cannot tell apart, and the measurement that would (computed from their predictions) */
+            ambiguities: {
+                hypotheses: string[];
+                /** @description Largest difference of their predictions on the measured figures, in σ */
+                measuredSeparationSigma: number;
+                statement: string;
+                separatingMeasurement?: {
+                    action: string;
+                    figure: string;
+                    predictions: {
+                        hypothesis: string;
+                        value: number;
+                    }[];
+                    /** @description Difference of the predictions over a typical bench uncertainty of that figure */
+                    separationSigma: number;
+                };
+            }[];
+            /** @description Hypotheses scored */
             candidateCount: number;
             warnings: string[];
         };
