@@ -237,7 +237,8 @@ export function buildProgram(io: CliIo, setExit: (code: ExitCode) => void): Comm
   resourceCommands(program, io, run, {
     name: 'amplifiers',
     path: '/v1/amplifiers',
-    what: 'amplifier (built-in archetypes and registered ones)',
+    what: 'amplifier',
+    whats: 'amplifiers (built-in archetypes and registered ones)',
     list: (b) => amplifierListView(b as Parameters<typeof amplifierListView>[0]),
     one: (b) => recordView(b as Record<string, unknown>),
   });
@@ -245,6 +246,7 @@ export function buildProgram(io: CliIo, setExit: (code: ExitCode) => void): Comm
     name: 'catalogues',
     path: '/v1/catalogues',
     what: 'parts catalogue',
+    whats: 'parts catalogues',
     list: (b) => catalogueListView(b as Parameters<typeof catalogueListView>[0]),
     one: (b) => catalogueView(b as CatalogueView),
   });
@@ -255,17 +257,18 @@ interface ResourceSpec {
   name: string;
   path: string;
   what: string;
+  whats: string;
   list: (body: unknown) => string;
   one: (body: unknown) => string;
 }
 
 /** list / get / put / delete for a stored collection; writes carry If-Match (RFC 9110 §13.1.1). */
 function resourceCommands(program: Command, io: CliIo, run: <A extends unknown[]>(a: (s: Session, ...args: A) => Promise<ExitCode>) => (...args: unknown[]) => Promise<void>, spec: ResourceSpec): void {
-  const group = program.command(spec.name).description(`list, show, store or delete ${spec.what}s`);
+  const group = program.command(spec.name).description(`list, show, store or delete ${spec.whats}`);
   const one = (id: string) => `${spec.path}/${encodeURIComponent(id)}`;
   group
     .command('list')
-    .description(`list ${spec.what}s`)
+    .description(`list ${spec.whats}`)
     .action(
       run(async (s) => {
         const { body } = await s.call<unknown>('GET', spec.path);
