@@ -479,6 +479,15 @@ export interface paths {
                         "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
+                /** @description Well-formed but physically impossible or unanswerable request */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
                 /** @description Too many failed API-key attempts from this client; retry after Retry-After seconds */
                 429: {
                     headers: {
@@ -2113,37 +2122,37 @@ export interface components {
             base?: string;
             name?: string;
             /**
-             * @description Output stage type
+             * @description Output stage: push-pull drives both states; open-drain only sinks (the high level comes from a pull-up)
              * @enum {string}
              */
             outputStage?: "push-pull" | "open-drain";
-            /** @description Minimum total supply span V+ − V−, V */
+            /** @description Minimum total supply span V+ − V− the part is rated for, V. Accepted: 0 to 1000 V. Range: the service accepts rails within ±2000 V; no amplifier needs more than 1 kV to run. */
             supplyMinV?: number;
-            /** @description Maximum total supply span, V (null: unlimited) */
+            /** @description Maximum total supply span V+ − V− the part is rated for (not below supplyMinV), V. Accepted: 0.5 to 4000 V; null: no rating (any supply). Range: from half a volt (the lowest-voltage parts) to the widest span the service accepts (±2000 V). */
             supplyMaxV?: number | null;
-            /** @description Light-load output swing limit below V+, V */
+            /** @description Light-load output swing limit below V+ in the high state, V. Accepted: 0 to 20 V. Range: class-typical headrooms are millivolts to about 2 V; 20 V covers high-voltage parts. */
             outputHeadroomHighV?: number;
-            /** @description Light-load output swing limit above V− (saturation voltage for open drain), V */
+            /** @description Light-load output swing limit above V− in the low state (saturation voltage for open drain), V. Accepted: 0 to 20 V. Range: as outputHeadroomHighV. */
             outputHeadroomLowV?: number;
-            /** @description Output resistance behind the swing limit, ohm */
+            /** @description Output resistance behind the swing limit: the output sags by I·R under load, ohm. Accepted: 0, or 0.001 to 1000000 ohm. Range: 0 (ideal) or 1 mΩ to 1 MΩ; below 1 mΩ is indistinguishable from 0 and only makes the network solve ill-conditioned. */
             outputResistanceOhm?: number;
-            /** @description Output current limit, A (null: none) */
+            /** @description Short-circuit / current-limit magnitude of the output, A. Accepted: 0.000001 to 100 A; null: no current limit. Range: 1 µA (nanopower parts) to 100 A. */
             outputCurrentLimitA?: number | null;
-            /** @description Slew rate, V/s (null: instant) */
+            /** @description Large-signal slew rate of the output, V/s. Accepted: 100 to 1000000000000 V/s; null: instant edges. Range: 100 V/s (0.0001 V/µs, slower than any nanopower part) to 1e12 V/s (1 V/ps). */
             slewRateVPerS?: number | null;
-            /** @description Saturation-recovery or propagation delay, s */
+            /** @description Saturation-recovery (op-amp) or propagation (comparator) delay from the input crossing to the output starting to move, s. Accepted: 0 to 1 s. Range: 0 to 1 s; real parts take nanoseconds to a few hundred microseconds. */
             recoveryDelayS?: number;
-            /** @description Common-mode range lower end relative to V−, V (negative: below the rail) */
-            inputCommonModeLowMarginV?: number;
-            /** @description Common-mode range upper end below V+, V (negative: beyond the rail) */
-            inputCommonModeHighMarginV?: number;
-            /** @description Bias current into each input, A (negative for PNP inputs) */
+            /** @description Input common-mode range lower end relative to V− (negative: extends below the rail), V. Accepted: -20 to 20 V; null: no lower limit. Range: class-typical margins are a few hundred millivolts beyond to a few volts inside the rail. */
+            inputCommonModeLowMarginV?: number | null;
+            /** @description Input common-mode range upper end below V+ (the range ends at V+ − margin; negative: beyond the rail), V. Accepted: -20 to 20 V; null: no upper limit. Range: as inputCommonModeLowMarginV. */
+            inputCommonModeHighMarginV?: number | null;
+            /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA?: number;
-            /** @description Input offset voltage, V */
+            /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV?: number;
-            /** @description Differential input clamp voltage, V (null: no clamp) */
+            /** @description Differential input clamp: the inputs are diode-clamped beyond ±this, V. Accepted: 0.1 to 100 V; null: no clamp. Range: one diode drop (about 0.6 V) to a few in series; 0.1 V to 100 V accepted. */
             differentialClampV?: number | null;
-            /** @description Amplifier supply current, A */
+            /** @description Supply current of the amplifier itself, A. Accepted: 0 to 1 A. Range: 0 to 1 A. */
             quiescentCurrentA?: number;
         };
         /** @description An amplifier id, or inline figures */
@@ -2333,35 +2342,38 @@ export interface components {
             figuresBasis: "ideal" | "class-typical" | "caller-supplied";
             /** @enum {string} */
             source: "built-in" | "registered";
-            /** @enum {string} */
+            /**
+             * @description Output stage: push-pull drives both states; open-drain only sinks (the high level comes from a pull-up)
+             * @enum {string}
+             */
             outputStage: "push-pull" | "open-drain";
-            /** @description Minimum total supply span, V */
+            /** @description Minimum total supply span V+ − V− the part is rated for, V. Accepted: 0 to 1000 V. Range: the service accepts rails within ±2000 V; no amplifier needs more than 1 kV to run. */
             supplyMinV: number;
-            /** @description Maximum total supply span, V (null: unlimited) */
+            /** @description Maximum total supply span V+ − V− the part is rated for (not below supplyMinV), V. Accepted: 0.5 to 4000 V; null: no rating (any supply). Range: from half a volt (the lowest-voltage parts) to the widest span the service accepts (±2000 V). */
             supplyMaxV: number | null;
-            /** @description Output swing limit below V+ at light load, V */
+            /** @description Light-load output swing limit below V+ in the high state, V. Accepted: 0 to 20 V. Range: class-typical headrooms are millivolts to about 2 V; 20 V covers high-voltage parts. */
             outputHeadroomHighV: number;
-            /** @description Output swing limit above V− at light load, V */
+            /** @description Light-load output swing limit above V− in the low state (saturation voltage for open drain), V. Accepted: 0 to 20 V. Range: as outputHeadroomHighV. */
             outputHeadroomLowV: number;
-            /** @description Output resistance, ohm */
+            /** @description Output resistance behind the swing limit: the output sags by I·R under load, ohm. Accepted: 0, or 0.001 to 1000000 ohm. Range: 0 (ideal) or 1 mΩ to 1 MΩ; below 1 mΩ is indistinguishable from 0 and only makes the network solve ill-conditioned. */
             outputResistanceOhm: number;
-            /** @description Output current limit, A (null: none) */
+            /** @description Short-circuit / current-limit magnitude of the output, A. Accepted: 0.000001 to 100 A; null: no current limit. Range: 1 µA (nanopower parts) to 100 A. */
             outputCurrentLimitA: number | null;
-            /** @description Slew rate, V/s (null: instant) */
+            /** @description Large-signal slew rate of the output, V/s. Accepted: 100 to 1000000000000 V/s; null: instant edges. Range: 100 V/s (0.0001 V/µs, slower than any nanopower part) to 1e12 V/s (1 V/ps). */
             slewRateVPerS: number | null;
-            /** @description Saturation-recovery / propagation delay, s */
+            /** @description Saturation-recovery (op-amp) or propagation (comparator) delay from the input crossing to the output starting to move, s. Accepted: 0 to 1 s. Range: 0 to 1 s; real parts take nanoseconds to a few hundred microseconds. */
             recoveryDelayS: number;
-            /** @description Common-mode range lower end above V−, V (null: unlimited) */
+            /** @description Input common-mode range lower end relative to V− (negative: extends below the rail), V. Accepted: -20 to 20 V; null: no lower limit. Range: class-typical margins are a few hundred millivolts beyond to a few volts inside the rail. */
             inputCommonModeLowMarginV: number | null;
-            /** @description Common-mode range upper end below V+, V (null: unlimited) */
+            /** @description Input common-mode range upper end below V+ (the range ends at V+ − margin; negative: beyond the rail), V. Accepted: -20 to 20 V; null: no upper limit. Range: as inputCommonModeLowMarginV. */
             inputCommonModeHighMarginV: number | null;
-            /** @description Bias current into each input, A */
+            /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA: number;
-            /** @description Input offset voltage, V */
+            /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV: number;
-            /** @description Differential input clamp, V (null: none) */
+            /** @description Differential input clamp: the inputs are diode-clamped beyond ±this, V. Accepted: 0.1 to 100 V; null: no clamp. Range: one diode drop (about 0.6 V) to a few in series; 0.1 V to 100 V accepted. */
             differentialClampV: number | null;
-            /** @description Amplifier supply current, A */
+            /** @description Supply current of the amplifier itself, A. Accepted: 0 to 1 A. Range: 0 to 1 A. */
             quiescentCurrentA: number;
         };
         AmplifierList: {
@@ -2375,38 +2387,50 @@ export interface components {
             description?: string;
             /** @description Id of a built-in archetype or a registered amplifier */
             base?: string;
+            /** @description Read-only (as GET shows it); ignored: the path names the amplifier */
+            id?: string;
             /**
-             * @description Output stage type
+             * @description Read-only (as GET shows it); ignored
+             * @enum {string}
+             */
+            source?: "built-in" | "registered";
+            /**
+             * @description Read-only (as GET shows it); ignored: registered figures are caller-supplied
+             * @enum {string}
+             */
+            figuresBasis?: "ideal" | "class-typical" | "caller-supplied";
+            /**
+             * @description Output stage: push-pull drives both states; open-drain only sinks (the high level comes from a pull-up)
              * @enum {string}
              */
             outputStage?: "push-pull" | "open-drain";
-            /** @description Minimum total supply span V+ − V−, V */
+            /** @description Minimum total supply span V+ − V− the part is rated for, V. Accepted: 0 to 1000 V. Range: the service accepts rails within ±2000 V; no amplifier needs more than 1 kV to run. */
             supplyMinV?: number;
-            /** @description Maximum total supply span, V (null: unlimited) */
+            /** @description Maximum total supply span V+ − V− the part is rated for (not below supplyMinV), V. Accepted: 0.5 to 4000 V; null: no rating (any supply). Range: from half a volt (the lowest-voltage parts) to the widest span the service accepts (±2000 V). */
             supplyMaxV?: number | null;
-            /** @description Light-load output swing limit below V+, V */
+            /** @description Light-load output swing limit below V+ in the high state, V. Accepted: 0 to 20 V. Range: class-typical headrooms are millivolts to about 2 V; 20 V covers high-voltage parts. */
             outputHeadroomHighV?: number;
-            /** @description Light-load output swing limit above V− (saturation voltage for open drain), V */
+            /** @description Light-load output swing limit above V− in the low state (saturation voltage for open drain), V. Accepted: 0 to 20 V. Range: as outputHeadroomHighV. */
             outputHeadroomLowV?: number;
-            /** @description Output resistance behind the swing limit, ohm */
+            /** @description Output resistance behind the swing limit: the output sags by I·R under load, ohm. Accepted: 0, or 0.001 to 1000000 ohm. Range: 0 (ideal) or 1 mΩ to 1 MΩ; below 1 mΩ is indistinguishable from 0 and only makes the network solve ill-conditioned. */
             outputResistanceOhm?: number;
-            /** @description Output current limit, A (null: none) */
+            /** @description Short-circuit / current-limit magnitude of the output, A. Accepted: 0.000001 to 100 A; null: no current limit. Range: 1 µA (nanopower parts) to 100 A. */
             outputCurrentLimitA?: number | null;
-            /** @description Slew rate, V/s (null: instant) */
+            /** @description Large-signal slew rate of the output, V/s. Accepted: 100 to 1000000000000 V/s; null: instant edges. Range: 100 V/s (0.0001 V/µs, slower than any nanopower part) to 1e12 V/s (1 V/ps). */
             slewRateVPerS?: number | null;
-            /** @description Saturation-recovery or propagation delay, s */
+            /** @description Saturation-recovery (op-amp) or propagation (comparator) delay from the input crossing to the output starting to move, s. Accepted: 0 to 1 s. Range: 0 to 1 s; real parts take nanoseconds to a few hundred microseconds. */
             recoveryDelayS?: number;
-            /** @description Common-mode range lower end relative to V−, V (negative: below the rail) */
-            inputCommonModeLowMarginV?: number;
-            /** @description Common-mode range upper end below V+, V (negative: beyond the rail) */
-            inputCommonModeHighMarginV?: number;
-            /** @description Bias current into each input, A (negative for PNP inputs) */
+            /** @description Input common-mode range lower end relative to V− (negative: extends below the rail), V. Accepted: -20 to 20 V; null: no lower limit. Range: class-typical margins are a few hundred millivolts beyond to a few volts inside the rail. */
+            inputCommonModeLowMarginV?: number | null;
+            /** @description Input common-mode range upper end below V+ (the range ends at V+ − margin; negative: beyond the rail), V. Accepted: -20 to 20 V; null: no upper limit. Range: as inputCommonModeLowMarginV. */
+            inputCommonModeHighMarginV?: number | null;
+            /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA?: number;
-            /** @description Input offset voltage, V */
+            /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV?: number;
-            /** @description Differential input clamp voltage, V (null: no clamp) */
+            /** @description Differential input clamp: the inputs are diode-clamped beyond ±this, V. Accepted: 0.1 to 100 V; null: no clamp. Range: one diode drop (about 0.6 V) to a few in series; 0.1 V to 100 V accepted. */
             differentialClampV?: number | null;
-            /** @description Amplifier supply current, A */
+            /** @description Supply current of the amplifier itself, A. Accepted: 0 to 1 A. Range: 0 to 1 A. */
             quiescentCurrentA?: number;
         };
         /** @description An IEC 60063 preferred-number series over a range of decades */

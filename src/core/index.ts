@@ -1,5 +1,6 @@
 /** Public surface of the calculation core. */
 export * from './errors.ts';
+export * from './amplifiers/figures-table.ts';
 export * from './amplifiers/model.ts';
 export * from './amplifiers/archetypes.ts';
 export * from './amplifiers/resolve.ts';

@@ -5,6 +5,7 @@
  */
 import { canonicalTopologyId, findTopology, resolveAmplifier, type AmplifierModel, type Circuit, type InlineAmplifier } from '../core/index.ts';
 import { CoreError } from '../core/errors.ts';
+import { UNLIMITED_FIGURES } from '../core/amplifiers/figures-table.ts';
 import { parseComponentValue } from '../core/parts/value-parse.ts';
 import type { AmplifierLookup } from './amplifier-directory.ts';
 import type { CircuitBody } from './schemas/circuit.ts';
@@ -12,13 +13,11 @@ import type { CircuitBody } from './schemas/circuit.ts';
 /** Default diode for steered topologies: small-signal silicon, common practice. */
 export const DEFAULT_DIODE = { forwardDropV: 0.6, resistanceOhm: 10 } as const;
 
-const LIMIT_FIELDS = ['supplyMaxV', 'outputCurrentLimitA', 'slewRateVPerS', 'differentialClampV'] as const;
-
-/** JSON null / absent limit -> Infinity for the core. */
+/** JSON null ("no limit") -> the figure table's unlimited value (Infinity, or -Infinity for the common-mode margins). */
 export function inlineAmplifierFromBody(body: Record<string, unknown>): InlineAmplifier {
   const out: Record<string, unknown> = { ...body };
-  for (const key of LIMIT_FIELDS) {
-    if (out[key] === null) out[key] = Infinity;
+  for (const { name, value } of UNLIMITED_FIGURES) {
+    if (out[name] === null) out[name] = value;
   }
   return out as InlineAmplifier;
 }
@@ -69,9 +68,16 @@ export function withPointerPrefix<T>(prefix: string, fn: () => T): T {
   }
 }
 
-/** JSON cannot carry Infinity: limits go out as null. */
+/**
+ * JSON cannot carry Infinity: a figure at its table's unlimited value goes out
+ * as null. Nothing else does: any other non-finite number is a defect upstream,
+ * and the answer guard (finite-answer.ts) refuses it rather than send a null
+ * whose meaning nobody defined.
+ */
 export function amplifierToJson(a: AmplifierModel): Record<string, unknown> {
-  const out: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(a)) out[k] = typeof v === 'number' && !Number.isFinite(v) ? null : v;
+  const out: Record<string, unknown> = { ...a };
+  for (const { name, value } of UNLIMITED_FIGURES) {
+    if (out[name] === value) out[name] = null;
+  }
   return out;
 }

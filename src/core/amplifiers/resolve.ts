@@ -5,7 +5,11 @@
  * "this archetype, but with my slew rate".
  */
 import { CoreError } from '../errors.ts';
+import { AMPLIFIER_FIGURE_NAMES } from './figures-table.ts';
 import { IDEAL_FIGURES, type AmplifierFigures, type AmplifierModel } from './model.ts';
+import { validateFigures } from './validate-figures.ts';
+
+export { validateFigures };
 
 export type AmplifierLookup = (id: string) => AmplifierModel | undefined;
 
@@ -13,8 +17,6 @@ export interface InlineAmplifier extends Partial<AmplifierFigures> {
   base?: string;
   name?: string;
 }
-
-const FIGURE_KEYS = Object.keys(IDEAL_FIGURES) as (keyof AmplifierFigures)[];
 
 export function resolveAmplifier(
   spec: string | InlineAmplifier,
@@ -34,7 +36,7 @@ export function resolveAmplifier(
   // Copy only the figures from the base: its identity (id, name, basis) must not leak into an inline model.
   const start: AmplifierFigures = base ?? IDEAL_FIGURES;
   const figures = {} as Record<string, unknown>;
-  for (const key of FIGURE_KEYS) {
+  for (const key of AMPLIFIER_FIGURE_NAMES) {
     const value = spec[key];
     figures[key] = value !== undefined ? value : start[key];
   }
@@ -48,28 +50,4 @@ export function resolveAmplifier(
   };
   validateFigures(model, pointer);
   return model;
-}
-
-/** Physical sanity of a figure set; the schema already checked types. */
-export function validateFigures(amp: AmplifierFigures, pointer: string): void {
-  const nonNegative: (keyof AmplifierFigures)[] = [
-    'supplyMinV',
-    'outputHeadroomHighV',
-    'outputHeadroomLowV',
-    'outputResistanceOhm',
-    'recoveryDelayS',
-    'quiescentCurrentA',
-  ];
-  for (const key of nonNegative) {
-    const v = amp[key] as number;
-    if (!(v >= 0) || !Number.isFinite(v)) throw new CoreError('invalid-value', `${key} must be a finite number >= 0`, `${pointer}/${key}`);
-  }
-  const positive: (keyof AmplifierFigures)[] = ['outputCurrentLimitA', 'slewRateVPerS', 'differentialClampV', 'supplyMaxV'];
-  for (const key of positive) {
-    const v = amp[key] as number;
-    if (!(v > 0)) throw new CoreError('invalid-value', `${key} must be > 0 (omit or null for no limit)`, `${pointer}/${key}`);
-  }
-  if (amp.supplyMaxV < amp.supplyMinV) {
-    throw new CoreError('invalid-value', 'supplyMaxV must not be below supplyMinV', `${pointer}/supplyMaxV`);
-  }
 }

@@ -5,6 +5,7 @@
 import type { ModelChoice } from '../circuit/analyze.ts';
 import type { ModelName } from '../circuit/result.ts';
 import type { Circuit } from '../circuit/types.ts';
+import { TOLERANCE_FIGURES, type ToleranceFigureName } from '../amplifiers/figures-table.ts';
 
 export type ToleranceDistribution = 'uniform' | 'normal';
 
@@ -13,17 +14,9 @@ export type TemperatureCoefficient =
   | { tempcoPpmPerK: number; tempcoTolerancePpmPerK?: number }
   | { dielectric: string };
 
-/** Amplifier figures that may spread, as fractions of their nominal value. */
-export const AMPLIFIER_SPREAD_FIELDS = [
-  'outputHeadroomHighV',
-  'outputHeadroomLowV',
-  'outputResistanceOhm',
-  'slewRateVPerS',
-  'recoveryDelayS',
-  'inputBiasCurrentA',
-  'inputOffsetV',
-] as const;
-export type AmplifierSpreadField = (typeof AMPLIFIER_SPREAD_FIELDS)[number];
+/** Amplifier figures that may spread, as fractions of their nominal value: the figure table's tolerance entries. */
+export const AMPLIFIER_SPREAD_FIELDS = TOLERANCE_FIGURES;
+export type AmplifierSpreadField = ToleranceFigureName;
 
 export type AmplifierSpreads = Partial<Record<AmplifierSpreadField, number>> & {
   /** Input offset may lie anywhere within nominal ± this, V (offsets centre on 0, so a fraction of nominal rarely fits). */

@@ -20,6 +20,7 @@
 import type { ParameterInfo } from '../circuit/fast-evaluator.ts';
 import type { ModelName } from '../circuit/result.ts';
 import { CoreError } from '../errors.ts';
+import { toleranceSpec } from '../amplifiers/figures-table.ts';
 import { capacitanceChangeAt, parseDielectric } from '../parts/dielectric.ts';
 import {
   AMPLIFIER_SPREAD_FIELDS,
@@ -277,7 +278,7 @@ export function buildVariationModel(
     const pointer = `/amplifierSpreads/${field}`;
     checkFraction(fraction, pointer);
     const p = index.get(field)!;
-    const dynamic = field === 'slewRateVPerS' || field === 'recoveryDelayS';
+    const dynamic = toleranceSpec(field)?.timeDomainOnly === true;
     if (dynamic && model === 'closed-form') {
       notes.push({ code: 'spread-not-modelled', message: `${field} spreads have no effect: the closed form answers this circuit (instant edges, no delay)` });
       continue;

@@ -10,7 +10,7 @@ import { findBuiltInAmplifier, isBuiltInAmplifierId, resolveAmplifier } from '..
 import type { AmplifierBody } from '../../store/index.ts';
 import { inlineAmplifierFromBody } from '../convert.ts';
 import { HttpProblem } from '../problem.ts';
-import { Amplifier, AmplifierRegistration } from '../schemas/amplifier.ts';
+import { Amplifier, AmplifierRegistration, READ_ONLY_AMPLIFIER_FIELDS } from '../schemas/amplifier.ts';
 import { AmplifierId, problemResponses, ref } from '../schemas/common.ts';
 import { storedBodyToModel } from '../stored-amplifiers.ts';
 import { amplifierRecord } from './amplifiers.ts';
@@ -51,10 +51,13 @@ export const amplifierWriteRoutes: FastifyPluginAsyncTypebox = async (app) => {
     },
     async (request, reply) => {
       const { id } = request.params;
-      // Same resolution the directory applies on every read, with pointers into this body.
-      resolveAmplifier(inlineAmplifierFromBody(request.body), findBuiltInAmplifier, '');
+      // A GET body round-trips: its read-only fields are accepted and not stored.
+      const body: Record<string, unknown> = { ...request.body };
+      for (const field of READ_ONLY_AMPLIFIER_FIELDS) delete body[field];
+      // The one figure validation inline amplifiers get too (resolveAmplifier), with pointers into this body.
+      resolveAmplifier(inlineAmplifierFromBody(body), findBuiltInAmplifier, '');
       const expected = await ifMatchForStore(request.headers['if-match'], async () => (await collection.get(id))?.etag);
-      const result = await collection.put(id, request.body as unknown as AmplifierBody, expected);
+      const result = await collection.put(id, body as unknown as AmplifierBody, expected);
       reply.header('etag', result.doc.etag);
       if (result.outcome === 'created') reply.code(201).header('location', `/v1/amplifiers/${id}`);
       else reply.code(200);

@@ -32,7 +32,7 @@ export const amplifierReadRoutes: FastifyPluginAsyncTypebox = async (app) => {
         tags: ['amplifiers'],
         summary: 'Get one amplifier',
         params: Type.Object({ id: AmplifierId }),
-        response: { 200: ref(Amplifier), ...problemResponses(400, 401, 403, 404) },
+        response: { 200: ref(Amplifier), ...problemResponses(400, 401, 403, 404, 422) },
       },
     },
     async (request, reply) => {

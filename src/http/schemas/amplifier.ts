@@ -1,8 +1,14 @@
-/** Amplifier records as the API shows them: limits that do not exist are null. */
+/**
+ * Amplifier records as the API shows them, and the registration body. The
+ * figure properties come from the core's figure table (common.ts); limits that
+ * do not exist are null. Every record GET returns is a valid registration body:
+ * its read-only fields (id, source, figuresBasis) are accepted on PUT and ignored.
+ */
 import { Type } from 'typebox';
-import { AmplifierId, amplifierFigureProperties, NullableNumber, StringEnum } from './common.ts';
+import { AmplifierId, amplifierFigureProperties, amplifierFigureRequiredProperties, StringEnum } from './common.ts';
 
-const Nullable = (description: string) => NullableNumber({ description });
+const FIGURES_BASIS = ['ideal', 'class-typical', 'caller-supplied'] as const;
+const SOURCES = ['built-in', 'registered'] as const;
 
 export const Amplifier = Type.Object(
   {
@@ -10,30 +16,19 @@ export const Amplifier = Type.Object(
     name: Type.String(),
     technologyClass: Type.String(),
     description: Type.String(),
-    figuresBasis: StringEnum(['ideal', 'class-typical', 'caller-supplied'], {
+    figuresBasis: StringEnum(FIGURES_BASIS, {
       description: 'class-typical: figures typical of the technology class, from memory of the trade, not a datasheet',
     }),
-    source: StringEnum(['built-in', 'registered']),
-    outputStage: StringEnum(['push-pull', 'open-drain']),
-    supplyMinV: Type.Number({ description: 'Minimum total supply span, V' }),
-    supplyMaxV: Nullable('Maximum total supply span, V (null: unlimited)'),
-    outputHeadroomHighV: Type.Number({ description: 'Output swing limit below V+ at light load, V' }),
-    outputHeadroomLowV: Type.Number({ description: 'Output swing limit above V− at light load, V' }),
-    outputResistanceOhm: Type.Number({ description: 'Output resistance, ohm' }),
-    outputCurrentLimitA: Nullable('Output current limit, A (null: none)'),
-    slewRateVPerS: Nullable('Slew rate, V/s (null: instant)'),
-    recoveryDelayS: Type.Number({ description: 'Saturation-recovery / propagation delay, s' }),
-    inputCommonModeLowMarginV: Nullable('Common-mode range lower end above V−, V (null: unlimited)'),
-    inputCommonModeHighMarginV: Nullable('Common-mode range upper end below V+, V (null: unlimited)'),
-    inputBiasCurrentA: Type.Number({ description: 'Bias current into each input, A' }),
-    inputOffsetV: Type.Number({ description: 'Input offset voltage, V' }),
-    differentialClampV: Nullable('Differential input clamp, V (null: none)'),
-    quiescentCurrentA: Type.Number({ description: 'Amplifier supply current, A' }),
+    source: StringEnum(SOURCES),
+    ...amplifierFigureRequiredProperties,
   },
   { $id: 'Amplifier', additionalProperties: false },
 );
 
 export const AmplifierList = Type.Object({ amplifiers: Type.Array(Type.Unsafe(Type.Ref('Amplifier'))) }, { $id: 'AmplifierList', additionalProperties: false });
+
+/** Names of the read-only record fields a registration may carry (from a GET body) and that the service ignores. */
+export const READ_ONLY_AMPLIFIER_FIELDS = ['id', 'source', 'figuresBasis'] as const;
 
 /**
  * What a caller PUTs to register an amplifier. Omitted figures are ideal, or
@@ -45,6 +40,9 @@ export const AmplifierRegistration = Type.Object(
     technologyClass: Type.Optional(Type.String({ maxLength: 120, description: 'Technology class in words' })),
     description: Type.Optional(Type.String({ maxLength: 2000 })),
     base: Type.Optional(AmplifierId),
+    id: Type.Optional(Type.String({ maxLength: 64, description: 'Read-only (as GET shows it); ignored: the path names the amplifier' })),
+    source: Type.Optional(StringEnum(SOURCES, { description: 'Read-only (as GET shows it); ignored' })),
+    figuresBasis: Type.Optional(StringEnum(FIGURES_BASIS, { description: 'Read-only (as GET shows it); ignored: registered figures are caller-supplied' })),
     ...amplifierFigureProperties,
   },
   { $id: 'AmplifierRegistration', additionalProperties: false, description: 'A caller-registered amplifier model' },

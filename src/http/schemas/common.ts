@@ -4,6 +4,7 @@
  * #/components/schemas in the OpenAPI document.
  */
 import { Type, type Static, type TSchema } from 'typebox';
+import { AMPLIFIER_FIGURE_NAMES, describeRange, figureDescriptor, type AmplifierFigureName } from '../../core/amplifiers/figures-table.ts';
 
 /**
  * A number or null, written as a JSON Schema type array rather than anyOf: the
@@ -46,26 +47,34 @@ export const Supply = Type.Object(
   { $id: 'Supply', additionalProperties: false },
 );
 
-/** A limit that may be absent: null means "no such limit". */
-const Limit = (description: string) => Type.Optional(NullableNumber({ exclusiveMinimum: 0, description }));
-const Figure = (description: string) => Type.Optional(Type.Number({ description }));
+/**
+ * One schema per amplifier figure, built from the core's figure table (units,
+ * physical ranges, "no limit" as null): the schemas never list figures by hand.
+ */
+export function amplifierFigureSchema(name: AmplifierFigureName) {
+  const d = figureDescriptor(name);
+  if (d.kind === 'choice') return StringEnum(d.choices, { description: d.description });
+  const options: Record<string, unknown> = {
+    description: `${d.description}, ${d.unit}. Accepted: ${describeRange(d)}.${d.rangeNote ? ` Range: ${d.rangeNote}.` : ''}`,
+    maximum: d.max,
+  };
+  // "0 or min..max": the schema admits 0..max and the core refuses the gap (0, min) naming the field.
+  if (d.zeroAllowed) options.minimum = 0;
+  else if (d.minExclusive) options.exclusiveMinimum = d.min;
+  else options.minimum = d.min;
+  return d.unlimited ? NullableNumber(options) : Type.Unsafe<number>({ type: 'number', ...options });
+}
 
-export const amplifierFigureProperties = {
-  outputStage: Type.Optional(StringEnum(['push-pull', 'open-drain'], { description: 'Output stage type' })),
-  supplyMinV: Figure('Minimum total supply span V+ − V−, V'),
-  supplyMaxV: Limit('Maximum total supply span, V (null: unlimited)'),
-  outputHeadroomHighV: Figure('Light-load output swing limit below V+, V'),
-  outputHeadroomLowV: Figure('Light-load output swing limit above V− (saturation voltage for open drain), V'),
-  outputResistanceOhm: Figure('Output resistance behind the swing limit, ohm'),
-  outputCurrentLimitA: Limit('Output current limit, A (null: none)'),
-  slewRateVPerS: Limit('Slew rate, V/s (null: instant)'),
-  recoveryDelayS: Figure('Saturation-recovery or propagation delay, s'),
-  inputCommonModeLowMarginV: Figure('Common-mode range lower end relative to V−, V (negative: below the rail)'),
-  inputCommonModeHighMarginV: Figure('Common-mode range upper end below V+, V (negative: beyond the rail)'),
-  inputBiasCurrentA: Figure('Bias current into each input, A (negative for PNP inputs)'),
-  inputOffsetV: Figure('Input offset voltage, V'),
-  differentialClampV: Limit('Differential input clamp voltage, V (null: no clamp)'),
-  quiescentCurrentA: Figure('Amplifier supply current, A'),
+type FigureSchema = ReturnType<typeof amplifierFigureSchema>;
+
+/** Every figure, optional (inline amplifiers and registrations: omitted figures come from the base or the ideal part). */
+export const amplifierFigureProperties = Object.fromEntries(
+  AMPLIFIER_FIGURE_NAMES.map((n) => [n, Type.Optional(amplifierFigureSchema(n))]),
+) as { [K in AmplifierFigureName]: ReturnType<typeof Type.Optional<FigureSchema>> };
+
+/** Every figure, required (amplifier records as the API shows them). */
+export const amplifierFigureRequiredProperties = Object.fromEntries(AMPLIFIER_FIGURE_NAMES.map((n) => [n, amplifierFigureSchema(n)])) as {
+  [K in AmplifierFigureName]: FigureSchema;
 };
 
 export const AmplifierId = Type.String({ pattern: '^[a-z0-9][a-z0-9._-]{0,63}$', description: 'Id of a built-in archetype or a registered amplifier' });

@@ -1,0 +1,131 @@
+/**
+ * The amplifier figure table is the single description of the figures: the
+ * ideal part, the built-in archetypes, the validation and the JSON Schema the
+ * HTTP layer derives from it must agree with it. The schema side is checked with
+ * an outside validator (ajv, JSON Schema 2020-12) against the core validation.
+ */
+import Ajv2020Module from 'ajv/dist/2020.js';
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import {
+  AMPLIFIER_FIGURE_NAMES,
+  AMPLIFIER_FIGURE_TABLE,
+  BUILT_IN_AMPLIFIERS,
+  CoreError,
+  FITTED_FIGURES,
+  fitBounds,
+  hasDynamicLimits,
+  IDEAL_FIGURES,
+  NUMBER_FIGURE_NAMES,
+  resolveAmplifier,
+  TOLERANCE_FIGURES,
+  UNLIMITED_FIGURES,
+  validateFigures,
+  type AmplifierFigures,
+  type NumberFigure,
+} from '../../../src/core/index.ts';
+import { findBuiltInAmplifier } from '../../../src/core/amplifiers/archetypes.ts';
+import { figureValueInRange } from '../../../src/core/amplifiers/validate-figures.ts';
+import { amplifierFigureSchema } from '../../../src/http/schemas/common.ts';
+
+const Ajv2020 = (Ajv2020Module as unknown as { default: typeof Ajv2020Module.default }).default ?? Ajv2020Module;
+
+function refusal(fn: () => unknown): CoreError {
+  try {
+    fn();
+  } catch (err) {
+    if (err instanceof CoreError) return err;
+    throw err;
+  }
+  throw new Error('expected a CoreError');
+}
+
+describe('amplifier figure table', () => {
+  it('gives the ideal part and every built-in archetype a valid figure set', () => {
+    expect(() => validateFigures(IDEAL_FIGURES, '')).not.toThrow();
+    for (const amp of BUILT_IN_AMPLIFIERS) expect(() => validateFigures(amp, `/${amp.id}`), amp.id).not.toThrow();
+    // Every figure of the model is a table entry and nothing else (identity fields aside).
+    const identity = ['id', 'name', 'technologyClass', 'description', 'figuresBasis'];
+    for (const amp of BUILT_IN_AMPLIFIERS) expect(Object.keys(amp).filter((k) => !identity.includes(k)).sort()).toEqual([...AMPLIFIER_FIGURE_NAMES].sort());
+  });
+
+  it('ideal part: the textbook amplifier (rails reached, no limits, instant, no input errors)', () => {
+    // Sedra & Smith's ideal op-amp used as a comparator: output at the rails, no slew limit, no delay.
+    expect(IDEAL_FIGURES).toMatchObject({ outputHeadroomHighV: 0, outputHeadroomLowV: 0, outputResistanceOhm: 0, slewRateVPerS: Infinity, recoveryDelayS: 0 });
+    expect(hasDynamicLimits(IDEAL_FIGURES)).toBe(false);
+    expect(hasDynamicLimits({ ...IDEAL_FIGURES, slewRateVPerS: 1e6 })).toBe(true);
+    expect(hasDynamicLimits({ ...IDEAL_FIGURES, recoveryDelayS: 1e-6 })).toBe(true);
+    expect(hasDynamicLimits({ ...IDEAL_FIGURES, outputResistanceOhm: 10 })).toBe(false);
+  });
+
+  it('refuses the degenerate values of issue 10 by range, naming the figure', () => {
+    for (const [name, value] of [
+      ['slewRateVPerS', 1e-300],
+      ['recoveryDelayS', 1e300],
+      ['outputResistanceOhm', 5e-324],
+      ['outputCurrentLimitA', 1e-300],
+      ['differentialClampV', 5e-324],
+      ['inputBiasCurrentA', 1e300],
+      ['inputOffsetV', Number.NaN],
+      ['recoveryDelayS', Infinity],
+    ] as const) {
+      const err = refusal(() => resolveAmplifier({ base: 'cmos-rrio-fast', [name]: value }, findBuiltInAmplifier, '/circuit/amplifier'));
+      expect(err.code, name).toBe('invalid-value');
+      expect(err.pointer).toBe(`/circuit/amplifier/${name}`);
+    }
+  });
+
+  it('refuses in-range figures that together leave no output swing or no common-mode range', () => {
+    const swing = refusal(() => validateFigures({ ...IDEAL_FIGURES, supplyMaxV: 5, outputHeadroomHighV: 3, outputHeadroomLowV: 2 }, ''));
+    expect(swing.pointer).toBe('/outputHeadroomHighV');
+    const cm = refusal(() => validateFigures({ ...IDEAL_FIGURES, supplyMaxV: 5, inputCommonModeLowMarginV: 3, inputCommonModeHighMarginV: 2 }, ''));
+    expect(cm.pointer).toBe('/inputCommonModeHighMarginV');
+    const order = refusal(() => validateFigures({ ...IDEAL_FIGURES, supplyMinV: 6, supplyMaxV: 5 }, ''));
+    expect(order.pointer).toBe('/supplyMaxV');
+    // An open-drain output's high level is the pull-up's: its high headroom does not count.
+    expect(() => validateFigures({ ...IDEAL_FIGURES, outputStage: 'open-drain', supplyMaxV: 5, outputHeadroomHighV: 6, outputHeadroomLowV: 0.2 }, '')).not.toThrow();
+  });
+
+  it('the JSON Schema of each figure accepts exactly what the core accepts (ajv as the outside reference)', () => {
+    const ajv = new Ajv2020({ strict: false });
+    for (const name of NUMBER_FIGURE_NAMES) {
+      const d = AMPLIFIER_FIGURE_TABLE[name] as NumberFigure;
+      const validate = ajv.compile(amplifierFigureSchema(name) as object);
+      const unlimited = d.unlimited?.value;
+      const edges = [d.min, d.max, -d.min, -d.max, 0, 5e-324, -5e-324, d.min * (1 - 1e-12), d.max * (1 + 1e-12), d.min / 2, 1e308, -1e308];
+      fc.assert(
+        fc.property(fc.oneof(fc.constantFrom(...edges), fc.double({ noNaN: true, noDefaultInfinity: true })), (v) => {
+          // The wire form: a finite number, or null for the unlimited value. The one documented
+          // difference: "0 or min..max" figures admit (0, min) in the schema; the core refuses the gap.
+          const inGap = d.zeroAllowed === true && v > 0 && v < d.min;
+          expect(validate(v), `${name} ${v}`).toBe(figureValueInRange(d, v) || inGap);
+        }),
+        { seed: 11, numRuns: 300 },
+      );
+      expect(validate(null), `${name} null`).toBe(unlimited !== undefined);
+    }
+  });
+
+  it('derives the wire null table, the tolerance list and the fit list from the entries', () => {
+    expect(UNLIMITED_FIGURES.map((u) => u.name).sort()).toEqual(
+      ['supplyMaxV', 'outputCurrentLimitA', 'slewRateVPerS', 'inputCommonModeLowMarginV', 'inputCommonModeHighMarginV', 'differentialClampV'].sort(),
+    );
+    expect(UNLIMITED_FIGURES.find((u) => u.name === 'inputCommonModeLowMarginV')!.value).toBe(-Infinity);
+    expect(TOLERANCE_FIGURES).toEqual(['outputHeadroomHighV', 'outputHeadroomLowV', 'outputResistanceOhm', 'slewRateVPerS', 'recoveryDelayS', 'inputBiasCurrentA', 'inputOffsetV']);
+    expect(FITTED_FIGURES.map((f) => f.fit.parameter)).toEqual(['outputHighV', 'outputLowV', 'slewRateVPerS', 'recoveryDelayS']);
+    // Levels stay within the rails; the reciprocal slew runs from 0 (instant) to 1/min.
+    const supply = { positiveV: 12, negativeV: 0 };
+    expect(fitBounds('outputHeadroomHighV', supply)).toEqual({ lower: 0, upper: 12 });
+    expect(fitBounds('outputHeadroomLowV', supply)).toEqual({ lower: 0, upper: 12 });
+    expect(fitBounds('slewRateVPerS', supply)).toEqual({ lower: 0, upper: 1 / 100 });
+    expect(fitBounds('recoveryDelayS', supply)).toEqual({ lower: 0, upper: 1 });
+  });
+
+  it('an inline amplifier takes omitted figures from its base, others from the ideal part', () => {
+    const base = findBuiltInAmplifier('bipolar-single-supply-general')!;
+    const m = resolveAmplifier({ base: base.id, slewRateVPerS: 2e6 }, findBuiltInAmplifier);
+    for (const name of AMPLIFIER_FIGURE_NAMES) expect(m[name], name).toBe(name === 'slewRateVPerS' ? 2e6 : base[name]);
+    const bare = resolveAmplifier({ recoveryDelayS: 1e-6 } as Partial<AmplifierFigures>, findBuiltInAmplifier);
+    for (const name of AMPLIFIER_FIGURE_NAMES) expect(bare[name], name).toBe(name === 'recoveryDelayS' ? 1e-6 : IDEAL_FIGURES[name]);
+  });
+});
