@@ -19,7 +19,7 @@ const ONE = '/v1/amplifiers/:id';
 
 /** The textbook three-equal-resistor single-supply astable (thresholds at V+/3 and 2V+/3; Sedra & Smith). */
 function circuit(amplifier: unknown) {
-  return { topology: 'single-supply-divider', supply: { positiveV: 5 }, amplifier, parts: { rTiming: '10k', cTiming: '2n2', rTop: '47k', rBottom: '47k', rFeedback: '47k' } };
+  return { topology: 'three-resistor-divider', supply: { positiveV: 5 }, amplifier, parts: { rTiming: '10k', cTiming: '2n2', rTop: '47k', rBottom: '47k', rFeedback: '47k' } };
 }
 
 describe('GET body -> PUT round trip', () => {
