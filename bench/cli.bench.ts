@@ -18,7 +18,7 @@ import { openSqliteStore } from '../src/store/index.ts';
 const RUNS = Number(process.env.CLI_BENCH_RUNS ?? 5);
 const BIN = path.resolve('bin/tickwright.mjs');
 const PROBE_CLOCK = {
-  topology: 'single-supply-divider',
+  topology: 'three-resistor-divider',
   supply: { positiveV: 5 },
   amplifier: 'cmos-rrio-fast',
   parts: { rTiming: '15k', cTiming: '10n', rTop: '100k', rBottom: '100k', rFeedback: '100k' },
