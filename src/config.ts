@@ -35,6 +35,12 @@ export interface ServiceConfig {
   largeBodyConcurrency: number;
   /** Deepest nesting of arrays/objects a JSON body may have (checked before parsing). */
   maxJsonDepth: number;
+  /** postgres://... = the shared PostgreSQL store (several replicas); undefined = the SQLite file at databasePath. */
+  databaseUrl: string | undefined;
+  /** PostgreSQL connections per process. */
+  databasePoolSize: number;
+  /** Trace export: 'off' (default), 'otlp' (OTEL_EXPORTER_OTLP_ENDPOINT) or 'console'. */
+  tracing: 'off' | 'otlp' | 'console';
 }
 
 export const DEFAULT_CONFIG: ServiceConfig = {
@@ -56,6 +62,9 @@ export const DEFAULT_CONFIG: ServiceConfig = {
   largeBodyBytes: 8 * 1024 * 1024,
   largeBodyConcurrency: 2,
   maxJsonDepth: 64,
+  databaseUrl: undefined,
+  databasePoolSize: 10,
+  tracing: 'off',
 };
 
 function int(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
@@ -87,5 +96,14 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env): ServiceConf
     largeBodyBytes: int(env, 'TICKWRIGHT_LARGE_BODY_BYTES', DEFAULT_CONFIG.largeBodyBytes, 1024, 1024 * 1024 * 1024),
     largeBodyConcurrency: int(env, 'TICKWRIGHT_LARGE_BODY_CONCURRENCY', DEFAULT_CONFIG.largeBodyConcurrency, 1, 1024),
     maxJsonDepth: int(env, 'TICKWRIGHT_MAX_JSON_DEPTH', DEFAULT_CONFIG.maxJsonDepth, 8, 10_000),
+    databaseUrl: env.TICKWRIGHT_DATABASE_URL?.trim() || undefined,
+    databasePoolSize: int(env, 'TICKWRIGHT_DATABASE_POOL_SIZE', DEFAULT_CONFIG.databasePoolSize, 1, 1000),
+    tracing: tracingMode(env.TICKWRIGHT_TRACING),
   };
+}
+
+function tracingMode(raw: string | undefined): ServiceConfig['tracing'] {
+  const mode = raw?.trim().toLowerCase() || 'off';
+  if (mode !== 'off' && mode !== 'otlp' && mode !== 'console') throw new Error(`TICKWRIGHT_TRACING must be off, otlp or console, got '${raw}'`);
+  return mode;
 }

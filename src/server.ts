@@ -22,7 +22,7 @@ closeWithGrace({ delay: 10_000 }, async ({ signal, err }) => {
 
 try {
   await app.listen({ port: config.port, host: config.host });
-  app.log.info({ databasePath: config.databasePath, apiKeys: config.apiKeys ? 'configured' : 'none (open service)' }, 'tickwright ready');
+  app.log.info({ store: config.databaseUrl ? 'postgres' : config.databasePath, apiKeys: config.apiKeys ? 'configured' : 'none (open service)' }, 'tickwright ready');
 } catch (err) {
   app.log.error({ err }, 'failed to start');
   process.exit(1);

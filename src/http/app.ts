@@ -10,7 +10,7 @@ import type { TypeBoxTypeProvider } from '@fastify/type-provider-typebox';
 import { randomUUID } from 'node:crypto';
 import type { ServiceConfig } from '../config.ts';
 import { DEFAULT_CONFIG } from '../config.ts';
-import { openSqliteStore, type Store } from '../store/index.ts';
+import { openStore, type Store } from '../store/index.ts';
 import { AmplifierDirectory } from './amplifier-directory.ts';
 import { parseApiKeyConfig } from './auth/api-keys.ts';
 import { registerAuth } from './auth/plugin.ts';
@@ -27,7 +27,7 @@ export const API_VERSION = '1.0.0';
 
 export interface BuildOptions {
   config?: Partial<ServiceConfig>;
-  /** An already-open store (tests); otherwise one is opened at config.databasePath. */
+  /** An already-open store (tests); otherwise the configured one (databaseUrl, else the SQLite databasePath). */
   store?: Store;
   logger?: FastifyServerOptions['logger'];
 }
@@ -45,7 +45,14 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
     ajv: { customOptions: { removeAdditional: false, coerceTypes: false, useDefaults: true } },
   }).withTypeProvider<TypeBoxTypeProvider>();
 
-  const store = options.store ?? openSqliteStore(config.databasePath);
+  const store =
+    options.store ??
+    (await openStore({
+      databaseUrl: config.databaseUrl,
+      databasePath: config.databasePath,
+      databasePoolSize: config.databasePoolSize,
+      onIdleError: (err) => app.log.warn({ err }, 'an idle database connection failed; the pool replaces it'),
+    }));
   const services: Services = {
     store,
     amplifiers: new AmplifierDirectory(storedAmplifierSource(store)),

@@ -69,6 +69,7 @@ const STORE_STATUS: Record<StoreErrorCode, number> = {
   conflict: 409,
   'invalid-id': 400,
   corrupt: 500,
+  unavailable: 503,
 };
 
 interface ValidationItem {
@@ -118,7 +119,7 @@ export function errorHandler(error: FastifyError | Error, request: FastifyReques
   if (error instanceof StoreError) {
     const status = STORE_STATUS[error.code] ?? 500;
     if (status >= 500) request.log.error({ err: error }, 'store error');
-    return sendProblem(reply, problem(status, error.code, error.message, instance));
+    return sendProblem(reply, problem(status, error.code, error.message, instance), status === 503 ? { 'retry-after': '5' } : undefined);
   }
   const fe = error as FastifyError & { validation?: ValidationItem[]; validationContext?: string };
   if (fe.validation) {

@@ -8,6 +8,7 @@
  *                                 past busy_timeout, a schema newer than this build)
  *   invalid-id            -> 400 (an id that fails DOCUMENT_ID_PATTERN)
  *   corrupt               -> 500 (stored data that cannot be read back; should never happen)
+ *   unavailable           -> 503 (the database server cannot be reached right now; retry later)
  */
 export type StoreErrorCode =
   | 'not-found'
@@ -15,7 +16,8 @@ export type StoreErrorCode =
   | 'precondition-failed'
   | 'conflict'
   | 'invalid-id'
-  | 'corrupt';
+  | 'corrupt'
+  | 'unavailable';
 
 export class StoreError extends Error {
   readonly code: StoreErrorCode;

@@ -13,5 +13,9 @@ export type {
   PutOptions,
   PutResult,
   Store,
+  StoreBackend,
   StoredDocument,
 } from './types.ts';
+export { openPgStore, isPostgresUrl, type PgStore, type PgStoreOptions } from './pg-store.ts';
+export { PG_MIGRATIONS, applyPgMigrations } from './pg-migrations.ts';
+export { openStore, type StoreSettings } from './open-store.ts';

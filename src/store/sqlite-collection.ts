@@ -1,7 +1,8 @@
 import { randomBytes } from 'node:crypto';
 import type Database from 'better-sqlite3';
+import { DocumentCodec, encodeBody, presentOrUndefined, type RowMeta } from './codec.ts';
 import { StoreError } from './errors.ts';
-import { documentEtag, etagMatches } from './etag.ts';
+import { etagMatches } from './etag.ts';
 import { isValidDocumentId } from './ids.ts';
 import type { DocumentBody, DocumentCollection, DocumentSummary, PutOptions, PutResult, StoredDocument } from './types.ts';
 
@@ -20,6 +21,7 @@ type SummaryRow = Omit<DocumentRow, 'body'> & { body_bytes: number };
 export class SqliteDocumentCollection<T extends DocumentBody> implements DocumentCollection<T> {
   private readonly db: Database.Database;
   private readonly collection: string;
+  private readonly codec: DocumentCodec;
   private readonly selectOne: Database.Statement<[string, string], DocumentRow>;
   private readonly selectSummaries: Database.Statement<[string], SummaryRow>;
   private readonly selectAll: Database.Statement<[string], DocumentRow>;
@@ -32,6 +34,7 @@ export class SqliteDocumentCollection<T extends DocumentBody> implements Documen
   constructor(db: Database.Database, collection: string) {
     this.db = db;
     this.collection = collection;
+    this.codec = new DocumentCodec(collection);
     const columns = 'id, incarnation, version, created_at, updated_at';
     this.selectOne = db.prepare(`SELECT ${columns}, body FROM documents WHERE collection = ? AND id = ?`);
     this.selectSummaries = db.prepare(
@@ -93,25 +96,13 @@ export class SqliteDocumentCollection<T extends DocumentBody> implements Documen
     const existing = this.selectOne.get(this.collection, id);
     const now = new Date().toISOString();
     if (existing === undefined) {
-      if (expectedEtag !== undefined) {
-        // RFC 9110 §13.1.1: If-Match (even `*`) fails when there is no current representation.
-        throw new StoreError('precondition-failed', `${this.label(id)} does not exist, so If-Match cannot match`, {
-          collection: this.collection,
-          id,
-        });
-      }
+      if (expectedEtag !== undefined) throw this.codec.missingForIfMatch(id);
       const incarnation = randomBytes(8).toString('hex');
       this.insertRow.run(this.collection, id, incarnation, bodyText, now, now);
       return { outcome: 'created', doc: this.mustReadBack(id) };
     }
     const current = this.meta(existing);
-    if (createOnly) {
-      throw new StoreError('precondition-failed', `${this.label(id)} already exists`, {
-        collection: this.collection,
-        id,
-        currentEtag: current.etag,
-      });
-    }
+    if (createOnly) throw this.codec.alreadyExists(id, current.etag);
     this.checkPrecondition(id, expectedEtag, current.etag);
     this.updateRow.run(bodyText, now, this.collection, id, existing.version);
     return { outcome: 'updated', doc: this.mustReadBack(id) };
@@ -125,20 +116,8 @@ export class SqliteDocumentCollection<T extends DocumentBody> implements Documen
   }
 
   private checkPrecondition(id: string, expectedEtag: string | undefined, currentEtag: string): void {
-    if (expectedEtag === undefined) {
-      throw new StoreError(
-        'precondition-required',
-        `${this.label(id)} exists; send its current ETag in If-Match to change or delete it`,
-        { collection: this.collection, id },
-      );
-    }
-    if (!etagMatches(expectedEtag, currentEtag)) {
-      throw new StoreError('precondition-failed', `${this.label(id)} has changed since ETag ${expectedEtag}`, {
-        collection: this.collection,
-        id,
-        currentEtag,
-      });
-    }
+    if (expectedEtag === undefined) throw this.codec.preconditionRequired(id);
+    if (!etagMatches(expectedEtag, currentEtag)) throw this.codec.stale(id, expectedEtag, currentEtag);
   }
 
   private mustReadBack(id: string): StoredDocument<T> {
@@ -150,71 +129,28 @@ export class SqliteDocumentCollection<T extends DocumentBody> implements Documen
   }
 
   private meta(row: Omit<DocumentRow, 'body'>): Omit<StoredDocument<T>, 'body'> {
-    if (!Number.isSafeInteger(row.version) || row.version < 1 || typeof row.incarnation !== 'string') {
-      throw new StoreError('corrupt', `${this.label(row.id)} has an unreadable version record`, {
-        collection: this.collection,
-        id: row.id,
-      });
-    }
-    return {
-      id: row.id,
-      version: row.version,
-      etag: documentEtag(this.collection, row.id, row.incarnation, row.version),
-      createdAt: row.created_at,
-      updatedAt: row.updated_at,
-    };
+    return this.codec.meta<T>(rowMeta(row));
   }
 
   private decode(row: DocumentRow): StoredDocument<T> {
-    let body: unknown;
-    try {
-      body = JSON.parse(row.body);
-    } catch (cause) {
-      throw new StoreError('corrupt', `${this.label(row.id)} holds a body that is not valid JSON`, {
-        collection: this.collection,
-        id: row.id,
-      }, { cause });
-    }
-    if (!isPlainObject(body)) {
-      throw new StoreError('corrupt', `${this.label(row.id)} holds a body that is not a JSON object`, {
-        collection: this.collection,
-        id: row.id,
-      });
-    }
-    return { ...this.meta(row), body: body as T };
+    return this.codec.decode<T>(rowMeta(row), row.body);
   }
 
   private assertId(id: string): void {
-    if (!isValidDocumentId(id)) {
-      throw new StoreError('invalid-id', `document id must match ^[a-z0-9][a-z0-9._-]{0,63}$`, {
-        collection: this.collection,
-      });
-    }
+    this.codec.assertId(id);
   }
 
   private notFound(id: string): StoreError {
-    return new StoreError('not-found', `${this.label(id)} does not exist`, { collection: this.collection, id });
+    return this.codec.notFound(id);
   }
 
   private label(id: string): string {
-    return `${this.collection}/${id}`;
+    return this.codec.label(id);
   }
 }
 
-function presentOrUndefined(etag: string | undefined): string | undefined {
-  // An empty If-Match header is treated as absent rather than as a tag that never matches.
-  return etag === undefined || etag.trim() === '' ? undefined : etag;
-}
-
-function isPlainObject(value: unknown): value is Record<string, unknown> {
-  return typeof value === 'object' && value !== null && !Array.isArray(value);
-}
-
-function encodeBody(body: unknown): string {
-  // The HTTP layer validates bodies; this only stops programming errors from
-  // storing something that does not read back as an object.
-  if (!isPlainObject(body)) throw new TypeError('document body must be a JSON object');
-  return JSON.stringify(body);
+function rowMeta(row: Omit<DocumentRow, 'body'>): RowMeta {
+  return { id: row.id, incarnation: row.incarnation, version: row.version, createdAt: row.created_at, updatedAt: row.updated_at };
 }
 
 /**
