@@ -10,8 +10,8 @@ import autocannon from 'autocannon';
 import Fastify from 'fastify';
 import type { AddressInfo } from 'node:net';
 import { findBuiltInAmplifier } from '../src/core/amplifiers/archetypes.ts';
-import { closedFormFigures } from '../src/core/circuit/analyze.ts';
-import { compileClosedForm, OUTPUT_LENGTH } from '../src/core/circuit/fast-evaluator.ts';
+import { closedFormFigures, prepareModel } from '../src/core/circuit/analyze.ts';
+import { OUTPUT_LENGTH } from '../src/core/circuit/engine/prepared.ts';
 import type { Circuit } from '../src/core/circuit/types.ts';
 import { buildApp } from '../src/http/app.ts';
 import { openSqliteStore } from '../src/store/index.ts';
@@ -39,7 +39,7 @@ function ratePerSecond(seconds: number, batch: number, step: (i: number) => numb
 }
 
 // ---- 1. core evaluations per second
-const evaluator = compileClosedForm(circuit);
+const evaluator = prepareModel(circuit, { model: 'closed-form' });
 const values = Float64Array.from(evaluator.nominal);
 const out = new Float64Array(OUTPUT_LENGTH);
 const iR = evaluator.indexOf('rTiming');

@@ -14,7 +14,7 @@ import { drawSamples } from '../src/core/tolerance/monte-carlo.ts';
 import { createSampleEvaluator, type SampleEvaluator } from '../src/core/tolerance/sample-evaluator.ts';
 import { runToleranceAnalysis, type ToleranceRequest } from '../src/core/tolerance/index.ts';
 import { buildVariationModel } from '../src/core/tolerance/variation-model.ts';
-import { EVALUATION_STATUS } from '../src/core/circuit/fast-evaluator.ts';
+import { EVALUATION_STATUS } from '../src/core/circuit/engine/prepared.ts';
 import { buildApp } from '../src/http/app.ts';
 import { openSqliteStore } from '../src/store/index.ts';
 

@@ -27,11 +27,11 @@ export {
 } from './circuit/engine/index.ts';
 export { DEFAULT_EDGE_FRACTION, MAX_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, type EdgeTimes } from './circuit/frequency-ceiling.ts';
 export { DEFAULT_STEERING_DIODE } from './circuit/topologies/diode-steered.ts';
-export { compileClosedForm, EVALUATION_STATUS, OUTPUT_SLOT, OUTPUT_LENGTH, type ClosedFormEvaluator, type EvaluationStatus } from './circuit/fast-evaluator.ts';
+export { EVALUATION_STATUS, OUTPUT_SLOT, OUTPUT_LENGTH, PreparedModel, type EvaluationStatus } from './circuit/engine/prepared.ts';
+export { AMPLIFIER_PARAMETERS, type ParameterInfo, type ParameterKind } from './circuit/engine/compiled-network.ts';
 export {
   runToleranceAnalysis,
   MONTE_CARLO_SAMPLE_CAP,
-  TIME_DOMAIN_SAMPLE_CAP,
   type ToleranceRequest,
   type ToleranceResult,
 } from './tolerance/index.ts';

@@ -34,7 +34,9 @@ describe('POST /v1/analyze', () => {
     expect(body.frequencyHz).toBeCloseTo(1 / body.periodS, 9);
     expect(body.thresholds.upperV).toBeCloseTo(6, 12);
     expect(body.thresholds.lowerV).toBeCloseTo(3, 12);
-    expect(body.output).toEqual({ highV: 9, lowV: 0, swingV: 9 });
+    expect(body.output).toEqual({ highV: 9, lowV: 0, swingV: 9, meanHighV: 9, meanLowV: 0 });
+    expect(body.modelEffects).toEqual([]);
+    expect(body.transitions).toEqual({ riseTimeS: 0, fallTimeS: 0 });
     expect(body.model).toBe('closed-form');
     expect(body.timeHighS + body.timeLowS).toBeCloseTo(body.periodS, 15);
     expect(body.firstEdgeS).toBeGreaterThan(body.timeHighS); // from 0 V the first charge is longer than from V+/3

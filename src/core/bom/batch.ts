@@ -4,7 +4,6 @@
  * write each result and drop it (memory bounded by one result, not the batch)
  * and can pause between results to keep its event loop responsive.
  */
-import { ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
 import { evaluateAssembly } from './evaluate-assembly.ts';
 import type { BomAssemblyResult, BomAssembly, BomCheckContext, BomCheckOptions } from './types.ts';
 
@@ -20,8 +19,8 @@ export const DEFAULT_BOM_OPTIONS: Readonly<BomCheckOptions> = Object.freeze({
 
 /** Results in request order, computed lazily; assemblies of one circuit shape share one compiled evaluator. */
 export function* evaluateAssemblies(assemblies: readonly BomAssembly[], ctx: BomCheckContext): Generator<BomAssemblyResult> {
-  const batchCtx: BomCheckContext = ctx.compileCache ? ctx : { ...ctx, compileCache: new ClosedFormCompileCache() };
-  for (let i = 0; i < assemblies.length; i++) yield evaluateAssembly(assemblies[i], i, batchCtx);
+  // Assemblies of one circuit shape share its compiled form (compiled once per shape and thread).
+  for (let i = 0; i < assemblies.length; i++) yield evaluateAssembly(assemblies[i], i, ctx);
 }
 
 export interface BomBatchSummary {

@@ -27,10 +27,9 @@
  * ΔT is the larger distance of the range's ends from 25 °C (the reference
  * temperature of tempcos and EIA-198 change figures).
  *
- * Always the closed form: microseconds per evaluation; the analysis checks say
- * so (dynamics-approximated) when the amplifier's slew or delay would matter.
+ * The full model, as /v1/tolerance uses it (slew, recovery delay, clamp, current
+ * limit): the prepared walk (circuit/engine/prepared.ts) keeps a batch fast.
  */
-import type { ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
 import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { capacitanceChangeAt, parseDielectric } from '../parts/dielectric.ts';
@@ -131,7 +130,8 @@ export function toleranceRequest(
   }
   return {
     circuit,
-    model: 'closed-form',
+    // The full model (slew, recovery delay, clamp, current limit): the verdict /v1/tolerance gives.
+    model: 'auto',
     tolerances,
     supplyTolerance: assembly.supply.tolerance,
     monteCarlo: { samples: monteCarloSamples, seed },
@@ -180,8 +180,8 @@ function temperatureRules(lines: readonly BomLineReading[], range: BomTemperatur
  * sensitivities never (so a design whose nominal sits at the edge of latching, where a
  * sensitivity step would stop it, still gets its worst case).
  */
-function spreadFigures(request: ToleranceRequest, wantYield: boolean, compileCache: ClosedFormCompileCache | undefined): SpreadFigures {
-  const run = runToleranceAnalysis(request, { parts: { monteCarlo: wantYield, sensitivities: false }, compileCache });
+function spreadFigures(request: ToleranceRequest, wantYield: boolean): SpreadFigures {
+  const run = runToleranceAnalysis(request, { parts: { monteCarlo: wantYield, sensitivities: false } });
   const wc = run.worstCase;
   const figures: SpreadFigures = {
     worstCase: {
@@ -216,7 +216,6 @@ export function assemblySpread(
   assembly: BomAssembly,
   options: BomCheckOptions,
   cache?: Map<string, SpreadFigures | CoreError>,
-  compileCache?: ClosedFormCompileCache,
 ): AssemblySpread {
   const wantYield = assembly.spec.minimumYield !== undefined && options.mode === 'full';
   const drifts = lineDrifts(lines, assembly.temperature);
@@ -226,7 +225,7 @@ export function assemblySpread(
   let figures = cache?.get(key);
   if (figures === undefined) {
     try {
-      figures = spreadFigures(request, wantYield, compileCache);
+      figures = spreadFigures(request, wantYield);
     } catch (error) {
       if (!(error instanceof CoreError)) throw error;
       figures = error;

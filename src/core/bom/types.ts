@@ -4,7 +4,6 @@
  * fastify or JSON.
  */
 import type { AmplifierModel } from '../amplifiers/model.ts';
-import type { ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
 import type { InlineAmplifier } from '../amplifiers/resolve.ts';
 import type { CoreError } from '../errors.ts';
 import type { Catalogue } from '../parts/catalogue.ts';
@@ -118,12 +117,6 @@ export interface BomCheckContext {
    * Give a fresh Map per batch (or none to recompute every assembly).
    */
   spreadCache?: Map<string, SpreadFigures | CoreError>;
-  /**
-   * Compiled closed-form evaluators by circuit shape, reused across the batch's assemblies (their
-   * values differ, their topology and amplifier mostly do not). evaluateAssemblies makes one per
-   * batch when none is given; results are the same with or without it.
-   */
-  compileCache?: ClosedFormCompileCache;
 }
 
 /** A BOM line read for the role it fills. */

@@ -1,41 +1,43 @@
 /**
- * Entry point of the analysis: validate, solve each output state, pick the
- * model that answers, attach checks. The closed form answers when the amplifier
- * is linear within each state; the time-domain engine (when registered) answers
- * whenever slew, delay, limits or clamps can change the result.
+ * Entry point of the analysis: validate, compile the circuit's shape (once per
+ * shape), walk it to its steady cycle, attach checks. One model answers every
+ * question (docs/model.md): the walk of exactly solved linear pieces; the
+ * 'closed-form' choice is its special case without slew, delay, clamp or
+ * current-limit pieces.
  */
 import { hasDynamicLimits } from '../amplifiers/model.ts';
 import { CoreError } from '../errors.ts';
 import { CHECK_CODES, oscillationChecks, supplyChecks, type Check } from './checks.ts';
-import { closedFormOscillation } from './closed-form.ts';
+import { shapeFor, type CompiledShape } from './engine/compiled-network.ts';
+import { ConfigCache } from './engine/configs.ts';
 import { analyzeTimeDomain } from './engine/index.ts';
+import { effectsOf, nominalKey, PreparedModel, type PrepareModelOptions } from './engine/prepared.ts';
 import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck } from './frequency-ceiling.ts';
-import type { AnalysisResult, ModelName, OscillationFigures } from './result.ts';
-import { solveState, type StateModel } from './state-model.ts';
+import type { AnalysisResult, ModelEffect, ModelName, OscillationFigures } from './result.ts';
+import { stateModelOf, type StateModel } from './state-model.ts';
 import { findTopology, TOPOLOGY_IDS } from './topologies/index.ts';
 import type { TopologyDefinition } from './topologies/topology.ts';
-import type { Circuit, OutputState } from './types.ts';
+import type { Circuit } from './types.ts';
 import { validateCircuit } from './validate.ts';
 
 export type ModelChoice = 'auto' | ModelName;
 
 export interface AnalyzeOptions {
+  /** 'closed-form': leave slew, delay, clamp and current limit out of the model; 'auto'/'time-domain': include them. */
   model?: ModelChoice;
   /** Largest share of the period an edge may take before the design counts as slew-limited (0..0.5, default 0.05). */
   edgeFractionLimit?: number;
 }
 
-/** The time-domain model: the event-driven engine unless a caller registers another (tests, experiments). */
-export type TimeDomainAnalyzer = (prepared: PreparedCircuit) => OscillationFigures;
-let timeDomainAnalyzer: TimeDomainAnalyzer | undefined = analyzeTimeDomain;
-
-export function registerTimeDomainAnalyzer(fn: TimeDomainAnalyzer): void {
-  timeDomainAnalyzer = fn;
-}
-
+/** A validated circuit with its compiled shape, its own parameter vector and its two nominal state models. */
 export interface PreparedCircuit {
   circuit: Circuit;
   topology: TopologyDefinition;
+  shape: CompiledShape;
+  values: Float64Array;
+  /** False: the closed-form special case. */
+  dynamics: boolean;
+  effects: ModelEffect[];
   high: StateModel;
   low: StateModel;
 }
@@ -48,49 +50,56 @@ export function getTopology(id: string): TopologyDefinition {
   return topology;
 }
 
-function nominalPiece(topology: TopologyDefinition, state: OutputState) {
-  return {
-    state,
-    outputDriven: !(topology.needsOpenDrain && state === 'high'),
-    diodesOn: topology.nominalDiodes?.(state),
-  };
-}
+const nominalCache = new ConfigCache();
 
-/** Validate and solve both output states (the expensive part is tiny: two small nodal solves). */
-export function prepareCircuit(circuit: Circuit): PreparedCircuit {
+/** Validate, compile (once per shape) and solve both nominal output states. */
+export function prepareCircuit(circuit: Circuit, model: ModelChoice = 'auto'): PreparedCircuit {
   const topology = getTopology(circuit.topology);
   validateCircuit(circuit, topology);
+  const shape = shapeFor(circuit, topology);
+  const values = shape.layout.valuesOf(circuit);
+  const dynamics = model !== 'closed-form';
+  nominalCache.reset(shape, values, dynamics);
+  const amp = circuit.amplifier;
+  const highSourceV = shape.openDrain ? Number.NaN : circuit.supply.positiveV - amp.outputHeadroomHighV;
+  const lowSourceV = circuit.supply.negativeV + amp.outputHeadroomLowV;
   return {
     circuit,
     topology,
-    high: solveState(topology, circuit, nominalPiece(topology, 'high')),
-    low: solveState(topology, circuit, nominalPiece(topology, 'low')),
+    shape,
+    values,
+    dynamics,
+    effects: effectsOf(values, shape, dynamics),
+    high: stateModelOf(nominalCache.get(nominalKey(shape, 'high')), 'high', highSourceV, amp.inputOffsetV),
+    low: stateModelOf(nominalCache.get(nominalKey(shape, 'low')), 'low', lowSourceV, amp.inputOffsetV),
   };
 }
 
-/** Closed-form figures only, without checks: the fast path for Monte Carlo and searches. */
-export function closedFormFigures(circuit: Circuit): OscillationFigures {
-  const p = prepareCircuit(circuit);
-  return closedFormOscillation(p.high, p.low, circuit.amplifier.quiescentCurrentA, circuit.amplifier.inputBiasCurrentA);
+/**
+ * The circuit prepared for many parameter vectors (Monte Carlo, corners,
+ * sensitivities, searches, fitting): validates, then compiles. See engine/prepared.ts.
+ */
+export function prepareModel(circuit: Circuit, options: PrepareModelOptions & { model?: ModelChoice } = {}): PreparedModel {
+  const prepared = prepareCircuit(circuit, options.model);
+  return new PreparedModel(prepared.shape, circuit, { dynamics: prepared.dynamics, transitions: options.transitions });
 }
 
+/** Figures of the closed-form special case, without checks: the cheap screen of design searches. */
+export function closedFormFigures(circuit: Circuit): OscillationFigures {
+  return analyzeTimeDomain(prepareCircuit(circuit, 'closed-form'));
+}
+
+/** The model an answer for this circuit comes from under `choice`. */
 export function chooseModel(circuit: Circuit, choice: ModelChoice = 'auto'): ModelName {
   if (choice !== 'auto') return choice;
-  return hasDynamicLimits(circuit.amplifier) && timeDomainAnalyzer ? 'time-domain' : 'closed-form';
+  return hasDynamicLimits(circuit.amplifier) ? 'time-domain' : 'closed-form';
 }
 
 export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): AnalysisResult {
   const edgeFraction = options.edgeFractionLimit ?? DEFAULT_EDGE_FRACTION;
   checkEdgeFraction(edgeFraction);
-  const prepared = prepareCircuit(circuit);
-  const model = chooseModel(circuit, options.model);
-  let figures: OscillationFigures;
-  if (model === 'time-domain') {
-    if (!timeDomainAnalyzer) throw new CoreError('invalid-value', 'The time-domain model is not available', '/model');
-    figures = timeDomainAnalyzer(prepared);
-  } else {
-    figures = closedFormOscillation(prepared.high, prepared.low, circuit.amplifier.quiescentCurrentA, circuit.amplifier.inputBiasCurrentA);
-  }
+  const prepared = prepareCircuit(circuit, options.model);
+  const figures: OscillationFigures = analyzeTimeDomain(prepared);
   const capacitanceF = circuit.parts[prepared.topology.capacitorRole];
   const checks: Check[] = [
     ...supplyChecks(circuit.supply, circuit.amplifier, capacitanceF),
@@ -101,7 +110,7 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
       timingResistanceOhm: Math.max(prepared.high.tauS, prepared.low.tauS) / capacitanceF,
     }),
   ];
-  if (model === 'closed-form' && hasDynamicLimits(circuit.amplifier)) {
+  if (!prepared.dynamics && hasDynamicLimits(circuit.amplifier)) {
     checks.push({
       code: CHECK_CODES.dynamicsApproximated,
       severity: 'info',
@@ -111,7 +120,8 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
   // The ceiling is a property of the circuit/amplifier pair (delay + full swing at the slew rate);
   // the check compares the edges of this answer (measured by the engine) with its period.
   const estimated = nominalEdgeTimes(prepared);
-  const edges = figures.edges ?? estimated;
+  // The closed-form special case has instant edges; its check still reports the edges the amplifier would have.
+  const edges = prepared.dynamics && figures.edges ? figures.edges : estimated;
   const ceilingHz = frequencyCeilingHz(estimated, edgeFraction);
   const slewCheck = slewLimitedCheck(edges, figures.periodS, edgeFraction, ceilingHz);
   if (slewCheck) checks.push(slewCheck);

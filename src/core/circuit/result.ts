@@ -2,7 +2,17 @@
 import type { Check } from './checks.ts';
 import type { OutputState } from './types.ts';
 
+/**
+ * Which model produced an answer. There is one model (docs/model.md): the walk of
+ * exactly solved linear pieces. 'closed-form' names its special case with no
+ * dynamic pieces (one exponential per state); 'time-domain' says at least one
+ * of the effects in modelEffects was active.
+ */
 export type ModelName = 'closed-form' | 'time-domain';
+
+/** Amplifier effects the model can include, each adding its own kind of piece or event. */
+export const MODEL_EFFECTS = ['slew-rate', 'recovery-delay', 'current-limit', 'input-clamp'] as const;
+export type ModelEffect = (typeof MODEL_EFFECTS)[number];
 
 export interface StateSummary {
   /** Time constant of the capacitor in this state, s. */
@@ -18,6 +28,8 @@ export interface StateSummary {
 
 export interface OscillationFigures {
   model: ModelName;
+  /** The amplifier effects the answer includes (empty: the closed-form special case). */
+  modelEffects: ModelEffect[];
   frequencyHz: number;
   periodS: number;
   /** Fraction of the period the output is high (between 50 % crossings). */
@@ -27,7 +39,13 @@ export interface OscillationFigures {
   /** Time from power-up with the capacitor empty to the first output edge, s. */
   firstEdgeS: number;
   thresholds: { upperV: number; lowerV: number; hysteresisV: number };
-  output: { highV: number; lowV: number; swingV: number };
+  /**
+   * Output state levels as a scope shows them (IEEE Std 181-2011 state levels): the level the pin settles
+   * to in each state; meanHighV/meanLowV are time-means over the drive intervals (delay and slew included).
+   */
+  output: { highV: number; lowV: number; swingV: number; meanHighV: number; meanLowV: number };
+  /** 10–90 % transition durations of the output (IEEE Std 181-2011 reference levels), s. */
+  transitions: { riseTimeS: number; fallTimeS: number };
   capacitor: { minV: number; maxV: number };
   states: { high: StateSummary; low: StateSummary };
   powerUp: { initialState: OutputState; determinate: boolean };

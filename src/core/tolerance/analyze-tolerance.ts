@@ -5,7 +5,7 @@
  * runs it in a worker thread.
  */
 import { binValues } from '../plot/bin-values.ts';
-import { EVALUATION_STATUS, OUTPUT_LENGTH, type ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
+import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/engine/prepared.ts';
 import { CoreError } from '../errors.ts';
 import { checkSigmaPerTolerance, DEFAULT_SIGMA_PER_TOLERANCE, drawSamples } from './monte-carlo.ts';
 import { createSampleEvaluator } from './sample-evaluator.ts';
@@ -15,10 +15,8 @@ import type { FrequencySpec, MonteCarloResult, PartSensitivity, ToleranceRequest
 import { buildVariationModel } from './variation-model.ts';
 import { worstCaseSearch } from './worst-case.ts';
 
-/** Most Monte Carlo samples one request may ask for (closed form). */
+/** Most Monte Carlo samples one request may ask for, whatever the model (the prepared walk keeps 1e6 within seconds). */
 export const MONTE_CARLO_SAMPLE_CAP = 1_000_000;
-/** Cap when every sample runs the time-domain engine (our bound: keeps a request within seconds). */
-export const TIME_DOMAIN_SAMPLE_CAP = 20_000;
 export const DEFAULT_MONTE_CARLO = { samples: 10_000, seed: 1, distribution: 'normal' as const };
 export const MAX_HISTOGRAM_BINS = 1000;
 
@@ -38,16 +36,15 @@ function checkSpec(spec: FrequencySpec): void {
 }
 
 /** Options after defaults; exported so callers (and the route) can refuse a request before queuing it. */
-export function monteCarloOptions(request: ToleranceRequest, model: 'closed-form' | 'time-domain') {
+export function monteCarloOptions(request: ToleranceRequest) {
   const mc: NonNullable<ToleranceRequest['monteCarlo']> = request.monteCarlo ?? DEFAULT_MONTE_CARLO;
   const samples = mc.samples;
-  const cap = model === 'closed-form' ? MONTE_CARLO_SAMPLE_CAP : TIME_DOMAIN_SAMPLE_CAP;
+  const cap = MONTE_CARLO_SAMPLE_CAP;
   if (!Number.isInteger(samples) || samples < 1) throw new CoreError('invalid-value', 'monteCarlo.samples must be a positive integer', '/monteCarlo/samples');
   if (samples > cap) {
     throw new CoreError(
       'limit-exceeded',
-      `monteCarlo.samples is limited to ${cap} with the ${model} model` +
-        (model === 'time-domain' ? ` (set circuit.model to 'closed-form' for up to ${MONTE_CARLO_SAMPLE_CAP})` : ''),
+      `monteCarlo.samples is limited to ${cap}`,
       '/monteCarlo/samples',
       { limit: cap, requested: samples },
     );
@@ -78,11 +75,6 @@ export interface ToleranceRunOptions {
   keepSamples?: boolean;
   /** Parts to compute (default: all). With this option the result type marks them optional. */
   parts?: ToleranceParts;
-  /**
-   * Compiled evaluators to reuse across runs on circuits of one shape (a batch of assemblies):
-   * same results, no per-run compile once the shape is known. One cache per batch or worker.
-   */
-  compileCache?: ClosedFormCompileCache;
 }
 
 export interface ToleranceRun extends ToleranceResult {
@@ -108,10 +100,10 @@ export function runToleranceAnalysis(request: ToleranceRequest, options: Toleran
 export function runToleranceAnalysis(request: ToleranceRequest, options: ToleranceRunOptions = {}): PartialToleranceRun {
   const wantMonteCarlo = options.parts?.monteCarlo ?? true;
   const wantSensitivities = options.parts?.sensitivities ?? true;
-  const evaluator = withPrefix('/circuit', () => createSampleEvaluator(request.circuit, request.model ?? 'auto', options.compileCache));
+  const evaluator = withPrefix('/circuit', () => createSampleEvaluator(request.circuit, request.model ?? 'auto'));
   const model = buildVariationModel(request, evaluator.parameters, evaluator.nominal, evaluator.model);
   if (request.spec) checkSpec(request.spec);
-  const mcOptions = wantMonteCarlo ? monteCarloOptions(request, evaluator.model) : undefined;
+  const mcOptions = wantMonteCarlo ? monteCarloOptions(request) : undefined;
   if (wantMonteCarlo && request.histogramBins !== undefined && !(Number.isInteger(request.histogramBins) && request.histogramBins >= 1 && request.histogramBins <= MAX_HISTOGRAM_BINS)) {
     throw new CoreError('invalid-value', `histogramBins must be an integer 1..${MAX_HISTOGRAM_BINS}`, '/histogramBins');
   }
@@ -157,6 +149,7 @@ export function runToleranceAnalysis(request: ToleranceRequest, options: Toleran
   // Field order as before (model, nominal, worstCase, monteCarlo, sensitivities, ...): JSON answers keep their shape.
   const result: PartialToleranceRun = {
     model: evaluator.model,
+    modelEffects: [...evaluator.effects],
     nominal,
     worstCase,
     ...(monteCarlo ? { monteCarlo } : {}),

@@ -10,7 +10,7 @@
  * bands) are always uniform over their range.
  */
 import { CoreError } from '../errors.ts';
-import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/fast-evaluator.ts';
+import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/engine/prepared.ts';
 import { Xoshiro128 } from './prng.ts';
 import type { SampleEvaluator } from './sample-evaluator.ts';
 import type { ToleranceDistribution } from './types.ts';

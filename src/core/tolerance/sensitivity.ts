@@ -7,7 +7,7 @@
  *   var(ln f) ≈ Σ (∂ln f/∂u_k)²·var(u_k), whose square root is the relative
  *   standard deviation of f. Shares are each term over the sum.
  */
-import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/fast-evaluator.ts';
+import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/engine/prepared.ts';
 import type { ModelName } from '../circuit/result.ts';
 import { CoreError } from '../errors.ts';
 import type { SampleEvaluator } from './sample-evaluator.ts';

@@ -3,7 +3,7 @@
  * JSON pointers in errors refer to the request body of POST /v1/tolerance.
  */
 import type { ModelChoice } from '../circuit/analyze.ts';
-import type { ModelName } from '../circuit/result.ts';
+import type { ModelEffect, ModelName } from '../circuit/result.ts';
 import type { Circuit } from '../circuit/types.ts';
 import { TOLERANCE_FIGURES, type ToleranceFigureName } from '../amplifiers/figures-table.ts';
 
@@ -181,6 +181,8 @@ export interface ToleranceNote {
 
 export interface ToleranceResult {
   model: ModelName;
+  /** The amplifier effects every evaluation included (empty: the closed-form special case). */
+  modelEffects: ModelEffect[];
   nominal: { frequencyHz: number; dutyCycle: number };
   worstCase: WorstCase;
   monteCarlo: MonteCarloResult;

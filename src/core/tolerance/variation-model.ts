@@ -17,7 +17,7 @@
  * Class II/III codes give one change bound over the whole rated range, so the
  * band applies at every temperature in the range (the code says nothing finer).
  */
-import type { ParameterInfo } from '../circuit/fast-evaluator.ts';
+import type { ParameterInfo } from '../circuit/engine/compiled-network.ts';
 import type { ModelName } from '../circuit/result.ts';
 import { CoreError } from '../errors.ts';
 import { toleranceSpec } from '../amplifiers/figures-table.ts';

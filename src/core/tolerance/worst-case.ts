@@ -8,7 +8,7 @@
  * the corners: it may miss an extreme that needs three coordinates at once).
  */
 import { CoreError } from '../errors.ts';
-import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/fast-evaluator.ts';
+import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/engine/prepared.ts';
 import type { SampleEvaluator } from './sample-evaluator.ts';
 import type { Corner, FrequencySpec, WorstCase } from './types.ts';
 import type { VariationModel } from './variation-model.ts';

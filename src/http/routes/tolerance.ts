@@ -73,7 +73,7 @@ export const toleranceRoutes: FastifyPluginAsyncTypebox = async (app) => {
       const circuit = withPointerPrefix('/circuit', () => circuitFromBody(body.circuit, amplifiers, '/circuit'));
       const coreRequest = toCoreRequest(body, circuit, kind === 'svg');
       // Refuse an oversized run before it takes a thread.
-      monteCarloOptions(coreRequest, chooseModel(circuit, coreRequest.model));
+      monteCarloOptions(coreRequest);
       const result: ToleranceResult = await runForRequest(app.services.workers, reply, 'tolerance', coreRequest, 'run');
       if (kind === 'svg') return reply.type(SVG).send(histogramSvg(result, coreRequest));
       const { histogram: _omit, ...json } = result;

@@ -2,6 +2,11 @@
 import { Type } from 'typebox';
 import { Check, NullableNumber, ref, StringEnum } from './common.ts';
 
+/** The amplifier effects an answer's model included (docs/model.md §3). */
+export const ModelEffects = Type.Array(StringEnum(['slew-rate', 'recovery-delay', 'current-limit', 'input-clamp']), {
+  description: 'Amplifier effects included in the model that produced this answer (empty: the closed-form special case)',
+});
+
 const StateSummary = Type.Object(
   {
     tauS: Type.Number({ description: 'Capacitor time constant in this state, s' }),
@@ -26,7 +31,10 @@ export const Analysis = Type.Object(
   {
     topology: Type.String(),
     amplifier: AmplifierSummary,
-    model: StringEnum(['closed-form', 'time-domain'], { description: 'Which model answered' }),
+    model: StringEnum(['closed-form', 'time-domain'], {
+      description: "Which model answered: the walk of exactly solved pieces; 'closed-form' is its special case with no amplifier effect active (one exponential per state)",
+    }),
+    modelEffects: ModelEffects,
     frequencyHz: Type.Number(),
     periodS: Type.Number(),
     dutyCycle: Type.Number({ description: 'Fraction of the period the output is high, between 50 % crossings' }),
@@ -34,7 +42,23 @@ export const Analysis = Type.Object(
     timeLowS: Type.Number(),
     firstEdgeS: Type.Number({ description: 'From power-up with the capacitor empty to the first output edge, s' }),
     thresholds: Type.Object({ upperV: Type.Number(), lowerV: Type.Number(), hysteresisV: Type.Number() }, { additionalProperties: false }),
-    output: Type.Object({ highV: Type.Number(), lowV: Type.Number(), swingV: Type.Number() }, { additionalProperties: false }),
+    output: Type.Object(
+      {
+        highV: Type.Number({ description: 'High state level as a scope shows it (IEEE Std 181-2011): the level the output settles to, V' }),
+        lowV: Type.Number({ description: 'Low state level as a scope shows it (IEEE Std 181-2011), V' }),
+        swingV: Type.Number({ description: 'highV − lowV, V' }),
+        meanHighV: Type.Number({ description: 'Time-mean of the output over the high drive interval (recovery delay and slew included), V' }),
+        meanLowV: Type.Number({ description: 'Time-mean of the output over the low drive interval, V' }),
+      },
+      { additionalProperties: false },
+    ),
+    transitions: Type.Object(
+      {
+        riseTimeS: Type.Number({ description: 'Output 10–90 % rise time (IEEE Std 181-2011 reference levels), s (0: instant edge)' }),
+        fallTimeS: Type.Number({ description: 'Output 90–10 % fall time, s' }),
+      },
+      { additionalProperties: false },
+    ),
     capacitor: Type.Object({ minV: Type.Number(), maxV: Type.Number() }, { additionalProperties: false }),
     states: Type.Object({ high: StateSummary, low: StateSummary }, { additionalProperties: false }),
     powerUp: Type.Object(

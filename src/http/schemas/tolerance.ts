@@ -1,4 +1,5 @@
 /** Request and response of POST /v1/tolerance. */
+import { ModelEffects } from './analysis.ts';
 import { Type, type Static } from 'typebox';
 import { TOPOLOGIES } from '../../core/index.ts';
 import { AMPLIFIER_SPREAD_FIELDS, MAX_HISTOGRAM_BINS } from '../../core/tolerance/index.ts';
@@ -152,6 +153,7 @@ export const ToleranceResult = Type.Object(
   {
     topology: Type.String(),
     model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')], { description: 'Which model evaluated every point' }),
+    modelEffects: ModelEffects,
     nominal: Type.Object({ frequencyHz: Type.Number(), dutyCycle: Type.Number() }, { additionalProperties: false }),
     worstCase: Type.Object(
       {

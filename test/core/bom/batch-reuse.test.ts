@@ -6,7 +6,6 @@
  */
 import { describe, expect, it } from 'vitest';
 import { evaluateAssemblies, evaluateAssembly, type BomAssembly } from '../../../src/core/index.ts';
-import { ClosedFormCompileCache } from '../../../src/core/circuit/fast-evaluator.ts';
 import { baseAssembly, context, NOMINAL_FREQUENCY_HZ } from './fixtures.ts';
 
 /** Our own revisions of the fixture clock (invented values, demo only): timing parts, amplifier, supply, temperature vary. */
@@ -38,10 +37,8 @@ describe('evaluateAssemblies reuse', () => {
     it(`${mode} mode: a batch gives each assembly's stand-alone result`, () => {
       const batch = revisions();
       const alone = batch.map((a, i) => evaluateAssembly(a, i, context({ mode, monteCarloSamples: 300 })));
-      const compileCache = new ClosedFormCompileCache();
-      const together = [...evaluateAssemblies(batch, { ...context({ mode, monteCarloSamples: 300 }), spreadCache: new Map(), compileCache })];
+      const together = [...evaluateAssemblies(batch, { ...context({ mode, monteCarloSamples: 300 }), spreadCache: new Map() })];
       expect(together).toEqual(alone);
-      expect(compileCache.reused).toBeGreaterThan(batch.length / 2); // two amplifiers: two shapes for the batch
       // The worst case was computed (not skipped) for every assembly.
       for (const r of together) expect(r.rules.some((x) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec')).toBe(true);
     });

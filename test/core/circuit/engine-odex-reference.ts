@@ -43,8 +43,15 @@ export interface ReferenceResult {
   dutyCycle: number;
   upperV: number;
   lowerV: number;
+  /**
+   * Output state levels as the engine defines them (docs/model.md §5): the pin at the instant the
+   * output stage starts to leave the state (when the delayed decision reaches it).
+   */
   highV: number;
   lowV: number;
+  /** Time-means of the pin over the high and low drive intervals. */
+  meanHighV: number;
+  meanLowV: number;
   cycles: number;
   rhsEvaluations: number;
 }
@@ -216,7 +223,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   let risingTimes: number[] = [];
   let risingV: number[] = [];
   let upperV = NaN;
-  const targetMarks: { t: number; I: number; target: number }[] = [];
+  const targetMarks: { t: number; I: number; target: number; pinBefore: number }[] = [];
 
   function flip() {
     d.logic ^= 1;
@@ -228,8 +235,9 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     else changeTarget();
   }
   function changeTarget() {
+    const pinBefore = pinOf(nodeVoltages(c, d, y[0], y[1]).V);
     d.target ^= 1;
-    targetMarks.push({ t, I: y[2], target: d.target });
+    targetMarks.push({ t, I: y[2], target: d.target, pinBefore });
     const level = d.target ? vHigh : vLow;
     if (openDrain) {
       if (d.target) {
@@ -281,7 +289,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   };
 
   const maxCycles = options.maxCycles ?? 300;
-  let observer: { mid: number; rise: number; fall: number; prev: number } | undefined;
+  let observer: { mid: number; rise: number; fall: number; prev: number; hi: number; lo: number; meanHi: number; meanLo: number } | undefined;
   const observe = (tt: number, pin: number) => {
     if (!observer) return;
     const g = pin - observer.mid;
@@ -389,6 +397,12 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
         const from = risingTimes[n - 3];
         const marks = targetMarks.filter((m) => m.t >= from - 1e-18).slice(0, 3);
         let hiI = 0, hiT = 0, loI = 0, loT = 0;
+        let hiLevel = NaN;
+        let loLevel = NaN;
+        for (const mark of marks) {
+          if (mark.target === 0) hiLevel = mark.pinBefore;
+          else loLevel = mark.pinBefore;
+        }
         for (let k = 0; k + 1 < marks.length; k++) {
           const dI = marks[k + 1].I - marks[k].I;
           const dT = marks[k + 1].t - marks[k].t;
@@ -401,17 +415,15 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
           }
         }
         converged = n;
-        observer = { mid: 0.5 * (hiI / hiT + loI / loT), rise: NaN, fall: NaN, prev: NaN };
-        (observer as unknown as { hi: number; lo: number }).hi = hiI / hiT;
-        (observer as unknown as { hi: number; lo: number }).lo = loI / loT;
+        observer = { mid: 0.5 * (hiLevel + loLevel), rise: NaN, fall: NaN, prev: NaN, hi: hiLevel, lo: loLevel, meanHi: hiI / hiT, meanLo: loI / loT };
       }
     }
     if (converged > 0 && risingTimes.length >= converged + 2 && observer && !Number.isNaN(observer.rise) && !Number.isNaN(observer.fall)) {
       const m = risingTimes.length;
       const periodS = risingTimes[m - 1] - risingTimes[m - 2];
       const high = ((((observer.fall - observer.rise) % periodS) + periodS) % periodS) / periodS;
-      const o = observer as unknown as { hi: number; lo: number };
-      return { periodS, dutyCycle: high, upperV, lowerV: risingV[m - 1], highV: o.hi, lowV: o.lo, cycles: m, rhsEvaluations: evals };
+      const o = observer;
+      return { periodS, dutyCycle: high, upperV, lowerV: risingV[m - 1], highV: o.hi, lowV: o.lo, meanHighV: o.meanHi, meanLowV: o.meanLo, cycles: m, rhsEvaluations: evals };
     }
   }
   throw new Error(`reference: no steady state; rising ${JSON.stringify(risingTimes.slice(-4))} v ${JSON.stringify(risingV.slice(-3))} t=${t} logic=${d.logic} target=${d.target} stage=${d.stage} pending=${d.pending.join(',')} rate=${d.rate}`);

@@ -286,8 +286,12 @@ describe('the time-domain path (slew and delay matter)', () => {
     expect(f.every((x) => x >= r.worstCase.frequencyMinHz * (1 - 1e-9) && x <= r.worstCase.frequencyMaxHz * (1 + 1e-9))).toBe(true);
   });
 
-  it('caps time-domain runs lower than closed-form ones', () => {
-    expect(() => runToleranceAnalysis({ circuit: slow, tolerances: {}, monteCarlo: { samples: 20_001, seed: 1 } })).toThrow(
+  it('has no lower sample cap for slew-limited circuits: one cap for every model', () => {
+    const r = runToleranceAnalysis({ circuit: slow, tolerances: { rTiming: 0.01 }, monteCarlo: { samples: 20_001, seed: 1 } }, { parts: { sensitivities: false } });
+    expect(r.model).toBe('time-domain');
+    expect(r.modelEffects).toContain('slew-rate');
+    expect(r.monteCarlo?.samples).toBe(20_001);
+    expect(() => runToleranceAnalysis({ circuit: slow, tolerances: {}, monteCarlo: { samples: 1_000_001, seed: 1 } })).toThrow(
       expect.objectContaining({ code: 'limit-exceeded' }),
     );
   });

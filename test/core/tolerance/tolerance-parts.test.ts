@@ -7,7 +7,6 @@
  */
 import { describe, expect, it } from 'vitest';
 import { findBuiltInAmplifier } from '../../../src/core/amplifiers/archetypes.ts';
-import { ClosedFormCompileCache } from '../../../src/core/circuit/fast-evaluator.ts';
 import type { Circuit } from '../../../src/core/circuit/types.ts';
 import { runToleranceAnalysis, type ToleranceRequest } from '../../../src/core/tolerance/index.ts';
 
@@ -87,16 +86,6 @@ describe('runToleranceAnalysis parts', () => {
       expect(explicit).toEqual(full);
     });
   }
-
-  it('a compile cache shared across runs changes no figure', () => {
-    const cache = new ClosedFormCompileCache();
-    for (const scale of [1, 1.3, 0.7, 2.2]) {
-      const parts = Object.fromEntries(Object.entries(split.parts).map(([k, v]) => [k, k === 'rTiming' ? v * scale : v]));
-      const request = { ...requests['all corners, with temperature and a spec'], circuit: { ...split, parts } };
-      expect(timeless(runToleranceAnalysis(request, { compileCache: cache }))).toEqual(timeless(runToleranceAnalysis(request)));
-    }
-    expect(cache.reused).toBe(3);
-  });
 
   it('skipped Monte Carlo options are not checked; the variance budget still checks its sigma', () => {
     const request = requests['all corners, with temperature and a spec'];

@@ -67,7 +67,7 @@ export function circuitRules(circuit: Circuit, supply: BomSupply): CircuitEvalua
     const rails = supplyAt(supply, corner);
     let analysis: AnalysisResult;
     try {
-      analysis = analyzeCircuit({ ...circuit, supply: rails }, { model: 'closed-form' });
+      analysis = analyzeCircuit({ ...circuit, supply: rails });
     } catch (error) {
       if (!(error instanceof CoreError)) throw error;
       rules.push(

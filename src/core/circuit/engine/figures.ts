@@ -1,22 +1,26 @@
 /**
- * Steady-state figures from a walk's repeating cycle, in the same shape the
- * closed form produces. Definitions (chosen so both models agree where both
- * apply, and so they mean what a bench measurement would):
- * - output high/low level: time-mean of the pin while the output stage heads for
- *   that level (the delayed decision), slews included;
- * - duty cycle and timeHigh/timeLow: between 50 % crossings of the pin, the 50 %
- *   level being the midpoint of those two levels;
+ * Steady-state figures from a walk's repeating cycle (docs/model.md §5), defined
+ * as a scope shows them (IEEE Std 181-2011 terms):
+ * - output state levels (high/low): the level the output settles to in each
+ *   state — the pin voltage at the instant the output stage starts to leave the
+ *   state (the end of the flat top, where the waveform is flattest; for a
+ *   waveform that never settles, its turning point). This is the mode of the
+ *   pin's amplitude histogram for a record of the cycle. Time-means over the
+ *   drive intervals are reported only as meanHighV/meanLowV;
+ * - frequency and duty: from the pin's crossings of the 50 % reference level
+ *   between those state levels;
+ * - transition durations: between the 10 % and 90 % reference levels;
  * - thresholds: the capacitor voltage at the decisions;
  * - firstEdgeS: first 50 % crossing of the pin after power-up;
  * - peaks and extremes: exact over every piece (interior extrema included).
  */
-import type { PreparedCircuit } from '../analyze.ts';
 import { powerUpState } from '../closed-form.ts';
-import { nominalEdgeTimes, type EdgeTimes } from '../frequency-ceiling.ts';
-import type { OscillationFigures, StateSummary } from '../result.ts';
+import type { EdgeTimes } from '../frequency-ceiling.ts';
+import type { ModelEffect, OscillationFigures, StateSummary } from '../result.ts';
+import type { StateModel } from '../state-model.ts';
 import { configKey, STAGE, type ConfigCache, type ConfigModel } from './configs.ts';
 import type { PieceEvaluator } from './piece-evaluator.ts';
-import { LOG } from './piece-log.ts';
+import { LOG, LOG_STRIDE } from './piece-log.ts';
 import type { OscillatorWalk, SteadyCycle } from './walker.ts';
 
 export interface TimeDomainFigures extends OscillationFigures {
@@ -27,6 +31,18 @@ export interface TimeDomainFigures extends OscillationFigures {
 export interface WalkExtras {
   /** Output 50 % level used for the duty cycle and edges, V. */
   outputMidV: number;
+}
+
+/** What the figures need beyond the walk: the nominal state models and the amplifier's own supply current. */
+export interface FigureContext {
+  high: StateModel;
+  low: StateModel;
+  quiescentCurrentA: number;
+  inputBiasCurrentA: number;
+  /** Stand-ins for an edge the cycle did not complete (decision to settled), s. */
+  nominalEdges: EdgeTimes;
+  /** Effects active in the model that produced the walk (docs/model.md §3). */
+  effects: readonly ModelEffect[];
 }
 
 let pinEndsBuffer = new Float64Array(32);
@@ -61,7 +77,7 @@ const scratchDir = new Int8Array(2);
  * m <= y < 2m the remainder is y − m, which is exact (Sterbenz). Same bits as
  * the remainder form; the remainder is slow in V8.
  */
-function phaseIn(x: number, m: number): number {
+export function phaseIn(x: number, m: number): number {
   const r = x > -m && x < m ? x : x % m;
   const y = r + m;
   if (y < m) return y;
@@ -164,12 +180,88 @@ class CycleTotals {
 const totals = new CycleTotals();
 
 /**
- * `fallbackEdges` stands in for an edge the cycle did not complete; undefined:
- * the circuit's nominal edge times, worked out only when one is needed.
+ * State levels of the cycle into out[0] (high), out[1] (low): the pin at the end
+ * of the last piece before the output stage's target changes (the stage starts
+ * leaving the level there). NaN for a level the cycle never leaves.
  */
-export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallbackEdges: EdgeTimes | undefined, extras?: WalkExtras): TimeDomainFigures {
-  const prepared = walk.prepared;
-  const { circuit } = prepared;
+export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array): void {
+  const d = walk.log.data;
+  out[0] = out[1] = Number.NaN;
+  const n = cycle.endIndex - cycle.startIndex;
+  for (let k = 0; k < n; k++) {
+    const i = cycle.startIndex + k;
+    const next = cycle.startIndex + ((k + 1) % n);
+    const target = d[i * LOG_STRIDE + LOG.target];
+    if (target === d[next * LOG_STRIDE + LOG.target]) continue;
+    const cfg = walk.cache.get(d[i * LOG_STRIDE + LOG.key]);
+    const b = i * LOG_STRIDE;
+    const durationS = d[b + LOG.durationS];
+    const pin = cfg.oC + cfg.oV * d[b + LOG.vEnd] + cfg.oS * (d[b + LOG.s0] + d[b + LOG.rate] * durationS);
+    out[target ? 0 : 1] = pin;
+  }
+}
+
+/**
+ * First rising and first falling crossing of the pin through levelV inside the
+ * cycle, absolute times, into out[0] (rise) and out[1] (fall); NaN where none.
+ * A jump of the pin between pieces (instant edge) crosses at the boundary.
+ */
+export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, memo?: Float64Array): void {
+  const ev = walk.evaluator;
+  const d = walk.log.data;
+  let riseAt = Number.NaN;
+  let fallAt = Number.NaN;
+  const pieces = cycle.endIndex - cycle.startIndex;
+  const pinAt = (i: number, end: boolean) => {
+    const b = i * LOG_STRIDE;
+    const cfg = walk.cache.get(d[b + LOG.key]);
+    const v = end ? d[b + LOG.vEnd] : d[b + LOG.v0];
+    const sv = d[b + LOG.s0] + (end ? d[b + LOG.rate] * d[b + LOG.durationS] : 0);
+    return cfg.oC + cfg.oV * v + cfg.oS * sv - levelV;
+  };
+  let prevEnd = pinAt(cycle.endIndex - 1, true);
+  for (let i = cycle.startIndex; i < cycle.endIndex && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); i++) {
+    const start = pinAt(i, false);
+    const end = pinAt(i, true);
+    const startS = d[i * LOG_STRIDE + LOG.startS];
+    if (prevEnd < 0 && start >= 0 && Number.isNaN(riseAt)) riseAt = startS;
+    else if (prevEnd >= 0 && start < 0 && Number.isNaN(fallAt)) fallAt = startS;
+    prevEnd = end;
+    // A plain exponential piece is monotone: a crossing inside shows as a sign change of its ends.
+    if (d[i * LOG_STRIDE + LOG.rate] === 0 && start < 0 === end < 0) continue;
+    ev.load(i);
+    const cfg = ev.config;
+    const n = ev.crossings(cfg.oC - levelV, cfg.oV, cfg.oS, scratchT, scratchDir);
+    if (memo) memo[i - cycle.startIndex] = n > 0 ? scratchT[0] : Number.NaN;
+    for (let k = 0; k < n; k++) {
+      if (scratchDir[k] > 0 && Number.isNaN(riseAt)) riseAt = startS + scratchT[k];
+      if (scratchDir[k] < 0 && Number.isNaN(fallAt)) fallAt = startS + scratchT[k];
+    }
+  }
+  out[0] = riseAt;
+  out[1] = fallAt;
+}
+
+const levelScratch = new Float64Array(2);
+const crossScratch = new Float64Array(2);
+
+/**
+ * The 10–90 % transition durations of the cycle into out[0] (rise), out[1] (fall):
+ * between the pin's crossings of the 10 % and 90 % reference levels (0 for an
+ * instant edge).
+ */
+export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array): void {
+  const swing = highV - lowV;
+  pinCrossings(walk, cycle, lowV + 0.1 * swing, crossScratch);
+  const rise10 = crossScratch[0];
+  const fall10 = crossScratch[1];
+  pinCrossings(walk, cycle, lowV + 0.9 * swing, crossScratch);
+  out[0] = phaseIn(crossScratch[0] - rise10, cycle.periodS);
+  out[1] = phaseIn(fall10 - crossScratch[1], cycle.periodS);
+}
+
+/** Figures of the walk's steady cycle (the walk went from power-up: firstEdgeS reads the transient). */
+export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: FigureContext, extras?: WalkExtras): TimeDomainFigures {
   const ev = walk.evaluator;
   const periodS = cycle.periodS;
 
@@ -183,36 +275,19 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
   const { pinHighInt, pinHighS, pinLowInt, pinLowS, railCharge, sourcedCharge, capMin, capMax, pMin, pMax, diffMin, diffMax, iMin, iMax, supplyMax, highPiece, lowPiece, limitedS, demandPeakA } = sums;
   // The accumulator is reused: drop its references to this circuit's configurations.
   sums.highPiece = sums.lowPiece = undefined;
-  const highV = pinHighS > 0 ? pinHighInt / pinHighS : Number.NaN;
-  const lowV = pinLowS > 0 ? pinLowInt / pinLowS : Number.NaN;
+  const meanHighV = pinHighS > 0 ? pinHighInt / pinHighS : Number.NaN;
+  const meanLowV = pinLowS > 0 ? pinLowInt / pinLowS : Number.NaN;
+  cycleLevels(walk, cycle, levelScratch);
+  const highV = Number.isNaN(levelScratch[0]) ? meanHighV : levelScratch[0];
+  const lowV = Number.isNaN(levelScratch[1]) ? meanLowV : levelScratch[1];
   const midV = 0.5 * (highV + lowV);
   if (extras) extras.outputMidV = midV;
 
-  // 50 % crossings of the pin over the cycle (a jump between pieces counts at the boundary).
-  let riseAt = Number.NaN;
-  let fallAt = Number.NaN;
   const pieces = cycle.endIndex - cycle.startIndex;
-  let prevEnd = pinEnds[2 * pieces - 1] - midV;
   const memo = crossingMemoScratch(pieces);
-  for (let i = cycle.startIndex; i < cycle.endIndex && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); i++) {
-    const j = 2 * (i - cycle.startIndex);
-    const start = pinEnds[j] - midV;
-    const end = pinEnds[j + 1] - midV;
-    const startS = walk.log.get(i, LOG.startS);
-    if (prevEnd < 0 && start >= 0 && Number.isNaN(riseAt)) riseAt = startS;
-    else if (prevEnd >= 0 && start < 0 && Number.isNaN(fallAt)) fallAt = startS;
-    prevEnd = end;
-    // A plain exponential piece is monotone: a crossing inside shows as a sign change of its ends.
-    if (walk.log.get(i, LOG.rate) === 0 && start < 0 === end < 0) continue;
-    ev.load(i);
-    const cfg = ev.config;
-    const n = ev.crossings(cfg.oC - midV, cfg.oV, cfg.oS, scratchT, scratchDir);
-    memo[i - cycle.startIndex] = n > 0 ? scratchT[0] : Number.NaN;
-    for (let k = 0; k < n; k++) {
-      if (scratchDir[k] > 0 && Number.isNaN(riseAt)) riseAt = startS + scratchT[k];
-      if (scratchDir[k] < 0 && Number.isNaN(fallAt)) fallAt = startS + scratchT[k];
-    }
-  }
+  pinCrossings(walk, cycle, midV, crossScratch, memo);
+  const riseAt = crossScratch[0];
+  const fallAt = crossScratch[1];
   let timeHighS: number;
   if (!Number.isNaN(riseAt) && !Number.isNaN(fallAt)) {
     timeHighS = phaseIn(fallAt - riseAt, periodS);
@@ -220,18 +295,19 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
     timeHighS = pinHighS; // the pin never crosses its midpoint: fall back to the drive intervals
   }
   const timeLowS = periodS - timeHighS;
+  const transitions = new Float64Array(2);
+  transitionDurations(walk, cycle, highV, lowV, transitions);
 
   const firstEdgeS = firstCrossing(ev, walk.log.count, midV, cycle.startIndex, cycle.endIndex, memo);
   let rise = cycle.riseS;
   let fall = cycle.fallS;
-  if (Number.isNaN(rise) || Number.isNaN(fall)) {
-    const fallback = fallbackEdges ?? nominalEdgeTimes(prepared);
-    if (Number.isNaN(rise)) rise = fallback.riseSettleS;
-    if (Number.isNaN(fall)) fall = fallback.fallSettleS;
-  }
+  if (Number.isNaN(rise)) rise = ctx.nominalEdges.riseSettleS;
+  if (Number.isNaN(fall)) fall = ctx.nominalEdges.fallSettleS;
+  const { high, low } = ctx;
 
   const figures: TimeDomainFigures = {
-    model: 'time-domain',
+    model: ctx.effects.length > 0 ? 'time-domain' : 'closed-form',
+    modelEffects: [...ctx.effects],
     frequencyHz: 1 / periodS,
     periodS,
     dutyCycle: timeHighS / periodS,
@@ -239,18 +315,19 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
     timeLowS,
     firstEdgeS,
     thresholds: { upperV: cycle.upperV, lowerV: cycle.lowerV, hysteresisV: cycle.upperV - cycle.lowerV },
-    output: { highV, lowV, swingV: highV - lowV },
+    output: { highV, lowV, swingV: highV - lowV, meanHighV, meanLowV },
+    transitions: { riseTimeS: transitions[0], fallTimeS: transitions[1] },
     capacitor: { minV: capMin, maxV: capMax },
     states: {
-      high: stateSummary(prepared, 'high', highPiece, walk.highV, cycle.upperV, cycle.decisionHighS),
-      low: stateSummary(prepared, 'low', lowPiece, walk.lowV, cycle.lowerV, periodS - cycle.decisionHighS),
+      high: stateSummary(high, highPiece, walk.highV, cycle.upperV, cycle.decisionHighS),
+      low: stateSummary(low, lowPiece, walk.lowV, cycle.lowerV, periodS - cycle.decisionHighS),
     },
-    powerUp: powerUpState(prepared.high, prepared.low),
+    powerUp: powerUpState(high, low),
     currents: {
       outputPeakSourceA: Math.max(0, iMax),
       outputPeakSinkA: Math.max(0, -iMin),
-      supplyAverageA: circuit.amplifier.quiescentCurrentA + (railCharge + sourcedCharge) / periodS,
-      supplyPeakA: circuit.amplifier.quiescentCurrentA + supplyMax,
+      supplyAverageA: ctx.quiescentCurrentA + (railCharge + sourcedCharge) / periodS,
+      supplyPeakA: ctx.quiescentCurrentA + supplyMax,
     },
     inputs: {
       nonInvertingMinV: pMin,
@@ -259,10 +336,9 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, fallba
       invertingMaxV: capMax,
       differentialMaxV: Math.max(Math.abs(diffMin), Math.abs(diffMax)),
     },
-    biasThresholdShiftV: Math.abs(circuit.amplifier.inputBiasCurrentA) * Math.max(prepared.high.decisionResistanceOhm, prepared.low.decisionResistanceOhm),
+    biasThresholdShiftV: Math.abs(ctx.inputBiasCurrentA) * Math.max(high.decisionResistanceOhm, low.decisionResistanceOhm),
     edges: { riseSettleS: rise, fallSettleS: fall },
   };
-  // Added last, as the spread form did (same key order), without building a throwaway object.
   if (limitedS > 0) figures.currentLimit = { limitedFraction: limitedS / periodS, demandPeakA };
   return figures;
 }
@@ -293,8 +369,7 @@ function firstCrossing(ev: PieceEvaluator, count: number, midV: number, memoStar
 }
 
 /** Per-state summary from the piece in force when the state's decision ends (its settled piece). */
-function stateSummary(prepared: PreparedCircuit, state: 'high' | 'low', cfg: ConfigModel | undefined, levelV: number, switchingV: number, dwellS: number): StateSummary {
-  const nominal = state === 'high' ? prepared.high : prepared.low;
+function stateSummary(nominal: StateModel, cfg: ConfigModel | undefined, levelV: number, switchingV: number, dwellS: number): StateSummary {
   const released = cfg ? cfg.stage === STAGE.released : Number.isNaN(nominal.sourceV);
   const sourceV = released ? null : levelV;
   if (!cfg || !(cfg.a > 0)) {

@@ -26,9 +26,8 @@
  */
 import { CoreError } from '../../errors.ts';
 import { formatVolts } from '../format.ts';
-import type { PreparedCircuit } from '../analyze.ts';
-import { saturationLevelV } from '../state-network.ts';
-import { BOUNDARY_TOLERANCE, CLAMP, ConfigCache, configKey, EVENT, STAGE, type ConfigModel } from './configs.ts';
+import type { CompiledShape } from './compiled-network.ts';
+import { BOUNDARY_TOLERANCE, CLAMP, ConfigCache, configKey, diodeBits, EVENT, STAGE, type ConfigModel } from './configs.ts';
 import { Kinematics } from './kinematics.ts';
 import { PieceEvaluator } from './piece-evaluator.ts';
 import { PieceLog } from './piece-log.ts';
@@ -69,6 +68,22 @@ export interface SteadyCycle {
   cycles: number;
 }
 
+/** A walk's switching state at a decision, carried to another parameter vector (OscillatorWalk.startFrom). */
+export class SteadyStart {
+  valid = false;
+  logic = 0;
+  target = 0;
+  stage = 0;
+  clamp = 0;
+  diodes = 0;
+  /** Source voltage as a fraction of the way from the low to the high saturation level (exactly 0 or 1 when it sat there). */
+  sFraction = 0;
+  rate = 0;
+  pendingCount = 0;
+  readonly pendingRelS = new Float64Array(PENDING_CAPACITY);
+  motionFlipRelS = 0;
+}
+
 /** The switching state at one decision. */
 class DecisionRecord {
   valid = false;
@@ -91,7 +106,10 @@ export class OscillatorWalk {
   private readonly probe = new AffineProbe(this.kin);
   private readonly ends = new PieceEnds();
   private readonly endScratch = new Float64Array(2);
-  prepared!: PreparedCircuit;
+  shape!: CompiledShape;
+  values!: ArrayLike<number>;
+  /** False: the closed-form special case (instant edges, no delay, clamp or current limit). */
+  dynamics = true;
   highV = 0;
   lowV = 0;
   private slewVPerS = Infinity;
@@ -135,15 +153,21 @@ export class OscillatorWalk {
   extrapolatedAtS = Number.NaN;
   steady: SteadyCycle | undefined;
 
-  /** Target a circuit (the walk object is reusable: nothing of the previous circuit survives). */
-  reset(prepared: PreparedCircuit): this {
-    this.prepared = prepared;
-    this.cache.reset(prepared);
-    const { circuit } = prepared;
-    this.highV = saturationLevelV(circuit, 'high');
-    this.lowV = saturationLevelV(circuit, 'low');
-    this.slewVPerS = circuit.amplifier.slewRateVPerS;
-    this.delayS = circuit.amplifier.recoveryDelayS;
+  /**
+   * Target a shape and parameter vector (the walk object is reusable: nothing of
+   * the previous circuit survives). `dynamics` false gives the closed-form special
+   * case of the same model: no slew, delay, clamp or current-limit pieces.
+   */
+  reset(shape: CompiledShape, values: ArrayLike<number>, dynamics = true): this {
+    this.shape = shape;
+    this.values = values;
+    this.dynamics = dynamics;
+    this.cache.reset(shape, values, dynamics);
+    const l = shape.layout;
+    this.highV = values[l.indexOf('supplyPositiveV')] - values[l.indexOf('outputHeadroomHighV')];
+    this.lowV = values[l.indexOf('supplyNegativeV')] + values[l.indexOf('outputHeadroomLowV')];
+    this.slewVPerS = dynamics ? values[l.indexOf('slewRateVPerS')] : Infinity;
+    this.delayS = dynamics ? values[l.indexOf('recoveryDelayS')] : 0;
     this.vTol = BOUNDARY_TOLERANCE * this.cache.spanV;
     this.steadyTolV = STEADY_STATE_TOLERANCE * this.cache.spanV;
     this.riseS = this.fallS = this.upperV = Number.NaN;
@@ -165,9 +189,7 @@ export class OscillatorWalk {
     this.s = high ? this.highV : this.lowV;
     this.rate = 0;
     this.clamp = CLAMP.off;
-    const nominal = this.prepared.topology.nominalDiodes?.(initial);
-    this.diodes = 0;
-    if (nominal) for (let k = 0; k < nominal.length; k++) if (nominal[k]) this.diodes |= 1 << k;
+    this.diodes = diodeBits(this.shape.topology.nominalDiodes?.(initial));
     this.pendingCount = 0;
     this.pendingHead = 0;
     this.log.clear();
@@ -179,6 +201,79 @@ export class OscillatorWalk {
     this.cycles = 0;
     this.resolve();
     this.flippedNow = false;
+  }
+
+  /**
+   * The switching state right now (call it when runToSteadyState has returned:
+   * the walk then sits on the repeating decision), for startFrom on another
+   * parameter vector near this one (docs/model.md §4).
+   */
+  snapshot(into: SteadyStart = new SteadyStart()): SteadyStart {
+    into.valid = true;
+    into.logic = this.logic;
+    into.target = this.target;
+    into.stage = this.stage;
+    into.clamp = this.clamp;
+    into.diodes = this.diodes;
+    into.sFraction = this.s === this.lowV ? 0 : this.s === this.highV ? 1 : (this.s - this.lowV) / (this.highV - this.lowV);
+    into.rate = this.rate;
+    into.pendingCount = this.pendingCount;
+    for (let k = 0; k < this.pendingCount; k++) into.pendingRelS[k] = this.pending[(this.pendingHead + k) % PENDING_CAPACITY] - this.t;
+    into.motionFlipRelS = this.motionFlipS - this.t;
+    return into;
+  }
+
+  /**
+   * Start the walk at a decision instant in the switching state another vector's
+   * steady cycle ended in, instead of at power-up: near a nominal the cycle then
+   * repeats after one or two cycles. The capacitor is placed on this vector's
+   * switching level; a settled output sits at this vector's saturation level.
+   * False when the state does not carry over (the caller walks from power-up).
+   */
+  startFrom(start: SteadyStart): boolean {
+    if (!start.valid) return false;
+    this.t = 0;
+    this.logic = start.logic;
+    this.target = start.target;
+    this.stage = start.stage;
+    this.clamp = start.clamp;
+    this.diodes = start.diodes;
+    // A delay that appears or vanishes changes what a decision instant holds: walk from power-up.
+    if (this.delayS > 0 !== start.pendingCount > 0) return false;
+    // The source keeps its place between the two saturation levels (exactly at a level when it sat there).
+    const f = start.sFraction;
+    this.s = f === 0 ? this.lowV : f === 1 ? this.highV : this.lowV + f * (this.highV - this.lowV);
+    this.rate = start.rate === 0 || !Number.isFinite(this.slewVPerS) ? 0 : start.rate > 0 ? this.slewVPerS : -this.slewVPerS;
+    if (this.rate === 0 && this.stage === STAGE.driven) this.s = this.target ? this.highV : this.lowV;
+    this.pendingCount = start.pendingCount;
+    this.pendingHead = 0;
+    for (let k = 0; k < start.pendingCount; k++) this.pending[k] = Math.min(start.pendingRelS[k], this.delayS);
+    // The decision that starts the cycle queued its own flip a full delay ahead.
+    if (this.pendingCount > 0) this.pending[this.pendingCount - 1] = this.delayS;
+    this.motionFlipS = start.motionFlipRelS;
+    const cfg = this.cache.tryGet(this.key);
+    if (!cfg || !(cfg.hV !== 0)) return false;
+    // On the switching line: h = hC + hV·v + hS·s = 0.
+    this.v = (cfg.hC + cfg.hS * this.s) / -cfg.hV;
+    this.log.clear();
+    this.steady = undefined;
+    this.rec[0].valid = this.rec[1].valid = false;
+    this.accCount = 0;
+    this.extrapolatedAtS = Number.NaN;
+    this.events = 0;
+    this.cycles = 0;
+    this.riseS = this.fallS = this.upperV = Number.NaN;
+    this.lastRiseT = this.lastRiseV = this.lastFallT = this.riseDoneT = this.fallDoneT = Number.NaN;
+    if (this.logic) {
+      this.lastRiseT = 0;
+      this.lastRiseV = this.v;
+    } else {
+      this.lastFallT = 0;
+      this.upperV = this.v;
+    }
+    this.flippedNow = false;
+    this.recordDecision();
+    return true;
   }
 
   /** Walk until the cycle repeats. */

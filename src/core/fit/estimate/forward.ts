@@ -7,7 +7,8 @@
  * copy of the physics here: only the reading of a solved cycle.
  */
 import { prepareCircuit, type PreparedCircuit } from '../../circuit/analyze.ts';
-import { powerUpState, requireHysteresis } from '../../circuit/closed-form.ts';
+import { requireHysteresis } from '../../circuit/closed-form.ts';
+import { walkToCycle } from '../../circuit/engine/prepared.ts';
 import { OscillatorWalk, type SteadyCycle } from '../../circuit/engine/walker.ts';
 import type { Circuit } from '../../circuit/types.ts';
 import { CoreError } from '../../errors.ts';
@@ -160,9 +161,7 @@ const mod = (x: number, m: number) => ((x % m) + m) % m;
 
 export function figuresOfPrepared(prepared: PreparedCircuit): PredictedFigures {
   requireHysteresis(prepared.high.switchingV, prepared.low.switchingV);
-  walk.reset(prepared);
-  walk.powerUp(powerUpState(prepared.high, prepared.low).initialState);
-  const cycle = walk.runToSteadyState();
+  const cycle = walkToCycle(walk, prepared.shape, prepared.values, prepared.dynamics);
   const r = new CycleReader(walk, cycle);
   const periodS = cycle.periodS;
 

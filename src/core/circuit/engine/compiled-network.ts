@@ -1,0 +1,619 @@
+/**
+ * The per-piece nodal solve, compiled (docs/model.md §1, §3). A circuit's SHAPE
+ * — topology, which roles are present, whether the output stage has its own
+ * resistance, a load, the steering-diode model — fixes every network the walk
+ * can meet: each configuration (output-stage mode × input clamp × diodes) is a
+ * list of branches whose ends never change; only their values do. So a shape
+ * compiles each configuration once into a stamping program (which parameter
+ * slot feeds which matrix cell) and then solves it for any parameter vector on
+ * preallocated buffers: no objects, no allocation per solve.
+ *
+ * Node voltages and the capacitor current come out affine in the capacitor
+ * voltage v and the output-stage source voltage s (stride 4 per node: constant,
+ * per v, per s, per unit current injected at the decision node — the Thevenin
+ * resistance used for the bias-current figure):
+ *
+ *     V_k = c0[k] + cv[k]·v + cs[k]·s          iCap = q0 + qv·v + qs·s
+ *
+ * reduced at once to the coefficients the walk needs (ConfigModel). This is the
+ * only network solve in the service; there is no second, object-based copy.
+ */
+import type { AmplifierModel } from '../../amplifiers/model.ts';
+import { NODE } from '../nodes.ts';
+import type { Branch } from '../network.ts';
+import type { TopologyDefinition } from '../topologies/topology.ts';
+import type { Circuit, PieceConfig } from '../types.ts';
+
+/** Kinds of entry in a parameter vector. */
+export type ParameterKind = 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load';
+
+export interface ParameterInfo {
+  name: string;
+  kind: ParameterKind;
+}
+
+/** Amplifier figures the model reads, in vector order (the first five shape the static network). */
+export const AMPLIFIER_PARAMETERS = [
+  'outputHeadroomHighV',
+  'outputHeadroomLowV',
+  'outputResistanceOhm',
+  'inputOffsetV',
+  'inputBiasCurrentA',
+  'slewRateVPerS',
+  'recoveryDelayS',
+  'outputCurrentLimitA',
+  'differentialClampV',
+] as const satisfies readonly (keyof AmplifierModel)[];
+export type AmplifierParameter = (typeof AMPLIFIER_PARAMETERS)[number];
+export const SUPPLY_PARAMETERS = ['supplyPositiveV', 'supplyNegativeV'] as const;
+export const LOAD_PARAMETERS = ['loadResistanceOhm', 'loadReturnV'] as const;
+
+/** Output-stage modes. */
+export const STAGE = {
+  /** A voltage source (moving or settled) behind the output resistance. */
+  driven: 0,
+  /** Open drain released: nothing drives the pin (the pull-up sets it). */
+  released: 1,
+  /** Current limit while sourcing: a current source of +limit into the pin. */
+  limitedSource: 2,
+  /** Current limit while sinking: −limit. */
+  limitedSink: 3,
+} as const;
+
+/** Differential-input clamp modes. */
+export const CLAMP = { off: 0, pAboveN: 1, nAboveP: 2 } as const;
+
+/**
+ * Resistance of a conducting differential-input clamp, ohm. Amplifier models
+ * carry only the clamp voltage; 10 Ω stands for the incremental resistance of a
+ * small-signal diode pair at milliamperes (common practice, a value from memory).
+ * It is small against any threshold network, so the clamp holds |P − N| close to
+ * its voltage, which is what matters for timing.
+ */
+export const CLAMP_RESISTANCE_OHM = 10;
+
+export function configKey(stage: number, clamp: number, diodes: number): number {
+  return stage + 4 * clamp + 12 * diodes;
+}
+/** Configuration keys: 4 stage modes × 3 clamp modes × up to 4 diode combinations. */
+export const KEY_SPACE = 4 * 3 * 4;
+
+const STRIDE = 4;
+
+/**
+ * What one configuration solve yields (filled in place by CompiledConfig.solve;
+ * the walk's ConfigModel extends it with its event functions).
+ */
+export class NetworkCoefficients {
+  key = 0;
+  stage = 0;
+  clamp = 0;
+  diodes = 0;
+  /** dv/dt = b0 + bS·s − a·v (a = G/C, 1/s; b0 V/s; bS 1/s). */
+  a = 0;
+  b0 = 0;
+  bS = 0;
+  /** Decision node P = pC + pV·v + pS·s. */
+  pC = 0;
+  pV = 0;
+  pS = 0;
+  /** Thevenin resistance at the decision node, ohm. */
+  pR = 0;
+  /** Output pin. */
+  oC = 0;
+  oV = 0;
+  oS = 0;
+  /** Current out of the output stage into the pin, A (positive = sourcing). */
+  iC = 0;
+  iV = 0;
+  iS = 0;
+  /** Current the passive network draws from V+, A. */
+  railC = 0;
+  railV = 0;
+  railS = 0;
+  /** Steering-diode forward functions f = V_from − V_to − Vf, per diode (c, v, s triples). */
+  readonly diodeF = new Float64Array(6);
+}
+
+/** The parameter vector of a shape: roles present (role order), supply, amplifier figures, load. */
+export class ParameterLayout {
+  readonly parameters: readonly ParameterInfo[];
+  private readonly index = new Map<string, number>();
+  /** Slots of the part values (each must stay > 0). */
+  readonly roleSlots: Int32Array;
+  readonly capacitorSlot: number;
+
+  constructor(topology: TopologyDefinition, rolesPresent: readonly string[], hasLoad: boolean) {
+    const params: ParameterInfo[] = [];
+    for (const role of rolesPresent) params.push({ name: role, kind: topology.roles[role].kind });
+    for (const name of SUPPLY_PARAMETERS) params.push({ name, kind: 'supply' });
+    for (const name of AMPLIFIER_PARAMETERS) params.push({ name, kind: 'amplifier' });
+    if (hasLoad) for (const name of LOAD_PARAMETERS) params.push({ name, kind: 'load' });
+    this.parameters = params;
+    params.forEach((p, i) => this.index.set(p.name, i));
+    this.roleSlots = Int32Array.from(rolesPresent, (r) => this.index.get(r)!);
+    this.capacitorSlot = this.indexOf(topology.capacitorRole);
+  }
+
+  get length(): number {
+    return this.parameters.length;
+  }
+
+  /** Slot of a parameter, −1 when the shape has none of that name. */
+  indexOf(name: string): number {
+    return this.index.get(name) ?? -1;
+  }
+
+  /** The circuit's own values in this layout (a fresh vector). */
+  valuesOf(circuit: Circuit): Float64Array {
+    const v = new Float64Array(this.parameters.length);
+    const amp = circuit.amplifier;
+    this.parameters.forEach((p, i) => {
+      if (p.kind === 'resistor' || p.kind === 'capacitor') v[i] = circuit.parts[p.name];
+      else if (p.name === 'supplyPositiveV') v[i] = circuit.supply.positiveV;
+      else if (p.name === 'supplyNegativeV') v[i] = circuit.supply.negativeV;
+      else if (p.name === 'loadResistanceOhm') v[i] = circuit.load!.resistanceOhm;
+      else if (p.name === 'loadReturnV') v[i] = circuit.load!.returnV;
+      else v[i] = amp[p.name as AmplifierParameter];
+    });
+    return v;
+  }
+
+  /** The circuit these values describe: `base` with every parameter of the layout replaced. */
+  circuitAt(base: Circuit, values: ArrayLike<number>): Circuit {
+    const parts: Record<string, number> = {};
+    const amplifier: AmplifierModel = { ...base.amplifier };
+    const supply = { ...base.supply };
+    const load = base.load ? { ...base.load } : undefined;
+    this.parameters.forEach((p, i) => {
+      const v = values[i];
+      if (p.kind === 'resistor' || p.kind === 'capacitor') parts[p.name] = v;
+      else if (p.name === 'supplyPositiveV') supply.positiveV = v;
+      else if (p.name === 'supplyNegativeV') supply.negativeV = v;
+      else if (p.name === 'loadResistanceOhm') load!.resistanceOhm = v;
+      else if (p.name === 'loadReturnV') load!.returnV = v;
+      else amplifier[p.name as AmplifierParameter] = v;
+    });
+    const out: Circuit = { ...base, supply, amplifier, parts };
+    if (load) out.load = load;
+    return out;
+  }
+}
+
+/** One branch of a compiled configuration: resistance = values[slot] + offset (slot −1: offset alone). */
+interface CompiledBranch {
+  from: number;
+  to: number;
+  slot: number;
+  offsetOhm: number;
+  /** Series EMF = emfV + emfSign·values[emfSlot] (emfSlot −1: emfV alone). */
+  emfV: number;
+  emfSlot: number;
+  emfSign: number;
+}
+
+/** Op kinds: a[cell] += g·k  /  a[cell] += g·k·values[slot]. */
+const OP_G = 0;
+const OP_G_VALUE = 1;
+
+/** One configuration's stamping program and buffers. */
+class CompiledConfig {
+  readonly m: number;
+  readonly width: number;
+  readonly nodeCount: number;
+  readonly rowNode: Int32Array;
+  readonly decisionRow: number;
+  readonly outputRow: number;
+  readonly sourceNode: number;
+  readonly stage: number;
+  readonly branchSlot: Int32Array;
+  readonly branchOffset: Float64Array;
+  readonly branchFrom: Int32Array;
+  readonly branchTo: Int32Array;
+  readonly branchEmf: Float64Array;
+  readonly branchEmfSlot: Int32Array;
+  readonly branchEmfSign: Float64Array;
+  readonly opBranch: Int32Array;
+  readonly opCell: Int32Array;
+  readonly opKind: Uint8Array;
+  readonly opScale: Float64Array;
+  readonly opSlot: Int32Array;
+  /** Branches touching N, the source node and V+ (current sums). */
+  readonly capBranches: Int32Array;
+  readonly sourceBranches: Int32Array;
+  readonly railBranches: Int32Array;
+  readonly matrix: Float64Array;
+  readonly coeff: Float64Array;
+  readonly conductance: Float64Array;
+  readonly fixedSlot: Int32Array;
+
+  constructor(
+    shape: CompiledShape,
+    readonly key: number,
+    branches: CompiledBranch[],
+    readonly diodeTerminals: readonly { from: number; to: number; emfV: number }[],
+  ) {
+    const stage = key % 4;
+    this.stage = stage;
+    const layout = shape.layout;
+    const nodeCount = NODE.firstInternal + shape.topology.internalNodeCount;
+    this.nodeCount = nodeCount;
+    const driven = stage === STAGE.driven;
+    let sourceNode: number;
+    const fixed = new Uint8Array(nodeCount);
+    fixed[NODE.ground] = fixed[NODE.positiveRail] = fixed[NODE.negativeRail] = fixed[NODE.loadReturn] = 1;
+    if (!driven) {
+      // Released or current-limited: no voltage source; the unused source node is parked at 0 V.
+      sourceNode = -1;
+      fixed[NODE.source] = 1;
+    } else if (shape.outputResistanceSeparate) {
+      sourceNode = NODE.source;
+      branches.push({ from: NODE.source, to: NODE.output, slot: layout.indexOf('outputResistanceOhm'), offsetOhm: 0, emfV: 0, emfSlot: -1, emfSign: 0 });
+    } else {
+      // A stiff output: the pin itself is the source.
+      sourceNode = NODE.output;
+      fixed[NODE.source] = 1;
+    }
+    this.sourceNode = sourceNode;
+    if (shape.hasLoad) {
+      branches.push({ from: NODE.output, to: NODE.loadReturn, slot: layout.indexOf('loadResistanceOhm'), offsetOhm: 0, emfV: 0, emfSlot: -1, emfSign: 0 });
+    }
+    const clamp = Math.floor(key / 4) % 3;
+    const clampSlot = layout.indexOf('differentialClampV');
+    if (clamp === CLAMP.pAboveN) {
+      branches.push({ from: NODE.decision, to: NODE.capacitor, slot: -1, offsetOhm: CLAMP_RESISTANCE_OHM, emfV: 0, emfSlot: clampSlot, emfSign: 1 });
+    } else if (clamp === CLAMP.nAboveP) {
+      branches.push({ from: NODE.capacitor, to: NODE.decision, slot: -1, offsetOhm: CLAMP_RESISTANCE_OHM, emfV: 0, emfSlot: clampSlot, emfSign: 1 });
+    }
+    const row = new Int32Array(nodeCount).fill(-1);
+    const rowNode: number[] = [];
+    for (let k = 0; k < nodeCount; k++) {
+      if (k === NODE.capacitor || k === sourceNode || fixed[k]) continue;
+      row[k] = rowNode.length;
+      rowNode.push(k);
+    }
+    const m = rowNode.length;
+    const width = m + STRIDE;
+    this.m = m;
+    this.width = width;
+    this.rowNode = Int32Array.from(rowNode);
+    this.decisionRow = row[NODE.decision];
+    this.outputRow = row[NODE.output];
+    const fixedSlot = new Int32Array(nodeCount).fill(-1);
+    fixedSlot[NODE.positiveRail] = layout.indexOf('supplyPositiveV');
+    fixedSlot[NODE.negativeRail] = layout.indexOf('supplyNegativeV');
+    if (shape.hasLoad) fixedSlot[NODE.loadReturn] = layout.indexOf('loadReturnV');
+    this.fixedSlot = fixedSlot;
+
+    const ops: { branch: number; cell: number; kind: number; scale: number; slot: number }[] = [];
+    // KCL row of p for a branch p→q with series EMF e (current (V_p − V_q − e)·g leaves p).
+    const stampEnd = (j: number, p: number, q: number, sign: number) => {
+      const rp = row[p];
+      if (rp < 0) return;
+      const b = branches[j];
+      const base = rp * width;
+      ops.push({ branch: j, cell: base + rp, kind: OP_G, scale: 1, slot: -1 });
+      if (b.emfV !== 0) ops.push({ branch: j, cell: base + m, kind: OP_G, scale: sign * b.emfV, slot: -1 });
+      if (b.emfSlot >= 0) ops.push({ branch: j, cell: base + m, kind: OP_G_VALUE, scale: sign * b.emfSign, slot: b.emfSlot });
+      const rq = row[q];
+      if (rq >= 0) ops.push({ branch: j, cell: base + rq, kind: OP_G, scale: -1, slot: -1 });
+      else if (q === NODE.capacitor) ops.push({ branch: j, cell: base + m + 1, kind: OP_G, scale: 1, slot: -1 });
+      else if (q === sourceNode) ops.push({ branch: j, cell: base + m + 2, kind: OP_G, scale: 1, slot: -1 });
+      else if (fixedSlot[q] >= 0) ops.push({ branch: j, cell: base + m, kind: OP_G_VALUE, scale: 1, slot: fixedSlot[q] });
+    };
+    const capB: number[] = [];
+    const srcB: number[] = [];
+    const railB: number[] = [];
+    branches.forEach((b, j) => {
+      stampEnd(j, b.from, b.to, 1);
+      stampEnd(j, b.to, b.from, -1);
+      if (b.from === NODE.capacitor || b.to === NODE.capacitor) capB.push(j);
+      if (sourceNode >= 0 && (b.from === sourceNode || b.to === sourceNode)) srcB.push(j);
+      if (b.from === NODE.positiveRail || b.to === NODE.positiveRail) railB.push(j);
+    });
+    this.branchSlot = Int32Array.from(branches, (b) => b.slot);
+    this.branchOffset = Float64Array.from(branches, (b) => b.offsetOhm);
+    this.branchFrom = Int32Array.from(branches, (b) => b.from);
+    this.branchTo = Int32Array.from(branches, (b) => b.to);
+    this.branchEmf = Float64Array.from(branches, (b) => b.emfV);
+    this.branchEmfSlot = Int32Array.from(branches, (b) => b.emfSlot);
+    this.branchEmfSign = Float64Array.from(branches, (b) => b.emfSign);
+    this.opBranch = Int32Array.from(ops, (o) => o.branch);
+    this.opCell = Int32Array.from(ops, (o) => o.cell);
+    this.opKind = Uint8Array.from(ops, (o) => o.kind);
+    this.opScale = Float64Array.from(ops, (o) => o.scale);
+    this.opSlot = Int32Array.from(ops, (o) => o.slot);
+    this.capBranches = Int32Array.from(capB);
+    this.sourceBranches = Int32Array.from(srcB);
+    this.railBranches = Int32Array.from(railB);
+    this.matrix = new Float64Array(m * width);
+    this.coeff = new Float64Array(nodeCount * STRIDE);
+    this.conductance = new Float64Array(branches.length);
+  }
+
+  private emfOf(j: number, values: ArrayLike<number>): number {
+    const slot = this.branchEmfSlot[j];
+    return slot >= 0 ? this.branchEmf[j] + this.branchEmfSign[j] * values[slot] : this.branchEmf[j];
+  }
+
+  /**
+   * Solve for `values` and write the reduced coefficients into `out`. False when
+   * a node floats (no DC path) or a resistance is not a positive finite value.
+   */
+  solve(values: ArrayLike<number>, capacitanceF: number, biasA: number, limitA: number, out: NetworkCoefficients): boolean {
+    const { m, width, matrix: a, coeff, rowNode, conductance, fixedSlot } = this;
+    const nb = conductance.length;
+    for (let j = 0; j < nb; j++) {
+      const slot = this.branchSlot[j];
+      const r = slot >= 0 ? values[slot] + this.branchOffset[j] : this.branchOffset[j];
+      if (!(r > 0) || r === Infinity) return false;
+      conductance[j] = 1 / r;
+    }
+    a.fill(0);
+    coeff.fill(0);
+    for (let k = 0; k < this.nodeCount; k++) if (fixedSlot[k] >= 0) coeff[k * STRIDE] = values[fixedSlot[k]];
+    coeff[NODE.capacitor * STRIDE + 1] = 1;
+    if (this.sourceNode >= 0) coeff[this.sourceNode * STRIDE + 2] = 1;
+    // Bias current flows into the input pins, i.e. out of the network at P and N.
+    if (this.decisionRow >= 0) {
+      a[this.decisionRow * width + m] = -biasA;
+      a[this.decisionRow * width + m + 3] = 1; // unit probe current: the Thevenin resistance at P
+    }
+    if (this.outputRow >= 0 && (this.stage === STAGE.limitedSource || this.stage === STAGE.limitedSink)) {
+      // The stage is a current source into the pin while limited.
+      a[this.outputRow * width + m] += this.stage === STAGE.limitedSource ? limitA : -limitA;
+    }
+    const ops = this.opKind.length;
+    for (let o = 0; o < ops; o++) {
+      const g = conductance[this.opBranch[o]];
+      if (this.opKind[o] === OP_G) a[this.opCell[o]] += g * this.opScale[o];
+      else a[this.opCell[o]] += g * this.opScale[o] * values[this.opSlot[o]];
+    }
+    if (!gaussJordan(a, m, width)) return false;
+    for (let r = 0; r < m; r++) {
+      const k = rowNode[r] * STRIDE;
+      const src = r * width + m;
+      coeff[k] = a[src];
+      coeff[k + 1] = a[src + 1];
+      coeff[k + 2] = a[src + 2];
+      coeff[k + 3] = a[src + 3];
+    }
+    // Current into the capacitor: the bias current drawn at N, minus what leaves N through branches.
+    let q0 = -biasA;
+    let qv = 0;
+    let qs = 0;
+    const N = NODE.capacitor;
+    for (let t = 0; t < this.capBranches.length; t++) {
+      const j = this.capBranches[t];
+      const g = conductance[j];
+      const from = this.branchFrom[j];
+      const other = (from === N ? this.branchTo[j] : from) * STRIDE;
+      const emf = from === N ? this.emfOf(j, values) : -this.emfOf(j, values);
+      q0 -= g * (-coeff[other] - emf);
+      qv -= g * (1 - coeff[other + 1]);
+      qs -= g * -coeff[other + 2];
+    }
+    out.a = -qv / capacitanceF;
+    out.b0 = q0 / capacitanceF;
+    out.bS = qs / capacitanceF;
+    const p = NODE.decision * STRIDE;
+    out.pC = coeff[p];
+    out.pV = coeff[p + 1];
+    out.pS = coeff[p + 2];
+    out.pR = coeff[p + 3];
+    const o = NODE.output * STRIDE;
+    out.oC = coeff[o];
+    out.oV = coeff[o + 1];
+    out.oS = coeff[o + 2];
+    out.iC = out.iV = out.iS = 0;
+    if (this.stage === STAGE.driven) this.leaving(this.sourceBranches, this.sourceNode, values, out, 0);
+    else if (this.stage === STAGE.limitedSource) out.iC = limitA;
+    else if (this.stage === STAGE.limitedSink) out.iC = -limitA;
+    this.leaving(this.railBranches, NODE.positiveRail, values, out, 1);
+    const dt = this.diodeTerminals;
+    for (let d = 0; d < dt.length; d++) {
+      const f = dt[d].from * STRIDE;
+      const t = dt[d].to * STRIDE;
+      out.diodeF[3 * d] = coeff[f] - coeff[t] - dt[d].emfV;
+      out.diodeF[3 * d + 1] = coeff[f + 1] - coeff[t + 1];
+      out.diodeF[3 * d + 2] = coeff[f + 2] - coeff[t + 2];
+    }
+    return true;
+  }
+
+  /** Sum of branch currents leaving `node`, into the output (which 0) or rail (which 1) fields. */
+  private leaving(list: Int32Array, node: number, values: ArrayLike<number>, out: NetworkCoefficients, which: 0 | 1): void {
+    const k = this.coeff;
+    let c = 0;
+    let v = 0;
+    let s = 0;
+    for (let n = 0; n < list.length; n++) {
+      const j = list[n];
+      const g = (this.branchFrom[j] === node ? 1 : -1) * this.conductance[j];
+      const f = this.branchFrom[j] * STRIDE;
+      const t = this.branchTo[j] * STRIDE;
+      c += g * (k[f] - k[t] - this.emfOf(j, values));
+      v += g * (k[f + 1] - k[t + 1]);
+      s += g * (k[f + 2] - k[t + 2]);
+    }
+    if (which === 0) {
+      out.iC = c;
+      out.iV = v;
+      out.iS = s;
+    } else {
+      out.railC = c;
+      out.railV = v;
+      out.railS = s;
+    }
+  }
+}
+
+/**
+ * Gauss–Jordan elimination with partial pivoting, in place, on an m×m system
+ * stored row-major with `width − m` right-hand sides after the matrix. False
+ * when a column has no pivot (a node without a DC path).
+ */
+export function gaussJordan(a: Float64Array, m: number, width: number): boolean {
+  for (let col = 0; col < m; col++) {
+    let pivot = col;
+    let best = Math.abs(a[col * width + col]);
+    for (let r = col + 1; r < m; r++) {
+      const v = Math.abs(a[r * width + col]);
+      if (v > best) {
+        best = v;
+        pivot = r;
+      }
+    }
+    if (!(best > 0)) return false;
+    if (pivot !== col) {
+      for (let c = 0; c < width; c++) {
+        const t = a[col * width + c];
+        a[col * width + c] = a[pivot * width + c];
+        a[pivot * width + c] = t;
+      }
+    }
+    const inv = 1 / a[col * width + col];
+    for (let c = col; c < width; c++) a[col * width + c] *= inv;
+    for (let r = 0; r < m; r++) {
+      if (r === col) continue;
+      const f = a[r * width + col];
+      if (f === 0) continue;
+      for (let c = col; c < width; c++) a[r * width + c] -= f * a[col * width + c];
+    }
+  }
+  return true;
+}
+
+/** The piece configuration a key stands for (state is irrelevant to the network: the source level is s). */
+function pieceOf(topology: TopologyDefinition, key: number): PieceConfig {
+  const stage = key % 4;
+  const diodes = Math.floor(key / 12);
+  const count = topology.diodeCount;
+  return {
+    state: 'high',
+    outputDriven: stage === STAGE.driven,
+    diodesOn: count > 0 ? Array.from({ length: count }, (_, k) => ((diodes >> k) & 1) === 1) : undefined,
+  };
+}
+
+/** What fixes a shape besides values: topology, roles present, output resistance > 0, load, diode model. */
+export function shapeKey(circuit: Circuit, topology: TopologyDefinition): string {
+  let key = topology.id;
+  for (const role of Object.keys(topology.roles)) if (circuit.parts[role] !== undefined) key += `|${role}`;
+  key += `|r${circuit.amplifier.outputResistanceOhm > 0 ? 1 : 0}|l${circuit.load ? 1 : 0}`;
+  if (topology.diodeCount > 0) key += `|d${circuit.diode ? `${circuit.diode.forwardDropV},${circuit.diode.resistanceOhm}` : '-'}`;
+  return key;
+}
+
+/**
+ * A compiled circuit shape: the parameter layout and, per configuration key,
+ * the stamping program (compiled the first time a walk enters it). Shapes carry
+ * no values, so one shape serves every circuit with the same key (shapeFor).
+ */
+export class CompiledShape {
+  readonly layout: ParameterLayout;
+  readonly hasLoad: boolean;
+  readonly outputResistanceSeparate: boolean;
+  readonly openDrain: boolean;
+  readonly diodeTerminals: readonly { from: number; to: number; emfV: number }[];
+  private readonly configs: (CompiledConfig | undefined)[] = new Array<CompiledConfig | undefined>(KEY_SPACE);
+  /** Per diode combination: the topology's branches mapped to parameter slots. */
+  private readonly topologyBranches = new Map<number, CompiledBranch[]>();
+
+  constructor(
+    readonly topology: TopologyDefinition,
+    /** The circuit the shape was compiled from (only its structure is used: roles present, diode model). */
+    private readonly template: Circuit,
+  ) {
+    const roles = Object.keys(topology.roles).filter((r) => template.parts[r] !== undefined);
+    this.hasLoad = template.load !== undefined;
+    this.outputResistanceSeparate = template.amplifier.outputResistanceOhm > 0;
+    this.openDrain = topology.needsOpenDrain;
+    this.layout = new ParameterLayout(topology, roles, this.hasLoad);
+    this.diodeTerminals = findDiodeTerminals(topology, template);
+  }
+
+  config(key: number): CompiledConfig {
+    let c = this.configs[key];
+    if (!c) {
+      const diodes = Math.floor(key / 12);
+      let mapped = this.topologyBranches.get(diodes);
+      if (!mapped) {
+        mapped = mapTopologyBranches(this.topology, this.template, pieceOf(this.topology, key), this.layout);
+        this.topologyBranches.set(diodes, mapped);
+      }
+      c = new CompiledConfig(this, key, mapped.slice(), this.diodeTerminals);
+      this.configs[key] = c;
+    }
+    return c;
+  }
+}
+
+/**
+ * Which role feeds each topology branch, found by rebuilding the branches with
+ * each role doubled: every built-in topology writes a branch as "one role plus
+ * a constant" (a steering diode's resistance). A topology that does anything
+ * else is a programming error, reported at once.
+ */
+function mapTopologyBranches(topology: TopologyDefinition, circuit: Circuit, piece: PieceConfig, layout: ParameterLayout): CompiledBranch[] {
+  const parts = circuit.parts;
+  const base: Branch[] = topology.branches(parts, piece, circuit.diode);
+  const dependsOn: number[] = base.map(() => -1);
+  for (const p of layout.parameters) {
+    if (p.kind !== 'resistor' && p.kind !== 'capacitor') continue;
+    const scaled = { ...parts, [p.name]: parts[p.name] * 2 };
+    const probe = topology.branches(scaled, piece, circuit.diode);
+    for (let j = 0; j < base.length; j++) {
+      const b0 = base[j];
+      const b1 = probe[j];
+      if (probe.length !== base.length || b0.from !== b1.from || b0.to !== b1.to || b0.emfV !== b1.emfV) {
+        throw new Error(`topology ${topology.id}: the branch structure depends on the value of ${p.name}`);
+      }
+      if (b1.resistanceOhm === b0.resistanceOhm) continue;
+      const delta = b1.resistanceOhm - b0.resistanceOhm;
+      if (dependsOn[j] !== -1 || Math.abs(delta - parts[p.name]) > 1e-12 * Math.abs(b1.resistanceOhm)) {
+        throw new Error(`topology ${topology.id}: branch ${b0.label} is not one role plus a constant`);
+      }
+      dependsOn[j] = layout.indexOf(p.name);
+    }
+  }
+  return base.map((b, j) => {
+    const slot = dependsOn[j];
+    return {
+      from: b.from,
+      to: b.to,
+      slot,
+      offsetOhm: slot >= 0 ? b.resistanceOhm - parts[layout.parameters[slot].name] : b.resistanceOhm,
+      emfV: b.emfV,
+      emfSlot: -1,
+      emfSign: 0,
+    };
+  });
+}
+
+/** Terminals and drop of each steering diode, from the all-conducting branch list. */
+function findDiodeTerminals(topology: TopologyDefinition, circuit: Circuit): { from: number; to: number; emfV: number }[] {
+  if (!topology.diodeCount || !topology.diodeLabels) return [];
+  const all = topology.branches(circuit.parts, { state: 'high', outputDriven: true, diodesOn: topology.diodeLabels.map(() => true) }, circuit.diode);
+  return topology.diodeLabels.map((label) => {
+    const b = all.find((x) => x.label === label);
+    if (!b) throw new Error(`topology ${topology.id} lists diode branch ${label} but does not produce it`);
+    return { from: b.from, to: b.to, emfV: b.emfV };
+  });
+}
+
+/** Shapes kept before the cache starts over (a service meets a handful). */
+const SHAPE_CACHE_LIMIT = 256;
+const shapes = new Map<string, CompiledShape>();
+
+/** The compiled shape of a (validated) circuit, compiled once per shape key per thread. */
+export function shapeFor(circuit: Circuit, topology: TopologyDefinition): CompiledShape {
+  const key = shapeKey(circuit, topology);
+  let shape = shapes.get(key);
+  if (!shape || shape.topology !== topology) {
+    if (shapes.size >= SHAPE_CACHE_LIMIT) shapes.clear();
+    shape = new CompiledShape(topology, circuit);
+    shapes.set(key, shape);
+  }
+  return shape;
+}

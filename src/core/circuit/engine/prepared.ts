@@ -1,0 +1,224 @@
+/**
+ * The prepared (compiled) model (docs/model.md §4): a circuit's shape compiled
+ * once, then evaluated for many parameter vectors without allocation. It is the
+ * walk itself — the same pieces, events and root solves analyzeCircuit uses —
+ * not a second model; what makes it fast is
+ * - the compiled network solve (compiled-network.ts) instead of building branch lists,
+ * - starting each vector's walk at the nominal's steady switching state
+ *   (OscillatorWalk.startFrom) instead of at power-up: near the nominal the
+ *   cycle repeats after one or two cycles (a settled output repeats exactly
+ *   after one; a slew-limited one that never settles converges geometrically
+ *   and the walk's Aitken step on the return map closes it). When that walk
+ *   does not converge, or the state does not carry over, the vector is walked
+ *   from power-up like any analysis;
+ * - reading only the timing figures (period, scope levels, 50 % crossings,
+ *   optionally the 10–90 % transitions) off the cycle.
+ * The closed form is the special case `dynamics = false`: no slew, delay, clamp
+ * or current-limit pieces, one exponential piece per state.
+ */
+import { CoreError } from '../../errors.ts';
+import type { Circuit } from '../types.ts';
+import type { ModelEffect, ModelName } from '../result.ts';
+import { CLAMP, configKey, STAGE, type CompiledShape, type ParameterInfo } from './compiled-network.ts';
+import { diodeBits } from './configs.ts';
+import { cycleLevels, phaseIn, pinCrossings, transitionDurations } from './figures.ts';
+import { OscillatorWalk, SteadyStart, type SteadyCycle } from './walker.ts';
+
+/** Result status of one evaluation (0 = oscillates; the figures are then in the output). */
+export const EVALUATION_STATUS = {
+  ok: 0,
+  /** A value is non-physical (resistance or capacitance <= 0, not finite). */
+  invalidValue: 1,
+  /** The capacitor has no charging path, a node floats, or the walk found no repeating cycle. */
+  noPath: 2,
+  /** No hysteresis, or a state that never reaches its threshold: the output latches. */
+  latched: 3,
+} as const;
+export type EvaluationStatus = (typeof EVALUATION_STATUS)[keyof typeof EVALUATION_STATUS];
+
+/** Slots of the output buffer `evaluate` writes (levels and transitions as figures.ts defines them). */
+export const OUTPUT_SLOT = { periodS: 0, dutyCycle: 1, timeHighS: 2, timeLowS: 3, highV: 4, lowV: 5, riseTimeS: 6, fallTimeS: 7 } as const;
+export const OUTPUT_LENGTH = 8;
+
+/** The effects a model with these amplifier figures includes (dynamics off: none). */
+export function effectsOf(values: ArrayLike<number>, shape: CompiledShape, dynamics: boolean): ModelEffect[] {
+  if (!dynamics) return [];
+  const l = shape.layout;
+  const out: ModelEffect[] = [];
+  if (Number.isFinite(values[l.indexOf('slewRateVPerS')])) out.push('slew-rate');
+  if (values[l.indexOf('recoveryDelayS')] > 0) out.push('recovery-delay');
+  if (Number.isFinite(values[l.indexOf('outputCurrentLimitA')])) out.push('current-limit');
+  if (Number.isFinite(values[l.indexOf('differentialClampV')])) out.push('input-clamp');
+  return out;
+}
+
+/** Key of a state's nominal configuration (open drain released when high, the topology's nominal diodes). */
+export function nominalKey(shape: CompiledShape, state: 'high' | 'low'): number {
+  const stage = shape.openDrain && state === 'high' ? STAGE.released : STAGE.driven;
+  return configKey(stage, CLAMP.off, diodeBits(shape.topology.nominalDiodes?.(state)));
+}
+
+/**
+ * One walk shared by every evaluation in this thread: evaluations are
+ * synchronous and never re-entered, so recycling its buffers keeps a stream of
+ * them allocation-free (each worker thread has its own module state).
+ */
+export const sharedWalk = new OscillatorWalk();
+const levels = new Float64Array(2);
+const crossings = new Float64Array(2);
+const transitions = new Float64Array(2);
+
+/**
+ * Walk `values` to its steady cycle: from `start` when given and it converges,
+ * else from power-up. Throws CoreError like an analysis would.
+ */
+export function walkToCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, start?: SteadyStart): SteadyCycle {
+  walk.reset(shape, values, dynamics);
+  const high = walk.cache.get(nominalKey(shape, 'high'));
+  const low = walk.cache.get(nominalKey(shape, 'low'));
+  // Switching levels of the nominal states (requireHysteresis and powerUpState on the same numbers).
+  const upperV = (high.hC + high.hS * (shape.openDrain ? 0 : walk.highV)) / -high.hV;
+  const lowerV = (low.hC + low.hS * walk.lowV) / -low.hV;
+  if (!(upperV > lowerV)) {
+    throw new CoreError('no-oscillation', 'No hysteresis: the upper threshold is not above the lower one, so the output cannot hold a state', undefined, {
+      upperThresholdV: upperV,
+      lowerThresholdV: lowerV,
+    });
+  }
+  if (start?.valid && walk.startFrom(start)) {
+    try {
+      return walk.runToSteadyState();
+    } catch (err) {
+      if (!(err instanceof CoreError)) throw err;
+      walk.reset(shape, values, dynamics); // and walk from power-up below
+    }
+  }
+  walk.powerUp(0 < upperV ? 'high' : 'low');
+  return walk.runToSteadyState();
+}
+
+export interface PrepareModelOptions {
+  /** False: the closed-form special case (no slew, delay, clamp or current-limit pieces). */
+  dynamics?: boolean;
+  /** Also compute the 10–90 % transition durations (two more crossing searches per edge). */
+  transitions?: boolean;
+}
+
+/**
+ * A circuit prepared for many evaluations: the shape's parameter layout, the
+ * circuit's own values (nominal) and the nominal's steady switching state.
+ * Create it with prepareModel (circuit/analyze.ts), which validates first.
+ */
+export class PreparedModel {
+  readonly parameters: readonly ParameterInfo[];
+  readonly nominal: Float64Array;
+  readonly dynamics: boolean;
+  readonly effects: readonly ModelEffect[];
+  readonly model: ModelName;
+  private readonly start = new SteadyStart();
+  private readonly wantTransitions: boolean;
+  private readonly roleSlots: Int32Array;
+  private readonly slewSlot: number;
+  private readonly delaySlot: number;
+  private readonly limitSlot: number;
+  private readonly clampSlot: number;
+
+  constructor(
+    readonly shape: CompiledShape,
+    readonly circuit: Circuit,
+    options: PrepareModelOptions = {},
+  ) {
+    const layout = shape.layout;
+    this.parameters = layout.parameters;
+    this.nominal = layout.valuesOf(circuit);
+    this.dynamics = options.dynamics ?? true;
+    this.wantTransitions = options.transitions ?? false;
+    this.effects = effectsOf(this.nominal, shape, this.dynamics);
+    this.model = this.effects.length > 0 ? 'time-domain' : 'closed-form';
+    this.roleSlots = layout.roleSlots;
+    this.slewSlot = layout.indexOf('slewRateVPerS');
+    this.delaySlot = layout.indexOf('recoveryDelayS');
+    this.limitSlot = layout.indexOf('outputCurrentLimitA');
+    this.clampSlot = layout.indexOf('differentialClampV');
+    // The nominal's steady state, the start of every later walk (a circuit that does not oscillate has none).
+    try {
+      walkToCycle(sharedWalk, shape, this.nominal, this.dynamics);
+      sharedWalk.snapshot(this.start);
+    } catch (err) {
+      if (!(err instanceof CoreError)) throw err;
+      this.start.valid = false;
+    }
+  }
+
+  indexOf(name: string): number {
+    return this.shape.layout.indexOf(name);
+  }
+
+  /** The circuit these values describe. */
+  circuitAt(values: ArrayLike<number>): Circuit {
+    return this.shape.layout.circuitAt(this.circuit, values);
+  }
+
+  private valid(values: ArrayLike<number>): boolean {
+    for (let i = 0; i < this.roleSlots.length; i++) {
+      const v = values[this.roleSlots[i]];
+      if (!(v > 0) || v === Infinity) return false;
+    }
+    if (this.dynamics) {
+      if (!(values[this.slewSlot] > 0) || !(values[this.delaySlot] >= 0) || !(values[this.limitSlot] > 0) || !(values[this.clampSlot] > 0)) return false;
+    }
+    return true;
+  }
+
+  /**
+   * Timing figures for one parameter vector into out (OUTPUT_SLOT order); on
+   * failure NaN and the status. Allocation-free.
+   */
+  evaluate(values: ArrayLike<number>, out: Float64Array): EvaluationStatus {
+    if (!this.valid(values)) return fail(out, EVALUATION_STATUS.invalidValue);
+    const walk = sharedWalk;
+    let cycle: SteadyCycle;
+    try {
+      cycle = walkToCycle(walk, this.shape, values, this.dynamics, this.start);
+    } catch (err) {
+      if (!(err instanceof CoreError)) throw err;
+      if (err.code === 'no-oscillation') return fail(out, err.message.startsWith('The network has a floating node') ? EVALUATION_STATUS.noPath : EVALUATION_STATUS.latched);
+      if (err.code === 'not-converged') return fail(out, EVALUATION_STATUS.noPath);
+      return fail(out, EVALUATION_STATUS.invalidValue);
+    }
+    readTiming(walk, cycle, out, this.wantTransitions);
+    return EVALUATION_STATUS.ok;
+  }
+}
+
+function fail(out: Float64Array, status: EvaluationStatus): EvaluationStatus {
+  out.fill(Number.NaN);
+  return status;
+}
+
+/** Period, duty, scope levels and (optionally) transitions of a walked cycle into out (OUTPUT_SLOT order). */
+export function readTiming(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array, withTransitions: boolean): void {
+  const periodS = cycle.periodS;
+  cycleLevels(walk, cycle, levels);
+  const highV = levels[0];
+  const lowV = levels[1];
+  let timeHighS = Number.NaN;
+  if (!Number.isNaN(highV) && !Number.isNaN(lowV)) {
+    pinCrossings(walk, cycle, 0.5 * (highV + lowV), crossings);
+    if (!Number.isNaN(crossings[0]) && !Number.isNaN(crossings[1])) timeHighS = phaseIn(crossings[1] - crossings[0], periodS);
+  }
+  if (Number.isNaN(timeHighS)) timeHighS = cycle.decisionHighS; // the pin never crosses its midpoint: the decision intervals
+  out[0] = periodS;
+  out[1] = timeHighS / periodS;
+  out[2] = timeHighS;
+  out[3] = periodS - timeHighS;
+  out[4] = highV;
+  out[5] = lowV;
+  if (withTransitions && !Number.isNaN(highV) && !Number.isNaN(lowV)) {
+    transitionDurations(walk, cycle, highV, lowV, transitions);
+    out[6] = transitions[0];
+    out[7] = transitions[1];
+  } else {
+    out[6] = out[7] = Number.NaN;
+  }
+}
