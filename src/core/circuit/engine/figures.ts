@@ -211,7 +211,6 @@ export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: n
   const d = walk.log.data;
   let riseAt = Number.NaN;
   let fallAt = Number.NaN;
-  const pieces = cycle.endIndex - cycle.startIndex;
   const pinAt = (i: number, end: boolean) => {
     const b = i * LOG_STRIDE;
     const cfg = walk.cache.get(d[b + LOG.key]);
