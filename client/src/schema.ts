@@ -2236,10 +2236,12 @@ export interface components {
                 figuresBasis: string;
             };
             /**
-             * @description Which model answered
+             * @description Which model answered: the walk of exactly solved pieces; 'closed-form' is its special case with no amplifier effect active (one exponential per state)
              * @enum {string}
              */
             model: "closed-form" | "time-domain";
+            /** @description Amplifier effects included in the model that produced this answer (empty: the closed-form special case) */
+            modelEffects: ("slew-rate" | "recovery-delay" | "current-limit" | "input-clamp")[];
             frequencyHz: number;
             periodS: number;
             /** @description Fraction of the period the output is high, between 50 % crossings */
@@ -2254,9 +2256,22 @@ export interface components {
                 hysteresisV: number;
             };
             output: {
+                /** @description High state level as a scope shows it (IEEE Std 181-2011): the level the output settles to, V */
                 highV: number;
+                /** @description Low state level as a scope shows it (IEEE Std 181-2011), V */
                 lowV: number;
+                /** @description highV − lowV, V */
                 swingV: number;
+                /** @description Time-mean of the output over the high drive interval (recovery delay and slew included), V */
+                meanHighV: number;
+                /** @description Time-mean of the output over the low drive interval, V */
+                meanLowV: number;
+            };
+            transitions: {
+                /** @description Output 10–90 % rise time (IEEE Std 181-2011 reference levels), s (0: instant edge) */
+                riseTimeS: number;
+                /** @description Output 90–10 % fall time, s */
+                fallTimeS: number;
             };
             capacitor: {
                 minV: number;
@@ -3343,6 +3358,8 @@ export interface components {
             topology: string;
             /** @description Which model evaluated every point */
             model: "closed-form" | "time-domain";
+            /** @description Amplifier effects included in the model that produced this answer (empty: the closed-form special case) */
+            modelEffects: ("slew-rate" | "recovery-delay" | "current-limit" | "input-clamp")[];
             nominal: {
                 frequencyHz: number;
                 dutyCycle: number;
