@@ -3166,29 +3166,59 @@ export interface components {
                 };
             };
         };
-        /** @description Values default to E24 resistors and E12 capacitors when `values` is omitted. `diode` models the steering diodes of diode-steered designs (default 0.6 V forward drop, 10 Ω); each such design's `circuit` carries the model it was analysed with. */
+        /** @description Values default to E24 resistors at 1 % and E12 capacitors at 5 % (C0G) when `values` is omitted. `diode` models the steering diodes of diode-steered designs (default 0.6 V forward drop, 10 Ω); each such design's `circuit` carries the model it was analysed with. */
         DesignRequest: {
+            /** @description Target frequency, Hz */
             targetFrequencyHz: number;
             /**
              * @description Fraction of the period the output is high; 0.1..0.9 by threshold placement, beyond that by diode steering
              * @default 0.5
              */
             targetDutyCycle?: number;
-            /** @description Absolute duty-cycle tolerance (default 0.02) */
+            /**
+             * @description Absolute duty-cycle tolerance the built board must meet
+             * @default 0.02
+             */
             dutyTolerance?: number;
             /**
-             * @description Largest |frequencyError| a design may have, fraction
-             * @default 0.01
+             * @description Frequency tolerance the built board must meet, fraction: the nominal design lies inside it and the yield counts boards inside it
+             * @default 0.05
              */
             frequencyTolerance?: number;
             supply: components["schemas"]["Supply"];
             amplifier: components["schemas"]["AmplifierSpec"];
             values?: components["schemas"]["ValueSources"];
             constraints?: {
+                /**
+                 * @description Resistor window, lower end, ohm
+                 * @default 1000
+                 */
                 rMinOhm?: number;
+                /**
+                 * @description Resistor window, upper end, ohm
+                 * @default 1000000
+                 */
                 rMaxOhm?: number;
+                /**
+                 * @description Timing-capacitor window, lower end, F (raised to 50× nodeCapacitanceF when that is higher)
+                 * @default 1e-10
+                 */
                 cMinF?: number;
+                /**
+                 * @description Timing-capacitor window, upper end, F
+                 * @default 0.00001
+                 */
                 cMaxF?: number;
+                /**
+                 * @description Stray plus input capacitance at the inverting input, F; the timing capacitor is kept at least 50× above it
+                 * @default 5e-12
+                 */
+                nodeCapacitanceF?: number;
+                /**
+                 * @description Offer class II/III ceramic timing capacitors (then a warning; otherwise refused, as in analyze and BOM checks). Electrolytics are never offered.
+                 * @default false
+                 */
+                allowHighKDielectric?: boolean;
                 /** @description Allowed dielectric codes for catalogue timing capacitors */
                 dielectrics?: string[];
                 /** @description Mean supply current budget including the amplifier, A */
@@ -3199,9 +3229,41 @@ export interface components {
             diode?: components["schemas"]["Diode"];
             /** @default 5 */
             count?: number;
+            /** @description Each design's worst case and Monte Carlo yield against frequencyTolerance and dutyTolerance, over the parts' tolerances (from their series or catalogue), their temperature behaviour over the range and the supply tolerance. */
+            robustness?: {
+                /** @description Board temperature range, °C (default 0 to 70) */
+                temperature?: {
+                    minC: number;
+                    maxC: number;
+                };
+                /**
+                 * @description Both rails within ± this fraction
+                 * @default 0.05
+                 */
+                supplyTolerance?: number;
+                /**
+                 * @description Tempco of resistors whose source states none (metal film, common practice), ppm/K
+                 * @default 100
+                 */
+                resistorTempcoPpmPerK?: number;
+                /**
+                 * @description Dielectric assumed for series capacitors (catalogue parts carry their own)
+                 * @default C0G
+                 */
+                capacitorDielectric?: string;
+                /**
+                 * @description Monte Carlo samples per design (normal, tolerance = 3σ)
+                 * @default 1000
+                 */
+                samples?: number;
+                /** @default 1 */
+                seed?: number;
+                /** @description Offer only designs whose yield reaches this fraction (422 when none does) */
+                minYield?: number;
+            };
         };
         DesignResponse: {
-            /** @description Ranked by the share of the frequency and duty tolerances used (|frequencyError|/frequencyTolerance + |dutyCycleError|/dutyTolerance), best first */
+            /** @description Ranked by yield (whole percent), then the margin left at the worst corner, then practicality, best first */
             designs: {
                 rank: number;
                 topology: string;
@@ -3213,6 +3275,49 @@ export interface components {
                 dutyCycleError: number;
                 /** @description Hysteresis the design was built around, as a fraction of the output swing */
                 hysteresisFraction: number;
+                robustness: {
+                    /** @description Fraction of Monte Carlo boards inside both tolerances */
+                    yield: number;
+                    yieldStandardError: number;
+                    /** @description Wilson score interval */
+                    yieldInterval95: {
+                        low: number;
+                        high: number;
+                    };
+                    samples: number;
+                    seed: number;
+                    worstCase: {
+                        frequencyMinHz: number;
+                        frequencyMaxHz: number;
+                        dutyMin: number;
+                        dutyMax: number;
+                        withinSpec: boolean;
+                    };
+                    /** @description Share of the tolerance left at the worst corner (smaller of frequency and duty); negative when a corner leaves the spec */
+                    marginFraction: number;
+                    /** @description Tolerance each role was given, fraction */
+                    partTolerances: {
+                        [key: string]: number;
+                    };
+                    model: "closed-form" | "time-domain";
+                };
+                practicality: {
+                    /** @description 0 when every value sits in the geometric middle of its window, 1 at an edge */
+                    edgeProximity: number;
+                    supplyCurrentA: number;
+                    partCount: number;
+                    /** @description Smaller is more practical (edge proximity, part count, supply current; our weighting) */
+                    score: number;
+                };
+                /** @description What bounds each role: the window, output drive, bias-current error, supply budget or stray capacitance */
+                limits: {
+                    role: string;
+                    min: number;
+                    max: number;
+                    minReason: string;
+                    maxReason: string;
+                    atLimit: "min" | "max" | null;
+                }[];
                 circuit: components["schemas"]["Circuit"];
                 checks: components["schemas"]["Check"][];
             }[];

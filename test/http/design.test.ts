@@ -81,10 +81,11 @@ describe('POST /v1/design', () => {
   it('answers 422 with the closest design when none meets the tolerance', async () => {
     const res = await post('/v1/design', {
       targetFrequencyHz: 1234,
-      frequencyTolerance: 1e-7,
+      frequencyTolerance: 1e-4,
       supply: { positiveV: 5 },
       amplifier: 'cmos-rrio-fast',
       values: { resistor: { series: 'E3' }, capacitor: { series: 'E3' } },
+      constraints: { rMinOhm: 10e3, rMaxOhm: 47e3, cMinF: 10e-9, cMaxF: 22e-9 },
     });
     expect(res.statusCode).toBe(422);
     expect(typeof res.json().figures.bestFrequencyError).toBe('number');
@@ -136,18 +137,18 @@ describe('POST /v1/design beyond threshold placement (diode steering)', () => {
   it('answers 422 at /targetDutyCycle when the duty needs a resistor ratio the bounds do not allow', async () => {
     const res = await post('/v1/design', {
       targetFrequencyHz: 1000,
-      targetDutyCycle: 0.002,
+      targetDutyCycle: 0.01,
       dutyTolerance: 0.001,
       supply: { positiveV: 5 },
       amplifier: 'cmos-rrio-fast',
-      constraints: { rMinOhm: 1e3, rMaxOhm: 220e3 },
+      constraints: { rMinOhm: 1e3, rMaxOhm: 47e3 },
     });
     expect(res.statusCode).toBe(422);
     expect(res.json().code).toBe('infeasible');
     expect(res.json().errors[0].pointer).toBe('/targetDutyCycle');
     expect(res.json().detail).toMatch(/ratio/);
     // Centred thresholds: the paths must stand in the ratio d/(1 − d) (hand derivation in steered-design.test.ts).
-    expect(res.json().figures.requiredResistanceRatio).toBeCloseTo(0.002 / 0.998, 9);
+    expect(res.json().figures.requiredResistanceRatio).toBeCloseTo(0.01 / 0.99, 9);
   });
 
   it('answers 422 for a duty cycle outside placement when the topologies named exclude steering', async () => {

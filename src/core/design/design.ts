@@ -20,16 +20,18 @@ import type { AnalysisResult } from '../circuit/result.ts';
 import { canonicalTopologyId, findTopology, TOPOLOGIES } from '../circuit/topologies/index.ts';
 import type { DiodeModel, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
-import { parseDielectric } from '../parts/dielectric.ts';
+import { ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
+import { parseDielectric, timingDielectricVerdict } from '../parts/dielectric.ts';
+import { checkRobustnessOptions, designRobustness, type DesignRobustness, type RobustnessOptions } from './robustness.ts';
 import { requireFeasibleRequest, timingResistorBounds } from './bounds.ts';
 import { DEFAULT_DUTY_TOLERANCE, jointSearch, type JointCandidate } from './joint-search.ts';
 import { NETWORK_BUDGET_SHARE, planWidth, type NetworkPlanContext } from './network-plan.ts';
-import { DEFAULT_RANGES, ValueSetCache, type RoleSources } from './role-sources.ts';
+import { ValueSetCache, type RoleSources } from './role-sources.ts';
 import { preferredScaleOhm } from './scales.ts';
 import type { RoleValue } from './snap-value.ts';
 import { designSteeredWidth, type RatioShortfall } from './steered-design.ts';
 import type { SteeredCandidate } from './steered-search.ts';
-import { screeningContext } from './thresholds.ts';
+import { screeningContext, timingFactors } from './thresholds.ts';
 
 export interface DesignConstraints {
   rMinOhm?: number;
@@ -40,6 +42,10 @@ export interface DesignConstraints {
   dielectrics?: readonly string[];
   /** Mean supply current budget including the amplifier's own, A. */
   maxSupplyCurrentA?: number;
+  /** Stray plus input capacitance at the timing capacitor's node, F (default DEFAULT_NODE_CAPACITANCE_F). */
+  nodeCapacitanceF?: number;
+  /** Offer class II/III ceramic timing capacitors (default false: refused, as everywhere else). */
+  allowHighKDielectric?: boolean;
 }
 
 export interface DesignRequest {
@@ -63,6 +69,28 @@ export interface DesignRequest {
   diode?: DiodeModel;
   /** Designs to return, default 5. */
   count?: number;
+  /** Tolerances, temperature, supply and Monte Carlo settings for each design's worst case and yield. */
+  robustness?: RobustnessOptions;
+}
+
+/** One role's allowed range and what sets each end. */
+export interface ValueLimit {
+  role: string;
+  min: number;
+  max: number;
+  minReason: string;
+  maxReason: string;
+  /** Which end the chosen value sits on (the first or last value the range allows), null when inside. */
+  atLimit: 'min' | 'max' | null;
+}
+
+export interface Practicality {
+  /** 0 when every value sits at the geometric middle of its window, 1 when at an edge (mean over roles). */
+  edgeProximity: number;
+  supplyCurrentA: number;
+  partCount: number;
+  /** Smaller is more practical: edgeProximity + 0.05·partCount + 0.2·log10(1 + supply current / 1 mA) (our weighting). */
+  score: number;
 }
 
 export interface Design {
@@ -77,6 +105,11 @@ export interface Design {
   checks: Check[];
   /** The diode model the design was analysed with (diode-steered designs). */
   diode?: DiodeModel;
+  /** Worst case and yield against the requested tolerances (absent only while ranking). */
+  robustness?: DesignRobustness;
+  practicality?: Practicality;
+  /** What bounds each role's value. */
+  limits: ValueLimit[];
 }
 
 export interface DesignResult {
@@ -86,6 +119,25 @@ export interface DesignResult {
 }
 
 export const DEFAULT_DESIGN_COUNT = 5;
+/**
+ * Default design windows (overridable through constraints): resistors 1 kΩ–1 MΩ (below, output drive and
+ * supply current grow; above, leakage, pickup and bias current matter — common practice), timing capacitor
+ * 100 pF–10 µF and at least NODE_CAPACITANCE_FACTOR × the stray and input capacitance at its node.
+ */
+export const DESIGN_WINDOWS = { resistor: { min: 1e3, max: 1e6 }, capacitor: { min: 100e-12, max: 10e-6 } } as const;
+/** Input plus board stray capacitance at the inverting input, F (from memory, typical of the class: a few pF each). */
+export const DEFAULT_NODE_CAPACITANCE_F = 5e-12;
+export const NODE_CAPACITANCE_FACTOR = 50;
+/** Request ranges that keep the search cost bounded by construction. */
+export const DESIGN_REQUEST_RANGES = {
+  targetFrequencyHz: { min: 1e-3, max: 1e8 },
+  targetDutyCycle: { min: 0.01, max: 0.99 },
+  dutyTolerance: { min: 1e-3, max: 0.25 },
+  frequencyTolerance: { min: 1e-4, max: 0.5 },
+  count: { min: 1, max: 20 },
+} as const;
+/** Designs whose worst case and yield are computed before the final ranking (the best by nominal error). */
+const ROBUSTNESS_POOL = 10;
 /** Hysteresis widths tried, as fractions of the swing: the three-equal-resistor third first (textbook), then narrower. */
 export const HYSTERESIS_FRACTIONS: readonly number[] = [1 / 3, 1 / 5, 1 / 8];
 /** Duty cycles reachable by threshold placement alone (wider needs diode steering). */
@@ -101,28 +153,36 @@ function defaultTopologies(supply: Supply): string[] {
 const isSteered = (id: string): boolean => findTopology(id)?.design?.timing.kind === 'steered';
 const STEERED_IDS = TOPOLOGIES.filter((t) => t.design?.timing.kind === 'steered').map((t) => t.id);
 
+function inRange(value: number, field: keyof typeof DESIGN_REQUEST_RANGES, unit = ''): void {
+  const r = DESIGN_REQUEST_RANGES[field];
+  if (!(value >= r.min && value <= r.max)) throw new CoreError('invalid-value', `${field} must lie within ${r.min}${unit} to ${r.max}${unit}`, `/${field}`);
+}
+
 function checkRequest(req: DesignRequest): { duty: number; count: number } {
-  const f = req.targetFrequencyHz;
-  if (!(f > 0) || !Number.isFinite(f)) throw new CoreError('invalid-value', 'targetFrequencyHz must be a finite frequency > 0', '/targetFrequencyHz');
+  inRange(req.targetFrequencyHz, 'targetFrequencyHz', ' Hz');
   const duty = req.targetDutyCycle ?? 0.5;
-  if (!(duty > 0 && duty < 1)) throw new CoreError('invalid-value', 'targetDutyCycle must lie strictly between 0 and 1', '/targetDutyCycle');
-  if (!(req.frequencyTolerance > 0)) throw new CoreError('invalid-value', 'frequencyTolerance must be > 0', '/frequencyTolerance');
+  inRange(duty, 'targetDutyCycle');
+  inRange(req.frequencyTolerance, 'frequencyTolerance');
+  if (req.dutyTolerance !== undefined) inRange(req.dutyTolerance, 'dutyTolerance');
   const count = req.count ?? DEFAULT_DESIGN_COUNT;
-  if (!(Number.isInteger(count) && count >= 1)) throw new CoreError('invalid-value', 'count must be a positive integer', '/count');
+  if (!Number.isInteger(count)) throw new CoreError('invalid-value', 'count must be an integer', '/count');
+  inRange(count, 'count');
   return { duty, count };
 }
 
-function dielectricChecks(capacitor: RoleValue): Check[] {
+/** The shared timing-dielectric verdict (dielectric.ts) on each part of the capacitor: design, analyze and BOM judge alike. */
+function dielectricChecks(capacitor: RoleValue, allowHighK: boolean): Check[] {
   const out: Check[] = [];
   for (const part of capacitor.parts) {
     if (!part.dielectric) continue;
-    const d = parseDielectric(part.dielectric);
-    if (!d.fitForTiming) {
+    const v = timingDielectricVerdict(parseDielectric(part.dielectric), { allowHighK });
+    if (v) {
       out.push({
-        code: 'timing-dielectric-unfit',
-        severity: 'warning',
-        message: `Timing capacitor ${part.partNumber ?? ''} uses ${d.code}: ${d.reason}`.replace('  ', ' '),
-        dielectric: d.code,
+        code: v.code,
+        severity: v.severity,
+        message: `Timing capacitor ${part.partNumber ?? ''} uses ${v.dielectric}: ${v.reason}`.replace('  ', ' '),
+        dielectric: v.dielectric,
+        hint: v.hint,
       });
     }
   }
@@ -169,7 +229,7 @@ function designRoles(topology: string): readonly string[] {
   return [...new Set([...d.thresholdNetworks.flatMap((n) => n.roles), ...timing])];
 }
 
-function toDesign(c: JointCandidate | SteeredCandidate, fraction: number, duty: number): Design {
+function toDesign(c: JointCandidate | SteeredCandidate, fraction: number, duty: number, windows: Record<string, Omit<ValueLimit, 'role' | 'atLimit'>>, allowHighK: boolean): Design {
   const timing = findTopology(c.topology)!.design!.timing;
   const diode = timing.kind === 'steered' ? (c.circuit.diode ?? timing.defaultDiode) : undefined;
   return {
@@ -181,7 +241,12 @@ function toDesign(c: JointCandidate | SteeredCandidate, fraction: number, duty: 
     dutyCycleError: c.analysis.dutyCycle - duty,
     hysteresisFraction: fraction,
     analysis: c.analysis,
-    checks: [...c.analysis.checks, ...dielectricChecks(c.parts.cTiming)],
+    checks: [...c.analysis.checks, ...dielectricChecks(c.parts[findTopology(c.topology)!.capacitorRole], allowHighK)],
+    limits: Object.entries(windows).map(([role, w]) => {
+      const v = c.parts[role]?.value;
+      const atLimit = v === undefined ? null : v <= w.min * (1 + 1e-9) ? 'min' : v >= w.max * (1 - 1e-9) ? 'max' : null;
+      return { role, ...w, atLimit };
+    }),
   };
 }
 
@@ -191,12 +256,25 @@ export function designOscillator(req: DesignRequest): DesignResult {
   const ctx = screeningContext(supply, amp);
   requireFeasibleRequest(supply, amp, ctx.levels, req.targetFrequencyHz);
   const c = req.constraints ?? {};
-  const rMin = c.rMinOhm ?? DEFAULT_RANGES.resistor.min;
-  const rMax = c.rMaxOhm ?? DEFAULT_RANGES.resistor.max;
-  const cMin = c.cMinF ?? DEFAULT_RANGES.capacitor.min;
-  const cMax = c.cMaxF ?? DEFAULT_RANGES.capacitor.max;
-  if (!(rMin > 0 && rMax >= rMin)) throw new CoreError('invalid-value', 'constraints.rMinOhm must be > 0 and not above rMaxOhm', '/constraints/rMinOhm');
-  if (!(cMin > 0 && cMax >= cMin)) throw new CoreError('invalid-value', 'constraints.cMinF must be > 0 and not above cMaxF', '/constraints/cMinF');
+  const robust = checkRobustnessOptions(req.robustness ?? {});
+  const rMin = c.rMinOhm ?? DESIGN_WINDOWS.resistor.min;
+  const rMax = c.rMaxOhm ?? DESIGN_WINDOWS.resistor.max;
+  const nodeF = c.nodeCapacitanceF ?? DEFAULT_NODE_CAPACITANCE_F;
+  if (!(nodeF >= 0 && nodeF <= 1e-9)) throw new CoreError('invalid-value', 'constraints.nodeCapacitanceF must lie within 0 to 1 nF', '/constraints/nodeCapacitanceF');
+  const strayFloorF = NODE_CAPACITANCE_FACTOR * nodeF;
+  const cWindowMin = c.cMinF ?? DESIGN_WINDOWS.capacitor.min;
+  const cMin = Math.max(cWindowMin, strayFloorF);
+  const cMax = c.cMaxF ?? DESIGN_WINDOWS.capacitor.max;
+  if (!(rMin >= 1 && rMax >= rMin && rMax <= 1e9)) throw new CoreError('invalid-value', 'constraints.rMinOhm/rMaxOhm must lie within 1 Ω to 1 GΩ with min <= max', '/constraints/rMinOhm');
+  if (!(cMin >= 1e-12 && cMax >= cMin && cMax <= 1)) throw new CoreError('invalid-value', 'constraints.cMinF/cMaxF must lie within 1 pF to 1 F with min <= max (the minimum also covers 50× the node capacitance)', '/constraints/cMinF');
+  const allowHighK = c.allowHighKDielectric === true;
+  const rWindow = { min: rMin, max: rMax, minReason: c.rMinOhm !== undefined ? 'constraints.rMinOhm' : 'resistor window 1 kΩ', maxReason: c.rMaxOhm !== undefined ? 'constraints.rMaxOhm' : 'resistor window 1 MΩ' };
+  const cWindow = {
+    min: cMin,
+    max: cMax,
+    minReason: cMin === strayFloorF ? `${NODE_CAPACITANCE_FACTOR}× the ${formatSi(nodeF, 'F')} stray and input capacitance at the inverting input` : c.cMinF !== undefined ? 'constraints.cMinF' : 'capacitor window 100 pF',
+    maxReason: c.cMaxF !== undefined ? 'constraints.cMaxF' : 'capacitor window 10 µF',
+  };
   let budgetA = Infinity;
   if (c.maxSupplyCurrentA !== undefined) {
     budgetA = c.maxSupplyCurrentA - amp.quiescentCurrentA;
@@ -214,12 +292,13 @@ export function designOscillator(req: DesignRequest): DesignResult {
     const known = topologies.some((t) => designRoles(t).includes(role));
     if (!known) throw new CoreError('unexpected-part', `No topology being designed has a role '${role}'`, `/values/roles/${role}`);
   }
-  const cache = new ValueSetCache(req.values, c.dielectrics);
+  const cache = new ValueSetCache(req.values, c.dielectrics, allowHighK);
   const plan: NetworkPlanContext = { ctx, amplifier: amp, cache, rMin, rMax, budgetA };
   const dutyTolerance = req.dutyTolerance ?? DEFAULT_DUTY_TOLERANCE;
   const designs: Design[] = [];
   let best: Design | undefined;
   const ratioShortfalls: RatioShortfall[] = [];
+  const reach = new ReachTracker();
   const keep = (d: Design) => {
     if (!best || Math.abs(d.frequencyError) < Math.abs(best.frequencyError)) best = d;
     const failing = d.checks.find((k) => k.severity === 'error');
@@ -254,7 +333,13 @@ export function designOscillator(req: DesignRequest): DesignResult {
           continue;
         }
         if (outcome.candidates.length === 0) notes.push(`${label}: no combination reaches the duty-cycle tolerance`);
-        for (const cand of outcome.candidates) keep(toDesign(cand, fraction, duty));
+        const windows = Object.fromEntries([
+          ...def.design!.thresholdNetworks.flatMap((n) => n.roles).map((role) => [role, rWindow] as const),
+          [paths.charge, outcome.limits.charge],
+          [paths.discharge, outcome.limits.discharge],
+          [paths.capacitor, cWindow],
+        ]);
+        for (const cand of outcome.candidates) keep(toDesign(cand, fraction, duty, windows, allowHighK));
         continue;
       }
       const width = planWidth(def.design!.thresholdNetworks[0], topology, fraction, duty, plan);
@@ -265,13 +350,35 @@ export function designOscillator(req: DesignRequest): DesignResult {
       const tb = timingResistorBounds(width.thresholds, ctx.levels, amp);
       let trMin = Math.max(rMin, tb.minOhm);
       const trMax = Math.min(rMax, tb.maxOhm);
-      if (Number.isFinite(budgetA)) trMin = Math.max(trMin, (ctx.levels.highV - width.thresholds.lowerV) / (budgetA * (1 - NETWORK_BUDGET_SHARE)));
+      let trMinReason = tb.minOhm > rMin ? tb.minReason : rWindow.minReason;
+      const trMaxReason = tb.maxOhm < rMax ? tb.maxReason : rWindow.maxReason;
+      if (Number.isFinite(budgetA)) {
+        const budgetMin = (ctx.levels.highV - width.thresholds.lowerV) / (budgetA * (1 - NETWORK_BUDGET_SHARE));
+        if (budgetMin > trMin) {
+          trMin = budgetMin;
+          trMinReason = 'constraints.maxSupplyCurrentA (half of what the amplifier leaves goes to the timing branch)';
+        }
+      }
       if (!(trMin <= trMax)) {
         notes.push(`${label}: no timing resistance satisfies ${tb.minReason} and ${tb.maxReason} within the resistor range`);
         continue;
       }
       const resistor = cache.forRole(topology, paths.resistor, { min: trMin, max: trMax });
       const capacitor = cache.forRole(topology, paths.capacitor, { min: cMin, max: cMax });
+      const factors = timingFactors(width.thresholds, ctx.levels);
+      if (factors) {
+        const rLo = resistor.values[0];
+        const rHi = resistor.values[resistor.values.length - 1];
+        const cLo = capacitor.values[0];
+        const cHi = capacitor.values[capacitor.values.length - 1];
+        const r0 = amp.outputResistanceOhm;
+        reach.offer(
+          1 / (factors.periodTau * (rHi + r0) * cHi),
+          `C ≤ ${formatSi(cHi, 'F')} (${cWindow.maxReason}) and ${paths.resistor} ≤ ${formatSi(rHi, 'Ω')} (${trMaxReason}) on ${topology}`,
+          1 / (factors.periodTau * (rLo + r0) * cLo),
+          `C ≥ ${formatSi(cLo, 'F')} (${cWindow.minReason}) and ${paths.resistor} ≥ ${formatSi(rLo, 'Ω')} (${trMinReason}) on ${topology}`,
+        );
+      }
       const result = jointSearch({
         topology,
         supply,
@@ -289,13 +396,31 @@ export function designOscillator(req: DesignRequest): DesignResult {
         notes.push(`${label}: no combination reaches the duty-cycle tolerance`);
         continue;
       }
-      for (const cand of result.candidates) keep(toDesign(cand, fraction, duty));
+      const windows = Object.fromEntries([
+        ...def.design!.thresholdNetworks[0].roles.map((role) => [role, rWindow] as const),
+        [paths.resistor, { min: trMin, max: trMax, minReason: trMinReason, maxReason: trMaxReason }],
+        [paths.capacitor, cWindow],
+      ]);
+      for (const cand of result.candidates) keep(toDesign(cand, fraction, duty, windows, allowHighK));
     }
   }
   // Ranked by how much of each tolerance a design uses: frequency and duty together.
   const score = (d: Design) => Math.abs(d.frequencyError) / req.frequencyTolerance + Math.abs(d.dutyCycleError) / dutyTolerance;
   designs.sort((a, b) => score(a) - score(b));
-  const unique = dedupe(designs).slice(0, count);
+  const pool = dedupe(designs).slice(0, Math.max(count, ROBUSTNESS_POOL));
+  const unique = rankRobust(pool, req, duty, dutyTolerance, robust, notes).slice(0, count);
+  if (unique.length === 0 && pool.length > 0 && robust.minYield !== undefined) {
+    const top = pool.reduce((a, b) => ((b.robustness?.yield ?? 0) > (a.robustness?.yield ?? 0) ? b : a));
+    throw new CoreError(
+      'infeasible',
+      `No design reaches the minimum yield of ${formatPercent(robust.minYield ?? 0)}: the best found yields ${formatPercent(top.robustness?.yield ?? 0)} ` +
+        `against ±${formatPercent(req.frequencyTolerance)} over part tolerances ${Object.entries(top.robustness?.partTolerances ?? {}).map(([r, t]) => `${r} ${formatPercent(t)}`).join(', ')}, ` +
+        `${robust.temperature.minC}..${robust.temperature.maxC} °C and a ±${formatPercent(robust.supplyTolerance)} supply; use tighter-tolerance parts (values.resistor/capacitor tolerance or a finer series), ` +
+        'a narrower temperature range, or widen frequencyTolerance',
+      '/robustness/minYield',
+      { minYield: robust.minYield ?? 0, bestYield: top.robustness?.yield ?? 0, bestTopology: top.topology },
+    );
+  }
   if (unique.length === 0 && topologies.length === 1 && ratioShortfalls.length === HYSTERESIS_FRACTIONS.length) {
     // Every width failed on the resistor ratio alone: the duty cycle itself is out of reach.
     const r = ratioShortfalls[0];
@@ -306,6 +431,7 @@ export function designOscillator(req: DesignRequest): DesignResult {
       { targetDutyCycle: duty, requiredResistanceRatio: r.requiredRatio, smallestResistanceRatio: r.smallestRatio, largestResistanceRatio: r.largestRatio },
     );
   }
+  if (unique.length === 0) reach.explain(req.targetFrequencyHz, req.frequencyTolerance);
   if (unique.length === 0) {
     const bestNote = best
       ? `; the closest found is ${formatPercent(best.frequencyError)} off (${best.topology})`
@@ -320,6 +446,92 @@ export function designOscillator(req: DesignRequest): DesignResult {
     );
   }
   return { designs: unique, notes };
+}
+
+/**
+ * The frequencies the value ranges can reach at all (screening model, per topology and width), so a
+ * target outside them is refused with the limits that bind and the nearest target that is feasible.
+ */
+class ReachTracker {
+  lowHz = Infinity;
+  lowReason = '';
+  highHz = 0;
+  highReason = '';
+
+  offer(lowHz: number, lowReason: string, highHz: number, highReason: string): void {
+    if (lowHz < this.lowHz) Object.assign(this, { lowHz, lowReason });
+    if (highHz > this.highHz) Object.assign(this, { highHz, highReason });
+  }
+
+  explain(targetHz: number, tolerance: number): void {
+    if (Number.isFinite(this.lowHz) && targetHz * (1 + tolerance) < this.lowHz) {
+      throw new CoreError(
+        'infeasible',
+        `${formatSi(targetHz, 'Hz')} is below the lowest frequency reachable with ${this.lowReason}: ${formatSi(this.lowHz, 'Hz')}. ` +
+          'Allow a larger capacitor (constraints.cMaxF), a larger timing resistor (constraints.rMaxOhm, or a lower-bias amplifier when bias current sets it), or aim at or above that frequency',
+        '/targetFrequencyHz',
+        { lowestReachableHz: this.lowHz, nearestFeasibleFrequencyHz: this.lowHz, binding: this.lowReason },
+      );
+    }
+    if (this.highHz > 0 && targetHz * (1 - tolerance) > this.highHz) {
+      throw new CoreError(
+        'infeasible',
+        `${formatSi(targetHz, 'Hz')} is above the highest frequency reachable with ${this.highReason}: ${formatSi(this.highHz, 'Hz')}. ` +
+          'Allow a smaller capacitor (constraints.cMinF, nodeCapacitanceF), a smaller timing resistor (constraints.rMinOhm, or an amplifier that drives more current), or aim at or below that frequency',
+        '/targetFrequencyHz',
+        { highestReachableHz: this.highHz, nearestFeasibleFrequencyHz: this.highHz, binding: this.highReason },
+      );
+    }
+  }
+}
+
+/** Edge proximity of each value inside its window, in decades relative to the half-width (0 middle, 1 edge). */
+function practicality(d: Design): Practicality {
+  const proximities = d.limits
+    .filter((l) => d.parts[l.role] && l.max > l.min)
+    .map((l) => {
+      const half = Math.log(l.max / l.min) / 2;
+      return Math.min(1, Math.abs(Math.log(d.parts[l.role].value / Math.sqrt(l.min * l.max))) / half);
+    });
+  const edgeProximity = proximities.length ? proximities.reduce((a, b) => a + b, 0) / proximities.length : 0;
+  const partCount = Object.values(d.parts).reduce((n, v) => n + v.parts.length, 0) + (d.diode ? 2 : 0);
+  const supplyCurrentA = d.analysis.currents.supplyAverageA;
+  return { edgeProximity, supplyCurrentA, partCount, score: edgeProximity + 0.05 * partCount + 0.2 * Math.log10(1 + supplyCurrentA / 1e-3) };
+}
+
+/**
+ * Worst case and yield for every pooled design, then the ranking: yield (in whole percent, finer
+ * differences are within the sampling error), then the margin left at the worst corner, then practicality.
+ */
+function rankRobust(pool: Design[], req: DesignRequest, duty: number, dutyTolerance: number, robust: ReturnType<typeof checkRobustnessOptions>, notes: string[]): Design[] {
+  const compileCache = new ClosedFormCompileCache();
+  const target = { frequencyHz: req.targetFrequencyHz, frequencyTolerance: req.frequencyTolerance, dutyCycle: duty, dutyTolerance };
+  const kept: Design[] = [];
+  for (const d of pool) {
+    const def = findTopology(d.topology)!;
+    const kinds = Object.fromEntries(Object.entries(def.roles).map(([role, spec]) => [role, spec.kind]));
+    const values: Record<string, number> = Object.fromEntries(Object.entries(d.parts).map(([r, v]) => [r, v.value]));
+    const circuit = { topology: d.topology, supply: req.supply, amplifier: req.amplifier, parts: values, ...(d.diode ? { diode: d.diode } : {}) };
+    try {
+      d.robustness = designRobustness(circuit, d.parts, kinds, target, robust, compileCache);
+    } catch (err) {
+      if (err instanceof CoreError) {
+        notes.push(`${d.topology} ${Object.entries(values).map(([r, v]) => `${r}=${formatSi(v, kinds[r] === 'capacitor' ? 'F' : 'Ω')}`).join(' ')}: no worst case (${err.message})`);
+        continue;
+      }
+      throw err;
+    }
+    const wc = d.robustness.worstCase;
+    if (![wc.frequencyMinHz, wc.frequencyMaxHz, wc.dutyMin, wc.dutyMax].every(Number.isFinite)) continue;
+    d.practicality = practicality(d);
+    kept.push(d);
+  }
+  const passing = robust.minYield === undefined ? kept : kept.filter((d) => d.robustness!.yield >= robust.minYield!);
+  if (passing.length === 0) pool.splice(0, pool.length, ...kept);
+  const yieldKey = (d: Design) => Math.floor(d.robustness!.yield * 100 + 1e-9);
+  // Margin in steps of 5 % of the tolerance: finer differences do not make one board better than another.
+  const marginKey = (d: Design) => Math.round(d.robustness!.marginFraction * 20);
+  return passing.sort((a, b) => yieldKey(b) - yieldKey(a) || marginKey(b) - marginKey(a) || a.practicality!.score - b.practicality!.score);
 }
 
 function dedupe(designs: Design[]): Design[] {

@@ -15,3 +15,4 @@ export * from './steered-design.ts';
 export * from './design.ts';
 export { TopN } from './top-n.ts';
 export { ascendingOrder } from './sorted-order.ts';
+export * from './robustness.ts';

@@ -44,6 +44,8 @@ export class ValueSetCache {
   constructor(
     private readonly sources: RoleSources,
     private readonly dielectrics?: readonly string[],
+    /** Offer class II/III ceramic capacitors (the shared dielectric verdict refuses them otherwise). */
+    private readonly allowHighK = false,
   ) {}
 
   forRole(topologyId: string, role: string, range: ValueRange): ValueSet {
@@ -57,7 +59,7 @@ export class ValueSetCache {
     const key = `${kind}:${range.min}:${range.max}`;
     let set = byRange.get(key);
     if (!set) {
-      set = buildValueSet(source, kind, range, { pointer, dielectrics: kind === 'capacitor' ? this.dielectrics : undefined });
+      set = buildValueSet(source, kind, range, { pointer, dielectrics: kind === 'capacitor' ? this.dielectrics : undefined, timingCapacitor: kind === 'capacitor' ? { allowHighK: this.allowHighK } : undefined });
       byRange.set(key, set);
     }
     return set;

@@ -33,8 +33,16 @@ export interface RatioShortfall {
   largestRatio: number;
 }
 
+/** A steering resistor's allowed range and what sets each end. */
+export interface PathLimit {
+  min: number;
+  max: number;
+  minReason: string;
+  maxReason: string;
+}
+
 export type SteeredWidthOutcome =
-  | { candidates: SteeredCandidate[]; thresholds: ThresholdPair }
+  | { candidates: SteeredCandidate[]; thresholds: ThresholdPair; limits: { charge: PathLimit; discharge: PathLimit } }
   | { reason: string; ratio?: RatioShortfall };
 
 /** The steered topology's threshold network for this supply: its first arrangement the supply suits (registry order). */
@@ -124,5 +132,21 @@ export function designSteeredWidth(topology: TopologyDefinition, req: SteeredWid
     seriesResistanceOhm: amp.outputResistanceOhm,
     count: req.count,
   });
-  return { candidates: result.candidates, thresholds: t };
+  const windowMin = 'the resistor window (constraints.rMinOhm)';
+  const windowMax = 'the resistor window (constraints.rMaxOhm)';
+  const limits = {
+    charge: {
+      min: chargeMin,
+      max: chargeMax,
+      minReason: chargeMin > Math.max(plan.rMin, b.charge.minOhm) ? 'constraints.maxSupplyCurrentA' : b.charge.minOhm > plan.rMin ? b.charge.minReason : windowMin,
+      maxReason: b.charge.maxOhm < plan.rMax ? b.charge.maxReason : windowMax,
+    },
+    discharge: {
+      min: dischargeMin,
+      max: dischargeMax,
+      minReason: b.discharge.minOhm > plan.rMin ? b.discharge.minReason : windowMin,
+      maxReason: b.discharge.maxOhm < plan.rMax ? b.discharge.maxReason : windowMax,
+    },
+  };
+  return { candidates: result.candidates, thresholds: t, limits };
 }

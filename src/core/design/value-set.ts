@@ -5,6 +5,7 @@
  */
 import { CoreError } from '../errors.ts';
 import { designableParts, type Catalogue, type CataloguePart, type PartStatus } from '../parts/catalogue.ts';
+import { parseDielectric, timingDielectricVerdict } from '../parts/dielectric.ts';
 import { seriesTolerance, seriesValues, type SeriesName } from '../parts/series.ts';
 
 export type ValueKind = 'resistor' | 'capacitor';
@@ -42,6 +43,23 @@ export interface ValueSetOptions {
   dielectrics?: readonly string[];
   /** JSON pointer of the source field, for errors. */
   pointer?: string;
+  /** A timing capacitor: catalogue parts the shared dielectric verdict calls an error are left out. */
+  timingCapacitor?: { allowHighK: boolean };
+}
+
+/** Whether the shared timing-dielectric verdict lets a part into a timing role (unknown codes pass: the checks report them). */
+function fitsTiming(part: CataloguePart, allowHighK: boolean): boolean {
+  if (!part.dielectric) return true;
+  const d = tryParseDielectric(part.dielectric);
+  return !d || timingDielectricVerdict(d, { allowHighK })?.severity !== 'error';
+}
+
+function tryParseDielectric(code: string) {
+  try {
+    return parseDielectric(code);
+  } catch {
+    return undefined;
+  }
 }
 
 const STATUS_RANK: Record<PartStatus, number> = { preferred: 0, active: 1, 'not-for-new-designs': 2 };
@@ -59,6 +77,7 @@ function fromCatalogue(catalogue: Catalogue, kind: ValueKind, range: ValueRange,
   for (const part of designableParts(catalogue, kind)) {
     if (part.value < range.min || part.value > range.max) continue;
     if (kind === 'capacitor' && allowed && !(part.dielectric && allowed.includes(part.dielectric.toUpperCase()))) continue;
+    if (kind === 'capacitor' && options.timingCapacitor && !fitsTiming(part, options.timingCapacitor.allowHighK)) continue;
     const seen = byValue.get(part.value);
     byValue.set(part.value, seen ? betterPart(seen, part) : part);
   }

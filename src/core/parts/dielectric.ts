@@ -238,3 +238,42 @@ export function capacitanceChangeAt(dielectric: Dielectric, temperatureC: number
   }
   return invalid(`dielectric "${dielectric.code}" carries neither a tempco nor a change band`);
 }
+
+/**
+ * The one verdict on a timing capacitor's dielectric, shared by design, analyze and BOM checks.
+ * Policy: electrolytic and tantalum parts are always an error (polarised, leaky, ±20 % and drifting);
+ * class II/III ceramics are an error unless the caller explicitly allows them, then a warning.
+ * Class I ceramics, film and mica pass (undefined).
+ */
+export interface TimingDielectricVerdict {
+  code: 'dielectric-unfit-for-timing' | 'electrolytic-in-timing-path';
+  severity: 'error' | 'warning';
+  dielectric: string;
+  family: DielectricFamily;
+  reason: string;
+  hint: string;
+}
+
+export function timingDielectricVerdict(d: Dielectric, options: { allowHighK?: boolean } = {}): TimingDielectricVerdict | undefined {
+  if (d.family === 'electrolytic' || d.family === 'tantalum') {
+    return {
+      code: 'electrolytic-in-timing-path',
+      severity: 'error',
+      dielectric: d.code,
+      family: d.family,
+      reason: d.reason,
+      hint: 'use a film or class I (C0G) ceramic capacitor and raise the timing resistance instead of the capacitance',
+    };
+  }
+  if (d.family === 'ceramic-class-2' || d.family === 'ceramic-class-3') {
+    return {
+      code: 'dielectric-unfit-for-timing',
+      severity: options.allowHighK ? 'warning' : 'error',
+      dielectric: d.code,
+      family: d.family,
+      reason: d.reason,
+      hint: 'use a class I (C0G) ceramic or a film capacitor; allow class II/III only where a loose, drifting frequency is acceptable',
+    };
+  }
+  return undefined;
+}

@@ -3,13 +3,12 @@ import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import type { Design } from '../../core/design/index.ts';
 import { DEFAULT_DIODE, resolveAmplifierSpec } from '../convert.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
-import { DesignRequest, DesignResponse, type DesignRequestBody } from '../schemas/design.ts';
+import { DEFAULT_DESIGN_FREQUENCY_TOLERANCE, DesignRequest, DesignResponse, type DesignRequestBody } from '../schemas/design.ts';
 import { runForRequest } from '../workers/run-for-request.ts';
 import { fittedPartsJson, predictionJson, roleSourcesFromBody, storedFor } from './snap.ts';
 
-/** Series most boards stock (common practice): E24 resistors, E12 capacitors. */
-const DEFAULT_VALUES = { resistor: { series: 'E24' }, capacitor: { series: 'E12' } } as const;
-const DEFAULT_FREQUENCY_TOLERANCE = 0.01;
+/** Series most boards stock (common practice): E24 metal-film resistors at 1 %, E12 C0G capacitors at 5 %. */
+const DEFAULT_VALUES = { resistor: { series: 'E24', tolerance: 0.01 }, capacitor: { series: 'E12', tolerance: 0.05 } } as const;
 
 function designJson(d: Design, rank: number, body: DesignRequestBody) {
   const parts: Record<string, number> = {};
@@ -22,6 +21,9 @@ function designJson(d: Design, rank: number, body: DesignRequestBody) {
     frequencyError: d.frequencyError,
     dutyCycleError: d.dutyCycleError,
     hysteresisFraction: d.hysteresisFraction,
+    robustness: d.robustness!,
+    practicality: d.practicality!,
+    limits: d.limits,
     // Ready to POST to /v1/analyze (or /v1/tolerance) as it stands.
     circuit: { topology: d.topology, supply: body.supply, amplifier: body.amplifier, parts, ...(d.diode ? { diode: d.diode } : {}) },
     checks: d.checks,
@@ -54,7 +56,7 @@ export const designRoutes: FastifyPluginAsyncTypebox = async (app) => {
         targetFrequencyHz: body.targetFrequencyHz,
         targetDutyCycle: body.targetDutyCycle,
         dutyTolerance: body.dutyTolerance,
-        frequencyTolerance: body.frequencyTolerance ?? DEFAULT_FREQUENCY_TOLERANCE,
+        frequencyTolerance: body.frequencyTolerance ?? DEFAULT_DESIGN_FREQUENCY_TOLERANCE,
         supply: { positiveV: body.supply.positiveV, negativeV: body.supply.negativeV ?? 0 },
         amplifier,
         // A kind the caller leaves out keeps its default series (values.resistor alone still gets E12 capacitors).
@@ -63,6 +65,7 @@ export const designRoutes: FastifyPluginAsyncTypebox = async (app) => {
         topologies: body.topologies,
         diode: body.diode ? { forwardDropV: body.diode.forwardDropV ?? DEFAULT_DIODE.forwardDropV, resistanceOhm: body.diode.resistanceOhm ?? DEFAULT_DIODE.resistanceOhm } : undefined,
         count: body.count,
+        robustness: body.robustness,
       }, 'design');
       return { designs: result.designs.map((d, i) => designJson(d, i + 1, body)), notes: result.notes } as never;
     },

@@ -2,7 +2,22 @@
 import { Type, type Static } from 'typebox';
 import { AmplifierSpec, Check, ref, Supply } from './common.ts';
 import { Circuit, Diode } from './circuit.ts';
-import { acceptedTopologyIds, aliasNote, designable, TOPOLOGIES } from '../../core/index.ts';
+import {
+  acceptedTopologyIds,
+  aliasNote,
+  DEFAULT_DUTY_TOLERANCE,
+  DEFAULT_NODE_CAPACITANCE_F,
+  designable,
+  DESIGN_REQUEST_RANGES as R,
+  DESIGN_WINDOWS,
+  NODE_CAPACITANCE_FACTOR,
+  ROBUSTNESS_DEFAULTS,
+  ROBUSTNESS_SAMPLE_RANGE,
+  TOPOLOGIES,
+} from '../../core/index.ts';
+
+/** The tolerance a design must meet when the request gives none (the built board, not only the nominal). */
+export const DEFAULT_DESIGN_FREQUENCY_TOLERANCE = 0.05;
 import { FittedPart, Prediction, ValueSources } from './snap.ts';
 
 /** Topologies design sizes (registry), with their deprecated aliases. */
@@ -10,13 +25,25 @@ export const DESIGN_TOPOLOGIES: readonly string[] = acceptedTopologyIds(designab
 
 export const DesignRequest = Type.Object(
   {
-    targetFrequencyHz: Type.Number({ exclusiveMinimum: 0 }),
+    targetFrequencyHz: Type.Number({ minimum: R.targetFrequencyHz.min, maximum: R.targetFrequencyHz.max, description: 'Target frequency, Hz' }),
     targetDutyCycle: Type.Optional(
-      Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, default: 0.5, description: 'Fraction of the period the output is high; 0.1..0.9 by threshold placement, beyond that by diode steering' }),
+      Type.Number({
+        minimum: R.targetDutyCycle.min,
+        maximum: R.targetDutyCycle.max,
+        default: 0.5,
+        description: 'Fraction of the period the output is high; 0.1..0.9 by threshold placement, beyond that by diode steering',
+      }),
     ),
-    dutyTolerance: Type.Optional(Type.Number({ minimum: 0, maximum: 1, description: 'Absolute duty-cycle tolerance (default 0.02)' })),
+    dutyTolerance: Type.Optional(
+      Type.Number({ minimum: R.dutyTolerance.min, maximum: R.dutyTolerance.max, default: DEFAULT_DUTY_TOLERANCE, description: 'Absolute duty-cycle tolerance the built board must meet' }),
+    ),
     frequencyTolerance: Type.Optional(
-      Type.Number({ exclusiveMinimum: 0, maximum: 1, default: 0.01, description: 'Largest |frequencyError| a design may have, fraction' }),
+      Type.Number({
+        minimum: R.frequencyTolerance.min,
+        maximum: R.frequencyTolerance.max,
+        default: DEFAULT_DESIGN_FREQUENCY_TOLERANCE,
+        description: 'Frequency tolerance the built board must meet, fraction: the nominal design lies inside it and the yield counts boards inside it',
+      }),
     ),
     supply: ref(Supply),
     amplifier: ref(AmplifierSpec),
@@ -24,10 +51,16 @@ export const DesignRequest = Type.Object(
     constraints: Type.Optional(
       Type.Object(
         {
-          rMinOhm: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
-          rMaxOhm: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
-          cMinF: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
-          cMaxF: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
+          rMinOhm: Type.Optional(Type.Number({ minimum: 1, maximum: 1e9, default: DESIGN_WINDOWS.resistor.min, description: 'Resistor window, lower end, ohm' })),
+          rMaxOhm: Type.Optional(Type.Number({ minimum: 1, maximum: 1e9, default: DESIGN_WINDOWS.resistor.max, description: 'Resistor window, upper end, ohm' })),
+          cMinF: Type.Optional(Type.Number({ minimum: 1e-12, maximum: 1, default: DESIGN_WINDOWS.capacitor.min, description: `Timing-capacitor window, lower end, F (raised to ${NODE_CAPACITANCE_FACTOR}× nodeCapacitanceF when that is higher)` })),
+          cMaxF: Type.Optional(Type.Number({ minimum: 1e-12, maximum: 1, default: DESIGN_WINDOWS.capacitor.max, description: 'Timing-capacitor window, upper end, F' })),
+          nodeCapacitanceF: Type.Optional(
+            Type.Number({ minimum: 0, maximum: 1e-9, default: DEFAULT_NODE_CAPACITANCE_F, description: 'Stray plus input capacitance at the inverting input, F; the timing capacitor is kept at least 50× above it' }),
+          ),
+          allowHighKDielectric: Type.Optional(
+            Type.Boolean({ default: false, description: 'Offer class II/III ceramic timing capacitors (then a warning; otherwise refused, as in analyze and BOM checks). Electrolytics are never offered.' }),
+          ),
           dielectrics: Type.Optional(
             Type.Array(Type.String({ minLength: 1, maxLength: 16 }), { maxItems: 32, description: 'Allowed dielectric codes for catalogue timing capacitors' }),
           ),
@@ -47,13 +80,43 @@ export const DesignRequest = Type.Object(
       }),
     ),
     diode: Type.Optional(ref(Diode)),
-    count: Type.Optional(Type.Integer({ minimum: 1, maximum: 20, default: 5 })),
+    count: Type.Optional(Type.Integer({ minimum: R.count.min, maximum: R.count.max, default: 5 })),
+    robustness: Type.Optional(
+      Type.Object(
+        {
+          temperature: Type.Optional(
+            Type.Object(
+              { minC: Type.Number({ minimum: -60, maximum: 200 }), maxC: Type.Number({ minimum: -60, maximum: 200 }) },
+              { additionalProperties: false, description: 'Board temperature range, °C (default 0 to 70)' },
+            ),
+          ),
+          supplyTolerance: Type.Optional(Type.Number({ minimum: 0, maximum: 0.3, default: ROBUSTNESS_DEFAULTS.supplyTolerance, description: 'Both rails within ± this fraction' })),
+          resistorTempcoPpmPerK: Type.Optional(
+            Type.Number({ minimum: -5000, maximum: 5000, default: ROBUSTNESS_DEFAULTS.resistorTempcoPpmPerK, description: 'Tempco of resistors whose source states none (metal film, common practice), ppm/K' }),
+          ),
+          capacitorDielectric: Type.Optional(
+            Type.String({ minLength: 1, maxLength: 16, default: ROBUSTNESS_DEFAULTS.capacitorDielectric, description: 'Dielectric assumed for series capacitors (catalogue parts carry their own)' }),
+          ),
+          samples: Type.Optional(
+            Type.Integer({ minimum: ROBUSTNESS_SAMPLE_RANGE.min, maximum: ROBUSTNESS_SAMPLE_RANGE.max, default: ROBUSTNESS_DEFAULTS.samples, description: 'Monte Carlo samples per design (normal, tolerance = 3σ)' }),
+          ),
+          seed: Type.Optional(Type.Integer({ minimum: -2147483648, maximum: 2147483647, default: ROBUSTNESS_DEFAULTS.seed })),
+          minYield: Type.Optional(Type.Number({ minimum: 0, maximum: 1, description: 'Offer only designs whose yield reaches this fraction (422 when none does)' })),
+        },
+        {
+          additionalProperties: false,
+          description:
+            'Each design\'s worst case and Monte Carlo yield against frequencyTolerance and dutyTolerance, over the parts\' tolerances (from their series or catalogue), ' +
+            'their temperature behaviour over the range and the supply tolerance.',
+        },
+      ),
+    ),
   },
   {
     $id: 'DesignRequest',
     additionalProperties: false,
     description:
-      'Values default to E24 resistors and E12 capacitors when `values` is omitted. `diode` models the steering diodes of diode-steered designs ' +
+      'Values default to E24 resistors at 1 % and E12 capacitors at 5 % (C0G) when `values` is omitted. `diode` models the steering diodes of diode-steered designs ' +
       '(default 0.6 V forward drop, 10 Ω); each such design\'s `circuit` carries the model it was analysed with.',
   },
 );
@@ -69,6 +132,46 @@ const DesignItem = Type.Object(
     frequencyError: Type.Number({ description: '(predicted − target) / target, from the full analysis' }),
     dutyCycleError: Type.Number({ description: 'predicted − target duty cycle' }),
     hysteresisFraction: Type.Number({ description: 'Hysteresis the design was built around, as a fraction of the output swing' }),
+    robustness: Type.Object(
+      {
+        yield: Type.Number({ description: 'Fraction of Monte Carlo boards inside both tolerances' }),
+        yieldStandardError: Type.Number(),
+        yieldInterval95: Type.Object({ low: Type.Number(), high: Type.Number() }, { additionalProperties: false, description: 'Wilson score interval' }),
+        samples: Type.Integer(),
+        seed: Type.Integer(),
+        worstCase: Type.Object(
+          { frequencyMinHz: Type.Number(), frequencyMaxHz: Type.Number(), dutyMin: Type.Number(), dutyMax: Type.Number(), withinSpec: Type.Boolean() },
+          { additionalProperties: false },
+        ),
+        marginFraction: Type.Number({ description: 'Share of the tolerance left at the worst corner (smaller of frequency and duty); negative when a corner leaves the spec' }),
+        partTolerances: Type.Record(Type.String(), Type.Number(), { description: 'Tolerance each role was given, fraction' }),
+        model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')]),
+      },
+      { additionalProperties: false },
+    ),
+    practicality: Type.Object(
+      {
+        edgeProximity: Type.Number({ description: '0 when every value sits in the geometric middle of its window, 1 at an edge' }),
+        supplyCurrentA: Type.Number(),
+        partCount: Type.Integer(),
+        score: Type.Number({ description: 'Smaller is more practical (edge proximity, part count, supply current; our weighting)' }),
+      },
+      { additionalProperties: false },
+    ),
+    limits: Type.Array(
+      Type.Object(
+        {
+          role: Type.String(),
+          min: Type.Number(),
+          max: Type.Number(),
+          minReason: Type.String(),
+          maxReason: Type.String(),
+          atLimit: Type.Union([Type.Literal('min'), Type.Literal('max'), Type.Null()]),
+        },
+        { additionalProperties: false },
+      ),
+      { description: 'What bounds each role: the window, output drive, bias-current error, supply budget or stray capacitance' },
+    ),
     circuit: ref(Circuit),
     checks: Type.Array(ref(Check)),
   },
@@ -78,7 +181,7 @@ const DesignItem = Type.Object(
 export const DesignResponse = Type.Object(
   {
     designs: Type.Array(DesignItem, {
-      description: 'Ranked by the share of the frequency and duty tolerances used (|frequencyError|/frequencyTolerance + |dutyCycleError|/dutyTolerance), best first',
+      description: 'Ranked by yield (whole percent), then the margin left at the worst corner, then practicality, best first',
     }),
     notes: Type.Array(Type.String(), { description: 'Topologies or hysteresis widths that gave nothing, and why' }),
   },

@@ -33,8 +33,9 @@ describe('designOscillator', () => {
       expect(Math.abs(d.dutyCycleError)).toBeLessThanOrEqual(0.02);
       expect(d.frequencyError).toBeCloseTo(d.predicted.frequencyHz / 2500 - 1, 12);
     }
-    const score = designs.map((d) => Math.abs(d.frequencyError) / 0.01 + Math.abs(d.dutyCycleError) / 0.02);
-    expect([...score].sort((a, b) => a - b)).toEqual(score);
+    // Ranked by yield in whole percent first (design.ts), so yields never rise down the list.
+    const yields = designs.map((d) => Math.floor(d.robustness!.yield * 100 + 1e-9));
+    expect([...yields].sort((a, b) => b - a)).toEqual(yields);
   });
 
   it('reaches 20 % and 85 % duty cycles by threshold placement', () => {
@@ -104,7 +105,11 @@ describe('designOscillator', () => {
       [{ targetDutyCycle: 0.95, topologies: ['three-resistor-divider'] }, /duty cycle/, '/targetDutyCycle'],
       [{ values: { resistor: { series: 'E24' }, capacitor: { catalogue: { id: 'empty', parts: [] } } } }, /no designable capacitor/, '/values/capacitor'],
       [{ constraints: { maxSupplyCurrentA: 1e-4 } }, /supply-current budget/, '/constraints/maxSupplyCurrentA'],
-      [{ frequencyTolerance: 1e-9, values: { resistor: { series: 'E3' }, capacitor: { series: 'E3' } } }, /No design meets/, undefined],
+      [
+        { frequencyTolerance: 1e-4, values: { resistor: { series: 'E3' }, capacitor: { series: 'E3' } }, constraints: { rMinOhm: 10e3, rMaxOhm: 47e3, cMinF: 10e-9, cMaxF: 22e-9 } },
+        /No design meets/,
+        undefined,
+      ],
     ];
     for (const [over, message, pointer] of cases) {
       let caught: unknown;
