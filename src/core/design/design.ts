@@ -20,7 +20,6 @@ import type { AnalysisResult } from '../circuit/result.ts';
 import { canonicalTopologyId, findTopology, TOPOLOGIES } from '../circuit/topologies/index.ts';
 import type { DiodeModel, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
-import { ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
 import { parseDielectric, timingDielectricVerdict } from '../parts/dielectric.ts';
 import { checkRobustnessOptions, designRobustness, type DesignRobustness, type RobustnessOptions } from './robustness.ts';
 import { requireFeasibleRequest, timingResistorBounds } from './bounds.ts';
@@ -504,7 +503,6 @@ function practicality(d: Design): Practicality {
  * differences are within the sampling error), then the margin left at the worst corner, then practicality.
  */
 function rankRobust(pool: Design[], req: DesignRequest, duty: number, dutyTolerance: number, robust: ReturnType<typeof checkRobustnessOptions>, notes: string[]): Design[] {
-  const compileCache = new ClosedFormCompileCache();
   const target = { frequencyHz: req.targetFrequencyHz, frequencyTolerance: req.frequencyTolerance, dutyCycle: duty, dutyTolerance };
   const kept: Design[] = [];
   for (const d of pool) {
@@ -513,7 +511,7 @@ function rankRobust(pool: Design[], req: DesignRequest, duty: number, dutyTolera
     const values: Record<string, number> = Object.fromEntries(Object.entries(d.parts).map(([r, v]) => [r, v.value]));
     const circuit = { topology: d.topology, supply: req.supply, amplifier: req.amplifier, parts: values, ...(d.diode ? { diode: d.diode } : {}) };
     try {
-      d.robustness = designRobustness(circuit, d.parts, kinds, target, robust, compileCache);
+      d.robustness = designRobustness(circuit, d.parts, kinds, target, robust);
     } catch (err) {
       if (err instanceof CoreError) {
         notes.push(`${d.topology} ${Object.entries(values).map(([r, v]) => `${r}=${formatSi(v, kinds[r] === 'capacitor' ? 'F' : 'Ω')}`).join(' ')}: no worst case (${err.message})`);

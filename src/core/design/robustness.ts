@@ -7,7 +7,6 @@
  */
 import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
-import { ClosedFormCompileCache } from '../circuit/fast-evaluator.ts';
 import { runToleranceAnalysis } from '../tolerance/analyze-tolerance.ts';
 import type { TemperatureCoefficient } from '../tolerance/types.ts';
 import type { RoleValue } from './snap-value.ts';
@@ -106,14 +105,13 @@ export function partVariations(parts: Readonly<Record<string, RoleValue>>, kinds
   return { tolerances, temperatureCoefficients };
 }
 
-/** Worst case and yield of one design; `cache` shares compiled evaluators between designs of one shape. */
+/** Worst case and yield of one design. */
 export function designRobustness(
   circuit: Circuit,
   parts: Readonly<Record<string, RoleValue>>,
   kinds: Readonly<Record<string, 'resistor' | 'capacitor'>>,
   target: RobustnessTarget,
   options: ReturnType<typeof checkRobustnessOptions>,
-  cache: ClosedFormCompileCache = new ClosedFormCompileCache(),
 ): DesignRobustness {
   const { tolerances, temperatureCoefficients } = partVariations(parts, kinds, options);
   const spec = {
@@ -132,7 +130,7 @@ export function designRobustness(
       monteCarlo: { samples: options.samples, seed: options.seed, distribution: 'normal' },
       spec,
     },
-    { parts: { monteCarlo: true, sensitivities: false }, compileCache: cache },
+    { parts: { monteCarlo: true, sensitivities: false } },
   );
   const mc = run.monteCarlo!;
   const wc = run.worstCase;
