@@ -19,6 +19,7 @@ import { Metrics } from './metrics.ts';
 import { errorHandler, problem, sendProblem } from './problem.ts';
 import { ROUTES } from './routes/index.ts';
 import { REGISTERED_SCHEMAS } from './schemas/index.ts';
+import { withExamples } from './schemas/examples.ts';
 import type { Services } from './services.ts';
 import { storedAmplifierSource } from './stored-amplifiers.ts';
 import { WorkerPool } from './workers/pool.ts';
@@ -109,6 +110,8 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
       security: [{}, { bearerKey: [] }, { headerKey: [] }],
     },
     refResolver: { buildLocalReference: (json, _baseUri, _fragment, i) => (json.$id as string) ?? `schema-${i}` },
+    // Request and response examples (README scenarios; answers produced by the service) live in one module.
+    transformObject: (document) => ('openapiObject' in document ? withExamples(document.openapiObject) : document.swaggerObject),
   });
   await app.register(swaggerUi, { routePrefix: DOCS_PREFIX });
 
