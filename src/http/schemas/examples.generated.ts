@@ -6,9 +6,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
       "value": {
         "id": "greenhouse-approved",
         "version": 2,
-        "etag": "\"2-7bea7396a40c7a32\"",
-        "createdAt": "2026-12-02T16:53:21.887Z",
-        "updatedAt": "2026-12-02T16:53:21.979Z",
+        "etag": "\"2-2f7cf654748136c0\"",
+        "createdAt": "2026-12-02T17:07:47.357Z",
+        "updatedAt": "2026-12-02T17:07:47.428Z",
         "parts": [
           {
             "kind": "capacitor",
@@ -87,21 +87,32 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "figuresBasis": "class-typical"
         },
         "model": "time-domain",
+        "modelEffects": [
+          "slew-rate",
+          "recovery-delay",
+          "current-limit"
+        ],
         "frequencyHz": 4764.86302369731,
         "periodS": 0.00020986962165053946,
-        "dutyCycle": 0.5002176674672077,
-        "timeHighS": 0.00010498049261425824,
-        "timeLowS": 0.00010488912903628122,
-        "firstEdgeS": 0.00016630139663136067,
+        "dutyCycle": 0.500217675148027,
+        "timeHighS": 0.00010498049422622886,
+        "timeLowS": 0.0001048891274243106,
+        "firstEdgeS": 0.00016630139743734597,
         "thresholds": {
           "upperV": 3.326612239851856,
           "lowerV": 1.6753888031321087,
           "hysteresisV": 1.6512234367197474
         },
         "output": {
-          "highV": 4.960995375646723,
-          "lowV": 0.03902081884527343,
-          "swingV": 4.92197455680145
+          "highV": 4.976842304759965,
+          "lowV": 0.023161017551601035,
+          "swingV": 4.953681287208364,
+          "meanHighV": 4.960995375646723,
+          "meanLowV": 0.03902081884527343
+        },
+        "transitions": {
+          "riseTimeS": 4.962757327593281e-7,
+          "fallTimeS": 4.962757313879478e-7
         },
         "capacitor": {
           "minV": 1.6709537174782447,
@@ -198,7 +209,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             ],
             "predicted": {
               "frequencyHz": 4999.993635813778,
-              "dutyCycle": 0.5002039278534294,
+              "dutyCycle": 0.5002039357666483,
               "model": "time-domain",
               "thresholds": {
                 "upperV": 2.8053391369951273,
@@ -207,7 +218,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "supplyCurrentA": 0.002301663786837578
             },
             "frequencyError": -0.0000012728372442705194,
-            "dutyCycleError": 0.00020392785342937536,
+            "dutyCycleError": 0.00020393576664834434,
             "hysteresisFraction": 0.125,
             "circuit": {
               "topology": "three-resistor-divider",
@@ -269,7 +280,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             ],
             "predicted": {
               "frequencyHz": 4999.986651348852,
-              "dutyCycle": 0.5002037010164735,
+              "dutyCycle": 0.5002037089209476,
               "model": "time-domain",
               "thresholds": {
                 "upperV": 2.805669011148127,
@@ -278,7 +289,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "supplyCurrentA": 0.0018076249686650022
             },
             "frequencyError": -0.0000026697302295541903,
-            "dutyCycleError": 0.00020370101647348982,
+            "dutyCycleError": 0.0002037089209475651,
             "hysteresisFraction": 0.125,
             "circuit": {
               "topology": "three-resistor-divider",
@@ -343,22 +354,27 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
       "value": {
         "topology": "three-resistor-divider",
         "model": "time-domain",
+        "modelEffects": [
+          "slew-rate",
+          "recovery-delay",
+          "current-limit"
+        ],
         "nominal": {
           "frequencyHz": 4999.993635813778,
-          "dutyCycle": 0.5002039278534294
+          "dutyCycle": 0.500203935766648
         },
         "worstCase": {
-          "frequencyMinHz": 4628.4945768803545,
-          "frequencyMaxHz": 5415.307421606774,
-          "dutyMin": 0.4957308452457293,
-          "dutyMax": 0.5046819171713698,
+          "frequencyMinHz": 4628.494576880354,
+          "frequencyMaxHz": 5415.307421606776,
+          "dutyMin": 0.4957306802081687,
+          "dutyMax": 0.5046820653870386,
           "method": "sensitivity-guided",
           "cornersEvaluated": 233,
           "latchedCorners": 0,
           "corners": {
             "frequencyMin": {
-              "frequencyHz": 4628.4945768803545,
-              "dutyCycle": 0.5001942272394296,
+              "frequencyHz": 4628.494576880354,
+              "dutyCycle": 0.5001942343688842,
               "temperatureC": -20,
               "values": {
                 "rTiming": 2222,
@@ -378,8 +394,8 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               }
             },
             "frequencyMax": {
-              "frequencyHz": 5415.307421606774,
-              "dutyCycle": 0.5002146599701769,
+              "frequencyHz": 5415.307421606776,
+              "dutyCycle": 0.5002146687767705,
               "temperatureC": -20,
               "values": {
                 "rTiming": 2178,
@@ -399,8 +415,8 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               }
             },
             "dutyMin": {
-              "frequencyHz": 4751.515839008465,
-              "dutyCycle": 0.4957308452457293,
+              "frequencyHz": 4751.515839008467,
+              "dutyCycle": 0.4957306802081687,
               "temperatureC": -20,
               "values": {
                 "rTiming": 2222,
@@ -420,8 +436,8 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               }
             },
             "dutyMax": {
-              "frequencyHz": 4753.960228309909,
-              "dutyCycle": 0.5046819171713698,
+              "frequencyHz": 4753.9602283099075,
+              "dutyCycle": 0.5046820653870386,
               "temperatureC": -20,
               "values": {
                 "rTiming": 2222,
@@ -451,30 +467,30 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "oscillating": 20000,
           "latched": 0,
           "frequencyHz": {
-            "p0_1": 4767.218367473675,
-            "p1": 4810.375234808906,
-            "p5": 4863.242545777298,
-            "p50": 5000.503581293258,
-            "p95": 5143.863478644988,
-            "p99": 5204.521537862055,
-            "p99_9": 5258.971259221695,
-            "mean": 5001.739254980695,
-            "std": 85.12111191713683,
-            "min": 4725.755699328582,
+            "p0_1": 4767.218367473674,
+            "p1": 4810.3752348089065,
+            "p5": 4863.242545777296,
+            "p50": 5000.50358129326,
+            "p95": 5143.863478644994,
+            "p99": 5204.521537862057,
+            "p99_9": 5258.971259221698,
+            "mean": 5001.739254980693,
+            "std": 85.12111191713686,
+            "min": 4725.755699328581,
             "max": 5316.327866280659
           },
           "dutyCycle": {
-            "p0_1": 0.496988997648784,
-            "p1": 0.4977894087784848,
-            "p5": 0.49848655025992283,
-            "p50": 0.5002079407499516,
-            "p95": 0.5019367710117125,
-            "p99": 0.5025906684412861,
-            "p99_9": 0.5032782289280011,
-            "mean": 0.5002007980963302,
-            "std": 0.001043704803322088,
-            "min": 0.4960619345155073,
-            "max": 0.5037924284729621
+            "p0_1": 0.49698887427709343,
+            "p1": 0.49778931917406305,
+            "p5": 0.49848649137139284,
+            "p50": 0.5002079489617415,
+            "p95": 0.5019368464993288,
+            "p99": 0.5025907710359204,
+            "p99_9": 0.5032783441712846,
+            "mean": 0.5002008058911687,
+            "std": 0.001043745355692755,
+            "min": 0.4960617669912753,
+            "max": 0.5037925830923684
           },
           "yield": 0.9978,
           "yieldDetail": {
@@ -488,99 +504,106 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "frequencyPassFraction": 0.9978,
             "dutyPassFraction": 1
           },
-          "elapsedS": 3.1420048209999987,
-          "samplesPerSecond": 6365.36260744331
+          "elapsedS": 0.6211128349999999,
+          "samplesPerSecond": 32200.268410167377
         },
         "sensitivities": [
           {
             "role": "cTiming",
             "kind": "capacitor",
-            "sensitivity": -0.9891464374822689,
-            "dutySensitivity": 2.804443899329101e-7,
-            "varianceShare": 0.9200295247039362
+            "sensitivity": -0.9891464374831571,
+            "dutySensitivity": 2.6487168014455165e-7,
+            "varianceShare": 0.9200295247040684
           },
           {
             "role": "rTiming",
             "kind": "resistor",
             "sensitivity": -0.9878700963819043,
-            "dutySensitivity": 3.8259562185061213e-8,
-            "varianceShare": 0.03670522859032629
+            "dutySensitivity": 2.262495746307991e-8,
+            "varianceShare": 0.036705228590265634
           },
           {
             "role": "rFeedback",
             "kind": "resistor",
-            "sensitivity": 0.8754141307463215,
-            "dutySensitivity": -0.0000041743017376028035,
-            "varianceShare": 0.028824074257895224
+            "sensitivity": 0.8754141307472096,
+            "dutySensitivity": -0.0000041608016476679666,
+            "varianceShare": 0.0288240742578476
           },
           {
             "role": "rBottom",
             "kind": "resistor",
-            "sensitivity": -0.4380735661602131,
-            "dutySensitivity": 0.2230093220177698,
-            "varianceShare": 0.007218091353558521
+            "sensitivity": -0.43807356616110127,
+            "dutySensitivity": 0.22301796884424685,
+            "varianceShare": 0.007218091353546595
           },
           {
             "role": "rTop",
             "kind": "resistor",
             "sensitivity": -0.4373420939352002,
-            "dutySensitivity": -0.22300539566286193,
-            "varianceShare": 0.0071940067022119285
+            "dutySensitivity": -0.22301405599892132,
+            "varianceShare": 0.007194006702200042
           },
           {
             "role": "supplyPositiveV",
             "kind": "supply",
             "sensitivity": -0.005560595030651427,
-            "dutySensitivity": -0.00020572397746443372,
+            "dutySensitivity": -0.00020571616693443318,
             "varianceShare": 0
           },
           {
             "role": "slewRateVPerS",
             "kind": "amplifier",
             "sensitivity": 0.005516444715247815,
-            "dutySensitivity": 1.5029599786942072e-7,
+            "dutySensitivity": 1.346347477948484e-7,
             "varianceShare": 0
           },
           {
             "role": "recoveryDelayS",
             "kind": "amplifier",
             "sensitivity": -0.005337117833903449,
-            "dutySensitivity": -1.301482255300357e-7,
+            "dutySensitivity": -1.3023682132740078e-7,
             "varianceShare": 0
           },
           {
             "role": "outputResistanceOhm",
             "kind": "amplifier",
             "sensitivity": -0.0012747906685817156,
-            "dutySensitivity": 4.901293260139994e-7,
+            "dutySensitivity": 4.902006578433316e-7,
             "varianceShare": 0
           },
           {
             "role": "outputHeadroomLowV",
             "kind": "amplifier",
             "sensitivity": 0.000025168256811980427,
-            "dutySensitivity": -0.0017832364156422642,
+            "dutySensitivity": -0.0017833056757399213,
             "varianceShare": 0
           },
           {
             "role": "outputHeadroomHighV",
             "kind": "amplifier",
-            "sensitivity": 0.000019316479082931437,
-            "dutySensitivity": 0.0017848822079225002,
+            "sensitivity": 0.000019316478194753017,
+            "dutySensitivity": 0.0017849514053480675,
             "varianceShare": 0
           },
           {
             "role": "inputOffsetV",
             "kind": "amplifier",
             "sensitivity": -3.3444536029492156e-7,
-            "dutySensitivity": 0.00020392789007450673,
+            "dutySensitivity": 0.00020393580330013705,
             "varianceShare": 0
           },
           {
             "role": "inputBiasCurrentA",
             "kind": "amplifier",
             "sensitivity": 0,
-            "dutySensitivity": -1.7763568394002505e-12,
+            "dutySensitivity": -1.7208456881689926e-12,
+            "varianceShare": 0
+          },
+          {
+            "role": "outputCurrentLimitA",
+            "kind": "amplifier",
+            "sensitivity": 0,
+            "dutySensitivity": 0,
             "varianceShare": 0
           }
         ],
@@ -588,43 +611,43 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           {
             "source": "cTiming",
             "kind": "part-tolerance",
-            "share": 0.9200040041556357,
-            "relativeStd": 0.01626451367400225
+            "share": 0.9200040041557679,
+            "relativeStd": 0.016264513674016857
           },
           {
             "source": "rTiming",
             "kind": "part-tolerance",
-            "share": 0.03670522859032629,
+            "share": 0.036705228590265634,
             "relativeStd": 0.003248704348300597
           },
           {
             "source": "rFeedback",
             "kind": "part-tolerance",
-            "share": 0.028824074257895224,
+            "share": 0.0288240742578476,
             "relativeStd": 0.0028788822839939756
           },
           {
             "source": "rBottom",
             "kind": "part-tolerance",
-            "share": 0.007218091353558521,
+            "share": 0.007218091353546595,
             "relativeStd": 0.0014406464398007265
           },
           {
             "source": "rTop",
             "kind": "part-tolerance",
-            "share": 0.0071940067022119285,
+            "share": 0.007194006702200042,
             "relativeStd": 0.0014382409244283322
           },
           {
             "source": "supply",
             "kind": "supply",
-            "share": 0.000029074392071878195,
+            "share": 0.000029074392071830155,
             "relativeStd": 0.00009143269997346049
           },
           {
             "source": "cTiming tempco",
             "kind": "tempco-spread",
-            "share": 0.000025520548300515244,
+            "share": 0.000025520548300473078,
             "relativeStd": 0.00008566259443467953
           },
           {
@@ -635,7 +658,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           }
         ],
         "linearEstimate": {
-          "frequencyRelativeStd": 0.016956890792226283
+          "frequencyRelativeStd": 0.016956890792240293
         },
         "temperatureModels": [
           {
@@ -658,7 +681,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
         "model": "time-domain",
         "frequencyHz": 4999.993635813778,
         "periodS": 0.00020000025456777288,
-        "dutyCycle": 0.5002039278534294,
+        "dutyCycle": 0.5002039357666483,
         "thresholds": {
           "upperV": 2.8053391369951273,
           "lowerV": 2.19666364754965
@@ -1887,7 +1910,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "error": 0,
               "warning": 0,
               "caution": 0,
-              "info": 13
+              "info": 12
             },
             "rules": [
               {
@@ -1993,27 +2016,16 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 ]
               },
               {
-                "code": "dynamics-approximated",
-                "severity": "info",
-                "message": "Answered by the closed form: slew rate, recovery delay, current limit and input clamps are not modelled in this answer",
-                "figures": {
-                  "checkCode": "dynamics-approximated",
-                  "supplyCorner": "nominal",
-                  "supplyPositiveV": 5,
-                  "supplyNegativeV": 0
-                }
-              },
-              {
                 "code": "frequency-within-spec",
                 "severity": "info",
-                "message": "Worst-case frequency 6.627 kHz to 7.344 kHz lies inside the spec 6.3 kHz to 7.7 kHz",
+                "message": "Worst-case frequency 6.546 kHz to 7.249 kHz lies inside the spec 6.3 kHz to 7.7 kHz",
                 "figures": {
                   "specFrequencyHz": 7000,
                   "specLowHz": 6300,
                   "specHighHz": 7700.000000000001,
-                  "nominalFrequencyHz": 6974.074065866682,
-                  "worstCaseMinHz": 6627.17672634332,
-                  "worstCaseMaxHz": 7344.18331135449,
+                  "nominalFrequencyHz": 6886.277756625088,
+                  "worstCaseMinHz": 6546.173244829773,
+                  "worstCaseMaxHz": 7248.958794638477,
                   "method": "all-corners",
                   "cornersEvaluated": 65,
                   "latchedCorners": 0
@@ -2022,13 +2034,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "duty-within-spec",
                 "severity": "info",
-                "message": "Worst-case duty cycle 49.56 % to 50.48 % lies inside the spec 40 % to 60 %",
+                "message": "Worst-case duty cycle 49.57 % to 50.48 % lies inside the spec 40 % to 60 %",
                 "figures": {
                   "specDutyMin": 0.4,
                   "specDutyMax": 0.6,
-                  "nominalDutyCycle": 0.5002182576169162,
-                  "worstCaseDutyMin": 0.49564150498025966,
-                  "worstCaseDutyMax": 0.5047992109757694,
+                  "nominalDutyCycle": 0.5002174067074259,
+                  "worstCaseDutyMin": 0.4956584490974326,
+                  "worstCaseDutyMax": 0.5047814812680567,
                   "method": "all-corners"
                 }
               },
@@ -2098,7 +2110,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "error": 4,
               "warning": 1,
               "caution": 0,
-              "info": 10
+              "info": 9
             },
             "rules": [
               {
@@ -2211,17 +2223,6 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 ]
               },
               {
-                "code": "dynamics-approximated",
-                "severity": "info",
-                "message": "Answered by the closed form: slew rate, recovery delay, current limit and input clamps are not modelled in this answer",
-                "figures": {
-                  "checkCode": "dynamics-approximated",
-                  "supplyCorner": "nominal",
-                  "supplyPositiveV": 5,
-                  "supplyNegativeV": 0
-                }
-              },
-              {
                 "code": "dielectric-unfit-for-timing",
                 "severity": "error",
                 "message": "Y5V in the timing path: EIA-198 class III ceramic: capacitance may change +22 %/-82 % over -30..85 °C and also drifts with DC bias and age, so a clock timed by it is neither accurate nor stable",
@@ -2237,20 +2238,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "bias-derating-leaves-spec",
                 "severity": "error",
-                "message": "C1 (Y5V, 16 V, 0805) sees 1.68…3.33 V (20.8 % of its rating): over that swing a class-typical part keeps about 81.1 % of its marked 4.7 nF (3.813 nF), so the clock runs near 8.597 kHz instead of 6.974 kHz, outside the spec 6.3 kHz to 7.7 kHz (assuming a 0805 case: none stated)",
+                "message": "C1 (Y5V, 16 V, 0805) sees 1.68…3.33 V (20.8 % of its rating): over that swing a class-typical part keeps about 81.1 % of its marked 4.7 nF (3.813 nF), so the clock runs near 8.597 kHz instead of 6.886 kHz, outside the spec 6.3 kHz to 7.7 kHz (assuming a 0805 case: none stated)",
                 "figures": {
                   "dielectric": "Y5V",
                   "ratedVoltageV": 16,
                   "caseSize": "0805",
                   "curveBasis": "class-typical",
                   "swingLowV": 1.675161735808347,
-                  "swingHighV": 3.3268389756525316,
-                  "peakOverRatedFraction": 0.20792743597828323,
+                  "swingHighV": 3.326838975652531,
+                  "peakOverRatedFraction": 0.2079274359782832,
                   "markedCapacitanceF": 4.7e-9,
                   "effectiveCapacitanceF": 3.812669559128978e-9,
                   "effectiveFraction": 0.8112062891763784,
-                  "nominalFrequencyHz": 6974.074065866682,
-                  "deratedFrequencyHz": 8596.920246826687,
+                  "nominalFrequencyHz": 6886.277756625088,
+                  "deratedFrequencyHz": 8596.920246826692,
                   "specLowHz": 6300,
                   "specHighHz": 7700.000000000001
                 },
@@ -2260,14 +2261,14 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "frequency-outside-spec",
                 "severity": "error",
-                "message": "Worst-case frequency 3.54 kHz to 46.27 kHz leaves the spec 6.3 kHz to 7.7 kHz (nominal 6.974 kHz)",
+                "message": "Worst-case frequency 3.517 kHz to 42.76 kHz leaves the spec 6.3 kHz to 7.7 kHz (nominal 6.886 kHz)",
                 "figures": {
                   "specFrequencyHz": 7000,
                   "specLowHz": 6300,
                   "specHighHz": 7700.000000000001,
-                  "nominalFrequencyHz": 6974.074065866682,
-                  "worstCaseMinHz": 3540.349427442273,
-                  "worstCaseMaxHz": 46271.52496314126,
+                  "nominalFrequencyHz": 6886.277756625088,
+                  "worstCaseMinHz": 3517.087265823932,
+                  "worstCaseMaxHz": 42755.82667228581,
                   "method": "all-corners",
                   "cornersEvaluated": 65,
                   "latchedCorners": 0
@@ -2320,9 +2321,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "yield-below-minimum",
                 "severity": "error",
-                "message": "Monte Carlo yield 27.4 % (500 samples) is below the minimum 99 %",
+                "message": "Monte Carlo yield 28.4 % (500 samples) is below the minimum 99 %",
                 "figures": {
-                  "yield": 0.274,
+                  "yield": 0.284,
                   "minimumYield": 0.99,
                   "samples": 500,
                   "failedSamples": 0,
@@ -2362,7 +2363,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran",
-      "value": "# HELP tickwright_http_requests_total HTTP requests by method, route and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds Request latency.\n# TYPE tickwright_http_request_duration_seconds histogram\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.25\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"2.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"10\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"+Inf\"} 2\ntickwright_http_request_duration_seconds_sum{method=\"PUT\",route=\"/v1/catalogues/:id\"} 0.17719949800000176\ntickwright_http_request_duration_seconds_count{method=\"PUT\",route=\"/v1/catalogues/:id\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.025\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.05\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.25\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"2.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"10\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"+Inf\"} 2\ntickwright_http_request_duration_seconds_sum{method=\"PUT\",route=\"/v1/amplifiers/:id\"} 0.031061117999999624\ntickwright_http_request_duration_seconds_count{method=\"PUT\",route=\"/v1/amplifiers/:id\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/analyze\"} 0.04859106300000167\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/analyze\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"2.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/design\"} 3.651860036\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/design\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/snap\"} 0.2041570729999985\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/snap\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"2.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/tolerance\"} 4.111527185000003\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/tolerance\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.025\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/waveform\"} 0.01619275700000071\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/waveform\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/fit\"} 2.4673961170000003\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/fit\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/bom-checks\"} 0.619722931999997\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/bom-checks\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.001\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.005\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.01\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.025\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"GET\",route=\"/healthz\"} 0.0004643680000008317\ntickwright_http_request_duration_seconds_count{method=\"GET\",route=\"/healthz\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"GET\",route=\"/readyz\"} 0.02992110099999991\ntickwright_http_request_duration_seconds_count{method=\"GET\",route=\"/readyz\"} 1\n# HELP tickwright_process_resident_memory_bytes Resident set size.\n# TYPE tickwright_process_resident_memory_bytes gauge\ntickwright_process_resident_memory_bytes 296546304\n# HELP tickwright_process_heap_used_bytes V8 heap in use.\n# TYPE tickwright_process_heap_used_bytes gauge\ntickwright_process_heap_used_bytes 57134768\n# HELP tickwright_process_uptime_seconds Time since start.\n# TYPE tickwright_process_uptime_seconds gauge\ntickwright_process_uptime_seconds 18.777\n"
+      "value": "# HELP tickwright_http_requests_total HTTP requests by method, route and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds Request latency.\n# TYPE tickwright_http_request_duration_seconds histogram\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.25\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"2.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"10\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"+Inf\"} 2\ntickwright_http_request_duration_seconds_sum{method=\"PUT\",route=\"/v1/catalogues/:id\"} 0.13814383199999974\ntickwright_http_request_duration_seconds_count{method=\"PUT\",route=\"/v1/catalogues/:id\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.001\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.005\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.01\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.025\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.05\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.25\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"2.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"10\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"+Inf\"} 2\ntickwright_http_request_duration_seconds_sum{method=\"PUT\",route=\"/v1/amplifiers/:id\"} 0.020229543999997986\ntickwright_http_request_duration_seconds_count{method=\"PUT\",route=\"/v1/amplifiers/:id\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/analyze\"} 0.06743670899999961\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/analyze\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"2.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/design\"} 3.3506303000000006\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/design\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/snap\"} 0.06909244100000068\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/snap\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/tolerance\"} 1.2848475149999976\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/tolerance\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/waveform\"} 0.02613467600000149\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/waveform\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/fit\"} 1.8031815999999998\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/fit\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/bom-checks\"} 0.8695775980000034\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/bom-checks\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.001\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.005\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.01\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.025\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"GET\",route=\"/healthz\"} 0.00042027299999972454\ntickwright_http_request_duration_seconds_count{method=\"GET\",route=\"/healthz\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.001\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.005\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.01\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.025\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"GET\",route=\"/readyz\"} 0.0006250809999983175\ntickwright_http_request_duration_seconds_count{method=\"GET\",route=\"/readyz\"} 1\n# HELP tickwright_process_resident_memory_bytes Resident set size.\n# TYPE tickwright_process_resident_memory_bytes gauge\ntickwright_process_resident_memory_bytes 253923328\n# HELP tickwright_process_heap_used_bytes V8 heap in use.\n# TYPE tickwright_process_heap_used_bytes gauge\ntickwright_process_heap_used_bytes 57788440\n# HELP tickwright_process_uptime_seconds Time since start.\n# TYPE tickwright_process_uptime_seconds gauge\ntickwright_process_uptime_seconds 14.773\n"
     }
   },
   "GET /v1/topologies": {
@@ -2917,9 +2918,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           {
             "id": "greenhouse-approved",
             "version": 2,
-            "etag": "\"2-7bea7396a40c7a32\"",
-            "createdAt": "2026-12-02T16:53:21.887Z",
-            "updatedAt": "2026-12-02T16:53:21.979Z",
+            "etag": "\"2-2f7cf654748136c0\"",
+            "createdAt": "2026-12-02T17:07:47.357Z",
+            "updatedAt": "2026-12-02T17:07:47.428Z",
             "partCounts": {
               "total": 3,
               "resistors": 0,
@@ -2938,9 +2939,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
       "value": {
         "id": "greenhouse-approved",
         "version": 2,
-        "etag": "\"2-7bea7396a40c7a32\"",
-        "createdAt": "2026-12-02T16:53:21.887Z",
-        "updatedAt": "2026-12-02T16:53:21.979Z",
+        "etag": "\"2-2f7cf654748136c0\"",
+        "createdAt": "2026-12-02T17:07:47.357Z",
+        "updatedAt": "2026-12-02T17:07:47.428Z",
         "parts": [
           {
             "kind": "capacitor",
