@@ -6,9 +6,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
       "value": {
         "id": "greenhouse-approved",
         "version": 2,
-        "etag": "\"2-2f7cf654748136c0\"",
-        "createdAt": "2026-12-02T17:07:47.357Z",
-        "updatedAt": "2026-12-02T17:07:47.428Z",
+        "etag": "\"2-5f0c3a9e2b7d4e61\"",
+        "createdAt": "2026-01-05T09:30:00.000Z",
+        "updatedAt": "2026-01-05T09:30:00.000Z",
         "parts": [
           {
             "kind": "capacitor",
@@ -173,53 +173,127 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "parts": [
               {
                 "role": "rTop",
-                "value": 5100,
+                "value": 36000,
                 "arrangement": "single",
-                "tolerance": 0.05,
+                "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "rBottom",
-                "value": 5100,
+                "value": 36000,
                 "arrangement": "single",
-                "tolerance": 0.05,
+                "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "rFeedback",
-                "value": 18000,
+                "value": 27000,
                 "arrangement": "single",
-                "tolerance": 0.05,
+                "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "rTiming",
-                "value": 2200,
+                "value": 300000,
                 "arrangement": "single",
-                "tolerance": 0.05,
+                "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "cTiming",
-                "value": 1.8e-7,
+                "value": 3.9e-10,
                 "arrangement": "single",
-                "tolerance": 0.1,
+                "tolerance": 0.05,
                 "series": "E12"
               }
             ],
             "predicted": {
-              "frequencyHz": 4999.993635813778,
-              "dutyCycle": 0.5002039357666483,
+              "frequencyHz": 4999.638768621046,
+              "dutyCycle": 0.5002260889170101,
               "model": "time-domain",
               "thresholds": {
-                "upperV": 2.8053391369951273,
-                "lowerV": 2.19666364754965
+                "upperV": 3.4923996749414945,
+                "lowerV": 1.5096003700761096
               },
-              "supplyCurrentA": 0.002301663786837578
+              "supplyCurrentA": 0.0013007809884520928
             },
-            "frequencyError": -0.0000012728372442705194,
-            "dutyCycleError": 0.00020393576664834434,
-            "hysteresisFraction": 0.125,
+            "frequencyError": -0.00007224627579072163,
+            "dutyCycleError": 0.00022608891701014766,
+            "hysteresisFraction": 0.3333333333333333,
+            "robustness": {
+              "yield": 0.44,
+              "yieldStandardError": 0.015697133496278867,
+              "yieldInterval95": {
+                "low": 0.4095218538895405,
+                "high": 0.47093735712872614
+              },
+              "samples": 1000,
+              "seed": 1,
+              "worstCase": {
+                "frequencyMinHz": 4626.524701438772,
+                "frequencyMaxHz": 5403.178545092404,
+                "dutyMin": 0.49681899402222385,
+                "dutyMax": 0.5036370025165939,
+                "withinSpec": false
+              },
+              "marginFraction": -7.063570901848083,
+              "partTolerances": {
+                "rTop": 0.01,
+                "rBottom": 0.01,
+                "rFeedback": 0.01,
+                "rTiming": 0.01,
+                "cTiming": 0.05
+              },
+              "model": "time-domain"
+            },
+            "practicality": {
+              "edgeProximity": 0.3376624060881929,
+              "supplyCurrentA": 0.0013007809884520928,
+              "partCount": 5,
+              "score": 0.6600374621093087
+            },
+            "limits": [
+              {
+                "role": "rTop",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rBottom",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rFeedback",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rTiming",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "cTiming",
+                "min": 2.4999999999999996e-10,
+                "max": 0.00001,
+                "minReason": "50× the 5 pF stray and input capacitance at the inverting input",
+                "maxReason": "capacitor window 10 µF",
+                "atLimit": null
+              }
+            ],
             "circuit": {
               "topology": "three-resistor-divider",
               "supply": {
@@ -228,11 +302,11 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               },
               "amplifier": "cmos-rrio-fast",
               "parts": {
-                "rTiming": 2200,
-                "cTiming": 1.8e-7,
-                "rTop": 5100,
-                "rBottom": 5100,
-                "rFeedback": 18000
+                "rTiming": 300000,
+                "cTiming": 3.9e-10,
+                "rTop": 36000,
+                "rBottom": 36000,
+                "rFeedback": 27000
               },
               "edgeFractionLimit": 0.05
             },
@@ -244,53 +318,127 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "parts": [
               {
                 "role": "rTop",
-                "value": 51000,
+                "value": 36000,
                 "arrangement": "single",
-                "tolerance": 0.05,
+                "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "rBottom",
-                "value": 51000,
+                "value": 36000,
                 "arrangement": "single",
-                "tolerance": 0.05,
+                "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "rFeedback",
-                "value": 180000,
+                "value": 33000,
                 "arrangement": "single",
-                "tolerance": 0.05,
+                "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "rTiming",
-                "value": 2200,
+                "value": 240000,
                 "arrangement": "single",
-                "tolerance": 0.05,
+                "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "cTiming",
-                "value": 1.8e-7,
+                "value": 5.6e-10,
                 "arrangement": "single",
-                "tolerance": 0.1,
+                "tolerance": 0.05,
                 "series": "E12"
               }
             ],
             "predicted": {
-              "frequencyHz": 4999.986651348852,
-              "dutyCycle": 0.5002037089209476,
+              "frequencyHz": 4998.136018786441,
+              "dutyCycle": 0.5002199138900555,
               "model": "time-domain",
               "thresholds": {
-                "upperV": 2.805669011148127,
-                "lowerV": 2.1963337361593496
+                "upperV": 3.375806352447851,
+                "lowerV": 1.6261936977393856
               },
-              "supplyCurrentA": 0.0018076249686650022
+              "supplyCurrentA": 0.001298590648084923
             },
-            "frequencyError": -0.0000026697302295541903,
-            "dutyCycleError": 0.0002037089209475651,
-            "hysteresisFraction": 0.125,
+            "frequencyError": -0.00037279624271180367,
+            "dutyCycleError": 0.00021991389005548978,
+            "hysteresisFraction": 0.3333333333333333,
+            "robustness": {
+              "yield": 0.441,
+              "yieldStandardError": 0.015700923539715746,
+              "yieldInterval95": {
+                "low": 0.4105106415843448,
+                "high": 0.47194091591695075
+              },
+              "samples": 1000,
+              "seed": 1,
+              "worstCase": {
+                "frequencyMinHz": 4622.184828753856,
+                "frequencyMaxHz": 5404.986031087122,
+                "dutyMin": 0.49664704913331936,
+                "dutyMax": 0.5037968234685631,
+                "withinSpec": false
+              },
+              "marginFraction": -7.099720621742446,
+              "partTolerances": {
+                "rTop": 0.01,
+                "rBottom": 0.01,
+                "rFeedback": 0.01,
+                "rTiming": 0.01,
+                "cTiming": 0.05
+              },
+              "model": "time-domain"
+            },
+            "practicality": {
+              "edgeProximity": 0.3044013079813665,
+              "supplyCurrentA": 0.001298590648084923,
+              "partCount": 5,
+              "score": 0.6266936350662679
+            },
+            "limits": [
+              {
+                "role": "rTop",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rBottom",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rFeedback",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rTiming",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "cTiming",
+                "min": 2.4999999999999996e-10,
+                "max": 0.00001,
+                "minReason": "50× the 5 pF stray and input capacitance at the inverting input",
+                "maxReason": "capacitor window 10 µF",
+                "atLimit": null
+              }
+            ],
             "circuit": {
               "topology": "three-resistor-divider",
               "supply": {
@@ -299,11 +447,11 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               },
               "amplifier": "cmos-rrio-fast",
               "parts": {
-                "rTiming": 2200,
-                "cTiming": 1.8e-7,
-                "rTop": 51000,
-                "rBottom": 51000,
-                "rFeedback": 180000
+                "rTiming": 240000,
+                "cTiming": 5.6e-10,
+                "rTop": 36000,
+                "rBottom": 36000,
+                "rFeedback": 33000
               },
               "edgeFractionLimit": 0.05
             },
@@ -504,8 +652,8 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "frequencyPassFraction": 0.9978,
             "dutyPassFraction": 1
           },
-          "elapsedS": 0.6211128349999999,
-          "samplesPerSecond": 32200.268410167377
+          "elapsedS": 1,
+          "samplesPerSecond": 100000
         },
         "sensitivities": [
           {
@@ -2362,8 +2510,8 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   },
   "GET /metrics": {
     "example": {
-      "summary": "Prometheus text exposition after the examples above ran",
-      "value": "# HELP tickwright_http_requests_total HTTP requests by method, route and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds Request latency.\n# TYPE tickwright_http_request_duration_seconds histogram\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.25\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"0.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"2.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"10\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/catalogues/:id\",le=\"+Inf\"} 2\ntickwright_http_request_duration_seconds_sum{method=\"PUT\",route=\"/v1/catalogues/:id\"} 0.13814383199999974\ntickwright_http_request_duration_seconds_count{method=\"PUT\",route=\"/v1/catalogues/:id\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.001\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.005\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.01\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.025\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.05\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.25\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"0.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"1\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"2.5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"5\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"10\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"PUT\",route=\"/v1/amplifiers/:id\",le=\"+Inf\"} 2\ntickwright_http_request_duration_seconds_sum{method=\"PUT\",route=\"/v1/amplifiers/:id\"} 0.020229543999997986\ntickwright_http_request_duration_seconds_count{method=\"PUT\",route=\"/v1/amplifiers/:id\"} 2\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/analyze\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/analyze\"} 0.06743670899999961\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/analyze\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"2.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/design\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/design\"} 3.3506303000000006\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/design\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/snap\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/snap\"} 0.06909244100000068\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/snap\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/tolerance\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/tolerance\"} 1.2848475149999976\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/tolerance\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/waveform\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/waveform\"} 0.02613467600000149\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/waveform\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/fit\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/fit\"} 1.8031815999999998\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/fit\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.001\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.005\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.01\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.025\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.05\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.1\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.25\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"0.5\"} 0\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"POST\",route=\"/v1/bom-checks\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"POST\",route=\"/v1/bom-checks\"} 0.8695775980000034\ntickwright_http_request_duration_seconds_count{method=\"POST\",route=\"/v1/bom-checks\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.001\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.005\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.01\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.025\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/healthz\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"GET\",route=\"/healthz\"} 0.00042027299999972454\ntickwright_http_request_duration_seconds_count{method=\"GET\",route=\"/healthz\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.001\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.005\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.01\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.025\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.05\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.25\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"0.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"1\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"2.5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"5\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"10\"} 1\ntickwright_http_request_duration_seconds_bucket{method=\"GET\",route=\"/readyz\",le=\"+Inf\"} 1\ntickwright_http_request_duration_seconds_sum{method=\"GET\",route=\"/readyz\"} 0.0006250809999983175\ntickwright_http_request_duration_seconds_count{method=\"GET\",route=\"/readyz\"} 1\n# HELP tickwright_process_resident_memory_bytes Resident set size.\n# TYPE tickwright_process_resident_memory_bytes gauge\ntickwright_process_resident_memory_bytes 253923328\n# HELP tickwright_process_heap_used_bytes V8 heap in use.\n# TYPE tickwright_process_heap_used_bytes gauge\ntickwright_process_heap_used_bytes 57788440\n# HELP tickwright_process_uptime_seconds Time since start.\n# TYPE tickwright_process_uptime_seconds gauge\ntickwright_process_uptime_seconds 14.773\n"
+      "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
+      "value": "# HELP tickwright_http_requests_total HTTP requests by method, route and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds Request latency.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_process_resident_memory_bytes Resident set size.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_heap_used_bytes V8 heap in use.\n# TYPE tickwright_process_heap_used_bytes gauge\n# HELP tickwright_process_uptime_seconds Time since start.\n# TYPE tickwright_process_uptime_seconds gauge"
     }
   },
   "GET /v1/topologies": {
@@ -2918,9 +3066,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           {
             "id": "greenhouse-approved",
             "version": 2,
-            "etag": "\"2-2f7cf654748136c0\"",
-            "createdAt": "2026-12-02T17:07:47.357Z",
-            "updatedAt": "2026-12-02T17:07:47.428Z",
+            "etag": "\"2-5f0c3a9e2b7d4e61\"",
+            "createdAt": "2026-01-05T09:30:00.000Z",
+            "updatedAt": "2026-01-05T09:30:00.000Z",
             "partCounts": {
               "total": 3,
               "resistors": 0,
@@ -2939,9 +3087,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
       "value": {
         "id": "greenhouse-approved",
         "version": 2,
-        "etag": "\"2-2f7cf654748136c0\"",
-        "createdAt": "2026-12-02T17:07:47.357Z",
-        "updatedAt": "2026-12-02T17:07:47.428Z",
+        "etag": "\"2-5f0c3a9e2b7d4e61\"",
+        "createdAt": "2026-01-05T09:30:00.000Z",
+        "updatedAt": "2026-01-05T09:30:00.000Z",
         "parts": [
           {
             "kind": "capacitor",
