@@ -5,10 +5,13 @@
  */
 import closeWithGrace from 'close-with-grace';
 import { configFromEnv } from './config.ts';
-import { buildApp } from './http/app.ts';
+import { API_VERSION, buildApp } from './http/app.ts';
 import { serviceLoggerOptions } from './http/logger-options.ts';
+import { startTracing } from './http/tracing.ts';
 
 const config = configFromEnv();
+// Before the app exists, so its spans go to the configured exporter (no-op when off).
+const stopTracing = startTracing(config.tracing, API_VERSION);
 const app = await buildApp({
   config,
   logger: serviceLoggerOptions(config.logLevel),
@@ -18,6 +21,7 @@ closeWithGrace({ delay: 10_000 }, async ({ signal, err }) => {
   if (err) app.log.error({ err }, 'shutting down after an error');
   else app.log.info({ signal }, 'shutting down');
   await app.close();
+  await stopTracing();
 });
 
 try {

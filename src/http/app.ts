@@ -16,6 +16,7 @@ import { parseApiKeyConfig } from './auth/api-keys.ts';
 import { registerAuth } from './auth/plugin.ts';
 import { DOCS_PREFIX, installRouteAccess } from './auth/route-access.ts';
 import { Metrics } from './metrics.ts';
+import { observedStore, observedTasks, registerRequestTracing } from './tracing.ts';
 import { errorHandler, problem, sendProblem } from './problem.ts';
 import { ROUTES } from './routes/index.ts';
 import { REGISTERED_SCHEMAS } from './schemas/index.ts';
@@ -46,7 +47,9 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
     ajv: { customOptions: { removeAdditional: false, coerceTypes: false, useDefaults: true } },
   }).withTypeProvider<TypeBoxTypeProvider>();
 
-  const store =
+  const metrics = new Metrics();
+  const tracing = config.tracing !== 'off';
+  const rawStore =
     options.store ??
     (await openStore({
       databaseUrl: config.databaseUrl,
@@ -54,15 +57,18 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
       databasePoolSize: config.databasePoolSize,
       onIdleError: (err) => app.log.warn({ err }, 'an idle database connection failed; the pool replaces it'),
     }));
+  const store = observedStore(rawStore, metrics, tracing);
   const services: Services = {
     store,
     amplifiers: new AmplifierDirectory(storedAmplifierSource(store)),
     keys: parseApiKeyConfig(config.apiKeys),
-    metrics: new Metrics(),
-    workers: new WorkerPool({ threads: config.workerThreads }),
+    metrics,
+    workers: new WorkerPool({ threads: config.workerThreads, observe: observedTasks(metrics, tracing) }),
   };
+  metrics.watchPool(() => services.workers.stats);
   app.decorate('services', services);
-  if (!options.store) app.addHook('onClose', async () => await store.close());
+  if (!options.store) app.addHook('onClose', async () => await rawStore.close());
+  if (tracing) registerRequestTracing(app);
   app.addHook('onClose', async () => services.workers.close());
 
   app.setErrorHandler(errorHandler);

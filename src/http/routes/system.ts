@@ -38,7 +38,7 @@ export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
         response: { 200: { description: 'Metrics', content: { 'text/plain': { schema: Type.String() } } } },
       },
     },
-    async (_request, reply) => reply.type('text/plain; version=0.0.4; charset=utf-8').send(app.services.metrics.render()),
+    async (_request, reply) => reply.type(app.services.metrics.contentType).send(await app.services.metrics.render()),
   );
 
   app.get('/openapi.json', { config: { access: 'public' }, schema: { hide: true } }, async () => app.swagger());

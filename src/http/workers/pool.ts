@@ -27,7 +27,11 @@ export interface WorkerPoolOptions {
   idleTimeoutMs?: number;
   /** Tasks that may wait for a thread; beyond it run() rejects with 503 (default 8 per thread). */
   maxQueue?: number;
+  /** Wraps every run (metrics, tracing): called with the task name and signal, must call `run` once. */
+  observe?: TaskObserver;
 }
+
+export type TaskObserver = <R>(task: TaskName, signal: AbortSignal | undefined, run: () => Promise<R>) => Promise<R>;
 
 export interface RunOptions {
   /** Aborting cancels a queued task and terminates a running one. */
@@ -74,6 +78,11 @@ export class WorkerPool {
   }
 
   async run<N extends TaskName>(task: N, input: TaskInput<N>, options: RunOptions = {}): Promise<TaskOutput<N>> {
+    const observe = this.options.observe;
+    return observe ? observe(task, options.signal, () => this.runTask(task, input, options)) : this.runTask(task, input, options);
+  }
+
+  private async runTask<N extends TaskName>(task: N, input: TaskInput<N>, options: RunOptions): Promise<TaskOutput<N>> {
     if (this.closed) throw new HttpProblem(503, 'shutting-down', 'The service is shutting down', undefined, { 'retry-after': '5' });
     let reply: TaskReply;
     if (!this.piscina) {
