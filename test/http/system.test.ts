@@ -27,9 +27,10 @@ describe('system endpoints', () => {
     expect(m.headers['content-type']).toMatch(/^text\/plain/);
     expect(m.body).toMatch(/# TYPE tickwright_http_requests_total counter/);
     expect(m.body).toMatch(/tickwright_http_requests_total\{method="GET",route="\/healthz",status="200"\} \d+/);
-    // Every non-comment line is "name{labels} value" or "name value".
-    for (const line of m.body.trim().split('\n').filter((l) => !l.startsWith('#'))) {
-      expect(line).toMatch(/^[a-z_]+(\{[^}]*\})? -?[0-9.e+-]+$/);
+    // Every non-comment line is "name{labels} value" or "name value"; empty lines are allowed (exposition format 0.0.4).
+    for (const line of m.body.trim().split('\n').filter((l) => !l.startsWith('#') && l.trim() !== '')) {
+      // Metric names per the format: [a-zA-Z_:][a-zA-Z0-9_:]* (digits allowed after the first character).
+      expect(line).toMatch(/^[a-zA-Z_:][a-zA-Z0-9_:]*(\{[^}]*\})? (-?[0-9.e+-]+|[+-]Inf|NaN)$/);
     }
     await expectContract(m, 'GET', '/metrics');
   });
