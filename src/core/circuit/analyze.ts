@@ -7,7 +7,7 @@
  */
 import { hasDynamicLimits } from '../amplifiers/model.ts';
 import { CoreError } from '../errors.ts';
-import { CHECK_CODES, oscillationChecks, supplyChecks, type Check } from './checks.ts';
+import { CHECK_CODES, clampReached, oscillationChecks, supplyChecks, type Check } from './checks.ts';
 import { shapeFor, type CompiledShape } from './engine/compiled-network.ts';
 import { ConfigCache } from './engine/configs.ts';
 import { analyzeTimeDomain } from './engine/index.ts';
@@ -95,11 +95,23 @@ export function chooseModel(circuit: Circuit, choice: ModelChoice = 'auto'): Mod
   return hasDynamicLimits(circuit.amplifier) ? 'time-domain' : 'closed-form';
 }
 
+/** The same circuit and model with the input clamp removed: the clamp check's frequency shift (undefined when it does not oscillate). */
+function frequencyWithoutClamp(circuit: Circuit, model: ModelChoice | undefined): number | undefined {
+  try {
+    return analyzeTimeDomain(prepareCircuit({ ...circuit, amplifier: { ...circuit.amplifier, differentialClampV: Infinity } }, model)).frequencyHz;
+  } catch (err) {
+    if (err instanceof CoreError) return undefined;
+    throw err;
+  }
+}
+
 export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): AnalysisResult {
   const edgeFraction = options.edgeFractionLimit ?? DEFAULT_EDGE_FRACTION;
   checkEdgeFraction(edgeFraction);
   const prepared = prepareCircuit(circuit, options.model);
   const figures: OscillationFigures = analyzeTimeDomain(prepared);
+  // An open-drain stage cannot source: whatever the walk's round-off leaves there is not a current.
+  if (prepared.shape.openDrain) figures.currents.outputPeakSourceA = 0;
   const capacitanceF = circuit.parts[prepared.topology.capacitorRole];
   const checks: Check[] = [
     ...supplyChecks(circuit.supply, circuit.amplifier, capacitanceF),
@@ -108,6 +120,7 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
       amplifier: circuit.amplifier,
       capacitanceF,
       timingResistanceOhm: Math.max(prepared.high.tauS, prepared.low.tauS) / capacitanceF,
+      frequencyWithoutClampHz: prepared.dynamics && clampReached(figures, circuit.amplifier) ? frequencyWithoutClamp(circuit, options.model) : undefined,
     }),
   ];
   if (!prepared.dynamics && hasDynamicLimits(circuit.amplifier)) {

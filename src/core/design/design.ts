@@ -14,7 +14,7 @@
  * (steered-design.ts), which sets them by the ratio of its two path resistors.
  */
 import type { AmplifierModel } from '../amplifiers/model.ts';
-import type { Check } from '../circuit/checks.ts';
+import { OUTPUT_RESISTANCE_WARNING_FRACTION, type Check } from '../circuit/checks.ts';
 import { formatPercent, formatSi } from '../circuit/format.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
 import { canonicalTopologyId, findTopology, TOPOLOGIES } from '../circuit/topologies/index.ts';
@@ -350,6 +350,12 @@ export function designOscillator(req: DesignRequest): DesignResult {
       let trMin = Math.max(rMin, tb.minOhm);
       const trMax = Math.min(rMax, tb.maxOhm);
       let trMinReason = tb.minOhm > rMin ? tb.minReason : rWindow.minReason;
+      // Keep the output resistance under the analysis's warning share of the timing resistance (checks.ts).
+      const r0FloorOhm = amp.outputResistanceOhm / OUTPUT_RESISTANCE_WARNING_FRACTION;
+      if (r0FloorOhm > trMin) {
+        trMin = r0FloorOhm;
+        trMinReason = `the ${formatSi(amp.outputResistanceOhm, 'Ω')} output resistance must stay below ${formatPercent(OUTPUT_RESISTANCE_WARNING_FRACTION)} of the timing resistance`;
+      }
       const trMaxReason = tb.maxOhm < rMax ? tb.maxReason : rWindow.maxReason;
       if (Number.isFinite(budgetA)) {
         const budgetMin = (ctx.levels.highV - width.thresholds.lowerV) / (budgetA * (1 - NETWORK_BUDGET_SHARE));
