@@ -226,6 +226,8 @@ class CompiledConfig {
   readonly coeff: Float64Array;
   readonly conductance: Float64Array;
   readonly fixedSlot: Int32Array;
+  /** Nodes held at a parameter's voltage (rails, load return). */
+  readonly fixedNodes: Int32Array;
 
   constructor(
     shape: CompiledShape,
@@ -328,6 +330,9 @@ class CompiledConfig {
     this.railBranches = Int32Array.from(railB);
     this.matrix = new Float64Array(m * width);
     this.coeff = new Float64Array(nodeCount * STRIDE);
+    this.coeff[NODE.capacitor * STRIDE + 1] = 1;
+    if (sourceNode >= 0) this.coeff[sourceNode * STRIDE + 2] = 1;
+    this.fixedNodes = Int32Array.from([...fixedSlot.keys()].filter((k) => fixedSlot[k] >= 0));
     this.conductance = new Float64Array(branches.length);
   }
 
@@ -340,7 +345,7 @@ class CompiledConfig {
    * Solve for `values` and write the reduced coefficients into `out`. False when
    * a node floats (no DC path) or a resistance is not a positive finite value.
    */
-  solve(values: ArrayLike<number>, capacitanceF: number, biasA: number, limitA: number, out: NetworkCoefficients): boolean {
+  solve(values: ArrayLike<number>, capacitanceF: number, biasA: number, limitA: number, out: NetworkCoefficients, currents = true): boolean {
     const { m, width, matrix: a, coeff, rowNode, conductance, fixedSlot } = this;
     const nb = conductance.length;
     for (let j = 0; j < nb; j++) {
@@ -350,10 +355,11 @@ class CompiledConfig {
       conductance[j] = 1 / r;
     }
     a.fill(0);
-    coeff.fill(0);
-    for (let k = 0; k < this.nodeCount; k++) if (fixedSlot[k] >= 0) coeff[k * STRIDE] = values[fixedSlot[k]];
-    coeff[NODE.capacitor * STRIDE + 1] = 1;
-    if (this.sourceNode >= 0) coeff[this.sourceNode * STRIDE + 2] = 1;
+    // Only the held nodes' voltages and the rows change between solves (the rest was set once, in the constructor).
+    for (let k = 0; k < this.fixedNodes.length; k++) {
+      const node = this.fixedNodes[k];
+      coeff[node * STRIDE] = values[fixedSlot[node]];
+    }
     // Bias current flows into the input pins, i.e. out of the network at P and N.
     if (this.decisionRow >= 0) {
       a[this.decisionRow * width + m] = -biasA;
@@ -388,7 +394,9 @@ class CompiledConfig {
       const g = conductance[j];
       const from = this.branchFrom[j];
       const other = (from === N ? this.branchTo[j] : from) * STRIDE;
-      const emf = from === N ? this.emfOf(j, values) : -this.emfOf(j, values);
+      const slot = this.branchEmfSlot[j];
+      const e = slot >= 0 ? this.branchEmf[j] + this.branchEmfSign[j] * values[slot] : this.branchEmf[j];
+      const emf = from === N ? e : -e;
       q0 -= g * (-coeff[other] - emf);
       qv -= g * (1 - coeff[other + 1]);
       qs -= g * -coeff[other + 2];
@@ -406,10 +414,14 @@ class CompiledConfig {
     out.oV = coeff[o + 1];
     out.oS = coeff[o + 2];
     out.iC = out.iV = out.iS = 0;
-    if (this.stage === STAGE.driven) this.leaving(this.sourceBranches, this.sourceNode, values, out, 0);
-    else if (this.stage === STAGE.limitedSource) out.iC = limitA;
-    else if (this.stage === STAGE.limitedSink) out.iC = -limitA;
-    this.leaving(this.railBranches, NODE.positiveRail, values, out, 1);
+    out.railC = out.railV = out.railS = 0;
+    // Currents only when asked (figures) or when the current limit watches them: timing needs neither.
+    if (currents || limitA !== Infinity) {
+      if (this.stage === STAGE.driven) this.leaving(this.sourceBranches, this.sourceNode, values, out, 0);
+      else if (this.stage === STAGE.limitedSource) out.iC = limitA;
+      else if (this.stage === STAGE.limitedSink) out.iC = -limitA;
+    }
+    if (currents) this.leaving(this.railBranches, NODE.positiveRail, values, out, 1);
     const dt = this.diodeTerminals;
     for (let d = 0; d < dt.length; d++) {
       const f = dt[d].from * STRIDE;
@@ -517,6 +529,11 @@ export class CompiledShape {
   readonly openDrain: boolean;
   readonly diodeTerminals: readonly { from: number; to: number; emfV: number }[];
   private readonly configs: (CompiledConfig | undefined)[] = new Array<CompiledConfig | undefined>(KEY_SPACE);
+  /** Parameter slots the walk reads on every evaluation (looked up once here, not per evaluation). */
+  readonly slot: Readonly<Record<'positiveV' | 'negativeV' | 'headroomHigh' | 'headroomLow' | 'rOut' | 'offset' | 'bias' | 'slew' | 'delay' | 'limit' | 'clamp', number>>;
+  /** Keys of the nominal configuration of each state (high, low). */
+  nominalHighKey = 0;
+  nominalLowKey = 0;
   /** Per diode combination: the topology's branches mapped to parameter slots. */
   private readonly topologyBranches = new Map<number, CompiledBranch[]>();
 
@@ -531,6 +548,23 @@ export class CompiledShape {
     this.openDrain = topology.needsOpenDrain;
     this.layout = new ParameterLayout(topology, roles, this.hasLoad);
     this.diodeTerminals = findDiodeTerminals(topology, template);
+    const l = this.layout;
+    this.slot = {
+      positiveV: l.indexOf('supplyPositiveV'),
+      negativeV: l.indexOf('supplyNegativeV'),
+      headroomHigh: l.indexOf('outputHeadroomHighV'),
+      headroomLow: l.indexOf('outputHeadroomLowV'),
+      rOut: l.indexOf('outputResistanceOhm'),
+      offset: l.indexOf('inputOffsetV'),
+      bias: l.indexOf('inputBiasCurrentA'),
+      slew: l.indexOf('slewRateVPerS'),
+      delay: l.indexOf('recoveryDelayS'),
+      limit: l.indexOf('outputCurrentLimitA'),
+      clamp: l.indexOf('differentialClampV'),
+    };
+    const bits = (on: readonly boolean[] | undefined) => (on ?? []).reduce((acc, x, k) => acc | (x ? 1 << k : 0), 0);
+    this.nominalHighKey = configKey(this.openDrain ? STAGE.released : STAGE.driven, CLAMP.off, bits(topology.nominalDiodes?.('high')));
+    this.nominalLowKey = configKey(STAGE.driven, CLAMP.off, bits(topology.nominalDiodes?.('low')));
   }
 
   config(key: number): CompiledConfig {

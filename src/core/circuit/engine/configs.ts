@@ -75,19 +75,23 @@ export class ConfigCache {
   offsetV = 0;
   biasA = 0;
 
+  /** False: skip the output and rail current sums (timing-only evaluations; figures need them). */
+  currents = true;
+
   /** `dynamics` false: no clamp and no current limit (the closed-form special case of the model). */
-  reset(shape: CompiledShape, values: ArrayLike<number>, dynamics = true): void {
+  reset(shape: CompiledShape, values: ArrayLike<number>, dynamics = true, currents = true): void {
     this.shape = shape;
+    this.currents = currents;
     this.values = values;
-    const l = shape.layout;
-    this.capacitanceF = values[l.capacitorSlot];
-    this.spanV = values[l.indexOf('supplyPositiveV')] - values[l.indexOf('supplyNegativeV')];
-    this.clampV = dynamics ? values[l.indexOf('differentialClampV')] : Infinity;
-    this.limitA = dynamics ? values[l.indexOf('outputCurrentLimitA')] : Infinity;
-    this.outputResistanceOhm = shape.outputResistanceSeparate ? values[l.indexOf('outputResistanceOhm')] : 0;
+    const slot = shape.slot;
+    this.capacitanceF = values[shape.layout.capacitorSlot];
+    this.spanV = values[slot.positiveV] - values[slot.negativeV];
+    this.clampV = dynamics ? values[slot.clamp] : Infinity;
+    this.limitA = dynamics ? values[slot.limit] : Infinity;
+    this.outputResistanceOhm = shape.outputResistanceSeparate ? values[slot.rOut] : 0;
     this.openDrain = shape.openDrain;
-    this.offsetV = values[l.indexOf('inputOffsetV')];
-    this.biasA = values[l.indexOf('inputBiasCurrentA')];
+    this.offsetV = values[slot.offset];
+    this.biasA = values[slot.bias];
     // Only the slots the previous evaluation filled need clearing.
     for (let i = 0; i < this.used; i++) this.slot[this.pool[i].key] = -1;
     this.used = 0;
@@ -103,7 +107,7 @@ export class ConfigCache {
     m.stage = key % 4;
     m.clamp = Math.floor(key / 4) % 3;
     m.diodes = Math.floor(key / 12);
-    if (!this.shape.config(key).solve(this.values, this.capacitanceF, this.biasA, this.limitA, m)) return undefined;
+    if (!this.shape.config(key).solve(this.values, this.capacitanceF, this.biasA, this.limitA, m, this.currents)) return undefined;
     this.slot[key] = this.used++;
     m.hC = m.pC + this.offsetV;
     m.hV = m.pV - 1;

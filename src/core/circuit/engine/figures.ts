@@ -193,11 +193,7 @@ export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float
     const next = cycle.startIndex + ((k + 1) % n);
     const target = d[i * LOG_STRIDE + LOG.target];
     if (target === d[next * LOG_STRIDE + LOG.target]) continue;
-    const cfg = walk.cache.get(d[i * LOG_STRIDE + LOG.key]);
-    const b = i * LOG_STRIDE;
-    const durationS = d[b + LOG.durationS];
-    const pin = cfg.oC + cfg.oV * d[b + LOG.vEnd] + cfg.oS * (d[b + LOG.s0] + d[b + LOG.rate] * durationS);
-    out[target ? 0 : 1] = pin;
+    out[target ? 0 : 1] = pinAtEnd(walk, d, i);
   }
 }
 
@@ -206,22 +202,31 @@ export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float
  * cycle, absolute times, into out[0] (rise) and out[1] (fall); NaN where none.
  * A jump of the pin between pieces (instant edge) crosses at the boundary.
  */
+const LOG_KEY = LOG.key;
+const LOG_V0 = LOG.v0;
+const LOG_S0 = LOG.s0;
+const LOG_VEND = LOG.vEnd;
+const LOG_RATE = LOG.rate;
+const LOG_DURATION = LOG.durationS;
+
+/** The pin at the end of logged piece i. */
+function pinAtEnd(walk: OscillatorWalk, d: Float64Array, i: number): number {
+  const b = i * LOG_STRIDE;
+  const cfg = walk.cache.get(d[b + LOG_KEY]);
+  return cfg.oC + cfg.oV * d[b + LOG_VEND] + cfg.oS * (d[b + LOG_S0] + d[b + LOG_RATE] * d[b + LOG_DURATION]);
+}
+
 export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, memo?: Float64Array): void {
   const ev = walk.evaluator;
   const d = walk.log.data;
   let riseAt = Number.NaN;
   let fallAt = Number.NaN;
-  const pinAt = (i: number, end: boolean) => {
-    const b = i * LOG_STRIDE;
-    const cfg = walk.cache.get(d[b + LOG.key]);
-    const v = end ? d[b + LOG.vEnd] : d[b + LOG.v0];
-    const sv = d[b + LOG.s0] + (end ? d[b + LOG.rate] * d[b + LOG.durationS] : 0);
-    return cfg.oC + cfg.oV * v + cfg.oS * sv - levelV;
-  };
-  let prevEnd = pinAt(cycle.endIndex - 1, true);
+  let prevEnd = pinAtEnd(walk, d, cycle.endIndex - 1) - levelV;
   for (let i = cycle.startIndex; i < cycle.endIndex && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); i++) {
-    const start = pinAt(i, false);
-    const end = pinAt(i, true);
+    const b = i * LOG_STRIDE;
+    const pc = walk.cache.get(d[b + LOG_KEY]);
+    const start = pc.oC + pc.oV * d[b + LOG_V0] + pc.oS * d[b + LOG_S0] - levelV;
+    const end = pinAtEnd(walk, d, i) - levelV;
     const startS = d[i * LOG_STRIDE + LOG.startS];
     if (prevEnd < 0 && start >= 0 && Number.isNaN(riseAt)) riseAt = startS;
     else if (prevEnd >= 0 && start < 0 && Number.isNaN(fallAt)) fallAt = startS;

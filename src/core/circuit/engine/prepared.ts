@@ -22,6 +22,8 @@ import type { ModelEffect, ModelName } from '../result.ts';
 import { CLAMP, configKey, STAGE, type CompiledShape, type ParameterInfo } from './compiled-network.ts';
 import { diodeBits } from './configs.ts';
 import { cycleLevels, phaseIn, pinCrossings, transitionDurations } from './figures.ts';
+import { Kinematics } from './kinematics.ts';
+import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
 import { OscillatorWalk, SteadyStart, type SteadyCycle } from './walker.ts';
 
 /** Result status of one evaluation (0 = oscillates; the figures are then in the output). */
@@ -72,10 +74,10 @@ const transitions = new Float64Array(2);
  * Walk `values` to its steady cycle: from `start` when given and it converges,
  * else from power-up. Throws CoreError like an analysis would.
  */
-export function walkToCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, start?: SteadyStart): SteadyCycle {
-  walk.reset(shape, values, dynamics);
-  const high = walk.cache.get(nominalKey(shape, 'high'));
-  const low = walk.cache.get(nominalKey(shape, 'low'));
+export function walkToCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, start?: SteadyStart, currents = true): SteadyCycle {
+  walk.reset(shape, values, dynamics, currents);
+  const high = walk.cache.get(shape.nominalHighKey);
+  const low = walk.cache.get(shape.nominalLowKey);
   // Switching levels of the nominal states (requireHysteresis and powerUpState on the same numbers).
   const upperV = (high.hC + high.hS * (shape.openDrain ? 0 : walk.highV)) / -high.hV;
   const lowerV = (low.hC + low.hS * walk.lowV) / -low.hV;
@@ -90,7 +92,7 @@ export function walkToCycle(walk: OscillatorWalk, shape: CompiledShape, values: 
       return walk.runToSteadyState();
     } catch (err) {
       if (!(err instanceof CoreError)) throw err;
-      walk.reset(shape, values, dynamics); // and walk from power-up below
+      walk.reset(shape, values, dynamics, currents); // and walk from power-up below
     }
   }
   walk.powerUp(0 < upperV ? 'high' : 'low');
@@ -116,6 +118,7 @@ export class PreparedModel {
   readonly effects: readonly ModelEffect[];
   readonly model: ModelName;
   private readonly start = new SteadyStart();
+  private readonly twoPiece: boolean;
   private readonly wantTransitions: boolean;
   private readonly roleSlots: Int32Array;
   private readonly slewSlot: number;
@@ -135,6 +138,8 @@ export class PreparedModel {
     this.wantTransitions = options.transitions ?? false;
     this.effects = effectsOf(this.nominal, shape, this.dynamics);
     this.model = this.effects.length > 0 ? 'time-domain' : 'closed-form';
+    // No amplifier effect can add a piece: the two-piece program applies (it still checks for event functions).
+    this.twoPiece = !this.dynamics || this.effects.length === 0;
     this.roleSlots = layout.roleSlots;
     this.slewSlot = layout.indexOf('slewRateVPerS');
     this.delaySlot = layout.indexOf('recoveryDelayS');
@@ -177,9 +182,14 @@ export class PreparedModel {
   evaluate(values: ArrayLike<number>, out: Float64Array): EvaluationStatus {
     if (!this.valid(values)) return fail(out, EVALUATION_STATUS.invalidValue);
     const walk = sharedWalk;
+    if (this.twoPiece) {
+      const status = twoPieceCycle(walk, this.shape, values, this.dynamics, out);
+      if (status === EVALUATION_STATUS.ok) return status;
+      if (status !== undefined) return fail(out, status);
+    }
     let cycle: SteadyCycle;
     try {
-      cycle = walkToCycle(walk, this.shape, values, this.dynamics, this.start);
+      cycle = walkToCycle(walk, this.shape, values, this.dynamics, this.start, false);
     } catch (err) {
       if (!(err instanceof CoreError)) throw err;
       if (err.code === 'no-oscillation') return fail(out, err.message.startsWith('The network has a floating node') ? EVALUATION_STATUS.noPath : EVALUATION_STATUS.latched);
@@ -189,6 +199,52 @@ export class PreparedModel {
     readTiming(walk, cycle, out, this.wantTransitions);
     return EVALUATION_STATUS.ok;
   }
+}
+
+const twoPiece = { kin: new Kinematics(), ends: new PieceEnds() };
+const twoPieceProbe = new AffineProbe(twoPiece.kin);
+
+/**
+ * The walk's first steps when no piece but the two nominal ones can occur (no
+ * amplifier effect, no event function in either configuration): from the
+ * lower switching level the high piece runs until its threshold function
+ * leaves zero — the same exit search OscillatorWalk.step makes — and the low
+ * piece back. The output jumps at the decisions, so the 50 % crossings are the
+ * decisions and the state levels are the pin at each piece's end. Returns
+ * undefined when the shape's pieces can end otherwise (the full walk answers).
+ */
+function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, out: Float64Array): EvaluationStatus | undefined {
+  walk.reset(shape, values, dynamics, false);
+  const cache = walk.cache;
+  const high = cache.tryGet(shape.nominalHighKey);
+  const low = cache.tryGet(shape.nominalLowKey);
+  if (!high || !low) return EVALUATION_STATUS.noPath;
+  if (high.eventCount > 0 || low.eventCount > 0) return undefined;
+  // A vector that gives the amplifier a slew rate or a delay its nominal lacks needs the walk.
+  if (dynamics && (Number.isFinite(values[shape.slot.slew]) || values[shape.slot.delay] > 0)) return undefined;
+  const sHigh = shape.openDrain ? 0 : walk.highV;
+  const sLow = walk.lowV;
+  const upperV = (high.hC + high.hS * sHigh) / -high.hV;
+  const lowerV = (low.hC + low.hS * sLow) / -low.hV;
+  if (!(upperV > lowerV)) return EVALUATION_STATUS.latched;
+  const { kin, ends } = twoPiece;
+  // High piece: h = hC + hV·v + hS·s must stay >= 0 (logic high); the low piece watches −h.
+  kin.set(high.a, high.b0 + high.bS * sHigh, 0, lowerV, sHigh, 0);
+  ends.fill(kin, Infinity);
+  const timeHighS = firstExit(twoPieceProbe, ends, high.hC, high.hV, high.hS, 0);
+  kin.set(low.a, low.b0 + low.bS * sLow, 0, upperV, sLow, 0);
+  ends.fill(kin, Infinity);
+  const timeLowS = firstExit(twoPieceProbe, ends, -low.hC, -low.hV, -low.hS, 0);
+  if (!(timeHighS > 0 && timeHighS < Infinity && timeLowS > 0 && timeLowS < Infinity)) return EVALUATION_STATUS.latched;
+  const periodS = timeHighS + timeLowS;
+  out[0] = periodS;
+  out[1] = timeHighS / periodS;
+  out[2] = timeHighS;
+  out[3] = timeLowS;
+  out[4] = high.oC + high.oV * upperV + high.oS * sHigh;
+  out[5] = low.oC + low.oV * lowerV + low.oS * sLow;
+  out[6] = out[7] = 0;
+  return EVALUATION_STATUS.ok;
 }
 
 function fail(out: Float64Array, status: EvaluationStatus): EvaluationStatus {

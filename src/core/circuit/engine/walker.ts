@@ -27,7 +27,8 @@
 import { CoreError } from '../../errors.ts';
 import { formatVolts } from '../format.ts';
 import type { CompiledShape } from './compiled-network.ts';
-import { BOUNDARY_TOLERANCE, CLAMP, ConfigCache, configKey, diodeBits, EVENT, STAGE, type ConfigModel } from './configs.ts';
+import { CLAMP, configKey, STAGE } from './compiled-network.ts';
+import { BOUNDARY_TOLERANCE, ConfigCache, diodeBits, EVENT, type ConfigModel } from './configs.ts';
 import { Kinematics } from './kinematics.ts';
 import { PieceEvaluator } from './piece-evaluator.ts';
 import { PieceLog } from './piece-log.ts';
@@ -158,16 +159,16 @@ export class OscillatorWalk {
    * the previous circuit survives). `dynamics` false gives the closed-form special
    * case of the same model: no slew, delay, clamp or current-limit pieces.
    */
-  reset(shape: CompiledShape, values: ArrayLike<number>, dynamics = true): this {
+  reset(shape: CompiledShape, values: ArrayLike<number>, dynamics = true, currents = true): this {
     this.shape = shape;
     this.values = values;
     this.dynamics = dynamics;
-    this.cache.reset(shape, values, dynamics);
-    const l = shape.layout;
-    this.highV = values[l.indexOf('supplyPositiveV')] - values[l.indexOf('outputHeadroomHighV')];
-    this.lowV = values[l.indexOf('supplyNegativeV')] + values[l.indexOf('outputHeadroomLowV')];
-    this.slewVPerS = dynamics ? values[l.indexOf('slewRateVPerS')] : Infinity;
-    this.delayS = dynamics ? values[l.indexOf('recoveryDelayS')] : 0;
+    this.cache.reset(shape, values, dynamics, currents);
+    const slot = shape.slot;
+    this.highV = values[slot.positiveV] - values[slot.headroomHigh];
+    this.lowV = values[slot.negativeV] + values[slot.headroomLow];
+    this.slewVPerS = dynamics ? values[slot.slew] : Infinity;
+    this.delayS = dynamics ? values[slot.delay] : 0;
     this.vTol = BOUNDARY_TOLERANCE * this.cache.spanV;
     this.steadyTolV = STEADY_STATE_TOLERANCE * this.cache.spanV;
     this.riseS = this.fallS = this.upperV = Number.NaN;

@@ -1,0 +1,111 @@
+/**
+ * The prepared (compiled) model, measured against baselines taken in the same run:
+ * Rates are per CPU second of this process (the machine is shared).
+ * 1. Monte Carlo on a slew- and delay-limited circuit (edges 5–20 % of the period), samples/s in one
+ *    thread, beside the closed-form special case of the same circuit — target ≥ 500 k/s and ratio ≥ 0.25;
+ *    and the same samples walked from power-up (the path before the steady-state start) as a baseline;
+ * 2. a closed-form-eligible circuit (no amplifier effect): evaluations/s — target: no slower than the
+ *    compiled closed form before the one-model change (2.2 million/s measured on this machine from the
+ *    previous commit's bench; printed as a number, not re-run);
+ * (BOM checks with the full model, every design distinct: bench/bom.bench.ts.)
+ */
+import { findBuiltInAmplifier } from '../src/core/amplifiers/archetypes.ts';
+import { prepareModel } from '../src/core/circuit/analyze.ts';
+import { EVALUATION_STATUS, OUTPUT_LENGTH, sharedWalk, walkToCycle, readTiming } from '../src/core/circuit/engine/prepared.ts';
+import type { Circuit } from '../src/core/circuit/types.ts';
+import { drawSamples } from '../src/core/tolerance/monte-carlo.ts';
+import type { SampleEvaluator } from '../src/core/tolerance/sample-evaluator.ts';
+import type { ToleranceRequest } from '../src/core/tolerance/index.ts';
+import { buildVariationModel } from '../src/core/tolerance/variation-model.ts';
+
+/**
+ * The compiled closed form before this change (fast-evaluator.ts at commit 2bda5a4), evaluations per CPU second on
+ * this circuit, measured on this machine under load from that commit's sources: 3.2–4.9 million/s. A number from
+ * git history, printed for comparison only.
+ */
+const PREVIOUS_COMPILED_CLOSED_FORM_PER_S = 4.0e6;
+
+// Our own scenario: a ±5 V split-rail clock (~6.5 kHz) on a slow amplifier: 0.5 V/µs across 10 V plus 1 µs delay, edges ~15 % of the period.
+const ideal = findBuiltInAmplifier('ideal')!;
+const slow: Circuit = {
+  topology: 'two-resistor-feedback',
+  supply: { positiveV: 5, negativeV: -5 },
+  amplifier: { ...ideal, slewRateVPerS: 0.5e6, recoveryDelayS: 1e-6 },
+  parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 },
+};
+const request: ToleranceRequest = {
+  circuit: slow,
+  tolerances: { rTiming: 0.01, cTiming: 0.05, rFeedback: 0.01, rGround: 0.01 },
+  supplyTolerance: 0.05,
+  amplifierSpreads: { slewRateVPerS: 0.2, recoveryDelayS: 0.3 },
+};
+
+function mcRate(evaluator: SampleEvaluator, samples: number): { rate: number; latched: number } {
+  const model = buildVariationModel(request, evaluator.parameters, evaluator.nominal, evaluator.model);
+  // Per CPU second of this process: the machine is shared, and the wall clock counts waiting for a core.
+  const c0 = process.cpuUsage();
+  const drawn = drawSamples(model, evaluator, { samples, seed: 1, distribution: 'normal', sigmaPerTolerance: 1 / 3 });
+  const cpu = process.cpuUsage(c0);
+  return { rate: samples / ((cpu.user + cpu.system) / 1e6), latched: drawn.latched };
+}
+
+// ---- 1. Monte Carlo, slew- and delay-limited
+const full = prepareModel(slow);
+const closed = prepareModel(slow, { model: 'closed-form' });
+{
+  const out = new Float64Array(OUTPUT_LENGTH);
+  full.evaluate(full.nominal, out);
+  const edgeShare = (0.5 * (10 / 0.5e6) + 1e-6) / out[0];
+  console.log(`slew-limited circuit: ${(1 / out[0]).toFixed(1)} Hz, edge (delay + full slew) ${(100 * (1e-6 + 10 / 0.5e6) * (1 / out[0])).toFixed(1)} % of the period (half-swing share ${(100 * edgeShare).toFixed(1)} %), effects ${full.effects.join(', ')}`);
+}
+mcRate(full, 50_000); // warm-up (JIT)
+mcRate(closed, 200_000);
+const td = mcRate(full, 500_000);
+const cf = mcRate(closed, 1_000_000);
+// Baseline: the same walk from power-up for every sample (no steady-state start).
+const fromPowerUp: SampleEvaluator = {
+  ...full,
+  parameters: full.parameters,
+  nominal: full.nominal,
+  model: full.model,
+  effects: full.effects,
+  indexOf: (n) => full.indexOf(n),
+  evaluate(values, out) {
+    try {
+      const cycle = walkToCycle(sharedWalk, full.shape, values, true);
+      readTiming(sharedWalk, cycle, out, false);
+      return EVALUATION_STATUS.ok;
+    } catch {
+      out.fill(Number.NaN);
+      return EVALUATION_STATUS.latched;
+    }
+  },
+};
+const pu = mcRate(fromPowerUp, 50_000);
+console.log(`Monte Carlo, full model (slew + delay)  : ${(td.rate / 1e3).toFixed(0)} k samples/s (target >= 500 k/s) ${td.rate >= 5e5 ? 'MET' : 'MISSED'}`);
+console.log(`Monte Carlo, closed-form special case   : ${(cf.rate / 1e3).toFixed(0)} k samples/s (baseline, same circuit, same run)`);
+console.log(`ratio full / closed form                : ${(td.rate / cf.rate).toFixed(3)} (target >= 0.25; 0.007 before this change) ${td.rate / cf.rate >= 0.25 ? 'MET' : 'MISSED'}`);
+console.log(`Monte Carlo, walked from power-up       : ${(pu.rate / 1e3).toFixed(0)} k samples/s (baseline: steady-state start x${(td.rate / pu.rate).toFixed(1)})`);
+
+// ---- 2. closed-form-eligible circuit
+const eligible = prepareModel({ ...slow, amplifier: ideal });
+{
+  const values = Float64Array.from(eligible.nominal);
+  const out = new Float64Array(OUTPUT_LENGTH);
+  const iR = eligible.indexOf('rTiming');
+  let n = 0;
+  const started = performance.now();
+  const c0 = process.cpuUsage();
+  while (performance.now() - started < 2000) {
+    for (let i = 0; i < 10_000; i++) {
+      values[iR] = 10e3 * (1 + ((n + i) & 1023) * 1e-6);
+      eligible.evaluate(values, out);
+    }
+    n += 10_000;
+  }
+  const cpu = process.cpuUsage(c0);
+  const rate = n / ((cpu.user + cpu.system) / 1e6);
+  console.log(`closed-form-eligible, prepared evaluate : ${(rate / 1e6).toFixed(2)} million/s per CPU second`);
+  console.log(`  compiled closed form before the change: ${(PREVIOUS_COMPILED_CLOSED_FORM_PER_S / 1e6).toFixed(2)} million/s (number from the previous commit's bench) -> ratio ${(rate / PREVIOUS_COMPILED_CLOSED_FORM_PER_S).toFixed(2)} ${rate >= PREVIOUS_COMPILED_CLOSED_FORM_PER_S ? 'MET' : 'MISSED'}`);
+}
+
