@@ -194,6 +194,8 @@ function spreadFigures(request: ToleranceRequest, wantYield: boolean): SpreadFig
       method: wc.method,
       cornersEvaluated: wc.cornersEvaluated,
       latchedCorners: wc.latchedCorners,
+      model: run.model,
+      modelEffects: run.modelEffects.join(', '),
     },
   };
   if (wantYield && run.monteCarlo && run.monteCarlo.yield !== null) {

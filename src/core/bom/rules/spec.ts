@@ -20,6 +20,9 @@ export interface WorstCaseFigures {
   cornersEvaluated: number;
   /** Corners of the tolerance box at which the circuit does not oscillate. */
   latchedCorners: number;
+  /** Which model evaluated every corner (as the tolerance analysis names it) and its amplifier effects, comma-separated. */
+  model: string;
+  modelEffects: string;
 }
 
 export interface YieldFigures {
@@ -52,6 +55,8 @@ export function frequencyRule(spec: BomSpec, wc: WorstCaseFigures): BomRuleResul
     method: wc.method,
     cornersEvaluated: wc.cornersEvaluated,
     latchedCorners: wc.latchedCorners,
+    model: wc.model,
+    modelEffects: wc.modelEffects,
   };
   const latched = wc.latchedCorners > 0 ? `; ${wc.latchedCorners} corner(s) of the tolerance box do not oscillate at all` : '';
   const range = `${formatSi(wc.frequencyMinHz, 'Hz')} to ${formatSi(wc.frequencyMaxHz, 'Hz')}`;

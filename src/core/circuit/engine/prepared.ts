@@ -183,7 +183,7 @@ export class PreparedModel {
     if (!this.valid(values)) return fail(out, EVALUATION_STATUS.invalidValue);
     const walk = sharedWalk;
     if (this.twoPiece) {
-      const status = twoPieceCycle(walk, this.shape, values, this.dynamics, out);
+      const status = twoPieceCycle(walk, this.shape, values, this.dynamics, this.wantTransitions, out);
       if (status === EVALUATION_STATUS.ok) return status;
       if (status !== undefined) return fail(out, status);
     }
@@ -213,7 +213,7 @@ const twoPieceProbe = new AffineProbe(twoPiece.kin);
  * decisions and the state levels are the pin at each piece's end. Returns
  * undefined when the shape's pieces can end otherwise (the full walk answers).
  */
-function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, out: Float64Array): EvaluationStatus | undefined {
+function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, withTransitions: boolean, out: Float64Array): EvaluationStatus | undefined {
   walk.reset(shape, values, dynamics, false);
   const cache = walk.cache;
   const high = cache.tryGet(shape.nominalHighKey);
@@ -237,13 +237,24 @@ function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: Array
   const timeLowS = firstExit(twoPieceProbe, ends, -low.hC, -low.hV, -low.hS, 0);
   if (!(timeHighS > 0 && timeHighS < Infinity && timeLowS > 0 && timeLowS < Infinity)) return EVALUATION_STATUS.latched;
   const periodS = timeHighS + timeLowS;
+  // The pin jumps at each decision and then moves monotonically (an exponential piece). The reference
+  // levels must be crossed BY the jumps, or a crossing lies inside a piece and the walk's reading applies.
+  const highV = high.oC + high.oV * upperV + high.oS * sHigh;
+  const lowV = low.oC + low.oV * lowerV + low.oS * sLow;
+  const riseTopV = high.oC + high.oV * lowerV + high.oS * sHigh;
+  const fallBottomV = low.oC + low.oV * upperV + low.oS * sLow;
+  const crossedByJumps = (fraction: number) => {
+    const level = lowV + fraction * (highV - lowV);
+    return lowV < level && riseTopV >= level && highV >= level && fallBottomV < level;
+  };
+  if (!crossedByJumps(0.5) || (withTransitions && !(crossedByJumps(0.1) && crossedByJumps(0.9)))) return undefined;
   out[0] = periodS;
   out[1] = timeHighS / periodS;
   out[2] = timeHighS;
   out[3] = timeLowS;
-  out[4] = high.oC + high.oV * upperV + high.oS * sHigh;
-  out[5] = low.oC + low.oV * lowerV + low.oS * sLow;
-  out[6] = out[7] = 0;
+  out[4] = highV;
+  out[5] = lowV;
+  out[6] = out[7] = withTransitions ? 0 : Number.NaN;
   return EVALUATION_STATUS.ok;
 }
 
