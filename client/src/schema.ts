@@ -2120,6 +2120,7 @@ export interface components {
         InlineAmplifier: {
             /** @description Id of a built-in archetype or a registered amplifier */
             base?: string;
+            /** @description A name of your own for this amplifier, shown in answers */
             name?: string;
             /**
              * @description Output stage: push-pull drives both states; open-drain only sinks (the high level comes from a pull-up)
@@ -2161,8 +2162,12 @@ export interface components {
         Check: {
             /** @description Stable machine-readable code */
             code: string;
-            /** @enum {string} */
+            /**
+             * @description error: the circuit will not work as intended; warning: it works with reduced margin; caution: safety note; info: for the record
+             * @enum {string}
+             */
             severity: "info" | "warning" | "error" | "caution";
+            /** @description What was found, in words, with the figures */
             message: string;
         } & {
             [key: string]: number | string | boolean | null;
@@ -2171,15 +2176,21 @@ export interface components {
         Problem: {
             /** @description URI reference identifying the problem type */
             type: string;
+            /** @description Short summary of the problem type */
             title: string;
+            /** @description HTTP status code of this answer */
             status: number;
+            /** @description What went wrong with this request, in words */
             detail?: string;
+            /** @description The request URL this problem is about */
             instance?: string;
             /** @description Stable machine-readable code */
             code?: string;
+            /** @description One entry per bad field or parameter */
             errors?: {
                 /** @description JSON pointer (RFC 6901) into the request body, or a header/parameter name */
                 pointer: string;
+                /** @description What is wrong with that field */
                 detail: string;
             }[];
         } & {

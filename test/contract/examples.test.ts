@@ -83,4 +83,33 @@ describe('examples in the contract', () => {
       await app.close();
     }
   });
+
+  it('every property of these components has a description (the list only grows)', async () => {
+    const doc = (await openApiDocument()) as unknown as { components: { schemas: Record<string, unknown> } };
+    // Components whose every property is described; the others are still to do (see the final report).
+    const described = [
+      'ComponentValue', 'Supply', 'InlineAmplifier', 'AmplifierSpec', 'Check', 'Problem', 'OutputLoad', 'Diode', 'BomLine',
+      'BomSupply', 'BomTemperatureRange', 'BomSpec', 'BomCheckOptions', 'FitCapture', 'Tolerances', 'ValueSource', 'TemperatureCoefficient',
+    ];
+    const undescribed: string[] = [];
+    const walk = (node: unknown, path: string): void => {
+      if (node === null || typeof node !== 'object') return;
+      const n = node as Record<string, unknown>;
+      for (const [name, property] of Object.entries((n.properties ?? {}) as Record<string, Record<string, unknown>>)) {
+        if (typeof property === 'object' && property !== null && !('$ref' in property) && property.description === undefined) undescribed.push(`${path}/${name}`);
+        walk(property, `${path}/${name}`);
+      }
+      for (const key of ['items', 'anyOf', 'oneOf', 'allOf', 'additionalProperties']) {
+        const sub = n[key];
+        if (Array.isArray(sub)) sub.forEach((x, i) => walk(x, `${path}/${key}${i}`));
+        else walk(sub, `${path}/${key}`);
+      }
+    };
+    for (const name of described) {
+      expect(doc.components.schemas[name], `${name} is not a component`).toBeDefined();
+      walk(doc.components.schemas[name], name);
+    }
+    expect(undescribed).toEqual([]);
+  });
 });
+

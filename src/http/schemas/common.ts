@@ -82,7 +82,7 @@ export const AmplifierId = Type.String({ pattern: '^[a-z0-9][a-z0-9._-]{0,63}$',
 export const InlineAmplifier = Type.Object(
   {
     base: Type.Optional(AmplifierId),
-    name: Type.Optional(Type.String({ maxLength: 120 })),
+    name: Type.Optional(Type.String({ maxLength: 120, description: 'A name of your own for this amplifier, shown in answers' })),
     ...amplifierFigureProperties,
   },
   {
@@ -100,8 +100,10 @@ export const AmplifierSpec = Type.Union([AmplifierId, ref(InlineAmplifier)], {
 export const Check = Type.Object(
   {
     code: Type.String({ description: 'Stable machine-readable code' }),
-    severity: StringEnum(['info', 'warning', 'error', 'caution']),
-    message: Type.String(),
+    severity: StringEnum(['info', 'warning', 'error', 'caution'], {
+      description: 'error: the circuit will not work as intended; warning: it works with reduced margin; caution: safety note; info: for the record',
+    }),
+    message: Type.String({ description: 'What was found, in words, with the figures' }),
   },
   {
     $id: 'Check',
@@ -113,17 +115,18 @@ export const Check = Type.Object(
 export const Problem = Type.Object(
   {
     type: Type.String({ description: 'URI reference identifying the problem type' }),
-    title: Type.String(),
-    status: Type.Integer(),
-    detail: Type.Optional(Type.String()),
-    instance: Type.Optional(Type.String()),
+    title: Type.String({ description: 'Short summary of the problem type' }),
+    status: Type.Integer({ description: 'HTTP status code of this answer' }),
+    detail: Type.Optional(Type.String({ description: 'What went wrong with this request, in words' })),
+    instance: Type.Optional(Type.String({ description: 'The request URL this problem is about' })),
     code: Type.Optional(Type.String({ description: 'Stable machine-readable code' })),
     errors: Type.Optional(
       Type.Array(
         Type.Object({
           pointer: Type.String({ description: 'JSON pointer (RFC 6901) into the request body, or a header/parameter name' }),
-          detail: Type.String(),
+          detail: Type.String({ description: 'What is wrong with that field' }),
         }),
+        { description: 'One entry per bad field or parameter' },
       ),
     ),
   },
