@@ -1,7 +1,9 @@
 /**
  * Process entry: configuration from the environment (embedded defaults),
- * listen, and shut down gracefully on SIGTERM/SIGINT (in-flight requests
- * finish, the store closes cleanly).
+ * listen, and shut down gracefully on SIGTERM/SIGINT: new requests get 503 +
+ * Retry-After, running ones get TICKWRIGHT_SHUTDOWN_GRACE_MS to finish, worker
+ * tasks still running then are cancelled (their callers get 503), and the
+ * store closes cleanly (src/http/lifecycle.ts).
  */
 import closeWithGrace from 'close-with-grace';
 import { configFromEnv } from './config.ts';
@@ -17,10 +19,13 @@ const app = await buildApp({
   logger: serviceLoggerOptions(config.logLevel),
 });
 
-closeWithGrace({ delay: 10_000 }, async ({ signal, err }) => {
+/** Beyond the grace period: answering the cancelled requests and closing the store. */
+const CLOSE_MARGIN_MS = 5000;
+
+closeWithGrace({ delay: config.shutdownGraceMs + CLOSE_MARGIN_MS }, async ({ signal, err }) => {
   if (err) app.log.error({ err }, 'shutting down after an error');
-  else app.log.info({ signal }, 'shutting down');
-  await app.close();
+  else app.log.info({ signal, graceMs: config.shutdownGraceMs }, 'shutting down');
+  await app.lifecycle.shutdown(err ? 0 : config.shutdownGraceMs);
   await stopTracing();
 });
 

@@ -5,7 +5,6 @@
 import Fastify, { type FastifyInstance, type FastifyServerOptions } from 'fastify';
 import swagger from '@fastify/swagger';
 import swaggerUi from '@fastify/swagger-ui';
-import underPressure from '@fastify/under-pressure';
 import type { TypeBoxTypeProvider } from '@fastify/type-provider-typebox';
 import { randomUUID } from 'node:crypto';
 import type { ServiceConfig } from '../config.ts';
@@ -15,6 +14,10 @@ import { AmplifierDirectory } from './amplifier-directory.ts';
 import { parseApiKeyConfig } from './auth/api-keys.ts';
 import { registerAuth } from './auth/plugin.ts';
 import { DOCS_PREFIX, installRouteAccess } from './auth/route-access.ts';
+import { installJsonDepthGuard, installLargeUploadGate } from './body-guards.ts';
+import { clientErrorHandler } from './client-errors.ts';
+import { installLifecycle } from './lifecycle.ts';
+import { installLoadShedding } from './load-shedding.ts';
 import { Metrics } from './metrics.ts';
 import { observedStore, observedTasks, registerRequestTracing } from './tracing.ts';
 import { errorHandler, problem, sendProblem } from './problem.ts';
@@ -40,6 +43,10 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
     logger: options.logger ?? false,
     bodyLimit: config.bodyLimitBytes,
     requestTimeout: config.requestTimeoutMs,
+    // Node checks request and header timeouts on this interval (default 30 s, which let a dribbling body run
+    // far past the documented timeout); headers must arrive within the same timeout.
+    http: { connectionsCheckingInterval: Math.min(1000, config.requestTimeoutMs), headersTimeout: config.requestTimeoutMs },
+    clientErrorHandler,
     trustProxy: config.trustProxy === false ? false : config.trustProxy,
     requestIdHeader: 'x-request-id',
     genReqId: () => randomUUID(),
@@ -63,9 +70,12 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
     amplifiers: new AmplifierDirectory(storedAmplifierSource(store)),
     keys: parseApiKeyConfig(config.apiKeys),
     metrics,
-    workers: new WorkerPool({ threads: config.workerThreads, observe: observedTasks(metrics, tracing) }),
+    workers: new WorkerPool({ threads: config.workerThreads, deadlineMs: config.taskDeadlineMs, observe: observedTasks(metrics, tracing) }),
   };
   metrics.watchPool(() => services.workers.stats);
+  // Beyond the cap Node closes new connections at once, long before the open-file limit (an fd flood
+  // would otherwise starve the store, the worker threads and the log of descriptors).
+  app.server.maxConnections = config.maxConnections;
   app.decorate('services', services);
   if (!options.store) app.addHook('onClose', async () => await rawStore.close());
   if (tracing) registerRequestTracing(app);
@@ -87,15 +97,10 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
     done();
   });
 
-  await app.register(underPressure, {
-    maxEventLoopDelay: config.maxEventLoopDelayMs,
-    // under-pressure reads an interval with no loop samples (a blocked loop, e.g. start-up compiling the
-    // routes) as unbounded delay and sheds until the next sample: a short interval keeps that window small.
-    sampleInterval: 250,
-    retryAfter: 5,
-    exposeStatusRoute: false,
-    customError: undefined,
-  });
+  // Shutdown first (a draining replica answers 503 before anything else), then load shedding.
+  installLifecycle(app, () => services.workers.cancelAll());
+  installLoadShedding(app, { maxEventLoopDelayMs: config.maxEventLoopDelayMs, sampleIntervalMs: 250, retryAfterS: 5 });
+  installJsonDepthGuard(app, config.maxJsonDepth);
 
   await app.register(swagger, {
     openapi: {
@@ -123,6 +128,7 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
 
   for (const schema of REGISTERED_SCHEMAS) app.addSchema(schema);
   await registerAuth(app, services.keys, { failureLimit: config.authFailureLimit, failureWindowMs: config.authFailureWindowMs });
+  installLargeUploadGate(app, { thresholdBytes: config.largeBodyBytes, concurrency: config.largeBodyConcurrency });
   if (services.keys.isOpen) app.log.warn('No API keys configured (TICKWRIGHT_API_KEYS): the service is open to every caller');
 
   for (const route of ROUTES) await app.register(route);

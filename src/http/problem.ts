@@ -8,7 +8,11 @@ import { CoreError, type CoreErrorCode } from '../core/errors.ts';
 import { StoreError, type StoreErrorCode } from '../store/errors.ts';
 import type { ProblemBody } from './schemas/common.ts';
 
-export const PROBLEM_TYPE_BASE = 'https://tickwright.dev/problems/';
+/**
+ * Problem `type` URIs are relative references (RFC 9457 §3.1.1 resolves them against the answer's URI),
+ * so they point at this service: GET /problems/{code} describes each code.
+ */
+export const PROBLEM_TYPE_BASE = '/problems/';
 export const PROBLEM_MEDIA_TYPE = 'application/problem+json';
 
 const TITLES: Record<number, string> = {
@@ -23,6 +27,7 @@ const TITLES: Record<number, string> = {
   412: 'Precondition Failed',
   413: 'Content Too Large',
   415: 'Unsupported Media Type',
+  431: 'Request Header Fields Too Large',
   422: 'Unprocessable Content',
   428: 'Precondition Required',
   429: 'Too Many Requests',

@@ -1,7 +1,7 @@
 /**
  * POST /v1/bom-checks: up to 5000 assemblies per request, one verdict each.
  *
- * application/json (default): { results, summary } once every assembly is done.
+ * application/json (default): { results, summary }, written as the results come.
  * application/x-ndjson (Accept): one BomCheckResult per line, written as each
  * assembly finishes. The stream is pulled by the socket (Readable.from), so a
  * slow client holds back the work instead of piling up results: memory stays
@@ -117,6 +117,39 @@ async function* ndjsonChunks(results: Iterator<BomAssemblyResult>): AsyncGenerat
   }
 }
 
+/**
+ * Takes the first result before anything is sent: a request-level error (as opposed to a failed assembly,
+ * which is a result) then becomes a problem answer instead of a cut-off 200 stream.
+ */
+function startEagerly(results: Iterator<BomAssemblyResult>): Iterator<BomAssemblyResult> {
+  let head: IteratorResult<BomAssemblyResult> | undefined = results.next();
+  return {
+    next() {
+      if (head === undefined) return results.next();
+      const first = head;
+      head = undefined;
+      return first;
+    },
+  };
+}
+
+/** `{"results":[…],"summary":{…}}` written slice by slice, the summary tallied on the way. */
+async function* jsonDocumentChunks(results: Iterator<BomAssemblyResult>): AsyncGenerator<string> {
+  const summary: BomBatchSummary = { assemblies: 0, passed: 0, failed: 0 };
+  let first = true;
+  yield '{"results":[';
+  for await (const slice of slices(results)) {
+    let chunk = '';
+    for (const r of slice) {
+      tallyBomResult(summary, r);
+      chunk += (first ? '' : ',') + JSON.stringify(r);
+      first = false;
+    }
+    yield chunk;
+  }
+  yield `],"summary":${JSON.stringify(summary)}}`;
+}
+
 export const bomCheckRoutes: FastifyPluginAsyncTypebox = async (app) => {
   app.post(
     '/v1/bom-checks',
@@ -153,22 +186,18 @@ export const bomCheckRoutes: FastifyPluginAsyncTypebox = async (app) => {
         spreadCache: new Map(),
       };
       const assemblies = body.assemblies.map(bomAssemblyFromBody);
-      const results = evaluateAssemblies(assemblies, ctx);
+      const results = startEagerly(evaluateAssemblies(assemblies, ctx));
       if (wantsNdjson(request.headers.accept)) {
         reply.type(NDJSON_MEDIA_TYPE);
         // The typed reply knows the JSON shapes only; fastify sends a stream as is, without serialising.
         const stream = Readable.from(ndjsonChunks(results), { objectMode: false });
         return reply.send(stream as unknown as BomAssemblyResult);
       }
-      const all: BomAssemblyResult[] = [];
-      const summary: BomBatchSummary = { assemblies: 0, passed: 0, failed: 0 };
-      for await (const slice of slices(results)) {
-        for (const r of slice) {
-          all.push(r);
-          tallyBomResult(summary, r);
-        }
-      }
-      return reply.type('application/json').send({ results: all, summary });
+      // The JSON document is streamed too: serialising 5,000 results in one go (tens of MB) would hold the
+      // event loop for seconds; slice by slice it never holds it longer than one slice.
+      reply.type('application/json');
+      const stream = Readable.from(jsonDocumentChunks(results), { objectMode: false });
+      return reply.send(stream as unknown as BomAssemblyResult);
     },
   );
 };

@@ -2,17 +2,36 @@
 import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import { Type } from 'typebox';
 import { problemResponses } from '../schemas/common.ts';
+import { HttpProblem } from '../problem.ts';
+import { problemType } from '../problem-types.ts';
 
 const Health = Type.Object({ status: Type.String() }, { additionalProperties: false });
 const Ready = Type.Object(
-  { status: Type.String(), checks: Type.Object({ store: Type.Boolean() }, { additionalProperties: false }) },
+  {
+    status: Type.String(),
+    checks: Type.Object(
+      {
+        store: Type.Boolean(),
+        load: Type.Boolean({ description: 'false while requests are being shed for event-loop delay, or while shutting down' }),
+      },
+      { additionalProperties: false },
+    ),
+  },
   { additionalProperties: false },
+);
+const ProblemDescription = Type.Object(
+  { code: Type.String(), status: Type.Integer(), description: Type.String() },
+  { additionalProperties: false, description: 'What a problem code means (the target of a problem `type` URI)' },
 );
 
 export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
   app.get(
     '/healthz',
-    { config: { access: 'public' }, schema: { tags: ['system'], summary: 'Liveness: the process answers', response: { 200: Health } } },
+    {
+      // Never shed: liveness says the process answers, not that it is idle (pressure shows on /readyz).
+      config: { access: 'public', shed: false },
+      schema: { tags: ['system'], summary: 'Liveness: the process answers (never shed for load)', response: { 200: Health } },
+    },
     async () => ({ status: 'ok' }),
   );
 
@@ -20,11 +39,13 @@ export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
     '/readyz',
     {
       config: { access: 'public' },
-      schema: { tags: ['system'], summary: 'Readiness: the store answers', response: { 200: Ready, 503: Ready } },
+      schema: { tags: ['system'], summary: 'Readiness: the store answers and the service is not shedding load', response: { 200: Ready, 503: Ready } },
     },
     async (_request, reply) => {
       const store = await app.services.store.ping();
-      return reply.code(store ? 200 : 503).send({ status: store ? 'ready' : 'not-ready', checks: { store } });
+      const load = !app.pressure().underPressure && !app.lifecycle.draining;
+      const ready = store && load;
+      return reply.code(ready ? 200 : 503).send({ status: ready ? 'ready' : 'not-ready', checks: { store, load } });
     },
   );
 
@@ -39,6 +60,25 @@ export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
       },
     },
     async (_request, reply) => reply.type(app.services.metrics.contentType).send(await app.services.metrics.render()),
+  );
+
+  app.get(
+    '/problems/:code',
+    {
+      config: { access: 'public' },
+      schema: {
+        tags: ['system'],
+        summary: 'What a problem code means: the target of the `type` URI of every problem answer',
+        params: Type.Object({ code: Type.String({ maxLength: 64 }) }),
+        response: { 200: ProblemDescription, ...problemResponses(404) },
+      },
+    },
+    async (request) => {
+      const { code } = request.params;
+      const described = problemType(code);
+      if (!described) throw new HttpProblem(404, 'not-found', `No problem code '${code}'`);
+      return { code, status: described.status, description: described.description };
+    },
   );
 
   app.get('/openapi.json', { config: { access: 'public' }, schema: { hide: true } }, async () => app.swagger());

@@ -1,15 +1,15 @@
 /**
  * POST /v1/waveform: capacitor, output and threshold-node voltages over N periods
  * on a uniform time grid, from the time-domain engine; as JSON, or as an SVG
- * plot when the caller prefers image/svg+xml.
+ * plot when the caller prefers image/svg+xml. The work runs in the worker pool.
  */
 import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
-import { prepareCircuit, waveformOfPrepared, type Circuit } from '../../core/index.ts';
-import { renderWaveformSvg } from '../../core/plot/index.ts';
+import { checkWaveformOptions, prepareCircuit, type Circuit } from '../../core/index.ts';
 import { circuitFromBody, withPointerPrefix } from '../convert.ts';
 import { HttpProblem } from '../problem.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
 import { DEFAULT_WAVEFORM_PERIODS, DEFAULT_WAVEFORM_SAMPLES, Waveform, WaveformRequest } from '../schemas/waveform.ts';
+import { runForRequest } from '../workers/run-for-request.ts';
 
 const JSON_TYPE = 'application/json';
 const SVG_TYPE = 'image/svg+xml';
@@ -88,41 +88,29 @@ export const waveformRoutes: FastifyPluginAsyncTypebox = async (app) => {
       }
       const body = request.body;
       const circuit = circuitFromBody(body.circuit, await app.services.amplifiers.forSpecs(body.circuit.amplifier), '/circuit');
-      const prepared = withPointerPrefix('/circuit', () => prepareCircuit(circuit));
-      const includePowerUp = body.includePowerUp ?? false;
-      const { samples, figures } = waveformOfPrepared(prepared, {
-        periods: body.periods ?? DEFAULT_WAVEFORM_PERIODS,
-        samples: body.samples ?? DEFAULT_WAVEFORM_SAMPLES,
-        includePowerUp,
-      });
+      // Validate here (cheap, and the pointers get their /circuit prefix); the walk, the sampling and the
+      // serialisation run in a worker thread, so a long waveform never holds the event loop.
+      withPointerPrefix('/circuit', () => prepareCircuit(circuit));
+      const periods = body.periods ?? DEFAULT_WAVEFORM_PERIODS;
+      const samples = body.samples ?? DEFAULT_WAVEFORM_SAMPLES;
+      checkWaveformOptions({ periods, samples, includePowerUp: body.includePowerUp ?? false });
+      const answer = await runForRequest(
+        app.services.workers,
+        reply,
+        'waveform',
+        {
+          circuit,
+          periods,
+          samples,
+          includePowerUp: body.includePowerUp ?? false,
+          ...(mediaType === SVG_TYPE ? { svg: { title: `Waveform: ${describe(circuit)}` } } : {}),
+        },
+        'waveform',
+      );
       reply.header('vary', 'Accept');
-      const thresholds = { upperV: figures.thresholds.upperV, lowerV: figures.thresholds.lowerV };
-      if (mediaType === SVG_TYPE) {
-        const svg = renderWaveformSvg({
-          timeS: samples.timeS,
-          traces: [
-            { name: 'capacitor (N)', unit: 'V', values: samples.capacitorV },
-            { name: 'output', unit: 'V', values: samples.outputV },
-            { name: 'threshold node (P)', unit: 'V', values: samples.decisionV },
-          ],
-          thresholds,
-          title: `Waveform: ${describe(circuit)}`,
-          subtitle: `${Number(figures.frequencyHz.toPrecision(5))} Hz, duty ${Number((figures.dutyCycle * 100).toPrecision(4))} %`,
-        });
-        return reply.type(`${SVG_TYPE}; charset=utf-8`).send(svg);
-      }
-      return reply.type(JSON_TYPE).send({
-        model: 'time-domain' as const,
-        frequencyHz: figures.frequencyHz,
-        periodS: figures.periodS,
-        dutyCycle: figures.dutyCycle,
-        thresholds,
-        includePowerUp,
-        timeS: Array.from(samples.timeS),
-        capacitorV: Array.from(samples.capacitorV),
-        outputV: Array.from(samples.outputV),
-        decisionV: Array.from(samples.decisionV),
-      });
+      const bytes = Buffer.from(answer.body.buffer, answer.body.byteOffset, answer.body.byteLength);
+      // A Buffer is sent as is (no serialiser pass over the samples).
+      return reply.type(mediaType === SVG_TYPE ? `${SVG_TYPE}; charset=utf-8` : JSON_TYPE).send(bytes as never);
     },
   );
 };

@@ -29,6 +29,12 @@ export interface WorkerPoolOptions {
   maxQueue?: number;
   /** Wraps every run (metrics, tracing): called with the task name and signal, must call `run` once. */
   observe?: TaskObserver;
+  /**
+   * Longest a task may take from submission to answer, ms (default 30 s). When it passes, a queued task
+   * is dropped and a running one's thread is terminated (piscina replaces it), and run() rejects with
+   * 503 `deadline-exceeded` — so one costly request can hold a thread for at most this long.
+   */
+  deadlineMs?: number;
 }
 
 export type TaskObserver = <R>(task: TaskName, signal: AbortSignal | undefined, run: () => Promise<R>) => Promise<R>;
@@ -54,12 +60,23 @@ export function workerEntry(): { filename: string; execArgv: string[] } {
   return { filename: new URL('./source-entry.mjs', import.meta.url).href, execArgv: [] };
 }
 
+export const DEFAULT_TASK_DEADLINE_MS = 30_000;
+
 export class WorkerPool {
   private readonly piscina: Piscina | undefined;
   private closed = false;
+  /** Aborted by cancelAll(): every queued and running task stops (shutdown). */
+  private cancelAllController = new AbortController();
+  readonly deadlineMs: number;
+  /** Tasks submitted and not settled. Piscina does not apply maxQueue to abortable tasks (they wait in a
+   *  separate queue), and every task here is abortable, so the bound is kept here. */
+  private pending = 0;
+  private readonly capacity: number;
 
   constructor(readonly options: WorkerPoolOptions) {
+    this.deadlineMs = options.deadlineMs ?? DEFAULT_TASK_DEADLINE_MS;
     const threads = Math.max(0, Math.floor(options.threads));
+    this.capacity = threads + (options.maxQueue ?? threads * 8);
     if (threads === 0) return;
     const entry = workerEntry();
     this.piscina = new Piscina({
@@ -88,13 +105,36 @@ export class WorkerPool {
     if (!this.piscina) {
       reply = runTaskInline({ task, input });
     } else {
+      if (this.pending >= this.capacity) {
+        throw new HttpProblem(503, 'overloaded', 'All worker threads are busy and the queue is full; retry later', undefined, { 'retry-after': '2' });
+      }
+      const deadline = AbortSignal.timeout(this.deadlineMs);
+      const cancelled = this.cancelAllController.signal;
+      const signals = [deadline, cancelled, ...(options.signal ? [options.signal] : [])];
+      this.pending++;
       try {
-        reply = (await this.piscina.run({ task, input }, { signal: options.signal })) as TaskReply;
+        reply = (await this.piscina.run({ task, input }, { signal: AbortSignal.any(signals) })) as TaskReply;
       } catch (err) {
         if (err instanceof Error && /queue is at limit/i.test(err.message)) {
           throw new HttpProblem(503, 'overloaded', 'All worker threads are busy and the queue is full; retry later', undefined, { 'retry-after': '2' });
         }
+        // The caller's own signal is reported by the caller (it knows why it aborted).
+        if (options.signal?.aborted) throw err;
+        if (cancelled.aborted) {
+          throw new HttpProblem(503, 'shutting-down', 'The service is shutting down; the task was cancelled', undefined, { 'retry-after': '5' });
+        }
+        if (deadline.aborted) {
+          throw new HttpProblem(
+            503,
+            'deadline-exceeded',
+            `The ${String(task)} task took longer than the ${this.deadlineMs} ms limit (TICKWRIGHT_TASK_DEADLINE_MS) and was stopped; narrow the request or retry when the service is less busy`,
+            undefined,
+            { 'retry-after': '5' },
+          );
+        }
         throw err;
+      } finally {
+        this.pending--;
       }
     }
     if (!reply.ok) throw new CoreError(reply.error.code, reply.error.message, reply.error.pointer, reply.error.details);
@@ -103,7 +143,13 @@ export class WorkerPool {
 
   get stats(): WorkerPoolStats {
     if (!this.piscina) return { threads: 0, queued: 0, completed: 0 };
-    return { threads: this.piscina.threads.length, queued: this.piscina.queueSize, completed: this.piscina.completed };
+    return { threads: this.piscina.threads.length, queued: Math.max(0, this.pending - this.piscina.threads.length), completed: this.piscina.completed };
+  }
+
+  /** Cancels every queued and running task (their callers get 503 shutting-down); the pool stays usable. */
+  cancelAll(): void {
+    this.cancelAllController.abort();
+    this.cancelAllController = new AbortController();
   }
 
   /** Lets running tasks finish, then stops the threads. */

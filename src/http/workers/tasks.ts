@@ -8,6 +8,7 @@
 import { designOscillator, type DesignRequest } from '../../core/design/index.ts';
 import { fitCircuit, type FitInput } from '../../core/fit/index.ts';
 import { runToleranceAnalysis, type ToleranceRequest } from '../../core/tolerance/index.ts';
+import { waveformTask, type WaveformTaskInput } from './waveform-task.ts';
 
 export const TASKS = {
   /** POST /v1/tolerance: worst case, Monte Carlo, sensitivities. */
@@ -16,6 +17,8 @@ export const TASKS = {
   design: (input: DesignRequest) => designOscillator(input),
   /** POST /v1/fit: capture analysis (up to millions of samples), MAP fit, diagnosis. */
   fit: (input: FitInput) => fitCircuit(input),
+  /** POST /v1/waveform: time-domain walk, sampling (up to the sample cap) and the serialised answer. */
+  waveform: (input: WaveformTaskInput) => waveformTask(input),
   /** Round trip through a worker (health and tests): echoes its input and names the thread. */
   echo: <T>(input: T) => input,
   /** Busy-waits for input.ms milliseconds, then answers (tests of event-loop freedom and queueing). */
