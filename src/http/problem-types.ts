@@ -34,6 +34,7 @@ const STORE: Record<StoreErrorCode, ProblemType> = {
   conflict: { status: 409, description: 'The store could not take the write right now; retry.' },
   'invalid-id': { status: 400, description: 'The document id does not match the documented id pattern.' },
   corrupt: { status: 500, description: 'Stored data could not be read back; the operator has been told through the log.' },
+  unavailable: { status: 503, description: 'The store (database) cannot be reached right now; retry after Retry-After seconds.' },
 };
 
 const HTTP: Record<string, ProblemType> = {
@@ -57,7 +58,6 @@ const HTTP: Record<string, ProblemType> = {
   'headers-too-large': { status: 431, description: 'The request line or headers exceed the server’s limit (a very long query string, for instance).' },
   internal: { status: 500, description: 'An unexpected error; it has been logged with the request id.' },
   overloaded: { status: 503, description: 'The service is under load (event-loop delay or a full worker queue); retry after Retry-After seconds.' },
-  unavailable: { status: 503, description: 'The service cannot answer right now; retry after Retry-After seconds.' },
   'shutting-down': { status: 503, description: 'The replica is shutting down; retry, possibly on another replica.' },
   'deadline-exceeded': { status: 503, description: 'The computation took longer than TICKWRIGHT_TASK_DEADLINE_MS and was stopped; narrow the request or retry later.' },
   'too-many-large-uploads': { status: 503, description: 'The configured number of large uploads (TICKWRIGHT_LARGE_BODY_CONCURRENCY) is already being processed; retry after Retry-After seconds.' },
