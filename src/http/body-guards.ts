@@ -48,7 +48,7 @@ export function installJsonDepthGuard(app: FastifyInstance, maxDepth: number): v
       );
       return;
     }
-    parseJson(request, text, done);
+    void parseJson(request, text, done);
   });
 }
 
