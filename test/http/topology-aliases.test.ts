@@ -61,3 +61,12 @@ describe('deprecated topology aliases', () => {
     expect(byId['diode-steered'].roles.find((r: { role: string }) => r.role === 'rCharge').purpose).toBe('timing');
   });
 });
+
+describe('one value reader on /v1/analyze', () => {
+  it('reads the EIA three-digit code "103" as 10 nF, as the BOM reader does (EIA-198 marking, pF base)', async () => {
+    const coded = await post('/v1/analyze', { ...exerciser, topology: 'three-resistor-divider', parts: { ...exerciser.parts, cTiming: '103', rTiming: '333' } });
+    expect(coded.statusCode).toBe(200);
+    // Textbook T = 2·ln2·RC with 33 kΩ (IEC 60062 code 333) and 10 nF.
+    expect(coded.json().periodS).toBeCloseTo(2 * Math.LN2 * 33e3 * 10e-9, 14);
+  });
+});

@@ -5,8 +5,11 @@
  * - parseComponentValue: finite numbers > 0; SI-prefix strings ("4.7k", "10 nF", "2.2 Mohm");
  *   IEC 60062 RKM codes where the multiplier letter stands for the decimal point
  *   ("4K7", "R47", "4n7", "p68"). Plain numbers ("4700") are base units.
- * - parseNumericCode: the 3/4-digit marking code ("103", "4702"); kept separate because
- *   "100" would otherwise mean both 100 and 10 × 10^0.
+ *   A string of exactly three digits is the EIA three-digit marking code (IEC 60062 numeric
+ *   code): "103" = 10 kΩ or 10 nF, "100" = 10 Ω or 10 pF — the one reader for the API and the
+ *   BOM reader alike. Plain base units go as JSON numbers or with a unit ("100 Ω", "100R").
+ * - parseNumericCode: the 3/4-digit marking code ("103", "4702"); four digits stay out of
+ *   parseComponentValue because "4700" reads as both 4700 Ω and 470 × 10^0.
  * - parseEia96Code: two-digit E96 index + multiplier letter ("01C").
  * - parseToleranceLetter: IEC 60062 tolerance letters.
  * Every rejection is a CoreError('invalid-value') with the caller's JSON pointer.
@@ -90,12 +93,16 @@ function requirePositive(value: number, original: string, pointer?: string): num
  * A component value from an API field: a number in SI base units (finite, > 0), or a string
  * in SI-prefix or IEC 60062 RKM notation. Throws CoreError('invalid-value') otherwise.
  */
+const THREE_DIGIT_CODE = /^\d{3}$/;
+
 export function parseComponentValue(text: string | number, kind: ComponentKind, pointer?: string): number {
   if (typeof text === 'number') return requirePositive(text, String(text), pointer);
   if (typeof text !== 'string') invalid(`a ${kind} value must be a number or a string`, pointer);
   const original = text;
   const normalised = normaliseSymbols(text);
   if (normalised === '') invalid(`empty ${kind} value`, pointer);
+  // The EIA three-digit marking code: two significant digits and a multiplier ("103" = 10 kΩ / 10 nF).
+  if (THREE_DIGIT_CODE.test(normalised)) return parseNumericCode(normalised, kind, pointer);
   const { body, hasUnit } = stripUnit(normalised, kind, original, pointer);
 
   const si = SI_FORM.exec(body);

@@ -33,7 +33,9 @@ export const ComponentValue = Type.Union(
     Type.String({
       minLength: 1,
       maxLength: 40,
-      description: 'IEC 60062 RKM code ("4K7", "R47", "4n7") or SI-prefix form ("4.7k", "10 nF", "0.01u", "3.3 kΩ")',
+      description:
+        'IEC 60062 RKM code ("4K7", "R47", "4n7"), SI-prefix form ("4.7k", "10 nF", "0.01u", "3.3 kΩ") or the EIA three-digit marking code ' +
+        '(exactly three digits: two significant digits and a power of ten, "103" = 10 kΩ or 10 nF on a picofarad base, "100" = 10 Ω or 10 pF; send plain base units as a number or with a unit)',
     }),
   ],
   { $id: 'ComponentValue', description: 'A component value as a number in SI base units or a value string' },

@@ -247,10 +247,10 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "model": "time-domain"
             },
             "practicality": {
-              "edgeProximity": 0.3376624060881929,
+              "edgeProximity": 0.32700037302594004,
               "supplyCurrentA": 0.0013007809884520928,
               "partCount": 5,
-              "score": 0.6600374621093087
+              "score": 0.6493754290470558
             },
             "limits": [
               {
@@ -279,9 +279,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               },
               {
                 "role": "rTiming",
-                "min": 1000,
+                "min": 2500,
                 "max": 1000000,
-                "minReason": "resistor window 1 kΩ",
+                "minReason": "the 25 Ω output resistance must stay below 1 % of the timing resistance",
                 "maxReason": "resistor window 1 MΩ",
                 "atLimit": null
               },
@@ -392,10 +392,10 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "model": "time-domain"
             },
             "practicality": {
-              "edgeProximity": 0.3044013079813665,
+              "edgeProximity": 0.29176318051466177,
               "supplyCurrentA": 0.001298590648084923,
               "partCount": 5,
-              "score": 0.6266936350662679
+              "score": 0.6140555075995631
             },
             "limits": [
               {
@@ -424,9 +424,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               },
               {
                 "role": "rTiming",
-                "min": 1000,
+                "min": 2500,
                 "max": 1000000,
-                "minReason": "resistor window 1 kΩ",
+                "minReason": "the 25 Ω output resistance must stay below 1 % of the timing resistance",
                 "maxReason": "resistor window 1 MΩ",
                 "atLimit": null
               },
@@ -2511,7 +2511,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
-      "value": "# HELP tickwright_http_requests_total HTTP requests by method, route and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds Request latency.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_process_resident_memory_bytes Resident set size.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_heap_used_bytes V8 heap in use.\n# TYPE tickwright_process_heap_used_bytes gauge\n# HELP tickwright_process_uptime_seconds Time since start.\n# TYPE tickwright_process_uptime_seconds gauge"
+      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 3.858435\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.148575\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 4.00701\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 4\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
     }
   },
   "GET /v1/topologies": {

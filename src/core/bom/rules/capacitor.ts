@@ -21,7 +21,7 @@ import {
   typicalBiasShape,
   type CaseSize,
 } from '../../parts/capacitor/index.ts';
-import { parseDielectric, type Dielectric } from '../../parts/dielectric.ts';
+import { parseDielectric, timingDielectricVerdict, type Dielectric } from '../../parts/dielectric.ts';
 import { BOM_RULES } from '../codes.ts';
 import { at, ruleResult } from '../rule.ts';
 import type { BomLineReading, BomRuleResult, BomSpec } from '../types.ts';
@@ -49,7 +49,9 @@ export function dielectricRule(line: BomLineReading, capacitorMinV?: number): Bo
       at(line),
     );
   }
-  if (d.family === 'ceramic-class-2' || d.family === 'ceramic-class-3') {
+  // The one timing-dielectric verdict (parts/dielectric.ts), shared with design and analyze.
+  const verdict = timingDielectricVerdict(d);
+  if (verdict?.code === 'dielectric-unfit-for-timing') {
     return ruleResult(BOM_RULES.dielectricUnfitForTiming, `${d.code} in the timing path: ${d.reason}`, {
       dielectric: d.code,
       family: d.family,
@@ -57,7 +59,7 @@ export function dielectricRule(line: BomLineReading, capacitorMinV?: number): Bo
       changeMaxFraction: d.changeMaxFraction,
     }, at(line));
   }
-  if (d.family === 'electrolytic' || d.family === 'tantalum') {
+  if (verdict?.code === 'electrolytic-in-timing-path') {
     const reversed = capacitorMinV !== undefined && capacitorMinV < 0;
     return ruleResult(
       BOM_RULES.electrolyticInTimingPath,
