@@ -1,5 +1,5 @@
 /**
- * The event-driven walk (DESIGN §3.2): from power-up, piece by piece, each solved
+ * The event-driven walk (docs/model.md §2): from power-up, piece by piece, each solved
  * exactly, until the switching state repeats.
  *
  * The model of the amplifier, and why:
