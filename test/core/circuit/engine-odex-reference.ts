@@ -54,12 +54,16 @@ export interface ReferenceResult {
   meanLowV: number;
   cycles: number;
   rhsEvaluations: number;
+  /** Uniform samples from the steady state on (when options.sample asked for them). */
+  samples?: { capacitorV: Float64Array; outputV: Float64Array };
 }
 
 export interface ReferenceOptions {
   initialState?: 'high' | 'low';
   tolerance?: number;
   maxCycles?: number;
+  /** Also sample the capacitor and the output pin on a uniform grid from the steady state on (synthetic scope records). */
+  sample?: { intervalS: number; count: number };
 }
 
 type Stage = 'driven' | 'released' | 'limSrc' | 'limSnk';
@@ -289,6 +293,11 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   };
 
   const maxCycles = options.maxCycles ?? 300;
+  const recording = options.sample;
+  let sampleStart = Number.NaN;
+  let recorded = 0;
+  const sampledCap = new Float64Array(recording?.count ?? 0);
+  const sampledPin = new Float64Array(recording?.count ?? 0);
   let observer: { mid: number; rise: number; fall: number; prev: number; hi: number; lo: number; meanHi: number; meanLo: number } | undefined;
   const observe = (tt: number, pin: number) => {
     if (!observer) return;
@@ -363,6 +372,20 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
             observe(b, observer.mid + g1);
           }
         }
+        if (recording && !Number.isNaN(sampleStart)) {
+          // Grid instants inside this step (up to the event that ends it), from the dense output.
+          const end = first >= 0 ? firstT : x1;
+          while (recorded < recording.count) {
+            const tk = sampleStart + recorded * recording.intervalS;
+            if (tk > end) break;
+            if (tk >= x0) {
+              const vk = dense!(0, tk);
+              sampledCap[recorded] = vk;
+              sampledPin[recorded] = pinOf(nodeVoltages(c, d, vk, dense!(1, tk)).V);
+            }
+            recorded++;
+          }
+        }
         if (first >= 0) {
           hit = { tt: firstT, yy: [dense!(0, firstT), dense!(1, firstT), dense!(2, firstT)], k: first };
           return false;
@@ -415,15 +438,18 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
           }
         }
         converged = n;
+        sampleStart = t;
         observer = { mid: 0.5 * (hiLevel + loLevel), rise: NaN, fall: NaN, prev: NaN, hi: hiLevel, lo: loLevel, meanHi: hiI / hiT, meanLo: loI / loT };
       }
     }
-    if (converged > 0 && risingTimes.length >= converged + 2 && observer && !Number.isNaN(observer.rise) && !Number.isNaN(observer.fall)) {
+    if (converged > 0 && risingTimes.length >= converged + 2 && observer && !Number.isNaN(observer.rise) && !Number.isNaN(observer.fall) && (!recording || recorded >= recording.count)) {
       const m = risingTimes.length;
       const periodS = risingTimes[m - 1] - risingTimes[m - 2];
       const high = ((((observer.fall - observer.rise) % periodS) + periodS) % periodS) / periodS;
       const o = observer;
-      return { periodS, dutyCycle: high, upperV, lowerV: risingV[m - 1], highV: o.hi, lowV: o.lo, meanHighV: o.meanHi, meanLowV: o.meanLo, cycles: m, rhsEvaluations: evals };
+      const result: ReferenceResult = { periodS, dutyCycle: high, upperV, lowerV: risingV[m - 1], highV: o.hi, lowV: o.lo, meanHighV: o.meanHi, meanLowV: o.meanLo, cycles: m, rhsEvaluations: evals };
+      if (recording) result.samples = { capacitorV: sampledCap, outputV: sampledPin };
+      return result;
     }
   }
   throw new Error(`reference: no steady state; rising ${JSON.stringify(risingTimes.slice(-4))} v ${JSON.stringify(risingV.slice(-3))} t=${t} logic=${d.logic} target=${d.target} stage=${d.stage} pending=${d.pending.join(',')} rate=${d.rate}`);

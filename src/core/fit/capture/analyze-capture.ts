@@ -1,6 +1,6 @@
 import { CoreError } from '../../errors.ts';
-import { analyzeEdges } from './crossings.ts';
 import type { CrossingOptions } from './crossings.ts';
+import { stateLevels } from './levels.ts';
 import { readCapacitor, readOutput, type Spread } from './scope-readings.ts';
 import { assertFiniteSamples } from './sample-checks.ts';
 import { explicitClock, uniformClock } from './sample-clock.ts';
@@ -189,9 +189,18 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
   const spreads: CaptureFeatures['spreads'] = {};
   let features: CaptureFeatures;
   if (output !== undefined) {
-    const edges = analyzeEdges(output, clock, { ...options, channelName: 'output', pointer: '/output' });
-    const read = readOutput(output, clock, edges.levels.highV, edges.levels.lowV);
-    const period = Number.isFinite(read.period.meanS) ? read.period : edges.period;
+    // IEEE 181 histogram levels start the settled-level iteration (which refines them itself).
+    const levels = stateLevels(output, { channelName: 'output', pointer: '/output', recentre: false });
+    const read = readOutput(output, clock, levels.highV, levels.lowV, options);
+    const period = read.period;
+    if (!(period.count >= 1)) {
+      const t = read.transitions;
+      const what = t.length === 0 ? 'no complete edge' : t.length === 1 ? `one edge only (${t[0].direction} at ${t[0].timeS.toPrecision(6)} s)` : 'one edge in each direction only';
+      throw bad(`output shows ${what}: at least two edges in the same direction (one full period) are needed; capture a longer record`, 'too-few-edges', '/output', {
+        channel: 'output',
+        edgeCount: t.length,
+      });
+    }
     features = {
       timingSource: 'output',
       frequencyHz: 1 / period.meanS,
@@ -209,9 +218,18 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
       warnings,
       spreads,
     };
-    if (read.duty) ((features.dutyCycle = read.duty.mean), (spreads.dutyCycle = read.duty));
-    if (read.rise) ((features.riseTimeS = read.rise.mean), (spreads.riseTimeS = read.rise));
-    if (read.fall) ((features.fallTimeS = read.fall.mean), (spreads.fallTimeS = read.fall));
+    if (read.duty) {
+      features.dutyCycle = read.duty.mean;
+      spreads.dutyCycle = read.duty;
+    }
+    if (read.rise) {
+      features.riseTimeS = read.rise.mean;
+      spreads.riseTimeS = read.rise;
+    }
+    if (read.fall) {
+      features.fallTimeS = read.fall.mean;
+      spreads.fallTimeS = read.fall;
+    }
     const slowest = Math.max(features.riseTimeS ?? 0, features.fallTimeS ?? 0);
     if (slowest > 0.05 * features.periodS) {
       warnings.push(`output transitions take ${((slowest / features.periodS) * 100).toFixed(1)} % of the period: edges are slow against the period (slew-limited?)`);
@@ -250,11 +268,26 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
     }
     const f = features;
     f.turningPointCount = read.turningPointCount;
-    if (read.maxV) ((f.capacitorMaxV = read.maxV.mean), (spreads.capacitorMaxV = read.maxV));
-    if (read.minV) ((f.capacitorMinV = read.minV.mean), (spreads.capacitorMinV = read.minV));
-    if (read.risingTau) ((f.risingTauS = read.risingTau.mean), (spreads.risingTauS = read.risingTau));
-    if (read.fallingTau) ((f.fallingTauS = read.fallingTau.mean), (spreads.fallingTauS = read.fallingTau));
-    if (read.aboveMidShare) ((f.capacitorAboveMidShare = read.aboveMidShare.mean), (spreads.capacitorAboveMidShare = read.aboveMidShare));
+    if (read.maxV) {
+      f.capacitorMaxV = read.maxV.mean;
+      spreads.capacitorMaxV = read.maxV;
+    }
+    if (read.minV) {
+      f.capacitorMinV = read.minV.mean;
+      spreads.capacitorMinV = read.minV;
+    }
+    if (read.risingTau) {
+      f.risingTauS = read.risingTau.mean;
+      spreads.risingTauS = read.risingTau;
+    }
+    if (read.fallingTau) {
+      f.fallingTauS = read.fallingTau.mean;
+      spreads.fallingTauS = read.fallingTau;
+    }
+    if (read.aboveMidShare) {
+      f.capacitorAboveMidShare = read.aboveMidShare.mean;
+      spreads.capacitorAboveMidShare = read.aboveMidShare;
+    }
     if (read.risingTau === undefined && read.fallingTau === undefined) warnings.push('no complete capacitor stretch between two turning points: no time constant');
   }
   const f = features!;

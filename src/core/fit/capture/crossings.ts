@@ -2,11 +2,9 @@ import { CoreError } from '../../errors.ts';
 import { referenceLevelV, stateLevels } from './levels.ts';
 import type { StateLevels } from './levels.ts';
 import { assertFiniteSamples } from './sample-checks.ts';
-import { timeAt as timeAtImported, clockLength } from './sample-clock.ts';
+import { clockLength } from './sample-clock.ts';
 import type { SampleClock } from './sample-clock.ts';
 
-/** Module-local bindings: hot per-sample loops call these directly, not through an import binding (CJS transforms make each such call a property read). */
-const timeAt = timeAtImported;
 
 /**
  * Reference-level crossings and transitions of a two-state waveform, with the
@@ -88,34 +86,36 @@ export function findTransitions(
   let lastRefDownS = NaN;
   let lastLeaveLowS = NaN;
   let lastLeaveHighS = NaN;
-  let tPrev = timeAt(clock, 0);
+  // The hot loop of every capture: sample instants computed inline for an even clock.
+  const uniform = clock.kind === 'uniform';
+  const startS = uniform ? clock.startS : 0;
+  const stepS = uniform ? clock.intervalS : 0;
+  const times = uniform ? undefined : clock.timeS;
+  let tPrev = uniform ? startS : times![0];
   let vPrev = values[0];
 
   for (let i = 1; i < n; i++) {
     const v = values[i];
-    const t = timeAt(clock, i);
-    if (v !== vPrev) {
-      const dtPerV = (t - tPrev) / (v - vPrev);
-      if (v > vPrev) {
-        if (vPrev <= lowBandV && v > lowBandV) lastLeaveLowS = tPrev + (lowBandV - vPrev) * dtPerV;
-        if (vPrev < refV && v >= refV) lastRefUpS = tPrev + (refV - vPrev) * dtPerV;
-        if (v >= highBandV) {
-          if (state === -1) {
-            const endS = vPrev < highBandV ? tPrev + (highBandV - vPrev) * dtPerV : tPrev;
-            out.push({ direction: 'rising', timeS: lastRefUpS, startS: lastLeaveLowS, endS, durationS: endS - lastLeaveLowS, index: i });
-          }
-          state = 1;
+    const t = uniform ? startS + i * stepS : times![i];
+    if (v > vPrev) {
+      if (vPrev <= lowBandV && v > lowBandV) lastLeaveLowS = tPrev + ((lowBandV - vPrev) * (t - tPrev)) / (v - vPrev);
+      if (vPrev < refV && v >= refV) lastRefUpS = tPrev + ((refV - vPrev) * (t - tPrev)) / (v - vPrev);
+      if (v >= highBandV) {
+        if (state === -1) {
+          const endS = vPrev < highBandV ? tPrev + ((highBandV - vPrev) * (t - tPrev)) / (v - vPrev) : tPrev;
+          out.push({ direction: 'rising', timeS: lastRefUpS, startS: lastLeaveLowS, endS, durationS: endS - lastLeaveLowS, index: i });
         }
-      } else {
-        if (vPrev >= highBandV && v < highBandV) lastLeaveHighS = tPrev + (highBandV - vPrev) * dtPerV;
-        if (vPrev > refV && v <= refV) lastRefDownS = tPrev + (refV - vPrev) * dtPerV;
-        if (v <= lowBandV) {
-          if (state === 1) {
-            const endS = vPrev > lowBandV ? tPrev + (lowBandV - vPrev) * dtPerV : tPrev;
-            out.push({ direction: 'falling', timeS: lastRefDownS, startS: lastLeaveHighS, endS, durationS: endS - lastLeaveHighS, index: i });
-          }
-          state = -1;
+        state = 1;
+      }
+    } else if (v < vPrev) {
+      if (vPrev >= highBandV && v < highBandV) lastLeaveHighS = tPrev + ((highBandV - vPrev) * (t - tPrev)) / (v - vPrev);
+      if (vPrev > refV && v <= refV) lastRefDownS = tPrev + ((refV - vPrev) * (t - tPrev)) / (v - vPrev);
+      if (v <= lowBandV) {
+        if (state === 1) {
+          const endS = vPrev > lowBandV ? tPrev + ((lowBandV - vPrev) * (t - tPrev)) / (v - vPrev) : tPrev;
+          out.push({ direction: 'falling', timeS: lastRefDownS, startS: lastLeaveHighS, endS, durationS: endS - lastLeaveHighS, index: i });
         }
+        state = -1;
       }
     } else if (state === 0) {
       if (v <= lowBandV) state = -1;

@@ -29,6 +29,8 @@ export interface StateLevelOptions {
   channelName?: string;
   /** JSON pointer of the channel, attached to errors. */
   pointer?: string;
+  /** Re-centre the mode windows (default true); a caller that refines the levels itself skips these passes. */
+  recentre?: boolean;
 }
 
 /**
@@ -152,8 +154,9 @@ export function stateLevels(values: Float64Array, options: StateLevelOptions = {
   // peak, and a truncated mean leans towards its window's centre; moving the
   // window onto the estimate a few times removes that lean.
   const halfWidthV = ((MODE_REFINE_HALF_WIDTH_BINS + 0.5) * rangeV) / binCount;
-  const lowV = recentredMean(values, lowSum / lowN, halfWidthV);
-  const highV = recentredMean(values, highSum / highN, halfWidthV);
+  const recentre = options.recentre !== false;
+  const lowV = recentre ? recentredMean(values, lowSum / lowN, halfWidthV) : lowSum / lowN;
+  const highV = recentre ? recentredMean(values, highSum / highN, halfWidthV) : highSum / highN;
   const amplitudeV = highV - lowV;
 
   if (amplitudeV < MIN_AMPLITUDE_FRACTION_OF_RANGE * rangeV) {

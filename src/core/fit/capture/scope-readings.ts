@@ -9,14 +9,12 @@ import {
   EXTREME_WINDOW_SHARE,
   LEVEL_ITERATIONS,
   LEVEL_MARGIN,
-  REF_HIGH,
-  REF_LOW,
   CROSSING_WINDOW_SHARE,
   TAU_WINDOW_HIGH,
   TAU_WINDOW_LOW,
   tauFromWindowMeans,
 } from '../definitions/scope-definitions.ts';
-import { findTransitions, intervalStats, type IntervalStats, type Transition } from './crossings.ts';
+import { findTransitions, intervalStats, type CrossingOptions, type IntervalStats, type Transition } from './crossings.ts';
 import { clockLength, indexAtTime as indexAtTimeImported, timeAt as timeAtImported, type SampleClock } from './sample-clock.ts';
 import type { TurningPoint } from './turning-points.ts';
 
@@ -65,12 +63,12 @@ function windowSum(values: Float64Array, clock: SampleClock, a: number, b: numbe
  * Settled levels and reference instants of the output, starting from the
  * histogram levels and iterating the shared definition.
  */
-export function readOutput(values: Float64Array, clock: SampleClock, startHighV: number, startLowV: number): OutputReadings {
+export function readOutput(values: Float64Array, clock: SampleClock, startHighV: number, startLowV: number, crossing: CrossingOptions = {}): OutputReadings {
   let highV = startHighV;
   let lowV = startLowV;
   let highSamples = 0;
   let lowSamples = 0;
-  let transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV });
+  let transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
   for (let pass = 0; pass < LEVEL_ITERATIONS; pass++) {
     let hs = 0;
     let hn = 0;
@@ -84,15 +82,21 @@ export function readOutput(values: Float64Array, clock: SampleClock, startHighV:
       const to = b.startS - LEVEL_MARGIN * b.durationS;
       if (!(to > from)) continue;
       const [s, c] = windowSum(values, clock, from, to);
-      if (a.direction === 'rising') ((hs += s), (hn += c));
-      else ((ls += s), (ln += c));
+      if (a.direction === 'rising') {
+      hs += s;
+      hn += c;
+    }
+      else {
+        ls += s;
+        ln += c;
+      }
     }
     if (hn === 0 || ln === 0) break;
     highV = hs / hn;
     lowV = ls / ln;
     highSamples = hn;
     lowSamples = ln;
-    transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV });
+    transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
   }
   const rising = transitions.filter((t) => t.direction === 'rising');
   const falling = transitions.filter((t) => t.direction === 'falling');
@@ -108,7 +112,7 @@ export function readOutput(values: Float64Array, clock: SampleClock, startHighV:
     highV,
     lowV,
     transitions,
-    period: intervalStats(periods.length > 0 ? periods : [Number.NaN]),
+    period: intervalStats(periods),
     duty: spread(duties),
     rise: spread(rising.map((t) => t.durationS)),
     fall: spread(falling.map((t) => t.durationS)),

@@ -32,7 +32,7 @@
 /** Margin after/before a transition, in 10–90 % durations: a linear ramp ends 0.125 durations past its 90 % instant (our margin: twice that). */
 export const LEVEL_MARGIN = 0.25;
 /** Fixed-point passes levels → reference instants → levels. */
-export const LEVEL_ITERATIONS = 3;
+export const LEVEL_ITERATIONS = 2;
 /** IEEE Std 181 reference levels, fractions of the amplitude. */
 export const REF_LOW = 0.1;
 export const REF_MID = 0.5;

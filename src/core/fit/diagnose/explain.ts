@@ -171,7 +171,6 @@ const sumSq = (v: ArrayLike<number>) => {
 
 export function diagnose(setup: FitSetup, options: DiagnoseOptions = {}): Diagnosis {
   const params = setup.parameters;
-  const n = params.length;
   const m = setup.measurements.length;
   const maxCauses = options.maxCauses ?? 2;
   const maxExplanations = options.maxExplanations ?? 8;
@@ -205,7 +204,7 @@ export function diagnose(setup: FitSetup, options: DiagnoseOptions = {}): Diagno
     }
     const w = whitener(columns, m, h.active);
     try {
-      const fit = fitSubset(setup, h.active, { priorSd: h.active.map((j) => params[j].offSd), transform: w.whiten, maxIterations: 60 });
+      const fit = fitSubset(setup, h.active, { priorSd: h.active.map((j) => params[j].offSd), transform: w.whiten, maxIterations: 30 });
       const s = fit.solution;
       const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
       return { h, x: fit.x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - h.active.length)) };
@@ -220,7 +219,9 @@ export function diagnose(setup: FitSetup, options: DiagnoseOptions = {}): Diagno
     const s = score(h);
     if (s) scored.push(s);
   }
-  if (maxCauses >= 2) {
+  // A second cause must earn its place: pairs are weighed only when no single hypothesis accounts for the measurements.
+  const singleAccounts = scored.some((s) => s.chiSquare <= chiSquareQuantile95(Math.max(1, m - s.h.active.length)));
+  if (maxCauses >= 2 && !singleAccounts) {
     const singles = scored.filter((s) => s.h.kind === 'off').sort((a, b) => b.logEvidence - a.logEvidence).slice(0, PAIR_POOL);
     for (let a = 0; a < singles.length; a++) {
       for (let b = a + 1; b < singles.length; b++) {

@@ -52,167 +52,237 @@ export interface PredictedFigures {
 export const FORWARD_MODEL_DESCRIPTION =
   'the time-domain engine (per-state nodal solve and event-driven piece walk, the model of /v1/analyze) walked to its steady cycle; figures read off the exact cycle with the same definitions the capture analysis applies to samples';
 
-/** Coefficients of a quantity affine in (v, s) for the loaded piece. */
+/** Which quantity affine in (v, s) a reader pass reads. */
 const PIN = 0;
 const CAP = 1;
 
+// Module-local copies of the shared definitions (read per evaluation, thousands of times per fit).
+const ITERATIONS = LEVEL_ITERATIONS;
+const MARGIN = LEVEL_MARGIN;
+const LOW = REF_LOW;
+const MID = REF_MID;
+const HIGH = REF_HIGH;
+const TAU_LOW = TAU_WINDOW_LOW;
+const TAU_HIGH = TAU_WINDOW_HIGH;
+
+const mod = (x: number, m: number) => ((x % m) + m) % m;
+
 /**
- * Reads figures off a steady cycle: values, first crossings, integrals over
- * windows that may wrap around the cycle end. Times are absolute walk times;
- * any time is folded into [cycle.startS, cycle.startS + period).
+ * Reads figures off a steady cycle in passes over its pieces: first crossings
+ * of several levels at once, integrals over several windows at once (windows
+ * may wrap around the cycle end), capacitor turning points. Times are absolute
+ * walk times, folded into [cycle.startS, cycle.startS + period).
  */
 class CycleReader {
   private readonly crossT = new Float64Array(2);
   private readonly crossDir = new Int8Array(2);
-  constructor(
-    private readonly walk: OscillatorWalk,
-    private readonly cycle: SteadyCycle,
-  ) {}
+  /** First rising / falling crossing per level of the last crossings() pass. */
+  readonly rise = new Float64Array(4);
+  readonly fall = new Float64Array(4);
+  /** Integrals per window of the last integrals() pass. */
+  readonly sums = new Float64Array(8);
+  private readonly prevEnd = new Float64Array(4);
+  private readonly wA = new Float64Array(16);
+  private readonly wB = new Float64Array(16);
+  private readonly wOf = new Int8Array(16);
+  maxT = 0;
+  maxV = 0;
+  minT = 0;
+  minV = 0;
+  walk!: OscillatorWalk;
+  cycle!: SteadyCycle;
 
-  private coef(kind: number): [number, number, number] {
-    const cfg = this.walk.evaluator.config;
-    return kind === PIN ? [cfg.oC, cfg.oV, cfg.oS] : [0, 1, 0];
+  bind(walk: OscillatorWalk, cycle: SteadyCycle): void {
+    this.walk = walk;
+    this.cycle = cycle;
   }
 
-  fold(tS: number): number {
-    const c = this.cycle;
-    const phase = (((tS - c.startS) % c.periodS) + c.periodS) % c.periodS;
-    return c.startS + phase;
-  }
-
-  /** First crossing of `kind` through levelV in each direction after the cycle start: [rise, fall]. */
-  crossings(kind: number, levelV: number): [number, number] {
+  /** First crossing of `kind` through each level, after the cycle start, into rise[k] / fall[k]. */
+  crossings(kind: number, levels: ArrayLike<number>, count: number): void {
     const ev = this.walk.evaluator;
     const { startIndex, endIndex } = this.cycle;
-    let rise = Number.NaN;
-    let fall = Number.NaN;
     ev.load(endIndex - 1);
-    let [c0, cv, cs] = this.coef(kind);
-    let prevEnd = ev.atEnd(c0 - levelV, cv, cs);
+    let cfg = ev.config;
+    let c0 = kind === PIN ? cfg.oC : 0;
+    let cv = kind === PIN ? cfg.oV : 1;
+    let cs = kind === PIN ? cfg.oS : 0;
+    for (let k = 0; k < count; k++) {
+      this.rise[k] = Number.NaN;
+      this.fall[k] = Number.NaN;
+      this.prevEnd[k] = ev.atEnd(c0 - levels[k], cv, cs);
+    }
     for (let i = startIndex; i < endIndex; i++) {
       ev.load(i);
-      [c0, cv, cs] = this.coef(kind);
-      c0 -= levelV;
-      const start = ev.atStart(c0, cv, cs);
-      if (prevEnd < 0 && start >= 0 && Number.isNaN(rise)) rise = ev.startS;
-      if (prevEnd >= 0 && start < 0 && Number.isNaN(fall)) fall = ev.startS;
-      const n = ev.crossings(c0, cv, cs, this.crossT, this.crossDir);
-      for (let k = 0; k < n; k++) {
-        if (this.crossDir[k] > 0 && Number.isNaN(rise)) rise = ev.startS + this.crossT[k];
-        if (this.crossDir[k] < 0 && Number.isNaN(fall)) fall = ev.startS + this.crossT[k];
+      cfg = ev.config;
+      c0 = kind === PIN ? cfg.oC : 0;
+      cv = kind === PIN ? cfg.oV : 1;
+      cs = kind === PIN ? cfg.oS : 0;
+      for (let k = 0; k < count; k++) {
+        const g0 = c0 - levels[k];
+        const start = ev.atStart(g0, cv, cs);
+        const prev = this.prevEnd[k];
+        if (prev < 0 && start >= 0 && Number.isNaN(this.rise[k])) this.rise[k] = ev.startS;
+        if (prev >= 0 && start < 0 && Number.isNaN(this.fall[k])) this.fall[k] = ev.startS;
+        if (Number.isNaN(this.rise[k]) || Number.isNaN(this.fall[k])) {
+          const n = ev.crossings(g0, cv, cs, this.crossT, this.crossDir);
+          for (let j = 0; j < n; j++) {
+            if (this.crossDir[j] > 0 && Number.isNaN(this.rise[k])) this.rise[k] = ev.startS + this.crossT[j];
+            if (this.crossDir[j] < 0 && Number.isNaN(this.fall[k])) this.fall[k] = ev.startS + this.crossT[j];
+          }
+        }
+        this.prevEnd[k] = ev.atEnd(g0, cv, cs);
       }
-      prevEnd = ev.atEnd(c0, cv, cs);
     }
-    return [rise, fall];
   }
 
-  /** Capacitor turning points: [time of the maximum, max, time of the minimum, min]. */
-  turningPoints(): [number, number, number, number] {
+  /** Capacitor turning points into maxT/maxV, minT/minV. */
+  turningPoints(): void {
     const ev = this.walk.evaluator;
     const { startIndex, endIndex } = this.cycle;
-    let maxT = Number.NaN;
-    let maxV = -Infinity;
-    let minT = Number.NaN;
-    let minV = Infinity;
-    const consider = (t: number, v: number) => {
-      if (v > maxV) ((maxV = v), (maxT = t));
-      if (v < minV) ((minV = v), (minT = t));
-    };
+    this.maxV = -Infinity;
+    this.minV = Infinity;
     for (let i = startIndex; i < endIndex; i++) {
       ev.load(i);
       const cfg = ev.config;
-      consider(ev.startS, ev.ends.v0);
+      this.consider(ev.startS, ev.ends.v0);
       // v' = b0 + bS·s − a·v is affine in (v, s) and monotone within a piece: at most one interior zero.
       const n = ev.crossings(cfg.b0, -cfg.a, cfg.bS, this.crossT, this.crossDir);
-      for (let k = 0; k < n; k++) consider(ev.startS + this.crossT[k], ev.kin.v(this.crossT[k]));
+      for (let k = 0; k < n; k++) this.consider(ev.startS + this.crossT[k], ev.kin.v(this.crossT[k]));
     }
-    return [maxT, maxV, minT, minV];
   }
 
-  /** ∫ over [t1, t2] (t2 − t1 ≤ one period) of `kind`. */
-  integral(kind: number, t1: number, t2: number): number {
-    const span = t2 - t1;
-    if (!(span > 0)) return 0;
-    const a = this.fold(t1);
-    const end = this.cycle.startS + this.cycle.periodS;
-    if (a + span <= end) return this.integralInside(kind, a, a + span);
-    return this.integralInside(kind, a, end) + this.integralInside(kind, this.cycle.startS, this.cycle.startS + (a + span - end));
+  private consider(t: number, v: number): void {
+    if (v > this.maxV) {
+      this.maxV = v;
+      this.maxT = t;
+    }
+    if (v < this.minV) {
+      this.minV = v;
+      this.minT = t;
+    }
   }
 
-  private integralInside(kind: number, a: number, b: number): number {
+  /** ∫ of `kind` over each window [from[k], to[k]] (each at most one period long) into sums[k]. */
+  integrals(kind: number, from: ArrayLike<number>, to: ArrayLike<number>, count: number): void {
+    const { startS, periodS, startIndex, endIndex } = this.cycle;
+    const end = startS + periodS;
+    // Fold each window into the cycle, splitting one that wraps.
+    let parts = 0;
+    for (let k = 0; k < count; k++) {
+      this.sums[k] = 0;
+      const span = to[k] - from[k];
+      if (!(span > 0)) continue;
+      const a = startS + mod(from[k] - startS, periodS);
+      if (a + span <= end) {
+        this.wA[parts] = a;
+        this.wB[parts] = a + span;
+        this.wOf[parts++] = k;
+      } else {
+        this.wA[parts] = a;
+        this.wB[parts] = end;
+        this.wOf[parts++] = k;
+        this.wA[parts] = startS;
+        this.wB[parts] = startS + (a + span - end);
+        this.wOf[parts++] = k;
+      }
+    }
     const ev = this.walk.evaluator;
-    let total = 0;
-    for (let i = this.cycle.startIndex; i < this.cycle.endIndex; i++) {
+    for (let i = startIndex; i < endIndex; i++) {
       ev.load(i);
       const p0 = ev.startS;
       const p1 = p0 + ev.durationS;
-      if (p1 <= a || p0 >= b) continue;
-      const [c0, cv, cs] = this.coef(kind);
-      total += ev.integral(c0, cv, cs, Math.max(a, p0) - p0, Math.min(b, p1) - p0);
+      const cfg = ev.config;
+      const c0 = kind === PIN ? cfg.oC : 0;
+      const cv = kind === PIN ? cfg.oV : 1;
+      const cs = kind === PIN ? cfg.oS : 0;
+      for (let w = 0; w < parts; w++) {
+        const a = this.wA[w];
+        const b = this.wB[w];
+        if (p1 <= a || p0 >= b) continue;
+        this.sums[this.wOf[w]] += ev.integral(c0, cv, cs, Math.max(a, p0) - p0, Math.min(b, p1) - p0);
+      }
     }
-    return total;
   }
 }
 
-/** One walk reused by every evaluation: the fit calls this thousands of times, synchronously. */
+/** One walk and one reader reused by every evaluation: the fit calls this thousands of times, synchronously. */
 const walk = new OscillatorWalk();
-
-const mod = (x: number, m: number) => ((x % m) + m) % m;
+const reader = new CycleReader();
+const levels = new Float64Array(3);
+const from = new Float64Array(6);
+const to = new Float64Array(6);
 
 export function figuresOfPrepared(prepared: PreparedCircuit): PredictedFigures {
   requireHysteresis(prepared.high.switchingV, prepared.low.switchingV);
   const cycle = walkToCycle(walk, prepared.shape, prepared.values, prepared.dynamics);
-  const r = new CycleReader(walk, cycle);
+  const r = reader;
+  r.bind(walk, cycle);
   const periodS = cycle.periodS;
 
   // Output levels: settled means, iterated with the reference instants they define.
   let highV = walk.highV;
   let lowV = walk.lowV;
-  let mid: [number, number] = [Number.NaN, Number.NaN];
-  let low: [number, number] = mid;
-  let high: [number, number] = mid;
-  for (let pass = 0; pass < LEVEL_ITERATIONS; pass++) {
+  for (let pass = 0; pass < ITERATIONS; pass++) {
     const swing = highV - lowV;
-    low = r.crossings(PIN, lowV + REF_LOW * swing);
-    high = r.crossings(PIN, lowV + REF_HIGH * swing);
-    const riseDur = mod(high[0] - low[0], periodS);
-    const fallDur = mod(low[1] - high[1], periodS);
+    levels[0] = lowV + LOW * swing;
+    levels[1] = lowV + HIGH * swing;
+    r.crossings(PIN, levels, 2);
+    const [low0, low1, high0, high1] = [r.rise[0], r.fall[0], r.rise[1], r.fall[1]];
+    const riseDur = mod(high0 - low0, periodS);
+    const fallDur = mod(low1 - high1, periodS);
     // High: from the rise's 90 % instant to the fall's 90 % instant; low: 10 % fall to 10 % rise.
-    const hA = high[0] + LEVEL_MARGIN * riseDur;
-    const hB = high[0] + mod(high[1] - high[0], periodS) - LEVEL_MARGIN * fallDur;
-    const lA = low[1] + LEVEL_MARGIN * fallDur;
-    const lB = low[1] + mod(low[0] - low[1], periodS) - LEVEL_MARGIN * riseDur;
-    if (!(hB > hA && lB > lA)) break; // edges fill the states: keep the previous levels
-    highV = r.integral(PIN, hA, hB) / (hB - hA);
-    lowV = r.integral(PIN, lA, lB) / (lB - lA);
+    from[0] = high0 + MARGIN * riseDur;
+    to[0] = high0 + mod(high1 - high0, periodS) - MARGIN * fallDur;
+    from[1] = low1 + MARGIN * fallDur;
+    to[1] = low1 + mod(low0 - low1, periodS) - MARGIN * riseDur;
+    if (!(to[0] > from[0] && to[1] > from[1])) break; // edges fill the states: keep the previous levels
+    r.integrals(PIN, from, to, 2);
+    highV = r.sums[0] / (to[0] - from[0]);
+    lowV = r.sums[1] / (to[1] - from[1]);
   }
   const swing = highV - lowV;
   if (!(swing > 0)) throw new CoreError('no-oscillation', 'the output does not swing between two levels');
-  low = r.crossings(PIN, lowV + REF_LOW * swing);
-  high = r.crossings(PIN, lowV + REF_HIGH * swing);
-  mid = r.crossings(PIN, lowV + REF_MID * swing);
-  const [, maxV, , minV] = r.turningPoints();
+  levels[0] = lowV + LOW * swing;
+  levels[1] = lowV + HIGH * swing;
+  levels[2] = lowV + MID * swing;
+  r.crossings(PIN, levels, 3);
+  const riseTimeS = mod(r.rise[1] - r.rise[0], periodS);
+  const fallTimeS = mod(r.fall[0] - r.fall[1], periodS);
+  const dutyCycle = mod(r.fall[2] - r.rise[2], periodS) / periodS;
+
+  r.turningPoints();
+  const maxV = r.maxV;
+  const minV = r.minV;
   const rangeV = maxV - minV;
-  const capLow = r.crossings(CAP, minV + TAU_WINDOW_LOW * rangeV);
-  const capHigh = r.crossings(CAP, minV + TAU_WINDOW_HIGH * rangeV);
-  const capMid = r.crossings(CAP, minV + 0.5 * rangeV);
-  const tauOf = (fromT: number, toT: number) => {
-    const h = mod(toT - fromT, periodS) / 3;
-    return tauFromWindowMeans(r.integral(CAP, fromT, fromT + h) / h, r.integral(CAP, fromT + h, fromT + 2 * h) / h, r.integral(CAP, fromT + 2 * h, fromT + 3 * h) / h, h);
-  };
+  levels[0] = minV + TAU_LOW * rangeV;
+  levels[1] = minV + TAU_HIGH * rangeV;
+  levels[2] = minV + 0.5 * rangeV;
+  r.crossings(CAP, levels, 3);
+  const aboveMid = mod(r.fall[2] - r.rise[2], periodS) / periodS;
+  // Three equal sub-windows of the rising stretch (low → high level) and of the falling one (high → low).
+  const hr = mod(r.rise[1] - r.rise[0], periodS) / 3;
+  const hf = mod(r.fall[0] - r.fall[1], periodS) / 3;
+  for (let k = 0; k < 3; k++) {
+    from[k] = r.rise[0] + k * hr;
+    to[k] = from[k] + hr;
+    from[3 + k] = r.fall[1] + k * hf;
+    to[3 + k] = from[3 + k] + hf;
+  }
+  r.integrals(CAP, from, to, 6);
+  const s = r.sums;
   return {
     frequencyHz: 1 / periodS,
     periodS,
-    dutyCycle: mod(mid[1] - mid[0], periodS) / periodS,
+    dutyCycle,
     capacitorMinV: minV,
     capacitorMaxV: maxV,
     outputHighV: highV,
     outputLowV: lowV,
-    riseTimeS: mod(high[0] - low[0], periodS),
-    fallTimeS: mod(low[1] - high[1], periodS),
-    capacitorRisingTauS: tauOf(capLow[0], capHigh[0]),
-    capacitorFallingTauS: tauOf(capHigh[1], capLow[1]),
-    capacitorAboveMidShare: mod(capMid[1] - capMid[0], periodS) / periodS,
+    riseTimeS,
+    fallTimeS,
+    capacitorRisingTauS: tauFromWindowMeans(s[0] / hr, s[1] / hr, s[2] / hr, hr),
+    capacitorFallingTauS: tauFromWindowMeans(s[3] / hf, s[4] / hf, s[5] / hf, hf),
+    capacitorAboveMidShare: aboveMid,
     upperThresholdV: cycle.upperV,
     lowerThresholdV: cycle.lowerV,
     hysteresisRatio: (cycle.upperV - cycle.lowerV) / swing,

@@ -1,0 +1,174 @@
+/**
+ * Synthetic faulty boards for the diagnosis benchmark and its CI slice. The
+ * scope records are made by the odex reference integrator
+ * (test/core/circuit/engine-odex-reference.ts, Gragg–Bulirsch–Stoer
+ * extrapolation from the npm registry, its own nodal solve and event
+ * handling), never by the engine, so the engine's own assumptions are not
+ * rewarded. Boards are built from the topology registry (roles by purpose, the
+ * design knowledge's threshold network) and the archetype table — no hand
+ * list of roles or topologies. Values are scenarios of our own.
+ */
+import { BUILT_IN_AMPLIFIERS } from '../../../src/core/amplifiers/archetypes.ts';
+import type { AmplifierModel } from '../../../src/core/amplifiers/model.ts';
+import { TOPOLOGIES, type TopologyDefinition } from '../../../src/core/circuit/topologies/index.ts';
+import type { Circuit } from '../../../src/core/circuit/types.ts';
+import { nearestInSeries } from '../../../src/core/parts/series.ts';
+import type { FitInput, FitReport } from '../../../src/core/fit/index.ts';
+import { referenceOscillation } from '../circuit/engine-odex-reference.ts';
+import { addNoise, gaussian, quantise, seededRandom } from './capture-synth.ts';
+
+export type ChannelSet = 'output' | 'capacitor' | 'both';
+export const CHANNEL_SETS: readonly ChannelSet[] = ['output', 'capacitor', 'both'];
+
+/** Bench tolerances: 1 % resistors, a 2 % film/C0G timing capacitor (common practice for timing parts). */
+export const RESISTOR_TOLERANCE = 0.01;
+export const CAPACITOR_TOLERANCE = 0.02;
+
+export interface Board {
+  topology: string;
+  nominal: Circuit;
+  truth: Circuit;
+  /** Role(s) at fault (empty: an in-tolerance board). */
+  faultRoles: string[];
+  fault: string;
+  tolerances: Record<string, number>;
+}
+
+/** The push-pull (or open-drain) class archetype with the fastest slew whose supply range takes the span. */
+function amplifierFor(topology: TopologyDefinition, spanV: number): AmplifierModel {
+  const stage = topology.needsOpenDrain ? 'open-drain' : 'push-pull';
+  const fits = BUILT_IN_AMPLIFIERS.filter((a) => a.figuresBasis === 'class-typical' && a.outputStage === stage && a.supplyMinV <= spanV && a.supplyMaxV >= spanV && !Number.isFinite(a.differentialClampV));
+  return fits.reduce((x, y) => (y.slewRateVPerS > x.slewRateVPerS ? y : x));
+}
+
+/** A nominal board per registered topology: timing 10 kΩ / 10 nF, threshold resistors 100 kΩ, a 1 kΩ pull-up. */
+export function nominalBoard(topology: TopologyDefinition): Circuit {
+  const network = topology.design?.thresholdNetworks[0];
+  const split = network?.needsNegativeRail ?? false;
+  const supply = split ? { positiveV: 6, negativeV: -6 } : { positiveV: 5, negativeV: 0 };
+  const parts: Record<string, number> = {};
+  for (const [role, spec] of Object.entries(topology.roles)) {
+    if (spec.kind === 'capacitor') parts[role] = 10e-9;
+    else if (spec.purpose === 'timing') parts[role] = 10e3;
+    else if (spec.purpose === 'output-level') parts[role] = 1e3;
+    else if (!network || network.roles.includes(role)) parts[role] = 100e3;
+  }
+  const timing = topology.design?.timing;
+  if (timing?.kind === 'steered') parts[timing.discharge] = 22e3; // duty away from 50 %
+  return { topology: topology.id, supply, amplifier: amplifierFor(topology, supply.positiveV - supply.negativeV), parts };
+}
+
+function tolerancesOf(c: Circuit, topology: TopologyDefinition): Record<string, number> {
+  return Object.fromEntries(Object.keys(c.parts).map((r) => [r, topology.roles[r].kind === 'capacitor' ? CAPACITOR_TOLERANCE : RESISTOR_TOLERANCE]));
+}
+
+/** Every part within its tolerance (uniform), the board in order. */
+function scatter(c: Circuit, tol: Record<string, number>, rand: () => number): Record<string, number> {
+  return Object.fromEntries(Object.entries(c.parts).map(([r, v]) => [r, v * (1 + (2 * rand() - 1) * tol[r])]));
+}
+
+/**
+ * Boards for one topology: each role off by ±3–20 % (the rest scattered within
+ * tolerance), the wrong-part faults (decade slip, neighbouring E24 value, a
+ * swap of two same-kind roles of different value), and in-tolerance boards.
+ */
+export function boardsFor(topology: TopologyDefinition, seed: number, options: { deviationsPerRole: number; wrongParts: boolean; inTolerance: number }): Board[] {
+  const rand = seededRandom(seed);
+  const nominal = nominalBoard(topology);
+  const tol = tolerancesOf(nominal, topology);
+  const out: Board[] = [];
+  const make = (parts: Record<string, number>, faultRoles: string[], fault: string) =>
+    out.push({ topology: topology.id, nominal, truth: { ...nominal, parts }, faultRoles, fault, tolerances: tol });
+  for (const role of Object.keys(nominal.parts)) {
+    for (let k = 0; k < options.deviationsPerRole; k++) {
+      const magnitude = 0.03 + 0.17 * rand();
+      const d = (rand() < 0.5 ? -1 : 1) * magnitude;
+      make({ ...scatter(nominal, tol, rand), [role]: nominal.parts[role] * (1 + d) }, [role], `${role} ${d > 0 ? '+' : ''}${(d * 100).toFixed(1)} %`);
+    }
+    if (options.wrongParts) {
+      const v = nominal.parts[role];
+      const slip = rand() < 0.5 ? 10 : 0.1;
+      make({ ...scatter(nominal, tol, rand), [role]: v * slip }, [role], `${role} decade slip ×${slip}`);
+      const n = nearestInSeries('E24', v * (1 + 1e-6));
+      make({ ...scatter(nominal, tol, rand), [role]: rand() < 0.5 ? nearestInSeries('E24', v * (1 - 1e-6)).lower : n.higher }, [role], `${role} neighbouring E24 value`);
+    }
+  }
+  if (options.wrongParts) {
+    const roles = Object.keys(nominal.parts);
+    for (let a = 0; a < roles.length; a++) {
+      for (let b = a + 1; b < roles.length; b++) {
+        const [ra, rb] = [roles[a], roles[b]];
+        if (topology.roles[ra].kind !== topology.roles[rb].kind || nominal.parts[ra] === nominal.parts[rb]) continue;
+        make({ ...scatter(nominal, tol, rand), [ra]: nominal.parts[rb], [rb]: nominal.parts[ra] }, [ra, rb], `${ra} and ${rb} swapped`);
+      }
+    }
+  }
+  for (let k = 0; k < options.inTolerance; k++) make(scatter(nominal, tol, rand), [], 'in tolerance');
+  return out;
+}
+
+export function allBoards(seed: number, options: { deviationsPerRole: number; wrongParts: boolean; inTolerance: number }): Board[] {
+  return TOPOLOGIES.flatMap((t, k) => boardsFor(t, seed + 1000 * k, options));
+}
+
+/** Periods per record and samples per period of the synthetic scope records. */
+const PERIODS = 8;
+const SAMPLES_PER_PERIOD = 2000;
+
+/**
+ * The board's scope record by the odex reference: noise (0.2 % of the span on
+ * the output, 0.1 % on the capacitor, 1σ) and 8-bit quantisation over the
+ * rails plus 5 %, then the channels asked for. Returns undefined when the
+ * faulty board does not oscillate (nothing to capture).
+ */
+export function boardCapture(board: Board, channels: ChannelSet, seed: number): FitInput['capture'] | undefined {
+  const probe = (() => {
+    try {
+      return referenceOscillation(board.truth, { tolerance: 1e-9 });
+    } catch {
+      return undefined;
+    }
+  })();
+  if (!probe || !(probe.periodS > 0)) return undefined;
+  const count = PERIODS * SAMPLES_PER_PERIOD;
+  const intervalS = probe.periodS / SAMPLES_PER_PERIOD;
+  // Start the grid at a random phase: the reference samples from its steady-state instant on.
+  const run = referenceOscillation(board.truth, { tolerance: 1e-9, maxCycles: 400, sample: { intervalS, count } });
+  const { positiveV, negativeV } = board.truth.supply;
+  const span = positiveV - negativeV;
+  const lo = negativeV - 0.05 * span;
+  const hi = positiveV + 0.05 * span;
+  const skip = Math.floor(gaussian(seededRandom(seed))() ** 2 * 100) % SAMPLES_PER_PERIOD;
+  const output = quantise(addNoise(run.samples!.outputV.slice(skip), 2e-3 * span, seed + 1), 8, lo, hi);
+  const capacitor = quantise(addNoise(run.samples!.capacitorV.slice(skip), 1e-3 * span, seed + 2), 8, lo, hi);
+  return {
+    sampleIntervalS: intervalS,
+    ...(channels !== 'capacitor' ? { output } : {}),
+    ...(channels !== 'output' ? { capacitor } : {}),
+  };
+}
+
+/** The roles a report's explanation names (a swap names both). */
+const rolesOf = (e: FitReport['diagnosis']['explanations'][number]) => e.causes.map((c) => c.parameter);
+
+export interface Verdict {
+  faulty: boolean;
+  top1: boolean;
+  top3: boolean;
+  falseAlarm: boolean;
+}
+
+/**
+ * Scoring: a faulty board counts as found at rank k when one of the first k
+ * explanations names a role at fault; when the service declares the leading
+ * hypotheses indistinguishable, any of them counts (the issue's rule).
+ * An in-tolerance board is a false alarm when the verdict says it departs.
+ */
+export function score(board: Board, report: FitReport): Verdict {
+  const faulty = board.faultRoles.length > 0;
+  if (!faulty) return { faulty, top1: false, top3: false, falseAlarm: !report.diagnosis.verdict.agreesWithNominal };
+  const names = (k: number) => report.diagnosis.explanations.slice(0, k).some((e) => rolesOf(e).some((r) => board.faultRoles.includes(r)));
+  const ambiguous = report.diagnosis.ambiguities.some((a) => a.hypotheses.some((h) => board.faultRoles.some((r) => h.includes(r))));
+  const leaderIsFault = !report.diagnosis.verdict.agreesWithNominal;
+  return { faulty, top1: leaderIsFault && (names(1) || ambiguous), top3: names(3) || ambiguous, falseAlarm: false };
+}
