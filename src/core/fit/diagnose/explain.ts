@@ -80,7 +80,7 @@ export interface SeparatingMeasurement {
 export interface Ambiguity {
   /** Hypotheses the measurements cannot tell apart (the leader first). */
   hypotheses: string[];
-  /** Largest difference of their predictions on the measured figures, in measurement σ. */
+  /** Largest distance of their predictions on the measured figures, in σ (other effects allowed their tolerances). */
   measuredSeparationSigma: number;
   statement: string;
   separatingMeasurement?: SeparatingMeasurement;
@@ -280,12 +280,14 @@ export function diagnose(setup: FitSetup, options: DiagnoseOptions = {}): Diagno
   const leader = listed.reduce((a, b) => (b.logEvidence > a.logEvidence ? b : a));
   const contenders = listed.filter((s) => s !== leader && posterior(s) >= CONTENDER_SHARE * posterior(leader));
   if (contenders.length > 0) {
-    const fl = figs(leader);
+    // Distance of two hypotheses' predictions on the measured figures, in σ, the in-tolerance
+    // spread of the other effects allowed for (whitened by the same covariance as the evidence).
+    const residualsOf = (s: Scored) => setup.residualsAt(s.x, s.h.parts);
+    const rl = residualsOf(leader);
     const alike: { s: Scored; sep: number }[] = [];
     for (const c of contenders) {
-      const fc = figs(c);
-      let sep = 0;
-      for (const meas of setup.measurements) sep = Math.max(sep, Math.abs(fl[meas.name] - fc[meas.name]) / meas.uncertainty);
+      const rc = residualsOf(c);
+      const sep = Math.sqrt(sumSq(all.whiten(Float64Array.from(rl, (v, i) => v - rc[i]))));
       if (sep < SEPARABLE_SIGMA) alike.push({ s: c, sep });
     }
     if (alike.length > 0) {
@@ -363,7 +365,7 @@ const PROBE_FIGURES: Record<string, string> = {
 function formatFigure(figure: string, value: number): string {
   if (figure.endsWith('V')) return formatNatural('V', value);
   if (figure.endsWith('S')) return formatNatural('s', value);
-  if (figure.endsWith('Hz')) return `${Number(value.toPrecision(5))} Hz`;
+  if (figure.startsWith('frequencyHz')) return `${Number(value.toPrecision(5))} Hz`;
   return Number(value.toPrecision(4)).toString();
 }
 

@@ -36,11 +36,14 @@ export const PRIOR_EFFECT_OFF = 0.02;
 export const PRIOR_WRONG_PART = 0.002;
 export const PRIOR_NOMINAL = 0.7;
 
-/** Series a value is checked against for its neighbours, coarsest first (common practice: E24 for 5 % and E96 for 1 % parts). */
-const NEIGHBOUR_SERIES: readonly SeriesName[] = ['E12', 'E24', 'E96', 'E192'];
+/**
+ * Series a value is checked against for its neighbours, coarsest stocked series first (common practice:
+ * resistors are stocked in E24 and E96, capacitors in E12 and E6).
+ */
+const NEIGHBOUR_SERIES: Record<'resistor' | 'capacitor', readonly SeriesName[]> = { resistor: ['E24', 'E96', 'E192'], capacitor: ['E12', 'E24'] };
 
-function neighbours(value: number): { series: SeriesName; lower: number; higher: number } | undefined {
-  for (const series of NEIGHBOUR_SERIES) {
+function neighbours(value: number, kind: 'resistor' | 'capacitor'): { series: SeriesName; lower: number; higher: number } | undefined {
+  for (const series of NEIGHBOUR_SERIES[kind]) {
     if (!isInSeries(series, value, 1e-6)) continue;
     return { series, lower: nearestInSeries(series, value * (1 - 1e-6)).lower, higher: nearestInSeries(series, value * (1 + 1e-6)).higher };
   }
@@ -52,10 +55,10 @@ type WrongPartSource = (circuit: Circuit, role: string) => Hypothesis[];
 
 const seriesNeighbour: WrongPartSource = (circuit, role) => {
   const value = circuit.parts[role];
-  const n = neighbours(value);
+  const n = neighbours(value, findTopology(circuit.topology)!.roles[role].kind);
   if (!n) return [];
   return [n.lower, n.higher].map((v) => ({
-    id: `neighbouring-value:${role}=${v.toPrecision(3)}`,
+    id: `neighbouring-value:${role}=${Number(v.toPrecision(3))}`,
     kind: 'wrong-part' as const,
     active: [],
     parts: { [role]: v },
