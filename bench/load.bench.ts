@@ -30,7 +30,8 @@ const IDLE_POLL_S = 5;
 const POLL_INTERVAL_MS = 20;
 
 const dir = mkdtempSync(path.join(tmpdir(), 'tickwright-load-'));
-const server = await startServer(path.join(dir, 'tickwright.db'), { LOG_LEVEL: 'warn', TICKWRIGHT_MAX_EVENT_LOOP_DELAY_MS: '1000' });
+// LOG_LEVEL info (as deployed): the fixture waits for fastify's "Server listening" line.
+const server = await startServer(path.join(dir, 'tickwright.db'), { TICKWRIGHT_MAX_EVENT_LOOP_DELAY_MS: '1000' }, 120_000);
 const port = Number(new URL(server.baseUrl).port);
 const pid = server.child.pid!;
 
@@ -98,7 +99,7 @@ try {
     amplifier: resolveAmplifier({ base: 'cmos-rrio-fast', outputResistanceOhm: 0 }, (id) => findBuiltInAmplifier(id)),
     parts: { rTiming: 16000, cTiming: 4.7e-9, rFeedback: 22000, rGround: 10000 },
   };
-  const sampleCount = 3_600_000;
+  const sampleCount = 4_250_000; // about 60 MB of JSON at 4 decimals
   const cap = synthesizeCapture(circuit, { sampleIntervalS: 20e-9, sampleCount, phaseS: 37e-6 });
   const numbers = (xs: Float64Array) => Array.from(xs, (x) => x.toFixed(4)).join(',');
   const wireCircuit = { topology: 'split-supply', supply: { positiveV: 2.5, negativeV: -2.5 }, amplifier: { base: 'cmos-rrio-fast', outputResistanceOhm: 0 }, parts: circuit.parts };
