@@ -11,7 +11,7 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** Liveness: the process answers */
+        /** Liveness: the process answers (never shed for load) */
         get: {
             parameters: {
                 query?: never;
@@ -49,7 +49,7 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** Readiness: the store answers */
+        /** Readiness: the store answers and the service is not shedding load */
         get: {
             parameters: {
                 query?: never;
@@ -69,6 +69,8 @@ export interface paths {
                             status: string;
                             checks: {
                                 store: boolean;
+                                /** @description false while requests are being shed for event-loop delay, or while shutting down */
+                                load: boolean;
                             };
                         };
                     };
@@ -83,6 +85,8 @@ export interface paths {
                             status: string;
                             checks: {
                                 store: boolean;
+                                /** @description false while requests are being shed for event-loop delay, or while shutting down */
+                                load: boolean;
                             };
                         };
                     };
@@ -121,6 +125,66 @@ export interface paths {
                     };
                     content: {
                         "text/plain": string;
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/problems/{code}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** What a problem code means: the target of the `type` URI of every problem answer */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    code: string;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description What a problem code means (the target of a problem `type` URI) */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            code: string;
+                            status: number;
+                            description: string;
+                        };
+                    };
+                };
+                /** @description Not found */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
+                    };
+                };
+                /** @description Overloaded; retry later */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/problem+json": components["schemas"]["Problem"];
                     };
                 };
             };

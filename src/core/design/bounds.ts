@@ -111,7 +111,7 @@ export function requireFeasibleRequest(supply: Supply, amplifier: AmplifierModel
       'infeasible',
       `${formatSi(targetFrequencyHz, 'Hz')} is above this amplifier's frequency ceiling of ${formatSi(ceilingHz, 'Hz')}: an edge (recovery delay plus slewing ${formatVolts(levels.highV - levels.lowV)}) would take more than ${EDGE_BUDGET_FRACTION * 100} % of the period`,
       '/targetFrequencyHz',
-      { frequencyCeilingHz: ceilingHz, slewRateVPerS: amplifier.slewRateVPerS, recoveryDelayS: amplifier.recoveryDelayS },
+      { frequencyCeilingHz: ceilingHz, nearestFeasibleFrequencyHz: ceilingHz, slewRateVPerS: amplifier.slewRateVPerS, recoveryDelayS: amplifier.recoveryDelayS },
     );
   }
 }

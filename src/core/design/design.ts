@@ -136,7 +136,7 @@ export const DESIGN_REQUEST_RANGES = {
   count: { min: 1, max: 20 },
 } as const;
 /** Designs whose worst case and yield are computed before the final ranking (the best by nominal error). */
-const ROBUSTNESS_POOL = 10;
+const ROBUSTNESS_POOL = 6;
 /** Hysteresis widths tried, as fractions of the swing: the three-equal-resistor third first (textbook), then narrower. */
 export const HYSTERESIS_FRACTIONS: readonly number[] = [1 / 3, 1 / 5, 1 / 8];
 /** Duty cycles reachable by threshold placement alone (wider needs diode steering). */
@@ -196,7 +196,10 @@ function needsSteering(duty: number): boolean {
 function chooseTopologies(req: DesignRequest, duty: number, notes: string[]): string[] {
   const steering = needsSteering(duty);
   // Deprecated aliases name the same topologies; designs carry the current ids.
-  const asked = [...new Set((req.topologies ?? (steering ? STEERED_IDS : defaultTopologies(req.supply))).map(canonicalTopologyId))];
+  // On split rails a divider returned to ground cannot place the pair off centre: steering sets such duties.
+  const offCentreSplit = req.supply.negativeV < 0 && Math.abs(duty - 0.5) > (req.dutyTolerance ?? DEFAULT_DUTY_TOLERANCE);
+  const defaults = steering ? STEERED_IDS : [...defaultTopologies(req.supply), ...(offCentreSplit ? STEERED_IDS : [])];
+  const asked = [...new Set((req.topologies ?? defaults).map(canonicalTopologyId))];
   for (const t of asked) {
     const def = findTopology(t);
     if (!def?.design) {

@@ -318,21 +318,21 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "parts": [
               {
                 "role": "rTop",
-                "value": 36000,
+                "value": 24000,
                 "arrangement": "single",
                 "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "rBottom",
-                "value": 36000,
+                "value": 24000,
                 "arrangement": "single",
                 "tolerance": 0.01,
                 "series": "E24"
               },
               {
                 "role": "rFeedback",
-                "value": 33000,
+                "value": 47000,
                 "arrangement": "single",
                 "tolerance": 0.01,
                 "series": "E24"
@@ -346,42 +346,42 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               },
               {
                 "role": "cTiming",
-                "value": 5.6e-10,
+                "value": 1e-9,
                 "arrangement": "single",
                 "tolerance": 0.05,
                 "series": "E12"
               }
             ],
             "predicted": {
-              "frequencyHz": 4998.136018786441,
-              "dutyCycle": 0.5002199138900555,
+              "frequencyHz": 4998.865169883775,
+              "dutyCycle": 0.5002071119967408,
               "model": "time-domain",
               "thresholds": {
-                "upperV": 3.375806352447851,
-                "lowerV": 1.6261936977393856
+                "upperV": 3.0051513332442,
+                "lowerV": 1.9968486899861049
               },
-              "supplyCurrentA": 0.001298590648084923
+              "supplyCurrentA": 0.0013301820716712111
             },
-            "frequencyError": -0.00037279624271180367,
-            "dutyCycleError": 0.00021991389005548978,
-            "hysteresisFraction": 0.3333333333333333,
+            "frequencyError": -0.00022696602324501214,
+            "dutyCycleError": 0.00020711199674083858,
+            "hysteresisFraction": 0.2,
             "robustness": {
-              "yield": 0.441,
-              "yieldStandardError": 0.015700923539715746,
+              "yield": 0.435,
+              "yieldStandardError": 0.0156772127624779,
               "yieldInterval95": {
-                "low": 0.4105106415843448,
-                "high": 0.47194091591695075
+                "low": 0.4045798065188989,
+                "high": 0.4659176720842233
               },
               "samples": 1000,
               "seed": 1,
               "worstCase": {
-                "frequencyMinHz": 4622.184828753856,
-                "frequencyMaxHz": 5404.986031087122,
-                "dutyMin": 0.49664704913331936,
-                "dutyMax": 0.5037968234685631,
+                "frequencyMinHz": 4612.835515629433,
+                "frequencyMaxHz": 5417.425794162302,
+                "dutyMin": 0.49606988133988095,
+                "dutyMax": 0.5043489877256012,
                 "withinSpec": false
               },
-              "marginFraction": -7.099720621742446,
+              "marginFraction": -7.348515883246032,
               "partTolerances": {
                 "rTop": 0.01,
                 "rBottom": 0.01,
@@ -392,10 +392,10 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "model": "time-domain"
             },
             "practicality": {
-              "edgeProximity": 0.29176318051466177,
-              "supplyCurrentA": 0.001298590648084923,
+              "edgeProximity": 0.30728381310405173,
+              "supplyCurrentA": 0.0013301820716712111,
               "partCount": 5,
-              "score": 0.6140555075995631
+              "score": 0.630761784402201
             },
             "limits": [
               {
@@ -448,10 +448,10 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "amplifier": "cmos-rrio-fast",
               "parts": {
                 "rTiming": 240000,
-                "cTiming": 5.6e-10,
-                "rTop": 36000,
-                "rBottom": 36000,
-                "rFeedback": 33000
+                "cTiming": 1e-9,
+                "rTop": 24000,
+                "rBottom": 24000,
+                "rFeedback": 47000
               },
               "edgeFractionLimit": 0.05
             },
@@ -2176,7 +2176,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                   "worstCaseMaxHz": 7248.958794638477,
                   "method": "all-corners",
                   "cornersEvaluated": 65,
-                  "latchedCorners": 0
+                  "latchedCorners": 0,
+                  "model": "time-domain",
+                  "modelEffects": "slew-rate, recovery-delay, current-limit"
                 }
               },
               {
@@ -2419,7 +2421,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                   "worstCaseMaxHz": 42755.82667228581,
                   "method": "all-corners",
                   "cornersEvaluated": 65,
-                  "latchedCorners": 0
+                  "latchedCorners": 0,
+                  "model": "time-domain",
+                  "modelEffects": "slew-rate, recovery-delay, current-limit"
                 }
               },
               {
@@ -2503,7 +2507,8 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
       "value": {
         "status": "ready",
         "checks": {
-          "store": true
+          "store": true,
+          "load": true
         }
       }
     }
@@ -2511,7 +2516,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
-      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 3.858435\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.148575\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 4.00701\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 4\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
+      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 3.848753\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.132833\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 3.981586\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
     }
   },
   "GET /v1/topologies": {
