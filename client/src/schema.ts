@@ -2252,9 +2252,13 @@ export interface components {
             code?: string;
             /** @description One entry per bad field or parameter */
             errors?: {
-                /** @description JSON pointer (RFC 6901) into the request body, or a header/parameter name */
+                /** @description JSON pointer (RFC 6901) into the request body, or into the part of the request `in` names */
                 pointer: string;
-                /** @description What is wrong with that field */
+                /**
+                 * @description Absent: the pointer is into the body; otherwise into the query parameters, path parameters or headers (by name)
+                 * @enum {string}
+                 */
+                in?: "query" | "path" | "header";
                 detail: string;
             }[];
         } & {
@@ -2273,7 +2277,7 @@ export interface components {
             rPullup?: components["schemas"]["ComponentValue"];
         };
         OutputLoad: {
-            /** @description Load resistance on the output pin, ohm */
+            /** @description Load resistance on the output pin, ohm (0.001 to 1000000000000 Ω) */
             resistanceOhm: number;
             /**
              * @description Voltage the load returns to, V
@@ -3170,6 +3174,7 @@ export interface components {
                 topology: "three-resistor-divider" | "two-resistor-feedback" | "single-supply-divider" | "split-supply";
                 supply: components["schemas"]["Supply"];
                 amplifier?: components["schemas"]["AmplifierSpec"];
+                /** @description Target oscillation frequency, Hz (0.001 to 1000000000 Hz) */
                 targetFrequencyHz: number;
                 targetDutyCycle?: number;
                 /** @description Absolute duty-cycle tolerance when targetDutyCycle is given (default 0.02) */
@@ -3177,9 +3182,13 @@ export interface components {
                 values: components["schemas"]["ValueSources"];
                 /** @description Value ranges searched (default 100 Ω to 10 MΩ, 100 pF to 10 µF) */
                 ranges?: {
+                    /** @description Smallest resistor value searched, ohm (0.001 to 1000000000000 Ω) */
                     rMinOhm?: number;
+                    /** @description Largest resistor value searched, ohm (0.001 to 1000000000000 Ω) */
                     rMaxOhm?: number;
+                    /** @description Smallest capacitor value searched, F (1e-15 to 10 F) */
                     cMinF?: number;
+                    /** @description Largest capacitor value searched, F (1e-15 to 10 F) */
                     cMaxF?: number;
                 };
                 /** @description Allowed dielectric codes for catalogue capacitors */

@@ -21,6 +21,8 @@ import { installLoadShedding } from './load-shedding.ts';
 import { Metrics } from './metrics.ts';
 import { observedStore, observedTasks, registerRequestTracing } from './tracing.ts';
 import { errorHandler, problem, sendProblem } from './problem.ts';
+import { installFiniteAnswerGuard } from './finite-answer.ts';
+import { installBodyParsers } from './json-body.ts';
 import { ROUTES } from './routes/index.ts';
 import { REGISTERED_SCHEMAS } from './schemas/index.ts';
 import { withExamples } from './schemas/examples.ts';
@@ -84,6 +86,8 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
   app.setErrorHandler(errorHandler);
   // Before any plugin adds routes: every route gets its access decided at registration.
   installRouteAccess(app);
+  installBodyParsers(app);
+  installFiniteAnswerGuard(app);
   installMethodAwareNotFound(app);
 
   // Callback-style hooks: they run on every request, and fastify's promise path for hooks costs more.

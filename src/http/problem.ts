@@ -40,7 +40,7 @@ export class HttpProblem extends Error {
     readonly status: number,
     readonly code: string,
     message: string,
-    readonly errors?: { pointer: string; detail: string }[],
+    readonly errors?: ProblemBody['errors'],
     readonly headers?: Record<string, string>,
     readonly extra?: Record<string, unknown>,
   ) {
@@ -84,8 +84,15 @@ interface ValidationItem {
   params?: Record<string, unknown>;
 }
 
-/** One ajv error -> a JSON pointer and a sentence a caller can act on. */
-export function validationToPointer(item: ValidationItem, context: string | undefined): { pointer: string; detail: string } {
+/** Where a validated part of the request sits, as problem `errors[].in` (RFC 6901 pointers are relative to it). */
+const CONTEXT_LOCATION: Record<string, 'query' | 'path' | 'header'> = { querystring: 'query', params: 'path', headers: 'header' };
+
+/**
+ * One ajv error -> a JSON pointer and a sentence a caller can act on. The
+ * pointer is RFC 6901 into the part of the request that failed; for the query
+ * string, path parameters and headers `in` says which part ("/circuit" in the query).
+ */
+export function validationToPointer(item: ValidationItem, context: string | undefined): { pointer: string; detail: string; in?: 'query' | 'path' | 'header' } {
   let pointer = item.instancePath ?? '';
   const params = item.params ?? {};
   let detail = item.message ?? 'is invalid';
@@ -98,8 +105,8 @@ export function validationToPointer(item: ValidationItem, context: string | unde
   } else if (item.keyword === 'anyOf' || item.keyword === 'oneOf') {
     detail = 'does not match any accepted form';
   }
-  if (context && context !== 'body') pointer = `${context}${pointer || ''}`;
-  return { pointer: pointer || '/', detail };
+  const location = context ? CONTEXT_LOCATION[context] : undefined;
+  return location ? { pointer: pointer || '/', detail, in: location } : { pointer: pointer || '/', detail };
 }
 
 function escapePointer(segment: string): string {

@@ -86,16 +86,17 @@ describe('GET /v1/series/{name}', () => {
   });
 
   it.each([
-    ['/v1/series/E24?fromDecade=abc', 'querystring/fromDecade'],
-    ['/v1/series/E24?fromDecade=1.5', 'querystring/fromDecade'],
-    ['/v1/series/E24?fromDecade=3&toDecade=2', 'querystring/toDecade'],
-    ['/v1/series/E24?toDecade=40', 'querystring/toDecade'],
-    ['/v1/series/E24?fromDecade=-16', 'querystring/fromDecade'],
-    ['/v1/series/E24?step=2', 'querystring/step'],
+    ['/v1/series/E24?fromDecade=abc', '/fromDecade'],
+    ['/v1/series/E24?fromDecade=1.5', '/fromDecade'],
+    ['/v1/series/E24?fromDecade=3&toDecade=2', '/toDecade'],
+    ['/v1/series/E24?toDecade=40', '/toDecade'],
+    ['/v1/series/E24?fromDecade=-16', '/fromDecade'],
+    ['/v1/series/E24?step=2', '/step'],
   ])('rejects %s with 400 and a pointer to the parameter', async (url, pointer) => {
     const res = await getSeries(url);
     expect(res.statusCode).toBe(400);
-    expect(res.json().errors.map((e: { pointer: string }) => e.pointer)).toContain(pointer);
+    // RFC 6901 pointer into the query parameters, with `in` saying which part of the request it points into.
+    expect(res.json().errors).toContainEqual(expect.objectContaining({ pointer, in: 'query' }));
   });
 });
 

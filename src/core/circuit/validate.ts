@@ -3,9 +3,9 @@ import { CoreError } from '../errors.ts';
 import type { TopologyDefinition } from './topologies/topology.ts';
 import type { Circuit } from './types.ts';
 
-/** Plausible ranges for real parts; outside them the input is a mistake, not a design. */
-export const RESISTANCE_RANGE_OHM = { min: 1e-3, max: 1e12 } as const;
-export const CAPACITANCE_RANGE_F = { min: 1e-15, max: 10 } as const;
+/** Plausible ranges for real parts (one definition for every route): outside them the input is a mistake, not a design. */
+import { CAPACITANCE_RANGE_F, RESISTANCE_RANGE_OHM } from '../value-ranges.ts';
+export { CAPACITANCE_RANGE_F, RESISTANCE_RANGE_OHM };
 export const SUPPLY_LIMIT_V = 2000;
 
 export function validateCircuit(circuit: Circuit, topology: TopologyDefinition): void {

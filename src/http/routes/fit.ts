@@ -54,7 +54,7 @@ function captureSpec(c: NonNullable<FitRequestBody['capture']>): CaptureSpec {
 function bodyFromCsvRequest(request: FastifyRequest, csv: string, query: FitCsvQueryString): FitRequestBody {
   if (query.circuit === undefined) {
     throw new HttpProblem(400, 'validation', 'A text/csv body needs the circuit as URL-encoded JSON in ?circuit=', [
-      { pointer: 'querystring/circuit', detail: 'is required with a text/csv body' },
+      { pointer: '/circuit', in: 'query', detail: 'is required with a text/csv body' },
     ]);
   }
   const json = (name: 'circuit' | 'tolerances' | 'measurements'): unknown => {
@@ -63,7 +63,7 @@ function bodyFromCsvRequest(request: FastifyRequest, csv: string, query: FitCsvQ
     try {
       return JSON.parse(raw);
     } catch (err) {
-      throw new HttpProblem(400, 'validation', `?${name} is not valid JSON: ${(err as Error).message}`, [{ pointer: `querystring/${name}`, detail: 'is not valid JSON' }]);
+      throw new HttpProblem(400, 'validation', `?${name} is not valid JSON: ${(err as Error).message}`, [{ pointer: `/${name}`, in: 'query', detail: 'is not valid JSON' }]);
     }
   };
   const capture: Record<string, unknown> = { csv };

@@ -19,7 +19,7 @@ export function decadeRange(query: { fromDecade?: string; toDecade?: string }): 
   const toDecade = to ?? fromDecade;
   if (toDecade < fromDecade) {
     throw new HttpProblem(400, 'validation', `toDecade (${toDecade}) is below fromDecade (${fromDecade})`, [
-      { pointer: 'querystring/toDecade', detail: 'must not be below fromDecade' },
+      { pointer: '/toDecade', in: 'query', detail: 'must not be below fromDecade' },
     ]);
   }
   return { fromDecade, toDecade };
@@ -31,7 +31,7 @@ function decadeParam(query: { fromDecade?: string; toDecade?: string }, name: 'f
   const value = Number(text);
   if (!Number.isInteger(value) || value < MIN_DECADE || value > MAX_DECADE) {
     throw new HttpProblem(400, 'validation', `${name} must be an integer in ${MIN_DECADE}..${MAX_DECADE}, got '${text}'`, [
-      { pointer: `querystring/${name}`, detail: `must be an integer in ${MIN_DECADE}..${MAX_DECADE}` },
+      { pointer: `/${name}`, in: 'query', detail: `must be an integer in ${MIN_DECADE}..${MAX_DECADE}` },
     ]);
   }
   return value;

@@ -2,6 +2,7 @@
 import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import { buildValueSet, jointSnap, snapValue, type JointCandidate, type RoleSources, type RoleValue, type SnapChoice, type ValueSource } from '../../core/design/index.ts';
 import { parseComponentValue } from '../../core/parts/value-parse.ts';
+import { checkInRange, componentRange, RESISTANCE_RANGE_OHM } from '../../core/value-ranges.ts';
 import type { AnalysisResult } from '../../core/index.ts';
 import { catalogueLookupFor, cataloguesNamedIn, type CatalogueLookup } from '../catalogue-source.ts';
 import type { AmplifierLookup } from '../amplifier-directory.ts';
@@ -87,6 +88,7 @@ const SINGLE_SPAN = 1000;
 function snapOneValue(v: NonNullable<SnapRequestBody['values']>[number], index: number, services: StoredLookups) {
   const at = `/values/${index}`;
   const ideal = parseComponentValue(v.ideal, v.kind, `${at}/ideal`);
+  checkInRange(ideal, componentRange(v.kind), `a ${v.kind} value`, `${at}/ideal`);
   const source = valueSourceFromBody(v.source as SourceBody, services, `${at}/source`);
   const range = 'series' in source ? { min: ideal / SINGLE_SPAN, max: ideal * SINGLE_SPAN } : { min: Number.MIN_VALUE, max: Number.MAX_VALUE };
   const set = buildValueSet(source, v.kind, range, { pointer: `${at}/source` });
@@ -122,6 +124,7 @@ function snapCircuit(body: CircuitSnapBody, services: StoredLookups) {
     ideal = {};
     for (const [role, value] of Object.entries(body.hysteresis.ideal)) {
       ideal[role] = parseComponentValue(value as string | number, 'resistor', `/hysteresis/ideal/${role}`);
+      checkInRange(ideal[role], RESISTANCE_RANGE_OHM, 'a resistor value', `/hysteresis/ideal/${role}`);
     }
   }
   const result = jointSnap({

@@ -1,7 +1,7 @@
 /** The circuit description shared by analyze, waveform, tolerance and fit requests. */
 import { Type, type Static } from 'typebox';
 import { acceptedTopologyIds, aliasNote, TOPOLOGIES } from '../../core/index.ts';
-import { AmplifierSpec, ComponentValue, ref, Supply } from './common.ts';
+import { AmplifierSpec, ComponentValue, ref, ResistanceOhm, Supply } from './common.ts';
 
 /** Every role of every topology; the core checks which ones the chosen topology needs. */
 function partProperties() {
@@ -23,7 +23,7 @@ export const Parts = Type.Object(partProperties(), {
 
 export const OutputLoad = Type.Object(
   {
-    resistanceOhm: Type.Number({ exclusiveMinimum: 0, description: 'Load resistance on the output pin, ohm' }),
+    resistanceOhm: ResistanceOhm('Load resistance on the output pin, ohm'),
     returnV: Type.Optional(Type.Number({ default: 0, description: 'Voltage the load returns to, V' })),
   },
   { $id: 'OutputLoad', additionalProperties: false },

@@ -4,6 +4,7 @@
  * #/components/schemas in the OpenAPI document.
  */
 import { Type, type Static, type TSchema } from 'typebox';
+import { CAPACITANCE_RANGE_F, FREQUENCY_RANGE_HZ, RESISTANCE_RANGE_OHM, type ValueRange } from '../../core/value-ranges.ts';
 import { AMPLIFIER_FIGURE_NAMES, describeRange, figureDescriptor, type AmplifierFigureName } from '../../core/amplifiers/figures-table.ts';
 
 /**
@@ -27,9 +28,24 @@ export function ref<T extends TSchema>(schema: T) {
   return Type.Unsafe<Static<T>>(Type.Ref(id));
 }
 
+/**
+ * Numbers in the shared value ranges (core/value-ranges.ts), so every route
+ * states and enforces the same ranges as /v1/analyze.
+ */
+function rangedNumber(range: ValueRange, description: string, options: Record<string, unknown> = {}) {
+  return Type.Number({ minimum: range.min, maximum: range.max, description: `${description} (${range.min} to ${range.max} ${range.unit})`, ...options });
+}
+export const ResistanceOhm = (description: string, options: Record<string, unknown> = {}) => rangedNumber(RESISTANCE_RANGE_OHM, description, options);
+export const CapacitanceF = (description: string, options: Record<string, unknown> = {}) => rangedNumber(CAPACITANCE_RANGE_F, description, options);
+export const FrequencyHz = (description: string, options: Record<string, unknown> = {}) => rangedNumber(FREQUENCY_RANGE_HZ, description, options);
+
 export const ComponentValue = Type.Union(
   [
-    Type.Number({ exclusiveMinimum: 0, description: 'SI base units: ohm for resistors, farad for capacitors' }),
+    Type.Number({
+      minimum: CAPACITANCE_RANGE_F.min,
+      maximum: RESISTANCE_RANGE_OHM.max,
+      description: `SI base units: ohm for resistors (${RESISTANCE_RANGE_OHM.min} to ${RESISTANCE_RANGE_OHM.max}), farad for capacitors (${CAPACITANCE_RANGE_F.min} to ${CAPACITANCE_RANGE_F.max})`,
+    }),
     Type.String({
       minLength: 1,
       maxLength: 40,
@@ -125,8 +141,9 @@ export const Problem = Type.Object(
     errors: Type.Optional(
       Type.Array(
         Type.Object({
-          pointer: Type.String({ description: 'JSON pointer (RFC 6901) into the request body, or a header/parameter name' }),
-          detail: Type.String({ description: 'What is wrong with that field' }),
+          pointer: Type.String({ description: 'JSON pointer (RFC 6901) into the request body, or into the part of the request `in` names' }),
+          in: Type.Optional(StringEnum(['query', 'path', 'header'], { description: 'Absent: the pointer is into the body; otherwise into the query parameters, path parameters or headers (by name)' })),
+          detail: Type.String(),
         }),
         { description: 'One entry per bad field or parameter' },
       ),

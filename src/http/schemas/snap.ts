@@ -2,7 +2,7 @@
 import { Type, type Static } from 'typebox';
 import { acceptedTopologyIds, aliasNote, snappable, TOPOLOGIES } from '../../core/index.ts';
 import { SERIES_NAMES } from '../../core/parts/index.ts';
-import { AmplifierSpec, Check, ComponentValue, ref, Supply } from './common.ts';
+import { AmplifierSpec, CapacitanceF, Check, ComponentValue, FrequencyHz, ref, ResistanceOhm, Supply } from './common.ts';
 
 const Fraction = (description: string) => Type.Number({ minimum: 0, maximum: 1, description });
 
@@ -90,10 +90,10 @@ const ValueRequest = Type.Object(
 
 const Ranges = Type.Object(
   {
-    rMinOhm: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
-    rMaxOhm: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
-    cMinF: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
-    cMaxF: Type.Optional(Type.Number({ exclusiveMinimum: 0 })),
+    rMinOhm: Type.Optional(ResistanceOhm('Smallest resistor value searched, ohm')),
+    rMaxOhm: Type.Optional(ResistanceOhm('Largest resistor value searched, ohm')),
+    cMinF: Type.Optional(CapacitanceF('Smallest capacitor value searched, F')),
+    cMaxF: Type.Optional(CapacitanceF('Largest capacitor value searched, F')),
   },
   { additionalProperties: false, description: 'Value ranges searched (default 100 Ω to 10 MΩ, 100 pF to 10 µF)' },
 );
@@ -106,7 +106,7 @@ const CircuitSnapRequest = Type.Object(
     topology: Type.Union(SNAP_TOPOLOGIES.map((t) => Type.Literal(t)), { description: aliasNote(TOPOLOGIES.filter(snappable).map((t) => t.id)) }),
     supply: ref(Supply),
     amplifier: Type.Optional(ref(AmplifierSpec)),
-    targetFrequencyHz: Type.Number({ exclusiveMinimum: 0 }),
+    targetFrequencyHz: FrequencyHz('Target oscillation frequency, Hz'),
     targetDutyCycle: Type.Optional(Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1 })),
     dutyTolerance: Type.Optional(Fraction('Absolute duty-cycle tolerance when targetDutyCycle is given (default 0.02)')),
     values: ref(ValueSources),
