@@ -4,6 +4,7 @@
  * stored and serves design/snap later, so what was accepted is what is used.
  */
 import { CoreError } from '../core/errors.ts';
+import { checkInRange, componentRange } from '../core/value-ranges.ts';
 import { parseComponentValue, parseDielectric, type Catalogue, type CataloguePart } from '../core/parts/index.ts';
 import { StoreError } from '../store/index.ts';
 import type { CataloguePartBody, CatalogueWriteBody } from './schemas/catalogue.ts';
@@ -29,9 +30,12 @@ export function readCatalogueParts(body: CatalogueWriteBody, pointer = ''): Cata
 }
 
 function readPart(part: CataloguePartBody, at: string): CataloguePart {
+  const value = parseComponentValue(part.value, part.kind, `${at}/value`);
+  // The value ranges /v1/analyze accepts: a catalogue cannot hold a part no circuit may use.
+  checkInRange(value, componentRange(part.kind), `a ${part.kind} value`, `${at}/value`);
   const out: CataloguePart = {
     kind: part.kind,
-    value: parseComponentValue(part.value, part.kind, `${at}/value`),
+    value,
     tolerance: part.tolerance,
     partNumber: part.partNumber,
     status: part.status,

@@ -120,3 +120,18 @@ describe('no non-finite number leaves the service', () => {
     await bare.close();
   });
 });
+
+describe('one set of value ranges on catalogues', () => {
+  it('refuses a 1e30 F (or 1 kF) capacitor in a catalogue, naming the part value', async () => {
+    for (const value of [1e30, '1e30', 1000]) {
+      const res = await app.inject({
+        method: 'PUT',
+        url: `/v1/catalogues/range-check-${String(value).length}-${typeof value}`,
+        payload: { name: 'Range check', parts: [{ kind: 'capacitor', value, tolerance: 0.05, dielectric: 'C0G', partNumber: 'RC-1', status: 'preferred' }] },
+      });
+      await expectContract(res, 'PUT', '/v1/catalogues/:id');
+      expect(res.statusCode, String(value)).toBe(400);
+      expect(pointers(res.json())).toEqual(['/parts/0/value']);
+    }
+  });
+});
