@@ -157,11 +157,12 @@ export function oscillationChecks(fig: OscillationFigures, ctx: CheckContext): C
     checks.push({
       code: CHECK_CODES.commonModeExceeded,
       severity: 'warning',
-      message: `The inputs swing over ${formatVolts(inMinV)} to ${formatVolts(inMaxV)}, outside the common-mode range ${formatVolts(cmLowV)} to ${formatVolts(cmHighV)}: the comparator may misjudge or reverse phase there`,
+      message: `The inputs swing over ${formatVolts(inMinV)} to ${formatVolts(inMaxV)}, outside the common-mode range ${Number.isFinite(cmLowV) ? formatVolts(cmLowV) : 'no lower limit'} to ${Number.isFinite(cmHighV) ? formatVolts(cmHighV) : 'no upper limit'}: the comparator may misjudge or reverse phase there`,
       inputMinV: inMinV,
       inputMaxV: inMaxV,
-      commonModeLowV: cmLowV,
-      commonModeHighV: cmHighV,
+      // A side without a limit (margin unlimited) is null, as "no limit" is everywhere on the wire.
+      commonModeLowV: Number.isFinite(cmLowV) ? cmLowV : null,
+      commonModeHighV: Number.isFinite(cmHighV) ? cmHighV : null,
     });
   }
   if (clampReached(fig, amplifier)) {
