@@ -2670,7 +2670,7 @@ export interface components {
             maxC: number;
         };
         BomSpec: {
-            /** @description Target frequency, Hz */
+            /** @description Target frequency, Hz (0.001 to 100000000 Hz) */
             frequencyHz: number;
             /** @description Allowed deviation from frequencyHz as a fraction (0.05 = ±5 %) */
             frequencyTolerance: number;
@@ -3174,7 +3174,7 @@ export interface components {
                 topology: "three-resistor-divider" | "two-resistor-feedback" | "single-supply-divider" | "split-supply";
                 supply: components["schemas"]["Supply"];
                 amplifier?: components["schemas"]["AmplifierSpec"];
-                /** @description Target oscillation frequency, Hz (0.001 to 1000000000 Hz) */
+                /** @description Target oscillation frequency, Hz (0.001 to 100000000 Hz) */
                 targetFrequencyHz: number;
                 targetDutyCycle?: number;
                 /** @description Absolute duty-cycle tolerance when targetDutyCycle is given (default 0.02) */
@@ -3505,7 +3505,7 @@ export interface components {
             };
             /** @description Spec the yield is counted against */
             spec?: {
-                /** @description Target frequency, Hz */
+                /** @description Target frequency, Hz (0.001 to 100000000 Hz) */
                 frequencyHz: number;
                 /** @description Allowed deviation from frequencyHz, fraction */
                 frequencyTolerance: number;

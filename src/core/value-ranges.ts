@@ -18,8 +18,8 @@ export interface ValueRange {
 export const RESISTANCE_RANGE_OHM: ValueRange = Object.freeze({ min: 1e-3, max: 1e12, unit: 'Ω' });
 /** 1 fF (a stray) to 10 F (a supercapacitor). */
 export const CAPACITANCE_RANGE_F: ValueRange = Object.freeze({ min: 1e-15, max: 10, unit: 'F' });
-/** 1 mHz (a period of about 17 minutes) to 1 GHz, beyond any op-amp or comparator relaxation oscillator. */
-export const FREQUENCY_RANGE_HZ: ValueRange = Object.freeze({ min: 1e-3, max: 1e9, unit: 'Hz' });
+/** 1 mHz (a period of about 17 minutes) to 100 MHz, beyond any op-amp or comparator relaxation oscillator (the design search's range too). */
+export const FREQUENCY_RANGE_HZ: ValueRange = Object.freeze({ min: 1e-3, max: 1e8, unit: 'Hz' });
 
 export function componentRange(kind: 'resistor' | 'capacitor'): ValueRange {
   return kind === 'capacitor' ? CAPACITANCE_RANGE_F : RESISTANCE_RANGE_OHM;

@@ -9,7 +9,7 @@
 import { Type, type Static } from 'typebox';
 import { BOM_RULE_CODES, MAX_ASSEMBLIES_PER_BATCH, TOPOLOGY_IDS } from '../../core/index.ts';
 import { SERIES_NAMES } from '../../core/parts/index.ts';
-import { AmplifierSpec, ref } from './common.ts';
+import { AmplifierSpec, FrequencyHz, ref } from './common.ts';
 
 export const MAX_LINES_PER_ASSEMBLY = 500;
 export const MAX_MONTE_CARLO_SAMPLES = 20_000;
@@ -56,7 +56,7 @@ export const BomTemperatureRange = Type.Object(
 
 export const BomSpec = Type.Object(
   {
-    frequencyHz: Type.Number({ exclusiveMinimum: 0, description: 'Target frequency, Hz' }),
+    frequencyHz: FrequencyHz('Target frequency, Hz'),
     frequencyTolerance: Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, description: 'Allowed deviation from frequencyHz as a fraction (0.05 = ±5 %)' }),
     dutyMin: Type.Optional(Fraction('Lowest allowed duty cycle, fraction of the period high')),
     dutyMax: Type.Optional(Fraction('Highest allowed duty cycle, fraction of the period high')),

@@ -4,7 +4,7 @@ import { Type, type Static } from 'typebox';
 import { TOPOLOGIES } from '../../core/index.ts';
 import { AMPLIFIER_SPREAD_FIELDS, MAX_HISTOGRAM_BINS } from '../../core/tolerance/index.ts';
 import { Circuit } from './circuit.ts';
-import { ref } from './common.ts';
+import { FrequencyHz, ref } from './common.ts';
 
 const Fraction = (description: string) => Type.Number({ minimum: 0, exclusiveMaximum: 1, description });
 
@@ -104,7 +104,7 @@ export const ToleranceRequest = Type.Object(
     spec: Type.Optional(
       Type.Object(
         {
-          frequencyHz: Type.Number({ exclusiveMinimum: 0, description: 'Target frequency, Hz' }),
+          frequencyHz: FrequencyHz('Target frequency, Hz'),
           frequencyTolerance: Fraction('Allowed deviation from frequencyHz, fraction'),
           dutyMin: Type.Optional(Type.Number({ minimum: 0, maximum: 1 })),
           dutyMax: Type.Optional(Type.Number({ minimum: 0, maximum: 1 })),
