@@ -2259,6 +2259,7 @@ export interface components {
                  * @enum {string}
                  */
                 in?: "query" | "path" | "header";
+                /** @description What is wrong with that field */
                 detail: string;
             }[];
         } & {

@@ -11,6 +11,7 @@
  *    before a byte of the body is read.
  */
 import type { FastifyInstance } from 'fastify';
+import { parseJsonBody } from './json-body.ts';
 import { HttpProblem, problem, sendProblem } from './problem.ts';
 
 /** Index of the first opening bracket deeper than maxDepth, or -1. Brackets inside strings are skipped. */
@@ -33,8 +34,7 @@ export function firstTooDeep(text: string, maxDepth: number): number {
 }
 
 export function installJsonDepthGuard(app: FastifyInstance, maxDepth: number): void {
-  // Fastify's own parser (prototype-poisoning protection, empty-body handling) after the scan.
-  const parseJson = app.getDefaultJsonParser('error', 'error');
+  // The service's JSON parser (json-body.ts: empty and malformed bodies, prototype keys named by pointer) after the scan.
   app.removeContentTypeParser('application/json');
   app.addContentTypeParser('application/json', { parseAs: 'string' }, (request, body, done) => {
     const text = body as string;
@@ -48,7 +48,11 @@ export function installJsonDepthGuard(app: FastifyInstance, maxDepth: number): v
       );
       return;
     }
-    void parseJson(request, text, done);
+    try {
+      done(null, parseJsonBody(request, text));
+    } catch (err) {
+      done(err as Error, undefined);
+    }
   });
 }
 

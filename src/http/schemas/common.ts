@@ -143,7 +143,7 @@ export const Problem = Type.Object(
         Type.Object({
           pointer: Type.String({ description: 'JSON pointer (RFC 6901) into the request body, or into the part of the request `in` names' }),
           in: Type.Optional(StringEnum(['query', 'path', 'header'], { description: 'Absent: the pointer is into the body; otherwise into the query parameters, path parameters or headers (by name)' })),
-          detail: Type.String(),
+          detail: Type.String({ description: 'What is wrong with that field' }),
         }),
         { description: 'One entry per bad field or parameter' },
       ),
