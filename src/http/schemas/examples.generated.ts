@@ -1017,33 +1017,33 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "dutyCycle": 0.5002150166680996,
           "capacitorMinV": -0.7817358794938263,
           "capacitorMaxV": 0.7837232818973764,
-          "outputHighV": 2.4743383578052733,
-          "outputLowV": -2.474335150477286,
+          "outputHighV": 2.4743383578052764,
+          "outputLowV": -2.47433515047729,
           "riseTimeS": 4.960261911297127e-7,
           "fallTimeS": 4.96026188576769e-7,
-          "capacitorRisingTauS": 0.00007531740827478981,
+          "capacitorRisingTauS": 0.00007531740827479323,
           "capacitorFallingTauS": 0.00007531740827479003,
           "capacitorAboveMidShare": 0.5000675208607656,
           "upperThresholdV": 0.7745651554157321,
           "lowerThresholdV": -0.7725641944234329,
-          "hysteresisRatio": 0.31263516319065016
+          "hysteresisRatio": 0.3126351631906497
         },
         "fitted": {
-          "frequencyHz": 9310.048466787519,
-          "periodS": 0.00010741082643848526,
-          "dutyCycle": 0.5000858362049366,
-          "capacitorMinV": -0.7895330519754118,
-          "capacitorMaxV": 0.7904809484067635,
-          "outputHighV": 2.4850379915846257,
-          "outputLowV": -2.4848851216361174,
-          "riseTimeS": 8.003944533457793e-7,
-          "fallTimeS": 8.003944503435964e-7,
-          "capacitorRisingTauS": 0.00008093753975270647,
-          "capacitorFallingTauS": 0.00008093753975269032,
-          "capacitorAboveMidShare": 0.5000270031458233,
-          "upperThresholdV": 0.777587766888379,
-          "lowerThresholdV": -0.7766321300910959,
-          "hysteresisRatio": 0.3127251391163409
+          "frequencyHz": 9310.048434565364,
+          "periodS": 0.00010741082681023501,
+          "dutyCycle": 0.5000858339562904,
+          "capacitorMinV": -0.7895329703151056,
+          "capacitorMaxV": 0.7904809710511811,
+          "outputHighV": 2.485036350939048,
+          "outputLowV": -2.4848833546949773,
+          "riseTimeS": 8.003151258327286e-7,
+          "fallTimeS": 8.003151228312639e-7,
+          "capacitorRisingTauS": 0.00008093755655409551,
+          "capacitorFallingTauS": 0.00008093755655408152,
+          "capacitorAboveMidShare": 0.5000270024800447,
+          "upperThresholdV": 0.7775871905146928,
+          "lowerThresholdV": -0.7766314495036164,
+          "hysteresisRatio": 0.31272510062011827
         },
         "measurements": [
           {
@@ -1052,9 +1052,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 5,
             "source": "scalar",
             "nominal": 10085.8338052615,
-            "fitted": 9310.048466787519,
+            "fitted": 9310.048434565364,
             "nominalResidual": 155.1667610523,
-            "fittedResidual": 0.009693357503783773
+            "fittedResidual": 0.009686913072800962
           },
           {
             "name": "dutyCycle",
@@ -1062,9 +1062,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 0.002,
             "source": "scalar",
             "nominal": 0.5002150166680996,
-            "fitted": 0.5000858362049366,
+            "fitted": 0.5000858339562904,
             "nominalResidual": 0.10750833404982174,
-            "fittedResidual": 0.04291810246831451
+            "fittedResidual": 0.04291697814517992
           },
           {
             "name": "capacitorMaxV",
@@ -1072,9 +1072,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 0.01,
             "source": "scalar",
             "nominal": 0.7837232818973764,
-            "fitted": 0.7904809484067635,
+            "fitted": 0.7904809710511811,
             "nominalResidual": -0.6276718102623646,
-            "fittedResidual": 0.04809484067634928
+            "fittedResidual": 0.04809710511810561
           },
           {
             "name": "capacitorMinV",
@@ -1082,19 +1082,19 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 0.01,
             "source": "scalar",
             "nominal": -0.7817358794938263,
-            "fitted": -0.7895330519754118,
+            "fitted": -0.7895329703151056,
             "nominalResidual": 0.8264120506173755,
-            "fittedResidual": 0.04669480245882429
+            "fittedResidual": 0.046702968489442664
           },
           {
             "name": "capacitorRisingTauS",
             "value": 0.0000813,
             "uncertainty": 8e-7,
             "source": "scalar",
-            "nominal": 0.00007531740827478981,
-            "fitted": 0.00008093753975270647,
-            "nominalResidual": -7.47823965651273,
-            "fittedResidual": -0.45307530911691435
+            "nominal": 0.00007531740827479323,
+            "fitted": 0.00008093755655409551,
+            "nominalResidual": -7.47823965650846,
+            "fittedResidual": -0.4530543073806112
           }
         ],
         "estimates": [
@@ -1103,158 +1103,158 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "kind": "part",
             "unit": "ohm",
             "nominal": 16000,
-            "estimate": 16011.258284608208,
-            "standardDeviation": 53.12998338516272,
+            "estimate": 16011.258259856173,
+            "standardDeviation": 53.12995579550516,
             "priorStandardDeviation": 53.335111217785446,
-            "shift": 11.25828460820776,
-            "shiftInTolerances": 0.0703642788012937,
-            "posteriorToPriorSd": 0.995453537644073,
+            "shift": 11.258259856173026,
+            "shiftInTolerances": 0.0703641241010855,
+            "posteriorToPriorSd": 0.9954530222578535,
             "tolerance": 0.01,
-            "relativeShift": 0.000703642788012937
+            "relativeShift": 0.000703641241010855
           },
           {
             "parameter": "cTiming",
             "kind": "part",
             "unit": "F",
             "nominal": 4.7e-9,
-            "estimate": 5.045451031333005e-9,
-            "standardDeviation": 4.871363261037803e-11,
+            "estimate": 5.045452244894496e-9,
+            "standardDeviation": 4.87073731199617e-11,
             "priorStandardDeviation": 1.5719204477868513e-10,
-            "shift": 3.45451031333005e-10,
-            "shiftInTolerances": 0.7350021943255425,
-            "posteriorToPriorSd": 0.28868074374602604,
+            "shift": 3.4545224489449586e-10,
+            "shiftInTolerances": 0.7350047763712686,
+            "posteriorToPriorSd": 0.28864358009682617,
             "tolerance": 0.1,
-            "relativeShift": 0.07350021943255425
+            "relativeShift": 0.07350047763712686
           },
           {
             "parameter": "rFeedback",
             "kind": "part",
             "unit": "ohm",
             "nominal": 22000,
-            "estimate": 21996.872763671283,
-            "standardDeviation": 73.03158424299225,
+            "estimate": 21996.874998480725,
+            "standardDeviation": 73.03142311328236,
             "priorStandardDeviation": 73.33577792445499,
-            "shift": -3.1272363287171174,
-            "shiftInTolerances": -0.014214710585080947,
-            "posteriorToPriorSd": 0.9959936202277938,
+            "shift": -3.1250015192745195,
+            "shiftInTolerances": -0.014204552360341793,
+            "posteriorToPriorSd": 0.9959913215759363,
             "tolerance": 0.01,
-            "relativeShift": -0.00014214710585080947
+            "relativeShift": -0.00014204552360341793
           },
           {
             "parameter": "rGround",
             "kind": "part",
             "unit": "ohm",
             "nominal": 10000,
-            "estimate": 10001.420958674162,
-            "standardDeviation": 33.20544992032729,
+            "estimate": 10001.42030850103,
+            "standardDeviation": 33.205444637281055,
             "priorStandardDeviation": 33.334444511115905,
-            "shift": 1.4209586741617386,
-            "shiftInTolerances": 0.014209586741609215,
-            "posteriorToPriorSd": 0.995988765386818,
+            "shift": 1.4203085010303766,
+            "shiftInTolerances": 0.01420308501030032,
+            "posteriorToPriorSd": 0.9959886716705381,
             "tolerance": 0.01,
-            "relativeShift": 0.00014209586741609215
+            "relativeShift": 0.0001420308501030032
           },
           {
             "parameter": "outputHighV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": 2.48,
-            "estimate": 2.480110403858436,
-            "standardDeviation": 0.026635705243306385,
+            "estimate": 2.4801106391399936,
+            "standardDeviation": 0.0266354817663264,
             "priorStandardDeviation": 0.011586206896551748,
-            "shift": 0.00011040385843585909,
-            "shiftInTolerances": 0.003184786559490653,
-            "posteriorToPriorSd": 2.311220276510214
+            "shift": 0.00011063913999365127,
+            "shiftInTolerances": 0.003191591843403588,
+            "posteriorToPriorSd": 2.3112272546084016
           },
           {
             "parameter": "outputLowV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": -2.48,
-            "estimate": -2.479958953974595,
-            "standardDeviation": 0.026696337419685027,
+            "estimate": -2.4799590627735806,
+            "standardDeviation": 0.026696168895200365,
             "priorStandardDeviation": 0.011586206896551736,
-            "shift": 0.00004104602540477842,
-            "shiftInTolerances": 0.0011797207428972576,
-            "posteriorToPriorSd": 2.299597601388944
+            "shift": 0.000040937226419401895,
+            "shiftInTolerances": 0.0011765967870084697,
+            "posteriorToPriorSd": 2.299595122102198
           },
           {
             "parameter": "slewRateVPerS",
             "kind": "amplifier",
             "unit": "V/s",
             "nominal": 8000000,
-            "estimate": 4981632.448762497,
-            "standardDeviation": 4645541.194775682,
+            "estimate": 4982122.5809283145,
+            "standardDeviation": 4645768.099247565,
             "priorStandardDeviation": 3862650.98984184,
-            "shift": -3018367.551237503,
-            "shiftInTolerances": -0.33698382556754575,
-            "posteriorToPriorSd": 2.1145534195951194
+            "shift": -3017877.4190716855,
+            "shiftInTolerances": -0.3369094647119507,
+            "posteriorToPriorSd": 2.1143653791619914
           },
           {
             "parameter": "recoveryDelayS",
             "kind": "amplifier",
             "unit": "s",
             "nominal": 3e-7,
-            "estimate": 4.4109232900688317e-7,
-            "standardDeviation": 4.5032299219712233e-7,
+            "estimate": 4.41138383033671e-7,
+            "standardDeviation": 4.5036980196317503e-7,
             "priorStandardDeviation": 1.44e-7,
-            "shift": 1.4109232900688318e-7,
-            "shiftInTolerances": 0.28364190042610904,
-            "posteriorToPriorSd": 2.4103301348049535
+            "shift": 1.41138383033671e-7,
+            "shiftInTolerances": 0.2837240651758292,
+            "posteriorToPriorSd": 2.4104338560980296
           },
           {
             "parameter": "outputResistanceOhm",
             "kind": "amplifier",
             "unit": "ohm",
             "nominal": 25,
-            "estimate": 30.456395115845847,
-            "standardDeviation": 43.23223556595702,
+            "estimate": 30.455890474026553,
+            "standardDeviation": 43.23172009451101,
             "priorStandardDeviation": 12.070784343255756,
-            "shift": 5.456395115845847,
-            "shiftInTolerances": 0.13698320177762302,
-            "posteriorToPriorSd": 2.9848188023140394
+            "shift": 5.455890474026553,
+            "shiftInTolerances": 0.13697158795197695,
+            "posteriorToPriorSd": 2.9848250164315475
           },
           {
             "parameter": "inputOffsetV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": 0.001,
-            "estimate": 0.00045395383686025383,
-            "standardDeviation": 0.0042184650367131996,
+            "estimate": 0.0004539863130118499,
+            "standardDeviation": 0.00421846372335552,
             "priorStandardDeviation": 0.002057142857142857,
-            "shift": -0.0005460461631397462,
-            "shiftInTolerances": -0.08766594036205684,
-            "posteriorToPriorSd": 2.0172767206747704
+            "shift": -0.0005460136869881501,
+            "shiftInTolerances": -0.0876607636446319,
+            "posteriorToPriorSd": 2.017277311675322
           },
           {
             "parameter": "inputBiasCurrentA",
             "kind": "amplifier",
             "unit": "A",
             "nominal": 1e-12,
-            "estimate": 2.911635437069298e-12,
-            "standardDeviation": 9.004356504747765e-9,
+            "estimate": 2.9268069114033035e-12,
+            "standardDeviation": 9.004356495118673e-9,
             "priorStandardDeviation": 3.0014999700149927e-9,
-            "shift": 1.911635437069298e-12,
-            "shiftInTolerances": 0.0002122977973165093,
-            "posteriorToPriorSd": 2.9999524462236407
+            "shift": 1.9268069114033037e-12,
+            "shiftInTolerances": 0.00021398267439206502,
+            "posteriorToPriorSd": 2.9999524456701834
           },
           {
             "parameter": "supplyScale",
             "kind": "supply",
             "unit": "1",
             "nominal": 1,
-            "estimate": 1.0047395460480726,
-            "standardDeviation": 0.016246089393076764,
+            "estimate": 1.004738748066404,
+            "standardDeviation": 0.016246834642172876,
             "priorStandardDeviation": 0.01,
-            "shift": 0.004739546048072585,
-            "shiftInTolerances": 0.15801445207944748,
-            "posteriorToPriorSd": 1.6255218037736372
+            "shift": 0.004738748066404064,
+            "shiftInTolerances": 0.15798783774686892,
+            "posteriorToPriorSd": 1.6255960630058308
           }
         ],
         "hysteresisRatio": {
-          "nominal": 0.31263516319065016,
-          "estimate": 0.3127251391163409,
-          "standardDeviation": 0.001034278502578749
+          "nominal": 0.3126351631906497,
+          "estimate": 0.31272510062011827,
+          "standardDeviation": 0.0010342756026014844
         },
         "indistinguishable": [
           {
@@ -1262,40 +1262,40 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "rTiming",
               "cTiming"
             ],
-            "correlation": -0.3173385854862832,
-            "sensitivityAlignment": 0.99999999301193,
-            "distinguishingSigma": 0.021532950765759402,
-            "note": "rTiming and cTiming cannot be told apart from these measurements (each mimics the other to within 0.022 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": -0.3174013118710188,
+            "sensitivityAlignment": 0.9999999932608892,
+            "distinguishingSigma": 0.021145925640843607,
+            "note": "rTiming and cTiming cannot be told apart from these measurements (each mimics the other to within 0.021 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
             "parameters": [
               "rFeedback",
               "rGround"
             ],
-            "correlation": 0.008066082391145465,
-            "sensitivityAlignment": -0.9999999961560189,
-            "distinguishingSigma": 0.0011655003151324003,
-            "note": "rFeedback and rGround cannot be told apart from these measurements (each mimics the other to within 0.0012 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": 0.008068505506175135,
+            "sensitivityAlignment": -0.9999999966221125,
+            "distinguishingSigma": 0.0010925565746215695,
+            "note": "rFeedback and rGround cannot be told apart from these measurements (each mimics the other to within 0.0011 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
             "parameters": [
               "rFeedback",
               "recoveryDelayS"
             ],
-            "correlation": 0.06653325678963556,
-            "sensitivityAlignment": -0.9999999980028549,
-            "distinguishingSigma": 0.0018636396567695366,
-            "note": "rFeedback and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0019 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": 0.06654438045900792,
+            "sensitivityAlignment": -0.9999999983259686,
+            "distinguishingSigma": 0.0017063398212574616,
+            "note": "rFeedback and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0017 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
             "parameters": [
               "rGround",
               "recoveryDelayS"
             ],
-            "correlation": -0.06657380319786996,
-            "sensitivityAlignment": 0.9999999994498354,
-            "distinguishingSigma": 0.0009781454647329038,
-            "note": "rGround and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.00098 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": -0.06656650194596327,
+            "sensitivityAlignment": 0.9999999993016664,
+            "distinguishingSigma": 0.0011020852880793486,
+            "note": "rGround and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0011 σ of the measurements): the data fix one combination of them and their split follows the priors"
           }
         ],
         "uninformed": [
@@ -1328,189 +1328,189 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           ],
           "matrix": [
             [
-              1.0000000000000002,
-              -0.3173385854862832,
-              0.0009415422414387225,
-              -0.0009377143081411525,
-              0.00003137413523317712,
-              -0.000033997852093265745,
-              0.01061849333636664,
-              -0.007745874247687246,
-              -0.006694806779218363,
-              -0.000001706354605447545,
-              3.2418313154578855e-7,
-              0.007261265520273076
-            ],
-            [
-              -0.3173385854862825,
               0.9999999999999999,
-              0.03204281249552342,
-              -0.03190973615025779,
-              0.0011027861449247577,
-              -0.001194661737973549,
-              0.36143048939218014,
-              -0.26359358255353593,
-              -0.23253339459915684,
-              -0.000053342550516637415,
-              0.00001126130566853724,
-              0.2551716851439521
+              -0.3174013118710188,
+              0.000939163617329463,
+              -0.0009370394500079656,
+              0.00003064123821320589,
+              -0.000033937437027279305,
+              0.010601805588133086,
+              -0.0077483040809389996,
+              -0.006694568399505379,
+              -0.0000012634951496202351,
+              3.1738466357177644e-7,
+              0.007258492693190493
             ],
             [
-              0.0009415422414386636,
-              0.0320428124955235,
-              0.9999999999999999,
-              0.008066082391145465,
-              0.0002632526435076067,
-              -0.000298251637575161,
-              -0.08998539018958,
-              0.06653325678963556,
-              -0.005774826648344405,
-              0.0000684259318495896,
-              3.8342673859845e-7,
-              0.061974069179605254
-            ],
-            [
-              -0.0009377143081412167,
-              -0.0319097361502579,
-              0.00806608239114549,
+              -0.31740131187101905,
               1,
-              -0.00026363493450935066,
-              0.00029920074035774105,
-              0.09003931517182844,
-              -0.06657380319786996,
-              0.005782000784820014,
-              -0.00006902917869291578,
-              -3.845439675626588e-7,
-              -0.062120596574790805
+              0.0319825834008953,
+              -0.03190874254300149,
+              0.001086488554347488,
+              -0.0011851636758527617,
+              0.36110402430715954,
+              -0.26386330443563605,
+              -0.2325286237981768,
+              -0.000043498740544333886,
+              0.000010981514068549958,
+              0.25528322617074894
             ],
             [
-              0.000031374135233179155,
-              0.001102786144924761,
-              0.00026325264350765656,
-              -0.00026363493450928967,
-              1.0000000000000002,
-              -0.688329921101149,
-              -0.0013532178731036476,
-              -0.002184854110340316,
-              0.0006210960724140474,
-              0.026319057525552955,
-              0.00435204826828842,
-              -0.5513815344125789
-            ],
-            [
-              -0.00003399785209327744,
-              -0.0011946617379735938,
-              -0.0002982516375752125,
-              0.0002992007403578042,
-              -0.6883299211011491,
+              0.0009391636173294853,
+              0.03198258340089529,
               1,
-              0.001490093124913932,
-              0.0024549875620426295,
-              -0.0006435945699849845,
-              0.026644203025026104,
-              0.004405930893045933,
-              0.5513149735897187
+              0.008068505506175135,
+              0.0002623790414483638,
+              -0.0002979240901596373,
+              -0.09002753808422438,
+              0.06654438045900792,
+              -0.005776667282292719,
+              0.00006909361470344422,
+              3.720409091639311e-7,
+              0.0619496644241687
             ],
             [
-              0.010618493336366436,
-              0.3614304893921799,
-              -0.08998539018958007,
-              0.0900393151718284,
-              -0.0013532178731035602,
-              0.001490093124913925,
+              -0.0009370394500082106,
+              -0.03190874254300147,
+              0.008068505506175142,
               1,
-              0.7426939565896411,
-              -0.06368395668536841,
-              -0.00007524568238762854,
-              0.00000434415633342876,
-              -0.31273893252197893
+              -0.0002630975991974665,
+              0.0002987268578835202,
+              0.0900562438431394,
+              -0.06656650194596327,
+              0.0057806702374231,
+              -0.00006913191095892426,
+              -3.7242834565725287e-7,
+              -0.06211749120992488
             ],
             [
-              -0.00774587424768685,
-              -0.2635935825535361,
-              0.06653325678963554,
-              -0.06657380319787003,
-              -0.0021848541103402655,
-              0.002454987562042624,
-              0.7426939565896411,
+              0.00003064123821319898,
+              0.0010864885543473903,
+              0.00026237904144834896,
+              -0.000263097599197411,
+              1,
+              -0.6883265947967031,
+              -0.0013616633717547391,
+              -0.0021809320771467807,
+              0.0006202541469669525,
+              0.02631924158860487,
+              0.00435202152343454,
+              -0.5513562755136167
+            ],
+            [
+              -0.00003393743702727955,
+              -0.001185163675852773,
+              -0.0002979240901596328,
+              0.0002987268578834923,
+              -0.6883265947967032,
+              1,
+              0.0014941098085068246,
+              0.002451535615060126,
+              -0.0006431242861959516,
+              0.026644552553261924,
+              0.004405949114583137,
+              0.551288139542091
+            ],
+            [
+              0.010601805588132888,
+              0.36110402430715915,
+              -0.09002753808422424,
+              0.09005624384313932,
+              -0.001361663371754842,
+              0.001494109808506848,
+              1,
+              0.7427332306941254,
+              -0.06368814229866351,
+              -0.0000692745581804139,
+              0.0000042119857014752255,
+              -0.3128537189934352
+            ],
+            [
+              -0.007748304080938539,
+              -0.26386330443563594,
+              0.06654438045900804,
+              -0.0665665019459633,
+              -0.0021809320771468406,
+              0.0024515356150600475,
+              0.7427332306941253,
               0.9999999999999998,
-              0.047683739745471174,
-              -0.00005966192689390627,
-              -0.000004017496827074131,
-              -0.5121187932143397
+              0.04765919904710269,
+              -0.000060700058812922846,
+              -0.000003916276849924902,
+              -0.5121994161142512
             ],
             [
-              -0.006694806779218374,
-              -0.23253339459915678,
-              -0.005774826648344416,
-              0.0057820007848200326,
-              0.0006210960724140372,
-              -0.0006435945699849527,
-              -0.06368395668536841,
-              0.047683739745471125,
-              0.9999999999999999,
-              0.000004350563055621347,
-              6.192050449722909e-7,
-              0.13956885921351483
-            ],
-            [
-              -0.0000017063546054476606,
-              -0.0000533425505166377,
-              0.00006842593184958919,
-              -0.00006902917869291507,
-              0.026319057525552955,
-              0.026644203025026115,
-              -0.00007524568238762854,
-              -0.00005966192689390627,
-              0.000004350563055621343,
+              -0.006694568399505472,
+              -0.23252862379817688,
+              -0.0057766672822927405,
+              0.005780670237423103,
+              0.0006202541469669718,
+              -0.0006431242861959733,
+              -0.06368814229866349,
+              0.04765919904710271,
               1,
-              0.0020180745679205187,
-              0.0002525959210346178
+              0.000004595921708822842,
+              6.034334337629788e-7,
+              0.13957670182165627
             ],
             [
-              3.241831315457881e-7,
-              0.000011261305668537303,
-              3.834267385987134e-7,
-              -3.845439675627723e-7,
-              0.00435204826828842,
-              0.004405930893045933,
-              0.000004344156333428758,
-              -0.000004017496827074137,
-              6.192050449722914e-7,
-              0.002018074567920518,
+              -0.000001263495149620189,
+              -0.00004349874054433327,
+              0.00006909361470344526,
+              -0.00006913191095892468,
+              0.026319241588604873,
+              0.02664455255326192,
+              -0.00006927455818041392,
+              -0.00006070005881292288,
+              0.000004595921708822843,
               1.0000000000000002,
-              0.000025510171250526758
+              0.0020181521490314886,
+              0.0002552356118335979
             ],
             [
-              0.007261265520273351,
-              0.25517168514395216,
-              0.06197406917960527,
-              -0.062120596574790805,
-              -0.5513815344125789,
-              0.5513149735897188,
-              -0.3127389325219789,
-              -0.5121187932143397,
-              0.13956885921351483,
-              0.00025259592103461776,
-              0.000025510171250526758,
+              3.173846635717795e-7,
+              0.000010981514068550012,
+              3.720409091641712e-7,
+              -3.724283456572822e-7,
+              0.004352021523434541,
+              0.004405949114583137,
+              0.000004211985701475224,
+              -0.000003916276849924906,
+              6.034334337629791e-7,
+              0.0020181521490314886,
+              0.9999999999999999,
+              0.00002542313233771491
+            ],
+            [
+              0.007258492693190216,
+              0.25528322617074894,
+              0.061949664424168605,
+              -0.06211749120992485,
+              -0.5513562755136167,
+              0.551288139542091,
+              -0.3128537189934351,
+              -0.5121994161142512,
+              0.13957670182165627,
+              0.0002552356118335979,
+              0.00002542313233771491,
               1
             ]
           ]
         },
         "fit": {
-          "chiSquare": 0.21170667870691642,
-          "priorChiSquare": 4.7663766725235295,
+          "chiSquare": 0.21168840752058715,
+          "priorChiSquare": 4.766394937827753,
           "measurementCount": 5,
           "iterations": 12,
           "converged": true
         },
         "verdict": {
           "agreesWithNominal": true,
-          "nominalChiSquare": 24133.73629064218,
-          "toleranceChiSquare": 5.691431666139657,
+          "nominalChiSquare": 24133.736290642137,
+          "toleranceChiSquare": 5.69143166613968,
           "measurementCount": 5,
           "chiSquareBound95": 11.043946211607775,
-          "nominalScore": 0.797985941407238,
+          "nominalScore": 0.7979859638129408,
           "statement": "The measurements agree with the nominal circuit within its tolerances (χ² 5.69 for 5 measurements, 95 % bound 11.0)."
         },
         "explanations": [
@@ -1523,22 +1523,22 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "part",
                 "unit": "F",
                 "nominal": 4.7e-9,
-                "estimate": 5.083087939031458e-9,
-                "standardDeviation": 3.468424175095632e-11,
+                "estimate": 5.083087954623743e-9,
+                "standardDeviation": 3.4684260101505634e-11,
                 "priorStandardDeviation": 1.5719204477868513e-10,
-                "shift": 3.8308793903145845e-10,
-                "shiftInTolerances": 0.8150807213435285,
-                "posteriorToPriorSd": 0.20401959259744173,
+                "shift": 3.830879546237427e-10,
+                "shiftInTolerances": 0.8150807545186023,
+                "posteriorToPriorSd": 0.2040196999131873,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "cTiming +8.2 % (4.7 nF -> 5.08 nF), inside its 10 % tolerance",
                 "tolerance": 0.1,
-                "relativeShift": 0.08150807213435285
+                "relativeShift": 0.08150807545186023
               }
             ],
-            "score": 0.04811980924890799,
-            "logEvidence": -11.173635774474327,
-            "residualChiSquare": 0.5506727328824469,
+            "score": 0.04811983591102988,
+            "logEvidence": -11.17363524846611,
+            "residualChiSquare": 0.5506727208709566,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1546,37 +1546,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 9338.868359091543,
+                "predicted": 9338.868330940584,
                 "uncertainty": 5,
-                "normalized": 5.773671818308503
+                "normalized": 5.77366618811684
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002151055296897,
+                "predicted": 0.5002151055296931,
                 "uncertainty": 0.002,
-                "normalized": 0.10755276484486487
+                "normalized": 0.1075527648465302
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7830356530613951,
+                "predicted": 0.7830356530355088,
                 "uncertainty": 0.01,
-                "normalized": -0.6964346938604926
+                "normalized": -0.6964346964491219
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7810472341223863,
+                "predicted": -0.781047234096462,
                 "uncertainty": 0.01,
-                "normalized": 0.8952765877613733
+                "normalized": 0.8952765903537996
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00008145638502140683,
+                "predicted": 0.00008145638527127711,
                 "uncertainty": 8e-7,
-                "normalized": 0.19548127675854546
+                "normalized": 0.19548158909638821
               }
             ],
             "summary": "cTiming +8.2 % (4.7 nF -> 5.08 nF), inside its 10 % tolerance: accounts for the measurements (χ² 0.551 for 5, other parts within their tolerances)"
@@ -1590,22 +1590,22 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "part",
                 "unit": "ohm",
                 "nominal": 16000,
-                "estimate": 17227.277798398194,
-                "standardDeviation": 554.925767725476,
+                "estimate": 17227.278844126806,
+                "standardDeviation": 554.9259658996605,
                 "priorStandardDeviation": 53.335111217785446,
-                "shift": 1227.2777983981941,
-                "shiftInTolerances": 7.670486239988716,
-                "posteriorToPriorSd": 9.663289978841355,
+                "shift": 1227.2788441268058,
+                "shiftInTolerances": 7.670492775792526,
+                "posteriorToPriorSd": 9.663292843199399,
                 "withinTolerance": false,
                 "fault": "off",
                 "text": "rTiming +7.7 % (16 kΩ -> 17.2 kΩ), 7.7× its 1 % tolerance",
                 "tolerance": 0.01,
-                "relativeShift": 0.07670486239988716
+                "relativeShift": 0.07670492775792526
               }
             ],
-            "score": 0.04537208034495466,
-            "logEvidence": -11.23243275600203,
-            "residualChiSquare": 0.5362422639624119,
+            "score": 0.04537209506786155,
+            "logEvidence": -11.232432459578936,
+            "residualChiSquare": 0.5362420396557478,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1613,37 +1613,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 9380.077562130047,
+                "predicted": 9380.077002856073,
                 "uncertainty": 5,
-                "normalized": 14.015512426009446
+                "normalized": 14.01540057121456
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150957707927,
+                "predicted": 0.5002150957708553,
                 "uncertainty": 0.002,
-                "normalized": 0.10754788539635296
+                "normalized": 0.10754788542766125
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7831329275596394,
+                "predicted": 0.7831329270922727,
                 "uncertainty": 0.01,
-                "normalized": -0.6867072440360666
+                "normalized": -0.6867072907727367
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7811446344416078,
+                "predicted": -0.7811446339735357,
                 "uncertainty": 0.01,
-                "normalized": 0.8855365558392281
+                "normalized": 0.8855366026464306
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00008108561392724681,
+                "predicted": 0.00008108561884216954,
                 "uncertainty": 8e-7,
-                "normalized": -0.267982590941486
+                "normalized": -0.26797644728807296
               }
             ],
             "summary": "rTiming +7.7 % (16 kΩ -> 17.2 kΩ), 7.7× its 1 % tolerance: accounts for the measurements (χ² 0.536 for 5, other parts within their tolerances)"
@@ -1657,20 +1657,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "A",
                 "nominal": 1e-12,
-                "estimate": 2.8491420151452934e-12,
-                "standardDeviation": 9.004020619537052e-9,
+                "estimate": 2.833391326495042e-12,
+                "standardDeviation": 9.004020625628744e-9,
                 "priorStandardDeviation": 3.0014999700149927e-9,
-                "shift": 1.8491420151452936e-12,
-                "shiftInTolerances": 0.00020535755331568088,
-                "posteriorToPriorSd": 2.9998405296411947,
+                "shift": 1.8333913264950422e-12,
+                "shiftInTolerances": 0.00020360835125917483,
+                "posteriorToPriorSd": 2.999840528988455,
                 "withinTolerance": true,
                 "fault": "off",
-                "text": "input bias current 1 pA -> 2.85 pA, inside its class-typical spread"
+                "text": "input bias current 1 pA -> 2.83 pA, inside its class-typical spread"
               }
             ],
-            "score": 0.022798520731932406,
-            "logEvidence": -11.92063404782486,
-            "residualChiSquare": 5.69143158691712,
+            "score": 0.022798521367110566,
+            "logEvidence": -11.920634048033872,
+            "residualChiSquare": 5.691431587631961,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1678,40 +1678,40 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.833805196136,
+                "predicted": 10085.833805196691,
                 "uncertainty": 5,
-                "normalized": 155.16676103922728
+                "normalized": 155.16676103933824
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150203050955,
+                "predicted": 0.5002150202741161,
                 "uncertainty": 0.002,
-                "normalized": 0.10751015254772955
+                "normalized": 0.10751013705806445
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7837232690591784,
+                "predicted": 0.7837232691685325,
                 "uncertainty": 0.01,
-                "normalized": -0.6276730940821595
+                "normalized": -0.6276730831467514
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7817358923320786,
+                "predicted": -0.7817358922227247,
                 "uncertainty": 0.01,
-                "normalized": 0.8264107667921405
+                "normalized": 0.8264107777275376
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479597,
+                "predicted": 0.00007531740827479724,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656505038
+                "normalized": -7.478239656503446
               }
             ],
-            "summary": "input bias current 1 pA -> 2.85 pA, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
+            "summary": "input bias current 1 pA -> 2.83 pA, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
           },
           {
             "rank": 4,
@@ -1722,20 +1722,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "ohm",
                 "nominal": 25,
-                "estimate": 24.641782681050515,
-                "standardDeviation": 34.98488695365628,
+                "estimate": 24.641765117650387,
+                "standardDeviation": 34.98483391383177,
                 "priorStandardDeviation": 12.070784343255756,
-                "shift": -0.3582173189494853,
-                "shiftInTolerances": -0.009963952498675592,
-                "posteriorToPriorSd": 2.9406801754875684,
+                "shift": -0.3582348823496133,
+                "shiftInTolerances": -0.009964444600319379,
+                "posteriorToPriorSd": 2.9406778365095945,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread"
               }
             ],
-            "score": 0.02240964739136427,
-            "logEvidence": -11.937838148245646,
-            "residualChiSquare": 5.691241615491391,
+            "score": 0.022409630196185398,
+            "logEvidence": -11.937838943626893,
+            "residualChiSquare": 5.691241605689419,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1743,37 +1743,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.892667605312,
+                "predicted": 10085.892670491427,
                 "uncertainty": 5,
-                "normalized": 155.1785335210625
+                "normalized": 155.1785340982853
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150132256468,
+                "predicted": 0.5002150132254779,
                 "uncertainty": 0.002,
-                "normalized": 0.10750661282338259
+                "normalized": 0.10750661273895012
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7837440294071271,
+                "predicted": 0.783744030424405,
                 "uncertainty": 0.01,
-                "normalized": -0.6255970592872973
+                "normalized": -0.6255969575595044
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7817566411123745,
+                "predicted": -0.7817566421303432,
                 "uncertainty": 0.01,
-                "normalized": 0.8243358887625507
+                "normalized": 0.8243357869656798
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.0000753157272621699,
+                "predicted": 0.00007531572717974554,
                 "uncertainty": 8e-7,
-                "normalized": -7.480340922287623
+                "normalized": -7.480341025318069
               }
             ],
             "summary": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
@@ -1787,20 +1787,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": 2.48,
-                "estimate": 2.483741254930731,
-                "standardDeviation": 0.01837917194663719,
+                "estimate": 2.483741275463592,
+                "standardDeviation": 0.01837916535352061,
                 "priorStandardDeviation": 0.011586206896551748,
-                "shift": 0.003741254930730964,
-                "shiftInTolerances": 0.11875552559660528,
-                "posteriorToPriorSd": 1.93836627275626,
+                "shift": 0.003741275463592153,
+                "shiftInTolerances": 0.11875624743236385,
+                "posteriorToPriorSd": 1.9383679547388433,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output high level 2.48 V -> 2.484 V, inside its class-typical spread"
               }
             ],
-            "score": 0.0163605314580557,
-            "logEvidence": -12.252457885643846,
-            "residualChiSquare": 5.6467924601410635,
+            "score": 0.016360546113965462,
+            "logEvidence": -12.252457017904852,
+            "residualChiSquare": 5.6467922886990465,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1808,23 +1808,23 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.763278308552,
+                "predicted": 10085.763277903989,
                 "uncertainty": 5,
-                "normalized": 155.15265566171038
+                "normalized": 155.15265558079773
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.49993875782636693,
+                "predicted": 0.4999387563113414,
                 "uncertainty": 0.002,
-                "normalized": -0.030621086816534637
+                "normalized": -0.030621844329309367
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7849076833137373,
+                "predicted": 0.7849076898140324,
                 "uncertainty": 0.01,
-                "normalized": -0.5092316686262754
+                "normalized": -0.5092310185967674
               },
               {
                 "measurement": "capacitorMinV",
@@ -1836,9 +1836,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479576,
+                "predicted": 0.00007531740827479334,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656505292
+                "normalized": -7.4782396565083245
               }
             ],
             "summary": "output high level 2.48 V -> 2.484 V, inside its class-typical spread: accounts for the measurements (χ² 5.65 for 5, other parts within their tolerances)"
@@ -1852,20 +1852,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": 0.001,
-                "estimate": 0.00044827813710430174,
-                "standardDeviation": 0.004203783753207129,
+                "estimate": 0.0004482825773929862,
+                "standardDeviation": 0.004203783433171822,
                 "priorStandardDeviation": 0.002057142857142857,
-                "shift": -0.0005517218628956983,
-                "shiftInTolerances": -0.0885706023562743,
-                "posteriorToPriorSd": 2.010045158343758,
+                "shift": -0.0005517174226070138,
+                "shiftInTolerances": -0.08856989464613667,
+                "posteriorToPriorSd": 2.0100451692963492,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "input offset 1 mV -> 448.3 µV, inside its class-typical spread"
               }
             ],
-            "score": 0.016335126124522217,
-            "logEvidence": -12.254011935357163,
-            "residualChiSquare": 5.669932765628442,
+            "score": 0.016335126672154372,
+            "logEvidence": -12.254011929901854,
+            "residualChiSquare": 5.669932890996316,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1873,37 +1873,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.83534902661,
+                "predicted": 10085.835349018922,
                 "uncertainty": 5,
-                "normalized": 155.16706980532217
+                "normalized": 155.1670698037844
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5000963883555363,
+                "predicted": 0.5000963893102637,
                 "uncertainty": 0.002,
-                "normalized": 0.04819417776813495
+                "normalized": 0.04819465513183907
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7831750307334077,
+                "predicted": 0.7831750351457619,
                 "uncertainty": 0.01,
-                "normalized": -0.6824969266592373
+                "normalized": -0.6824964854238114
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7822841293472587,
+                "predicted": -0.7822841249349106,
                 "uncertainty": 0.01,
-                "normalized": 0.7715870652741375
+                "normalized": 0.7715875065089417
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479578,
+                "predicted": 0.00007531740827479407,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656505275
+                "normalized": -7.47823965650741
               }
             ],
             "summary": "input offset 1 mV -> 448.3 µV, inside its class-typical spread: accounts for the measurements (χ² 5.67 for 5, other parts within their tolerances)"
@@ -1917,20 +1917,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": -2.48,
-                "estimate": -2.4831728119399554,
-                "standardDeviation": 0.01839146718506802,
+                "estimate": -2.4831727679877793,
+                "standardDeviation": 0.01839148346890098,
                 "priorStandardDeviation": 0.011586206896551736,
-                "shift": -0.0031728119399554444,
-                "shiftInTolerances": -0.09910339112693839,
-                "posteriorToPriorSd": 1.876030483728055,
+                "shift": -0.0031727679877793236,
+                "shiftInTolerances": -0.09910189667452916,
+                "posteriorToPriorSd": 1.876027391046514,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output low level -2.48 V -> -2.483 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016332895859638336,
-            "logEvidence": -12.254148476522001,
-            "residualChiSquare": 5.662116448643135,
+            "score": 0.016332869393035666,
+            "logEvidence": -12.254150125040471,
+            "residualChiSquare": 5.662116744855075,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1938,16 +1938,16 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.765993793113,
+                "predicted": 10085.765994764113,
                 "uncertainty": 5,
-                "normalized": 155.1531987586226
+                "normalized": 155.15319895282263
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.500449052238685,
+                "predicted": 0.5004490489987264,
                 "uncertainty": 0.002,
-                "normalized": 0.224526119342483
+                "normalized": 0.22452449936322116
               },
               {
                 "measurement": "capacitorMaxV",
@@ -1959,16 +1959,16 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7827403304500671,
+                "predicted": -0.7827403165356033,
                 "uncertainty": 0.01,
-                "normalized": 0.7259669549932957
+                "normalized": 0.725968346439676
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479361,
+                "predicted": 0.00007531740827479155,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656507986
+                "normalized": -7.478239656510561
               }
             ],
             "summary": "output low level -2.48 V -> -2.483 V, inside its class-typical spread: accounts for the measurements (χ² 5.66 for 5, other parts within their tolerances)"
@@ -1982,20 +1982,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "s",
                 "nominal": 3e-7,
-                "estimate": 5.022412085254674e-7,
-                "standardDeviation": 2.786426409947431e-7,
+                "estimate": 5.022417512411645e-7,
+                "standardDeviation": 2.786420811386112e-7,
                 "priorStandardDeviation": 1.44e-7,
-                "shift": 2.022412085254674e-7,
-                "shiftInTolerances": 0.38881294738416616,
-                "posteriorToPriorSd": 1.3901116400198106,
+                "shift": 2.0224175124116456e-7,
+                "shiftInTolerances": 0.38881384989643397,
+                "posteriorToPriorSd": 1.3901081009660585,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "recovery delay 300 ns -> 502.2 ns, inside its class-typical spread"
               }
             ],
-            "score": 0.014285447433386311,
-            "logEvidence": -12.38808834440669,
-            "residualChiSquare": 5.149647891939704,
+            "score": 0.01428541146571607,
+            "logEvidence": -12.388090890263317,
+            "residualChiSquare": 5.149647190105936,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -2003,44 +2003,44 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10023.81100764861,
+                "predicted": 10023.810842348166,
                 "uncertainty": 5,
-                "normalized": 142.762201529722
+                "normalized": 142.76216846963325
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002146270074185,
+                "predicted": 0.5002146270063749,
                 "uncertainty": 0.002,
-                "normalized": 0.10731350370923876
+                "normalized": 0.10731350318743393
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7882604280158831,
+                "predicted": 0.7882604401750531,
                 "uncertainty": 0.01,
-                "normalized": -0.17395719841168944
+                "normalized": -0.17395598249468902
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7862783401381335,
+                "predicted": -0.786278352311546,
                 "uncertainty": 0.01,
-                "normalized": 0.37216598618665664
+                "normalized": 0.3721647688454066
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479316,
+                "predicted": 0.00007531740827479885,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656508545
+                "normalized": -7.47823965650143
               }
             ],
             "summary": "recovery delay 300 ns -> 502.2 ns, inside its class-typical spread: accounts for the measurements (χ² 5.15 for 5, other parts within their tolerances)"
           }
         ],
         "ambiguities": [],
-        "candidateCount": 47,
+        "candidateCount": 32,
         "warnings": []
       }
     }
@@ -2516,7 +2516,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
-      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 3.848753\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.132833\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 3.981586\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
+      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 4.730003\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.224196\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 4.954199\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 7\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 2\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
     }
   },
   "GET /v1/topologies": {
