@@ -74,6 +74,7 @@ try {
     ['/healthz', '/healthz', 'Alive'],
     ['/readyz', '/readyz', 'Ready: the store answers'],
     ['/metrics', '/metrics', 'Prometheus text exposition after the examples above ran (abridged: help lines and counters)'],
+    ['/problems/{code}', '/problems/invalid-value', 'What the invalid-value problem type means'],
     ['/v1/topologies', '/v1/topologies', 'The topologies and the roles each needs'],
     ['/v1/amplifiers', '/v1/amplifiers', 'Built-in archetypes and the registered example amplifier'],
     ['/v1/amplifiers/{id}', `/v1/amplifiers/${AMPLIFIER_EXAMPLE_ID}`, 'The registered example amplifier'],

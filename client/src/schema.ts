@@ -2532,6 +2532,7 @@ export interface components {
         Series: {
             /** @description Canonical series name (E3 ... E192) */
             name: string;
+            /** @description Values in one decade: the number in the series name (E24: 24) */
             valuesPerDecade: number;
             /** @description Figures each value carries: 2 for E3..E24, 3 for E48..E192 (IEC 60063) */
             significantFigures: number;
@@ -2544,15 +2545,20 @@ export interface components {
             toleranceBasis: "common practice";
             /** @description One decade as mantissas in [1, 10), ascending */
             mantissas: number[];
+            /** @description First decade listed, as a power of ten (3: from 1 k) */
             fromDecade: number;
+            /** @description Last decade listed, as a power of ten (4: values below 100 k) */
             toDecade: number;
             /** @description Every series value from 10^fromDecade up to (not including) 10^(toDecade+1), ascending */
             values: number[];
         };
         /** @description The IEC 60063 series the service knows */
         SeriesList: {
+            /** @description Every series, fewest values per decade first */
             series: {
+                /** @description Canonical series name (E3 ... E192) */
                 name: string;
+                /** @description Values in one decade */
                 valuesPerDecade: number;
                 /** @description Tolerance usually sold with the series, as a fraction (common practice) */
                 tolerance: number;

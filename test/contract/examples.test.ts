@@ -90,6 +90,7 @@ describe('examples in the contract', () => {
     const described = [
       'ComponentValue', 'Supply', 'InlineAmplifier', 'AmplifierSpec', 'Check', 'Problem', 'OutputLoad', 'Diode', 'BomLine',
       'BomSupply', 'BomTemperatureRange', 'BomSpec', 'BomCheckOptions', 'FitCapture', 'Tolerances', 'ValueSource', 'TemperatureCoefficient',
+      'Series', 'SeriesList',
     ];
     const undescribed: string[] = [];
     const walk = (node: unknown, path: string): void => {

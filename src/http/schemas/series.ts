@@ -35,13 +35,13 @@ export const SeriesQuery = Type.Object(
 export const Series = Type.Object(
   {
     name: Type.String({ description: 'Canonical series name (E3 ... E192)' }),
-    valuesPerDecade: Type.Integer(),
+    valuesPerDecade: Type.Integer({ description: 'Values in one decade: the number in the series name (E24: 24)' }),
     significantFigures: Type.Integer({ description: 'Figures each value carries: 2 for E3..E24, 3 for E48..E192 (IEC 60063)' }),
     tolerance: Type.Number({ description: 'Tolerance usually sold with the series, as a fraction (0.05 = 5 %)' }),
     toleranceBasis: Type.Literal('common practice', { description: 'The tolerance is trade practice, not part of IEC 60063' }),
     mantissas: Type.Array(Type.Number(), { description: 'One decade as mantissas in [1, 10), ascending' }),
-    fromDecade: Type.Integer(),
-    toDecade: Type.Integer(),
+    fromDecade: Type.Integer({ description: 'First decade listed, as a power of ten (3: from 1 k)' }),
+    toDecade: Type.Integer({ description: 'Last decade listed, as a power of ten (4: values below 100 k)' }),
     values: Type.Array(Type.Number(), { description: 'Every series value from 10^fromDecade up to (not including) 10^(toDecade+1), ascending' }),
   },
   { $id: 'Series', additionalProperties: false, description: 'An IEC 60063 preferred-number series over a range of decades' },
@@ -49,15 +49,15 @@ export const Series = Type.Object(
 
 export const SeriesSummary = Type.Object(
   {
-    name: Type.String(),
-    valuesPerDecade: Type.Integer(),
+    name: Type.String({ description: 'Canonical series name (E3 ... E192)' }),
+    valuesPerDecade: Type.Integer({ description: 'Values in one decade' }),
     tolerance: Type.Number({ description: 'Tolerance usually sold with the series, as a fraction (common practice)' }),
   },
   { additionalProperties: false },
 );
 
 export const SeriesList = Type.Object(
-  { series: Type.Array(SeriesSummary) },
+  { series: Type.Array(SeriesSummary, { description: 'Every series, fewest values per decade first' }) },
   { $id: 'SeriesList', additionalProperties: false, description: 'The IEC 60063 series the service knows' },
 );
 
