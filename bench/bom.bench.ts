@@ -122,7 +122,7 @@ const rate = (t: { seconds: number; count: number }) => t.count / t.seconds;
 const cpuRate = (t: { cpuSeconds: number; count: number }) => t.count / t.cpuSeconds;
 const line = (label: string, t: ReturnType<typeof timeIt>, ratio: string) =>
   console.log(`${label} ${rate(t).toFixed(0).padStart(8)} /s wall ${cpuRate(t).toFixed(0).padStart(8)} /s cpu${ratio}`);
-line('baseline  analyzeCircuit per assembly      ', base, '');
+line('baseline  analyzeCircuit per assembly (closed form)', base, '');
 line('bom-checks worst-case, all designs distinct', wc, `   ratio to baseline ${(rate(wc) / rate(base)).toFixed(3)}`);
 line('bom-checks worst-case, 50 designs repeated ', rep, `   ratio to baseline ${(rate(rep) / rate(base)).toFixed(3)}`);
 console.log(`target ≥ 2000 assemblies/s per core (cpu time): distinct ${cpuRate(wc) >= 2000 ? 'met' : 'NOT met'}, repeated ${cpuRate(rep) >= 2000 ? 'met' : 'NOT met'}`);
