@@ -11,7 +11,7 @@ import { CHECK_CODES, clampReached, oscillationChecks, supplyChecks, type Check 
 import { shapeFor, type CompiledShape } from './engine/compiled-network.ts';
 import { ConfigCache } from './engine/configs.ts';
 import { analyzeTimeDomain } from './engine/index.ts';
-import { effectsOf, nominalKey, PreparedModel, type PrepareModelOptions } from './engine/prepared.ts';
+import { effectsOf, evaluateOnce, EVALUATION_STATUS, nominalKey, OUTPUT_LENGTH, OUTPUT_SLOT, PreparedModel, type PrepareModelOptions } from './engine/prepared.ts';
 import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck } from './frequency-ceiling.ts';
 import type { AnalysisResult, ModelEffect, ModelName, OscillationFigures } from './result.ts';
 import { stateModelOf, type StateModel } from './state-model.ts';
@@ -84,7 +84,25 @@ export function prepareModel(circuit: Circuit, options: PrepareModelOptions & { 
   return new PreparedModel(prepared.shape, circuit, { dynamics: prepared.dynamics, transitions: options.transitions });
 }
 
-/** Figures of the closed-form special case, without checks: the cheap screen of design searches. */
+const screenOut = new Float64Array(OUTPUT_LENGTH);
+
+/**
+ * Timing of the closed-form special case (no slew, delay, clamp or limit pieces): the cheap screen of
+ * design searches, which re-check every answer they return with analyzeCircuit (the full model).
+ * Throws 'no-oscillation' when the circuit latches.
+ */
+export function screenTiming(circuit: Circuit): { frequencyHz: number; periodS: number; dutyCycle: number; timeHighS: number; timeLowS: number } {
+  const topology = getTopology(circuit.topology);
+  validateCircuit(circuit, topology);
+  const shape = shapeFor(circuit, topology);
+  const status = evaluateOnce(shape, shape.layout.valuesOf(circuit), false, screenOut);
+  if (status === EVALUATION_STATUS.invalidValue) throw new CoreError('invalid-value', 'A part value is not a positive, finite resistance or capacitance');
+  if (status !== EVALUATION_STATUS.ok) throw new CoreError('no-oscillation', 'The circuit does not oscillate (closed-form screen)');
+  const periodS = screenOut[OUTPUT_SLOT.periodS];
+  return { frequencyHz: 1 / periodS, periodS, dutyCycle: screenOut[OUTPUT_SLOT.dutyCycle], timeHighS: screenOut[OUTPUT_SLOT.timeHighS], timeLowS: screenOut[OUTPUT_SLOT.timeLowS] };
+}
+
+/** Figures of the closed-form special case, without checks. */
 export function closedFormFigures(circuit: Circuit): OscillationFigures {
   return analyzeTimeDomain(prepareCircuit(circuit, 'closed-form'));
 }

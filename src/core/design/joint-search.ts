@@ -16,7 +16,7 @@
  * engine whenever one is registered and the amplifier has dynamics).
  */
 import type { AmplifierModel } from '../amplifiers/model.ts';
-import { closedFormFigures } from '../circuit/analyze.ts';
+import { screenTiming } from '../circuit/analyze.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
 import { findTopology } from '../circuit/topologies/index.ts';
 import type { Circuit, Supply } from '../circuit/types.ts';
@@ -391,7 +391,7 @@ export function jointSearch(request: JointSearchInput): JointSearchResult {
         stats.closedFormEvaluations++;
         let fig;
         try {
-          fig = closedFormFigures(circuit);
+          fig = screenTiming(circuit);
         } catch (err) {
           if (err instanceof CoreError && err.code === 'no-oscillation') return;
           throw err;

@@ -16,7 +16,7 @@
  * evaluated by the closed form and the best of those by analyzeCircuit.
  */
 import type { AmplifierModel } from '../amplifiers/model.ts';
-import { closedFormFigures } from '../circuit/analyze.ts';
+import { screenTiming } from '../circuit/analyze.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
 import type { Circuit, DiodeModel, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
@@ -233,7 +233,7 @@ export function steeredSearch(input: SteeredSearchInput): SteeredSearchResult {
       const circuit: Circuit = { topology: input.topology, supply: input.supply, amplifier: input.amplifier, parts: values, diode: input.diode };
       stats.closedFormEvaluations++;
       try {
-        const fig = closedFormFigures(circuit);
+        const fig = screenTiming(circuit);
         evaluated.push({ key, parts, circuit, timeHighS: fig.timeHighS, timeLowS: fig.timeLowS, preference: s.preference });
       } catch (err) {
         if (err instanceof CoreError && err.code === 'no-oscillation') continue;

@@ -258,6 +258,24 @@ function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: Array
   return EVALUATION_STATUS.ok;
 }
 
+/**
+ * Timing figures of one vector without a prepared nominal (the two-piece program where it applies, else the
+ * walk from power-up): the cheap screen of searches that meet every candidate once.
+ */
+export function evaluateOnce(shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, out: Float64Array): EvaluationStatus {
+  const walk = sharedWalk;
+  const status = twoPieceCycle(walk, shape, values, dynamics, false, out);
+  if (status === EVALUATION_STATUS.ok) return status;
+  if (status !== undefined) return fail(out, status);
+  try {
+    readTiming(walk, walkToCycle(walk, shape, values, dynamics, undefined, false), out, false);
+    return EVALUATION_STATUS.ok;
+  } catch (err) {
+    if (!(err instanceof CoreError)) throw err;
+    return fail(out, err.code === 'no-oscillation' || err.code === 'not-converged' ? EVALUATION_STATUS.latched : EVALUATION_STATUS.invalidValue);
+  }
+}
+
 function fail(out: Float64Array, status: EvaluationStatus): EvaluationStatus {
   out.fill(Number.NaN);
   return status;
