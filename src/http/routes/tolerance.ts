@@ -6,7 +6,6 @@
  */
 import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import { Type } from 'typebox';
-import { chooseModel } from '../../core/index.ts';
 import { renderHistogramSvg } from '../../core/plot/index.ts';
 import { monteCarloOptions, type ToleranceRequest, type ToleranceResult } from '../../core/tolerance/index.ts';
 import { circuitFromBody, withPointerPrefix } from '../convert.ts';
