@@ -1,5 +1,6 @@
 /** Plain circuit description the core works on: SI base units throughout. */
 import type { AmplifierModel } from '../amplifiers/model.ts';
+import type { BiasShape } from '../parts/capacitor/dc-bias.ts';
 
 export type OutputState = 'high' | 'low';
 
@@ -31,6 +32,12 @@ export interface Circuit {
   parts: Readonly<Record<string, number>>;
   load?: OutputLoad;
   diode?: DiodeModel;
+  /**
+   * C(v)/C(0) of the timing capacitor when it depends on voltage (class II/III
+   * ceramics); parts[capacitor role] is then its capacitance at 0 V. Absent or
+   * flat: a linear capacitor.
+   */
+  capacitorShape?: BiasShape;
 }
 
 /** What differs between the linear pieces of one output state. */

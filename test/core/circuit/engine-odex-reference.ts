@@ -165,6 +165,8 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   const topology = findTopology(c.topology)!;
   const amp = c.amplifier;
   const C = c.parts[topology.capacitorRole];
+  // A C(v) capacitor (class II/III ceramic): C(v) = C·r(v); the same curve the engine uses, nothing else shared.
+  const shape = c.capacitorShape;
   const span = c.supply.positiveV - c.supply.negativeV;
   const vHigh = c.supply.positiveV - amp.outputHeadroomHighV;
   const vLow = c.supply.negativeV + amp.outputHeadroomLowV;
@@ -289,7 +291,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     evals++;
     const { V, branches } = nodeVoltages(c, d, yy[0], yy[1]);
     const iCap = -leaving(NODE.capacitor, branches, V) - amp.inputBiasCurrentA;
-    return [iCap / C, d.rate, pinOf(V)];
+    return [iCap / (shape ? C * shape.ratio(yy[0]) : C), d.rate, pinOf(V)];
   };
 
   const maxCycles = options.maxCycles ?? 300;

@@ -18,6 +18,7 @@
  * reduced at once to the coefficients the walk needs (ConfigModel). This is the
  * only network solve in the service; there is no second, object-based copy.
  */
+import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
 import type { AmplifierModel } from '../../amplifiers/model.ts';
 import { NODE } from '../nodes.ts';
 import type { Branch } from '../network.ts';
@@ -514,6 +515,8 @@ export function shapeKey(circuit: Circuit, topology: TopologyDefinition): string
   for (const role of Object.keys(topology.roles)) if (circuit.parts[role] !== undefined) key += `|${role}`;
   key += `|r${circuit.amplifier.outputResistanceOhm > 0 ? 1 : 0}|l${circuit.load ? 1 : 0}`;
   if (topology.diodeCount > 0) key += `|d${circuit.diode ? `${circuit.diode.forwardDropV},${circuit.diode.resistanceOhm}` : '-'}`;
+  // A C(v) timing capacitor changes the piece kinds (docs/model.md, non-linear capacitor).
+  if (circuit.capacitorShape && circuit.capacitorShape.kind !== 'flat') key += `|c${circuit.capacitorShape.key}`;
   return key;
 }
 
@@ -528,6 +531,8 @@ export class CompiledShape {
   readonly outputResistanceSeparate: boolean;
   readonly openDrain: boolean;
   readonly diodeTerminals: readonly { from: number; to: number; emfV: number }[];
+  /** C(v)/C0 of the timing capacitor (flat: linear; the capacitor slot then holds C, else C at 0 V). */
+  readonly biasShape: BiasShape;
   private readonly configs: (CompiledConfig | undefined)[] = new Array<CompiledConfig | undefined>(KEY_SPACE);
   /** Parameter slots the walk reads on every evaluation (looked up once here, not per evaluation). */
   readonly slot: Readonly<Record<'positiveV' | 'negativeV' | 'headroomHigh' | 'headroomLow' | 'rOut' | 'offset' | 'bias' | 'slew' | 'delay' | 'limit' | 'clamp', number>>;
@@ -565,6 +570,7 @@ export class CompiledShape {
     const bits = (on: readonly boolean[] | undefined) => (on ?? []).reduce((acc, x, k) => acc | (x ? 1 << k : 0), 0);
     this.nominalHighKey = configKey(this.openDrain ? STAGE.released : STAGE.driven, CLAMP.off, bits(topology.nominalDiodes?.('high')));
     this.nominalLowKey = configKey(STAGE.driven, CLAMP.off, bits(topology.nominalDiodes?.('low')));
+    this.biasShape = template.capacitorShape ?? FLAT_SHAPE;
   }
 
   config(key: number): CompiledConfig {

@@ -8,6 +8,7 @@
  * walk enters it and cached for the rest of the evaluation (docs/model.md §2).
  */
 import { CoreError } from '../../errors.ts';
+import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
 import { CLAMP, KEY_SPACE, NetworkCoefficients, STAGE, type CompiledShape } from './compiled-network.ts';
 
 export { CLAMP, CLAMP_RESISTANCE_OHM, configKey, STAGE } from './compiled-network.ts';
@@ -74,6 +75,8 @@ export class ConfigCache {
   openDrain = false;
   offsetV = 0;
   biasA = 0;
+  /** C(v)/C0 of the timing capacitor (from the compiled shape; flat: a linear capacitor). */
+  biasShape: BiasShape = FLAT_SHAPE;
 
   /** False: skip the output and rail current sums (timing-only evaluations; figures need them). */
   currents = true;
@@ -92,6 +95,7 @@ export class ConfigCache {
     this.openDrain = shape.openDrain;
     this.offsetV = values[slot.offset];
     this.biasA = values[slot.bias];
+    this.biasShape = shape.biasShape;
     // Only the slots the previous evaluation filled need clearing.
     for (let i = 0; i < this.used; i++) this.slot[this.pool[i].key] = -1;
     this.used = 0;

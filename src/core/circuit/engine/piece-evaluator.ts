@@ -3,12 +3,12 @@
  * and integrals of any quantity affine in (v, s), all exact per piece.
  */
 import type { ConfigCache, ConfigModel } from './configs.ts';
-import { Kinematics } from './kinematics.ts';
+import { CapacitorKinematics } from './capacitor-kinematics.ts';
 import { LOG, LOG_STRIDE, type PieceLog } from './piece-log.ts';
 import { AffineProbe, extremumTime, PieceEnds, solveBracket } from './root-solve.ts';
 
 export class PieceEvaluator {
-  readonly kin = new Kinematics();
+  readonly kin = new CapacitorKinematics();
   private readonly probe = new AffineProbe(this.kin);
   readonly ends = new PieceEnds();
   startS = 0;
@@ -41,6 +41,7 @@ export class PieceEvaluator {
     const d = this.log.data;
     const base = index * LOG_STRIDE;
     const cfg = this.cache.get(d[base + LOG.key]);
+    if (this.kin.shape !== this.cache.biasShape) this.kin.setShape(this.cache.biasShape, this.cache.spanV);
     const s0 = d[base + LOG.s0];
     const r = d[base + LOG.rate];
     this.kin.set(cfg.a, cfg.b0 + cfg.bS * s0, cfg.bS * r, d[base + LOG.v0], s0, r);

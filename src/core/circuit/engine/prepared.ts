@@ -139,7 +139,8 @@ export class PreparedModel {
     this.effects = effectsOf(this.nominal, shape, this.dynamics);
     this.model = this.effects.length > 0 ? 'time-domain' : 'closed-form';
     // No amplifier effect can add a piece: the two-piece program applies (it still checks for event functions).
-    this.twoPiece = !this.dynamics || this.effects.length === 0;
+    // A C(v) capacitor's pieces are not exponentials: the full walk (its non-linear piece kinds) answers.
+    this.twoPiece = (!this.dynamics || this.effects.length === 0) && this.shape.biasShape.kind === 'flat';
     this.roleSlots = layout.roleSlots;
     this.slewSlot = layout.indexOf('slewRateVPerS');
     this.delaySlot = layout.indexOf('recoveryDelayS');

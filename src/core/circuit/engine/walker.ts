@@ -29,7 +29,7 @@ import { formatVolts } from '../format.ts';
 import type { CompiledShape } from './compiled-network.ts';
 import { CLAMP, configKey, STAGE } from './compiled-network.ts';
 import { BOUNDARY_TOLERANCE, ConfigCache, diodeBits, EVENT, type ConfigModel } from './configs.ts';
-import { Kinematics } from './kinematics.ts';
+import { CapacitorKinematics } from './capacitor-kinematics.ts';
 import { PieceEvaluator } from './piece-evaluator.ts';
 import { PieceLog } from './piece-log.ts';
 import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
@@ -103,7 +103,7 @@ export class OscillatorWalk {
   readonly log = new PieceLog();
   /** Re-evaluates logged pieces (figures, samples); shares the walk's log and cache. */
   readonly evaluator = new PieceEvaluator(this.log, this.cache);
-  private readonly kin = new Kinematics();
+  private readonly kin = new CapacitorKinematics();
   private readonly probe = new AffineProbe(this.kin);
   private readonly ends = new PieceEnds();
   private readonly endScratch = new Float64Array(2);
@@ -164,6 +164,7 @@ export class OscillatorWalk {
     this.values = values;
     this.dynamics = dynamics;
     this.cache.reset(shape, values, dynamics, currents);
+    this.kin.setShape(this.cache.biasShape, this.cache.spanV);
     const slot = shape.slot;
     this.highV = values[slot.positiveV] - values[slot.headroomHigh];
     this.lowV = values[slot.negativeV] + values[slot.headroomLow];

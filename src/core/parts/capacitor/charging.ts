@@ -48,6 +48,12 @@ export class NonlinearCharge {
     return (this.shape.ratio(v) - this.rInf) / d;
   };
   private readonly ratioOf = (v: number): number => this.shape.ratio(v);
+  /** For ∫v dt: the remainder of v·r(v)/(v∞ − v) after its singular part v∞·r(v∞)/(v∞ − v). */
+  private readonly remainderWeighted = (v: number): number => {
+    const d = this.vInf - v;
+    return (v * this.shape.ratio(v) - this.vInf * this.rInf) / d;
+  };
+  private readonly ratioTimesV = (v: number): number => v * this.shape.ratio(v);
 
   /** Curve shape and capacitance at 0 V (F); capacitor current i(v) = i0A − conductanceS·v. */
   setPiece(shape: BiasShape, capacitanceF: number, i0A: number, conductanceS: number): this {
@@ -88,6 +94,26 @@ export class NonlinearCharge {
     if (this.shape.kind === 'flat') return (this.capacitanceF * (v1 - v0)) / this.i0;
     const scale = Math.abs(v1 - v0) * this.shape.ratio(0.5 * (v0 + v1));
     return (this.capacitanceF * this.split(this.ratioOf, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale)) / this.i0;
+  }
+
+  /**
+   * ∫ v dt over the motion from v0 to v1 (= ∫ v·C(v)/i(v) dv), V·s — what the
+   * walk logs with each piece for averages. Same reachability rules as timeBetween.
+   */
+  voltageTimeBetween(v0: number, v1: number): number {
+    if (v0 === v1) return 0;
+    if (this.g > 0) {
+      const d0 = this.vInf - v0;
+      const d1 = this.vInf - v1;
+      if (d0 === 0 || d1 / d0 <= 0 || Math.abs(d1) >= Math.abs(d0)) return Infinity;
+      const logPart = this.vInf * this.rInf * Math.log(d0 / d1);
+      const scale = Math.abs(logPart) + Math.abs(this.remainderWeighted(0.5 * (v0 + v1)) * (v1 - v0)) + 1e-300;
+      const rest = this.split(this.remainderWeighted, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale);
+      return (this.capacitanceF / this.g) * (logPart + rest);
+    }
+    if (this.i0 === 0 || (v1 - v0) * this.i0 < 0) return Infinity;
+    const scale = Math.abs(v1 - v0) * (Math.abs(v0) + Math.abs(v1)) + 1e-300;
+    return (this.capacitanceF * this.split(this.ratioTimesV, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale)) / this.i0;
   }
 
   /** Voltage reached tS after starting at v0 (the inverse of timeBetween). */

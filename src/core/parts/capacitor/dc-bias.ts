@@ -35,6 +35,8 @@ export interface CapacitancePoint {
  */
 export interface BiasShape {
   readonly kind: 'flat' | 'class-typical' | 'points';
+  /** Identity of the curve (compiled circuit shapes are keyed by it). */
+  readonly key: string;
   /** C(v)/C(0), even in v. */
   ratio(voltageV: number): number;
   /** |v| where the shape has a kink (point-wise curves); quadrature splits there. Empty when smooth. */
@@ -43,6 +45,7 @@ export interface BiasShape {
 
 export const FLAT_SHAPE: BiasShape = Object.freeze({
   kind: 'flat' as const,
+  key: 'flat',
   ratio: () => 1,
   kneesV: Object.freeze([]) as readonly number[],
 });
@@ -52,8 +55,10 @@ export class JohnsonShape implements BiasShape {
   readonly kind = 'class-typical' as const;
   readonly kneesV: readonly number[] = [];
   private readonly invScaleSq: number;
+  readonly key: string;
   constructor(readonly scaleV: number) {
     this.invScaleSq = 1 / (scaleV * scaleV);
+    this.key = `johnson:${scaleV}`;
   }
   ratio(voltageV: number): number {
     return 1 / Math.cbrt(1 + voltageV * voltageV * this.invScaleSq);
@@ -93,7 +98,9 @@ export class PointsShape implements BiasShape {
     this.vs = Float64Array.from(sorted, (p) => p.v);
     this.rs = Float64Array.from(sorted, (p) => p.c / sorted[0].c);
     this.kneesV = sorted.map((p) => p.v).filter((v) => v > 0);
+    this.key = `points:${sorted.map((p) => `${p.v}/${p.c}`).join(',')}`;
   }
+  readonly key: string;
   ratio(voltageV: number): number {
     const x = Math.abs(voltageV);
     const vs = this.vs;

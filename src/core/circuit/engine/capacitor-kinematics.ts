@@ -1,0 +1,118 @@
+/**
+ * The motion inside one piece when the timing capacitor's capacitance depends
+ * on its voltage (a class II/III ceramic: docs/model.md, "non-linear
+ * capacitor"). The network reduction is the same as for a linear capacitor,
+ * made with the capacitance at 0 V, C0; the capacitor then obeys
+ *
+ *     r(v)·dv/dt = k0 + k1·t − a·v,        r(v) = C(v)/C0,
+ *
+ * the linear piece's equation with its left side weighted by the curve. Two
+ * piece kinds, both event-driven and exact to the quadrature tolerance:
+ * - source at rest (k1 = 0): separable — time = ∫ r(v)/(k0 − a·v) dv by
+ *   adaptive quadrature, an event at a known voltage is a quadrature, a time
+ *   event an inverse (NonlinearCharge, parts/capacitor/charging.ts);
+ * - source slewing (k1 ≠ 0): Picard–Chebyshev collocation over the piece, a
+ *   dense polynomial answer (ChebyshevPiece, parts/capacitor/chebyshev-piece.ts).
+ * With a flat curve every method defers to the linear Kinematics unchanged, so
+ * linear capacitors keep their closed forms bit for bit.
+ */
+import { ChebyshevPiece, FLAT_SHAPE, NonlinearCharge, type BiasShape } from '../../parts/capacitor/index.ts';
+import { Kinematics } from './kinematics.ts';
+
+/** Event functions a piece can watch (threshold + diodes + clamp + limit). */
+const EXIT_MEMORY = 10;
+
+export class CapacitorKinematics extends Kinematics {
+  shape: BiasShape = FLAT_SHAPE;
+  /** True when the curve is not flat (the overrides below take over). */
+  nonlinear = false;
+  private autonomous = true;
+  private scaleV = 1;
+  private readonly charge = new NonlinearCharge();
+  private readonly cheb = new ChebyshevPiece();
+  /** Events of this piece located at known voltages: their times and voltages (save the inverse at the piece end). */
+  private readonly exitT = new Float64Array(EXIT_MEMORY);
+  private readonly exitV = new Float64Array(EXIT_MEMORY);
+  private exits = 0;
+
+  /** The curve of the circuit's timing capacitor; scaleV (the supply span) sets tolerances. */
+  setShape(shape: BiasShape, scaleV: number): void {
+    this.shape = shape;
+    this.nonlinear = shape.kind !== 'flat';
+    this.scaleV = scaleV;
+  }
+
+  override set(a: number, k0: number, k1: number, v0: number, s0: number, r: number): void {
+    super.set(a, k0, k1, v0, s0, r);
+    if (!this.nonlinear) return;
+    this.autonomous = k1 === 0;
+    this.exits = 0;
+    // Per unit C0: the "capacitance" is 1 and the current k0 − a·v.
+    if (this.autonomous) this.charge.setPiece(this.shape, 1, k0, a);
+    else this.cheb.set(this.shape, a, k0, k1, v0, this.scaleV);
+  }
+
+  override v(t: number): number {
+    if (!this.nonlinear) return super.v(t);
+    if (t === 0) return this.v0;
+    if (!this.autonomous) return this.cheb.v(t);
+    for (let k = 0; k < this.exits; k++) if (this.exitT[k] === t) return this.exitV[k];
+    return this.charge.voltageAfter(this.v0, t);
+  }
+
+  override dv(t: number, vAtT: number): number {
+    if (!this.nonlinear) return super.dv(t, vAtT);
+    return (-this.a * vAtT + this.k0 + this.k1 * t) / this.shape.ratio(vAtT);
+  }
+
+  /** Slope of v' for Newton steps of the bracketed solvers (exact for a flat curve; the curve's own slope term left out). */
+  override d2v(dvAtT: number): number {
+    return -this.a * dvAtT + this.k1;
+  }
+
+  override integralV(durationS: number): number {
+    if (!this.nonlinear) return super.integralV(durationS);
+    if (!this.autonomous) return this.cheb.integralV(durationS);
+    return this.charge.voltageTimeBetween(this.v0, this.v(durationS));
+  }
+
+  override endAndIntegral(durationS: number, out: Float64Array): void {
+    if (!this.nonlinear) {
+      super.endAndIntegral(durationS, out);
+      return;
+    }
+    if (!this.autonomous) {
+      out[0] = this.cheb.v(durationS);
+      out[1] = this.cheb.integralV(durationS);
+      return;
+    }
+    const vEnd = this.v(durationS);
+    out[0] = vEnd;
+    out[1] = this.charge.voltageTimeBetween(this.v0, vEnd);
+  }
+
+  /**
+   * First time in (0, T] at which g = constPart + cv·v leaves g ≥ 0 in a piece
+   * whose source is at rest (the non-linear counterpart of the closed-form
+   * exponential exit): v moves monotonically, so g crosses zero at most once,
+   * at the known voltage v* = −constPart/cv, reached after a quadrature.
+   */
+  voltageExit(g0: number, constPart: number, cv: number, T: number): number {
+    if (cv === 0) return Infinity;
+    const a = this.a;
+    const vInf = a > 0 ? this.k0 / a : Number.NaN;
+    const dir = a > 0 ? Math.sign(vInf - this.v0) : Math.sign(this.k0);
+    if (dir === 0 || cv * dir >= 0) return Infinity; // g constant or rising along the motion
+    if (g0 < 0) return 0;
+    const vStar = -constPart / cv;
+    if ((vStar - this.v0) * dir < 0) return 0;
+    if (a > 0 && !((vInf - vStar) * dir > 0)) return Infinity; // settles before reaching it
+    const t = this.charge.timeBetween(this.v0, vStar);
+    if (!(t > 0)) return 0;
+    if (this.exits < EXIT_MEMORY) {
+      this.exitT[this.exits] = t;
+      this.exitV[this.exits++] = vStar;
+    }
+    return t <= T ? t : Infinity;
+  }
+}
