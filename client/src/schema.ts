@@ -2265,10 +2265,29 @@ export interface components {
         } & {
             [key: string]: unknown;
         };
+        /** @description A timing capacitor with its dielectric, rating, case and age; class II/III ceramics then charge along their C(V) curve */
+        TimingCapacitor: {
+            value: components["schemas"]["ComponentValue"];
+            /** @description Fraction (0.1), percent text ("10%") or an IEC 60062 letter ("K") */
+            tolerance?: number | string;
+            /** @description EIA-198 code (C0G, X7R, Y5V...) or technology word (PP, PET, mica...). Class II/III codes bring a class-typical C(V) curve, ageing and leakage */
+            dielectric?: string;
+            /** @description Rated DC voltage, V (class II/III default: 16 V) */
+            ratedVoltageV?: number;
+            /** @description EIA inch case code (class II/III default: 0805) */
+            caseSize?: "01005" | "0201" | "0402" | "0603" | "0805" | "1206" | "1210" | "1812" | "2220";
+            /** @description Hours since the last de-ageing (reflow soldering de-ages a class II part); default: the 1000 h reference age */
+            ageHours?: number;
+            /** @description Measured or published C(V) points of the actual part (absolute farads); replace the class-typical curve */
+            biasCurve?: {
+                voltageV: number;
+                capacitanceF: number;
+            }[];
+        };
         /** @description Part values by role. Which roles a topology needs: see the topology descriptions. */
         Parts: {
             rTiming?: components["schemas"]["ComponentValue"];
-            cTiming?: components["schemas"]["ComponentValue"];
+            cTiming?: components["schemas"]["ComponentValue"] | components["schemas"]["TimingCapacitor"];
             rTop?: components["schemas"]["ComponentValue"];
             rBottom?: components["schemas"]["ComponentValue"];
             rFeedback?: components["schemas"]["ComponentValue"];
@@ -2356,6 +2375,13 @@ export interface components {
             capacitor: {
                 minV: number;
                 maxV: number;
+                /** @description With a voltage-dependent (class II/III) capacitor: ΔQ/ΔV over minV…maxV, the capacitance the timing effectively sees, F */
+                effectiveCapacitanceF?: number;
+                /** @description The C(V) curve the model used, sampled over minV…maxV */
+                capacitanceCurve?: {
+                    voltageV: number;
+                    capacitanceF: number;
+                }[];
             };
             states: {
                 high: {

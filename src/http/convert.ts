@@ -7,6 +7,7 @@ import { canonicalTopologyId, findTopology, resolveAmplifier, type AmplifierMode
 import { CoreError } from '../core/errors.ts';
 import { UNLIMITED_FIGURES } from '../core/amplifiers/figures-table.ts';
 import { parseComponentValue } from '../core/parts/value-parse.ts';
+import { resolveCapacitor, type CapacitorModel, type CapacitorSpec } from '../core/parts/capacitor/index.ts';
 import type { AmplifierLookup } from './amplifier-directory.ts';
 import type { CircuitBody } from './schemas/circuit.ts';
 
@@ -26,15 +27,25 @@ export function resolveAmplifierSpec(spec: string | Record<string, unknown>, dir
   return resolveAmplifier(typeof spec === 'string' ? spec : inlineAmplifierFromBody(spec), directory.lookup, pointer);
 }
 
-export function parseParts(topologyId: string, parts: Record<string, string | number | undefined>, pointer = '/parts'): Record<string, number> {
+type PartValue = string | number | CapacitorSpec | undefined;
+
+/** Part values in SI units; a capacitor given as a part object counts with its capacitance at 0 V (age included). */
+export function parseParts(topologyId: string, parts: Record<string, PartValue>, pointer = '/parts'): Record<string, number> {
   const topology = findTopology(topologyId);
   const out: Record<string, number> = {};
   for (const [role, value] of Object.entries(parts)) {
     if (value === undefined) continue;
     const kind = topology?.roles[role]?.kind ?? (role.startsWith('c') ? 'capacitor' : 'resistor');
-    out[role] = parseComponentValue(value, kind, `${pointer}/${role}`);
+    out[role] = typeof value === 'object' ? resolveCapacitor(value, `${pointer}/${role}`).capacitanceF : parseComponentValue(value, kind, `${pointer}/${role}`);
   }
   return out;
+}
+
+/** The timing capacitor when the body gives it as a part object. */
+export function timingCapacitorFromParts(topologyId: string, parts: Record<string, PartValue>, pointer = '/parts'): CapacitorModel | undefined {
+  const role = findTopology(topologyId)?.capacitorRole;
+  const value = role === undefined ? undefined : parts[role];
+  return value !== undefined && typeof value === 'object' ? resolveCapacitor(value, `${pointer}/${role}`) : undefined;
 }
 
 export function circuitFromBody(body: CircuitBody, directory: AmplifierLookup, pointer = ''): Circuit {
@@ -44,8 +55,10 @@ export function circuitFromBody(body: CircuitBody, directory: AmplifierLookup, p
     topology: canonicalTopologyId(body.topology),
     supply: { positiveV: body.supply.positiveV, negativeV: body.supply.negativeV ?? 0 },
     amplifier,
-    parts: parseParts(body.topology, body.parts as Record<string, string | number | undefined>, `${pointer}/parts`),
+    parts: parseParts(body.topology, body.parts as Record<string, PartValue>, `${pointer}/parts`),
   };
+  const capacitor = timingCapacitorFromParts(body.topology, body.parts as Record<string, PartValue>, `${pointer}/parts`);
+  if (capacitor && capacitor.shape.kind !== 'flat') circuit.capacitorShape = capacitor.shape;
   if (body.load) circuit.load = { resistanceOhm: body.load.resistanceOhm, returnV: body.load.returnV ?? 0 };
   if (body.diode) {
     circuit.diode = {

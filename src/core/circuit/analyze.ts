@@ -6,6 +6,7 @@
  * current-limit pieces.
  */
 import { hasDynamicLimits } from '../amplifiers/model.ts';
+import { curvePoints, effectiveCapacitanceF } from '../parts/capacitor/index.ts';
 import { CoreError } from '../errors.ts';
 import { CHECK_CODES, clampReached, oscillationChecks, supplyChecks, type Check } from './checks.ts';
 import { shapeFor, type CompiledShape } from './engine/compiled-network.ts';
@@ -123,6 +124,9 @@ function frequencyWithoutClamp(circuit: Circuit, model: ModelChoice | undefined)
   }
 }
 
+/** Points of the C(v) curve an analysis reports over the capacitor's swing. */
+const CURVE_POINTS = 9;
+
 export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): AnalysisResult {
   const edgeFraction = options.edgeFractionLimit ?? DEFAULT_EDGE_FRACTION;
   checkEdgeFraction(edgeFraction);
@@ -156,6 +160,17 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
   const ceilingHz = frequencyCeilingHz(estimated, edgeFraction);
   const slewCheck = slewLimitedCheck(edges, figures.periodS, edgeFraction, ceilingHz);
   if (slewCheck) checks.push(slewCheck);
+  const shape = circuit.capacitorShape;
+  if (shape && shape.kind !== 'flat') {
+    // What the C(v) capacitor amounts to over the swing it actually sees (docs/model.md, non-linear capacitor).
+    const { minV, maxV } = figures.capacitor;
+    figures.capacitor = {
+      minV,
+      maxV,
+      effectiveCapacitanceF: effectiveCapacitanceF(shape, capacitanceF, minV, maxV),
+      capacitanceCurve: curvePoints(shape, capacitanceF, minV, maxV, CURVE_POINTS),
+    };
+  }
   return {
     ...figures,
     edges,

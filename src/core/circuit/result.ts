@@ -1,6 +1,7 @@
 /** The analysis result both models (closed form, time-domain engine) produce. */
 import type { Check } from './checks.ts';
 import type { OutputState } from './types.ts';
+import type { CapacitancePoint } from '../parts/capacitor/dc-bias.ts';
 
 /**
  * Which model produced an answer. There is one model (docs/model.md): the walk of
@@ -46,7 +47,11 @@ export interface OscillationFigures {
   output: { highV: number; lowV: number; swingV: number; meanHighV: number; meanLowV: number };
   /** 10–90 % transition durations of the output (IEEE Std 181-2011 reference levels), s. */
   transitions: { riseTimeS: number; fallTimeS: number };
-  capacitor: { minV: number; maxV: number };
+  /**
+   * Timing-capacitor voltage range in steady state; with a C(v) capacitor also
+   * ΔQ/ΔV over that range and the curve used there (C at 0 V times the shape).
+   */
+  capacitor: { minV: number; maxV: number; effectiveCapacitanceF?: number; capacitanceCurve?: CapacitancePoint[] };
   states: { high: StateSummary; low: StateSummary };
   powerUp: { initialState: OutputState; determinate: boolean };
   currents: {

@@ -59,7 +59,22 @@ export const Analysis = Type.Object(
       },
       { additionalProperties: false },
     ),
-    capacitor: Type.Object({ minV: Type.Number(), maxV: Type.Number() }, { additionalProperties: false }),
+    capacitor: Type.Object(
+      {
+        minV: Type.Number(),
+        maxV: Type.Number(),
+        effectiveCapacitanceF: Type.Optional(
+          Type.Number({ description: 'With a voltage-dependent (class II/III) capacitor: ΔQ/ΔV over minV…maxV, the capacitance the timing effectively sees, F' }),
+        ),
+        capacitanceCurve: Type.Optional(
+          Type.Array(
+            Type.Object({ voltageV: Type.Number(), capacitanceF: Type.Number() }, { additionalProperties: false }),
+            { description: 'The C(V) curve the model used, sampled over minV…maxV' },
+          ),
+        ),
+      },
+      { additionalProperties: false },
+    ),
     states: Type.Object({ high: StateSummary, low: StateSummary }, { additionalProperties: false }),
     powerUp: Type.Object(
       {

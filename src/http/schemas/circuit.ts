@@ -1,15 +1,52 @@
 /** The circuit description shared by analyze, waveform, tolerance and fit requests. */
 import { Type, type Static } from 'typebox';
 import { acceptedTopologyIds, aliasNote, TOPOLOGIES } from '../../core/index.ts';
+import { CASE_SIZES } from '../../core/parts/capacitor/index.ts';
 import { AmplifierSpec, ComponentValue, ref, ResistanceOhm, Supply } from './common.ts';
 
-/** Every role of every topology; the core checks which ones the chosen topology needs. */
+/** The timing capacitor as a part (docs/model.md, "non-linear capacitor"): API names are binding. */
+export const TimingCapacitor = Type.Object(
+  {
+    value: ref(ComponentValue),
+    tolerance: Type.Optional(
+      Type.Union([Type.Number({ minimum: 0, exclusiveMaximum: 1 }), Type.String({ minLength: 1, maxLength: 8 })], {
+        description: 'Fraction (0.1), percent text ("10%") or an IEC 60062 letter ("K")',
+      }),
+    ),
+    dielectric: Type.Optional(
+      Type.String({ minLength: 1, maxLength: 40, description: 'EIA-198 code (C0G, X7R, Y5V...) or technology word (PP, PET, mica...). Class II/III codes bring a class-typical C(V) curve, ageing and leakage' }),
+    ),
+    ratedVoltageV: Type.Optional(Type.Number({ exclusiveMinimum: 0, maximum: 10000, description: 'Rated DC voltage, V (class II/III default: 16 V)' })),
+    caseSize: Type.Optional(Type.Union(CASE_SIZES.map((c) => Type.Literal(c)), { description: 'EIA inch case code (class II/III default: 0805)' })),
+    ageHours: Type.Optional(
+      Type.Number({ minimum: 0, maximum: 1e7, description: 'Hours since the last de-ageing (reflow soldering de-ages a class II part); default: the 1000 h reference age' }),
+    ),
+    biasCurve: Type.Optional(
+      Type.Array(
+        Type.Object(
+          {
+            voltageV: Type.Number({ minimum: 0, maximum: 10000 }),
+            capacitanceF: Type.Number({ exclusiveMinimum: 0 }),
+          },
+          { additionalProperties: false },
+        ),
+        { minItems: 1, maxItems: 64, description: 'Measured or published C(V) points of the actual part (absolute farads); replace the class-typical curve' },
+      ),
+    ),
+  },
+  {
+    $id: 'TimingCapacitor',
+    additionalProperties: false,
+    description: 'A timing capacitor with its dielectric, rating, case and age; class II/III ceramics then charge along their C(V) curve',
+  },
+);
+
+/** Every role of every topology; the core checks which ones the chosen topology needs. Capacitors may be given as parts. */
 function partProperties() {
   const props: Record<string, ReturnType<typeof Type.Optional>> = {};
   for (const t of TOPOLOGIES) {
     for (const [role, spec] of Object.entries(t.roles)) {
-      props[role] ??= Type.Optional(ref(ComponentValue));
-      void spec;
+      props[role] ??= Type.Optional(spec.kind === 'capacitor' ? Type.Union([ref(ComponentValue), ref(TimingCapacitor)]) : ref(ComponentValue));
     }
   }
   return props;
@@ -67,7 +104,7 @@ export const Circuit = Type.Object(
 
 export type CircuitBody = Static<typeof Circuit>;
 
-export const CIRCUIT_SCHEMAS = [Parts, OutputLoad, Diode, Circuit];
+export const CIRCUIT_SCHEMAS = [TimingCapacitor, Parts, OutputLoad, Diode, Circuit];
 
 /** The Circuit schema as a typed reference for route bodies. */
 export const circuitSchemaRef = ref(Circuit);
