@@ -1,0 +1,62 @@
+/**
+ * The engine with a class II timing capacitor (non-linear C(v) pieces) against
+ * the same engine with a linear capacitor of the same value, measured in this
+ * run — target: ≥ 100k analyses/s per core with C(v).
+ * Two circuits of our own: a 5 V moisture-probe clock on the ideal amplifier
+ * (one source-at-rest piece per state: quadrature) and on a slewing CMOS part
+ * (slew pieces too: Picard–Chebyshev).
+ * Run: npx tsx bench/capacitor.bench.ts
+ */
+import { findBuiltInAmplifier } from '../src/core/amplifiers/archetypes.ts';
+import { prepareCircuit } from '../src/core/circuit/analyze.ts';
+import { analyzeTimeDomain } from '../src/core/circuit/engine/index.ts';
+import type { Circuit } from '../src/core/circuit/types.ts';
+import { resolveCapacitor } from '../src/core/parts/capacitor/index.ts';
+
+const SECONDS = 1.5;
+const cap = resolveCapacitor({ value: '10n', dielectric: 'X7R', ratedVoltageV: 6.3, caseSize: '0402' });
+
+function circuitWith(amplifierId: string, nonlinear: boolean): Circuit {
+  return {
+    topology: 'three-resistor-divider',
+    supply: { positiveV: 5, negativeV: 0 },
+    amplifier: findBuiltInAmplifier(amplifierId)!,
+    parts: { rTiming: 22e3, cTiming: cap.capacitanceF, rTop: 68e3, rBottom: 68e3, rFeedback: 68e3 },
+    ...(nonlinear ? { capacitorShape: cap.shape } : {}),
+  };
+}
+
+/** Analyses per wall second and per CPU second of this process (the "one core" figure on a shared machine). */
+function rate(step: () => number): { wall: number; cpu: number; check: number } {
+  let n = 0;
+  let check = 0;
+  const c0 = process.cpuUsage();
+  const t0 = performance.now();
+  let t: number;
+  while ((t = performance.now()) - t0 < SECONDS * 1000) {
+    for (let i = 0; i < 200; i++) check += step();
+    n += 200;
+  }
+  const cpu = process.cpuUsage(c0);
+  return { wall: n / ((t - t0) / 1000), cpu: n / ((cpu.user + cpu.system) / 1e6), check };
+}
+
+const fmt = (x: number) => Math.round(x).toLocaleString('en-US');
+let bad = false;
+for (const amp of ['ideal', 'cmos-rro-micropower']) {
+  const linear = prepareCircuit(circuitWith(amp, false));
+  const curved = prepareCircuit(circuitWith(amp, true));
+  // Warm-up (JIT) before timing.
+  rate(() => analyzeTimeDomain(linear).periodS);
+  rate(() => analyzeTimeDomain(curved).periodS);
+  const l = rate(() => analyzeTimeDomain(linear).periodS);
+  const c = rate(() => analyzeTimeDomain(curved).periodS);
+  const fl = analyzeTimeDomain(linear).frequencyHz;
+  const fc = analyzeTimeDomain(curved).frequencyHz;
+  console.log(`${amp}: linear 10 nF ${fl.toFixed(1)} Hz, 0402 6.3 V X7R ${fc.toFixed(1)} Hz`);
+  console.log(`  engine, linear capacitor:  ${fmt(l.wall)} analyses/s wall, ${fmt(l.cpu)} per CPU-second`);
+  console.log(`  engine, class II C(v):     ${fmt(c.wall)} analyses/s wall, ${fmt(c.cpu)} per CPU-second (target ≥ 100,000/s per core)`);
+  console.log(`  ratio C(v)/linear (CPU):   ${(c.cpu / l.cpu).toFixed(3)}`);
+  if (!Number.isFinite(l.check + c.check)) bad = true;
+}
+if (bad) process.exitCode = 1;
