@@ -2219,6 +2219,18 @@ export interface components {
             differentialClampV?: number | null;
             /** @description Supply current of the amplifier itself, A. Accepted: 0 to 1 A. Range: 0 to 1 A. */
             quiescentCurrentA?: number;
+            /** @description Comparator delay versus overdrive (charge-control law, see propagation-delay.ts): after a step of overdrive Vod the delay is recoveryDelayS + k/Vod; when the input crosses the threshold at a slope S it is recoveryDelayS + √(2k/S). 0: the delay does not depend on overdrive. Two published points {overdriveV, delayS} give recoveryDelayS and k (delayLawFromPoints), V·s. Accepted: 0 to 0.001 V·s. Range: class-typical comparators: about 1e-10 to 1e-8 V·s (a few mV of overdrive costing a microsecond); up to 1 mV·s accepted. */
+            overdriveDelayChargeVS?: number;
+            /** @description Hysteresis built into the input stage: the output goes high when N falls below P + offset − h/2 and low when N rises above P + offset + h/2, V. Accepted: 0 to 0.2 V. Range: comparators with internal hysteresis have a few millivolts; 200 mV accepted. */
+            internalHysteresisV?: number;
+            /** @description Magnitude of the input offset drift with temperature (its sign differs part to part: temperature corners take both), V/K. Accepted: 0 to 0.001 V/K. Range: class-typical 0.5 to 20 µV/K; up to 1 mV/K accepted. */
+            inputOffsetDriftVPerK?: number;
+            /** @description Temperature rise that doubles the input bias current (JFET and CMOS gate leakage: about 10 K, common practice), K. Accepted: 1 to 1000 K; null: does not double with heat (bipolar inputs). Range: 1 K to 1000 K; leakage-dominated inputs double every 8 to 12 K. */
+            inputBiasDoublingK?: number | null;
+            /** @description Change of both output headrooms per kelvin (bipolar stages shrink with heat as V_BE falls, about −2 mV/K per junction), V/K. Accepted: -0.05 to 0.05 V/K. Range: ±50 mV/K; class-typical figures are a few mV/K. */
+            outputHeadroomDriftVPerK?: number;
+            /** @description Fractional change of the recovery/propagation delay per kelvin (0.003 = +0.3 %/K), none. Accepted: -0.05 to 0.05 none. Range: ±5 %/K; class-typical figures are a few tenths of a percent per kelvin. */
+            recoveryDelayDriftPerK?: number;
         };
         /** @description An amplifier id, or inline figures */
         AmplifierSpec: string | components["schemas"]["InlineAmplifier"];
@@ -2496,6 +2508,18 @@ export interface components {
             differentialClampV: number | null;
             /** @description Supply current of the amplifier itself, A. Accepted: 0 to 1 A. Range: 0 to 1 A. */
             quiescentCurrentA: number;
+            /** @description Comparator delay versus overdrive (charge-control law, see propagation-delay.ts): after a step of overdrive Vod the delay is recoveryDelayS + k/Vod; when the input crosses the threshold at a slope S it is recoveryDelayS + √(2k/S). 0: the delay does not depend on overdrive. Two published points {overdriveV, delayS} give recoveryDelayS and k (delayLawFromPoints), V·s. Accepted: 0 to 0.001 V·s. Range: class-typical comparators: about 1e-10 to 1e-8 V·s (a few mV of overdrive costing a microsecond); up to 1 mV·s accepted. */
+            overdriveDelayChargeVS: number;
+            /** @description Hysteresis built into the input stage: the output goes high when N falls below P + offset − h/2 and low when N rises above P + offset + h/2, V. Accepted: 0 to 0.2 V. Range: comparators with internal hysteresis have a few millivolts; 200 mV accepted. */
+            internalHysteresisV: number;
+            /** @description Magnitude of the input offset drift with temperature (its sign differs part to part: temperature corners take both), V/K. Accepted: 0 to 0.001 V/K. Range: class-typical 0.5 to 20 µV/K; up to 1 mV/K accepted. */
+            inputOffsetDriftVPerK: number;
+            /** @description Temperature rise that doubles the input bias current (JFET and CMOS gate leakage: about 10 K, common practice), K. Accepted: 1 to 1000 K; null: does not double with heat (bipolar inputs). Range: 1 K to 1000 K; leakage-dominated inputs double every 8 to 12 K. */
+            inputBiasDoublingK: number | null;
+            /** @description Change of both output headrooms per kelvin (bipolar stages shrink with heat as V_BE falls, about −2 mV/K per junction), V/K. Accepted: -0.05 to 0.05 V/K. Range: ±50 mV/K; class-typical figures are a few mV/K. */
+            outputHeadroomDriftVPerK: number;
+            /** @description Fractional change of the recovery/propagation delay per kelvin (0.003 = +0.3 %/K), none. Accepted: -0.05 to 0.05 none. Range: ±5 %/K; class-typical figures are a few tenths of a percent per kelvin. */
+            recoveryDelayDriftPerK: number;
         };
         AmplifierList: {
             amplifiers: components["schemas"]["Amplifier"][];
@@ -2553,6 +2577,18 @@ export interface components {
             differentialClampV?: number | null;
             /** @description Supply current of the amplifier itself, A. Accepted: 0 to 1 A. Range: 0 to 1 A. */
             quiescentCurrentA?: number;
+            /** @description Comparator delay versus overdrive (charge-control law, see propagation-delay.ts): after a step of overdrive Vod the delay is recoveryDelayS + k/Vod; when the input crosses the threshold at a slope S it is recoveryDelayS + √(2k/S). 0: the delay does not depend on overdrive. Two published points {overdriveV, delayS} give recoveryDelayS and k (delayLawFromPoints), V·s. Accepted: 0 to 0.001 V·s. Range: class-typical comparators: about 1e-10 to 1e-8 V·s (a few mV of overdrive costing a microsecond); up to 1 mV·s accepted. */
+            overdriveDelayChargeVS?: number;
+            /** @description Hysteresis built into the input stage: the output goes high when N falls below P + offset − h/2 and low when N rises above P + offset + h/2, V. Accepted: 0 to 0.2 V. Range: comparators with internal hysteresis have a few millivolts; 200 mV accepted. */
+            internalHysteresisV?: number;
+            /** @description Magnitude of the input offset drift with temperature (its sign differs part to part: temperature corners take both), V/K. Accepted: 0 to 0.001 V/K. Range: class-typical 0.5 to 20 µV/K; up to 1 mV/K accepted. */
+            inputOffsetDriftVPerK?: number;
+            /** @description Temperature rise that doubles the input bias current (JFET and CMOS gate leakage: about 10 K, common practice), K. Accepted: 1 to 1000 K; null: does not double with heat (bipolar inputs). Range: 1 K to 1000 K; leakage-dominated inputs double every 8 to 12 K. */
+            inputBiasDoublingK?: number | null;
+            /** @description Change of both output headrooms per kelvin (bipolar stages shrink with heat as V_BE falls, about −2 mV/K per junction), V/K. Accepted: -0.05 to 0.05 V/K. Range: ±50 mV/K; class-typical figures are a few mV/K. */
+            outputHeadroomDriftVPerK?: number;
+            /** @description Fractional change of the recovery/propagation delay per kelvin (0.003 = +0.3 %/K), none. Accepted: -0.05 to 0.05 none. Range: ±5 %/K; class-typical figures are a few tenths of a percent per kelvin. */
+            recoveryDelayDriftPerK?: number;
         };
         /** @description An IEC 60063 preferred-number series over a range of decades */
         Series: {

@@ -42,6 +42,13 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     inputOffsetV: 2e-3,
     differentialClampV: Infinity,
     quiescentCurrentA: 0.35e-3,
+    // Drift about 25 °C and comparator specifics: typical of the class, from memory.
+    overdriveDelayChargeVS: 0,
+    internalHysteresisV: 0,
+    inputOffsetDriftVPerK: 7e-6,
+    inputBiasDoublingK: Infinity,
+    outputHeadroomDriftVPerK: -2e-3,
+    recoveryDelayDriftPerK: 0.003,
   },
   {
     id: 'bipolar-split-supply-general',
@@ -65,6 +72,13 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     inputOffsetV: 1e-3,
     differentialClampV: Infinity,
     quiescentCurrentA: 1.7e-3,
+    // Drift about 25 °C and comparator specifics: typical of the class, from memory.
+    overdriveDelayChargeVS: 0,
+    internalHysteresisV: 0,
+    inputOffsetDriftVPerK: 5e-6,
+    inputBiasDoublingK: Infinity,
+    outputHeadroomDriftVPerK: -2e-3,
+    recoveryDelayDriftPerK: 0.003,
   },
   {
     id: 'bipolar-low-noise-clamped',
@@ -88,6 +102,13 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     inputOffsetV: 0.1e-3,
     differentialClampV: 0.7,
     quiescentCurrentA: 4e-3,
+    // Drift about 25 °C and comparator specifics: typical of the class, from memory.
+    overdriveDelayChargeVS: 0,
+    internalHysteresisV: 0,
+    inputOffsetDriftVPerK: 0.5e-6,
+    inputBiasDoublingK: Infinity,
+    outputHeadroomDriftVPerK: -2e-3,
+    recoveryDelayDriftPerK: 0.003,
   },
   {
     id: 'jfet-input-general',
@@ -111,6 +132,13 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     inputOffsetV: 3e-3,
     differentialClampV: Infinity,
     quiescentCurrentA: 1.4e-3,
+    // Drift about 25 °C and comparator specifics: typical of the class, from memory.
+    overdriveDelayChargeVS: 0,
+    internalHysteresisV: 0,
+    inputOffsetDriftVPerK: 10e-6,
+    inputBiasDoublingK: 10,
+    outputHeadroomDriftVPerK: -1e-3,
+    recoveryDelayDriftPerK: 0.002,
   },
   {
     id: 'cmos-rro-micropower',
@@ -134,6 +162,13 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     inputOffsetV: 1e-3,
     differentialClampV: Infinity,
     quiescentCurrentA: 10e-6,
+    // Drift about 25 °C and comparator specifics: typical of the class, from memory.
+    overdriveDelayChargeVS: 0,
+    internalHysteresisV: 0,
+    inputOffsetDriftVPerK: 2e-6,
+    inputBiasDoublingK: 10,
+    outputHeadroomDriftVPerK: 1e-4,
+    recoveryDelayDriftPerK: 0.003,
   },
   {
     id: 'cmos-rrio-fast',
@@ -157,6 +192,13 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     inputOffsetV: 1e-3,
     differentialClampV: Infinity,
     quiescentCurrentA: 1.2e-3,
+    // Drift about 25 °C and comparator specifics: typical of the class, from memory.
+    overdriveDelayChargeVS: 0,
+    internalHysteresisV: 0,
+    inputOffsetDriftVPerK: 1e-6,
+    inputBiasDoublingK: 10,
+    outputHeadroomDriftVPerK: 1e-4,
+    recoveryDelayDriftPerK: 0.003,
   },
   {
     id: 'comparator-open-drain-bipolar',
@@ -180,6 +222,13 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     inputOffsetV: 2e-3,
     differentialClampV: Infinity,
     quiescentCurrentA: 0.2e-3,
+    // Drift about 25 °C and comparator specifics: typical of the class, from memory.
+    overdriveDelayChargeVS: 0,
+    internalHysteresisV: 0,
+    inputOffsetDriftVPerK: 5e-6,
+    inputBiasDoublingK: Infinity,
+    outputHeadroomDriftVPerK: -2e-3,
+    recoveryDelayDriftPerK: 0.003,
   },
   {
     id: 'comparator-push-pull-cmos',
@@ -203,6 +252,13 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     inputOffsetV: 1e-3,
     differentialClampV: Infinity,
     quiescentCurrentA: 50e-6,
+    // Drift about 25 °C and comparator specifics: typical of the class, from memory.
+    overdriveDelayChargeVS: 0,
+    internalHysteresisV: 0,
+    inputOffsetDriftVPerK: 2e-6,
+    inputBiasDoublingK: 10,
+    outputHeadroomDriftVPerK: 1e-4,
+    recoveryDelayDriftPerK: 0.003,
   },
 ] satisfies AmplifierModel[]);
 

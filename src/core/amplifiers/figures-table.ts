@@ -241,6 +241,66 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     rangeNote: '0 to 1 A',
   },
+  overdriveDelayChargeVS: {
+    kind: 'number',
+    unit: 'V·s',
+    description:
+      'Comparator delay versus overdrive (charge-control law, see propagation-delay.ts): after a step of overdrive Vod the delay is recoveryDelayS + k/Vod; ' +
+      'when the input crosses the threshold at a slope S it is recoveryDelayS + √(2k/S). 0: the delay does not depend on overdrive. ' +
+      'Two published points {overdriveV, delayS} give recoveryDelayS and k (delayLawFromPoints)',
+    min: 0,
+    max: 1e-3,
+    ideal: 0,
+    timeDomain: true,
+    rangeNote: 'class-typical comparators: about 1e-10 to 1e-8 V·s (a few mV of overdrive costing a microsecond); up to 1 mV·s accepted',
+  },
+  internalHysteresisV: {
+    kind: 'number',
+    unit: 'V',
+    description: 'Hysteresis built into the input stage: the output goes high when N falls below P + offset − h/2 and low when N rises above P + offset + h/2',
+    min: 0,
+    max: 0.2,
+    ideal: 0,
+    timeDomain: true,
+    rangeNote: 'comparators with internal hysteresis have a few millivolts; 200 mV accepted',
+  },
+  inputOffsetDriftVPerK: {
+    kind: 'number',
+    unit: 'V/K',
+    description: 'Magnitude of the input offset drift with temperature (its sign differs part to part: temperature corners take both)',
+    min: 0,
+    max: 1e-3,
+    ideal: 0,
+    rangeNote: 'class-typical 0.5 to 20 µV/K; up to 1 mV/K accepted',
+  },
+  inputBiasDoublingK: {
+    kind: 'number',
+    unit: 'K',
+    description: 'Temperature rise that doubles the input bias current (JFET and CMOS gate leakage: about 10 K, common practice)',
+    min: 1,
+    max: 1000,
+    unlimited: { value: Infinity, meaning: 'does not double with heat (bipolar inputs)' },
+    ideal: Infinity,
+    rangeNote: '1 K to 1000 K; leakage-dominated inputs double every 8 to 12 K',
+  },
+  outputHeadroomDriftVPerK: {
+    kind: 'number',
+    unit: 'V/K',
+    description: 'Change of both output headrooms per kelvin (bipolar stages shrink with heat as V_BE falls, about −2 mV/K per junction)',
+    min: -0.05,
+    max: 0.05,
+    ideal: 0,
+    rangeNote: '±50 mV/K; class-typical figures are a few mV/K',
+  },
+  recoveryDelayDriftPerK: {
+    kind: 'number',
+    unit: 'none',
+    description: 'Fractional change of the recovery/propagation delay per kelvin (0.003 = +0.3 %/K)',
+    min: -0.05,
+    max: 0.05,
+    ideal: 0,
+    rangeNote: '±5 %/K; class-typical figures are a few tenths of a percent per kelvin',
+  },
 } as const satisfies Record<string, FigureDescriptor>;
 
 export type AmplifierFigureTable = typeof AMPLIFIER_FIGURE_TABLE;

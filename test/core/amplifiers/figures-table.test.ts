@@ -108,7 +108,7 @@ describe('amplifier figure table', () => {
 
   it('derives the wire null table, the tolerance list and the fit list from the entries', () => {
     expect(UNLIMITED_FIGURES.map((u) => u.name).sort()).toEqual(
-      ['supplyMaxV', 'outputCurrentLimitA', 'slewRateVPerS', 'inputCommonModeLowMarginV', 'inputCommonModeHighMarginV', 'differentialClampV'].sort(),
+      ['supplyMaxV', 'outputCurrentLimitA', 'slewRateVPerS', 'inputCommonModeLowMarginV', 'inputCommonModeHighMarginV', 'differentialClampV', 'inputBiasDoublingK'].sort(),
     );
     expect(UNLIMITED_FIGURES.find((u) => u.name === 'inputCommonModeLowMarginV')!.value).toBe(-Infinity);
     expect(TOLERANCE_FIGURES).toEqual(['outputHeadroomHighV', 'outputHeadroomLowV', 'outputResistanceOhm', 'slewRateVPerS', 'recoveryDelayS', 'inputBiasCurrentA', 'inputOffsetV']);

@@ -198,7 +198,8 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     const P = V[NODE.decision];
     const N = V[NODE.capacitor];
     const out: { g: number; act: () => void }[] = [];
-    out.push({ g: (d.logic ? 1 : -1) * (P + amp.inputOffsetV - N), act: flip });
+    // Internal hysteresis: the decision moves h/2 beyond P + offset in the direction of travel.
+    out.push({ g: (d.logic ? 1 : -1) * (P + amp.inputOffsetV - N) + (amp.internalHysteresisV ?? 0) / 2, act: flip });
     if (c.topology === 'diode-steered') {
       // charge diode: output -> N; discharge diode: N -> output (forward drop, then resistance)
       const fc = V[NODE.output] - N - diode.forwardDropV;
@@ -231,13 +232,27 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   let upperV = NaN;
   const targetMarks: { t: number; I: number; target: number; pinBefore: number }[] = [];
 
+  /** Delay of this decision: recoveryDelayS plus the charge-control term √(2k/S) at the input slope S = |d(P − N)/dt|. */
+  function delayNow(): number {
+    const k = amp.overdriveDelayChargeVS ?? 0;
+    if (!(k > 0)) return delay;
+    const dec = NODE.decision;
+    const base = nodeVoltages(c, d, y[0], y[1]).V[dec];
+    const h = 1e-3;
+    const pV = (nodeVoltages(c, d, y[0] + h, y[1]).V[dec] - base) / h;
+    const pS = (nodeVoltages(c, d, y[0], y[1] + h).V[dec] - base) / h;
+    const dv = rhs(t, y)[0];
+    const slope = Math.abs(pV * dv + pS * d.rate - dv);
+    return slope > 0 ? delay + Math.sqrt((2 * k) / slope) : delay;
+  }
   function flip() {
+    const thisDelay = delayNow();
     d.logic ^= 1;
     if (d.logic) {
       risingTimes.push(t);
       risingV.push(y[0]);
     } else upperV = y[0];
-    if (delay > 0) d.pending.push(t + delay);
+    if (thisDelay > 0) d.pending.push(t + thisDelay);
     else changeTarget();
   }
   function changeTarget() {

@@ -44,6 +44,8 @@ export const AMPLIFIER_PARAMETERS = [
   'recoveryDelayS',
   'outputCurrentLimitA',
   'differentialClampV',
+  'internalHysteresisV',
+  'overdriveDelayChargeVS',
 ] as const satisfies readonly (keyof AmplifierModel)[];
 export type AmplifierParameter = (typeof AMPLIFIER_PARAMETERS)[number];
 export const SUPPLY_PARAMETERS = ['supplyPositiveV', 'supplyNegativeV'] as const;

@@ -29,6 +29,7 @@ import { formatVolts } from '../format.ts';
 import type { CompiledShape } from './compiled-network.ts';
 import { CLAMP, configKey, STAGE } from './compiled-network.ts';
 import { BOUNDARY_TOLERANCE, ConfigCache, diodeBits, EVENT, type ConfigModel } from './configs.ts';
+import { delayForRampS } from '../../amplifiers/propagation-delay.ts';
 import { CapacitorKinematics } from './capacitor-kinematics.ts';
 import { PieceEvaluator } from './piece-evaluator.ts';
 import { PieceLog } from './piece-log.ts';
@@ -131,6 +132,11 @@ export class OscillatorWalk {
   private pendingHead = 0;
   private pendingCount = 0;
   private motionFlipS = 0;
+  /** Delay of each pending flip (it depends on the input slope when the delay follows overdrive). */
+  private readonly pendingDelay = new Float64Array(PENDING_CAPACITY);
+  /** Half the comparator's internal hysteresis, V, and its overdrive-delay charge k, V·s. */
+  private halfHystV = 0;
+  private delayChargeVS = 0;
   private riseS = Number.NaN;
   private fallS = Number.NaN;
   private upperV = Number.NaN;
@@ -170,6 +176,9 @@ export class OscillatorWalk {
     this.lowV = values[slot.negativeV] + values[slot.headroomLow];
     this.slewVPerS = dynamics ? values[slot.slew] : Infinity;
     this.delayS = dynamics ? values[slot.delay] : 0;
+    const l = shape.layout;
+    this.halfHystV = dynamics ? values[l.indexOf('internalHysteresisV')] / 2 : 0;
+    this.delayChargeVS = dynamics ? values[l.indexOf('overdriveDelayChargeVS')] : 0;
     this.vTol = BOUNDARY_TOLERANCE * this.cache.spanV;
     this.steadyTolV = STEADY_STATE_TOLERANCE * this.cache.spanV;
     this.riseS = this.fallS = this.upperV = Number.NaN;
@@ -252,6 +261,8 @@ export class OscillatorWalk {
     for (let k = 0; k < start.pendingCount; k++) this.pending[k] = Math.min(start.pendingRelS[k], this.delayS);
     // The decision that starts the cycle queued its own flip a full delay ahead.
     if (this.pendingCount > 0) this.pending[this.pendingCount - 1] = this.delayS;
+    // The start state's flips are taken at the floor delay (an overdrive-dependent delay settles within the walk).
+    this.pendingDelay.fill(this.delayS, 0, this.pendingCount);
     this.motionFlipS = start.motionFlipRelS;
     const cfg = this.cache.tryGet(this.key);
     if (!cfg || !(cfg.hV !== 0)) return false;
@@ -317,7 +328,8 @@ export class OscillatorWalk {
     ends.fill(kin, best);
     const sg = this.logic ? 1 : -1;
     const probe = this.probe;
-    let te = firstExit(probe, ends, sg * cfg.hC, sg * cfg.hV, sg * cfg.hS, this.vTol);
+    // Internal hysteresis moves the decision h/2 beyond P + offset in the direction of travel.
+    let te = firstExit(probe, ends, sg * cfg.hC + this.halfHystV, sg * cfg.hV, sg * cfg.hS, this.vTol);
     if (te < best) {
       best = te;
       kind = EVENT.threshold;
@@ -363,11 +375,13 @@ export class OscillatorWalk {
 
   private apply(kind: number, index: number): void {
     switch (kind) {
-      case TIME_TARGET:
+      case TIME_TARGET: {
+        const delayS = this.pendingDelay[this.pendingHead];
         this.pendingHead = (this.pendingHead + 1) % PENDING_CAPACITY;
         this.pendingCount--;
-        this.changeTarget();
+        this.changeTarget(delayS);
         break;
+      }
       case TIME_SLEW_END:
         this.s = this.targetLevel();
         this.rate = 0;
@@ -411,23 +425,40 @@ export class OscillatorWalk {
       this.lastRiseT = this.t;
       this.lastRiseV = this.v;
     }
-    if (this.delayS > 0) {
+    const delayS = this.decisionDelayS();
+    if (delayS > 0) {
       if (this.pendingCount === PENDING_CAPACITY) {
         throw new CoreError('not-converged', 'The comparator flips faster than its recovery delay lets the output follow', undefined, {
           recoveryDelayS: this.delayS,
         });
       }
-      this.pending[(this.pendingHead + this.pendingCount) % PENDING_CAPACITY] = this.t + this.delayS;
+      const slot = (this.pendingHead + this.pendingCount) % PENDING_CAPACITY;
+      this.pending[slot] = this.t + delayS;
+      this.pendingDelay[slot] = delayS;
       this.pendingCount++;
     } else {
-      this.changeTarget();
+      this.changeTarget(0);
     }
   }
 
   /** The delayed decision reaches the output stage. */
-  private changeTarget(): void {
+  /**
+   * Delay from this decision to the output moving: the recovery/propagation
+   * delay, plus for a comparator whose delay follows overdrive the
+   * charge-control term √(2k/S) at the slope S with which N − P crosses its
+   * threshold now (amplifiers/propagation-delay.ts).
+   */
+  private decisionDelayS(): number {
+    if (!(this.delayChargeVS > 0)) return this.delayS;
+    const cfg = this.cache.get(this.key);
+    const dv = (cfg.b0 + cfg.bS * this.s - cfg.a * this.v) / this.kin.shape.ratio(this.v);
+    const slope = Math.abs(cfg.hV * dv + cfg.hS * this.rate);
+    return slope > 0 ? delayForRampS({ floorS: this.delayS, chargeVS: this.delayChargeVS }, slope) : this.delayS;
+  }
+
+  private changeTarget(delayS: number): void {
     this.target ^= 1;
-    this.motionFlipS = this.t - this.delayS;
+    this.motionFlipS = this.t - delayS;
     if (this.cache.openDrain) {
       if (this.target) {
         // Released: no drive and (without pin capacitance) no slew.
@@ -480,7 +511,7 @@ export class OscillatorWalk {
       const v = this.v;
       const s = this.s;
       const sg = this.logic ? 1 : -1;
-      let worst = (sg * (cfg.hC + cfg.hV * v + cfg.hS * s)) / this.vTol;
+      let worst = (sg * (cfg.hC + cfg.hV * v + cfg.hS * s) + this.halfHystV) / this.vTol;
       let kind: number = EVENT.threshold;
       let index = 0;
       for (let k = 0; k < cfg.eventCount; k++) {
@@ -584,9 +615,9 @@ export class OscillatorWalk {
     const sLimit = h[2] + (d2 * ratio) / (1 - ratio);
     const cfg = this.cache.get(key);
     if (!(cfg.hV !== 0) || !Number.isFinite(sLimit)) return false;
-    // A rising decision happens on the threshold: v follows from s there.
+    // A rising decision happens on the threshold (h/2 of internal hysteresis below it): v follows from s there.
     this.s = sLimit;
-    this.v = (cfg.hC + cfg.hS * sLimit) / -cfg.hV;
+    this.v = (cfg.hC + cfg.hS * sLimit - this.halfHystV) / -cfg.hV;
     this.lastRiseV = this.v;
     if (Number.isNaN(this.extrapolatedAtS)) this.extrapolatedAtS = this.t;
     return true;
@@ -596,7 +627,7 @@ export class OscillatorWalk {
   private latch(cfg: ConfigModel): never {
     const state = this.target ? 'high' : 'low';
     const s = this.s;
-    const thresholdV = (cfg.hC + cfg.hS * s) / -cfg.hV;
+    const thresholdV = (cfg.hC + cfg.hS * s + (this.logic ? 1 : -1) * this.halfHystV) / -cfg.hV;
     const where = this.target ? 'reach the upper' : 'fall to the lower';
     const detail: string[] = [];
     if (cfg.clamp !== CLAMP.off) detail.push('the input clamp conducting');
