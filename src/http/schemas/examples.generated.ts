@@ -72,7 +72,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
         "inputBiasCurrentA": 1e-12,
         "inputOffsetV": 0.001,
         "differentialClampV": null,
-        "quiescentCurrentA": 0.0012
+        "quiescentCurrentA": 0.0012,
+        "overdriveDelayChargeVS": 0,
+        "internalHysteresisV": 0,
+        "inputOffsetDriftVPerK": 0.000001,
+        "inputBiasDoublingK": 10,
+        "outputHeadroomDriftVPerK": 0.0001,
+        "recoveryDelayDriftPerK": 0.003
       }
     }
   },
@@ -2516,7 +2522,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
-      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 3.503525\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.137222\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 3.640747\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 7\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 2\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
+      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 4.587778\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.155167\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 4.742945\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 7\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 2\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
     }
   },
   "GET /problems/{code}": {
@@ -2758,7 +2764,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": 0,
             "inputOffsetV": 0,
             "differentialClampV": null,
-            "quiescentCurrentA": 0
+            "quiescentCurrentA": 0,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0,
+            "inputBiasDoublingK": null,
+            "outputHeadroomDriftVPerK": 0,
+            "recoveryDelayDriftPerK": 0
           },
           {
             "id": "bipolar-single-supply-general",
@@ -2781,7 +2793,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": -4.5e-8,
             "inputOffsetV": 0.002,
             "differentialClampV": null,
-            "quiescentCurrentA": 0.00035
+            "quiescentCurrentA": 0.00035,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0.000007,
+            "inputBiasDoublingK": null,
+            "outputHeadroomDriftVPerK": -0.002,
+            "recoveryDelayDriftPerK": 0.003
           },
           {
             "id": "bipolar-split-supply-general",
@@ -2804,7 +2822,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": 8e-8,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
-            "quiescentCurrentA": 0.0017
+            "quiescentCurrentA": 0.0017,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0.000005,
+            "inputBiasDoublingK": null,
+            "outputHeadroomDriftVPerK": -0.002,
+            "recoveryDelayDriftPerK": 0.003
           },
           {
             "id": "bipolar-low-noise-clamped",
@@ -2827,7 +2851,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": 2e-7,
             "inputOffsetV": 0.0001,
             "differentialClampV": 0.7,
-            "quiescentCurrentA": 0.004
+            "quiescentCurrentA": 0.004,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 5e-7,
+            "inputBiasDoublingK": null,
+            "outputHeadroomDriftVPerK": -0.002,
+            "recoveryDelayDriftPerK": 0.003
           },
           {
             "id": "jfet-input-general",
@@ -2850,7 +2880,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": 3e-11,
             "inputOffsetV": 0.003,
             "differentialClampV": null,
-            "quiescentCurrentA": 0.0014
+            "quiescentCurrentA": 0.0014,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0.00001,
+            "inputBiasDoublingK": 10,
+            "outputHeadroomDriftVPerK": -0.001,
+            "recoveryDelayDriftPerK": 0.002
           },
           {
             "id": "cmos-rro-micropower",
@@ -2873,7 +2909,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": 1e-12,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
-            "quiescentCurrentA": 0.00001
+            "quiescentCurrentA": 0.00001,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0.000002,
+            "inputBiasDoublingK": 10,
+            "outputHeadroomDriftVPerK": 0.0001,
+            "recoveryDelayDriftPerK": 0.003
           },
           {
             "id": "cmos-rrio-fast",
@@ -2896,7 +2938,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": 1e-12,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
-            "quiescentCurrentA": 0.0012
+            "quiescentCurrentA": 0.0012,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0.000001,
+            "inputBiasDoublingK": 10,
+            "outputHeadroomDriftVPerK": 0.0001,
+            "recoveryDelayDriftPerK": 0.003
           },
           {
             "id": "comparator-open-drain-bipolar",
@@ -2919,7 +2967,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": -2.5e-8,
             "inputOffsetV": 0.002,
             "differentialClampV": null,
-            "quiescentCurrentA": 0.0002
+            "quiescentCurrentA": 0.0002,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0.000005,
+            "inputBiasDoublingK": null,
+            "outputHeadroomDriftVPerK": -0.002,
+            "recoveryDelayDriftPerK": 0.003
           },
           {
             "id": "comparator-push-pull-cmos",
@@ -2942,7 +2996,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": 1e-12,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
-            "quiescentCurrentA": 0.00005
+            "quiescentCurrentA": 0.00005,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0.000002,
+            "inputBiasDoublingK": 10,
+            "outputHeadroomDriftVPerK": 0.0001,
+            "recoveryDelayDriftPerK": 0.003
           },
           {
             "id": "greenhouse-probe-amp",
@@ -2965,7 +3025,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputBiasCurrentA": 1e-12,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
-            "quiescentCurrentA": 0.0012
+            "quiescentCurrentA": 0.0012,
+            "overdriveDelayChargeVS": 0,
+            "internalHysteresisV": 0,
+            "inputOffsetDriftVPerK": 0.000001,
+            "inputBiasDoublingK": 10,
+            "outputHeadroomDriftVPerK": 0.0001,
+            "recoveryDelayDriftPerK": 0.003
           }
         ]
       }
@@ -2995,7 +3061,13 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
         "inputBiasCurrentA": 1e-12,
         "inputOffsetV": 0.001,
         "differentialClampV": null,
-        "quiescentCurrentA": 0.0012
+        "quiescentCurrentA": 0.0012,
+        "overdriveDelayChargeVS": 0,
+        "internalHysteresisV": 0,
+        "inputOffsetDriftVPerK": 0.000001,
+        "inputBiasDoublingK": 10,
+        "outputHeadroomDriftVPerK": 0.0001,
+        "recoveryDelayDriftPerK": 0.003
       }
     }
   },
