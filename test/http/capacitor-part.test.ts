@@ -43,7 +43,6 @@ describe('timing capacitor object', () => {
     const res = await post('/v1/analyze', probe(x7r));
     expect(res.statusCode).toBe(200);
     const body = res.json();
-    expect(body.model).toBe('time-domain');
     // Thresholds at V+/3 and 2V+/3 (three equal resistors, Sedra & Smith).
     expect(body.capacitor.minV).toBeCloseTo(5 / 3, 9);
     expect(body.capacitor.maxV).toBeCloseTo(10 / 3, 9);

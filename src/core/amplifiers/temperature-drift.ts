@@ -48,3 +48,13 @@ export function figuresAtTemperature<T extends AmplifierFigures>(amp: T, drift: 
     recoveryDelayS: amp.recoveryDelayS * delayFactor,
   };
 }
+
+/** The drift figures of an amplifier (its table entries). */
+export function driftOf(amp: AmplifierFigures): AmplifierDrift {
+  return {
+    inputOffsetDriftVPerK: amp.inputOffsetDriftVPerK,
+    inputBiasDoublingK: amp.inputBiasDoublingK,
+    outputHeadroomDriftVPerK: amp.outputHeadroomDriftVPerK,
+    delayDriftPerK: amp.recoveryDelayDriftPerK,
+  };
+}
