@@ -1,3 +1,4 @@
+import { reviveBiasShape, type BiasShape } from '../../core/parts/capacitor/index.ts';
 /**
  * Named pure-core tasks the worker pool can run. Each is a synchronous function
  * of structured-cloneable input (plain objects, numbers including Infinity,
@@ -18,7 +19,12 @@ export const TASKS = {
   /** POST /v1/fit: capture analysis (up to millions of samples), MAP fit, diagnosis. */
   fit: (input: FitInput) => fitCircuit(input),
   /** POST /v1/waveform: time-domain walk, sampling (up to the sample cap) and the serialised answer. */
-  waveform: (input: WaveformTaskInput) => waveformTask(input),
+  waveform: (input: WaveformTaskInput) => {
+    // The capacitor's C(v) shape arrives as plain data (structured clone): make it whole again.
+    const circuit = input.circuit as { capacitorShape?: BiasShape };
+    if (circuit?.capacitorShape) circuit.capacitorShape = reviveBiasShape(circuit.capacitorShape);
+    return waveformTask(input);
+  },
   /** Round trip through a worker (health and tests): echoes its input and names the thread. */
   echo: <T>(input: T) => input,
   /** Busy-waits for input.ms milliseconds, then answers (tests of event-loop freedom and queueing). */

@@ -202,3 +202,18 @@ export function typicalBiasShape(d: Dielectric | undefined, ratedVoltageV: numbe
 function invalid(message: string, pointer?: string): never {
   throw new CoreError('invalid-value', message, pointer);
 }
+
+/**
+ * A shape that crossed a thread boundary (structured clone keeps the data, not
+ * the class) made whole again; a live shape is returned as is.
+ */
+export function reviveBiasShape(shape: BiasShape | undefined): BiasShape | undefined {
+  if (!shape || typeof shape.ratio === 'function') return shape;
+  const data = shape as unknown as { kind: string; scaleV?: number; vs?: Float64Array; rs?: Float64Array; zeroBiasF?: number };
+  if (data.kind === 'class-typical' && data.scaleV !== undefined) return new JohnsonShape(data.scaleV);
+  if (data.kind === 'points' && data.vs && data.rs && data.zeroBiasF !== undefined) {
+    const z = data.zeroBiasF;
+    return new PointsShape(Array.from(data.vs, (v, i) => ({ voltageV: v, capacitanceF: data.rs![i] * z })));
+  }
+  return FLAT_SHAPE;
+}
