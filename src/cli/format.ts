@@ -3,25 +3,12 @@
  * shaping of what the service answered — no figure is computed here.
  */
 import Table from 'cli-table3';
+import { formatSi } from '../core/circuit/format.ts';
 
-const PREFIXES: [number, string][] = [
-  [1e9, 'G'],
-  [1e6, 'M'],
-  [1e3, 'k'],
-  [1, ''],
-  [1e-3, 'm'],
-  [1e-6, 'µ'],
-  [1e-9, 'n'],
-  [1e-12, 'p'],
-];
-
-/** 4764.86, 'Hz' -> "4.765 kHz"; null -> "—" (no limit / not known on the wire). */
+/** 4764.86, 'Hz' -> "4.765 kHz"; null -> "—" (no limit / not known on the wire). The prefixes are the core's. */
 export function si(value: number | null | undefined, unit: string, digits = 4): string {
   if (value === null || value === undefined) return '—';
-  if (value === 0) return `0 ${unit}`.trim();
-  const magnitude = Math.abs(value);
-  const [scale, prefix] = PREFIXES.find(([s]) => magnitude >= s * 0.9995) ?? PREFIXES[PREFIXES.length - 1];
-  return `${Number((value / scale).toPrecision(digits))} ${prefix}${unit}`.trim();
+  return formatSi(value, unit, digits).trim();
 }
 
 export function percent(fraction: number | null | undefined, digits = 3): string {
