@@ -2284,7 +2284,7 @@ export interface components {
             tolerance?: number | string;
             /** @description EIA-198 code (C0G, X7R, Y5V...) or technology word (PP, PET, mica...). Class II/III codes bring a class-typical C(V) curve, ageing and leakage */
             dielectric?: string;
-            /** @description Rated DC voltage, V (class II/III default: 16 V) */
+            /** @description Rated DC voltage, V (class II/III default: 16 V); ceramic ratings start at a few volts, so below 1 V is refused as a slip */
             ratedVoltageV?: number;
             /** @description EIA inch case code (class II/III default: 0805) */
             caseSize?: "01005" | "0201" | "0402" | "0603" | "0805" | "1206" | "1210" | "1812" | "2220";
@@ -2635,7 +2635,7 @@ export interface components {
             tempcoPpmPerK?: number;
             /** @description Capacitors only: EIA-198 ceramic code (C0G, X7R, U2J...) or a technology (PP, PET, PPS, PEN, mica, tantalum, electrolytic) */
             dielectric?: string;
-            /** @description Rated voltage, V */
+            /** @description Rated voltage, V (1 V to 10 kV) */
             ratedVoltageV?: number;
             /** @description The owner's own part number; unique within the catalogue */
             partNumber: string;
@@ -2659,7 +2659,7 @@ export interface components {
             tempcoPpmPerK?: number;
             /** @description Capacitors only: EIA-198 ceramic code (C0G, X7R, U2J...) or a technology (PP, PET, PPS, PEN, mica, tantalum, electrolytic) */
             dielectric?: string;
-            /** @description Rated voltage, V */
+            /** @description Rated voltage, V (1 V to 10 kV) */
             ratedVoltageV?: number;
             /** @description The owner's own part number; unique within the catalogue */
             partNumber: string;

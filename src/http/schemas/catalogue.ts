@@ -28,7 +28,7 @@ const partProperties = {
       description: 'Capacitors only: EIA-198 ceramic code (C0G, X7R, U2J...) or a technology (PP, PET, PPS, PEN, mica, tantalum, electrolytic)',
     }),
   ),
-  ratedVoltageV: Type.Optional(Type.Number({ exclusiveMinimum: 0, description: 'Rated voltage, V' })),
+  ratedVoltageV: Type.Optional(Type.Number({ minimum: 1, maximum: 10000, description: 'Rated voltage, V (1 V to 10 kV)' })),
   partNumber: Type.String({ minLength: 1, maxLength: 80, description: "The owner's own part number; unique within the catalogue" }),
   package: Type.Optional(Type.String({ minLength: 1, maxLength: 40, description: 'Package or case, e.g. 0603' })),
   status: Type.Union([Type.Literal('preferred'), Type.Literal('active'), Type.Literal('not-for-new-designs')], {

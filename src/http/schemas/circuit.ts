@@ -16,7 +16,7 @@ export const TimingCapacitor = Type.Object(
     dielectric: Type.Optional(
       Type.String({ minLength: 1, maxLength: 40, description: 'EIA-198 code (C0G, X7R, Y5V...) or technology word (PP, PET, mica...). Class II/III codes bring a class-typical C(V) curve, ageing and leakage' }),
     ),
-    ratedVoltageV: Type.Optional(Type.Number({ exclusiveMinimum: 0, maximum: 10000, description: 'Rated DC voltage, V (class II/III default: 16 V)' })),
+    ratedVoltageV: Type.Optional(Type.Number({ minimum: 1, maximum: 10000, description: 'Rated DC voltage, V (class II/III default: 16 V); ceramic ratings start at a few volts, so below 1 V is refused as a slip' })),
     caseSize: Type.Optional(Type.Union(CASE_SIZES.map((c) => Type.Literal(c)), { description: 'EIA inch case code (class II/III default: 0805)' })),
     ageHours: Type.Optional(
       Type.Number({ minimum: 0, maximum: 1e7, description: 'Hours since the last de-ageing (reflow soldering de-ages a class II part); default: the 1000 h reference age' }),
