@@ -39,3 +39,15 @@ test.each([1, 6.3, 10000])('a %s V rating (range edges included) is analysed', a
   expect(res.statusCode).toBe(200);
   await expectContract(res, 'POST', '/v1/analyze');
 });
+
+// Regression (fuzz test): a 1 fF class II capacitor behind a slewing output made one slewing piece need more
+// solution segments than the engine allows and ended in a 500; it is now a 422 naming the capacitor.
+test('a 1 fF X7R timing capacitor behind a slewing output: 4xx naming the capacitor, never a 5xx', async () => {
+  const payload = body(6.3);
+  payload.parts.cTiming.value = 1e-15 as unknown as string;
+  const res = await app.inject({ method: 'POST', url: '/v1/analyze', payload });
+  expect(res.statusCode).toBeGreaterThanOrEqual(400);
+  expect(res.statusCode).toBeLessThan(500);
+  expect(res.body).toContain('/parts/cTiming');
+  await expectContract(res, 'POST', '/v1/analyze');
+});

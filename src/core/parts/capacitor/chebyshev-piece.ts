@@ -17,6 +17,7 @@
  * Slew pieces are short against the time constant in any working oscillator,
  * so one sub-interval is the usual case.
  */
+import { CoreError } from '../../errors.ts';
 import type { BiasShape } from './dc-bias.ts';
 
 /** Polynomial degree per sub-interval. */
@@ -116,7 +117,16 @@ export class ChebyshevPiece {
       if (this.segments === 0) this.h = Math.max(t, 1e-300);
     }
     while (this.segStart[this.segments] < t) {
-      if (this.segments === MAX_SEGMENTS) throw new Error('ChebyshevPiece: piece longer than the segment budget');
+      // A caller can reach this with a capacitance so small against the slew time that one slewing piece
+      // needs more collocation segments than the budget: refuse it as a limit, naming the part (never a 500).
+      if (this.segments === MAX_SEGMENTS) {
+        throw new CoreError(
+          'limit-exceeded',
+          'the non-linear timing capacitor is too small for this amplifier\'s slew: one output edge would need more than ' +
+            `${MAX_SEGMENTS} solution segments; use a larger capacitance or a linear (class I / film) capacitor`,
+          '/parts/cTiming',
+        );
+      }
       this.solveSegment(this.segments);
       this.segments++;
     }
