@@ -223,7 +223,7 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description Default Response */
+                /** @description Steady-state figures of one circuit, with the design checks */
                 200: {
                     headers: {
                         [name: string]: unknown;
@@ -423,7 +423,7 @@ export interface paths {
             };
             requestBody?: never;
             responses: {
-                /** @description Default Response */
+                /** @description Every amplifier a circuit can name */
                 200: {
                     headers: {
                         [name: string]: unknown;
@@ -498,7 +498,7 @@ export interface paths {
             };
             requestBody?: never;
             responses: {
-                /** @description Default Response */
+                /** @description An amplifier model with every figure (null: no such limit) */
                 200: {
                     headers: {
                         [name: string]: unknown;
@@ -2279,6 +2279,7 @@ export interface components {
         };
         /** @description A timing capacitor with its dielectric, rating, case and age; class II/III ceramics then charge along their C(V) curve */
         TimingCapacitor: {
+            /** @description Nominal capacitance (at 0 V bias for class II/III ceramics): farads as a number, or a value string such as "4n7" */
             value: components["schemas"]["ComponentValue"];
             /** @description Fraction (0.1), percent text ("10%") or an IEC 60062 letter ("K") */
             tolerance?: number | string;
@@ -2292,44 +2293,63 @@ export interface components {
             ageHours?: number;
             /** @description Measured or published C(V) points of the actual part (absolute farads); replace the class-typical curve */
             biasCurve?: {
+                /** @description DC bias across the capacitor at this point, V (0 to 10 kV); the curve is taken as symmetric in the sign of the bias */
                 voltageV: number;
+                /** @description Capacitance measured or published at that bias, F (absolute, not a fraction of the nominal) */
                 capacitanceF: number;
             }[];
         };
         /** @description Part values by role. Which roles a topology needs: see the topology descriptions. */
         Parts: {
+            /** @description Timing resistor, output to inverting input: ohms as a number or a value string ("4k7"). Required by three-resistor-divider, two-resistor-feedback, open-drain-pullup; any other topology refuses it (400) */
             rTiming?: components["schemas"]["ComponentValue"];
+            /** @description Timing capacitor, inverting input to ground: farads as a number, a value string ("4n7"), or a TimingCapacitor part with its dielectric, rating and C(V) behaviour. Required by three-resistor-divider, two-resistor-feedback, diode-steered, open-drain-pullup */
             cTiming?: components["schemas"]["ComponentValue"] | components["schemas"]["TimingCapacitor"];
+            /** @description Divider resistor, V+ to non-inverting input: ohms as a number or a value string ("4k7"). Required by three-resistor-divider, open-drain-pullup; optional in diode-steered; any other topology refuses it (400) */
             rTop?: components["schemas"]["ComponentValue"];
+            /** @description Divider resistor, non-inverting input to ground: ohms as a number or a value string ("4k7"). Required by three-resistor-divider, open-drain-pullup; optional in diode-steered; any other topology refuses it (400) */
             rBottom?: components["schemas"]["ComponentValue"];
+            /** @description Positive-feedback resistor, output to non-inverting input: ohms as a number or a value string ("4k7"). Required by three-resistor-divider, two-resistor-feedback, diode-steered, open-drain-pullup */
             rFeedback?: components["schemas"]["ComponentValue"];
+            /** @description Non-inverting input to ground (mid rail): ohms as a number or a value string ("4k7"). Required by two-resistor-feedback; optional in diode-steered; any other topology refuses it (400) */
             rGround?: components["schemas"]["ComponentValue"];
+            /** @description Charge-path resistor, in series with the charge diode from the output to N: ohms as a number or a value string ("4k7"). Required by diode-steered; any other topology refuses it (400) */
             rCharge?: components["schemas"]["ComponentValue"];
+            /** @description Discharge-path resistor, in series with the discharge diode from N to the output: ohms as a number or a value string ("4k7"). Required by diode-steered; any other topology refuses it (400) */
             rDischarge?: components["schemas"]["ComponentValue"];
+            /** @description Pull-up resistor, V+ to the open-drain output: ohms as a number or a value string ("4k7"). Required by open-drain-pullup; any other topology refuses it (400) */
             rPullup?: components["schemas"]["ComponentValue"];
         };
+        /** @description A resistive load on the output pin besides the timing and threshold networks */
         OutputLoad: {
             /** @description Load resistance on the output pin, ohm (0.001 to 1000000000000 Ω) */
             resistanceOhm: number;
             /**
-             * @description Voltage the load returns to, V
+             * @description Voltage the far end of the load returns to, V (default 0: a load to ground; e.g. 5 for a pull-up to a 5 V rail)
              * @default 0
              */
             returnV?: number;
         };
+        /** @description Steering-diode model for diode-steered circuits: a fixed drop in series with a resistance */
         Diode: {
-            /** @description Forward drop, V */
+            /** @description Forward drop while conducting, V (0 to 5; default 0.6, a small-signal silicon diode, common practice) */
             forwardDropV?: number;
-            /** @description Series resistance while conducting, ohm */
+            /** @description Series resistance while conducting, ohm (default 10); below its forward drop the diode is open */
             resistanceOhm?: number;
         };
+        /** @description One oscillator: topology, supply, amplifier and part values */
         Circuit: {
             /** @description three-resistor-divider: rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds anywhere in the swing; rTiming (output to N) charges cTiming (N to ground). Any supply. | two-resistor-feedback: rFeedback (output to P) and rGround (P to ground) set the thresholds at ±β of the output levels; rTiming (output to N) charges cTiming (N to ground). Needs a rail below ground. | diode-steered: Separate charge and discharge paths: rCharge + diode (output to N, conducts while high) and rDischarge + diode (N to output, conducts while low) charge cTiming; thresholds from rTop + rBottom + rFeedback (single rail) or rFeedback + rGround (split rails). Diode: forward drop + resistance (`diode`, default 0.6 V, 10 Ω). | open-drain-pullup: Open-drain comparator output with rPullup (V+ to output) giving the high level; rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground).. Deprecated aliases, accepted for one release (answers use the current id): single-supply-divider → three-resistor-divider, split-supply → two-resistor-feedback. */
             topology: "three-resistor-divider" | "two-resistor-feedback" | "diode-steered" | "open-drain-pullup" | "single-supply-divider" | "split-supply";
+            /** @description The rails the amplifier runs from and the divider networks return to */
             supply: components["schemas"]["Supply"];
+            /** @description The op-amp or comparator: a built-in archetype or registered id (GET /v1/amplifiers), or inline figures; `ideal` for the textbook part */
             amplifier: components["schemas"]["AmplifierSpec"];
+            /** @description Part values by role; which roles the topology needs: GET /v1/topologies */
             parts: components["schemas"]["Parts"];
+            /** @description Resistive load on the output (absent: no load beyond the circuit itself) */
             load?: components["schemas"]["OutputLoad"];
+            /** @description Steering-diode model, read by diode-steered only (absent: 0.6 V drop, 10 Ω) */
             diode?: components["schemas"]["Diode"];
             /** @description Which model answers; auto picks the time-domain engine whenever slew, delay, limits or clamps matter */
             model?: "auto" | "closed-form" | "time-domain";
@@ -2339,11 +2359,17 @@ export interface components {
              */
             edgeFractionLimit?: number;
         };
+        /** @description Steady-state figures of one circuit, with the design checks */
         Analysis: {
+            /** @description Topology id of the analysed circuit (the current id even when the request used a deprecated alias) */
             topology: string;
+            /** @description The amplifier the answer was computed with */
             amplifier: {
+                /** @description Id of the archetype or registered amplifier; "inline" when the request gave figures inline (with or without a base) */
                 id: string;
+                /** @description Display name: the archetype or registration name, or the inline `name` */
                 name: string;
+                /** @description Where the figures come from: ideal (the textbook part), class-typical (a built-in archetype, not a datasheet) or caller-supplied (inline or registered) */
                 figuresBasis: string;
             };
             /**
@@ -2353,19 +2379,28 @@ export interface components {
             model: "closed-form" | "time-domain";
             /** @description Amplifier effects included in the model that produced this answer (empty: the closed-form special case) */
             modelEffects: ("slew-rate" | "recovery-delay" | "current-limit" | "input-clamp")[];
+            /** @description Steady-state oscillation frequency, Hz (1 / periodS) */
             frequencyHz: number;
+            /** @description Steady-state period, s: timeHighS + timeLowS */
             periodS: number;
             /** @description Fraction of the period the output is high, between 50 % crossings */
             dutyCycle: number;
+            /** @description Time the output spends above its 50 % level in one period, s */
             timeHighS: number;
+            /** @description Time the output spends below its 50 % level in one period, s */
             timeLowS: number;
             /** @description From power-up with the capacitor empty to the first output edge, s */
             firstEdgeS: number;
+            /** @description Switching thresholds as capacitor voltages, bias-current shift included */
             thresholds: {
+                /** @description Capacitor voltage at which a high output switches low, V (the decision node while the output is high) */
                 upperV: number;
+                /** @description Capacitor voltage at which a low output switches high, V */
                 lowerV: number;
+                /** @description upperV − lowerV, V: the swing the capacitor makes between decisions (before overshoot) */
                 hysteresisV: number;
             };
+            /** @description Output pin levels in steady state */
             output: {
                 /** @description High state level as a scope shows it (IEEE Std 181-2011): the level the output settles to, V */
                 highV: number;
@@ -2378,24 +2413,32 @@ export interface components {
                 /** @description Time-mean of the output over the low drive interval, V */
                 meanLowV: number;
             };
+            /** @description Output edge durations between the IEEE Std 181 10 % and 90 % reference levels */
             transitions: {
                 /** @description Output 10–90 % rise time (IEEE Std 181-2011 reference levels), s (0: instant edge) */
                 riseTimeS: number;
-                /** @description Output 90–10 % fall time, s */
+                /** @description Output 90–10 % fall time, s (0: instant edge) */
                 fallTimeS: number;
             };
+            /** @description The timing capacitor over the steady cycle */
             capacitor: {
+                /** @description Lowest timing-capacitor voltage over the steady cycle, V (below lowerV when delay or slew lets it overshoot) */
                 minV: number;
+                /** @description Highest timing-capacitor voltage over the steady cycle, V (above upperV on overshoot) */
                 maxV: number;
                 /** @description With a voltage-dependent (class II/III) capacitor: ΔQ/ΔV over minV…maxV, the capacitance the timing effectively sees, F */
                 effectiveCapacitanceF?: number;
                 /** @description The C(V) curve the model used, sampled over minV…maxV */
                 capacitanceCurve?: {
+                    /** @description Capacitor voltage of this point, V */
                     voltageV: number;
+                    /** @description Small-signal capacitance the model used at that voltage, F */
                     capacitanceF: number;
                 }[];
             };
+            /** @description The two output states as the model solved them (one exponential each in the closed form) */
             states: {
+                /** @description While the output is high and the capacitor charges toward it */
                 high: {
                     /** @description Capacitor time constant in this state, s */
                     tauS: number;
@@ -2408,6 +2451,7 @@ export interface components {
                     /** @description Time spent in the state, s */
                     dwellS: number;
                 };
+                /** @description While the output is low and the capacitor discharges toward it */
                 low: {
                     /** @description Capacitor time constant in this state, s */
                     tauS: number;
@@ -2421,24 +2465,38 @@ export interface components {
                     dwellS: number;
                 };
             };
+            /** @description How the circuit starts from power-up with the capacitor empty */
             powerUp: {
-                /** @enum {string} */
+                /**
+                 * @description Output state right after power-up with the capacitor empty
+                 * @enum {string}
+                 */
                 initialState: "high" | "low";
                 /** @description False when both states are consistent at power-up (then high is assumed) */
                 determinate: boolean;
             };
+            /** @description Currents over the steady cycle, magnitudes in A */
             currents: {
+                /** @description Largest current the output sources into the networks and load over the cycle, A (compare with the output current limit) */
                 outputPeakSourceA: number;
+                /** @description Largest current the output sinks from the networks and load over the cycle, A */
                 outputPeakSinkA: number;
                 /** @description Mean current from the positive rail incl. quiescent current, A */
                 supplyAverageA: number;
+                /** @description Peak current from the positive rail over the cycle (networks, output stage, quiescent), A */
                 supplyPeakA: number;
             };
+            /** @description Input voltages over the cycle, for the common-mode and differential checks */
             inputs: {
+                /** @description Lowest voltage at the non-inverting input (decision node P) over the cycle, V */
                 nonInvertingMinV: number;
+                /** @description Highest voltage at the non-inverting input over the cycle, V */
                 nonInvertingMaxV: number;
+                /** @description Lowest voltage at the inverting input (the capacitor node N) over the cycle, V */
                 invertingMinV: number;
+                /** @description Highest voltage at the inverting input over the cycle, V */
                 invertingMaxV: number;
+                /** @description Largest |P − N| over the cycle, V (compare with the amplifier's differential input limit) */
                 differentialMaxV: number;
             };
             /** @description Threshold shift from input bias current, V */
@@ -2461,19 +2519,28 @@ export interface components {
             frequencyCeilingHz?: number | null;
             /** @description Share of the period an edge may take before the slew-limited check fires */
             edgeFractionLimit?: number;
+            /** @description Design checks on the analysed circuit (empty: nothing to report); an error-severity check means the circuit will not work as intended */
             checks: components["schemas"]["Check"][];
         };
+        /** @description An amplifier model with every figure (null: no such limit) */
         Amplifier: {
+            /** @description The id to name in a circuit's `amplifier` or an inline `base`; for registrations, the id of the PUT path */
             id: string;
+            /** @description Display name shown in answers */
             name: string;
+            /** @description Technology class in words (e.g. "bipolar, split supply, general purpose"); a registration that gave none shows its base's */
             technologyClass: string;
+            /** @description What the archetype stands for and where its figures come from; a registration that gave none shows its base's */
             description: string;
             /**
-             * @description class-typical: figures typical of the technology class, from memory of the trade, not a datasheet
+             * @description ideal: the textbook part; class-typical: figures typical of the technology class, from memory of the trade, not a datasheet; caller-supplied: a registration
              * @enum {string}
              */
             figuresBasis: "ideal" | "class-typical" | "caller-supplied";
-            /** @enum {string} */
+            /**
+             * @description built-in: an archetype shipped with the service (read-only); registered: stored by PUT /v1/amplifiers/{id}
+             * @enum {string}
+             */
             source: "built-in" | "registered";
             /**
              * @description Output stage: push-pull drives both states; open-drain only sinks (the high level comes from a pull-up)
@@ -2521,14 +2588,18 @@ export interface components {
             /** @description Fractional change of the recovery/propagation delay per kelvin (0.003 = +0.3 %/K), none. Accepted: -0.05 to 0.05 none. Range: ±5 %/K; class-typical figures are a few tenths of a percent per kelvin. */
             recoveryDelayDriftPerK: number;
         };
+        /** @description Every amplifier a circuit can name */
         AmplifierList: {
+            /** @description Built-in archetypes first, then registered amplifiers (a stored one that no longer passes validation is left out), each with every figure */
             amplifiers: components["schemas"]["Amplifier"][];
         };
         /** @description A caller-registered amplifier model */
         AmplifierRegistration: {
+            /** @description Display name shown in answers (1 to 120 characters) */
             name: string;
-            /** @description Technology class in words */
+            /** @description Technology class in words (default: that of `base`, or the ideal part's) */
             technologyClass?: string;
+            /** @description Free text for people, e.g. which part and datasheet revision the figures come from (default: that of `base`, or the ideal part's) */
             description?: string;
             /** @description Id of a built-in archetype or a registered amplifier */
             base?: string;

@@ -41,10 +41,15 @@ afterAll(async () => {
 
 function resolve(schema: Schema): Schema {
   let s = schema;
-  for (let i = 0; i < 10 && typeof s.$ref === 'string'; i++) {
-    const ref = s.$ref;
-    const name = ref.startsWith('#/components/schemas/') ? ref.slice('#/components/schemas/'.length) : ref;
-    s = doc.components.schemas[name] ?? {};
+  for (let i = 0; i < 10; i++) {
+    if (typeof s.$ref === 'string') {
+      const ref = s.$ref;
+      const name = ref.startsWith('#/components/schemas/') ? ref.slice('#/components/schemas/'.length) : ref;
+      s = doc.components.schemas[name] ?? {};
+    } else if (Array.isArray(s.allOf) && s.allOf.length === 1) {
+      // A described reference (src/http/schemas/common.ts `ref`): `allOf: [{ $ref }]` with the description beside it.
+      s = s.allOf[0] as Schema;
+    } else break;
   }
   return s;
 }

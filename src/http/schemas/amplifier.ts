@@ -12,20 +12,24 @@ const SOURCES = ['built-in', 'registered'] as const;
 
 export const Amplifier = Type.Object(
   {
-    id: Type.String(),
-    name: Type.String(),
-    technologyClass: Type.String(),
-    description: Type.String(),
+    id: Type.String({ description: 'The id to name in a circuit\'s `amplifier` or an inline `base`; for registrations, the id of the PUT path' }),
+    name: Type.String({ description: 'Display name shown in answers' }),
+    technologyClass: Type.String({ description: 'Technology class in words (e.g. "bipolar, split supply, general purpose"); a registration that gave none shows its base\'s' }),
+    description: Type.String({ description: 'What the archetype stands for and where its figures come from; a registration that gave none shows its base\'s' }),
     figuresBasis: StringEnum(FIGURES_BASIS, {
-      description: 'class-typical: figures typical of the technology class, from memory of the trade, not a datasheet',
+      description:
+        'ideal: the textbook part; class-typical: figures typical of the technology class, from memory of the trade, not a datasheet; caller-supplied: a registration',
     }),
-    source: StringEnum(SOURCES),
+    source: StringEnum(SOURCES, { description: 'built-in: an archetype shipped with the service (read-only); registered: stored by PUT /v1/amplifiers/{id}' }),
     ...amplifierFigureRequiredProperties,
   },
-  { $id: 'Amplifier', additionalProperties: false },
+  { $id: 'Amplifier', additionalProperties: false, description: 'An amplifier model with every figure (null: no such limit)' },
 );
 
-export const AmplifierList = Type.Object({ amplifiers: Type.Array(Type.Unsafe(Type.Ref('Amplifier'))) }, { $id: 'AmplifierList', additionalProperties: false });
+export const AmplifierList = Type.Object(
+  { amplifiers: Type.Array(Type.Unsafe(Type.Ref('Amplifier')), { description: 'Built-in archetypes first, then registered amplifiers (a stored one that no longer passes validation is left out), each with every figure' }) },
+  { $id: 'AmplifierList', additionalProperties: false, description: 'Every amplifier a circuit can name' },
+);
 
 /** Names of the read-only record fields a registration may carry (from a GET body) and that the service ignores. */
 export const READ_ONLY_AMPLIFIER_FIELDS = ['id', 'source', 'figuresBasis'] as const;
@@ -36,9 +40,9 @@ export const READ_ONLY_AMPLIFIER_FIELDS = ['id', 'source', 'figuresBasis'] as co
  */
 export const AmplifierRegistration = Type.Object(
   {
-    name: Type.String({ minLength: 1, maxLength: 120 }),
-    technologyClass: Type.Optional(Type.String({ maxLength: 120, description: 'Technology class in words' })),
-    description: Type.Optional(Type.String({ maxLength: 2000 })),
+    name: Type.String({ minLength: 1, maxLength: 120, description: 'Display name shown in answers (1 to 120 characters)' }),
+    technologyClass: Type.Optional(Type.String({ maxLength: 120, description: 'Technology class in words (default: that of `base`, or the ideal part\'s)' })),
+    description: Type.Optional(Type.String({ maxLength: 2000, description: 'Free text for people, e.g. which part and datasheet revision the figures come from (default: that of `base`, or the ideal part\'s)' })),
     base: Type.Optional(AmplifierId),
     id: Type.Optional(Type.String({ maxLength: 64, description: 'Read-only (as GET shows it); ignored: the path names the amplifier' })),
     source: Type.Optional(StringEnum(SOURCES, { description: 'Read-only (as GET shows it); ignored' })),

@@ -1,13 +1,13 @@
 /** The circuit description shared by analyze, waveform, tolerance and fit requests. */
 import { Type, type Static } from 'typebox';
-import { acceptedTopologyIds, aliasNote, TOPOLOGIES } from '../../core/index.ts';
+import { acceptedTopologyIds, aliasNote, DEFAULT_STEERING_DIODE, TOPOLOGIES } from '../../core/index.ts';
 import { CASE_SIZES } from '../../core/parts/capacitor/index.ts';
 import { AmplifierSpec, ComponentValue, ref, ResistanceOhm, Supply } from './common.ts';
 
 /** The timing capacitor as a part (docs/model.md, "non-linear capacitor"): API names are binding. */
 export const TimingCapacitor = Type.Object(
   {
-    value: ref(ComponentValue),
+    value: ref(ComponentValue, 'Nominal capacitance (at 0 V bias for class II/III ceramics): farads as a number, or a value string such as "4n7"'),
     tolerance: Type.Optional(
       Type.Union([Type.Number({ minimum: 0, exclusiveMaximum: 1 }), Type.String({ minLength: 1, maxLength: 8 })], {
         description: 'Fraction (0.1), percent text ("10%") or an IEC 60062 letter ("K")',
@@ -25,8 +25,8 @@ export const TimingCapacitor = Type.Object(
       Type.Array(
         Type.Object(
           {
-            voltageV: Type.Number({ minimum: 0, maximum: 10000 }),
-            capacitanceF: Type.Number({ exclusiveMinimum: 0 }),
+            voltageV: Type.Number({ minimum: 0, maximum: 10000, description: 'DC bias across the capacitor at this point, V (0 to 10 kV); the curve is taken as symmetric in the sign of the bias' }),
+            capacitanceF: Type.Number({ exclusiveMinimum: 0, description: 'Capacitance measured or published at that bias, F (absolute, not a fraction of the nominal)' }),
           },
           { additionalProperties: false },
         ),
@@ -41,12 +41,37 @@ export const TimingCapacitor = Type.Object(
   },
 );
 
+/**
+ * What a role is, in words from the registry: its place in the network, its kind
+ * and unit, and which topologies need it (the core refuses a missing required
+ * role and a role the chosen topology does not have, both with 400).
+ */
+function roleDescription(role: string): string {
+  const users = TOPOLOGIES.filter((t) => role in t.roles);
+  const spec = users[0].roles[role];
+  const required = users.filter((t) => t.roles[role].required).map((t) => t.id);
+  const optional = users.filter((t) => !t.roles[role].required).map((t) => t.id);
+  const value =
+    spec.kind === 'capacitor'
+      ? 'farads as a number, a value string ("4n7"), or a TimingCapacitor part with its dielectric, rating and C(V) behaviour'
+      : 'ohms as a number or a value string ("4k7")';
+  return (
+    `${spec.description[0].toUpperCase()}${spec.description.slice(1)}: ${value}. ` +
+    `Required by ${required.length ? required.join(', ') : 'no topology'}` +
+    `${optional.length ? `; optional in ${optional.join(', ')}` : ''}` +
+    `${users.length < TOPOLOGIES.length ? '; any other topology refuses it (400)' : ''}`
+  );
+}
+
 /** Every role of every topology; the core checks which ones the chosen topology needs. Capacitors may be given as parts. */
 function partProperties() {
   const props: Record<string, ReturnType<typeof Type.Optional>> = {};
   for (const t of TOPOLOGIES) {
     for (const [role, spec] of Object.entries(t.roles)) {
-      props[role] ??= Type.Optional(spec.kind === 'capacitor' ? Type.Union([ref(ComponentValue), ref(TimingCapacitor)]) : ref(ComponentValue));
+      const description = roleDescription(role);
+      props[role] ??= Type.Optional(
+        spec.kind === 'capacitor' ? Type.Union([ref(ComponentValue), ref(TimingCapacitor)], { description }) : ref(ComponentValue, description),
+      );
     }
   }
   return props;
@@ -61,17 +86,17 @@ export const Parts = Type.Object(partProperties(), {
 export const OutputLoad = Type.Object(
   {
     resistanceOhm: ResistanceOhm('Load resistance on the output pin, ohm'),
-    returnV: Type.Optional(Type.Number({ default: 0, description: 'Voltage the load returns to, V' })),
+    returnV: Type.Optional(Type.Number({ default: 0, description: 'Voltage the far end of the load returns to, V (default 0: a load to ground; e.g. 5 for a pull-up to a 5 V rail)' })),
   },
-  { $id: 'OutputLoad', additionalProperties: false },
+  { $id: 'OutputLoad', additionalProperties: false, description: 'A resistive load on the output pin besides the timing and threshold networks' },
 );
 
 export const Diode = Type.Object(
   {
-    forwardDropV: Type.Optional(Type.Number({ minimum: 0, maximum: 5, description: 'Forward drop, V' })),
-    resistanceOhm: Type.Optional(Type.Number({ minimum: 0, description: 'Series resistance while conducting, ohm' })),
+    forwardDropV: Type.Optional(Type.Number({ minimum: 0, maximum: 5, description: `Forward drop while conducting, V (0 to 5; default ${DEFAULT_STEERING_DIODE.forwardDropV}, a small-signal silicon diode, common practice)` })),
+    resistanceOhm: Type.Optional(Type.Number({ minimum: 0, description: `Series resistance while conducting, ohm (default ${DEFAULT_STEERING_DIODE.resistanceOhm}); below its forward drop the diode is open` })),
   },
-  { $id: 'Diode', additionalProperties: false },
+  { $id: 'Diode', additionalProperties: false, description: 'Steering-diode model for diode-steered circuits: a fixed drop in series with a resistance' },
 );
 
 export const ModelChoice = Type.Union([Type.Literal('auto'), Type.Literal('closed-form'), Type.Literal('time-domain')], {
@@ -84,11 +109,11 @@ export const Circuit = Type.Object(
       acceptedTopologyIds().map((id) => Type.Literal(id)),
       { description: `${TOPOLOGIES.map((t) => `${t.id}: ${t.description}`).join(' | ')}. ${aliasNote()}` },
     ),
-    supply: ref(Supply),
-    amplifier: ref(AmplifierSpec),
-    parts: ref(Parts),
-    load: Type.Optional(ref(OutputLoad)),
-    diode: Type.Optional(ref(Diode)),
+    supply: ref(Supply, 'The rails the amplifier runs from and the divider networks return to'),
+    amplifier: ref(AmplifierSpec, 'The op-amp or comparator: a built-in archetype or registered id (GET /v1/amplifiers), or inline figures; `ideal` for the textbook part'),
+    parts: ref(Parts, 'Part values by role; which roles the topology needs: GET /v1/topologies'),
+    load: Type.Optional(ref(OutputLoad, 'Resistive load on the output (absent: no load beyond the circuit itself)')),
+    diode: Type.Optional(ref(Diode, `Steering-diode model, read by diode-steered only (absent: ${DEFAULT_STEERING_DIODE.forwardDropV} V drop, ${DEFAULT_STEERING_DIODE.resistanceOhm} Ω)`)),
     model: Type.Optional(ModelChoice),
     edgeFractionLimit: Type.Optional(
       Type.Number({
@@ -99,7 +124,7 @@ export const Circuit = Type.Object(
       }),
     ),
   },
-  { $id: 'Circuit', additionalProperties: false },
+  { $id: 'Circuit', additionalProperties: false, description: 'One oscillator: topology, supply, amplifier and part values' },
 );
 
 export type CircuitBody = Static<typeof Circuit>;

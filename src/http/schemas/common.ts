@@ -21,11 +21,21 @@ export function StringEnum<const T extends readonly string[]>(values: T, options
   return Type.Unsafe<T[number]>({ type: 'string', enum: [...values], ...options });
 }
 
-/** Reference a registered schema while keeping its static type. */
-export function ref<T extends TSchema>(schema: T) {
+/**
+ * Reference a registered schema while keeping its static type. With a
+ * description (what this use of the shared schema means), the reference is
+ * wrapped as `allOf: [{ $ref }]` with the description beside the allOf:
+ * @fastify/swagger 9 deletes every sibling of a `$ref` when it converts a schema
+ * to OpenAPI (lib/spec/openapi/utils.js, convertJsonSchemaToOpenapi3), so a
+ * description written next to the `$ref` would never reach the contract. A
+ * one-entry allOf validates exactly like the bare reference (JSON Schema
+ * 2020-12 §10.2.1.1) and fast-json-stringify merges it at build time.
+ */
+export function ref<T extends TSchema>(schema: T, description?: string) {
   const id = (schema as { $id?: string }).$id;
   if (!id) throw new Error('ref() needs a schema with $id');
-  return Type.Unsafe<Static<T>>(Type.Ref(id));
+  if (description === undefined) return Type.Unsafe<Static<T>>(Type.Ref(id));
+  return Type.Unsafe<Static<T>>({ allOf: [Type.Ref(id)], description });
 }
 
 /**
