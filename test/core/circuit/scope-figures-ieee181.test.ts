@@ -13,9 +13,14 @@
  * The engine computes its figures exactly from the pieces (docs/model.md §5);
  * the reference reads samples, so agreement is to the histogram bin width and
  * the sample interval (the bounds below, stated beside each check).
+ * The fit reads the same definitions (src/core/scope/ieee181.ts): the capture
+ * analysis on the same samples and the fit's forward model on the exact cycle
+ * are held to the same reference, and the forward model to the engine exactly.
  */
 import { describe, expect, it } from 'vitest';
 import { findBuiltInAmplifier, IDEAL_FIGURES, prepareCircuit, waveformOfPrepared, type AmplifierModel, type Circuit } from '../../../src/core/index.ts';
+import { analyzeCapture } from '../../../src/core/fit/capture/analyze-capture.ts';
+import { figuresOfPrepared } from '../../../src/core/fit/estimate/forward.ts';
 
 const ideal = findBuiltInAmplifier('ideal')!;
 const amp = (overrides: Partial<AmplifierModel>): AmplifierModel => ({ ...ideal, ...IDEAL_FIGURES, ...overrides, id: 'scope-test', figuresBasis: 'caller-supplied' }) as AmplifierModel;
@@ -125,6 +130,21 @@ describe('output levels, duty and transitions as IEEE Std 181-2011 reads them of
       expect(Math.abs(figures.transitions.fallTimeS - scope.fallTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.fallTimeS);
       // The time-means say so in their names and differ from the levels once delay and slew take time.
       expect(figures.output.meanHighV).toBeLessThanOrEqual(figures.output.highV + 1e-12);
+      // The fit path: the capture analysis of the same record against the same reference, ...
+      const capture = analyzeCapture({ sampleIntervalS: samples.timeS[1] - samples.timeS[0], output: samples.outputV, capacitor: samples.capacitorV });
+      expect(Math.abs(capture.outputHighV! - scope.highV)).toBeLessThanOrEqual(scope.binWidthV);
+      expect(Math.abs(capture.outputLowV! - scope.lowV)).toBeLessThanOrEqual(scope.binWidthV);
+      expect(Math.abs(capture.periodS / scope.periodS - 1)).toBeLessThan(1e-4);
+      expect(Math.abs(capture.dutyCycle! - scope.dutyCycle)).toBeLessThan(2e-3);
+      expect(Math.abs(capture.riseTimeS! - scope.riseTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.riseTimeS);
+      expect(Math.abs(capture.fallTimeS! - scope.fallTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.fallTimeS);
+      // ... and the fit's forward model reads the engine's own figures (one definition: equal to rounding).
+      const predicted = figuresOfPrepared(prepareCircuit(circuit));
+      expect(predicted.outputHighV).toBeCloseTo(figures.output.highV, 12);
+      expect(predicted.outputLowV).toBeCloseTo(figures.output.lowV, 12);
+      expect(predicted.dutyCycle).toBeCloseTo(figures.dutyCycle, 12);
+      expect(predicted.riseTimeS / figures.transitions.riseTimeS).toBeCloseTo(1, 12);
+      expect(predicted.fallTimeS / figures.transitions.fallTimeS).toBeCloseTo(1, 12);
       if (name === 'slew-limited, flat top') {
         // Here the drive-interval mean (the old definition) is visibly off the scope's level: the check can fail.
         expect(Math.abs(figures.output.meanHighV - scope.highV)).toBeGreaterThan(10 * scope.binWidthV);

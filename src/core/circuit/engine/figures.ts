@@ -1,6 +1,7 @@
 /**
  * Steady-state figures from a walk's repeating cycle (docs/model.md §5), defined
- * as a scope shows them (IEEE Std 181-2011 terms):
+ * as a scope shows them (IEEE Std 181-2011 terms; the definitions are those of
+ * ../../scope/ieee181.ts, which the capture analysis applies to samples):
  * - output state levels (high/low): the level the output settles to in each
  *   state — the pin voltage at the instant the output stage starts to leave the
  *   state (the end of the flat top, where the waveform is flattest; for a
@@ -14,6 +15,7 @@
  * - firstEdgeS: first 50 % crossing of the pin after power-up;
  * - peaks and extremes: exact over every piece (interior extrema included).
  */
+import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
 import { powerUpState } from '../closed-form.ts';
 import type { EdgeTimes } from '../frequency-ceiling.ts';
 import type { ModelEffect, OscillationFigures, StateSummary } from '../result.ts';
@@ -70,19 +72,6 @@ function crossingMemoScratch(pieces: number): Float64Array {
 }
 const scratchT = new Float64Array(2);
 const scratchDir = new Int8Array(2);
-
-/**
- * ((x % m) + m) % m, the phase of x in [0, m), without the floating-point
- * remainder where it is not needed: |x| < m leaves x % m = x exactly, and for
- * m <= y < 2m the remainder is y − m, which is exact (Sterbenz). Same bits as
- * the remainder form; the remainder is slow in V8.
- */
-export function phaseIn(x: number, m: number): number {
-  const r = x > -m && x < m ? x : x % m;
-  const y = r + m;
-  if (y < m) return y;
-  return y < 2 * m ? y - m : y % m;
-}
 
 /**
  * Sums and extremes over the cycle pieces, one piece at a time (a reusable
@@ -255,13 +244,12 @@ const crossScratch = new Float64Array(2);
  * instant edge).
  */
 export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array): void {
-  const swing = highV - lowV;
-  pinCrossings(walk, cycle, lowV + 0.1 * swing, crossScratch);
+  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.lower), crossScratch);
   const rise10 = crossScratch[0];
   const fall10 = crossScratch[1];
-  pinCrossings(walk, cycle, lowV + 0.9 * swing, crossScratch);
-  out[0] = phaseIn(crossScratch[0] - rise10, cycle.periodS);
-  out[1] = phaseIn(fall10 - crossScratch[1], cycle.periodS);
+  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.upper), crossScratch);
+  out[0] = durationBetween(rise10, crossScratch[0], cycle.periodS);
+  out[1] = durationBetween(crossScratch[1], fall10, cycle.periodS);
 }
 
 /** Figures of the walk's steady cycle (the walk went from power-up: firstEdgeS reads the transient). */
@@ -284,7 +272,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
   cycleLevels(walk, cycle, levelScratch);
   const highV = Number.isNaN(levelScratch[0]) ? meanHighV : levelScratch[0];
   const lowV = Number.isNaN(levelScratch[1]) ? meanLowV : levelScratch[1];
-  const midV = 0.5 * (highV + lowV);
+  const midV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid);
   if (extras) extras.outputMidV = midV;
 
   const pieces = cycle.endIndex - cycle.startIndex;
@@ -294,7 +282,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
   const fallAt = crossScratch[1];
   let timeHighS: number;
   if (!Number.isNaN(riseAt) && !Number.isNaN(fallAt)) {
-    timeHighS = phaseIn(fallAt - riseAt, periodS);
+    timeHighS = durationBetween(riseAt, fallAt, periodS);
   } else {
     timeHighS = pinHighS; // the pin never crosses its midpoint: fall back to the drive intervals
   }

@@ -21,7 +21,8 @@ import type { Circuit } from '../types.ts';
 import type { ModelEffect, ModelName } from '../result.ts';
 import { CLAMP, configKey, STAGE, type CompiledShape, type ParameterInfo } from './compiled-network.ts';
 import { diodeBits } from './configs.ts';
-import { cycleLevels, phaseIn, pinCrossings, transitionDurations } from './figures.ts';
+import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
+import { cycleLevels, pinCrossings, transitionDurations } from './figures.ts';
 import { Kinematics } from './kinematics.ts';
 import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
 import { OscillatorWalk, SteadyStart, type SteadyCycle } from './walker.ts';
@@ -245,10 +246,10 @@ function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: Array
   const riseTopV = high.oC + high.oV * lowerV + high.oS * sHigh;
   const fallBottomV = low.oC + low.oV * upperV + low.oS * sLow;
   const crossedByJumps = (fraction: number) => {
-    const level = lowV + fraction * (highV - lowV);
+    const level = referenceLevelV(lowV, highV, fraction);
     return lowV < level && riseTopV >= level && highV >= level && fallBottomV < level;
   };
-  if (!crossedByJumps(0.5) || (withTransitions && !(crossedByJumps(0.1) && crossedByJumps(0.9)))) return undefined;
+  if (!crossedByJumps(REFERENCE_FRACTION.mid) || (withTransitions && !(crossedByJumps(REFERENCE_FRACTION.lower) && crossedByJumps(REFERENCE_FRACTION.upper)))) return undefined;
   out[0] = periodS;
   out[1] = timeHighS / periodS;
   out[2] = timeHighS;
@@ -290,8 +291,8 @@ export function readTiming(walk: OscillatorWalk, cycle: SteadyCycle, out: Float6
   const lowV = levels[1];
   let timeHighS = Number.NaN;
   if (!Number.isNaN(highV) && !Number.isNaN(lowV)) {
-    pinCrossings(walk, cycle, 0.5 * (highV + lowV), crossings);
-    if (!Number.isNaN(crossings[0]) && !Number.isNaN(crossings[1])) timeHighS = phaseIn(crossings[1] - crossings[0], periodS);
+    pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid), crossings);
+    if (!Number.isNaN(crossings[0]) && !Number.isNaN(crossings[1])) timeHighS = durationBetween(crossings[0], crossings[1], periodS);
   }
   if (Number.isNaN(timeHighS)) timeHighS = cycle.decisionHighS; // the pin never crosses its midpoint: the decision intervals
   out[0] = periodS;

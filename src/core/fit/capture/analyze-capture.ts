@@ -1,6 +1,6 @@
 import { CoreError } from '../../errors.ts';
-import type { CrossingOptions } from './crossings.ts';
-import { stateLevels } from './levels.ts';
+import type { CrossingOptions, IntervalStats } from './crossings.ts';
+import { stateLevelsInRange } from './levels.ts';
 import { readCapacitor, readOutput, type Spread } from './scope-readings.ts';
 import { assertFiniteSamples } from './sample-checks.ts';
 import { explicitClock, uniformClock } from './sample-clock.ts';
@@ -70,6 +70,9 @@ const CAPACITOR_CLIPPED_FRACTION = 0.05;
 /** ...and more than this many times the samples on the next value in from it. */
 const CLIPPED_PLATEAU_RATIO = 4;
 
+/** Turning points need an excursion of this share of the capacitor's range (as findTurningPoints' default). */
+const TURNING_POINT_HYSTERESIS = 0.25;
+
 /** Sample intervals a scope can have: 1 fs to 1000 s (our bounds, far beyond any instrument's). */
 export const MIN_SAMPLE_INTERVAL_S = 1e-15;
 export const MAX_SAMPLE_INTERVAL_S = 1e3;
@@ -115,13 +118,24 @@ function buildClock(input: CaptureInput, n: number, warnings: string[]): SampleC
   return explicitClock(t);
 }
 
-function capacitorExtremes(v: Float64Array): { minV: number; maxV: number } {
+/** Smallest and largest sample, checking every sample is finite on the way (one pass). */
+function finiteRange(values: Float64Array, channel: string, pointer: string): { minV: number; maxV: number } {
   let minV = Infinity;
   let maxV = -Infinity;
-  for (let i = 0; i < v.length; i++) {
-    if (v[i] < minV) minV = v[i];
-    if (v[i] > maxV) maxV = v[i];
+  let sum = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (v < minV) minV = v;
+    if (v > maxV) maxV = v;
+    sum += v;
   }
+  // A NaN or an infinity makes the sum non-finite (finite samples of a scope never overflow it): name it.
+  if (!Number.isFinite(sum)) assertFiniteSamples(values, channel, pointer);
+  return { minV, maxV };
+}
+
+/** Throws when the capacitor record is cut off at its top or bottom (one pass, extremes known). */
+function checkCapacitorClipping(v: Float64Array, minV: number, maxV: number): void {
   // Counts at the extremes and at the nearest value inside each extreme.
   let atMin = 0;
   let atMax = 0;
@@ -158,7 +172,18 @@ function capacitorExtremes(v: Float64Array): { minV: number; maxV: number } {
       { railV: top ? maxV : minV, pinnedFraction: share },
     );
   }
-  return { minV, maxV };
+}
+
+type SpreadFigure = keyof CaptureFeatures['spreads'];
+
+/** Each reading present becomes its figure (the mean) and its spread (for the uncertainties). */
+function copyReadings(features: CaptureFeatures, spreads: CaptureFeatures['spreads'], readings: Partial<Record<SpreadFigure, Spread | undefined>>): void {
+  for (const key of Object.keys(readings) as SpreadFigure[]) {
+    const reading = readings[key];
+    if (reading === undefined) continue;
+    features[key] = reading.mean;
+    spreads[key] = reading;
+  }
 }
 
 export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOptions = {}): CaptureFeatures {
@@ -174,9 +199,9 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
   const n = (output ?? capacitor)!.length;
   if (n < 4) throw bad(`the capture has ${n} samples; at least 4 are needed`, 'too-few-samples', output ? '/output' : '/capacitor');
   const clock = buildClock(input, n, warnings);
-  if (output !== undefined) assertFiniteSamples(output, 'output', '/output');
-  if (capacitor !== undefined) assertFiniteSamples(capacitor, 'capacitor', '/capacitor');
-  if (capacitor !== undefined) capacitorExtremes(capacitor);
+  const outputRange = output === undefined ? undefined : finiteRange(output, 'output', '/output');
+  const capacitorRange = capacitor === undefined ? undefined : finiteRange(capacitor, 'capacitor', '/capacitor');
+  if (capacitor !== undefined) checkCapacitorClipping(capacitor, capacitorRange!.minV, capacitorRange!.maxV);
 
   const t0 = clock.kind === 'uniform' ? clock.startS : clock.timeS[0];
   const tEnd = clock.kind === 'uniform' ? clock.startS + (n - 1) * clock.intervalS : clock.timeS[n - 1];
@@ -187,10 +212,24 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
   }
 
   const spreads: CaptureFeatures['spreads'] = {};
+  const timing = (timingSource: CaptureFeatures['timingSource'], period: IntervalStats): CaptureFeatures => ({
+    timingSource,
+    frequencyHz: 1 / period.meanS,
+    periodS: period.meanS,
+    periodJitterS: period.stdS,
+    periodMinS: period.minS,
+    periodMaxS: period.maxS,
+    periodCount: period.count,
+    sampleCount: n,
+    sampleIntervalS,
+    durationS,
+    warnings,
+    spreads,
+  });
   let features: CaptureFeatures;
   if (output !== undefined) {
-    // IEEE 181 histogram levels start the settled-level iteration (which refines them itself).
-    const levels = stateLevels(output, { channelName: 'output', pointer: '/output', recentre: false });
+    // IEEE 181 histogram-mode state levels (../../scope/ieee181.ts), then the reference instants between them.
+    const levels = stateLevelsInRange(output, outputRange!.minV, outputRange!.maxV, { channelName: 'output', pointer: '/output' });
     const read = readOutput(output, clock, levels.highV, levels.lowV, options);
     const period = read.period;
     if (!(period.count >= 1)) {
@@ -201,42 +240,15 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
         edgeCount: t.length,
       });
     }
-    features = {
-      timingSource: 'output',
-      frequencyHz: 1 / period.meanS,
-      periodS: period.meanS,
-      periodJitterS: period.stdS,
-      periodMinS: period.minS,
-      periodMaxS: period.maxS,
-      periodCount: period.count,
-      outputHighV: read.highV,
-      outputLowV: read.lowV,
-      edgeCount: read.transitions.length,
-      sampleCount: n,
-      sampleIntervalS,
-      durationS,
-      warnings,
-      spreads,
-    };
-    if (read.duty) {
-      features.dutyCycle = read.duty.mean;
-      spreads.dutyCycle = read.duty;
-    }
-    if (read.rise) {
-      features.riseTimeS = read.rise.mean;
-      spreads.riseTimeS = read.rise;
-    }
-    if (read.fall) {
-      features.fallTimeS = read.fall.mean;
-      spreads.fallTimeS = read.fall;
-    }
+    features = { ...timing('output', period), outputHighV: read.highV, outputLowV: read.lowV, edgeCount: read.transitions.length };
+    copyReadings(features, spreads, { dutyCycle: read.duty, riseTimeS: read.rise, fallTimeS: read.fall });
     const slowest = Math.max(features.riseTimeS ?? 0, features.fallTimeS ?? 0);
     if (slowest > 0.05 * features.periodS) {
       warnings.push(`output transitions take ${((slowest / features.periodS) * 100).toFixed(1)} % of the period: edges are slow against the period (slew-limited?)`);
     }
   }
   if (capacitor !== undefined) {
-    const turning = findTurningPoints(capacitor, clock);
+    const turning = findTurningPoints(capacitor, clock, { hysteresisV: TURNING_POINT_HYSTERESIS * (capacitorRange!.maxV - capacitorRange!.minV) });
     const maxima = turning.filter((p) => p.kind === 'max').length;
     const minima = turning.filter((p) => p.kind === 'min').length;
     if (output === undefined && maxima < 2 && minima < 2) {
@@ -250,44 +262,18 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
     const read = readCapacitor(capacitor, clock, turning, periodHintS);
     if (features! === undefined) {
       if (read.period === undefined) throw bad('capacitor turning points too close to the record ends to time a full period', 'too-few-edges', '/capacitor', { edgeCount: turning.length });
-      features = {
-        timingSource: 'capacitor',
-        frequencyHz: 1 / read.period.meanS,
-        periodS: read.period.meanS,
-        periodJitterS: read.period.stdS,
-        periodMinS: read.period.minS,
-        periodMaxS: read.period.maxS,
-        periodCount: read.period.count,
-        sampleCount: n,
-        sampleIntervalS,
-        durationS,
-        warnings,
-        spreads,
-      };
+      features = timing('capacitor', read.period);
       warnings.push('no output channel: the period comes from the capacitor turning points; the duty cycle is read as the share of the period the capacitor spends above its mid level');
     }
     const f = features;
     f.turningPointCount = read.turningPointCount;
-    if (read.maxV) {
-      f.capacitorMaxV = read.maxV.mean;
-      spreads.capacitorMaxV = read.maxV;
-    }
-    if (read.minV) {
-      f.capacitorMinV = read.minV.mean;
-      spreads.capacitorMinV = read.minV;
-    }
-    if (read.risingTau) {
-      f.risingTauS = read.risingTau.mean;
-      spreads.risingTauS = read.risingTau;
-    }
-    if (read.fallingTau) {
-      f.fallingTauS = read.fallingTau.mean;
-      spreads.fallingTauS = read.fallingTau;
-    }
-    if (read.aboveMidShare) {
-      f.capacitorAboveMidShare = read.aboveMidShare.mean;
-      spreads.capacitorAboveMidShare = read.aboveMidShare;
-    }
+    copyReadings(f, spreads, {
+      capacitorMaxV: read.maxV,
+      capacitorMinV: read.minV,
+      risingTauS: read.risingTau,
+      fallingTauS: read.fallingTau,
+      capacitorAboveMidShare: read.aboveMidShare,
+    });
     if (read.risingTau === undefined && read.fallingTau === undefined) warnings.push('no complete capacitor stretch between two turning points: no time constant');
   }
   const f = features!;

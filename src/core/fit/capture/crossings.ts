@@ -91,12 +91,19 @@ export function findTransitions(
   const startS = uniform ? clock.startS : 0;
   const stepS = uniform ? clock.intervalS : 0;
   const times = uniform ? undefined : clock.timeS;
-  let tPrev = uniform ? startS : times![0];
+  let tPrev: number;
   let vPrev = values[0];
 
   for (let i = 1; i < n; i++) {
     const v = values[i];
+    // Most samples sit inside the band of the state last reached, as did the one before: nothing can
+    // happen there (no level is crossed), and skipping them keeps noise from costing a branch per level.
+    if (state === 1 ? v >= highBandV && vPrev >= highBandV : state === -1 && v <= lowBandV && vPrev <= lowBandV) {
+      vPrev = v;
+      continue;
+    }
     const t = uniform ? startS + i * stepS : times![i];
+    tPrev = uniform ? startS + (i - 1) * stepS : times![i - 1];
     if (v > vPrev) {
       if (vPrev <= lowBandV && v > lowBandV) lastLeaveLowS = tPrev + ((lowBandV - vPrev) * (t - tPrev)) / (v - vPrev);
       if (vPrev < refV && v >= refV) lastRefUpS = tPrev + ((refV - vPrev) * (t - tPrev)) / (v - vPrev);
@@ -121,7 +128,6 @@ export function findTransitions(
       if (v <= lowBandV) state = -1;
       else if (v >= highBandV) state = 1;
     }
-    tPrev = t;
     vPrev = v;
   }
   return out;

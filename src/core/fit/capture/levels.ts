@@ -1,10 +1,12 @@
 import { CoreError } from '../../errors.ts';
+import { histogramModeLevels, referenceLevelV as sharedReferenceLevelV } from '../../scope/ieee181.ts';
 
 /**
  * State levels of a two-state waveform by the histogram method of
  * IEEE Std 181-2011 (transitions, pulses and related waveforms), clause 5.2.1:
  * build a histogram of the sample values, split it at the midpoint of the
- * record's range, and take the mode of each half as the low and the high state.
+ * record's range, and take the mode of each half as the low and the high state
+ * (the definition every answer uses: ../../scope/ieee181.ts).
  */
 export interface StateLevels {
   /** Low state level, V. */
@@ -29,8 +31,6 @@ export interface StateLevelOptions {
   channelName?: string;
   /** JSON pointer of the channel, attached to errors. */
   pointer?: string;
-  /** Re-centre the mode windows (default true); a caller that refines the levels itself skips these passes. */
-  recentre?: boolean;
 }
 
 /**
@@ -53,10 +53,6 @@ const MIN_AMPLITUDE_FRACTION_OF_RANGE = 0.25;
 const MIN_STATE_FRACTION = 1e-3;
 /** Share of a state's samples pinned at the exact record extreme that marks it clipped. */
 const CLIPPED_PINNED_FRACTION = 0.5;
-/** Half-width, in bins, of the window around the modal bin averaged to refine the mode. */
-const MODE_REFINE_HALF_WIDTH_BINS = 2;
-/** At most this many re-centring passes of that window. */
-const RECENTRE_PASSES = 6;
 
 function badCapture(message: string, options: StateLevelOptions, reason: string, extra: Record<string, unknown> = {}): CoreError {
   return new CoreError('bad-capture', message, options.pointer, {
@@ -70,7 +66,6 @@ export function stateLevels(values: Float64Array, options: StateLevelOptions = {
   const name = options.channelName ?? 'channel';
   const n = values.length;
   if (n < 4) throw badCapture(`${name} has ${n} samples; at least 4 are needed to find state levels`, options, 'too-few-samples');
-
   let minV = Infinity;
   let maxV = -Infinity;
   for (let i = 0; i < n; i++) {
@@ -78,6 +73,19 @@ export function stateLevels(values: Float64Array, options: StateLevelOptions = {
     if (v < minV) minV = v;
     if (v > maxV) maxV = v;
   }
+  return stateLevelsInRange(values, minV, maxV, options);
+}
+
+/**
+ * stateLevels for a record whose smallest and largest samples are known (the
+ * capture analysis finds them while it checks the samples): one pass over the
+ * samples builds the histogram with each bin's sum, and the modes and their
+ * refinement come from the bins (../../scope/ieee181.ts, histogramModeLevels).
+ */
+export function stateLevelsInRange(values: Float64Array, minV: number, maxV: number, options: StateLevelOptions = {}): StateLevels {
+  const name = options.channelName ?? 'channel';
+  const n = values.length;
+  if (n < 4) throw badCapture(`${name} has ${n} samples; at least 4 are needed to find state levels`, options, 'too-few-samples');
   if (!Number.isFinite(minV) || !Number.isFinite(maxV)) {
     throw badCapture(`${name} holds non-finite samples`, options, 'non-finite-sample');
   }
@@ -91,27 +99,24 @@ export function stateLevels(values: Float64Array, options: StateLevelOptions = {
   if (!Number.isInteger(binCount) || binCount < 4 || binCount % 2 !== 0) {
     throw new CoreError('invalid-value', `binCount must be an even integer >= 4, got ${binCount}`);
   }
-  const counts = new Uint32Array(binCount);
+  const counts = new Float64Array(binCount);
+  const sums = new Float64Array(binCount);
   const binScale = binCount / rangeV;
+  const lastBin = binCount - 1;
+  let pinnedAtMin = 0;
+  let pinnedAtMax = 0;
   for (let i = 0; i < n; i++) {
-    let b = Math.floor((values[i] - minV) * binScale);
-    if (b >= binCount) b = binCount - 1;
+    const v = values[i];
+    let b = Math.floor((v - minV) * binScale);
+    if (b > lastBin) b = lastBin;
     counts[b]++;
+    sums[b] += v;
+    if (v === minV) pinnedAtMin++;
+    else if (v === maxV) pinnedAtMax++;
   }
-
-  const half = binCount / 2;
-  let lowMode = 0;
-  let highMode = half;
-  let lowTotal = 0;
-  let highTotal = 0;
-  for (let b = 0; b < half; b++) {
-    lowTotal += counts[b];
-    if (counts[b] > counts[lowMode]) lowMode = b;
-  }
-  for (let b = half; b < binCount; b++) {
-    highTotal += counts[b];
-    if (counts[b] > counts[highMode]) highMode = b;
-  }
+  const modes = histogramModeLevels(counts, sums, minV, rangeV / binCount);
+  const lowTotal = modes.lowCount;
+  const highTotal = modes.highCount;
 
   const minStateCount = Math.max(2, Math.ceil(MIN_STATE_FRACTION * n));
   if (lowTotal < minStateCount || highTotal < minStateCount) {
@@ -122,41 +127,8 @@ export function stateLevels(values: Float64Array, options: StateLevelOptions = {
       { lowHalfCount: lowTotal, highHalfCount: highTotal },
     );
   }
-
-  // Refine each mode to the mean of the samples in a few bins around it. The
-  // bare mode is quantised to a bin centre; the local mean removes most of
-  // that error for a symmetric noise peak (common practice, our choice).
-  const lowLo = Math.max(0, lowMode - MODE_REFINE_HALF_WIDTH_BINS);
-  const lowHi = Math.min(half - 1, lowMode + MODE_REFINE_HALF_WIDTH_BINS);
-  const highLo = Math.max(half, highMode - MODE_REFINE_HALF_WIDTH_BINS);
-  const highHi = Math.min(binCount - 1, highMode + MODE_REFINE_HALF_WIDTH_BINS);
-  let lowSum = 0;
-  let lowN = 0;
-  let highSum = 0;
-  let highN = 0;
-  let pinnedAtMin = 0;
-  let pinnedAtMax = 0;
-  for (let i = 0; i < n; i++) {
-    const v = values[i];
-    if (v === minV) pinnedAtMin++;
-    if (v === maxV) pinnedAtMax++;
-    let b = Math.floor((v - minV) * binScale);
-    if (b >= binCount) b = binCount - 1;
-    if (b >= lowLo && b <= lowHi) {
-      lowSum += v;
-      lowN++;
-    } else if (b >= highLo && b <= highHi) {
-      highSum += v;
-      highN++;
-    }
-  }
-  // Re-centre: the first window sits on bin edges, up to half a bin off the
-  // peak, and a truncated mean leans towards its window's centre; moving the
-  // window onto the estimate a few times removes that lean.
-  const halfWidthV = ((MODE_REFINE_HALF_WIDTH_BINS + 0.5) * rangeV) / binCount;
-  const recentre = options.recentre !== false;
-  const lowV = recentre ? recentredMean(values, lowSum / lowN, halfWidthV) : lowSum / lowN;
-  const highV = recentre ? recentredMean(values, highSum / highN, halfWidthV) : highSum / highN;
+  const lowV = modes.lowV;
+  const highV = modes.highV;
   const amplitudeV = highV - lowV;
 
   if (amplitudeV < MIN_AMPLITUDE_FRACTION_OF_RANGE * rangeV) {
@@ -194,31 +166,7 @@ export function stateLevels(values: Float64Array, options: StateLevelOptions = {
   return { lowV, highV, amplitudeV, minV, maxV, binCount };
 }
 
-/** Fixed-point of "mean of the samples within +-halfWidthV of the centre", from startV (a few O(n) passes). */
-function recentredMean(values: Float64Array, startV: number, halfWidthV: number): number {
-  let centreV = startV;
-  for (let pass = 0; pass < RECENTRE_PASSES; pass++) {
-    let sum = 0;
-    let count = 0;
-    const lo = centreV - halfWidthV;
-    const hi = centreV + halfWidthV;
-    for (let i = 0; i < values.length; i++) {
-      const v = values[i];
-      if (v >= lo && v <= hi) {
-        sum += v;
-        count++;
-      }
-    }
-    if (count === 0) break;
-    const next = sum / count;
-    const moved = Math.abs(next - centreV);
-    centreV = next;
-    if (moved <= 1e-6 * halfWidthV) break;
-  }
-  return centreV;
-}
-
 /** Voltage at `percent` % of the way from the low to the high state (IEEE 181 reference level). */
 export function referenceLevelV(levels: Pick<StateLevels, 'lowV' | 'amplitudeV'>, percent: number): number {
-  return levels.lowV + (percent / 100) * levels.amplitudeV;
+  return sharedReferenceLevelV(levels.lowV, levels.lowV + levels.amplitudeV, percent / 100);
 }

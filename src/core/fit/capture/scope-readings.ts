@@ -1,14 +1,12 @@
 /**
- * The capture side of the shared figure definitions
- * (../definitions/scope-definitions.ts): settled output levels, reference-level
- * instants, capacitor turning points and windowed time constants, read off
+ * The capture side of the shared figure definitions (../../scope/ieee181.ts for
+ * the output, ../definitions/scope-definitions.ts for the capacitor): output
+ * reference-level instants, capacitor turning points and windowed time constants, read off
  * sampled, noisy, quantised records. Every pass is a loop over the typed array;
  * nothing is copied.
  */
 import {
   EXTREME_WINDOW_SHARE,
-  LEVEL_ITERATIONS,
-  LEVEL_MARGIN,
   CROSSING_WINDOW_SHARE,
   TAU_WINDOW_HIGH,
   TAU_WINDOW_LOW,
@@ -44,81 +42,41 @@ export interface OutputReadings {
   duty: Spread | undefined;
   rise: Spread | undefined;
   fall: Spread | undefined;
-  /** Samples averaged into each level. */
-  highSamples: number;
-  lowSamples: number;
-}
-
-/** Mean of the samples with times in [a, b]; returns [sum, count]. */
-function windowSum(values: Float64Array, clock: SampleClock, a: number, b: number): [number, number] {
-  const n = Math.min(values.length, clockLength(clock));
-  const i0 = Math.max(0, Math.ceil(indexAtTime(clock, a)));
-  const i1 = Math.min(n - 1, Math.floor(indexAtTime(clock, b)));
-  let sum = 0;
-  for (let i = i0; i <= i1; i++) sum += values[i];
-  return [sum, Math.max(0, i1 - i0 + 1)];
 }
 
 /**
- * Settled levels and reference instants of the output, starting from the
- * histogram levels and iterating the shared definition.
+ * Reference instants of the output between its histogram-mode state levels
+ * (../../scope/ieee181.ts): one pass over the samples for the transitions,
+ * then per cycle the period (like-direction 50 % instants), the duty cycle
+ * (rising to falling 50 % instant over the cycle) and the 10–90 % durations.
  */
-export function readOutput(values: Float64Array, clock: SampleClock, startHighV: number, startLowV: number, crossing: CrossingOptions = {}): OutputReadings {
-  let highV = startHighV;
-  let lowV = startLowV;
-  let highSamples = 0;
-  let lowSamples = 0;
-  let transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
-  for (let pass = 0; pass < LEVEL_ITERATIONS; pass++) {
-    let hs = 0;
-    let hn = 0;
-    let ls = 0;
-    let ln = 0;
-    for (let k = 0; k + 1 < transitions.length; k++) {
-      const a = transitions[k];
-      const b = transitions[k + 1];
-      // Settled part: LEVEL_MARGIN durations past the arriving reference instant, before the departing one.
-      const from = a.endS + LEVEL_MARGIN * a.durationS;
-      const to = b.startS - LEVEL_MARGIN * b.durationS;
-      if (!(to > from)) continue;
-      const [s, c] = windowSum(values, clock, from, to);
-      if (a.direction === 'rising') {
-      hs += s;
-      hn += c;
-    }
-      else {
-        ls += s;
-        ln += c;
-      }
-    }
-    if (hn === 0 || ln === 0) break;
-    highV = hs / hn;
-    lowV = ls / ln;
-    highSamples = hn;
-    lowSamples = ln;
-    transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
-  }
-  const rising = transitions.filter((t) => t.direction === 'rising');
-  const falling = transitions.filter((t) => t.direction === 'falling');
+export function readOutput(values: Float64Array, clock: SampleClock, highV: number, lowV: number, crossing: CrossingOptions = {}): OutputReadings {
+  const transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
   const periods: number[] = [];
-  for (let k = 1; k < rising.length; k++) periods.push(rising[k].timeS - rising[k - 1].timeS);
-  for (let k = 1; k < falling.length; k++) periods.push(falling[k].timeS - falling[k - 1].timeS);
   const duties: number[] = [];
-  for (let k = 0; k + 2 < transitions.length; k++) {
-    const [a, b, c] = [transitions[k], transitions[k + 1], transitions[k + 2]];
-    duties.push(a.direction === 'rising' ? (b.timeS - a.timeS) / (c.timeS - a.timeS) : 1 - (b.timeS - a.timeS) / (c.timeS - a.timeS));
+  const rises: number[] = [];
+  const falls: number[] = [];
+  let lastRiseS = Number.NaN;
+  let lastFallS = Number.NaN;
+  for (let k = 0; k < transitions.length; k++) {
+    const a = transitions[k];
+    if (a.direction === 'rising') {
+      if (!Number.isNaN(lastRiseS)) periods.push(a.timeS - lastRiseS);
+      lastRiseS = a.timeS;
+      rises.push(a.durationS);
+    } else {
+      if (!Number.isNaN(lastFallS)) periods.push(a.timeS - lastFallS);
+      lastFallS = a.timeS;
+      falls.push(a.durationS);
+    }
+    if (k + 2 < transitions.length) {
+      // Transitions alternate: a, b, c span one cycle; the high part is rise → fall.
+      const cycleS = transitions[k + 2].timeS - a.timeS;
+      const partS = transitions[k + 1].timeS - a.timeS;
+      duties.push(a.direction === 'rising' ? partS / cycleS : 1 - partS / cycleS);
+    }
   }
-  return {
-    highV,
-    lowV,
-    transitions,
-    period: intervalStats(periods),
-    duty: spread(duties),
-    rise: spread(rising.map((t) => t.durationS)),
-    fall: spread(falling.map((t) => t.durationS)),
-    highSamples,
-    lowSamples,
-  };
+  return { highV, lowV, transitions, period: intervalStats(periods), duty: spread(duties), rise: spread(rises), fall: spread(falls) };
 }
 
 /** Least-squares quadratic through samples [i0, i1] in u = t − t0: [c0, c1, c2] (undefined if singular). */

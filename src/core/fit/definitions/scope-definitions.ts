@@ -1,20 +1,14 @@
 /**
- * How a figure is read off a waveform — ONE definition shared by the capture
- * analysis (which applies it to sampled, noisy records) and the forward model
- * (which applies it to the engine's exact cycle). Keeping the definitions here,
+ * How a capacitor-channel figure is read off a waveform — ONE definition shared
+ * by the capture analysis (which applies it to sampled, noisy records) and the
+ * forward model (which applies it to the engine's exact cycle). Keeping the definitions here,
  * and nowhere else, is what makes a noiseless capture of a circuit fit that
  * circuit exactly, however slow its edges.
  *
- * Output channel (IEEE Std 181-2011 terms):
- * - state levels: the mean of the pin over the settled part of each state, i.e.
- *   from the arriving transition's 90 % (rising) / 10 % (falling) reference
- *   instant plus LEVEL_MARGIN × its 10–90 % duration, to the departing
- *   transition's first reference instant minus LEVEL_MARGIN × its duration.
- *   The reference levels themselves come from the state levels, so both sides
- *   iterate LEVEL_ITERATIONS times (IEEE 181's histogram levels start the
- *   capture's iteration; the settled levels of the engine start the model's);
- * - period and duty cycle: the 50 % reference-level instants;
- * - transition durations: 10 % to 90 % reference-level instants.
+ * Output channel: the state levels, 50 % reference-level instants, duty
+ * cycle and 10–90 % transition durations of ../../scope/ieee181.ts — the same
+ * definitions /v1/analyze reports, read by the engine on the exact cycle and
+ * by the capture analysis on samples.
  * Capacitor channel:
  * - capacitorMaxV / capacitorMinV: the turning points (overshoot included);
  * - capacitorAboveMidShare: the share of the period the capacitor spends above
@@ -29,14 +23,6 @@
  *   same way on both sides.
  */
 
-/** Margin after/before a transition, in 10–90 % durations: a linear ramp ends 0.125 durations past its 90 % instant (our margin: twice that). */
-export const LEVEL_MARGIN = 0.25;
-/** Fixed-point passes levels → reference instants → levels. */
-export const LEVEL_ITERATIONS = 2;
-/** IEEE Std 181 reference levels, fractions of the amplitude. */
-export const REF_LOW = 0.1;
-export const REF_MID = 0.5;
-export const REF_HIGH = 0.9;
 /** Time-constant window: between these shares of the capacitor's range (min → max). */
 export const TAU_WINDOW_LOW = 0.25;
 export const TAU_WINDOW_HIGH = 0.75;

@@ -2,22 +2,18 @@
  * The forward model of the fit: circuit -> the figures a scope shows. It IS the
  * time-domain engine (per-state nodal solve + event-driven piece walk, DESIGN
  * §2.1): the engine walks to its steady cycle and the figures are read off the
- * exact logged pieces with the definitions of ../definitions/scope-definitions.ts,
- * the same ones the capture analysis applies to samples. There is no second
+ * exact logged pieces: the output's levels, duty and transitions by the engine's
+ * own read-out (the definitions of ../../scope/ieee181.ts), the capacitor's by
+ * ../definitions/scope-definitions.ts; the capture analysis applies both to samples. There is no second
  * copy of the physics here: only the reading of a solved cycle.
  */
 import { prepareCircuit, type PreparedCircuit } from '../../circuit/analyze.ts';
 import { requireHysteresis } from '../../circuit/closed-form.ts';
-import { walkToCycle } from '../../circuit/engine/prepared.ts';
+import { OUTPUT_LENGTH, OUTPUT_SLOT, readTiming, walkToCycle } from '../../circuit/engine/prepared.ts';
 import { OscillatorWalk, type SteadyCycle } from '../../circuit/engine/walker.ts';
 import type { Circuit } from '../../circuit/types.ts';
 import { CoreError } from '../../errors.ts';
 import {
-  LEVEL_ITERATIONS,
-  LEVEL_MARGIN,
-  REF_HIGH,
-  REF_LOW,
-  REF_MID,
   TAU_WINDOW_HIGH,
   TAU_WINDOW_LOW,
   tauFromWindowMeans,
@@ -57,11 +53,6 @@ const PIN = 0;
 const CAP = 1;
 
 // Module-local copies of the shared definitions (read per evaluation, thousands of times per fit).
-const ITERATIONS = LEVEL_ITERATIONS;
-const MARGIN = LEVEL_MARGIN;
-const LOW = REF_LOW;
-const MID = REF_MID;
-const HIGH = REF_HIGH;
 const TAU_LOW = TAU_WINDOW_LOW;
 const TAU_HIGH = TAU_WINDOW_HIGH;
 
@@ -209,6 +200,7 @@ class CycleReader {
 const walk = new OscillatorWalk();
 const reader = new CycleReader();
 const levels = new Float64Array(3);
+const timing = new Float64Array(OUTPUT_LENGTH);
 const from = new Float64Array(6);
 const to = new Float64Array(6);
 
@@ -219,36 +211,15 @@ export function figuresOfPrepared(prepared: PreparedCircuit): PredictedFigures {
   r.bind(walk, cycle);
   const periodS = cycle.periodS;
 
-  // Output levels: settled means, iterated with the reference instants they define.
-  let highV = walk.highV;
-  let lowV = walk.lowV;
-  for (let pass = 0; pass < ITERATIONS; pass++) {
-    const swing = highV - lowV;
-    levels[0] = lowV + LOW * swing;
-    levels[1] = lowV + HIGH * swing;
-    r.crossings(PIN, levels, 2);
-    const [low0, low1, high0, high1] = [r.rise[0], r.fall[0], r.rise[1], r.fall[1]];
-    const riseDur = mod(high0 - low0, periodS);
-    const fallDur = mod(low1 - high1, periodS);
-    // High: from the rise's 90 % instant to the fall's 90 % instant; low: 10 % fall to 10 % rise.
-    from[0] = high0 + MARGIN * riseDur;
-    to[0] = high0 + mod(high1 - high0, periodS) - MARGIN * fallDur;
-    from[1] = low1 + MARGIN * fallDur;
-    to[1] = low1 + mod(low0 - low1, periodS) - MARGIN * riseDur;
-    if (!(to[0] > from[0] && to[1] > from[1])) break; // edges fill the states: keep the previous levels
-    r.integrals(PIN, from, to, 2);
-    highV = r.sums[0] / (to[0] - from[0]);
-    lowV = r.sums[1] / (to[1] - from[1]);
-  }
+  // Output levels, duty and transitions: the engine's own read-out of the cycle (src/core/scope/ieee181.ts).
+  readTiming(walk, cycle, timing, true);
+  const highV = timing[OUTPUT_SLOT.highV];
+  const lowV = timing[OUTPUT_SLOT.lowV];
   const swing = highV - lowV;
   if (!(swing > 0)) throw new CoreError('no-oscillation', 'the output does not swing between two levels');
-  levels[0] = lowV + LOW * swing;
-  levels[1] = lowV + HIGH * swing;
-  levels[2] = lowV + MID * swing;
-  r.crossings(PIN, levels, 3);
-  const riseTimeS = mod(r.rise[1] - r.rise[0], periodS);
-  const fallTimeS = mod(r.fall[0] - r.fall[1], periodS);
-  const dutyCycle = mod(r.fall[2] - r.rise[2], periodS) / periodS;
+  const dutyCycle = timing[OUTPUT_SLOT.dutyCycle];
+  const riseTimeS = timing[OUTPUT_SLOT.riseTimeS];
+  const fallTimeS = timing[OUTPUT_SLOT.fallTimeS];
 
   r.turningPoints();
   const maxV = r.maxV;
