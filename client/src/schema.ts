@@ -3600,6 +3600,8 @@ export interface components {
                 /** @description Highest board temperature, °C */
                 maxC: number;
             };
+            /** @description Years the board must keep its clock in spec (default 0: no ageing). A class II/III timing capacitor (dielectric from its part object, or from temperatureCoefficients) loses capacitance by the log-decade law C(t) = C(t0)·(1 − k·log10(t/t0)) from its ageHours to ageHours + years × 8766 h; corners take the start and the end of service, Monte Carlo a uniform age. */
+            serviceLifeYears?: number;
             /** @description Supply spread, fraction: both rails scale by one shared draw unless supplyRailsIndependent */
             supplyTolerance?: number;
             /** @description Draw each rail on its own (default false: one regulator, rails move together) */
@@ -3740,9 +3742,9 @@ export interface components {
             };
             /** @description Ranked by |sensitivity| */
             sensitivities: {
-                /** @description Part role, or the supply/amplifier parameter name */
+                /** @description Part role, or the supply/amplifier/diode parameter name (diodeForwardDropV: the steering diodes' forward drop) */
                 role: string;
-                kind: "resistor" | "capacitor" | "supply" | "amplifier" | "load";
+                kind: "resistor" | "capacitor" | "supply" | "amplifier" | "load" | "diode";
                 /** @description d ln f / d ln x at nominal */
                 sensitivity: number;
                 /** @description d(duty) / d ln x at nominal */
@@ -3753,7 +3755,7 @@ export interface components {
             /** @description First-order variance budget of ln f by independent source, largest first */
             varianceSources: {
                 source: string;
-                kind: "part-tolerance" | "tracking" | "tracking-residual" | "temperature" | "tempco-spread" | "dielectric-band" | "supply" | "amplifier";
+                kind: "part-tolerance" | "tracking" | "tracking-residual" | "temperature" | "tempco-spread" | "dielectric-band" | "supply" | "amplifier" | "ageing";
                 share: number;
                 relativeStd: number;
             }[];
@@ -3769,6 +3771,36 @@ export interface components {
                 changeMaxFraction: number;
                 withinRatedRange: boolean;
             }[];
+            /** @description Active parts that follow the board temperature at every corner and Monte Carlo sample (with a temperature range): amplifier offset, bias current, headroom and delay drift, the steering diodes' forward drop */
+            temperatureDrifts: {
+                /** @description The drifting parameter (inputOffsetV, inputBiasCurrentA, outputHeadroomHighV/LowV, recoveryDelayS, diodeForwardDropV); the values below are in the unit its name states */
+                parameter: string;
+                /** @description amplifier: its drift figures (amplifier table); steering-diodes: the forward drop, −2 mV/K (common practice) */
+                source: "amplifier" | "steering-diodes";
+                /** @description The law with its figure, in words */
+                law: string;
+                /** @description Value at 25 °C */
+                valueAtReference: number;
+                /** @description Smallest value over the temperature range */
+                valueMin: number;
+                /** @description Largest value over the temperature range */
+                valueMax: number;
+            }[];
+            /** @description The timing capacitor's ageing over serviceLifeYears (null: no service life, or a capacitor that does not age) */
+            ageing: {
+                /** @description The timing capacitor */
+                role: string;
+                /** @description Loss per decade of hours, fraction (typical of the class) */
+                ratePerDecade: number;
+                /** @description Hours since de-ageing at the start of service */
+                ageStartHours: number;
+                /** @description Hours since de-ageing at the end of service */
+                ageEndHours: number;
+                /** @description The service life the run covers */
+                serviceLifeYears: number;
+                /** @description Capacitance change over the service life, fraction (negative: loss) */
+                changeFraction: number;
+            } | null;
             notes: {
                 code: string;
                 message: string;

@@ -30,22 +30,35 @@ export const NO_DRIFT: Readonly<AmplifierDrift> = Object.freeze({
 
 export const DRIFT_REFERENCE_TEMPERATURE_C = 25;
 
+/** Factor on the input bias current dT kelvin above 25 °C (doublingK: Infinity = no doubling). */
+export function biasCurrentFactorAt(doublingK: number, dT: number): number {
+  return Number.isFinite(doublingK) ? 2 ** (dT / doublingK) : 1;
+}
+
+/** Factor on the delay dT kelvin above 25 °C (never below zero). */
+export function delayFactorAt(driftPerK: number, dT: number): number {
+  return Math.max(0, 1 + driftPerK * dT);
+}
+
+/** An output headroom dT kelvin above 25 °C, V (never below zero). */
+export function headroomAtV(headroom25V: number, driftVPerK: number, dT: number): number {
+  return Math.max(0, headroom25V + driftVPerK * dT);
+}
+
 /**
- * The figures at temperatureC. offsetSign (+1/−1) picks the direction of the
- * offset drift (a corner takes both).
+ * The figures at temperatureC. offsetSign (−1…+1) scales the offset drift (its
+ * sign is unknown for a part: a corner takes both ends).
  */
 export function figuresAtTemperature<T extends AmplifierFigures>(amp: T, drift: AmplifierDrift, temperatureC: number, offsetSign = 1): T {
   const dT = temperatureC - DRIFT_REFERENCE_TEMPERATURE_C;
   if (dT === 0) return amp;
-  const biasFactor = Number.isFinite(drift.inputBiasDoublingK) ? 2 ** (dT / drift.inputBiasDoublingK) : 1;
-  const delayFactor = Math.max(0, 1 + drift.delayDriftPerK * dT);
   return {
     ...amp,
     inputOffsetV: amp.inputOffsetV + offsetSign * drift.inputOffsetDriftVPerK * dT,
-    inputBiasCurrentA: amp.inputBiasCurrentA * biasFactor,
-    outputHeadroomHighV: Math.max(0, amp.outputHeadroomHighV + drift.outputHeadroomDriftVPerK * dT),
-    outputHeadroomLowV: Math.max(0, amp.outputHeadroomLowV + drift.outputHeadroomDriftVPerK * dT),
-    recoveryDelayS: amp.recoveryDelayS * delayFactor,
+    inputBiasCurrentA: amp.inputBiasCurrentA * biasCurrentFactorAt(drift.inputBiasDoublingK, dT),
+    outputHeadroomHighV: headroomAtV(amp.outputHeadroomHighV, drift.outputHeadroomDriftVPerK, dT),
+    outputHeadroomLowV: headroomAtV(amp.outputHeadroomLowV, drift.outputHeadroomDriftVPerK, dT),
+    recoveryDelayS: amp.recoveryDelayS * delayFactorAt(drift.delayDriftPerK, dT),
   };
 }
 

@@ -21,7 +21,7 @@ export const DEFAULT_MONTE_CARLO = { samples: 10_000, seed: 1, distribution: 'no
 export const MAX_HISTOGRAM_BINS = 1000;
 
 /** Sources that belong to one part alone (they make up that part's variance share). */
-const OWN_KINDS: ReadonlySet<VariationKind> = new Set(['part-tolerance', 'tracking-residual', 'tempco-spread', 'dielectric-band']);
+const OWN_KINDS: ReadonlySet<VariationKind> = new Set(['part-tolerance', 'tracking-residual', 'tempco-spread', 'dielectric-band', 'ageing']);
 
 function checkSpec(spec: FrequencySpec): void {
   if (!(spec.frequencyHz > 0) || !Number.isFinite(spec.frequencyHz)) throw new CoreError('invalid-value', 'spec.frequencyHz must be > 0', '/spec/frequencyHz');
@@ -157,6 +157,8 @@ export function runToleranceAnalysis(request: ToleranceRequest, options: Toleran
       ? { sensitivities, varianceSources: budget.sources, linearEstimate: { frequencyRelativeStd: budget.relativeStd } }
       : {}),
     temperatureModels: model.temperatureModels,
+    temperatureDrifts: model.temperatureDrifts,
+    ageing: model.ageing,
     notes,
   };
   if (drawn && monteCarlo && request.histogramBins !== undefined) result.histogram = histogram(drawn.frequencyHz, request.histogramBins, monteCarlo, request.spec);

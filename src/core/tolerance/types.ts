@@ -49,6 +49,17 @@ export interface FrequencySpec {
   dutyMax?: number;
 }
 
+/** The timing capacitor's ageing, when the circuit gives the capacitor as a part (parts/capacitor/model.ts). */
+export interface TimingCapacitorAgeing {
+  /** Fractional loss per decade of hours (log-decade law, parts/capacitor/ageing.ts). */
+  ageingRatePerDecade: number;
+  /** Hours since the last de-ageing at the start of service. */
+  ageHours: number;
+}
+
+/** Longest service life a request may state, years (beyond it the log-decade law is extrapolated past any data). */
+export const SERVICE_LIFE_LIMIT_YEARS = 100;
+
 export interface ToleranceRequest {
   circuit: Circuit;
   model?: ModelChoice;
@@ -56,6 +67,13 @@ export interface ToleranceRequest {
   tolerances: Readonly<Record<string, number>>;
   temperatureCoefficients?: Readonly<Record<string, TemperatureCoefficient>>;
   temperature?: { minC: number; maxC: number };
+  /**
+   * Years in service: class II/III timing capacitors lose capacitance by the log-decade law over
+   * them (corners take the start and the end, Monte Carlo a uniform age). Default 0: no ageing.
+   */
+  serviceLifeYears?: number;
+  /** The timing capacitor's ageing law and age (from its part object); without it, from its dielectric in temperatureCoefficients. */
+  timingCapacitor?: TimingCapacitorAgeing;
   /** Both rails scale by one shared draw within ± this fraction (or each on its own: supplyRailsIndependent). */
   supplyTolerance?: number;
   supplyRailsIndependent?: boolean;
@@ -135,7 +153,7 @@ export interface MonteCarloResult {
 export interface PartSensitivity {
   /** Part role, or the circuit-level parameter name for supply and amplifier figures. */
   role: string;
-  kind: 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load';
+  kind: 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load' | 'diode';
   /** d ln f / d ln x at nominal. */
   sensitivity: number;
   /** d(duty cycle) / d ln x at nominal. */
@@ -161,7 +179,8 @@ export type VariationKind =
   | 'tempco-spread'
   | 'dielectric-band'
   | 'supply'
-  | 'amplifier';
+  | 'amplifier'
+  | 'ageing';
 
 export interface TemperatureModelSummary {
   role: string;
@@ -172,6 +191,36 @@ export interface TemperatureModelSummary {
   changeMaxFraction: number;
   /** False when the temperature range leaves the dielectric's rated range. */
   withinRatedRange: boolean;
+}
+
+/**
+ * How one parameter of an active part follows the board temperature (amplifier drift figures from
+ * the amplifier table, the steering diodes' forward drop): applied at every corner and Monte Carlo
+ * sample with the sample's temperature.
+ */
+export interface TemperatureDriftSummary {
+  /** The parameter that drifts; its values below are in the unit its name states. */
+  parameter: string;
+  source: 'amplifier' | 'steering-diodes';
+  /** The law with its figure, in words. */
+  law: string;
+  /** Value at 25 °C. */
+  valueAtReference: number;
+  /** Smallest and largest value over the temperature range (and the drift's sign, where it is unknown). */
+  valueMin: number;
+  valueMax: number;
+}
+
+/** The timing capacitor's ageing over the service life (log-decade law). */
+export interface AgeingSummary {
+  role: string;
+  ratePerDecade: number;
+  /** Hours since de-ageing at the start and at the end of service. */
+  ageStartHours: number;
+  ageEndHours: number;
+  serviceLifeYears: number;
+  /** Capacitance change from the start to the end of service, fraction (negative: loss). */
+  changeFraction: number;
 }
 
 export interface ToleranceNote {
@@ -191,6 +240,9 @@ export interface ToleranceResult {
   /** First-order estimate of the relative standard deviation of f (root sum of squares of the sources). */
   linearEstimate: { frequencyRelativeStd: number };
   temperatureModels: TemperatureModelSummary[];
+  temperatureDrifts: TemperatureDriftSummary[];
+  /** Null when nothing ages (no service life, or a capacitor that does not age). */
+  ageing: AgeingSummary | null;
   notes: ToleranceNote[];
   histogram?: { edges: number[]; counts: number[] };
 }

@@ -13,17 +13,36 @@
  *   linear tempco (resistor, class I, film):    x = x0·(1 + (α + Δα·w)·1e-6·(T − 25 °C))
  *   class II/III band (EIA-198 X7R, Y5V...):    x = x0·(1 + c),  c uniform in the code's band
  *   input offset range:                         Vos = Vos0 + range·u
+ *   timing capacitor ageing (y years in service): C = C0·A(t0 + y·8766 h)/A(t0),
+ *                                               A the log-decade law (parts/capacitor/ageing.ts)
  * The factors multiply, so a part with a tolerance and a tempco gets both.
  * Class II/III codes give one change bound over the whole rated range, so the
  * band applies at every temperature in the range (the code says nothing finer).
+ *
+ * With a temperature range, the active parts drift with the same board
+ * temperature T (ΔT = T − 25 °C), after the spreads above:
+ *   input offset:        Vos += w·drift·ΔT, w uniform in [−1, 1] (the sign is unknown: corners take both)
+ *   input bias current:  Ib ×= 2^(ΔT/doublingK)            (JFET/CMOS gate leakage)
+ *   output headrooms:    h = max(0, h + drift·ΔT)
+ *   recovery delay:      t ×= max(0, 1 + drift·ΔT)
+ *   diode forward drop:  Vf = max(0, Vf − 2 mV/K·ΔT)        (common practice, parts/diode-drift.ts)
+ * with the amplifier's drift figures from its table entries
+ * (amplifiers/temperature-drift.ts, the same laws figuresAtTemperature uses).
  */
 import type { ParameterInfo } from '../circuit/engine/compiled-network.ts';
 import type { ModelName } from '../circuit/result.ts';
 import { CoreError } from '../errors.ts';
 import { toleranceSpec } from '../amplifiers/figures-table.ts';
 import { capacitanceChangeAt, parseDielectric } from '../parts/dielectric.ts';
+import { biasCurrentFactorAt, delayFactorAt, driftOf, headroomAtV } from '../amplifiers/temperature-drift.ts';
+import type { AmplifierModel } from '../amplifiers/model.ts';
+import { DIODE_FORWARD_DROP_TEMPCO_V_PER_K, forwardDropAtV } from '../parts/diode-drift.ts';
+import { ageingFactor, ageingRatePerDecade, AGEING_REFERENCE_HOURS, HOURS_PER_YEAR } from '../parts/capacitor/ageing.ts';
 import {
   AMPLIFIER_SPREAD_FIELDS,
+  SERVICE_LIFE_LIMIT_YEARS,
+  type AgeingSummary,
+  type TemperatureDriftSummary,
   type TemperatureModelSummary,
   type ToleranceNote,
   type ToleranceRequest,
@@ -66,6 +85,8 @@ export interface VariationModel {
   referencePoint(): Float64Array;
   centerPoint(): Float64Array;
   temperatureModels: TemperatureModelSummary[];
+  temperatureDrifts: TemperatureDriftSummary[];
+  ageing: AgeingSummary | null;
   notes: ToleranceNote[];
 }
 
@@ -74,6 +95,42 @@ interface LinearTempTerm {
   tempcoPpmPerK: number;
   spreadPpmPerK: number;
   spreadDim: number;
+}
+
+/** How an active part's parameter follows the board temperature (module comment). */
+export const DRIFT_LAW = { offset: 0, headroom: 1, diodeDrop: 2, biasDoubling: 3, delay: 4 } as const;
+type DriftLaw = (typeof DRIFT_LAW)[keyof typeof DRIFT_LAW];
+
+interface DriftTerm {
+  param: number;
+  law: DriftLaw;
+  /** V/K (offset, headroom, diode drop), K per doubling (bias), 1/K (delay). */
+  figure: number;
+  /** Dimension of the drift's unknown sign (offset), −1 for none. */
+  signDim: number;
+}
+
+interface AgeingTerm {
+  param: number;
+  ratePerDecade: number;
+  ageHours: number;
+  yearsDim: number;
+}
+
+/** A drift law applied to x at dT kelvin from 25 °C; w scales a drift of unknown sign. */
+function driftedValue(law: DriftLaw, figure: number, x: number, dT: number, w: number): number {
+  switch (law) {
+    case DRIFT_LAW.offset: return x + w * figure * dT;
+    case DRIFT_LAW.headroom: return headroomAtV(x, figure, dT);
+    case DRIFT_LAW.diodeDrop: return forwardDropAtV(x, REFERENCE_TEMPERATURE_C + dT, figure);
+    case DRIFT_LAW.biasDoubling: return x * biasCurrentFactorAt(figure, dT);
+    case DRIFT_LAW.delay: return x * delayFactorAt(figure, dT);
+  }
+}
+
+/** Capacitance factor after `years` in service from ageHours, by the log-decade law. */
+function ageingRatio(ratePerDecade: number, ageHours: number, years: number): number {
+  return ageingFactor(ratePerDecade, ageHours + years * HOURS_PER_YEAR) / ageingFactor(ratePerDecade, ageHours);
 }
 
 function invalid(message: string, pointer: string): never {
@@ -182,9 +239,6 @@ export function buildVariationModel(
   if (coefficients.length > 0 && !range) {
     notes.push({ code: 'no-temperature-range', message: 'temperatureCoefficients are given but no temperature range: the parts are taken at 25 °C' });
   }
-  if (range && coefficients.length === 0) {
-    notes.push({ code: 'temperature-without-coefficients', message: 'A temperature range is given but no part has a temperature coefficient: temperature has no effect' });
-  }
   for (const [role, coefficient] of range ? coefficients : []) {
     const pointer = `/temperatureCoefficients/${role}`;
     const p = partIndex(role, pointer);
@@ -257,6 +311,87 @@ export function buildVariationModel(
     });
   }
 
+  // --- drift of the active parts with the board temperature
+  const drifts: DriftTerm[] = [];
+  const temperatureDrifts: TemperatureDriftSummary[] = [];
+  if (range) addActiveDrift(request.circuit.amplifier);
+  if (range && coefficients.length === 0 && drifts.length === 0) {
+    notes.push({
+      code: 'temperature-without-coefficients',
+      message: 'A temperature range is given but nothing in this circuit drifts with it (no part temperature coefficient, no amplifier drift figure, no steering diodes): temperature has no effect',
+    });
+  }
+
+  function addActiveDrift(amp: AmplifierModel) {
+    const t = dims[temperatureDimension];
+    const drift = driftOf(amp);
+    const add = (name: string, law: DriftLaw, figure: number, source: TemperatureDriftSummary['source'], words: string, signDim = -1) => {
+      const p = index.get(name);
+      if (p === undefined) return;
+      const x0 = nominal[p];
+      drifts.push({ param: p, law, figure, signDim });
+      t.targets.push(p);
+      if (signDim >= 0) dims[signDim].targets.push(p);
+      const ends = [t.low, t.high].flatMap((T) => [-1, 1].map((w) => driftedValue(law, figure, x0, T - REFERENCE_TEMPERATURE_C, w)));
+      temperatureDrifts.push({ parameter: name, source, law: words, valueAtReference: x0, valueMin: Math.min(...ends) + 0, valueMax: Math.max(...ends) + 0 });
+    };
+    const timeDomain = model === 'time-domain';
+    if (drift.inputOffsetDriftVPerK > 0) {
+      dims.push({ name: 'inputOffsetV drift sign', kind: 'tempco-spread', sampling: 'uniform', low: -1, high: 1, reference: 0, center: 0, targets: [] });
+      add('inputOffsetV', DRIFT_LAW.offset, drift.inputOffsetDriftVPerK, 'amplifier', `± ${micro(drift.inputOffsetDriftVPerK)} µV/K (sign unknown: both)`, dims.length - 1);
+    }
+    const biasIndex = index.get('inputBiasCurrentA');
+    if (Number.isFinite(drift.inputBiasDoublingK) && biasIndex !== undefined && nominal[biasIndex] > 0) {
+      add('inputBiasCurrentA', DRIFT_LAW.biasDoubling, drift.inputBiasDoublingK, 'amplifier', `doubles every ${drift.inputBiasDoublingK} K`);
+    }
+    if (drift.outputHeadroomDriftVPerK !== 0) {
+      const words = `${milli(drift.outputHeadroomDriftVPerK)} mV/K (not below 0)`;
+      add('outputHeadroomHighV', DRIFT_LAW.headroom, drift.outputHeadroomDriftVPerK, 'amplifier', words);
+      add('outputHeadroomLowV', DRIFT_LAW.headroom, drift.outputHeadroomDriftVPerK, 'amplifier', words);
+    }
+    const delayIndex = index.get('recoveryDelayS');
+    if (timeDomain && drift.delayDriftPerK !== 0 && delayIndex !== undefined && nominal[delayIndex] > 0) {
+      add('recoveryDelayS', DRIFT_LAW.delay, drift.delayDriftPerK, 'amplifier', `${Number((drift.delayDriftPerK * 100).toPrecision(3))} %/K`);
+    }
+    if (index.has('diodeForwardDropV')) {
+      add('diodeForwardDropV', DRIFT_LAW.diodeDrop, DIODE_FORWARD_DROP_TEMPCO_V_PER_K, 'steering-diodes', `${milli(DIODE_FORWARD_DROP_TEMPCO_V_PER_K)} mV/K (silicon junction, common practice; not below 0)`);
+    }
+  }
+
+  // --- ageing of the timing capacitor over the service life
+  const ageingTerms: AgeingTerm[] = [];
+  let ageing: AgeingSummary | null = null;
+  const serviceLifeYears = request.serviceLifeYears ?? 0;
+  if (!Number.isFinite(serviceLifeYears) || serviceLifeYears < 0 || serviceLifeYears > SERVICE_LIFE_LIMIT_YEARS) {
+    invalid(`serviceLifeYears must be from 0 to ${SERVICE_LIFE_LIMIT_YEARS} years`, '/serviceLifeYears');
+  }
+  const capacitorIndex = parameters.findIndex((p) => p.kind === 'capacitor');
+  if (capacitorIndex >= 0) {
+    const role = parameters[capacitorIndex].name;
+    const law = timingCapacitorAgeing(request, role);
+    if (law && law.ageingRatePerDecade > 0) {
+      if (serviceLifeYears > 0) {
+        dims.push({ name: `${role} ageing`, kind: 'ageing', sampling: 'uniform', low: 0, high: serviceLifeYears, reference: 0, center: serviceLifeYears / 2, targets: [capacitorIndex] });
+        ageingTerms.push({ param: capacitorIndex, ratePerDecade: law.ageingRatePerDecade, ageHours: law.ageHours, yearsDim: dims.length - 1 });
+        ageing = {
+          role,
+          ratePerDecade: law.ageingRatePerDecade,
+          ageStartHours: law.ageHours,
+          ageEndHours: law.ageHours + serviceLifeYears * HOURS_PER_YEAR,
+          serviceLifeYears,
+          changeFraction: ageingRatio(law.ageingRatePerDecade, law.ageHours, serviceLifeYears) - 1,
+        };
+      } else {
+        notes.push({
+          code: 'ageing-not-included',
+          message: `${role} ages about ${Number((law.ageingRatePerDecade * 100).toPrecision(3))} % per decade of hours (class II/III ceramic); give serviceLifeYears to include its loss over the board's life`,
+        });
+      }
+    }
+  } else if (serviceLifeYears > 0) {
+    notes.push({ code: 'ageing-not-included', message: 'serviceLifeYears is given but the circuit has no timing capacitor' });
+  }
+
   // --- supply
   const supplyTolerance = request.supplyTolerance ?? 0;
   checkFraction(supplyTolerance, '/supplyTolerance');
@@ -299,7 +434,7 @@ export function buildVariationModel(
     addScale.push(offsetRangeV);
   }
 
-  const terms = new VariationTerms(nominal, multParam, multDim, multScale, linear, bandParam, bandDim, addParam, addDim, addScale, temperatureDimension);
+  const terms = new VariationTerms(nominal, { multParam, multDim, multScale, linear, bandParam, bandDim, addParam, addDim, addScale, drifts, ageing: ageingTerms }, temperatureDimension);
   const apply = (u: Float64Array, values: Float64Array) => terms.apply(u, values);
 
   const varied = new Set<number>();
@@ -315,8 +450,42 @@ export function buildVariationModel(
     referencePoint: () => Float64Array.from(dims, (d) => d.reference),
     centerPoint: () => Float64Array.from(dims, (d) => d.center),
     temperatureModels,
+    temperatureDrifts,
+    ageing,
     notes,
   };
+}
+
+/**
+ * The timing capacitor's ageing law: from its part object when the request has one, else from a
+ * dielectric named for it in temperatureCoefficients (at the reference age, where the marked value applies).
+ */
+function timingCapacitorAgeing(request: ToleranceRequest, role: string): { ageingRatePerDecade: number; ageHours: number } | undefined {
+  if (request.timingCapacitor) return request.timingCapacitor;
+  const coefficient = request.temperatureCoefficients?.[role];
+  if (!coefficient || !('dielectric' in coefficient)) return undefined;
+  try {
+    return { ageingRatePerDecade: ageingRatePerDecade(parseDielectric(coefficient.dielectric)), ageHours: AGEING_REFERENCE_HOURS };
+  } catch {
+    return undefined; // an unknown code is reported where the temperature coefficients are read
+  }
+}
+
+const micro = (x: number) => Number((x * 1e6).toPrecision(3));
+const milli = (x: number) => Number((x * 1e3).toPrecision(3));
+
+interface TermLists {
+  multParam: number[];
+  multDim: number[];
+  multScale: number[];
+  linear: LinearTempTerm[];
+  bandParam: number[];
+  bandDim: number[];
+  addParam: number[];
+  addDim: number[];
+  addScale: number[];
+  drifts: DriftTerm[];
+  ageing: AgeingTerm[];
 }
 
 /** The hot-loop form of the map from a point to the value vector (see the module comment for the formulas). */
@@ -334,31 +503,40 @@ export class VariationTerms {
   private readonly aD: Int32Array;
   private readonly aS: Float64Array;
 
+  private readonly dP: Int32Array;
+  private readonly dLaw: Uint8Array;
+  private readonly dFigure: Float64Array;
+  private readonly dSign: Int32Array;
+  private readonly gP: Int32Array;
+  private readonly gRate: Float64Array;
+  private readonly gHours: Float64Array;
+  private readonly gD: Int32Array;
+
   constructor(
     private readonly nominal: Float64Array,
-    multParam: number[],
-    multDim: number[],
-    multScale: number[],
-    linear: LinearTempTerm[],
-    bandParam: number[],
-    bandDim: number[],
-    addParam: number[],
-    addDim: number[],
-    addScale: number[],
+    lists: TermLists,
     private readonly tDim: number,
   ) {
-    this.mP = Int32Array.from(multParam);
-    this.mD = Int32Array.from(multDim);
-    this.mS = Float64Array.from(multScale);
-    this.lP = Int32Array.from(linear, (l) => l.param);
-    this.lA = Float64Array.from(linear, (l) => l.tempcoPpmPerK * 1e-6);
-    this.lS = Float64Array.from(linear, (l) => l.spreadPpmPerK * 1e-6);
-    this.lD = Int32Array.from(linear, (l) => l.spreadDim);
-    this.bP = Int32Array.from(bandParam);
-    this.bD = Int32Array.from(bandDim);
-    this.aP = Int32Array.from(addParam);
-    this.aD = Int32Array.from(addDim);
-    this.aS = Float64Array.from(addScale);
+    this.mP = Int32Array.from(lists.multParam);
+    this.mD = Int32Array.from(lists.multDim);
+    this.mS = Float64Array.from(lists.multScale);
+    this.lP = Int32Array.from(lists.linear, (l) => l.param);
+    this.lA = Float64Array.from(lists.linear, (l) => l.tempcoPpmPerK * 1e-6);
+    this.lS = Float64Array.from(lists.linear, (l) => l.spreadPpmPerK * 1e-6);
+    this.lD = Int32Array.from(lists.linear, (l) => l.spreadDim);
+    this.bP = Int32Array.from(lists.bandParam);
+    this.bD = Int32Array.from(lists.bandDim);
+    this.aP = Int32Array.from(lists.addParam);
+    this.aD = Int32Array.from(lists.addDim);
+    this.aS = Float64Array.from(lists.addScale);
+    this.dP = Int32Array.from(lists.drifts, (d) => d.param);
+    this.dLaw = Uint8Array.from(lists.drifts, (d) => d.law);
+    this.dFigure = Float64Array.from(lists.drifts, (d) => d.figure);
+    this.dSign = Int32Array.from(lists.drifts, (d) => d.signDim);
+    this.gP = Int32Array.from(lists.ageing, (g) => g.param);
+    this.gRate = Float64Array.from(lists.ageing, (g) => g.ratePerDecade);
+    this.gHours = Float64Array.from(lists.ageing, (g) => g.ageHours);
+    this.gD = Int32Array.from(lists.ageing, (g) => g.yearsDim);
   }
 
   apply(u: Float64Array, values: Float64Array): void {
@@ -376,5 +554,16 @@ export class VariationTerms {
     const { bP, bD, aP, aD, aS } = this;
     for (let i = 0; i < bP.length; i++) values[bP[i]] *= 1 + u[bD[i]];
     for (let i = 0; i < aP.length; i++) values[aP[i]] += aS[i] * u[aD[i]];
+    const { gP, gRate, gHours, gD } = this;
+    for (let i = 0; i < gP.length; i++) values[gP[i]] *= ageingRatio(gRate[i], gHours[i], u[gD[i]]);
+    if (this.tDim >= 0) {
+      // Active parts drift last: their laws act on the spread value (e.g. a headroom's floor at 0).
+      const dT = u[this.tDim] - REFERENCE_TEMPERATURE_C;
+      const { dP, dLaw, dFigure, dSign } = this;
+      for (let i = 0; i < dP.length; i++) {
+        const w = dSign[i] >= 0 ? u[dSign[i]] : 1;
+        values[dP[i]] = driftedValue(dLaw[i] as DriftLaw, dFigure[i], values[dP[i]], dT, w);
+      }
+    }
   }
 }

@@ -8,7 +8,7 @@ import type { FastifyPluginAsyncTypebox } from '@fastify/type-provider-typebox';
 import { Type } from 'typebox';
 import { renderHistogramSvg } from '../../core/plot/index.ts';
 import { monteCarloOptions, type ToleranceRequest, type ToleranceResult } from '../../core/tolerance/index.ts';
-import { circuitFromBody, withPointerPrefix } from '../convert.ts';
+import { circuitFromBody, timingCapacitorFromParts, withPointerPrefix } from '../convert.ts';
 import { HttpProblem } from '../problem.ts';
 import { runForRequest } from '../workers/run-for-request.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
@@ -71,6 +71,8 @@ export const toleranceRoutes: FastifyPluginAsyncTypebox = async (app) => {
       const amplifiers = await app.services.amplifiers.forSpecs(body.circuit.amplifier);
       const circuit = withPointerPrefix('/circuit', () => circuitFromBody(body.circuit, amplifiers, '/circuit'));
       const coreRequest = toCoreRequest(body, circuit, kind === 'svg');
+      const capacitor = withPointerPrefix('/circuit', () => timingCapacitorFromParts(body.circuit.topology, body.circuit.parts as Parameters<typeof timingCapacitorFromParts>[1], '/circuit/parts'));
+      if (capacitor) coreRequest.timingCapacitor = { ageingRatePerDecade: capacitor.ageingRatePerDecade, ageHours: capacitor.ageHours };
       // Refuse an oversized run before it takes a thread.
       monteCarloOptions(coreRequest);
       const result: ToleranceResult = await runForRequest(app.services.workers, reply, 'tolerance', coreRequest, 'run');
@@ -90,6 +92,7 @@ function toCoreRequest(body: ToleranceRequestBody, circuit: ToleranceRequest['ci
   };
   if (body.temperatureCoefficients) request.temperatureCoefficients = dropUndefined(body.temperatureCoefficients as Record<string, ToleranceRequest['temperatureCoefficients'] extends Readonly<Record<string, infer T>> | undefined ? T | undefined : never>);
   if (body.temperature) request.temperature = body.temperature;
+  if (body.serviceLifeYears !== undefined) request.serviceLifeYears = body.serviceLifeYears;
   if (body.supplyTolerance !== undefined) request.supplyTolerance = body.supplyTolerance;
   if (body.supplyRailsIndependent !== undefined) request.supplyRailsIndependent = body.supplyRailsIndependent;
   if (body.amplifierSpreads) request.amplifierSpreads = body.amplifierSpreads as ToleranceRequest['amplifierSpreads'];

@@ -227,22 +227,22 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "dutyCycleError": 0.00022608891701014766,
             "hysteresisFraction": 0.3333333333333333,
             "robustness": {
-              "yield": 0.44,
-              "yieldStandardError": 0.015697133496278867,
+              "yield": 0.419,
+              "yieldStandardError": 0.015602531845825536,
               "yieldInterval95": {
-                "low": 0.4095218538895405,
-                "high": 0.47093735712872614
+                "low": 0.3887865610288496,
+                "high": 0.4498333738458103
               },
               "samples": 1000,
               "seed": 1,
               "worstCase": {
-                "frequencyMinHz": 4626.524701438772,
-                "frequencyMaxHz": 5403.178545092404,
-                "dutyMin": 0.49681899402222385,
-                "dutyMax": 0.5036370025165939,
+                "frequencyMinHz": 4624.097110812689,
+                "frequencyMaxHz": 5405.0320573902,
+                "dutyMin": 0.4968057973976585,
+                "dutyMax": 0.503655476869292,
                 "withinSpec": false
               },
-              "marginFraction": -7.063570901848083,
+              "marginFraction": -7.100641147804,
               "partTolerances": {
                 "rTop": 0.01,
                 "rBottom": 0.01,
@@ -372,22 +372,22 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "dutyCycleError": 0.00020711199674083858,
             "hysteresisFraction": 0.2,
             "robustness": {
-              "yield": 0.435,
-              "yieldStandardError": 0.0156772127624779,
+              "yield": 0.415,
+              "yieldStandardError": 0.015581238718407466,
               "yieldInterval95": {
-                "low": 0.4045798065188989,
-                "high": 0.4659176720842233
+                "low": 0.3848433602464026,
+                "high": 0.4458071886961417
               },
               "samples": 1000,
               "seed": 1,
               "worstCase": {
-                "frequencyMinHz": 4612.835515629433,
-                "frequencyMaxHz": 5417.425794162302,
-                "dutyMin": 0.49606988133988095,
-                "dutyMax": 0.5043489877256012,
+                "frequencyMinHz": 4610.024729350859,
+                "frequencyMaxHz": 5419.593255491288,
+                "dutyMin": 0.49605567234016273,
+                "dutyMax": 0.5043677198855245,
                 "withinSpec": false
               },
-              "marginFraction": -7.348515883246032,
+              "marginFraction": -7.391865109825746,
               "partTolerances": {
                 "rTop": 0.01,
                 "rBottom": 0.01,
@@ -518,38 +518,48 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "dutyCycle": 0.500203935766648
         },
         "worstCase": {
-          "frequencyMinHz": 4628.494576880354,
-          "frequencyMaxHz": 5415.307421606776,
-          "dutyMin": 0.4957306802081687,
-          "dutyMax": 0.5046820653870386,
+          "frequencyMinHz": 4627.5039875415605,
+          "frequencyMaxHz": 5419.4858731973945,
+          "dutyMin": 0.4957184018121218,
+          "dutyMax": 0.5046962666314798,
           "method": "sensitivity-guided",
-          "cornersEvaluated": 233,
+          "cornersEvaluated": 401,
           "latchedCorners": 0,
           "corners": {
             "frequencyMin": {
-              "frequencyHz": 4628.494576880354,
-              "dutyCycle": 0.5001942343688842,
-              "temperatureC": -20,
+              "frequencyHz": 4627.5039875415605,
+              "dutyCycle": 0.500201290448123,
+              "temperatureC": 60,
               "values": {
                 "rTiming": 2222,
-                "cTiming": 1.8925515e-7,
+                "cTiming": 1.8919845000000002e-7,
                 "rTop": 5151,
                 "rBottom": 5151,
                 "rFeedback": 17820,
-                "supplyPositiveV": 5.25
+                "supplyPositiveV": 5.25,
+                "outputHeadroomHighV": 0.0235,
+                "outputHeadroomLowV": 0.0235,
+                "inputOffsetV": 0.0010350000000000001,
+                "inputBiasCurrentA": 1.131370849898476e-11,
+                "recoveryDelayS": 3.3149999999999997e-7
               },
               "deviations": {
                 "rTiming": 0.010000000000000009,
-                "cTiming": 0.051417499999999894,
+                "cTiming": 0.05110250000000005,
                 "rTop": 0.010000000000000009,
                 "rBottom": 0.010000000000000009,
                 "rFeedback": -0.010000000000000009,
-                "supplyPositiveV": 0.050000000000000044
+                "supplyPositiveV": 0.050000000000000044,
+                "outputHeadroomHighV": 0.17500000000000004,
+                "outputHeadroomLowV": 0.17500000000000004,
+                "inputOffsetV": 0.03500000000000014,
+                "inputBiasCurrentA": 10.31370849898476,
+                "recoveryDelayS": 0.10499999999999998
               }
             },
             "frequencyMax": {
-              "frequencyHz": 5415.307421606776,
-              "dutyCycle": 0.5002146687767705,
+              "frequencyHz": 5419.4858731973945,
+              "dutyCycle": 0.5002046362646078,
               "temperatureC": -20,
               "values": {
                 "rTiming": 2178,
@@ -557,7 +567,12 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "rTop": 5049,
                 "rBottom": 5049,
                 "rFeedback": 18180,
-                "supplyPositiveV": 4.75
+                "supplyPositiveV": 4.75,
+                "outputHeadroomHighV": 0.0155,
+                "outputHeadroomLowV": 0.0155,
+                "inputOffsetV": 0.000955,
+                "inputBiasCurrentA": 4.419417382415922e-14,
+                "recoveryDelayS": 2.5949999999999996e-7
               },
               "deviations": {
                 "rTiming": -0.010000000000000009,
@@ -565,49 +580,74 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "rTop": -0.010000000000000009,
                 "rBottom": -0.010000000000000009,
                 "rFeedback": 0.010000000000000009,
-                "supplyPositiveV": -0.050000000000000044
+                "supplyPositiveV": -0.050000000000000044,
+                "outputHeadroomHighV": -0.22499999999999998,
+                "outputHeadroomLowV": -0.22499999999999998,
+                "inputOffsetV": -0.04500000000000004,
+                "inputBiasCurrentA": -0.9558058261758408,
+                "recoveryDelayS": -0.13500000000000012
               }
             },
             "dutyMin": {
-              "frequencyHz": 4751.515839008467,
-              "dutyCycle": 0.4957306802081687,
-              "temperatureC": -20,
+              "frequencyHz": 4750.424703979839,
+              "dutyCycle": 0.4957184018121218,
+              "temperatureC": 60,
               "values": {
                 "rTiming": 2222,
-                "cTiming": 1.8925515e-7,
+                "cTiming": 1.8919845000000002e-7,
                 "rTop": 5151,
                 "rBottom": 5049,
                 "rFeedback": 18180,
-                "supplyPositiveV": 5.25
+                "supplyPositiveV": 5.25,
+                "outputHeadroomHighV": 0.0235,
+                "outputHeadroomLowV": 0.0235,
+                "inputOffsetV": 0.000965,
+                "inputBiasCurrentA": 1.131370849898476e-11,
+                "recoveryDelayS": 3.3149999999999997e-7
               },
               "deviations": {
                 "rTiming": 0.010000000000000009,
-                "cTiming": 0.051417499999999894,
+                "cTiming": 0.05110250000000005,
                 "rTop": 0.010000000000000009,
                 "rBottom": -0.010000000000000009,
                 "rFeedback": 0.010000000000000009,
-                "supplyPositiveV": 0.050000000000000044
+                "supplyPositiveV": 0.050000000000000044,
+                "outputHeadroomHighV": 0.17500000000000004,
+                "outputHeadroomLowV": 0.17500000000000004,
+                "inputOffsetV": -0.03500000000000003,
+                "inputBiasCurrentA": 10.31370849898476,
+                "recoveryDelayS": 0.10499999999999998
               }
             },
             "dutyMax": {
-              "frequencyHz": 4753.9602283099075,
-              "dutyCycle": 0.5046820653870386,
-              "temperatureC": -20,
+              "frequencyHz": 4752.867271141606,
+              "dutyCycle": 0.5046962666314798,
+              "temperatureC": 60,
               "values": {
                 "rTiming": 2222,
-                "cTiming": 1.8925515e-7,
+                "cTiming": 1.8919845000000002e-7,
                 "rTop": 5049,
                 "rBottom": 5151,
                 "rFeedback": 18180,
-                "supplyPositiveV": 4.75
+                "supplyPositiveV": 4.75,
+                "outputHeadroomHighV": 0.0235,
+                "outputHeadroomLowV": 0.0235,
+                "inputOffsetV": 0.0010350000000000001,
+                "inputBiasCurrentA": 1.131370849898476e-11,
+                "recoveryDelayS": 3.3149999999999997e-7
               },
               "deviations": {
                 "rTiming": 0.010000000000000009,
-                "cTiming": 0.051417499999999894,
+                "cTiming": 0.05110250000000005,
                 "rTop": -0.010000000000000009,
                 "rBottom": 0.010000000000000009,
                 "rFeedback": 0.010000000000000009,
-                "supplyPositiveV": -0.050000000000000044
+                "supplyPositiveV": -0.050000000000000044,
+                "outputHeadroomHighV": 0.17500000000000004,
+                "outputHeadroomLowV": 0.17500000000000004,
+                "inputOffsetV": 0.03500000000000014,
+                "inputBiasCurrentA": 10.31370849898476,
+                "recoveryDelayS": 0.10499999999999998
               }
             }
           },
@@ -621,41 +661,41 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "oscillating": 20000,
           "latched": 0,
           "frequencyHz": {
-            "p0_1": 4767.218367473674,
-            "p1": 4810.3752348089065,
-            "p5": 4863.242545777296,
-            "p50": 5000.50358129326,
-            "p95": 5143.863478644994,
-            "p99": 5204.521537862057,
-            "p99_9": 5258.971259221698,
-            "mean": 5001.739254980693,
-            "std": 85.12111191713686,
-            "min": 4725.755699328581,
-            "max": 5316.327866280659
+            "p0_1": 4767.901239190044,
+            "p1": 4813.6214064535725,
+            "p5": 4865.590856159647,
+            "p50": 5000.292185314636,
+            "p95": 5144.735756090493,
+            "p99": 5205.317936116998,
+            "p99_9": 5255.850730567729,
+            "mean": 5002.1492306291175,
+            "std": 84.46347866274473,
+            "min": 4732.518881317614,
+            "max": 5296.109763648149
           },
           "dutyCycle": {
-            "p0_1": 0.49698887427709343,
-            "p1": 0.49778931917406305,
-            "p5": 0.49848649137139284,
-            "p50": 0.5002079489617415,
-            "p95": 0.5019368464993288,
-            "p99": 0.5025907710359204,
-            "p99_9": 0.5032783441712846,
-            "mean": 0.5002008058911687,
-            "std": 0.001043745355692755,
-            "min": 0.4960617669912753,
-            "max": 0.5037925830923684
+            "p0_1": 0.4970365983202588,
+            "p1": 0.49781592615304987,
+            "p5": 0.4984963515050885,
+            "p50": 0.5002002050600829,
+            "p95": 0.5019296714370838,
+            "p99": 0.502657767386395,
+            "p99_9": 0.503392939354393,
+            "mean": 0.5002046519308286,
+            "std": 0.001037259164117932,
+            "min": 0.49620965465161265,
+            "max": 0.5043674742354516
           },
-          "yield": 0.9978,
+          "yield": 0.99865,
           "yieldDetail": {
-            "passing": 19956,
-            "failing": 44,
-            "standardError": 0.0003312974494317742,
+            "passing": 19973,
+            "failing": 27,
+            "standardError": 0.0002596321917636527,
             "interval95": {
-              "low": 0.9970481359255476,
-              "high": 0.9983606729769947
+              "low": 0.998036487964857,
+              "high": 0.9990719944763898
             },
-            "frequencyPassFraction": 0.9978,
+            "frequencyPassFraction": 0.99865,
             "dutyPassFraction": 1
           },
           "elapsedS": 1,
@@ -667,35 +707,35 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "kind": "capacitor",
             "sensitivity": -0.9891464374831571,
             "dutySensitivity": 2.6487168014455165e-7,
-            "varianceShare": 0.9200295247040684
+            "varianceShare": 0.9196035984898084
           },
           {
             "role": "rTiming",
             "kind": "resistor",
             "sensitivity": -0.9878700963819043,
             "dutySensitivity": 2.262495746307991e-8,
-            "varianceShare": 0.036705228590265634
+            "varianceShare": 0.036688242327071706
           },
           {
             "role": "rFeedback",
             "kind": "resistor",
             "sensitivity": 0.8754141307472096,
             "dutySensitivity": -0.0000041608016476679666,
-            "varianceShare": 0.0288240742578476
+            "varianceShare": 0.028811233041329265
           },
           {
             "role": "rBottom",
             "kind": "resistor",
             "sensitivity": -0.43807356616110127,
             "dutySensitivity": 0.22301796884424685,
-            "varianceShare": 0.007218091353546595
+            "varianceShare": 0.007214869976395848
           },
           {
             "role": "rTop",
             "kind": "resistor",
             "sensitivity": -0.4373420939352002,
             "dutySensitivity": -0.22301405599892132,
-            "varianceShare": 0.007194006702200042
+            "varianceShare": 0.0071908074314537005
           },
           {
             "role": "supplyPositiveV",
@@ -744,7 +784,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "kind": "amplifier",
             "sensitivity": -3.3444536029492156e-7,
             "dutySensitivity": 0.00020393580330013705,
-            "varianceShare": 0
+            "varianceShare": 3.2372739526891585e-15
           },
           {
             "role": "inputBiasCurrentA",
@@ -765,54 +805,60 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           {
             "source": "cTiming",
             "kind": "part-tolerance",
-            "share": 0.9200040041557679,
-            "relativeStd": 0.016264513674016857
+            "share": 0.919578089756202,
+            "relativeStd": 0.016265796237027896
           },
           {
             "source": "rTiming",
             "kind": "part-tolerance",
-            "share": 0.036705228590265634,
-            "relativeStd": 0.003248704348300597
+            "share": 0.036688242327071706,
+            "relativeStd": 0.003248960811633759
           },
           {
             "source": "rFeedback",
             "kind": "part-tolerance",
-            "share": 0.0288240742578476,
-            "relativeStd": 0.0028788822839939756
+            "share": 0.028811233041329265,
+            "relativeStd": 0.002879134427552244
           },
           {
             "source": "rBottom",
             "kind": "part-tolerance",
-            "share": 0.007218091353546595,
-            "relativeStd": 0.0014406464398007265
+            "share": 0.007214869976395848,
+            "relativeStd": 0.0014407720485580236
           },
           {
             "source": "rTop",
             "kind": "part-tolerance",
-            "share": 0.007194006702200042,
-            "relativeStd": 0.0014382409244283322
-          },
-          {
-            "source": "supply",
-            "kind": "supply",
-            "share": 0.000029074392071830155,
-            "relativeStd": 0.00009143269997346049
-          },
-          {
-            "source": "cTiming tempco",
-            "kind": "tempco-spread",
-            "share": 0.000025520548300473078,
-            "relativeStd": 0.00008566259443467953
+            "share": 0.0071908074314537005,
+            "relativeStd": 0.0014383674593753462
           },
           {
             "source": "temperature",
             "kind": "temperature",
-            "share": 0,
-            "relativeStd": 0
+            "share": 0.0004621872892130146,
+            "relativeStd": 0.00036466158797350133
+          },
+          {
+            "source": "supply",
+            "kind": "supply",
+            "share": 0.000029061444724718438,
+            "relativeStd": 0.00009144071647486012
+          },
+          {
+            "source": "cTiming tempco",
+            "kind": "tempco-spread",
+            "share": 0.00002550873360644046,
+            "relativeStd": 0.00008566934949492277
+          },
+          {
+            "source": "inputOffsetV drift sign",
+            "kind": "tempco-spread",
+            "share": 3.2372739526891585e-15,
+            "relativeStd": 9.65096513042183e-10
           }
         ],
         "linearEstimate": {
-          "frequencyRelativeStd": 0.016956890792240293
+          "frequencyRelativeStd": 0.016962154709584273
         },
         "temperatureModels": [
           {
@@ -824,6 +870,49 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "withinRatedRange": true
           }
         ],
+        "temperatureDrifts": [
+          {
+            "parameter": "inputOffsetV",
+            "source": "amplifier",
+            "law": "± 1 µV/K (sign unknown: both)",
+            "valueAtReference": 0.001,
+            "valueMin": 0.000955,
+            "valueMax": 0.001045
+          },
+          {
+            "parameter": "inputBiasCurrentA",
+            "source": "amplifier",
+            "law": "doubles every 10 K",
+            "valueAtReference": 1e-12,
+            "valueMin": 4.419417382415922e-14,
+            "valueMax": 1.131370849898476e-11
+          },
+          {
+            "parameter": "outputHeadroomHighV",
+            "source": "amplifier",
+            "law": "0.1 mV/K (not below 0)",
+            "valueAtReference": 0.02,
+            "valueMin": 0.0155,
+            "valueMax": 0.0235
+          },
+          {
+            "parameter": "outputHeadroomLowV",
+            "source": "amplifier",
+            "law": "0.1 mV/K (not below 0)",
+            "valueAtReference": 0.02,
+            "valueMin": 0.0155,
+            "valueMax": 0.0235
+          },
+          {
+            "parameter": "recoveryDelayS",
+            "source": "amplifier",
+            "law": "0.3 %/K",
+            "valueAtReference": 3e-7,
+            "valueMin": 2.5949999999999996e-7,
+            "valueMax": 3.3149999999999997e-7
+          }
+        ],
+        "ageing": null,
         "notes": []
       }
     }
@@ -2522,7 +2611,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
-      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 4.663112\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.129361\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 4.792473\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 7\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 2\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
+      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 4.819106\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.156671\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 4.975777\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
     }
   },
   "GET /problems/{code}": {

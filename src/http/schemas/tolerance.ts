@@ -2,7 +2,7 @@
 import { ModelEffects } from './analysis.ts';
 import { Type, type Static } from 'typebox';
 import { TOPOLOGIES } from '../../core/index.ts';
-import { AMPLIFIER_SPREAD_FIELDS, MAX_HISTOGRAM_BINS } from '../../core/tolerance/index.ts';
+import { AMPLIFIER_SPREAD_FIELDS, MAX_HISTOGRAM_BINS, SERVICE_LIFE_LIMIT_YEARS } from '../../core/tolerance/index.ts';
 import { Circuit } from './circuit.ts';
 import { FrequencyHz, ref } from './common.ts';
 
@@ -56,6 +56,14 @@ export const ToleranceRequest = Type.Object(
         },
         { additionalProperties: false, description: 'Temperature range; Monte Carlo draws it uniformly, corners take its ends' },
       ),
+    ),
+    serviceLifeYears: Type.Optional(
+      Type.Number({
+        minimum: 0,
+        maximum: SERVICE_LIFE_LIMIT_YEARS,
+        description:
+          'Years the board must keep its clock in spec (default 0: no ageing). A class II/III timing capacitor (dielectric from its part object, or from temperatureCoefficients) loses capacitance by the log-decade law C(t) = C(t0)·(1 − k·log10(t/t0)) from its ageHours to ageHours + years × 8766 h; corners take the start and the end of service, Monte Carlo a uniform age.',
+      }),
     ),
     supplyTolerance: Type.Optional(Fraction('Supply spread, fraction: both rails scale by one shared draw unless supplyRailsIndependent')),
     supplyRailsIndependent: Type.Optional(Type.Boolean({ description: 'Draw each rail on its own (default false: one regulator, rails move together)' })),
@@ -205,8 +213,8 @@ export const ToleranceResult = Type.Object(
     sensitivities: Type.Array(
       Type.Object(
         {
-          role: Type.String({ description: 'Part role, or the supply/amplifier parameter name' }),
-          kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor'), Type.Literal('supply'), Type.Literal('amplifier'), Type.Literal('load')]),
+          role: Type.String({ description: 'Part role, or the supply/amplifier/diode parameter name (diodeForwardDropV: the steering diodes\' forward drop)' }),
+          kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor'), Type.Literal('supply'), Type.Literal('amplifier'), Type.Literal('load'), Type.Literal('diode')]),
           sensitivity: Type.Number({ description: 'd ln f / d ln x at nominal' }),
           dutySensitivity: Type.Number({ description: 'd(duty) / d ln x at nominal' }),
           varianceShare: Type.Number({ description: "Share of the first-order variance of ln f from this part's own variations" }),
@@ -228,6 +236,7 @@ export const ToleranceResult = Type.Object(
             Type.Literal('dielectric-band'),
             Type.Literal('supply'),
             Type.Literal('amplifier'),
+            Type.Literal('ageing'),
           ]),
           share: Type.Number(),
           relativeStd: Type.Number(),
@@ -252,6 +261,40 @@ export const ToleranceResult = Type.Object(
         },
         { additionalProperties: false },
       ),
+    ),
+    temperatureDrifts: Type.Array(
+      Type.Object(
+        {
+          parameter: Type.String({ description: 'The drifting parameter (inputOffsetV, inputBiasCurrentA, outputHeadroomHighV/LowV, recoveryDelayS, diodeForwardDropV); the values below are in the unit its name states' }),
+          source: Type.Union([Type.Literal('amplifier'), Type.Literal('steering-diodes')], { description: 'amplifier: its drift figures (amplifier table); steering-diodes: the forward drop, −2 mV/K (common practice)' }),
+          law: Type.String({ description: 'The law with its figure, in words' }),
+          valueAtReference: Type.Number({ description: 'Value at 25 °C' }),
+          valueMin: Type.Number({ description: 'Smallest value over the temperature range' }),
+          valueMax: Type.Number({ description: 'Largest value over the temperature range' }),
+        },
+        { additionalProperties: false },
+      ),
+      {
+        description:
+          'Active parts that follow the board temperature at every corner and Monte Carlo sample (with a temperature range): amplifier offset, bias current, headroom and delay drift, the steering diodes\' forward drop',
+      },
+    ),
+    ageing: Type.Union(
+      [
+        Type.Object(
+          {
+            role: Type.String({ description: 'The timing capacitor' }),
+            ratePerDecade: Type.Number({ description: 'Loss per decade of hours, fraction (typical of the class)' }),
+            ageStartHours: Type.Number({ description: 'Hours since de-ageing at the start of service' }),
+            ageEndHours: Type.Number({ description: 'Hours since de-ageing at the end of service' }),
+            serviceLifeYears: Type.Number({ description: 'The service life the run covers' }),
+            changeFraction: Type.Number({ description: 'Capacitance change over the service life, fraction (negative: loss)' }),
+          },
+          { additionalProperties: false },
+        ),
+        Type.Null(),
+      ],
+      { description: 'The timing capacitor\'s ageing over serviceLifeYears (null: no service life, or a capacitor that does not age)' },
     ),
     notes: Type.Array(Type.Object({ code: Type.String(), message: Type.String() }, { additionalProperties: false })),
   },

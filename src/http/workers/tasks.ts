@@ -11,20 +11,22 @@ import { fitCircuit, type FitInput } from '../../core/fit/index.ts';
 import { runToleranceAnalysis, type ToleranceRequest } from '../../core/tolerance/index.ts';
 import { waveformTask, type WaveformTaskInput } from './waveform-task.ts';
 
+/** The capacitor's C(v) shape arrives as plain data (structured clone): make it whole again. */
+function reviveCircuitShape<T extends { circuit?: unknown }>(input: T): T {
+  const circuit = input.circuit as { capacitorShape?: BiasShape } | undefined;
+  if (circuit?.capacitorShape) circuit.capacitorShape = reviveBiasShape(circuit.capacitorShape);
+  return input;
+}
+
 export const TASKS = {
   /** POST /v1/tolerance: worst case, Monte Carlo, sensitivities. */
-  tolerance: (input: ToleranceRequest) => runToleranceAnalysis(input),
+  tolerance: (input: ToleranceRequest) => runToleranceAnalysis(reviveCircuitShape(input)),
   /** POST /v1/design: searches over series or catalogues with full analyses (tens to hundreds of ms). */
   design: (input: DesignRequest) => designOscillator(input),
   /** POST /v1/fit: capture analysis (up to millions of samples), MAP fit, diagnosis. */
   fit: (input: FitInput) => fitCircuit(input),
   /** POST /v1/waveform: time-domain walk, sampling (up to the sample cap) and the serialised answer. */
-  waveform: (input: WaveformTaskInput) => {
-    // The capacitor's C(v) shape arrives as plain data (structured clone): make it whole again.
-    const circuit = input.circuit as { capacitorShape?: BiasShape };
-    if (circuit?.capacitorShape) circuit.capacitorShape = reviveBiasShape(circuit.capacitorShape);
-    return waveformTask(input);
-  },
+  waveform: (input: WaveformTaskInput) => waveformTask(reviveCircuitShape(input)),
   /** Round trip through a worker (health and tests): echoes its input and names the thread. */
   echo: <T>(input: T) => input,
   /** Busy-waits for input.ms milliseconds, then answers (tests of event-loop freedom and queueing). */

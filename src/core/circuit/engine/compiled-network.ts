@@ -21,12 +21,13 @@
 import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
 import type { AmplifierModel } from '../../amplifiers/model.ts';
 import { NODE } from '../nodes.ts';
+import { DEFAULT_STEERING_DIODE } from '../topologies/diode-steered.ts';
 import type { Branch } from '../network.ts';
 import type { TopologyDefinition } from '../topologies/topology.ts';
 import type { Circuit, PieceConfig } from '../types.ts';
 
 /** Kinds of entry in a parameter vector. */
-export type ParameterKind = 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load';
+export type ParameterKind = 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load' | 'diode';
 
 export interface ParameterInfo {
   name: string;
@@ -50,6 +51,12 @@ export const AMPLIFIER_PARAMETERS = [
 export type AmplifierParameter = (typeof AMPLIFIER_PARAMETERS)[number];
 export const SUPPLY_PARAMETERS = ['supplyPositiveV', 'supplyNegativeV'] as const;
 export const LOAD_PARAMETERS = ['loadResistanceOhm', 'loadReturnV'] as const;
+/**
+ * The steering diodes' forward drop, one value for every diode of the topology (they are one part
+ * type at one board temperature): a slot, not a shape constant, so temperature corners and Monte
+ * Carlo can move it (about −2 mV/K, parts/diode-drift.ts).
+ */
+export const DIODE_PARAMETERS = ['diodeForwardDropV'] as const;
 
 /** Output-stage modes. */
 export const STAGE = {
@@ -118,7 +125,7 @@ export class NetworkCoefficients {
   readonly diodeF = new Float64Array(6);
 }
 
-/** The parameter vector of a shape: roles present (role order), supply, amplifier figures, load. */
+/** The parameter vector of a shape: roles present (role order), supply, amplifier figures, load, diode drop. */
 export class ParameterLayout {
   readonly parameters: readonly ParameterInfo[];
   private readonly index = new Map<string, number>();
@@ -126,16 +133,21 @@ export class ParameterLayout {
   readonly roleSlots: Int32Array;
   readonly capacitorSlot: number;
 
+  /** Slot of the steering diodes' forward drop, −1 for a topology without diodes. */
+  readonly diodeDropSlot: number;
+
   constructor(topology: TopologyDefinition, rolesPresent: readonly string[], hasLoad: boolean) {
     const params: ParameterInfo[] = [];
     for (const role of rolesPresent) params.push({ name: role, kind: topology.roles[role].kind });
     for (const name of SUPPLY_PARAMETERS) params.push({ name, kind: 'supply' });
     for (const name of AMPLIFIER_PARAMETERS) params.push({ name, kind: 'amplifier' });
     if (hasLoad) for (const name of LOAD_PARAMETERS) params.push({ name, kind: 'load' });
+    if (topology.diodeCount > 0) for (const name of DIODE_PARAMETERS) params.push({ name, kind: 'diode' });
     this.parameters = params;
     params.forEach((p, i) => this.index.set(p.name, i));
     this.roleSlots = Int32Array.from(rolesPresent, (r) => this.index.get(r)!);
     this.capacitorSlot = this.indexOf(topology.capacitorRole);
+    this.diodeDropSlot = this.indexOf('diodeForwardDropV');
   }
 
   get length(): number {
@@ -157,6 +169,7 @@ export class ParameterLayout {
       else if (p.name === 'supplyNegativeV') v[i] = circuit.supply.negativeV;
       else if (p.name === 'loadResistanceOhm') v[i] = circuit.load!.resistanceOhm;
       else if (p.name === 'loadReturnV') v[i] = circuit.load!.returnV;
+      else if (p.name === 'diodeForwardDropV') v[i] = (circuit.diode ?? DEFAULT_STEERING_DIODE).forwardDropV;
       else v[i] = amp[p.name as AmplifierParameter];
     });
     return v;
@@ -168,6 +181,7 @@ export class ParameterLayout {
     const amplifier: AmplifierModel = { ...base.amplifier };
     const supply = { ...base.supply };
     const load = base.load ? { ...base.load } : undefined;
+    let diode = base.diode;
     this.parameters.forEach((p, i) => {
       const v = values[i];
       if (p.kind === 'resistor' || p.kind === 'capacitor') parts[p.name] = v;
@@ -175,10 +189,13 @@ export class ParameterLayout {
       else if (p.name === 'supplyNegativeV') supply.negativeV = v;
       else if (p.name === 'loadResistanceOhm') load!.resistanceOhm = v;
       else if (p.name === 'loadReturnV') load!.returnV = v;
-      else amplifier[p.name as AmplifierParameter] = v;
+      else if (p.name === 'diodeForwardDropV') {
+        if (v !== (diode ?? DEFAULT_STEERING_DIODE).forwardDropV) diode = { ...(diode ?? DEFAULT_STEERING_DIODE), forwardDropV: v };
+      } else amplifier[p.name as AmplifierParameter] = v;
     });
     const out: Circuit = { ...base, supply, amplifier, parts };
     if (load) out.load = load;
+    if (diode) out.diode = diode;
     return out;
   }
 }
@@ -236,7 +253,7 @@ class CompiledConfig {
     shape: CompiledShape,
     readonly key: number,
     branches: CompiledBranch[],
-    readonly diodeTerminals: readonly { from: number; to: number; emfV: number }[],
+    readonly diodeTerminals: readonly DiodeTerminal[],
   ) {
     const stage = key % 4;
     this.stage = stage;
@@ -429,7 +446,8 @@ class CompiledConfig {
     for (let d = 0; d < dt.length; d++) {
       const f = dt[d].from * STRIDE;
       const t = dt[d].to * STRIDE;
-      out.diodeF[3 * d] = coeff[f] - coeff[t] - dt[d].emfV;
+      const drop = dt[d].emfSlot >= 0 ? dt[d].emfV + dt[d].emfSign * values[dt[d].emfSlot] : dt[d].emfV;
+      out.diodeF[3 * d] = coeff[f] - coeff[t] - drop;
       out.diodeF[3 * d + 1] = coeff[f + 1] - coeff[t + 1];
       out.diodeF[3 * d + 2] = coeff[f + 2] - coeff[t + 2];
     }
@@ -516,7 +534,8 @@ export function shapeKey(circuit: Circuit, topology: TopologyDefinition): string
   let key = topology.id;
   for (const role of Object.keys(topology.roles)) if (circuit.parts[role] !== undefined) key += `|${role}`;
   key += `|r${circuit.amplifier.outputResistanceOhm > 0 ? 1 : 0}|l${circuit.load ? 1 : 0}`;
-  if (topology.diodeCount > 0) key += `|d${circuit.diode ? `${circuit.diode.forwardDropV},${circuit.diode.resistanceOhm}` : '-'}`;
+  // The forward drop is a parameter slot (DIODE_PARAMETERS); only the diode's resistance is structure.
+  if (topology.diodeCount > 0) key += `|d${circuit.diode ? circuit.diode.resistanceOhm : '-'}`;
   // A C(v) timing capacitor changes the piece kinds (docs/model.md, non-linear capacitor).
   if (circuit.capacitorShape && circuit.capacitorShape.kind !== 'flat') key += `|c${circuit.capacitorShape.key}`;
   return key;
@@ -532,7 +551,7 @@ export class CompiledShape {
   readonly hasLoad: boolean;
   readonly outputResistanceSeparate: boolean;
   readonly openDrain: boolean;
-  readonly diodeTerminals: readonly { from: number; to: number; emfV: number }[];
+  readonly diodeTerminals: readonly DiodeTerminal[];
   /** C(v)/C0 of the timing capacitor (flat: linear; the capacitor slot then holds C, else C at 0 V). */
   readonly biasShape: BiasShape;
   private readonly configs: (CompiledConfig | undefined)[] = new Array<CompiledConfig | undefined>(KEY_SPACE);
@@ -554,7 +573,7 @@ export class CompiledShape {
     this.outputResistanceSeparate = template.amplifier.outputResistanceOhm > 0;
     this.openDrain = topology.needsOpenDrain;
     this.layout = new ParameterLayout(topology, roles, this.hasLoad);
-    this.diodeTerminals = findDiodeTerminals(topology, template);
+    this.diodeTerminals = findDiodeTerminals(topology, template, this.layout);
     const l = this.layout;
     this.slot = {
       positiveV: l.indexOf('supplyPositiveV'),
@@ -619,28 +638,66 @@ function mapTopologyBranches(topology: TopologyDefinition, circuit: Circuit, pie
       dependsOn[j] = layout.indexOf(p.name);
     }
   }
+  const dropSign = diodeDropSigns(topology, circuit, piece, base);
+  const drop = (circuit.diode ?? DEFAULT_STEERING_DIODE).forwardDropV;
   return base.map((b, j) => {
     const slot = dependsOn[j];
+    const sign = dropSign[j];
     return {
       from: b.from,
       to: b.to,
       slot,
       offsetOhm: slot >= 0 ? b.resistanceOhm - parts[layout.parameters[slot].name] : b.resistanceOhm,
-      emfV: b.emfV,
-      emfSlot: -1,
-      emfSign: 0,
+      // A diode branch's EMF is its forward drop: read from the drop's slot (a constant part stays, if any).
+      emfV: sign !== 0 ? b.emfV - sign * drop : b.emfV,
+      emfSlot: sign !== 0 ? layout.diodeDropSlot : -1,
+      emfSign: sign,
     };
   });
 }
 
+/**
+ * Per branch, how its EMF follows the diodes' forward drop (+1, −1 or 0), found by rebuilding the
+ * branches with the drop raised by 1 V (the same probing as the roles).
+ */
+function diodeDropSigns(topology: TopologyDefinition, circuit: Circuit, piece: PieceConfig, base: readonly Branch[]): number[] {
+  if (topology.diodeCount === 0) return base.map(() => 0);
+  const diode = circuit.diode ?? DEFAULT_STEERING_DIODE;
+  const probe = topology.branches(circuit.parts, piece, { ...diode, forwardDropV: diode.forwardDropV + 1 });
+  return base.map((b0, j) => {
+    const b1 = probe[j];
+    if (probe.length !== base.length || b0.from !== b1.from || b0.to !== b1.to || b0.resistanceOhm !== b1.resistanceOhm) {
+      throw new Error(`topology ${topology.id}: the branch structure depends on the diode's forward drop`);
+    }
+    const delta = b1.emfV - b0.emfV;
+    if (delta === 0) return 0;
+    if (Math.abs(Math.abs(delta) - 1) > 1e-12) throw new Error(`topology ${topology.id}: branch ${b0.label}'s EMF is not ± the diode drop plus a constant`);
+    return Math.sign(delta);
+  });
+}
+
+/** A steering diode's terminals and drop (drop = emfV + emfSign·values[emfSlot]). */
+export interface DiodeTerminal {
+  from: number;
+  to: number;
+  emfV: number;
+  emfSlot: number;
+  emfSign: number;
+}
+
 /** Terminals and drop of each steering diode, from the all-conducting branch list. */
-function findDiodeTerminals(topology: TopologyDefinition, circuit: Circuit): { from: number; to: number; emfV: number }[] {
+function findDiodeTerminals(topology: TopologyDefinition, circuit: Circuit, layout: ParameterLayout): DiodeTerminal[] {
   if (!topology.diodeCount || !topology.diodeLabels) return [];
-  const all = topology.branches(circuit.parts, { state: 'high', outputDriven: true, diodesOn: topology.diodeLabels.map(() => true) }, circuit.diode);
+  const piece: PieceConfig = { state: 'high', outputDriven: true, diodesOn: topology.diodeLabels.map(() => true) };
+  const all = topology.branches(circuit.parts, piece, circuit.diode);
+  const signs = diodeDropSigns(topology, circuit, piece, all);
+  const drop = (circuit.diode ?? DEFAULT_STEERING_DIODE).forwardDropV;
   return topology.diodeLabels.map((label) => {
-    const b = all.find((x) => x.label === label);
-    if (!b) throw new Error(`topology ${topology.id} lists diode branch ${label} but does not produce it`);
-    return { from: b.from, to: b.to, emfV: b.emfV };
+    const j = all.findIndex((x) => x.label === label);
+    if (j < 0) throw new Error(`topology ${topology.id} lists diode branch ${label} but does not produce it`);
+    const b = all[j];
+    const sign = signs[j];
+    return { from: b.from, to: b.to, emfV: sign !== 0 ? b.emfV - sign * drop : b.emfV, emfSlot: sign !== 0 ? layout.diodeDropSlot : -1, emfSign: sign };
   });
 }
 
