@@ -65,6 +65,22 @@ describe('timing capacitor object', () => {
     expect(res.json().periodS).toBeCloseTo(analysis.periodS, 15);
   });
 
+  it('tolerance runs the same C(V) part (nominal = analyze) and ages it over serviceLifeYears by the log-decade law', async () => {
+    const aged = { ...x7r, ageHours: 24 };
+    const analysis = (await post('/v1/analyze', probe(aged))).json();
+    const res = await post('/v1/tolerance', { circuit: probe(aged), tolerances: {}, serviceLifeYears: 10, monteCarlo: { samples: 500 } });
+    expect(res.statusCode).toBe(200);
+    const body = res.json();
+    // The worker thread received the C(v) shape: the nominal is the non-linear capacitor's, not the 0 V value's.
+    expect(body.nominal.frequencyHz).toBeCloseTo(analysis.frequencyHz, 6);
+    // Log-decade law C(t) = C(t0)(1 − k·log10(t/t0)), X7R-like k = 2 %/decade (typical of the class), 10 Julian years.
+    const law = (t: number) => 1 - 0.02 * Math.log10(t / 1000);
+    const ratio = law(24 + 10 * 8766) / law(24);
+    expect(body.ageing.changeFraction).toBeCloseTo(ratio - 1, 12);
+    // The C(V) curve scales with the aged capacitance, so the charge over the swing, and the frequency, scale by 1/ratio.
+    expect(body.worstCase.frequencyMaxHz / body.nominal.frequencyHz).toBeCloseTo(1 / ratio, 6);
+  });
+
   it('names the bad field under /parts/cTiming', async () => {
     for (const [bad, pointer] of [
       [{ ...x7r, caseSize: '0404' }, '/parts/cTiming'],
