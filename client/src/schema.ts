@@ -21,13 +21,14 @@ export interface paths {
             };
             requestBody?: never;
             responses: {
-                /** @description Default Response */
+                /** @description Liveness */
                 200: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
                         "application/json": {
+                            /** @description Always "ok": an answer at all means the process lives (load and store state are on /readyz) */
                             status: string;
                         };
                     };
@@ -59,15 +60,18 @@ export interface paths {
             };
             requestBody?: never;
             responses: {
-                /** @description Default Response */
+                /** @description Readiness: whether this replica should receive traffic */
                 200: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
                         "application/json": {
+                            /** @description "ready" (status 200) when every check holds, "not-ready" (status 503) otherwise */
                             status: string;
+                            /** @description Each readiness condition on its own, so an orchestrator log says which one failed */
                             checks: {
+                                /** @description true when the store (SQLite file or PostgreSQL database) answered a ping just now */
                                 store: boolean;
                                 /** @description false while requests are being shed for event-loop delay, or while shutting down */
                                 load: boolean;
@@ -75,15 +79,18 @@ export interface paths {
                         };
                     };
                 };
-                /** @description Default Response */
+                /** @description Readiness: whether this replica should receive traffic */
                 503: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
                         "application/json": {
+                            /** @description "ready" (status 200) when every check holds, "not-ready" (status 503) otherwise */
                             status: string;
+                            /** @description Each readiness condition on its own, so an orchestrator log says which one failed */
                             checks: {
+                                /** @description true when the store (SQLite file or PostgreSQL database) answered a ping just now */
                                 store: boolean;
                                 /** @description false while requests are being shed for event-loop delay, or while shutting down */
                                 load: boolean;
@@ -150,6 +157,7 @@ export interface paths {
                 query?: never;
                 header?: never;
                 path: {
+                    /** @description A problem code, e.g. validation (the last segment of a problem `type` URI) */
                     code: string;
                 };
                 cookie?: never;
@@ -163,8 +171,11 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
+                            /** @description The problem code, as in the `code` member of problem answers */
                             code: string;
+                            /** @description HTTP status answers with this code carry */
                             status: number;
+                            /** @description What the code means and what a caller can do about it */
                             description: string;
                         };
                     };
@@ -336,21 +347,29 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
+                            /** @description Every topology a circuit can name */
                             topologies: {
                                 /** @description Names the network; the supply is its own field */
                                 id: string;
                                 /** @description Earlier ids still accepted as input for one release; answers use `id` */
                                 deprecatedAliases: string[];
+                                /** @description The network in words: which part connects which nodes */
                                 description: string;
                                 /** @description POST /v1/design sizes it */
                                 designable: boolean;
+                                /** @description true: the amplifier must have an open-drain output stage (other topologies refuse one) */
                                 needsOpenDrain: boolean;
+                                /** @description The part roles of this topology, each a key of `parts` */
                                 roles: {
+                                    /** @description The key to give this part under a circuit's `parts` (e.g. rTiming) */
                                     role: string;
+                                    /** @description resistor: value in ohm; capacitor: value in farad */
                                     kind: "resistor" | "capacitor";
+                                    /** @description false: the part belongs to one of two alternative arrangements (give the parts of one) */
                                     required: boolean;
                                     /** @description What the role sets: the dwell times, the switching thresholds, or the output high level (a pull-up) */
                                     purpose: "timing" | "thresholds" | "output-level";
+                                    /** @description Where the part sits in the network, in words */
                                     description: string;
                                 }[];
                             }[];
@@ -2697,8 +2716,11 @@ export interface components {
                 tolerance: number;
             }[];
         };
+        /** @description One approved part */
         CataloguePart: {
+            /** @description What the part is; sets the unit of value (ohm or farad) */
             kind: "resistor" | "capacitor";
+            /** @description Nominal value: ohms or farads as a number, or a value string such as "4k7" or "100n" */
             value: components["schemas"]["ComponentValue"];
             /** @description Tolerance as a fraction (0.01 = 1 %) */
             tolerance: number;
@@ -2717,12 +2739,18 @@ export interface components {
         };
         /** @description A parts catalogue as written by its owner */
         CatalogueWrite: {
+            /** @description Display name (default: none; the id names the catalogue) */
             name?: string;
+            /** @description Free text for people, e.g. the approval list and its revision */
             description?: string;
+            /** @description The whole parts list (1 to 20000); a PUT replaces the previous list */
             parts: components["schemas"]["CataloguePart"][];
         };
+        /** @description A stored part, with its value as the service read it */
         CataloguePartRecord: {
+            /** @description What the part is; sets the unit of value (ohm or farad) */
             kind: "resistor" | "capacitor";
+            /** @description Nominal value: ohms or farads as a number, or a value string such as "4k7" or "100n" */
             value: components["schemas"]["ComponentValue"];
             /** @description Tolerance as a fraction (0.01 = 1 %) */
             tolerance: number;
@@ -2743,33 +2771,56 @@ export interface components {
         };
         /** @description A stored parts catalogue */
         Catalogue: {
+            /** @description Catalogue id, as in the path */
             id: string;
             /** @description 1 on creation, +1 on every update */
             version: number;
             /** @description Same as the ETag header: send it in If-Match to update or delete */
             etag: string;
-            /** Format: date-time */
+            /**
+             * Format: date-time
+             * @description When the first PUT stored it (RFC 3339, UTC)
+             */
             createdAt: string;
-            /** Format: date-time */
+            /**
+             * Format: date-time
+             * @description When the last PUT changed it (RFC 3339, UTC); equals createdAt until then
+             */
             updatedAt: string;
+            /** @description Display name (absent when the owner gave none) */
             name?: string;
+            /** @description Free text from the owner (absent when none was given) */
             description?: string;
+            /** @description The stored parts, in the order they were written */
             parts: components["schemas"]["CataloguePartRecord"][];
         };
+        /** @description A stored catalogue without its parts */
         CatalogueSummary: {
+            /** @description Catalogue id, as in the path */
             id: string;
             /** @description 1 on creation, +1 on every update */
             version: number;
             /** @description Same as the ETag header: send it in If-Match to update or delete */
             etag: string;
-            /** Format: date-time */
+            /**
+             * Format: date-time
+             * @description When the first PUT stored it (RFC 3339, UTC)
+             */
             createdAt: string;
-            /** Format: date-time */
+            /**
+             * Format: date-time
+             * @description When the last PUT changed it (RFC 3339, UTC); equals createdAt until then
+             */
             updatedAt: string;
+            /** @description Display name (absent when the owner gave none) */
             name?: string;
+            /** @description How many parts of each kind the catalogue holds */
             partCounts: {
+                /** @description Parts in the catalogue */
                 total: number;
+                /** @description Parts of kind resistor */
                 resistors: number;
+                /** @description Parts of kind capacitor */
                 capacitors: number;
                 /** @description Parts with status not-for-new-designs (included in the totals) */
                 notForNewDesigns: number;
@@ -2777,6 +2828,7 @@ export interface components {
         };
         /** @description Every stored catalogue, ordered by id, without its parts */
         CatalogueList: {
+            /** @description Ordered by id */
             catalogues: components["schemas"]["CatalogueSummary"][];
         };
         BomLine: {
@@ -3806,7 +3858,9 @@ export interface components {
                 message: string;
             }[];
         };
+        /** @description A circuit and the time window to sample */
         WaveformRequest: {
+            /** @description The circuit to simulate, as a POST /v1/analyze body */
             circuit: components["schemas"]["Circuit"];
             /**
              * @description Periods of the steady oscillation to cover
@@ -3824,20 +3878,27 @@ export interface components {
              */
             includePowerUp?: boolean;
         };
+        /** @description Sampled node voltages of the simulated circuit; the arrays share one index */
         Waveform: {
             /**
              * @description Waveforms always come from the time-domain engine
              * @enum {string}
              */
             model: "time-domain";
+            /** @description Steady-state frequency of the simulated circuit, Hz (as POST /v1/analyze reports it) */
             frequencyHz: number;
+            /** @description Steady-state period, s */
             periodS: number;
             /** @description Fraction of the period the output is high, between 50 % crossings */
             dutyCycle: number;
+            /** @description Switching thresholds, to draw beside capacitorV */
             thresholds: {
+                /** @description Capacitor voltage at which a high output switches low, V */
                 upperV: number;
+                /** @description Capacitor voltage at which a low output switches high, V */
                 lowerV: number;
             };
+            /** @description Echo of the request: true when timeS starts at power-up with the capacitor empty */
             includePowerUp: boolean;
             /** @description Sample times from the window start (power-up, or a rising decision), s */
             timeS: number[];

@@ -5,22 +5,29 @@ import { problemResponses } from '../schemas/common.ts';
 import { HttpProblem } from '../problem.ts';
 import { problemType } from '../problem-types.ts';
 
-const Health = Type.Object({ status: Type.String() }, { additionalProperties: false });
+const Health = Type.Object(
+  { status: Type.String({ description: 'Always "ok": an answer at all means the process lives (load and store state are on /readyz)' }) },
+  { additionalProperties: false, description: 'Liveness' },
+);
 const Ready = Type.Object(
   {
-    status: Type.String(),
+    status: Type.String({ description: '"ready" (status 200) when every check holds, "not-ready" (status 503) otherwise' }),
     checks: Type.Object(
       {
-        store: Type.Boolean(),
+        store: Type.Boolean({ description: 'true when the store (SQLite file or PostgreSQL database) answered a ping just now' }),
         load: Type.Boolean({ description: 'false while requests are being shed for event-loop delay, or while shutting down' }),
       },
-      { additionalProperties: false },
+      { additionalProperties: false, description: 'Each readiness condition on its own, so an orchestrator log says which one failed' },
     ),
   },
-  { additionalProperties: false },
+  { additionalProperties: false, description: 'Readiness: whether this replica should receive traffic' },
 );
 const ProblemDescription = Type.Object(
-  { code: Type.String(), status: Type.Integer(), description: Type.String() },
+  {
+    code: Type.String({ description: 'The problem code, as in the `code` member of problem answers' }),
+    status: Type.Integer({ description: 'HTTP status answers with this code carry' }),
+    description: Type.String({ description: 'What the code means and what a caller can do about it' }),
+  },
   { additionalProperties: false, description: 'What a problem code means (the target of a problem `type` URI)' },
 );
 
@@ -69,7 +76,7 @@ export const systemRoutes: FastifyPluginAsyncTypebox = async (app) => {
       schema: {
         tags: ['system'],
         summary: 'What a problem code means: the target of the `type` URI of every problem answer',
-        params: Type.Object({ code: Type.String({ maxLength: 64 }) }),
+        params: Type.Object({ code: Type.String({ maxLength: 64, description: 'A problem code, e.g. validation (the last segment of a problem `type` URI)' }) }),
         response: { 200: ProblemDescription, ...problemResponses(404) },
       },
     },

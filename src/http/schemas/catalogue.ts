@@ -15,8 +15,8 @@ export const CatalogueId = Type.String({
 });
 
 const partProperties = {
-  kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor')]),
-  value: ref(ComponentValue),
+  kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor')], { description: 'What the part is; sets the unit of value (ohm or farad)' }),
+  value: ref(ComponentValue, 'Nominal value: ohms or farads as a number, or a value string such as "4k7" or "100n"'),
   tolerance: Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, description: 'Tolerance as a fraction (0.01 = 1 %)' }),
   tempcoPpmPerK: Type.Optional(
     Type.Number({ minimum: -100_000, maximum: 100_000, description: 'Temperature coefficient, ppm/K (resistors; capacitors when known explicitly)' }),
@@ -36,13 +36,17 @@ const partProperties = {
   }),
 };
 
-export const CataloguePart = Type.Object(partProperties, { $id: 'CataloguePart', additionalProperties: false });
+export const CataloguePart = Type.Object(partProperties, { $id: 'CataloguePart', additionalProperties: false, description: 'One approved part' });
 
 export const CatalogueWrite = Type.Object(
   {
-    name: Type.Optional(Type.String({ maxLength: 200 })),
-    description: Type.Optional(Type.String({ maxLength: 2000 })),
-    parts: Type.Array(ref(CataloguePart), { minItems: 1, maxItems: MAX_CATALOGUE_PARTS }),
+    name: Type.Optional(Type.String({ maxLength: 200, description: 'Display name (default: none; the id names the catalogue)' })),
+    description: Type.Optional(Type.String({ maxLength: 2000, description: 'Free text for people, e.g. the approval list and its revision' })),
+    parts: Type.Array(ref(CataloguePart), {
+      minItems: 1,
+      maxItems: MAX_CATALOGUE_PARTS,
+      description: `The whole parts list (1 to ${MAX_CATALOGUE_PARTS}); a PUT replaces the previous list`,
+    }),
   },
   { $id: 'CatalogueWrite', additionalProperties: false, description: 'A parts catalogue as written by its owner' },
 );
@@ -52,48 +56,48 @@ export const CataloguePartRecord = Type.Object(
     ...partProperties,
     valueSi: Type.Number({ description: 'The value in SI base units as the service read it: ohm for resistors, farad for capacitors' }),
   },
-  { $id: 'CataloguePartRecord', additionalProperties: false },
+  { $id: 'CataloguePartRecord', additionalProperties: false, description: 'A stored part, with its value as the service read it' },
 );
 
 const storedMetadata = {
-  id: Type.String(),
+  id: Type.String({ description: 'Catalogue id, as in the path' }),
   version: Type.Integer({ minimum: 1, description: '1 on creation, +1 on every update' }),
   etag: Type.String({ description: 'Same as the ETag header: send it in If-Match to update or delete' }),
-  createdAt: Type.String({ format: 'date-time' }),
-  updatedAt: Type.String({ format: 'date-time' }),
+  createdAt: Type.String({ format: 'date-time', description: 'When the first PUT stored it (RFC 3339, UTC)' }),
+  updatedAt: Type.String({ format: 'date-time', description: 'When the last PUT changed it (RFC 3339, UTC); equals createdAt until then' }),
 };
 
 export const Catalogue = Type.Object(
   {
     ...storedMetadata,
-    name: Type.Optional(Type.String()),
-    description: Type.Optional(Type.String()),
-    parts: Type.Array(ref(CataloguePartRecord)),
+    name: Type.Optional(Type.String({ description: 'Display name (absent when the owner gave none)' })),
+    description: Type.Optional(Type.String({ description: 'Free text from the owner (absent when none was given)' })),
+    parts: Type.Array(ref(CataloguePartRecord), { description: 'The stored parts, in the order they were written' }),
   },
   { $id: 'Catalogue', additionalProperties: false, description: 'A stored parts catalogue' },
 );
 
 export const PartCounts = Type.Object(
   {
-    total: Type.Integer(),
-    resistors: Type.Integer(),
-    capacitors: Type.Integer(),
+    total: Type.Integer({ description: 'Parts in the catalogue' }),
+    resistors: Type.Integer({ description: 'Parts of kind resistor' }),
+    capacitors: Type.Integer({ description: 'Parts of kind capacitor' }),
     notForNewDesigns: Type.Integer({ description: 'Parts with status not-for-new-designs (included in the totals)' }),
   },
-  { additionalProperties: false },
+  { additionalProperties: false, description: 'How many parts of each kind the catalogue holds' },
 );
 
 export const CatalogueSummary = Type.Object(
   {
     ...storedMetadata,
-    name: Type.Optional(Type.String()),
+    name: Type.Optional(Type.String({ description: 'Display name (absent when the owner gave none)' })),
     partCounts: PartCounts,
   },
-  { $id: 'CatalogueSummary', additionalProperties: false },
+  { $id: 'CatalogueSummary', additionalProperties: false, description: 'A stored catalogue without its parts' },
 );
 
 export const CatalogueList = Type.Object(
-  { catalogues: Type.Array(ref(CatalogueSummary)) },
+  { catalogues: Type.Array(ref(CatalogueSummary), { description: 'Ordered by id' }) },
   { $id: 'CatalogueList', additionalProperties: false, description: 'Every stored catalogue, ordered by id, without its parts' },
 );
 

@@ -682,7 +682,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "p99": 0.502657767386395,
             "p99_9": 0.503392939354393,
             "mean": 0.5002046519308286,
-            "std": 0.001037259164117932,
+            "std": 0.0010372591641179317,
             "min": 0.49620965465161265,
             "max": 0.5043674742354516
           },
@@ -1109,36 +1109,36 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
         "nominal": {
           "frequencyHz": 10085.8338052615,
           "periodS": 0.0000991489666901241,
-          "dutyCycle": 0.5002150166680996,
+          "dutyCycle": 0.5002150167951656,
           "capacitorMinV": -0.7817358794938263,
           "capacitorMaxV": 0.7837232818973764,
-          "outputHighV": 2.4743383578052764,
-          "outputLowV": -2.47433515047729,
-          "riseTimeS": 4.960261911297127e-7,
-          "fallTimeS": 4.96026188576769e-7,
+          "outputHighV": 2.4754190755016134,
+          "outputLowV": -2.475415968725926,
+          "riseTimeS": 4.962428508964868e-7,
+          "fallTimeS": 4.962428483422962e-7,
           "capacitorRisingTauS": 0.00007531740827479323,
           "capacitorFallingTauS": 0.00007531740827479003,
           "capacitorAboveMidShare": 0.5000675208607656,
           "upperThresholdV": 0.7745651554157321,
           "lowerThresholdV": -0.7725641944234329,
-          "hysteresisRatio": 0.3126351631906497
+          "hysteresisRatio": 0.31249866659222497
         },
         "fitted": {
-          "frequencyHz": 9310.048434565364,
-          "periodS": 0.00010741082681023501,
-          "dutyCycle": 0.5000858339562904,
-          "capacitorMinV": -0.7895329703151056,
-          "capacitorMaxV": 0.7904809710511811,
-          "outputHighV": 2.485036350939048,
-          "outputLowV": -2.4848833546949773,
-          "riseTimeS": 8.003151258327286e-7,
-          "fallTimeS": 8.003151228312639e-7,
-          "capacitorRisingTauS": 0.00008093755655409551,
-          "capacitorFallingTauS": 0.00008093755655408152,
-          "capacitorAboveMidShare": 0.5000270024800447,
-          "upperThresholdV": 0.7775871905146928,
-          "lowerThresholdV": -0.7766314495036164,
-          "hysteresisRatio": 0.31272510062011827
+          "frequencyHz": 9310.048457536494,
+          "periodS": 0.00010741082654521514,
+          "dutyCycle": 0.5000858330257784,
+          "capacitorMinV": -0.7895330415543864,
+          "capacitorMaxV": 0.7904809862420648,
+          "outputHighV": 2.4863577695741053,
+          "outputLowV": -2.4862048643319934,
+          "riseTimeS": 8.007373364927442e-7,
+          "fallTimeS": 8.007373334894771e-7,
+          "capacitorRisingTauS": 0.00008093753884168022,
+          "capacitorFallingTauS": 0.00008093753884166327,
+          "capacitorAboveMidShare": 0.5000270021672868,
+          "upperThresholdV": 0.777587045283235,
+          "lowerThresholdV": -0.7766313603443582,
+          "hysteresisRatio": 0.31255883938594203
         },
         "measurements": [
           {
@@ -1147,19 +1147,19 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 5,
             "source": "scalar",
             "nominal": 10085.8338052615,
-            "fitted": 9310.048434565364,
+            "fitted": 9310.048457536494,
             "nominalResidual": 155.1667610523,
-            "fittedResidual": 0.009686913072800962
+            "fittedResidual": 0.009691507298703073
           },
           {
             "name": "dutyCycle",
             "value": 0.5,
             "uncertainty": 0.002,
             "source": "scalar",
-            "nominal": 0.5002150166680996,
-            "fitted": 0.5000858339562904,
-            "nominalResidual": 0.10750833404982174,
-            "fittedResidual": 0.04291697814517992
+            "nominal": 0.5002150167951656,
+            "fitted": 0.5000858330257784,
+            "nominalResidual": 0.10750839758277841,
+            "fittedResidual": 0.042916512889179526
           },
           {
             "name": "capacitorMaxV",
@@ -1167,9 +1167,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 0.01,
             "source": "scalar",
             "nominal": 0.7837232818973764,
-            "fitted": 0.7904809710511811,
+            "fitted": 0.7904809862420648,
             "nominalResidual": -0.6276718102623646,
-            "fittedResidual": 0.04809710511810561
+            "fittedResidual": 0.04809862420647182
           },
           {
             "name": "capacitorMinV",
@@ -1177,9 +1177,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 0.01,
             "source": "scalar",
             "nominal": -0.7817358794938263,
-            "fitted": -0.7895329703151056,
+            "fitted": -0.7895330415543864,
             "nominalResidual": 0.8264120506173755,
-            "fittedResidual": 0.046702968489442664
+            "fittedResidual": 0.04669584456136189
           },
           {
             "name": "capacitorRisingTauS",
@@ -1187,9 +1187,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 8e-7,
             "source": "scalar",
             "nominal": 0.00007531740827479323,
-            "fitted": 0.00008093755655409551,
+            "fitted": 0.00008093753884168022,
             "nominalResidual": -7.47823965650846,
-            "fittedResidual": -0.4530543073806112
+            "fittedResidual": -0.45307644789972157
           }
         ],
         "estimates": [
@@ -1198,158 +1198,158 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "kind": "part",
             "unit": "ohm",
             "nominal": 16000,
-            "estimate": 16011.258259856173,
-            "standardDeviation": 53.12995579550516,
+            "estimate": 16011.259671696142,
+            "standardDeviation": 53.129949352959365,
             "priorStandardDeviation": 53.335111217785446,
-            "shift": 11.258259856173026,
-            "shiftInTolerances": 0.0703641241010855,
-            "posteriorToPriorSd": 0.9954530222578535,
+            "shift": 11.259671696141595,
+            "shiftInTolerances": 0.07037294810088301,
+            "posteriorToPriorSd": 0.9954528137720914,
             "tolerance": 0.01,
-            "relativeShift": 0.000703641241010855
+            "relativeShift": 0.0007037294810088301
           },
           {
             "parameter": "cTiming",
             "kind": "part",
             "unit": "F",
             "nominal": 4.7e-9,
-            "estimate": 5.045452244894496e-9,
-            "standardDeviation": 4.87073731199617e-11,
+            "estimate": 5.045450398933683e-9,
+            "standardDeviation": 4.8701783687109265e-11,
             "priorStandardDeviation": 1.5719204477868513e-10,
-            "shift": 3.4545224489449586e-10,
-            "shiftInTolerances": 0.7350047763712686,
-            "posteriorToPriorSd": 0.28864358009682617,
+            "shift": 3.454503989336827e-10,
+            "shiftInTolerances": 0.7350008487950688,
+            "posteriorToPriorSd": 0.288610562287512,
             "tolerance": 0.1,
-            "relativeShift": 0.07350047763712686
+            "relativeShift": 0.07350008487950688
           },
           {
             "parameter": "rFeedback",
             "kind": "part",
             "unit": "ohm",
             "nominal": 22000,
-            "estimate": 21996.874998480725,
-            "standardDeviation": 73.03142311328236,
+            "estimate": 21996.87418807198,
+            "standardDeviation": 73.03158508548347,
             "priorStandardDeviation": 73.33577792445499,
-            "shift": -3.1250015192745195,
-            "shiftInTolerances": -0.014204552360341793,
-            "posteriorToPriorSd": 0.9959913215759363,
+            "shift": -3.125811928020994,
+            "shiftInTolerances": -0.014208236036461486,
+            "posteriorToPriorSd": 0.995993567222305,
             "tolerance": 0.01,
-            "relativeShift": -0.00014204552360341793
+            "relativeShift": -0.00014208236036461486
           },
           {
             "parameter": "rGround",
             "kind": "part",
             "unit": "ohm",
             "nominal": 10000,
-            "estimate": 10001.42030850103,
-            "standardDeviation": 33.205444637281055,
+            "estimate": 10001.421040264378,
+            "standardDeviation": 33.205405470288724,
             "priorStandardDeviation": 33.334444511115905,
-            "shift": 1.4203085010303766,
-            "shiftInTolerances": 0.01420308501030032,
-            "posteriorToPriorSd": 0.9959886716705381,
+            "shift": 1.4210402643784619,
+            "shiftInTolerances": 0.014210402643777265,
+            "posteriorToPriorSd": 0.9959874239944356,
             "tolerance": 0.01,
-            "relativeShift": 0.0001420308501030032
+            "relativeShift": 0.00014210402643777265
           },
           {
             "parameter": "outputHighV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": 2.48,
-            "estimate": 2.4801106391399936,
-            "standardDeviation": 0.0266354817663264,
+            "estimate": 2.4801105034121855,
+            "standardDeviation": 0.026635615059174424,
             "priorStandardDeviation": 0.011586206896551748,
-            "shift": 0.00011063913999365127,
-            "shiftInTolerances": 0.003191591843403588,
-            "posteriorToPriorSd": 2.3112272546084016
+            "shift": 0.00011050341218554749,
+            "shiftInTolerances": 0.003187666042727195,
+            "posteriorToPriorSd": 2.311223608712167
           },
           {
             "parameter": "outputLowV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": -2.48,
-            "estimate": -2.4799590627735806,
-            "standardDeviation": 0.026696168895200365,
+            "estimate": -2.479958971315125,
+            "standardDeviation": 0.026696285218622228,
             "priorStandardDeviation": 0.011586206896551736,
-            "shift": 0.000040937226419401895,
-            "shiftInTolerances": 0.0011765967870084697,
-            "posteriorToPriorSd": 2.299595122102198
+            "shift": 0.00004102868487487754,
+            "shiftInTolerances": 0.0011792228436588758,
+            "posteriorToPriorSd": 2.2995950233517632
           },
           {
             "parameter": "slewRateVPerS",
             "kind": "amplifier",
             "unit": "V/s",
             "nominal": 8000000,
-            "estimate": 4982122.5809283145,
-            "standardDeviation": 4645768.099247565,
+            "estimate": 4982144.081422568,
+            "standardDeviation": 4646319.4664950995,
             "priorStandardDeviation": 3862650.98984184,
-            "shift": -3017877.4190716855,
-            "shiftInTolerances": -0.3369094647119507,
-            "posteriorToPriorSd": 2.1143653791619914
+            "shift": -3017855.9185774317,
+            "shiftInTolerances": -0.33690620297909746,
+            "posteriorToPriorSd": 2.114603536613793
           },
           {
             "parameter": "recoveryDelayS",
             "kind": "amplifier",
             "unit": "s",
             "nominal": 3e-7,
-            "estimate": 4.41138383033671e-7,
-            "standardDeviation": 4.5036980196317503e-7,
+            "estimate": 4.411467956883102e-7,
+            "standardDeviation": 4.5032313072648793e-7,
             "priorStandardDeviation": 1.44e-7,
-            "shift": 1.41138383033671e-7,
-            "shiftInTolerances": 0.2837240651758292,
-            "posteriorToPriorSd": 2.4104338560980296
+            "shift": 1.4114679568831023e-7,
+            "shiftInTolerances": 0.2837390736086585,
+            "posteriorToPriorSd": 2.4101572525410564
           },
           {
             "parameter": "outputResistanceOhm",
             "kind": "amplifier",
             "unit": "ohm",
             "nominal": 25,
-            "estimate": 30.455890474026553,
-            "standardDeviation": 43.23172009451101,
+            "estimate": 30.456838979470547,
+            "standardDeviation": 43.23294163104238,
             "priorStandardDeviation": 12.070784343255756,
-            "shift": 5.455890474026553,
-            "shiftInTolerances": 0.13697158795197695,
-            "posteriorToPriorSd": 2.9848250164315475
+            "shift": 5.456838979470547,
+            "shiftInTolerances": 0.13699341671959497,
+            "posteriorToPriorSd": 2.9848307823207882
           },
           {
             "parameter": "inputOffsetV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": 0.001,
-            "estimate": 0.0004539863130118499,
-            "standardDeviation": 0.00421846372335552,
+            "estimate": 0.0004539656524235698,
+            "standardDeviation": 0.0042184638149379465,
             "priorStandardDeviation": 0.002057142857142857,
-            "shift": -0.0005460136869881501,
-            "shiftInTolerances": -0.0876607636446319,
-            "posteriorToPriorSd": 2.017277311675322
+            "shift": -0.0005460343475764302,
+            "shiftInTolerances": -0.08766405695476451,
+            "posteriorToPriorSd": 2.0172765799278887
           },
           {
             "parameter": "inputBiasCurrentA",
             "kind": "amplifier",
             "unit": "A",
             "nominal": 1e-12,
-            "estimate": 2.9268069114033035e-12,
-            "standardDeviation": 9.004356495118673e-9,
+            "estimate": 2.994938413450514e-12,
+            "standardDeviation": 9.004356461059725e-9,
             "priorStandardDeviation": 3.0014999700149927e-9,
-            "shift": 1.9268069114033037e-12,
-            "shiftInTolerances": 0.00021398267439206502,
-            "posteriorToPriorSd": 2.9999524456701834
+            "shift": 1.9949384134505144e-12,
+            "shiftInTolerances": 0.00022154905875700675,
+            "posteriorToPriorSd": 2.99995244641431
           },
           {
             "parameter": "supplyScale",
             "kind": "supply",
             "unit": "1",
             "nominal": 1,
-            "estimate": 1.004738748066404,
-            "standardDeviation": 0.016246834642172876,
+            "estimate": 1.0047386376283738,
+            "standardDeviation": 0.01624578420171293,
             "priorStandardDeviation": 0.01,
-            "shift": 0.004738748066404064,
-            "shiftInTolerances": 0.15798783774686892,
-            "posteriorToPriorSd": 1.6255960630058308
+            "shift": 0.0047386376283737874,
+            "shiftInTolerances": 0.1579841544114431,
+            "posteriorToPriorSd": 1.6254909173982306
           }
         ],
         "hysteresisRatio": {
-          "nominal": 0.3126351631906497,
-          "estimate": 0.31272510062011827,
-          "standardDeviation": 0.0010342756026014844
+          "nominal": 0.31249866659222497,
+          "estimate": 0.31255883938594203,
+          "standardDeviation": 0.0010049763815456268
         },
         "indistinguishable": [
           {
@@ -1357,9 +1357,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "rTiming",
               "cTiming"
             ],
-            "correlation": -0.3174013118710188,
-            "sensitivityAlignment": 0.9999999932608892,
-            "distinguishingSigma": 0.021145925640843607,
+            "correlation": -0.3174482631289518,
+            "sensitivityAlignment": 0.9999999933380108,
+            "distinguishingSigma": 0.021024568155354043,
             "note": "rTiming and cTiming cannot be told apart from these measurements (each mimics the other to within 0.021 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
@@ -1367,29 +1367,29 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "rFeedback",
               "rGround"
             ],
-            "correlation": 0.008068505506175135,
-            "sensitivityAlignment": -0.9999999966221125,
-            "distinguishingSigma": 0.0010925565746215695,
-            "note": "rFeedback and rGround cannot be told apart from these measurements (each mimics the other to within 0.0011 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": 0.008067492189394794,
+            "sensitivityAlignment": -0.9999999957516723,
+            "distinguishingSigma": 0.0012252657993109667,
+            "note": "rFeedback and rGround cannot be told apart from these measurements (each mimics the other to within 0.0012 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
             "parameters": [
               "rFeedback",
               "recoveryDelayS"
             ],
-            "correlation": 0.06654438045900792,
-            "sensitivityAlignment": -0.9999999983259686,
-            "distinguishingSigma": 0.0017063398212574616,
-            "note": "rFeedback and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0017 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": 0.06654716092812614,
+            "sensitivityAlignment": -0.9999999979203787,
+            "distinguishingSigma": 0.0019018701334259278,
+            "note": "rFeedback and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0019 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
             "parameters": [
               "rGround",
               "recoveryDelayS"
             ],
-            "correlation": -0.06656650194596327,
-            "sensitivityAlignment": 0.9999999993016664,
-            "distinguishingSigma": 0.0011020852880793486,
+            "correlation": -0.06659847281766954,
+            "sensitivityAlignment": 0.9999999993527201,
+            "distinguishingSigma": 0.0010610474211667589,
             "note": "rGround and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0011 σ of the measurements): the data fix one combination of them and their split follows the priors"
           }
         ],
@@ -1424,188 +1424,188 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "matrix": [
             [
               0.9999999999999999,
-              -0.3174013118710188,
-              0.000939163617329463,
-              -0.0009370394500079656,
-              0.00003064123821320589,
-              -0.000033937437027279305,
-              0.010601805588133086,
-              -0.0077483040809389996,
-              -0.006694568399505379,
-              -0.0000012634951496202351,
-              3.1738466357177644e-7,
-              0.007258492693190493
+              -0.3174482631289518,
+              0.0009405999940020055,
+              -0.000935767139471779,
+              0.000031384230351763654,
+              -0.000033957495139727674,
+              0.010604675405535613,
+              -0.007736602953912845,
+              -0.006693950088044783,
+              -0.000002028281857066187,
+              4.3762578081491084e-7,
+              0.007250971489198822
             ],
             [
-              -0.31740131187101905,
+              -0.3174482631289525,
               1,
-              0.0319825834008953,
-              -0.03190874254300149,
-              0.001086488554347488,
-              -0.0011851636758527617,
-              0.36110402430715954,
-              -0.26386330443563605,
-              -0.2325286237981768,
-              -0.000043498740544333886,
-              0.000010981514068549958,
-              0.25528322617074894
+              0.03204172597355727,
+              -0.031873702778508026,
+              0.0010997363051308301,
+              -0.0011992832035353307,
+              0.3613085721133945,
+              -0.26353171319977486,
+              -0.23252598949006106,
+              -0.00006417521859584253,
+              0.00001523543294966453,
+              0.25509700427699966
             ],
             [
-              0.0009391636173294853,
-              0.03198258340089529,
+              0.0009405999940021046,
+              0.032041725973557235,
               1,
-              0.008068505506175135,
-              0.0002623790414483638,
-              -0.0002979240901596373,
-              -0.09002753808422438,
-              0.06654438045900792,
-              -0.005776667282292719,
-              0.00006909361470344422,
-              3.720409091639311e-7,
-              0.0619496644241687
+              0.008067492189394794,
+              0.0002628894463227968,
+              -0.00029861822513087163,
+              -0.08998174306672535,
+              0.06654716092812614,
+              -0.005772041188423526,
+              0.00006822661868045163,
+              5.311163944024665e-7,
+              0.06196739881465256
             ],
             [
-              -0.0009370394500082106,
-              -0.03190874254300147,
-              0.008068505506175142,
+              -0.0009357671394718437,
+              -0.03187370277850799,
+              0.00806749218939479,
               1,
-              -0.0002630975991974665,
-              0.0002987268578835202,
-              0.0900562438431394,
-              -0.06656650194596327,
-              0.0057806702374231,
-              -0.00006913191095892426,
-              -3.7242834565725287e-7,
-              -0.06211749120992488
+              -0.0002638642326633857,
+              0.0002988527650251606,
+              0.0900503948982058,
+              -0.06659847281766954,
+              0.005781069540665952,
+              -0.00006820326189386655,
+              -5.294827913853614e-7,
+              -0.062101364971895126
             ],
             [
-              0.00003064123821319898,
-              0.0010864885543473903,
-              0.00026237904144834896,
-              -0.000263097599197411,
+              0.000031384230351755414,
+              0.0010997363051308139,
+              0.00026288944632274995,
+              -0.00026386423266337337,
               1,
-              -0.6883265947967031,
-              -0.0013616633717547391,
-              -0.0021809320771467807,
-              0.0006202541469669525,
-              0.02631924158860487,
-              0.00435202152343454,
-              -0.5513562755136167
+              -0.6883293837227509,
+              -0.0013560763373155712,
+              -0.0021852148357460535,
+              0.0006212349183814314,
+              0.026319497789658357,
+              0.0043520011338372645,
+              -0.5513906392506084
             ],
             [
-              -0.00003393743702727955,
-              -0.001185163675852773,
-              -0.0002979240901596328,
-              0.0002987268578834923,
-              -0.6883265947967032,
+              -0.000033957495139723344,
+              -0.001199283203535321,
+              -0.000298618225130916,
+              0.0002988527650251447,
+              -0.688329383722751,
               1,
-              0.0014941098085068246,
-              0.002451535615060126,
-              -0.0006431242861959516,
-              0.026644552553261924,
-              0.004405949114583137,
-              0.551288139542091
+              0.001487174252745785,
+              0.0024549791386157156,
+              -0.0006437579482820985,
+              0.02664469833483635,
+              0.004405898096668028,
+              0.5513228623164877
             ],
             [
-              0.010601805588132888,
-              0.36110402430715915,
-              -0.09002753808422424,
-              0.09005624384313932,
-              -0.001361663371754842,
-              0.001494109808506848,
-              1,
-              0.7427332306941254,
-              -0.06368814229866351,
-              -0.0000692745581804139,
-              0.0000042119857014752255,
-              -0.3128537189934352
-            ],
-            [
-              -0.007748304080938539,
-              -0.26386330443563594,
-              0.06654438045900804,
-              -0.0665665019459633,
-              -0.0021809320771468406,
-              0.0024515356150600475,
-              0.7427332306941253,
-              0.9999999999999998,
-              0.04765919904710269,
-              -0.000060700058812922846,
-              -0.000003916276849924902,
-              -0.5121994161142512
-            ],
-            [
-              -0.006694568399505472,
-              -0.23252862379817688,
-              -0.0057766672822927405,
-              0.005780670237423103,
-              0.0006202541469669718,
-              -0.0006431242861959733,
-              -0.06368814229866349,
-              0.04765919904710271,
-              1,
-              0.000004595921708822842,
-              6.034334337629788e-7,
-              0.13957670182165627
-            ],
-            [
-              -0.000001263495149620189,
-              -0.00004349874054433327,
-              0.00006909361470344526,
-              -0.00006913191095892468,
-              0.026319241588604873,
-              0.02664455255326192,
-              -0.00006927455818041392,
-              -0.00006070005881292288,
-              0.000004595921708822843,
+              0.010604675405536362,
+              0.36130857211339423,
+              -0.08998174306672531,
+              0.09005039489820582,
+              -0.0013560763373156243,
+              0.0014871742527458466,
               1.0000000000000002,
-              0.0020181521490314886,
-              0.0002552356118335979
+              0.7428096833461033,
+              -0.06365110633522905,
+              -0.00007799677717417288,
+              0.000006007243531070348,
+              -0.31283265859161385
             ],
             [
-              3.173846635717795e-7,
-              0.000010981514068550012,
-              3.720409091641712e-7,
-              -3.724283456572822e-7,
-              0.004352021523434541,
-              0.004405949114583137,
-              0.000004211985701475224,
-              -0.000003916276849924906,
-              6.034334337629791e-7,
-              0.0020181521490314886,
-              0.9999999999999999,
-              0.00002542313233771491
+              -0.007736602953913248,
+              -0.26353171319977464,
+              0.06654716092812615,
+              -0.0665984728176694,
+              -0.0021852148357460357,
+              0.0024549791386157156,
+              0.7428096833461033,
+              0.9999999999999998,
+              0.04767247239228631,
+              -0.00005445882915707902,
+              -0.000005223843852553378,
+              -0.5121039745130066
             ],
             [
-              0.007258492693190216,
-              0.25528322617074894,
-              0.061949664424168605,
-              -0.06211749120992485,
-              -0.5513562755136167,
-              0.551288139542091,
-              -0.3128537189934351,
-              -0.5121994161142512,
-              0.13957670182165627,
-              0.0002552356118335979,
-              0.00002542313233771491,
-              1
+              -0.006693950088044799,
+              -0.23252598949006106,
+              -0.005772041188423528,
+              0.00578106954066595,
+              0.0006212349183814025,
+              -0.0006437579482820651,
+              -0.06365110633522908,
+              0.04767247239228626,
+              1,
+              0.000003748577987779553,
+              8.277947582292074e-7,
+              0.13959308364001552
+            ],
+            [
+              -0.000002028281857066083,
+              -0.00006417521859584318,
+              0.00006822661868045079,
+              -0.00006820326189386743,
+              0.02631949778965836,
+              0.02664469833483635,
+              -0.0000779967771741729,
+              -0.00005445882915707906,
+              0.000003748577987779554,
+              1,
+              0.002018164044873457,
+              0.00024781795819936534
+            ],
+            [
+              4.3762578081490946e-7,
+              0.000015235432949664595,
+              5.311163944024654e-7,
+              -5.294827913855854e-7,
+              0.004352001133837265,
+              0.004405898096668028,
+              0.000006007243531070346,
+              -0.000005223843852553378,
+              8.277947582292068e-7,
+              0.002018164044873457,
+              1,
+              0.000026946265645670767
+            ],
+            [
+              0.007250971489198653,
+              0.25509700427699966,
+              0.06196739881465258,
+              -0.06210136497189524,
+              -0.5513906392506086,
+              0.5513228623164877,
+              -0.3128326585916139,
+              -0.5121039745130067,
+              0.13959308364001552,
+              0.00024781795819936534,
+              0.000026946265645670767,
+              1.0000000000000002
             ]
           ]
         },
         "fit": {
-          "chiSquare": 0.21168840752058715,
-          "priorChiSquare": 4.766394937827753,
+          "chiSquare": 0.2117079995835713,
+          "priorChiSquare": 4.7663753473223,
           "measurementCount": 5,
-          "iterations": 12,
+          "iterations": 27,
           "converged": true
         },
         "verdict": {
           "agreesWithNominal": true,
-          "nominalChiSquare": 24133.736290642137,
-          "toleranceChiSquare": 5.69143166613968,
+          "nominalChiSquare": 24133.736290655797,
+          "toleranceChiSquare": 5.691431677931224,
           "measurementCount": 5,
           "chiSquareBound95": 11.043946211607775,
-          "nominalScore": 0.7979859638129408,
+          "nominalScore": 0.7979862492615325,
           "statement": "The measurements agree with the nominal circuit within its tolerances (χ² 5.69 for 5 measurements, 95 % bound 11.0)."
         },
         "explanations": [
@@ -1618,22 +1618,22 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "part",
                 "unit": "F",
                 "nominal": 4.7e-9,
-                "estimate": 5.083087954623743e-9,
-                "standardDeviation": 3.4684260101505634e-11,
+                "estimate": 5.083087873036794e-9,
+                "standardDeviation": 3.4684021195884393e-11,
                 "priorStandardDeviation": 1.5719204477868513e-10,
-                "shift": 3.830879546237427e-10,
-                "shiftInTolerances": 0.8150807545186023,
-                "posteriorToPriorSd": 0.2040196999131873,
+                "shift": 3.8308787303679385e-10,
+                "shiftInTolerances": 0.8150805809293482,
+                "posteriorToPriorSd": 0.20401829789754952,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "cTiming +8.2 % (4.7 nF -> 5.08 nF), inside its 10 % tolerance",
                 "tolerance": 0.1,
-                "relativeShift": 0.08150807545186023
+                "relativeShift": 0.08150805809293482
               }
             ],
-            "score": 0.04811983591102988,
-            "logEvidence": -11.17363524846611,
-            "residualChiSquare": 0.5506727208709566,
+            "score": 0.04811952245484379,
+            "logEvidence": -11.173642294102134,
+            "residualChiSquare": 0.5506727951049126,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1641,37 +1641,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 9338.868330940584,
+                "predicted": 9338.868478241064,
                 "uncertainty": 5,
-                "normalized": 5.77366618811684
+                "normalized": 5.773695648212742
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002151055296931,
+                "predicted": 0.5002151056481527,
                 "uncertainty": 0.002,
-                "normalized": 0.1075527648465302
+                "normalized": 0.10755282407637345
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7830356530355088,
+                "predicted": 0.7830356531709587,
                 "uncertainty": 0.01,
-                "normalized": -0.6964346964491219
+                "normalized": -0.6964346829041346
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.781047234096462,
+                "predicted": -0.7810472342321122,
                 "uncertainty": 0.01,
-                "normalized": 0.8952765903537996
+                "normalized": 0.8952765767887838
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00008145638527127711,
+                "predicted": 0.00008145638396384355,
                 "uncertainty": 8e-7,
-                "normalized": 0.19548158909638821
+                "normalized": 0.1954799548044399
               }
             ],
             "summary": "cTiming +8.2 % (4.7 nF -> 5.08 nF), inside its 10 % tolerance: accounts for the measurements (χ² 0.551 for 5, other parts within their tolerances)"
@@ -1685,22 +1685,22 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "part",
                 "unit": "ohm",
                 "nominal": 16000,
-                "estimate": 17227.278844126806,
-                "standardDeviation": 554.9259658996605,
+                "estimate": 17227.278631883088,
+                "standardDeviation": 554.9244860914538,
                 "priorStandardDeviation": 53.335111217785446,
-                "shift": 1227.2788441268058,
-                "shiftInTolerances": 7.670492775792526,
-                "posteriorToPriorSd": 9.663292843199399,
+                "shift": 1227.2786318830877,
+                "shiftInTolerances": 7.670491449269301,
+                "posteriorToPriorSd": 9.663267193373922,
                 "withinTolerance": false,
                 "fault": "off",
                 "text": "rTiming +7.7 % (16 kΩ -> 17.2 kΩ), 7.7× its 1 % tolerance",
                 "tolerance": 0.01,
-                "relativeShift": 0.07670492775792526
+                "relativeShift": 0.07670491449269301
               }
             ],
-            "score": 0.04537209506786155,
-            "logEvidence": -11.232432459578936,
-            "residualChiSquare": 0.5362420396557478,
+            "score": 0.045371990894989035,
+            "logEvidence": -11.232435287089956,
+            "residualChiSquare": 0.5362420956168699,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1708,37 +1708,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 9380.077002856073,
+                "predicted": 9380.07711636773,
                 "uncertainty": 5,
-                "normalized": 14.01540057121456
+                "normalized": 14.01542327354582
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150957708553,
+                "predicted": 0.5002150958813388,
                 "uncertainty": 0.002,
-                "normalized": 0.10754788542766125
+                "normalized": 0.10754794066941686
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7831329270922727,
+                "predicted": 0.7831329271871307,
                 "uncertainty": 0.01,
-                "normalized": -0.6867072907727367
+                "normalized": -0.6867072812869357
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7811446339735357,
+                "predicted": -0.7811446340685366,
                 "uncertainty": 0.01,
-                "normalized": 0.8855366026464306
+                "normalized": 0.885536593146341
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00008108561884216954,
+                "predicted": 0.00008108561784462344,
                 "uncertainty": 8e-7,
-                "normalized": -0.26797644728807296
+                "normalized": -0.2679776942206906
               }
             ],
             "summary": "rTiming +7.7 % (16 kΩ -> 17.2 kΩ), 7.7× its 1 % tolerance: accounts for the measurements (χ² 0.536 for 5, other parts within their tolerances)"
@@ -1752,20 +1752,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "A",
                 "nominal": 1e-12,
-                "estimate": 2.833391326495042e-12,
-                "standardDeviation": 9.004020625628744e-9,
+                "estimate": 2.8625528024764533e-12,
+                "standardDeviation": 9.004020614847643e-9,
                 "priorStandardDeviation": 3.0014999700149927e-9,
-                "shift": 1.8333913264950422e-12,
-                "shiftInTolerances": 0.00020360835125917483,
-                "posteriorToPriorSd": 2.999840528988455,
+                "shift": 1.8625528024764535e-12,
+                "shiftInTolerances": 0.00020684689624706198,
+                "posteriorToPriorSd": 2.999840530374371,
                 "withinTolerance": true,
                 "fault": "off",
-                "text": "input bias current 1 pA -> 2.83 pA, inside its class-typical spread"
+                "text": "input bias current 1 pA -> 2.86 pA, inside its class-typical spread"
               }
             ],
-            "score": 0.022798521367110566,
-            "logEvidence": -11.920634048033872,
-            "residualChiSquare": 5.691431587631961,
+            "score": 0.022798529532905544,
+            "logEvidence": -11.920634221402318,
+            "residualChiSquare": 5.69143159810048,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1773,40 +1773,40 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.833805196691,
+                "predicted": 10085.833805195656,
                 "uncertainty": 5,
-                "normalized": 155.16676103933824
+                "normalized": 155.16676103913125
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150202741161,
+                "predicted": 0.5002150204585409,
                 "uncertainty": 0.002,
-                "normalized": 0.10751013705806445
+                "normalized": 0.10751022927046883
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7837232691685325,
+                "predicted": 0.7837232689660708,
                 "uncertainty": 0.01,
-                "normalized": -0.6276730831467514
+                "normalized": -0.6276731033929228
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7817358922227247,
+                "predicted": -0.7817358924251875,
                 "uncertainty": 0.01,
-                "normalized": 0.8264107777275376
+                "normalized": 0.8264107574812551
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479724,
+                "predicted": 0.00007531740827479894,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656503446
+                "normalized": -7.478239656501328
               }
             ],
-            "summary": "input bias current 1 pA -> 2.83 pA, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
+            "summary": "input bias current 1 pA -> 2.86 pA, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
           },
           {
             "rank": 4,
@@ -1817,20 +1817,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "ohm",
                 "nominal": 25,
-                "estimate": 24.641765117650387,
-                "standardDeviation": 34.98483391383177,
+                "estimate": 24.64184583781512,
+                "standardDeviation": 34.98494973496235,
                 "priorStandardDeviation": 12.070784343255756,
-                "shift": -0.3582348823496133,
-                "shiftInTolerances": -0.009964444600319379,
-                "posteriorToPriorSd": 2.9406778365095945,
+                "shift": -0.3581541621848814,
+                "shiftInTolerances": -0.009962182938339134,
+                "posteriorToPriorSd": 2.9406778316869016,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread"
               }
             ],
-            "score": 0.022409630196185398,
-            "logEvidence": -11.937838943626893,
-            "residualChiSquare": 5.691241605689419,
+            "score": 0.02240963817806016,
+            "logEvidence": -11.937839118986904,
+            "residualChiSquare": 5.691241662387898,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1838,37 +1838,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.892670491427,
+                "predicted": 10085.892657227052,
                 "uncertainty": 5,
-                "normalized": 155.1785340982853
+                "normalized": 155.1785314454104
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150132254779,
+                "predicted": 0.5002150133515038,
                 "uncertainty": 0.002,
-                "normalized": 0.10750661273895012
+                "normalized": 0.10750667575187833
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.783744030424405,
+                "predicted": 0.7837440257490672,
                 "uncertainty": 0.01,
-                "normalized": -0.6255969575595044
+                "normalized": -0.6255974250932828
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7817566421303432,
+                "predicted": -0.7817566374518264,
                 "uncertainty": 0.01,
-                "normalized": 0.8243357869656798
+                "normalized": 0.8243362548173594
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531572717974554,
+                "predicted": 0.00007531572755855062,
                 "uncertainty": 8e-7,
-                "normalized": -7.480341025318069
+                "normalized": -7.480340551811726
               }
             ],
             "summary": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
@@ -1882,20 +1882,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": 2.48,
-                "estimate": 2.483741275463592,
-                "standardDeviation": 0.01837916535352061,
+                "estimate": 2.4837412873727267,
+                "standardDeviation": 0.018379164490714254,
                 "priorStandardDeviation": 0.011586206896551748,
-                "shift": 0.003741275463592153,
-                "shiftInTolerances": 0.11875624743236385,
-                "posteriorToPriorSd": 1.9383679547388433,
+                "shift": 0.0037412873727267204,
+                "shiftInTolerances": 0.11875666610014085,
+                "posteriorToPriorSd": 1.938369242604192,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output high level 2.48 V -> 2.484 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016360546113965462,
-            "logEvidence": -12.252457017904852,
-            "residualChiSquare": 5.6467922886990465,
+            "score": 0.016360563717040262,
+            "logEvidence": -12.252456473499294,
+            "residualChiSquare": 5.646792189722036,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1903,37 +1903,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.763277903989,
+                "predicted": 10085.76327766934,
                 "uncertainty": 5,
-                "normalized": 155.15265558079773
+                "normalized": 155.15265553386817
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.4999387563113414,
+                "predicted": 0.4999387553964036,
                 "uncertainty": 0.002,
-                "normalized": -0.030621844329309367
+                "normalized": -0.030622301798205465
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7849076898140324,
+                "predicted": 0.7849076935842274,
                 "uncertainty": 0.01,
-                "normalized": -0.5092310185967674
+                "normalized": -0.5092306415772629
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7817358794938263,
+                "predicted": -0.7817358794938266,
                 "uncertainty": 0.01,
-                "normalized": 0.8264120506173755
+                "normalized": 0.8264120506173422
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479334,
+                "predicted": 0.0000753174082748011,
                 "uncertainty": 8e-7,
-                "normalized": -7.4782396565083245
+                "normalized": -7.4782396564986175
               }
             ],
             "summary": "output high level 2.48 V -> 2.484 V, inside its class-typical spread: accounts for the measurements (χ² 5.65 for 5, other parts within their tolerances)"
@@ -1947,20 +1947,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": 0.001,
-                "estimate": 0.0004482825773929862,
-                "standardDeviation": 0.004203783433171822,
+                "estimate": 0.00044827524381300596,
+                "standardDeviation": 0.004203783458930616,
                 "priorStandardDeviation": 0.002057142857142857,
-                "shift": -0.0005517174226070138,
-                "shiftInTolerances": -0.08856989464613667,
-                "posteriorToPriorSd": 2.0100451692963492,
+                "shift": -0.0005517247561869941,
+                "shiftInTolerances": -0.08857106350003964,
+                "posteriorToPriorSd": 2.010044910787927,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "input offset 1 mV -> 448.3 µV, inside its class-typical spread"
               }
             ],
-            "score": 0.016335126672154372,
-            "logEvidence": -12.254011929901854,
-            "residualChiSquare": 5.669932890996316,
+            "score": 0.016335130846851315,
+            "logEvidence": -12.25401220587677,
+            "residualChiSquare": 5.669932687550029,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1968,37 +1968,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.835349018922,
+                "predicted": 10085.835349031628,
                 "uncertainty": 5,
-                "normalized": 155.1670698037844
+                "normalized": 155.16706980632551
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5000963893102637,
+                "predicted": 0.5000963877903973,
                 "uncertainty": 0.002,
-                "normalized": 0.04819465513183907
+                "normalized": 0.048193895198667125
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7831750351457619,
+                "predicted": 0.7831750278583183,
                 "uncertainty": 0.01,
-                "normalized": -0.6824964854238114
+                "normalized": -0.6824972141681762
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7822841249349106,
+                "predicted": -0.7822841322223429,
                 "uncertainty": 0.01,
-                "normalized": 0.7715875065089417
+                "normalized": 0.7715867777657093
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479407,
+                "predicted": 0.0000753174082747947,
                 "uncertainty": 8e-7,
-                "normalized": -7.47823965650741
+                "normalized": -7.478239656506614
               }
             ],
             "summary": "input offset 1 mV -> 448.3 µV, inside its class-typical spread: accounts for the measurements (χ² 5.67 for 5, other parts within their tolerances)"
@@ -2012,20 +2012,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": -2.48,
-                "estimate": -2.4831727679877793,
-                "standardDeviation": 0.01839148346890098,
+                "estimate": -2.483172771132146,
+                "standardDeviation": 0.018391487998375134,
                 "priorStandardDeviation": 0.011586206896551736,
-                "shift": -0.0031727679877793236,
-                "shiftInTolerances": -0.09910189667452916,
-                "posteriorToPriorSd": 1.876027391046514,
+                "shift": -0.0031727711321458685,
+                "shiftInTolerances": -0.09910200358847673,
+                "posteriorToPriorSd": 1.8760281931600686,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output low level -2.48 V -> -2.483 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016332869393035666,
-            "logEvidence": -12.254150125040471,
-            "residualChiSquare": 5.662116744855075,
+            "score": 0.016332883203891233,
+            "logEvidence": -12.254149810994738,
+            "residualChiSquare": 5.662116755243458,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -2033,16 +2033,16 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.765994764113,
+                "predicted": 10085.765994694646,
                 "uncertainty": 5,
-                "normalized": 155.15319895282263
+                "normalized": 155.1531989389292
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5004490489987264,
+                "predicted": 0.5004490494960346,
                 "uncertainty": 0.002,
-                "normalized": 0.22452449936322116
+                "normalized": 0.22452474801731848
               },
               {
                 "measurement": "capacitorMaxV",
@@ -2054,16 +2054,16 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7827403165356033,
+                "predicted": -0.782740317531053,
                 "uncertainty": 0.01,
-                "normalized": 0.725968346439676
+                "normalized": 0.7259682468947037
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479155,
+                "predicted": 0.00007531740827479338,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656510561
+                "normalized": -7.478239656508274
               }
             ],
             "summary": "output low level -2.48 V -> -2.483 V, inside its class-typical spread: accounts for the measurements (χ² 5.66 for 5, other parts within their tolerances)"
@@ -2077,20 +2077,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "s",
                 "nominal": 3e-7,
-                "estimate": 5.022417512411645e-7,
-                "standardDeviation": 2.786420811386112e-7,
+                "estimate": 5.02242128224454e-7,
+                "standardDeviation": 2.7864365421535546e-7,
                 "priorStandardDeviation": 1.44e-7,
-                "shift": 2.0224175124116456e-7,
-                "shiftInTolerances": 0.38881384989643397,
-                "posteriorToPriorSd": 1.3901081009660585,
+                "shift": 2.0224212822445397e-7,
+                "shiftInTolerances": 0.3888144768027322,
+                "posteriorToPriorSd": 1.3901154306414092,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "recovery delay 300 ns -> 502.2 ns, inside its class-typical spread"
               }
             ],
-            "score": 0.01428541146571607,
-            "logEvidence": -12.388090890263317,
-            "residualChiSquare": 5.149647190105936,
+            "score": 0.014285491909886183,
+            "logEvidence": -12.388085790608411,
+            "residualChiSquare": 5.149646712911546,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -2098,37 +2098,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10023.810842348166,
+                "predicted": 10023.810727526534,
                 "uncertainty": 5,
-                "normalized": 142.76216846963325
+                "normalized": 142.76214550530676
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002146270063749,
+                "predicted": 0.5002146271333834,
                 "uncertainty": 0.002,
-                "normalized": 0.10731350318743393
+                "normalized": 0.10731356669169134
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7882604401750531,
+                "predicted": 0.7882604486211028,
                 "uncertainty": 0.01,
-                "normalized": -0.17395598249468902
+                "normalized": -0.17395513788972528
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.786278352311546,
+                "predicted": -0.7862783607674892,
                 "uncertainty": 0.01,
-                "normalized": 0.3721647688454066
+                "normalized": 0.3721639232510787
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479885,
+                "predicted": 0.00007531740827479662,
                 "uncertainty": 8e-7,
-                "normalized": -7.47823965650143
+                "normalized": -7.4782396565042255
               }
             ],
             "summary": "recovery delay 300 ns -> 502.2 ns, inside its class-typical spread: accounts for the measurements (χ² 5.15 for 5, other parts within their tolerances)"
@@ -2611,7 +2611,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
-      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 4.819106\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.156671\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 4.975777\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
+      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 5.548973\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.139457\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 5.68843\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
     }
   },
   "GET /problems/{code}": {
