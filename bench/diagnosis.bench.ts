@@ -3,81 +3,167 @@
  * integrator (test/core/fit/diagnosis-boards.ts): every registered topology,
  * every role off by ±3–20 %, wrong parts (decade slip, neighbouring E24 value,
  * swapped roles), in-tolerance boards for the false-alarm rate; each board
- * captured with noise and 8-bit quantisation as output only, capacitor only
- * and both channels. Prints top-1 / top-3 per topology and channel set (a
- * board counts as found when an explanation in the first k names a role at
- * fault, or the service declares the leading hypotheses indistinguishable
- * and one of them does), the false-alarm rate, and the time per diagnosis
+ * recorded once and captured with noise and 8-bit quantisation as output only,
+ * capacitor only and both channels. Prints top-1 / top-3 per topology and
+ * channel set (a board counts as found when an explanation in the first k
+ * names a role at fault, or the service declares the leading hypotheses
+ * indistinguishable and one of them does), the false-alarm rate, and the time
+ * per record of POST /v1/fit's core (capture analysis + fit + diagnosis)
  * beside the time of the reference integration that made the record.
  * Targets (issue): top-1 ≥ 90 %, top-3 ≥ 98 %, false alarms ≤ 5 %.
+ *
+ * Boards are shared out over worker threads (one per core); each thread
+ * builds the same board list from the seed and takes every W-th board.
+ * TICKWRIGHT_DIAGNOSIS_SCALE (default 1) scales the number of boards.
  */
+import { availableParallelism } from 'node:os';
+import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
 import { fitCircuit } from '../src/core/fit/index.ts';
-import { allBoards, boardCapture, CHANNEL_SETS, score, type ChannelSet } from '../test/core/fit/diagnosis-boards.ts';
+import { allBoards, boardRecord, captureOf, CHANNEL_SETS, score, type Board, type ChannelSet } from '../test/core/fit/diagnosis-boards.ts';
 
-const boards = allBoards(20261202, { deviationsPerRole: 3, wrongParts: true, inTolerance: 4 });
-type Tally = { n: number; top1: number; top3: number };
-const table = new Map<string, Tally>();
-const alarms = { n: 0, false: 0 };
-let diagnoseMs = 0;
-let referenceMs = 0;
-let records = 0;
-let skipped = 0;
-const misses: string[] = [];
-for (const [k, board] of boards.entries()) {
-  if (k % 10 === 0) process.stderr.write(`board ${k} of ${boards.length}\n`);
-  for (const channels of CHANNEL_SETS as readonly ChannelSet[]) {
-    const t0 = performance.now();
-    const capture = boardCapture(board, channels, 7919 * k + channels.length);
+const SEED = 20261202;
+const SCALE = Number(process.env.TICKWRIGHT_DIAGNOSIS_SCALE ?? 1);
+/** 13 deviations per role: ≥ 300 faulty boards over the registered topologies (with the wrong parts and swaps). */
+const OPTIONS = { deviationsPerRole: Math.max(1, Math.round(13 * SCALE)), wrongParts: true, inTolerance: Math.max(1, Math.round(10 * SCALE)) };
+
+interface RecordResult {
+  topology: string;
+  channels: ChannelSet;
+  fault: string;
+  faulty: boolean;
+  top1: boolean;
+  top3: boolean;
+  falseAlarm: boolean;
+  /** Why it is a miss (top three, or the refusal). */
+  miss?: string;
+  fitMs: number;
+}
+
+interface BoardResult {
+  records: RecordResult[];
+  referenceMs: number;
+  oscillates: boolean;
+}
+
+function runBoard(board: Board, k: number): BoardResult {
+  const t0 = performance.now();
+  const record = boardRecord(board);
+  const referenceMs = performance.now() - t0;
+  if (!record) return { records: [], referenceMs, oscillates: false };
+  const records: RecordResult[] = [];
+  for (const channels of CHANNEL_SETS) {
+    const capture = captureOf(board, record, channels, 7919 * k + channels.length);
+    const base = { topology: board.topology, channels, fault: board.fault, faulty: board.faultRoles.length > 0 };
     const t1 = performance.now();
-    referenceMs += t1 - t0;
-    if (!capture) {
-      skipped++;
-      continue;
-    }
-    let report;
     try {
-      report = fitCircuit({ circuit: board.nominal, tolerances: board.tolerances, capture });
+      const report = fitCircuit({ circuit: board.nominal, tolerances: board.tolerances, capture });
+      const fitMs = performance.now() - t1;
+      const s = score(board, report);
+      const top = report.diagnosis.explanations.slice(0, 3).map((e) => e.hypothesis).join(', ');
+      records.push({ ...base, top1: s.top1, top3: s.top3, falseAlarm: s.falseAlarm, fitMs, ...(s.faulty && !s.top1 ? { miss: `${s.top3 ? 'top-3 only' : 'missed'}: ${report.diagnosis.verdict.agreesWithNominal ? 'agrees with nominal; ' : ''}top ${top}` } : {}) });
     } catch (err) {
       // A record the service refuses (e.g. a decade slip that stops the edges inside the record) counts as a miss.
-      misses.push(`${board.topology} ${board.fault} [${channels}]: refused (${(err as Error).message.slice(0, 80)})`);
-      if (board.faultRoles.length > 0) {
-        const key = `${board.topology}|${channels}`;
-        const t = table.get(key) ?? { n: 0, top1: 0, top3: 0 };
-        t.n++;
-        table.set(key, t);
-      }
-      continue;
+      records.push({ ...base, top1: false, top3: false, falseAlarm: !base.faulty, fitMs: performance.now() - t1, miss: `refused (${(err as Error).message.slice(0, 80)})` });
     }
-    diagnoseMs += performance.now() - t1;
-    records++;
-    const s = score(board, report);
-    if (!s.faulty) {
-      alarms.n++;
-      if (s.falseAlarm) alarms.false++;
-      continue;
-    }
-    const key = `${board.topology}|${channels}`;
-    const t = table.get(key) ?? { n: 0, top1: 0, top3: 0 };
-    t.n++;
-    if (s.top1) t.top1++;
-    if (s.top3) t.top3++;
-    else misses.push(`${board.topology} ${board.fault} [${channels}]: top ${report.diagnosis.explanations.slice(0, 3).map((e) => e.hypothesis).join(', ')}`);
-    table.set(key, t);
   }
+  return { records, referenceMs, oscillates: true };
 }
-const pct = (a: number, b: number) => (b === 0 ? '   -  ' : `${((100 * a) / b).toFixed(1).padStart(5)} %`);
-console.log(`${boards.length} boards (${boards.filter((b) => b.faultRoles.length > 0).length} faulty), ${records} records diagnosed, ${skipped} faulty boards that do not oscillate skipped`);
-console.log('topology                  channels    records   top-1     top-3');
-const total: Tally = { n: 0, top1: 0, top3: 0 };
-for (const [key, t] of [...table.entries()].sort()) {
-  const [topology, channels] = key.split('|');
-  console.log(`${topology.padEnd(26)}${channels.padEnd(12)}${String(t.n).padStart(7)}   ${pct(t.top1, t.n)}   ${pct(t.top3, t.n)}`);
-  total.n += t.n;
-  total.top1 += t.top1;
-  total.top3 += t.top3;
+
+if (!isMainThread) {
+  const { index, count } = workerData as { index: number; count: number };
+  const boards = allBoards(SEED, OPTIONS);
+  const results: BoardResult[] = [];
+  for (let k = index; k < boards.length; k += count) results.push(runBoard(boards[k], k));
+  parentPort!.postMessage(results);
+} else {
+  const boards = allBoards(SEED, OPTIONS);
+  const threads = Math.max(1, Math.min(availableParallelism(), 8));
+  const faultyBoards = boards.filter((b) => b.faultRoles.length > 0).length;
+  process.stderr.write(`${boards.length} boards (${faultyBoards} faulty) over ${threads} worker threads\n`);
+  const started = performance.now();
+  // Each thread registers tsx itself (as src/http/workers/source-entry.mjs does), then loads this file.
+  const entry = `import('tsx/esm/api').then((m) => { m.register(); return import(${JSON.stringify(import.meta.url)}); })`;
+  const perThread = await Promise.all(
+    Array.from(
+      { length: threads },
+      (_, index) =>
+        new Promise<BoardResult[]>((resolve, reject) => {
+          const w = new Worker(entry, { eval: true, workerData: { index, count: threads } });
+          w.once('message', resolve);
+          w.once('error', reject);
+        }),
+    ),
+  );
+  const wallS = (performance.now() - started) / 1000;
+  const results = perThread.flat();
+
+  type Tally = { n: number; top1: number; top3: number };
+  const table = new Map<string, Tally>();
+  const byKind = new Map<string, Tally>();
+  const alarms = { n: 0, false: 0 };
+  const misses: string[] = [];
+  let fitMs = 0;
+  let records = 0;
+  let referenceMs = 0;
+  let latched = 0;
+  const kindOf = (fault: string) => (fault.includes('decade') ? 'decade slip' : fault.includes('neighbouring') ? 'neighbouring value' : fault.includes('swapped') ? 'swapped roles' : 'deviation ±3–20 %');
+  for (const b of results) {
+    referenceMs += b.referenceMs;
+    if (!b.oscillates) latched++;
+    for (const r of b.records) {
+      fitMs += r.fitMs;
+      records++;
+      if (!r.faulty) {
+        alarms.n++;
+        if (r.falseAlarm) alarms.false++;
+        continue;
+      }
+      for (const [map, key] of [
+        [table, `${r.topology}|${r.channels}`],
+        [byKind, `${kindOf(r.fault)}|${r.channels}`],
+      ] as const) {
+        const t = map.get(key) ?? { n: 0, top1: 0, top3: 0 };
+        t.n++;
+        if (r.top1) t.top1++;
+        if (r.top3) t.top3++;
+        map.set(key, t);
+      }
+      if (r.miss) misses.push(`${r.topology} ${r.fault} [${r.channels}]: ${r.miss}`);
+    }
+  }
+  const pct = (a: number, b: number) => (b === 0 ? '   -  ' : `${((100 * a) / b).toFixed(1).padStart(5)} %`);
+  const print = (title: string, map: Map<string, Tally>) => {
+    console.log(`${title.padEnd(26)}channels    records   top-1     top-3`);
+    const perChannels = new Map<string, Tally>();
+    for (const [key, t] of [...map.entries()].sort()) {
+      const [group, channels] = key.split('|');
+      console.log(`${group.padEnd(26)}${channels.padEnd(12)}${String(t.n).padStart(7)}   ${pct(t.top1, t.n)}   ${pct(t.top3, t.n)}`);
+      const c = perChannels.get(channels) ?? { n: 0, top1: 0, top3: 0 };
+      c.n += t.n;
+      c.top1 += t.top1;
+      c.top3 += t.top3;
+      perChannels.set(channels, c);
+    }
+    const total: Tally = { n: 0, top1: 0, top3: 0 };
+    for (const [channels, t] of perChannels) {
+      console.log(`${'all'.padEnd(26)}${channels.padEnd(12)}${String(t.n).padStart(7)}   ${pct(t.top1, t.n)}   ${pct(t.top3, t.n)}`);
+      total.n += t.n;
+      total.top1 += t.top1;
+      total.top3 += t.top3;
+    }
+    console.log(`${'all'.padEnd(38)}${String(total.n).padStart(7)}   ${pct(total.top1, total.n)}   ${pct(total.top3, total.n)}   (targets 90 % / 98 %)`);
+  };
+  console.log(`${boards.length} boards (${faultyBoards} faulty, ${latched} of them do not oscillate and are skipped), ${records} records diagnosed`);
+  print('topology', table);
+  console.log('');
+  print('fault kind', byKind);
+  console.log(`false alarms on in-tolerance boards: ${alarms.false} of ${alarms.n} (${pct(alarms.false, alarms.n)}; target <= 5 %)`);
+  const perFit = fitMs / Math.max(1, records);
+  const perReference = referenceMs / Math.max(1, results.length);
+  console.log(
+    `time: ${perFit.toFixed(0)} ms per record for capture analysis + fit + diagnosis, beside ${perReference.toFixed(0)} ms per board for the reference integration ` +
+      `that made it (ratio ${(perFit / perReference).toFixed(2)}); wall ${wallS.toFixed(0)} s on ${threads} threads`,
+  );
+  console.log(`misses and top-3-only finds (first 40 of ${misses.length}):`);
+  for (const m of misses.slice(0, 40)) console.log(`  ${m}`);
 }
-console.log(`${'all'.padEnd(38)}${String(total.n).padStart(7)}   ${pct(total.top1, total.n)}   ${pct(total.top3, total.n)}   (targets 90 % / 98 %)`);
-console.log(`false alarms on in-tolerance boards: ${alarms.false} of ${alarms.n} (${pct(alarms.false, alarms.n)}; target <= 5 %)`);
-console.log(`time: ${(diagnoseMs / Math.max(1, records)).toFixed(0)} ms per capture analysis + fit + diagnosis, beside ${(referenceMs / Math.max(1, records + skipped)).toFixed(0)} ms per reference integration (ratio ${(diagnoseMs / Math.max(1, referenceMs)).toFixed(2)})`);
-console.log(`misses (first 25 of ${misses.length}):`);
-for (const m of misses.slice(0, 25)) console.log(`  ${m}`);

@@ -35,6 +35,8 @@ interface OdexSolver {
 const odex = createRequire(import.meta.url)('odex') as { Solver: new (n: number) => OdexSolver };
 
 const DEFAULT_DIODE: DiodeModel = { forwardDropV: 0.6, resistanceOhm: 10 };
+/** Segments without a comparator decision after which the circuit counts as latched. */
+const LATCH_SEGMENTS = 10;
 /** Must equal the engine's modelling choice for a conducting clamp (a model parameter, not a result). */
 const CLAMP_R = 10;
 
@@ -246,6 +248,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     return slope > 0 ? delay + Math.sqrt((2 * k) / slope) : delay;
   }
   function flip() {
+    lastFlipSegment = segment;
     const thisDelay = delayNow();
     d.logic ^= 1;
     if (d.logic) {
@@ -329,7 +332,13 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   risingTimes = [];
   risingV = [];
   let converged = -1;
+  // A latched circuit never decides again: stop after this many horizon-long segments without a decision
+  // (each segment is at most 50 of the shortest time constants, far beyond any half period).
+  let segment = 0;
+  let lastFlipSegment = 0;
   for (let seg = 0; seg < maxCycles * 40; seg++) {
+    segment = seg;
+    if (seg - lastFlipSegment > LATCH_SEGMENTS) throw new Error(`reference: no decision for ${LATCH_SEGMENTS} segments: the circuit latches`);
     // next time event
     let tEnd = t + 50 * rMin * C;
     let timeEvent: 'horizon' | 'target' | 'slew' = 'horizon';

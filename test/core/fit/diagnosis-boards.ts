@@ -115,16 +115,24 @@ export function allBoards(seed: number, options: { deviationsPerRole: number; wr
 const PERIODS = 8;
 const SAMPLES_PER_PERIOD = 2000;
 
+/** A board's steady-state record from the reference integrator, before noise and quantisation. */
+export interface BoardRecord {
+  intervalS: number;
+  outputV: Float64Array;
+  capacitorV: Float64Array;
+}
+
 /**
- * The board's scope record by the odex reference: noise (0.2 % of the span on
- * the output, 0.1 % on the capacitor, 1σ) and 8-bit quantisation over the
- * rails plus 5 %, then the channels asked for. Returns undefined when the
- * faulty board does not oscillate (nothing to capture).
+ * The board's scope record by the odex reference, made once per board (every
+ * channel set is cut from it): a cheap first run finds the period, the second
+ * samples PERIODS periods from the steady state on. Undefined when the faulty
+ * board does not oscillate (nothing to capture).
  */
-export function boardCapture(board: Board, channels: ChannelSet, seed: number): FitInput['capture'] | undefined {
+export function boardRecord(board: Board): BoardRecord | undefined {
   const probe = (() => {
     try {
-      return referenceOscillation(board.truth, { tolerance: 1e-9 });
+      // Only the sample interval depends on it: a loose tolerance does.
+      return referenceOscillation(board.truth, { tolerance: 1e-7 });
     } catch {
       return undefined;
     }
@@ -132,20 +140,36 @@ export function boardCapture(board: Board, channels: ChannelSet, seed: number): 
   if (!probe || !(probe.periodS > 0)) return undefined;
   const count = PERIODS * SAMPLES_PER_PERIOD;
   const intervalS = probe.periodS / SAMPLES_PER_PERIOD;
-  // Start the grid at a random phase: the reference samples from its steady-state instant on.
-  const run = referenceOscillation(board.truth, { tolerance: 1e-9, maxCycles: 400, sample: { intervalS, count } });
+  // 1e-8 of the span: far below the added noise (1e-3) and the 8-bit step.
+  const run = referenceOscillation(board.truth, { tolerance: 1e-8, maxCycles: 400, sample: { intervalS, count } });
+  return { intervalS, outputV: run.samples!.outputV, capacitorV: run.samples!.capacitorV };
+}
+
+/**
+ * A channel set of a board's record as a bench scope gives it: noise (0.2 % of
+ * the span on the output, 0.1 % on the capacitor, 1σ) and 8-bit quantisation
+ * over the rails plus 5 %, starting at a random phase.
+ */
+export function captureOf(board: Board, record: BoardRecord, channels: ChannelSet, seed: number): NonNullable<FitInput['capture']> {
   const { positiveV, negativeV } = board.truth.supply;
   const span = positiveV - negativeV;
   const lo = negativeV - 0.05 * span;
   const hi = positiveV + 0.05 * span;
+  // Start the grid at a random phase: the reference samples from its steady-state instant on.
   const skip = Math.floor(gaussian(seededRandom(seed))() ** 2 * 100) % SAMPLES_PER_PERIOD;
-  const output = quantise(addNoise(run.samples!.outputV.slice(skip), 2e-3 * span, seed + 1), 8, lo, hi);
-  const capacitor = quantise(addNoise(run.samples!.capacitorV.slice(skip), 1e-3 * span, seed + 2), 8, lo, hi);
+  const output = quantise(addNoise(record.outputV.slice(skip), 2e-3 * span, seed + 1), 8, lo, hi);
+  const capacitor = quantise(addNoise(record.capacitorV.slice(skip), 1e-3 * span, seed + 2), 8, lo, hi);
   return {
-    sampleIntervalS: intervalS,
+    sampleIntervalS: record.intervalS,
     ...(channels !== 'capacitor' ? { output } : {}),
     ...(channels !== 'output' ? { capacitor } : {}),
   };
+}
+
+/** One channel set of a board's record (undefined when the board does not oscillate). */
+export function boardCapture(board: Board, channels: ChannelSet, seed: number): FitInput['capture'] | undefined {
+  const record = boardRecord(board);
+  return record && captureOf(board, record, channels, seed);
 }
 
 /** The roles a report's explanation names (a swap names both). */

@@ -170,6 +170,15 @@ const sumSq = (v: ArrayLike<number>) => {
 };
 
 export function diagnose(setup: FitSetup, options: DiagnoseOptions = {}): Diagnosis {
+  return diagnoseWithLeader(setup, options).diagnosis;
+}
+
+/**
+ * The diagnosis and the leading hypothesis' parameter vector (fitted space;
+ * a wrong part enters as its log ratio to the nominal): the full estimate
+ * starts there, next to its optimum, instead of at the nominal.
+ */
+export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {}): { diagnosis: Diagnosis; leaderX: Float64Array } {
   const params = setup.parameters;
   const m = setup.measurements.length;
   const maxCauses = options.maxCauses ?? 2;
@@ -319,7 +328,12 @@ export function diagnose(setup: FitSetup, options: DiagnoseOptions = {}): Diagno
       `Most plausible: ${best.causes.map((c) => c.text).join('; and ')} (probability ${best.score.toPrecision(2)}).${tail}` +
       (ambiguities.length > 0 ? ` ${ambiguities[0].statement}` : '');
   }
-  return {
+  const leaderX = Float64Array.from(leader.x);
+  for (const [role, value] of Object.entries(leader.h.parts ?? {})) {
+    const j = params.findIndex((p) => p.name === role);
+    if (j >= 0) leaderX[j] = Math.log(value / params[j].nominal);
+  }
+  const diagnosis: Diagnosis = {
     verdict: {
       agreesWithNominal: agrees,
       nominalChiSquare: chiRaw,
@@ -333,6 +347,7 @@ export function diagnose(setup: FitSetup, options: DiagnoseOptions = {}): Diagno
     ambiguities,
     candidateCount: scored.length,
   };
+  return { diagnosis, leaderX };
 }
 
 function causesOf(setup: FitSetup, s: Scored): Cause[] {

@@ -19,7 +19,7 @@ import {
   type ScalarMeasurements,
 } from '../estimate/measurements.ts';
 import { createFitSetup, requireMeasurements } from '../estimate/setup.ts';
-import { diagnose, type Diagnosis, type DiagnoseOptions } from './explain.ts';
+import { diagnoseWithLeader, type Diagnosis, type DiagnoseOptions } from './explain.ts';
 
 export interface CaptureSpec extends CaptureInput, CaptureUncertaintyOptions {
   /** Scope CSV export instead of arrays. */
@@ -159,11 +159,12 @@ export function fitCircuit(input: FitInput): FitReport {
   if (dropped.length > 0) warnings.push(`the model cannot form ${dropped.join(', ')} for this circuit (the edges take up the states): left out of the fit`);
   const setup = createFitSetup(input.circuit, measurements, input.tolerances);
   requireMeasurements(setup);
-  const { x: _x, covariance: _cov, ...estimation } = estimateParameters(setup);
+  // The diagnosis first: its leading explanation already fits the measurements, so the full estimate starts next to its optimum.
+  const { diagnosis, leaderX } = diagnoseWithLeader(setup, input.diagnosis);
+  const { x: _x, covariance: _cov, ...estimation } = estimateParameters(setup, leaderX);
   void _x;
   void _cov;
   if (!estimation.converged) warnings.push(`the full fit stopped after ${estimation.iterations} iterations without meeting its convergence test`);
-  const diagnosis = diagnose(setup, input.diagnosis);
   const fitted = estimation.fitted;
   const report: FitReport = {
     forwardModel: FORWARD_MODEL_DESCRIPTION,

@@ -88,11 +88,12 @@ export function describeEstimate(p: FitParameter, x: number, sdX: number): Param
   return out;
 }
 
-export function estimateParameters(setup: FitSetup): EstimationResult {
+/** `start`: where the search begins (fitted space; default the nominal), e.g. the diagnosis' leading explanation. */
+export function estimateParameters(setup: FitSetup, start?: ArrayLike<number>): EstimationResult {
   const n = setup.parameters.length;
   const all = Array.from({ length: n }, (_, j) => j);
   // Parts keep their tolerance priors; amplifier effects and the supply may sit anywhere in their physical range.
-  const fit = fitSubset(setup, all, { priorSd: setup.parameters.map((p) => (p.kind === 'part' ? p.priorSd : p.offSd)) });
+  const fit = fitSubset(setup, all, { priorSd: setup.parameters.map((p) => (p.kind === 'part' ? p.priorSd : p.offSd)), ...(start ? { start } : {}) });
   const cov = fit.solution.covariance;
   const sd = Array.from({ length: n }, (_, j) => Math.sqrt(Math.max(0, cov[j * n + j])));
   const correlation = Array.from({ length: n }, (_, p) => Array.from({ length: n }, (_, q) => (sd[p] > 0 && sd[q] > 0 ? cov[p * n + q] / (sd[p] * sd[q]) : 0)));

@@ -7,11 +7,12 @@
  * ../definitions/scope-definitions.ts; the capture analysis applies both to samples. There is no second
  * copy of the physics here: only the reading of a solved cycle.
  */
-import { prepareCircuit, type PreparedCircuit } from '../../circuit/analyze.ts';
-import { requireHysteresis } from '../../circuit/closed-form.ts';
+import { getTopology } from '../../circuit/analyze.ts';
+import { shapeFor, type CompiledShape } from '../../circuit/engine/compiled-network.ts';
 import { OUTPUT_LENGTH, OUTPUT_SLOT, readTiming, walkToCycle } from '../../circuit/engine/prepared.ts';
-import { OscillatorWalk, type SteadyCycle } from '../../circuit/engine/walker.ts';
+import { OscillatorWalk, SteadyStart, type SteadyCycle } from '../../circuit/engine/walker.ts';
 import type { Circuit } from '../../circuit/types.ts';
+import { validateCircuit } from '../../circuit/validate.ts';
 import { CoreError } from '../../errors.ts';
 import {
   TAU_WINDOW_HIGH,
@@ -204,9 +205,11 @@ const timing = new Float64Array(OUTPUT_LENGTH);
 const from = new Float64Array(6);
 const to = new Float64Array(6);
 
-export function figuresOfPrepared(prepared: PreparedCircuit): PredictedFigures {
-  requireHysteresis(prepared.high.switchingV, prepared.low.switchingV);
-  const cycle = walkToCycle(walk, prepared.shape, prepared.values, prepared.dynamics);
+/**
+ * Figures of a walked steady cycle. The walk must be the module's own (`walk`)
+ * and the cycle the one it just found.
+ */
+function figuresOfCycle(cycle: SteadyCycle): PredictedFigures {
   const r = reader;
   r.bind(walk, cycle);
   const periodS = cycle.periodS;
@@ -260,6 +263,39 @@ export function figuresOfPrepared(prepared: PreparedCircuit): PredictedFigures {
   };
 }
 
+/** The circuit's parameter vector in its compiled shape (validated like any analysis). */
+function compiled(circuit: Circuit): { shape: CompiledShape; values: Float64Array } {
+  const topology = getTopology(circuit.topology);
+  validateCircuit(circuit, topology);
+  const shape = shapeFor(circuit, topology);
+  return { shape, values: shape.layout.valuesOf(circuit) };
+}
+
+/** Figures of one circuit, walked from power-up like /v1/analyze. */
 export function predictFigures(circuit: Circuit): PredictedFigures {
-  return figuresOfPrepared(prepareCircuit(circuit));
+  const { shape, values } = compiled(circuit);
+  return figuresOfCycle(walkToCycle(walk, shape, values, true, undefined, false));
+}
+
+/**
+ * The forward model of one fit: the same walk and reading as predictFigures,
+ * but every circuit is walked from the steady switching state of the first
+ * circuit of its shape (the nominal, normally) instead of from power-up — the
+ * prepared model's start (docs/model.md §4). The fit evaluates hundreds of
+ * vectors near the nominal, and a walk from power-up spends most of its pieces
+ * on the transient; from the steady state the cycle repeats after one or two.
+ * The answer is the same steady cycle (the walk's convergence test decides, and
+ * falls back to power-up when the start does not carry over).
+ */
+export class ForwardModel {
+  /** One start per compiled shape (a capacitor of another dielectric walks another shape). */
+  private readonly starts = new Map<CompiledShape, SteadyStart>();
+
+  figures(circuit: Circuit): PredictedFigures {
+    const { shape, values } = compiled(circuit);
+    const start = this.starts.get(shape);
+    const cycle = walkToCycle(walk, shape, values, true, start, false);
+    if (start === undefined) this.starts.set(shape, walk.snapshot());
+    return figuresOfCycle(cycle);
+  }
 }

@@ -34,8 +34,15 @@ export interface MapOptions {
   maxIterations?: number;
   /** Convergence: a step below this many posterior widths ends the search. */
   stepTolerance?: number;
-  /** Forward-difference step in z. */
+  /** Forward-difference step, in posterior widths (the first pass: prior widths). */
   differenceStep?: number;
+  /**
+   * Convergence: two accepted steps in a row that each lower the cost by less
+   * than this (absolute, in the cost's units) end the search. Default 0: only
+   * the relative test applies. With residuals in standard uncertainties the
+   * cost is a χ², and a gain far below 1 changes nothing a caller reads off it.
+   */
+  costTolerance?: number;
 }
 
 export interface MapSolution {
@@ -56,7 +63,7 @@ export interface MapSolution {
   converged: boolean;
 }
 
-const DEFAULTS = { maxIterations: 200, stepTolerance: 1e-10, differenceStep: 1e-6 } as const;
+const DEFAULTS = { maxIterations: 200, stepTolerance: 1e-10, differenceStep: 1e-6, costTolerance: 0 } as const;
 /** An accepted step that lowers the cost by less than this share ends the search. */
 const RELATIVE_GAIN_TOLERANCE = 1e-14;
 
@@ -71,6 +78,7 @@ export function solveMap(problem: MapProblem, options: MapOptions = {}): MapSolu
   const maxIterations = options.maxIterations ?? DEFAULTS.maxIterations;
   const stepTolerance = options.stepTolerance ?? DEFAULTS.stepTolerance;
   const h = options.differenceStep ?? DEFAULTS.differenceStep;
+  const costTolerance = options.costTolerance ?? DEFAULTS.costTolerance;
   const mean = Float64Array.from(problem.priorMean);
   const sd = Float64Array.from(problem.priorSd);
   for (let j = 0; j < n; j++) {
@@ -154,6 +162,7 @@ export function solveMap(problem: MapProblem, options: MapOptions = {}): MapSolu
 
   let lambda = 1e-3;
   let iterations = 0;
+  let smallGains = 0;
   let converged = n === 0;
   let jac = jacobianZ(z, r);
   while (!converged && iterations < maxIterations) {
@@ -183,13 +192,14 @@ export function solveMap(problem: MapProblem, options: MapOptions = {}): MapSolu
       const trialCost = rt === undefined ? Infinity : sumSquares(rt) + sumSquares(trial);
       if (rt !== undefined && trialCost <= cost) {
         const relativeGain = (cost - trialCost) / Math.max(cost, 1e-300);
+        smallGains = cost - trialCost < costTolerance ? smallGains + 1 : 0;
         z = trial;
         r = rt!;
         cost = trialCost;
         lambda = Math.max(lambda / 3, 1e-12);
         accepted = true;
         // Judged on the cost, not on the step: a step small in prior units can still be large in the data's.
-        if (relativeGain < RELATIVE_GAIN_TOLERANCE || largest < stepTolerance) converged = true;
+        if (relativeGain < RELATIVE_GAIN_TOLERANCE || largest < stepTolerance || smallGains >= 2) converged = true;
         else jac = jacobianZ(z, r);
       } else {
         lambda *= 4;
