@@ -20,7 +20,7 @@
 import { describe, expect, it } from 'vitest';
 import { findBuiltInAmplifier, IDEAL_FIGURES, prepareCircuit, waveformOfPrepared, type AmplifierModel, type Circuit } from '../../../src/core/index.ts';
 import { analyzeCapture } from '../../../src/core/fit/capture/analyze-capture.ts';
-import { figuresOfPrepared } from '../../../src/core/fit/estimate/forward.ts';
+import { predictFigures } from '../../../src/core/fit/estimate/forward.ts';
 
 const ideal = findBuiltInAmplifier('ideal')!;
 const amp = (overrides: Partial<AmplifierModel>): AmplifierModel => ({ ...ideal, ...IDEAL_FIGURES, ...overrides, id: 'scope-test', figuresBasis: 'caller-supplied' }) as AmplifierModel;
@@ -139,7 +139,7 @@ describe('output levels, duty and transitions as IEEE Std 181-2011 reads them of
       expect(Math.abs(capture.riseTimeS! - scope.riseTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.riseTimeS);
       expect(Math.abs(capture.fallTimeS! - scope.fallTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.fallTimeS);
       // ... and the fit's forward model reads the engine's own figures (one definition: equal to rounding).
-      const predicted = figuresOfPrepared(prepareCircuit(circuit));
+      const predicted = predictFigures(circuit);
       expect(predicted.outputHighV).toBeCloseTo(figures.output.highV, 12);
       expect(predicted.outputLowV).toBeCloseTo(figures.output.lowV, 12);
       expect(predicted.dutyCycle).toBeCloseTo(figures.dutyCycle, 12);
