@@ -1,6 +1,6 @@
 /**
  * POST /v1/fit's core on a 1,000,000-sample two-channel capture: capture
- * analysis (settled levels, reference-level instants, capacitor turning points
+ * analysis (histogram-mode state levels, reference-level instants, capacitor turning points
  * and windowed time constants) + MAP fit + diagnosis, each timed, beside a
  * baseline measured in the same run: one plain pass over both typed arrays
  * (the least any analysis must do). Target (issue): the whole path ≤ 0.4 s.

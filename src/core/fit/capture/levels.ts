@@ -103,16 +103,11 @@ export function stateLevelsInRange(values: Float64Array, minV: number, maxV: num
   const sums = new Float64Array(binCount);
   const binScale = binCount / rangeV;
   const lastBin = binCount - 1;
-  let pinnedAtMin = 0;
-  let pinnedAtMax = 0;
   for (let i = 0; i < n; i++) {
     const v = values[i];
-    let b = Math.floor((v - minV) * binScale);
-    if (b > lastBin) b = lastBin;
+    const b = Math.min(lastBin, Math.floor((v - minV) * binScale));
     counts[b]++;
     sums[b] += v;
-    if (v === minV) pinnedAtMin++;
-    else if (v === maxV) pinnedAtMax++;
   }
   const modes = histogramModeLevels(counts, sums, minV, rangeV / binCount);
   const lowTotal = modes.lowCount;
@@ -145,7 +140,17 @@ export function stateLevelsInRange(values: Float64Array, minV: number, maxV: num
   // state's samples share the exact extreme while the other state is spread,
   // that state was cut off by the scope's range. (A noiseless record has both
   // states pinned and is not flagged: we cannot tell it from an ideal signal.)
-  if (options.checkClipping !== false) {
+  // Samples exactly at an extreme lie in the end bins: only when an end bin holds half its state's samples
+  // can the state be pinned, and only then are they counted (one more pass, rare).
+  const mayBePinned = counts[0] >= CLIPPED_PINNED_FRACTION * lowTotal || counts[lastBin] >= CLIPPED_PINNED_FRACTION * highTotal;
+  if (options.checkClipping !== false && mayBePinned) {
+    let pinnedAtMin = 0;
+    let pinnedAtMax = 0;
+    for (let i = 0; i < n; i++) {
+      const v = values[i];
+      pinnedAtMin += v === minV ? 1 : 0;
+      pinnedAtMax += v === maxV ? 1 : 0;
+    }
     const highPinned = pinnedAtMax / highTotal;
     const lowPinned = pinnedAtMin / lowTotal;
     const top = highPinned >= CLIPPED_PINNED_FRACTION && lowPinned < CLIPPED_PINNED_FRACTION;

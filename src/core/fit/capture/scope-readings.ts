@@ -159,6 +159,14 @@ function sampleIntegral(values: Float64Array, clock: SampleClock, a: number, b: 
   return total;
 }
 
+/** First index in [from, to] whose sample is at or past levelV in the direction of travel (to + 1: none). */
+function firstPast(values: Float64Array, from: number, to: number, levelV: number, rising: boolean): number {
+  let i = from;
+  if (rising) while (i <= to && values[i] < levelV) i++;
+  else while (i <= to && values[i] > levelV) i++;
+  return i;
+}
+
 /**
  * Instant the samples cross levelV between indices [from, to] in the given
  * direction: the first sample past the level, then a local quadratic fit over
@@ -167,8 +175,7 @@ function sampleIntegral(values: Float64Array, clock: SampleClock, a: number, b: 
  */
 function levelCrossing(values: Float64Array, clock: SampleClock, from: number, to: number, levelV: number, rising: boolean, halfWidth: number): number {
   const n = Math.min(values.length, clockLength(clock));
-  let i = from;
-  while (i <= to && (rising ? values[i] < levelV : values[i] > levelV)) i++;
+  const i = firstPast(values, from, to, levelV, rising);
   if (i > to || i - halfWidth < 0 || i + halfWidth > n - 1) return Number.NaN;
   const t0 = timeAt(clock, i);
   const q = quadraticFit(values, clock, i - halfWidth, i + halfWidth, t0);
@@ -232,9 +239,13 @@ export function readCapacitor(values: Float64Array, clock: SampleClock, turningP
     if (a.kind === b.kind) continue;
     const up = a.kind === 'min';
     const [first, last] = up ? [low, high] : [high, low];
-    const t1 = levelCrossing(values, clock, a.index, b.index, first, up, crossWidth);
-    const tm = levelCrossing(values, clock, a.index, b.index, mid, up, crossWidth);
-    const t2 = levelCrossing(values, clock, a.index, b.index, last, up, crossWidth);
+    // The levels lie in order along the stretch: each search starts where the one before found its level
+    // (the first sample past a further level cannot come earlier), so the stretch is read once.
+    const i1 = firstPast(values, a.index, b.index, first, up);
+    const im = firstPast(values, i1, b.index, mid, up);
+    const t1 = levelCrossing(values, clock, i1, b.index, first, up, crossWidth);
+    const tm = levelCrossing(values, clock, im, b.index, mid, up, crossWidth);
+    const t2 = levelCrossing(values, clock, firstPast(values, im, b.index, last, up), b.index, last, up, crossWidth);
     if (Number.isFinite(tm)) (up ? ups : downs).push(tm);
     if (Number.isFinite(t1) && Number.isFinite(t2)) (up ? rising : falling).push(tauOver(t1, t2));
   }
