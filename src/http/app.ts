@@ -14,7 +14,7 @@ import { AmplifierDirectory } from './amplifier-directory.ts';
 import { parseApiKeyConfig } from './auth/api-keys.ts';
 import { registerAuth } from './auth/plugin.ts';
 import { DOCS_PREFIX, installRouteAccess } from './auth/route-access.ts';
-import { installJsonDepthGuard, installLargeUploadGate } from './body-guards.ts';
+import { installJsonParser, installLargeUploadGate } from './body-guards.ts';
 import { clientErrorHandler } from './client-errors.ts';
 import { installLifecycle } from './lifecycle.ts';
 import { installLoadShedding } from './load-shedding.ts';
@@ -104,7 +104,7 @@ export async function buildApp(options: BuildOptions = {}): Promise<FastifyInsta
   // Shutdown first (a draining replica answers 503 before anything else), then load shedding.
   installLifecycle(app, () => services.workers.cancelAll());
   installLoadShedding(app, { maxEventLoopDelayMs: config.maxEventLoopDelayMs, sampleIntervalMs: 250, retryAfterS: 5 });
-  installJsonDepthGuard(app, config.maxJsonDepth);
+  installJsonParser(app, { maxDepth: config.maxJsonDepth, largeBodyBytes: config.largeBodyBytes });
 
   await app.register(swagger, {
     openapi: {

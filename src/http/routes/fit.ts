@@ -18,6 +18,7 @@ import type { Static } from 'typebox';
 import type { CaptureSpec, FitInput, FitReport } from '../../core/fit/index.ts';
 import { circuitFromBody, withPointerPrefix } from '../convert.ts';
 import { HttpProblem, validationToPointer } from '../problem.ts';
+import { sampleArraysOf } from '../streaming-json.ts';
 import { runForRequest } from '../workers/run-for-request.ts';
 import { FitCsvQuery, FitRequest, FitResult, type FitCsvQueryString, type FitRequestBody } from '../schemas/fit.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
@@ -33,11 +34,14 @@ function toSamples(xs: readonly (number | null)[] | undefined): Float64Array | u
   return out;
 }
 
-function captureSpec(c: NonNullable<FitRequestBody['capture']>): CaptureSpec {
+/** Sample arrays of the JSON body; a large body's were read straight into Float64Arrays (streaming-json.ts). */
+const SAMPLE_ARRAYS = ['/capture/output', '/capture/capacitor', '/capture/timeS'];
+
+function captureSpec(c: NonNullable<FitRequestBody['capture']>, streamed: ReadonlyMap<string, Float64Array> | undefined): CaptureSpec {
   const spec: CaptureSpec = {};
-  const output = toSamples(c.output);
-  const capacitor = toSamples(c.capacitor);
-  const timeS = toSamples(c.timeS);
+  const output = streamed?.get('/capture/output') ?? toSamples(c.output);
+  const capacitor = streamed?.get('/capture/capacitor') ?? toSamples(c.capacitor);
+  const timeS = streamed?.get('/capture/timeS') ?? toSamples(c.timeS);
   if (output) spec.output = output;
   if (capacitor) spec.capacitor = capacitor;
   if (timeS) spec.timeS = timeS;
@@ -135,6 +139,7 @@ export const fitRoutes: FastifyPluginAsyncTypebox = async (app) => {
   app.post(
     '/v1/fit',
     {
+      config: { sampleArrays: SAMPLE_ARRAYS },
       schema: {
         tags: ['fit'],
         summary: 'Fit measurements to the circuit and diagnose the difference',
@@ -168,10 +173,12 @@ export const fitRoutes: FastifyPluginAsyncTypebox = async (app) => {
       const input: FitInput = { circuit };
       if (body.tolerances) input.tolerances = body.tolerances;
       if (body.measurements) input.measurements = body.measurements as FitInput['measurements'];
-      if (body.capture) input.capture = captureSpec(body.capture);
+      if (body.capture) input.capture = captureSpec(body.capture, sampleArraysOf(raw));
       if (body.diagnosis) input.diagnosis = body.diagnosis;
-      // Off the event loop: a capture of millions of samples takes a good part of a second.
-      const report: FitReport = await runForRequest(app.services.workers, reply, 'fit', input, 'fit');
+      // Off the event loop: a capture of millions of samples takes a good part of a second. The samples
+      // move to the thread rather than being copied (the largest part of a large request's memory).
+      const samples = [input.capture?.output, input.capture?.capacitor, input.capture?.timeS].filter((a): a is Float64Array => a instanceof Float64Array);
+      const report: FitReport = await runForRequest(app.services.workers, reply, 'fit', input, 'fit', samples);
       return shapeFitReport(report);
     },
   );

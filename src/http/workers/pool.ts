@@ -16,7 +16,7 @@ import { Piscina } from 'piscina';
 import { CoreError } from '../../core/errors.ts';
 import { HttpProblem } from '../problem.ts';
 import type { TaskName, TaskInput, TaskOutput } from './tasks.ts';
-import runTaskInline, { type TaskReply } from './worker.ts';
+import runTaskInline, { type TaskMessage, type TaskReply } from './worker.ts';
 
 export interface WorkerPoolOptions {
   /** Worker threads; 0 runs tasks inline on the calling thread (debugging only: it blocks the event loop). */
@@ -42,7 +42,16 @@ export type TaskObserver = <R>(task: TaskName, signal: AbortSignal | undefined, 
 export interface RunOptions {
   /** Aborting cancels a queued task and terminates a running one. */
   signal?: AbortSignal;
+  /**
+   * Typed arrays of the input to move to the thread instead of copying (they are unusable here
+   * afterwards). When they add up to RELEASE_AFTER_BYTES or more, the thread collects its garbage
+   * once the task is done, so a large capture's memory goes back to the system at once rather than
+   * whenever an idle thread next collects.
+   */
+  move?: readonly Float64Array[];
 }
+
+export const RELEASE_AFTER_BYTES = 8 * 1024 * 1024;
 
 export interface WorkerPoolStats {
   threads: number;
@@ -113,7 +122,11 @@ export class WorkerPool {
       const signals = [deadline, cancelled, ...(options.signal ? [options.signal] : [])];
       this.pending++;
       try {
-        reply = (await this.piscina.run({ task, input }, { signal: AbortSignal.any(signals) })) as TaskReply;
+        const moved = options.move ?? [];
+        const movedBytes = moved.reduce((n, a) => n + a.byteLength, 0);
+        const message: TaskMessage = { task, input, releaseMemory: movedBytes >= RELEASE_AFTER_BYTES };
+        const transferList = moved.map((a) => a.buffer as ArrayBuffer);
+        reply = (await this.piscina.run(message, { signal: AbortSignal.any(signals), transferList })) as TaskReply;
       } catch (err) {
         if (err instanceof Error && /queue is at limit/i.test(err.message)) {
           throw new HttpProblem(503, 'overloaded', 'All worker threads are busy and the queue is full; retry later', undefined, { 'retry-after': '2' });

@@ -14,13 +14,14 @@ export async function runForRequest<N extends TaskName>(
   task: N,
   input: TaskInput<N>,
   what: string,
+  move?: readonly Float64Array[],
 ): Promise<TaskOutput<N>> {
   const abort = new AbortController();
   reply.raw.once('close', () => {
     if (!reply.raw.writableFinished) abort.abort();
   });
   try {
-    return await workers.run(task, input, { signal: abort.signal });
+    return await workers.run(task, input, { signal: abort.signal, move });
   } catch (err) {
     if (abort.signal.aborted) throw new HttpProblem(400, 'client-closed', `The client closed the connection; the ${what} was cancelled`);
     throw err;

@@ -6,11 +6,14 @@
  */
 import '../../core/index.ts'; // the core's public surface: registers whatever models it plugs in (e.g. an engine)
 import { CoreError } from '../../core/errors.ts';
+import { releaseMemorySoon } from '../release-memory.ts';
 import { TASKS, type TaskName } from './tasks.ts';
 
 export interface TaskMessage {
   task: TaskName;
   input: unknown;
+  /** The input was large (moved typed arrays): collect garbage once the answer is out (release-memory.ts). */
+  releaseMemory?: boolean;
 }
 
 export type TaskReply =
@@ -20,6 +23,7 @@ export type TaskReply =
 export default function runTask(message: TaskMessage): TaskReply {
   const fn = TASKS[message.task] as ((input: unknown) => unknown) | undefined;
   if (typeof fn !== 'function') throw new Error(`unknown worker task '${String(message.task)}'`);
+  if (message.releaseMemory) releaseMemorySoon();
   try {
     return { ok: true, value: fn(message.input) };
   } catch (err) {
