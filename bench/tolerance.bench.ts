@@ -92,7 +92,7 @@ try {
     if (res.status !== 200) throw new Error(`HTTP ${res.status}: ${JSON.stringify(json)}`);
     return { s: (performance.now() - started) / 1000, json };
   };
-  // Until its first event-loop sample the load shedder (@fastify/under-pressure) answers 503: wait for it.
+  // Until its first event-loop sample the load shedder answers 503: wait for it.
   const health = url.replace('/v1/tolerance', '/healthz');
   for (let i = 0; i < 100 && (await fetch(health)).status !== 200; i++) await new Promise((r) => setTimeout(r, 50));
   await post(100_000); // warm-up: starts the worker thread and its JIT

@@ -12,7 +12,7 @@ import { testApp } from '../helpers/app.ts';
 const Ajv2020 = (Ajv2020Module as unknown as { default: typeof Ajv2020Module.default }).default ?? Ajv2020Module;
 
 let app: FastifyInstance;
-// Other suites share this machine: keep load shedding (under-pressure) out of the way of these heavy batches.
+// Other suites share this machine: keep load shedding out of the way of these heavy batches.
 const CONFIG = { config: { maxEventLoopDelayMs: 0 } };
 beforeAll(async () => {
   app = await testApp(CONFIG);

@@ -122,7 +122,7 @@ describe('event loop stays free during a heavy run', () => {
     const { port } = server.server.address() as AddressInfo;
     const base = `http://127.0.0.1:${port}`;
     try {
-      // Until its first event-loop sample the load shedder (@fastify/under-pressure) answers 503: wait for it.
+      // Until its first event-loop sample the load shedder answers 503: wait for it.
       for (let i = 0; i < 100 && (await fetch(`${base}/healthz`)).status !== 200; i++) await new Promise((r) => setTimeout(r, 50));
       // Warm the worker thread first so the timed window covers the run, not the thread's start-up.
       await fetch(`${base}/v1/tolerance`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ circuit: clock, tolerances: {}, monteCarlo: { samples: 10 } }) });

@@ -7,7 +7,7 @@ import { expectContract } from '../helpers/contract.ts';
 
 let app: FastifyInstance;
 beforeAll(async () => {
-  // 0 disables load shedding: a long first contract compile leaves under-pressure with no
+  // 0 disables load shedding: a long first contract compile leaves the load shedder with no
   // event-loop sample for an interval, which it reads as infinite delay (and answers 503).
   app = await testApp({ config: { maxEventLoopDelayMs: 0 } });
 });

@@ -23,7 +23,7 @@ async function send(server: ServerProcess, method: string, url: string, body?: u
 }
 
 /**
- * A 503 from load shedding (under-pressure answers before any handler runs, so
+ * A 503 from load shedding (the shedder answers before any handler runs, so
  * nothing was written) is retried the way a client honouring Retry-After would;
  * on a loaded 2-core test machine a burst of 30 requests can trip it.
  */
