@@ -1730,7 +1730,7 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description Default Response */
+                /** @description Snapped values and jointly snapped circuits */
                 200: {
                     headers: {
                         [name: string]: unknown;
@@ -1845,7 +1845,7 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description Default Response */
+                /** @description Ranked designs for the target */
                 200: {
                     headers: {
                         [name: string]: unknown;
@@ -3277,7 +3277,9 @@ export interface components {
         };
         /** @description Value source per kind of part, with per-role overrides */
         ValueSources: {
+            /** @description Source for every resistor role without its own entry in `roles`; a resistor role left with no source is refused (400 at /values/resistor) */
             resistor?: components["schemas"]["ValueSource"];
+            /** @description Source for every capacitor role without its own entry in `roles`; a capacitor role left with no source is refused (400 at /values/capacitor) */
             capacitor?: components["schemas"]["ValueSource"];
             /** @description Per-role sources, overriding the per-kind ones (e.g. rTiming from a catalogue) */
             roles?: {
@@ -3296,13 +3298,16 @@ export interface components {
             partNumber?: string;
             /** @description Catalogue id */
             catalogue?: string;
+            /** @description Capacitors: the dielectric the part has (catalogue) or was assumed to have (series), e.g. C0G */
             dielectric?: string;
         };
         /** @description A role filled by one part (its reference inline) or by two parts in series or parallel (listed in `parts`) */
         FittedPart: {
+            /** @description The role this part fills, a key of the circuit's `parts` */
             role: string;
             /** @description Effective value of the role, ohm or farad */
             value: number;
+            /** @description single: one part fills the role; series or parallel: two parts (listed in `parts`) combine to `value` */
             arrangement: "single" | "series" | "parallel";
             /** @description Part tolerance, fraction */
             tolerance?: number;
@@ -3312,13 +3317,16 @@ export interface components {
             partNumber?: string;
             /** @description Catalogue id */
             catalogue?: string;
+            /** @description Capacitors: the dielectric the part has (catalogue) or was assumed to have (series), e.g. C0G */
             dielectric?: string;
             /** @description The two parts of a series or parallel combination */
             parts?: components["schemas"]["PartReference"][];
         };
+        /** @description A value available from the source, and how far it is from the ideal */
         SnapChoice: {
             /** @description Effective value of the role, ohm or farad */
             value: number;
+            /** @description single: one part fills the role; series or parallel: two parts (listed in `parts`) combine to `value` */
             arrangement: "single" | "series" | "parallel";
             /** @description Part tolerance, fraction */
             tolerance?: number;
@@ -3328,6 +3336,7 @@ export interface components {
             partNumber?: string;
             /** @description Catalogue id */
             catalogue?: string;
+            /** @description Capacitors: the dielectric the part has (catalogue) or was assumed to have (series), e.g. C0G */
             dielectric?: string;
             /** @description The two parts of a series or parallel combination */
             parts?: components["schemas"]["PartReference"][];
@@ -3336,11 +3345,17 @@ export interface components {
         };
         /** @description Figures from the full analysis of the fitted circuit (as POST /v1/analyze reports them) */
         Prediction: {
+            /** @description Predicted steady-state frequency, Hz */
             frequencyHz: number;
+            /** @description Predicted fraction of the period the output is high */
             dutyCycle: number;
+            /** @description Which model predicted it: time-domain when slew, delay, limits or clamps of the amplifier matter, else its closed-form special case */
             model: "closed-form" | "time-domain";
+            /** @description Predicted switching thresholds */
             thresholds: {
+                /** @description Capacitor voltage at which a high output switches low, V */
                 upperV: number;
+                /** @description Capacitor voltage at which a low output switches high, V */
                 lowerV: number;
             };
             /** @description Mean supply current including the amplifier, A */
@@ -3350,8 +3365,11 @@ export interface components {
         SnapRequest: {
             /** @description Ideal values to snap one by one */
             values?: {
+                /** @description The value wanted: ohms or farads as a number, or a value string ("15k8") */
                 ideal: components["schemas"]["ComponentValue"];
+                /** @description What the value is for: picks the unit and, in a catalogue, the parts of that kind */
                 kind: "resistor" | "capacitor";
+                /** @description Where the snapped value may come from */
                 source: components["schemas"]["ValueSource"];
                 /**
                  * @description Also look for the best two-part series or parallel combination
@@ -3361,16 +3379,21 @@ export interface components {
                 /** @description Echoed back (e.g. a reference designator) */
                 label?: string;
             }[];
+            /** @description Size a whole circuit jointly: timing parts and threshold network from the value sources, for a target frequency */
             circuit?: {
                 /** @description Deprecated aliases, accepted for one release (answers use the current id): single-supply-divider → three-resistor-divider, split-supply → two-resistor-feedback. */
                 topology: "three-resistor-divider" | "two-resistor-feedback" | "single-supply-divider" | "split-supply";
+                /** @description The rails the circuit runs from */
                 supply: components["schemas"]["Supply"];
+                /** @description The amplifier the candidates are analysed with (default: ideal) */
                 amplifier?: components["schemas"]["AmplifierSpec"];
                 /** @description Target oscillation frequency, Hz (0.001 to 100000000 Hz) */
                 targetFrequencyHz: number;
+                /** @description Wanted fraction of the period high, strictly between 0 and 1; absent: networks are placed for 0.5 and the duty cycle is not screened (dutyCycleError null) */
                 targetDutyCycle?: number;
                 /** @description Absolute duty-cycle tolerance when targetDutyCycle is given (default 0.02) */
                 dutyTolerance?: number;
+                /** @description Where each role takes its values from: series or catalogue, per kind or per role */
                 values: components["schemas"]["ValueSources"];
                 /** @description Value ranges searched (default 100 Ω to 10 MΩ, 100 pF to 10 µF) */
                 ranges?: {
@@ -3385,6 +3408,7 @@ export interface components {
                 };
                 /** @description Allowed dielectric codes for catalogue capacitors */
                 dielectrics?: string[];
+                /** @description How the threshold network is chosen: near given ideal values, or freely within a hysteresis window */
                 hysteresis?: {
                     /** @description Ideal threshold-network values to snap near (rTop, rBottom, rFeedback or rFeedback, rGround); without them the network is free */
                     ideal?: {
@@ -3399,15 +3423,24 @@ export interface components {
                 };
                 /** @description Role that may be a two-part series or parallel combination */
                 combine?: "rTiming" | "cTiming";
-                /** @default 5 */
+                /**
+                 * @description How many candidates to return, best first (1 to 50)
+                 * @default 5
+                 */
                 count?: number;
             };
         };
+        /** @description Snapped values and jointly snapped circuits */
         SnapResponse: {
+            /** @description One result per requested value, in request order (empty without `values`) */
             values: {
+                /** @description The request's label, echoed (absent when none was given) */
                 label?: string;
+                /** @description The ideal value as the service read it, ohm or farad */
                 ideal: number;
+                /** @description resistor or capacitor, as requested */
                 kind: string;
+                /** @description The single value with the smallest relative error |value − ideal| / ideal (lower or higher) */
                 nearest: components["schemas"]["SnapChoice"];
                 /** @description Largest value <= ideal (null: none in the source) */
                 lower: components["schemas"]["SnapChoice"] | null;
@@ -3416,28 +3449,40 @@ export interface components {
                 /** @description Best two-part combination when it beats the nearest single part */
                 combination?: components["schemas"]["SnapChoice"] | null;
             }[];
+            /** @description Present when the request had `circuit` */
             circuit?: {
                 /** @description Best first by |frequencyError| */
                 candidates: {
+                    /** @description Topology id of the candidate */
                     topology: string;
+                    /** @description Every role of the topology with the part(s) filling it */
                     parts: components["schemas"]["FittedPart"][];
+                    /** @description What the full analysis of this candidate predicts */
                     predicted: components["schemas"]["Prediction"];
                     /** @description (predicted − target) / target */
                     frequencyError: number;
                     /** @description predicted − target duty cycle (null: no duty target) */
                     dutyCycleError: number | null;
+                    /** @description Design checks on the candidate circuit, as POST /v1/analyze reports them */
                     checks: components["schemas"]["Check"][];
                 }[];
+                /** @description How much work the search did, for judging a slow request */
                 search: {
+                    /** @description Threshold networks built from the sources, before merging equal ratios */
                     thresholdNetworks: number;
+                    /** @description Distinct threshold networks searched, after merging equal ratios and the duty screen */
                     distinctThresholdNetworks: number;
+                    /** @description Timing-resistor values available in the ranges */
                     resistorValues: number;
+                    /** @description Timing-capacitor values available in the ranges */
                     capacitorValues: number;
                     /** @description Candidate evaluations of the screening search */
                     pairsExamined: number;
                     /** @description Tuples an exhaustive search would evaluate */
                     exhaustiveTuples: number;
+                    /** @description Short-listed candidates re-evaluated with the closed form */
                     closedFormEvaluations: number;
+                    /** @description Candidates analysed in full (the model POST /v1/analyze uses) */
                     fullAnalyses: number;
                 };
             };
@@ -3461,9 +3506,13 @@ export interface components {
              * @default 0.05
              */
             frequencyTolerance?: number;
+            /** @description The rails the design runs from; a negative rail below 0 V also offers the split-supply networks */
             supply: components["schemas"]["Supply"];
+            /** @description The amplifier every design is sized and analysed with */
             amplifier: components["schemas"]["AmplifierSpec"];
+            /** @description Where each role takes its values from (absent: E24 resistors at 1 %, E12 C0G capacitors at 5 %) */
             values?: components["schemas"]["ValueSources"];
+            /** @description Windows and budgets every offered design keeps to (absent: the defaults of each field) */
             constraints?: {
                 /**
                  * @description Resistor window, lower end, ohm
@@ -3497,19 +3546,25 @@ export interface components {
                 allowHighKDielectric?: boolean;
                 /** @description Allowed dielectric codes for catalogue timing capacitors */
                 dielectrics?: string[];
-                /** @description Mean supply current budget including the amplifier, A */
+                /** @description Mean supply current budget including the amplifier, A (absent: no budget) */
                 maxSupplyCurrentA?: number;
             };
             /** @description Default: the threshold-placement topologies that suit the supply for duty cycles of 0.1..0.9, diode-steered outside that range. Name diode-steered to have it offered inside the range too. Deprecated aliases, accepted for one release (answers use the current id): single-supply-divider → three-resistor-divider, split-supply → two-resistor-feedback. */
             topologies?: ("three-resistor-divider" | "two-resistor-feedback" | "diode-steered" | "single-supply-divider" | "split-supply")[];
+            /** @description Steering-diode model for diode-steered designs (absent: 0.6 V drop, 10 Ω) */
             diode?: components["schemas"]["Diode"];
-            /** @default 5 */
+            /**
+             * @description How many ranked designs to return at most (1 to 20)
+             * @default 5
+             */
             count?: number;
             /** @description Each design's worst case and Monte Carlo yield against frequencyTolerance and dutyTolerance, over the parts' tolerances (from their series or catalogue), their temperature behaviour over the range and the supply tolerance. */
             robustness?: {
                 /** @description Board temperature range, °C (default 0 to 70) */
                 temperature?: {
+                    /** @description Lowest board temperature, °C (−60 to 200) */
                     minC: number;
+                    /** @description Highest board temperature, °C (−60 to 200, at least minC) */
                     maxC: number;
                 };
                 /**
@@ -3532,18 +3587,26 @@ export interface components {
                  * @default 1000
                  */
                 samples?: number;
-                /** @default 1 */
+                /**
+                 * @description Monte Carlo seed, a 32-bit integer: the same seed and request give the same yields
+                 * @default 1
+                 */
                 seed?: number;
                 /** @description Offer only designs whose yield reaches this fraction (422 when none does) */
                 minYield?: number;
             };
         };
+        /** @description Ranked designs for the target */
         DesignResponse: {
             /** @description Ranked by yield (whole percent), then the margin left at the worst corner, then practicality, best first */
             designs: {
+                /** @description Position in the ranking, 1 = best */
                 rank: number;
+                /** @description Topology id of this design */
                 topology: string;
+                /** @description Every role of the topology with the part(s) filling it */
                 parts: components["schemas"]["FittedPart"][];
+                /** @description What the full analysis of the built design predicts at nominal values */
                 predicted: components["schemas"]["Prediction"];
                 /** @description (predicted − target) / target, from the full analysis */
                 frequencyError: number;
@@ -3551,22 +3614,34 @@ export interface components {
                 dutyCycleError: number;
                 /** @description Hysteresis the design was built around, as a fraction of the output swing */
                 hysteresisFraction: number;
+                /** @description How the built boards spread: worst case and Monte Carlo yield against the requested tolerances */
                 robustness: {
                     /** @description Fraction of Monte Carlo boards inside both tolerances */
                     yield: number;
+                    /** @description Binomial standard error of yield, √(y(1 − y)/samples) */
                     yieldStandardError: number;
-                    /** @description Wilson score interval */
+                    /** @description Wilson score interval of the yield */
                     yieldInterval95: {
+                        /** @description Lower end of the 95 % interval, fraction */
                         low: number;
+                        /** @description Upper end of the 95 % interval, fraction */
                         high: number;
                     };
+                    /** @description Monte Carlo boards drawn for this design */
                     samples: number;
+                    /** @description Seed used (repeat the request with it to reproduce the figures) */
                     seed: number;
+                    /** @description Extremes over the corners of every part tolerance, the temperature range and the supply tolerance */
                     worstCase: {
+                        /** @description Lowest frequency over the tolerance, temperature and supply corners, Hz */
                         frequencyMinHz: number;
+                        /** @description Highest frequency over the corners, Hz */
                         frequencyMaxHz: number;
+                        /** @description Lowest duty cycle over the corners */
                         dutyMin: number;
+                        /** @description Highest duty cycle over the corners */
                         dutyMax: number;
+                        /** @description Every corner inside frequencyTolerance and dutyTolerance */
                         withinSpec: boolean;
                     };
                     /** @description Share of the tolerance left at the worst corner (smaller of frequency and duty); negative when a corner leaves the spec */
@@ -3575,26 +3650,38 @@ export interface components {
                     partTolerances: {
                         [key: string]: number;
                     };
+                    /** @description Which model evaluated the corners and samples */
                     model: "closed-form" | "time-domain";
                 };
+                /** @description How easy the design is to build; used to rank designs of equal yield and margin */
                 practicality: {
                     /** @description 0 when every value sits in the geometric middle of its window, 1 at an edge */
                     edgeProximity: number;
+                    /** @description Mean supply current including the amplifier, A */
                     supplyCurrentA: number;
+                    /** @description Parts on the board besides the amplifier: a series or parallel pair counts two, steering diodes count */
                     partCount: number;
                     /** @description Smaller is more practical (edge proximity, part count, supply current; our weighting) */
                     score: number;
                 };
                 /** @description What bounds each role: the window, output drive, bias-current error, supply budget or stray capacitance */
                 limits: {
+                    /** @description The role this window applies to */
                     role: string;
+                    /** @description Smallest value the role may take, ohm or farad */
                     min: number;
+                    /** @description Largest value the role may take, ohm or farad */
                     max: number;
+                    /** @description What sets min, in words with the figures */
                     minReason: string;
+                    /** @description What sets max, in words with the figures */
                     maxReason: string;
+                    /** @description The end of the window the chosen value sits on (null: inside) */
                     atLimit: "min" | "max" | null;
                 }[];
+                /** @description The design as a circuit: send it to /v1/analyze, /v1/waveform or /v1/tolerance as it stands */
                 circuit: components["schemas"]["Circuit"];
+                /** @description Design checks on this design, as POST /v1/analyze reports them */
                 checks: components["schemas"]["Check"][];
             }[];
             /** @description Topologies or hysteresis widths that gave nothing, and why */

@@ -5,6 +5,7 @@ import { Circuit, Diode } from './circuit.ts';
 import {
   acceptedTopologyIds,
   aliasNote,
+  DEFAULT_DESIGN_COUNT,
   DEFAULT_DUTY_TOLERANCE,
   DEFAULT_NODE_CAPACITANCE_F,
   designable,
@@ -45,9 +46,9 @@ export const DesignRequest = Type.Object(
         description: 'Frequency tolerance the built board must meet, fraction: the nominal design lies inside it and the yield counts boards inside it',
       }),
     ),
-    supply: ref(Supply),
-    amplifier: ref(AmplifierSpec),
-    values: Type.Optional(ref(ValueSources)),
+    supply: ref(Supply, 'The rails the design runs from; a negative rail below 0 V also offers the split-supply networks'),
+    amplifier: ref(AmplifierSpec, 'The amplifier every design is sized and analysed with'),
+    values: Type.Optional(ref(ValueSources, 'Where each role takes its values from (absent: E24 resistors at 1 %, E12 C0G capacitors at 5 %)')),
     constraints: Type.Optional(
       Type.Object(
         {
@@ -64,9 +65,9 @@ export const DesignRequest = Type.Object(
           dielectrics: Type.Optional(
             Type.Array(Type.String({ minLength: 1, maxLength: 16 }), { maxItems: 32, description: 'Allowed dielectric codes for catalogue timing capacitors' }),
           ),
-          maxSupplyCurrentA: Type.Optional(Type.Number({ exclusiveMinimum: 0, description: 'Mean supply current budget including the amplifier, A' })),
+          maxSupplyCurrentA: Type.Optional(Type.Number({ exclusiveMinimum: 0, description: 'Mean supply current budget including the amplifier, A (absent: no budget)' })),
         },
-        { additionalProperties: false },
+        { additionalProperties: false, description: 'Windows and budgets every offered design keeps to (absent: the defaults of each field)' },
       ),
     ),
     topologies: Type.Optional(
@@ -79,15 +80,23 @@ export const DesignRequest = Type.Object(
           aliasNote(TOPOLOGIES.filter(designable).map((t) => t.id)),
       }),
     ),
-    diode: Type.Optional(ref(Diode)),
-    count: Type.Optional(Type.Integer({ minimum: R.count.min, maximum: R.count.max, default: 5 })),
+    diode: Type.Optional(ref(Diode, 'Steering-diode model for diode-steered designs (absent: 0.6 V drop, 10 Ω)')),
+    count: Type.Optional(
+      Type.Integer({ minimum: R.count.min, maximum: R.count.max, default: DEFAULT_DESIGN_COUNT, description: `How many ranked designs to return at most (${R.count.min} to ${R.count.max})` }),
+    ),
     robustness: Type.Optional(
       Type.Object(
         {
           temperature: Type.Optional(
             Type.Object(
-              { minC: Type.Number({ minimum: -60, maximum: 200 }), maxC: Type.Number({ minimum: -60, maximum: 200 }) },
-              { additionalProperties: false, description: 'Board temperature range, °C (default 0 to 70)' },
+              {
+                minC: Type.Number({ minimum: -60, maximum: 200, description: 'Lowest board temperature, °C (−60 to 200)' }),
+                maxC: Type.Number({ minimum: -60, maximum: 200, description: 'Highest board temperature, °C (−60 to 200, at least minC)' }),
+              },
+              {
+                additionalProperties: false,
+                description: `Board temperature range, °C (default ${ROBUSTNESS_DEFAULTS.temperature.minC} to ${ROBUSTNESS_DEFAULTS.temperature.maxC})`,
+              },
             ),
           ),
           supplyTolerance: Type.Optional(Type.Number({ minimum: 0, maximum: 0.3, default: ROBUSTNESS_DEFAULTS.supplyTolerance, description: 'Both rails within ± this fraction' })),
@@ -100,7 +109,14 @@ export const DesignRequest = Type.Object(
           samples: Type.Optional(
             Type.Integer({ minimum: ROBUSTNESS_SAMPLE_RANGE.min, maximum: ROBUSTNESS_SAMPLE_RANGE.max, default: ROBUSTNESS_DEFAULTS.samples, description: 'Monte Carlo samples per design (normal, tolerance = 3σ)' }),
           ),
-          seed: Type.Optional(Type.Integer({ minimum: -2147483648, maximum: 2147483647, default: ROBUSTNESS_DEFAULTS.seed })),
+          seed: Type.Optional(
+            Type.Integer({
+              minimum: -2147483648,
+              maximum: 2147483647,
+              default: ROBUSTNESS_DEFAULTS.seed,
+              description: 'Monte Carlo seed, a 32-bit integer: the same seed and request give the same yields',
+            }),
+          ),
           minYield: Type.Optional(Type.Number({ minimum: 0, maximum: 1, description: 'Offer only designs whose yield reaches this fraction (422 when none does)' })),
         },
         {
@@ -125,57 +141,69 @@ export type DesignRequestBody = Static<typeof DesignRequest>;
 
 const DesignItem = Type.Object(
   {
-    rank: Type.Integer({ minimum: 1 }),
-    topology: Type.String(),
-    parts: Type.Array(ref(FittedPart)),
-    predicted: ref(Prediction),
+    rank: Type.Integer({ minimum: 1, description: 'Position in the ranking, 1 = best' }),
+    topology: Type.String({ description: 'Topology id of this design' }),
+    parts: Type.Array(ref(FittedPart), { description: 'Every role of the topology with the part(s) filling it' }),
+    predicted: ref(Prediction, 'What the full analysis of the built design predicts at nominal values'),
     frequencyError: Type.Number({ description: '(predicted − target) / target, from the full analysis' }),
     dutyCycleError: Type.Number({ description: 'predicted − target duty cycle' }),
     hysteresisFraction: Type.Number({ description: 'Hysteresis the design was built around, as a fraction of the output swing' }),
     robustness: Type.Object(
       {
         yield: Type.Number({ description: 'Fraction of Monte Carlo boards inside both tolerances' }),
-        yieldStandardError: Type.Number(),
-        yieldInterval95: Type.Object({ low: Type.Number(), high: Type.Number() }, { additionalProperties: false, description: 'Wilson score interval' }),
-        samples: Type.Integer(),
-        seed: Type.Integer(),
+        yieldStandardError: Type.Number({ description: 'Binomial standard error of yield, √(y(1 − y)/samples)' }),
+        yieldInterval95: Type.Object(
+          {
+            low: Type.Number({ description: 'Lower end of the 95 % interval, fraction' }),
+            high: Type.Number({ description: 'Upper end of the 95 % interval, fraction' }),
+          },
+          { additionalProperties: false, description: 'Wilson score interval of the yield' },
+        ),
+        samples: Type.Integer({ description: 'Monte Carlo boards drawn for this design' }),
+        seed: Type.Integer({ description: 'Seed used (repeat the request with it to reproduce the figures)' }),
         worstCase: Type.Object(
-          { frequencyMinHz: Type.Number(), frequencyMaxHz: Type.Number(), dutyMin: Type.Number(), dutyMax: Type.Number(), withinSpec: Type.Boolean() },
-          { additionalProperties: false },
+          {
+            frequencyMinHz: Type.Number({ description: 'Lowest frequency over the tolerance, temperature and supply corners, Hz' }),
+            frequencyMaxHz: Type.Number({ description: 'Highest frequency over the corners, Hz' }),
+            dutyMin: Type.Number({ description: 'Lowest duty cycle over the corners' }),
+            dutyMax: Type.Number({ description: 'Highest duty cycle over the corners' }),
+            withinSpec: Type.Boolean({ description: 'Every corner inside frequencyTolerance and dutyTolerance' }),
+          },
+          { additionalProperties: false, description: 'Extremes over the corners of every part tolerance, the temperature range and the supply tolerance' },
         ),
         marginFraction: Type.Number({ description: 'Share of the tolerance left at the worst corner (smaller of frequency and duty); negative when a corner leaves the spec' }),
         partTolerances: Type.Record(Type.String(), Type.Number(), { description: 'Tolerance each role was given, fraction' }),
-        model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')]),
+        model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')], { description: 'Which model evaluated the corners and samples' }),
       },
-      { additionalProperties: false },
+      { additionalProperties: false, description: 'How the built boards spread: worst case and Monte Carlo yield against the requested tolerances' },
     ),
     practicality: Type.Object(
       {
         edgeProximity: Type.Number({ description: '0 when every value sits in the geometric middle of its window, 1 at an edge' }),
-        supplyCurrentA: Type.Number(),
-        partCount: Type.Integer(),
+        supplyCurrentA: Type.Number({ description: 'Mean supply current including the amplifier, A' }),
+        partCount: Type.Integer({ description: 'Parts on the board besides the amplifier: a series or parallel pair counts two, steering diodes count' }),
         score: Type.Number({ description: 'Smaller is more practical (edge proximity, part count, supply current; our weighting)' }),
       },
-      { additionalProperties: false },
+      { additionalProperties: false, description: 'How easy the design is to build; used to rank designs of equal yield and margin' },
     ),
     limits: Type.Array(
       Type.Object(
         {
-          role: Type.String(),
-          min: Type.Number(),
-          max: Type.Number(),
-          minReason: Type.String(),
-          maxReason: Type.String(),
-          atLimit: Type.Union([Type.Literal('min'), Type.Literal('max'), Type.Null()]),
+          role: Type.String({ description: 'The role this window applies to' }),
+          min: Type.Number({ description: 'Smallest value the role may take, ohm or farad' }),
+          max: Type.Number({ description: 'Largest value the role may take, ohm or farad' }),
+          minReason: Type.String({ description: 'What sets min, in words with the figures' }),
+          maxReason: Type.String({ description: 'What sets max, in words with the figures' }),
+          atLimit: Type.Union([Type.Literal('min'), Type.Literal('max'), Type.Null()], { description: 'The end of the window the chosen value sits on (null: inside)' }),
         },
         { additionalProperties: false },
       ),
       { description: 'What bounds each role: the window, output drive, bias-current error, supply budget or stray capacitance' },
     ),
-    circuit: ref(Circuit),
-    checks: Type.Array(ref(Check)),
+    circuit: ref(Circuit, 'The design as a circuit: send it to /v1/analyze, /v1/waveform or /v1/tolerance as it stands'),
+    checks: Type.Array(ref(Check), { description: 'Design checks on this design, as POST /v1/analyze reports them' }),
   },
-  { additionalProperties: false },
+  { additionalProperties: false, description: 'One complete design' },
 );
 
 export const DesignResponse = Type.Object(
@@ -185,7 +213,7 @@ export const DesignResponse = Type.Object(
     }),
     notes: Type.Array(Type.String(), { description: 'Topologies or hysteresis widths that gave nothing, and why' }),
   },
-  { $id: 'DesignResponse', additionalProperties: false },
+  { $id: 'DesignResponse', additionalProperties: false, description: 'Ranked designs for the target' },
 );
 
 export const DESIGN_SCHEMAS = [DesignRequest, DesignResponse];

@@ -30,8 +30,8 @@ const ROLE_PATTERN = '^[a-z][A-Za-z0-9]{0,31}$';
 
 export const ValueSources = Type.Object(
   {
-    resistor: Type.Optional(ref(ValueSource)),
-    capacitor: Type.Optional(ref(ValueSource)),
+    resistor: Type.Optional(ref(ValueSource, 'Source for every resistor role without its own entry in `roles`; a resistor role left with no source is refused (400 at /values/resistor)')),
+    capacitor: Type.Optional(ref(ValueSource, 'Source for every capacitor role without its own entry in `roles`; a capacitor role left with no source is refused (400 at /values/capacitor)')),
     roles: Type.Optional(
       Type.Record(Type.String({ pattern: ROLE_PATTERN }), ref(ValueSource), { description: 'Per-role sources, overriding the per-kind ones (e.g. rTiming from a catalogue)' }),
     ),
@@ -44,7 +44,7 @@ const SourceReference = {
   series: Type.Optional(Type.String({ description: 'Series the value belongs to' })),
   partNumber: Type.Optional(Type.String({ description: 'Catalogue part number' })),
   catalogue: Type.Optional(Type.String({ description: 'Catalogue id' })),
-  dielectric: Type.Optional(Type.String()),
+  dielectric: Type.Optional(Type.String({ description: 'Capacitors: the dielectric the part has (catalogue) or was assumed to have (series), e.g. C0G' })),
 };
 
 export const PartReference = Type.Object(
@@ -54,7 +54,9 @@ export const PartReference = Type.Object(
 
 const fittedProperties = {
   value: Type.Number({ description: 'Effective value of the role, ohm or farad' }),
-  arrangement: Type.Union([Type.Literal('single'), Type.Literal('series'), Type.Literal('parallel')]),
+  arrangement: Type.Union([Type.Literal('single'), Type.Literal('series'), Type.Literal('parallel')], {
+    description: 'single: one part fills the role; series or parallel: two parts (listed in `parts`) combine to `value`',
+  }),
   tolerance: Type.Optional(SourceReference.tolerance),
   series: SourceReference.series,
   partNumber: SourceReference.partNumber,
@@ -64,7 +66,7 @@ const fittedProperties = {
 };
 
 export const FittedPart = Type.Object(
-  { role: Type.String(), ...fittedProperties },
+  { role: Type.String({ description: 'The role this part fills, a key of the circuit\'s `parts`' }), ...fittedProperties },
   {
     $id: 'FittedPart',
     additionalProperties: false,
@@ -74,14 +76,14 @@ export const FittedPart = Type.Object(
 
 export const SnapChoice = Type.Object(
   { ...fittedProperties, error: Type.Number({ description: '(value − ideal) / ideal' }) },
-  { $id: 'SnapChoice', additionalProperties: false },
+  { $id: 'SnapChoice', additionalProperties: false, description: 'A value available from the source, and how far it is from the ideal' },
 );
 
 const ValueRequest = Type.Object(
   {
-    ideal: ref(ComponentValue),
-    kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor')]),
-    source: ref(ValueSource),
+    ideal: ref(ComponentValue, 'The value wanted: ohms or farads as a number, or a value string ("15k8")'),
+    kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor')], { description: 'What the value is for: picks the unit and, in a catalogue, the parts of that kind' }),
+    source: ref(ValueSource, 'Where the snapped value may come from'),
     combinations: Type.Optional(Type.Boolean({ default: false, description: 'Also look for the best two-part series or parallel combination' })),
     label: Type.Optional(Type.String({ maxLength: 64, description: 'Echoed back (e.g. a reference designator)' })),
   },
@@ -104,12 +106,18 @@ export const SNAP_TOPOLOGIES: readonly string[] = acceptedTopologyIds(snappable)
 const CircuitSnapRequest = Type.Object(
   {
     topology: Type.Union(SNAP_TOPOLOGIES.map((t) => Type.Literal(t)), { description: aliasNote(TOPOLOGIES.filter(snappable).map((t) => t.id)) }),
-    supply: ref(Supply),
-    amplifier: Type.Optional(ref(AmplifierSpec)),
+    supply: ref(Supply, 'The rails the circuit runs from'),
+    amplifier: Type.Optional(ref(AmplifierSpec, 'The amplifier the candidates are analysed with (default: ideal)')),
     targetFrequencyHz: FrequencyHz('Target oscillation frequency, Hz'),
-    targetDutyCycle: Type.Optional(Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1 })),
+    targetDutyCycle: Type.Optional(
+      Type.Number({
+        exclusiveMinimum: 0,
+        exclusiveMaximum: 1,
+        description: 'Wanted fraction of the period high, strictly between 0 and 1; absent: networks are placed for 0.5 and the duty cycle is not screened (dutyCycleError null)',
+      }),
+    ),
     dutyTolerance: Type.Optional(Fraction('Absolute duty-cycle tolerance when targetDutyCycle is given (default 0.02)')),
-    values: ref(ValueSources),
+    values: ref(ValueSources, 'Where each role takes its values from: series or catalogue, per kind or per role'),
     ranges: Type.Optional(Ranges),
     dielectrics: Type.Optional(Type.Array(Type.String({ minLength: 1, maxLength: 16 }), { maxItems: 32, description: 'Allowed dielectric codes for catalogue capacitors' })),
     hysteresis: Type.Optional(
@@ -124,13 +132,13 @@ const CircuitSnapRequest = Type.Object(
           feedbackFractionMax: Type.Optional(Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, description: 'Split supply, free network: highest β (default 0.9)' })),
           hysteresisFraction: Type.Optional(Type.Number({ exclusiveMinimum: 0, exclusiveMaximum: 1, description: 'Single-supply divider, free network: hysteresis as a fraction of the swing (default 1/3)' })),
         },
-        { additionalProperties: false },
+        { additionalProperties: false, description: 'How the threshold network is chosen: near given ideal values, or freely within a hysteresis window' },
       ),
     ),
     combine: Type.Optional(Type.Union([Type.Literal('rTiming'), Type.Literal('cTiming')], { description: 'Role that may be a two-part series or parallel combination' })),
-    count: Type.Optional(Type.Integer({ minimum: 1, maximum: 50, default: 5 })),
+    count: Type.Optional(Type.Integer({ minimum: 1, maximum: 50, default: 5, description: 'How many candidates to return, best first (1 to 50)' })),
   },
-  { additionalProperties: false },
+  { additionalProperties: false, description: 'Size a whole circuit jointly: timing parts and threshold network from the value sources, for a target frequency' },
 );
 
 export const SnapRequest = Type.Object(
@@ -146,23 +154,31 @@ export type CircuitSnapBody = NonNullable<SnapRequestBody['circuit']>;
 
 const ValueSnapResult = Type.Object(
   {
-    label: Type.Optional(Type.String()),
-    ideal: Type.Number(),
-    kind: Type.String(),
-    nearest: ref(SnapChoice),
+    label: Type.Optional(Type.String({ description: 'The request\'s label, echoed (absent when none was given)' })),
+    ideal: Type.Number({ description: 'The ideal value as the service read it, ohm or farad' }),
+    kind: Type.String({ description: 'resistor or capacitor, as requested' }),
+    nearest: ref(SnapChoice, 'The single value with the smallest relative error |value − ideal| / ideal (lower or higher)'),
     lower: Type.Union([ref(SnapChoice), Type.Null()], { description: 'Largest value <= ideal (null: none in the source)' }),
     higher: Type.Union([ref(SnapChoice), Type.Null()], { description: 'Smallest value >= ideal (null: none in the source)' }),
     combination: Type.Optional(Type.Union([ref(SnapChoice), Type.Null()], { description: 'Best two-part combination when it beats the nearest single part' })),
   },
-  { additionalProperties: false },
+  { additionalProperties: false, description: 'One snapped value' },
 );
 
 export const Prediction = Type.Object(
   {
-    frequencyHz: Type.Number(),
-    dutyCycle: Type.Number(),
-    model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')]),
-    thresholds: Type.Object({ upperV: Type.Number(), lowerV: Type.Number() }, { additionalProperties: false }),
+    frequencyHz: Type.Number({ description: 'Predicted steady-state frequency, Hz' }),
+    dutyCycle: Type.Number({ description: 'Predicted fraction of the period the output is high' }),
+    model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')], {
+      description: 'Which model predicted it: time-domain when slew, delay, limits or clamps of the amplifier matter, else its closed-form special case',
+    }),
+    thresholds: Type.Object(
+      {
+        upperV: Type.Number({ description: 'Capacitor voltage at which a high output switches low, V' }),
+        lowerV: Type.Number({ description: 'Capacitor voltage at which a low output switches high, V' }),
+      },
+      { additionalProperties: false, description: 'Predicted switching thresholds' },
+    ),
     supplyCurrentA: Type.Number({ description: 'Mean supply current including the amplifier, A' }),
   },
   { $id: 'Prediction', additionalProperties: false, description: 'Figures from the full analysis of the fitted circuit (as POST /v1/analyze reports them)' },
@@ -170,42 +186,42 @@ export const Prediction = Type.Object(
 
 const SnapCandidate = Type.Object(
   {
-    topology: Type.String(),
-    parts: Type.Array(ref(FittedPart)),
-    predicted: ref(Prediction),
+    topology: Type.String({ description: 'Topology id of the candidate' }),
+    parts: Type.Array(ref(FittedPart), { description: 'Every role of the topology with the part(s) filling it' }),
+    predicted: ref(Prediction, 'What the full analysis of this candidate predicts'),
     frequencyError: Type.Number({ description: '(predicted − target) / target' }),
     dutyCycleError: Type.Union([Type.Number(), Type.Null()], { description: 'predicted − target duty cycle (null: no duty target)' }),
-    checks: Type.Array(ref(Check)),
+    checks: Type.Array(ref(Check), { description: 'Design checks on the candidate circuit, as POST /v1/analyze reports them' }),
   },
-  { additionalProperties: false },
+  { additionalProperties: false, description: 'One jointly snapped circuit' },
 );
 
 export const SnapResponse = Type.Object(
   {
-    values: Type.Array(ValueSnapResult),
+    values: Type.Array(ValueSnapResult, { description: 'One result per requested value, in request order (empty without `values`)' }),
     circuit: Type.Optional(
       Type.Object(
         {
           candidates: Type.Array(SnapCandidate, { description: 'Best first by |frequencyError|' }),
           search: Type.Object(
             {
-              thresholdNetworks: Type.Integer(),
-              distinctThresholdNetworks: Type.Integer(),
-              resistorValues: Type.Integer(),
-              capacitorValues: Type.Integer(),
+              thresholdNetworks: Type.Integer({ description: 'Threshold networks built from the sources, before merging equal ratios' }),
+              distinctThresholdNetworks: Type.Integer({ description: 'Distinct threshold networks searched, after merging equal ratios and the duty screen' }),
+              resistorValues: Type.Integer({ description: 'Timing-resistor values available in the ranges' }),
+              capacitorValues: Type.Integer({ description: 'Timing-capacitor values available in the ranges' }),
               pairsExamined: Type.Integer({ description: 'Candidate evaluations of the screening search' }),
               exhaustiveTuples: Type.Number({ description: 'Tuples an exhaustive search would evaluate' }),
-              closedFormEvaluations: Type.Integer(),
-              fullAnalyses: Type.Integer(),
+              closedFormEvaluations: Type.Integer({ description: 'Short-listed candidates re-evaluated with the closed form' }),
+              fullAnalyses: Type.Integer({ description: 'Candidates analysed in full (the model POST /v1/analyze uses)' }),
             },
-            { additionalProperties: false },
+            { additionalProperties: false, description: 'How much work the search did, for judging a slow request' },
           ),
         },
-        { additionalProperties: false },
+        { additionalProperties: false, description: 'Present when the request had `circuit`' },
       ),
     ),
   },
-  { $id: 'SnapResponse', additionalProperties: false },
+  { $id: 'SnapResponse', additionalProperties: false, description: 'Snapped values and jointly snapped circuits' },
 );
 
 export const SNAP_SCHEMAS = [ValueSource, ValueSources, PartReference, FittedPart, SnapChoice, Prediction, SnapRequest, SnapResponse];
