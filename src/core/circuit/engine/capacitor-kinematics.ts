@@ -24,8 +24,6 @@ const EXIT_MEMORY = 10;
 
 export class CapacitorKinematics extends Kinematics {
   shape: BiasShape = FLAT_SHAPE;
-  /** True when the curve is not flat (the overrides below take over). */
-  nonlinear = false;
   private autonomous = true;
   private scaleV = 1;
   private readonly charge = new NonlinearCharge();

@@ -556,7 +556,7 @@ export class CompiledShape {
   readonly biasShape: BiasShape;
   private readonly configs: (CompiledConfig | undefined)[] = new Array<CompiledConfig | undefined>(KEY_SPACE);
   /** Parameter slots the walk reads on every evaluation (looked up once here, not per evaluation). */
-  readonly slot: Readonly<Record<'positiveV' | 'negativeV' | 'headroomHigh' | 'headroomLow' | 'rOut' | 'offset' | 'bias' | 'slew' | 'delay' | 'limit' | 'clamp', number>>;
+  readonly slot: Readonly<Record<'positiveV' | 'negativeV' | 'headroomHigh' | 'headroomLow' | 'rOut' | 'offset' | 'bias' | 'slew' | 'delay' | 'limit' | 'clamp' | 'hysteresis' | 'delayCharge', number>>;
   /** Keys of the nominal configuration of each state (high, low). */
   nominalHighKey = 0;
   nominalLowKey = 0;
@@ -587,6 +587,8 @@ export class CompiledShape {
       delay: l.indexOf('recoveryDelayS'),
       limit: l.indexOf('outputCurrentLimitA'),
       clamp: l.indexOf('differentialClampV'),
+      hysteresis: l.indexOf('internalHysteresisV'),
+      delayCharge: l.indexOf('overdriveDelayChargeVS'),
     };
     const bits = (on: readonly boolean[] | undefined) => (on ?? []).reduce((acc, x, k) => acc | (x ? 1 << k : 0), 0);
     this.nominalHighKey = configKey(this.openDrain ? STAGE.released : STAGE.driven, CLAMP.off, bits(topology.nominalDiodes?.('high')));

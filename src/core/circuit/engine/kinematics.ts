@@ -22,6 +22,11 @@ export class Kinematics {
   v0 = 0;
   s0 = 0;
   r = 0;
+  /**
+   * True for a C(v) capacitor's motion (CapacitorKinematics with a curve that is not flat): the
+   * root solves then take its own exits. A field, not an instanceof test, on the solvers' hot path.
+   */
+  nonlinear = false;
   private readonly phi = new Float64Array(4);
 
   set(a: number, k0: number, k1: number, v0: number, s0: number, r: number): void {

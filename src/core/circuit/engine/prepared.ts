@@ -245,11 +245,16 @@ function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: Array
   const lowV = low.oC + low.oV * lowerV + low.oS * sLow;
   const riseTopV = high.oC + high.oV * lowerV + high.oS * sHigh;
   const fallBottomV = low.oC + low.oV * upperV + low.oS * sLow;
-  const crossedByJumps = (fraction: number) => {
-    const level = referenceLevelV(lowV, highV, fraction);
-    return lowV < level && riseTopV >= level && highV >= level && fallBottomV < level;
-  };
-  if (!crossedByJumps(REFERENCE_FRACTION.mid) || (withTransitions && !(crossedByJumps(REFERENCE_FRACTION.lower) && crossedByJumps(REFERENCE_FRACTION.upper)))) return undefined;
+  // A reference level is crossed by both jumps when it lies above lowV and fallBottomV and at or below highV and riseTopV.
+  const jumpsFromV = Math.max(lowV, fallBottomV);
+  const jumpsToV = Math.min(highV, riseTopV);
+  const midV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid);
+  if (!(jumpsFromV < midV && midV <= jumpsToV)) return undefined;
+  if (withTransitions) {
+    const tenV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.lower);
+    const ninetyV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.upper);
+    if (!(jumpsFromV < tenV && tenV <= jumpsToV && jumpsFromV < ninetyV && ninetyV <= jumpsToV)) return undefined;
+  }
   out[0] = periodS;
   out[1] = timeHighS / periodS;
   out[2] = timeHighS;

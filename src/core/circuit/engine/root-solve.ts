@@ -10,7 +10,7 @@
  * the same logarithm the closed-form model uses, so both models agree to
  * rounding where both apply.
  */
-import { CapacitorKinematics } from './capacitor-kinematics.ts';
+import type { CapacitorKinematics } from './capacitor-kinematics.ts';
 import type { Kinematics } from './kinematics.ts';
 
 /** Iteration cap of every bracketed solve (each step at least halves the bracket or is a converging Newton step). */
@@ -135,7 +135,7 @@ export function firstExit(probe: AffineProbe, ends: PieceEnds, c0: number, cv: n
   if (g0 < -tolerance) return 0;
   if (kin.r === 0) {
     // Source at rest: an exponential (closed form), or with a C(v) capacitor the exit at a known voltage.
-    if (kin instanceof CapacitorKinematics && kin.nonlinear) return kin.voltageExit(g0, c0 + cs * ends.s0, cv, T);
+    if (kin.nonlinear) return (kin as CapacitorKinematics).voltageExit(g0, c0 + cs * ends.s0, cv, T);
     return exponentialExit(kin, g0, c0 + cs * ends.s0, cv, T);
   }
 
@@ -201,7 +201,7 @@ export function extremumTime(probe: AffineProbe, T: number, gd0: number, gdT: nu
   const cv = probe.cv;
   const cs = probe.cs;
   // The logarithm holds for a linear capacitor only; with C(v) the bracketed solve below finds it.
-  if (cv !== 0 && !(kin instanceof CapacitorKinematics && kin.nonlinear)) {
+  if (cv !== 0 && !kin.nonlinear) {
     const target = (-cs * kin.r) / cv; // the v' at which g' = 0
     const a = kin.a;
     const dv0 = kin.dv(0, kin.v0);

@@ -176,9 +176,8 @@ export class OscillatorWalk {
     this.lowV = values[slot.negativeV] + values[slot.headroomLow];
     this.slewVPerS = dynamics ? values[slot.slew] : Infinity;
     this.delayS = dynamics ? values[slot.delay] : 0;
-    const l = shape.layout;
-    this.halfHystV = dynamics ? values[l.indexOf('internalHysteresisV')] / 2 : 0;
-    this.delayChargeVS = dynamics ? values[l.indexOf('overdriveDelayChargeVS')] : 0;
+    this.halfHystV = dynamics ? values[slot.hysteresis] / 2 : 0;
+    this.delayChargeVS = dynamics ? values[slot.delayCharge] : 0;
     this.vTol = BOUNDARY_TOLERANCE * this.cache.spanV;
     this.steadyTolV = STEADY_STATE_TOLERANCE * this.cache.spanV;
     this.riseS = this.fallS = this.upperV = Number.NaN;
