@@ -366,15 +366,16 @@ class CompiledConfig {
    * a node floats (no DC path) or a resistance is not a positive finite value.
    */
   solve(values: ArrayLike<number>, capacitanceF: number, biasA: number, limitA: number, out: NetworkCoefficients, currents = true): boolean {
-    const { m, width, matrix: a, coeff, rowNode, conductance, fixedSlot } = this;
+    const { m, width, matrix: a, coeff, rowNode, conductance, fixedSlot, branchSlot, branchOffset } = this;
     const nb = conductance.length;
     for (let j = 0; j < nb; j++) {
-      const slot = this.branchSlot[j];
-      const r = slot >= 0 ? values[slot] + this.branchOffset[j] : this.branchOffset[j];
+      const slot = branchSlot[j];
+      const r = slot >= 0 ? values[slot] + branchOffset[j] : branchOffset[j];
       if (!(r > 0) || r === Infinity) return false;
       conductance[j] = 1 / r;
     }
-    a.fill(0);
+    // A loop, not fill(): the matrix has a handful of cells and the builtin call costs more than clearing them.
+    for (let c = 0; c < a.length; c++) a[c] = 0;
     // Only the held nodes' voltages and the rows change between solves (the rest was set once, in the constructor).
     for (let k = 0; k < this.fixedNodes.length; k++) {
       const node = this.fixedNodes[k];
@@ -389,11 +390,12 @@ class CompiledConfig {
       // The stage is a current source into the pin while limited.
       a[this.outputRow * width + m] += this.stage === STAGE.limitedSource ? limitA : -limitA;
     }
-    const ops = this.opKind.length;
+    const { opKind, opBranch, opCell, opScale, opSlot } = this;
+    const ops = opKind.length;
     for (let o = 0; o < ops; o++) {
-      const g = conductance[this.opBranch[o]];
-      if (this.opKind[o] === OP_G) a[this.opCell[o]] += g * this.opScale[o];
-      else a[this.opCell[o]] += g * this.opScale[o] * values[this.opSlot[o]];
+      const g = conductance[opBranch[o]];
+      if (opKind[o] === OP_G) a[opCell[o]] += g * opScale[o];
+      else a[opCell[o]] += g * opScale[o] * values[opSlot[o]];
     }
     if (!gaussJordan(a, m, width)) return false;
     for (let r = 0; r < m; r++) {

@@ -33,24 +33,17 @@ export class PieceLog {
     this.count = 0;
   }
 
-  push(startS: number, durationS: number, v0: number, s0: number, rate: number, key: number, logic: number, target: number, vEnd: number, integralV: number): void {
+  /**
+   * Room for one more record: returns its offset in `data` (re-read `data` after the call: it may have grown).
+   * The walk writes the fields itself, so no ten-number call boundary sits on its hot path.
+   */
+  append(): number {
     if ((this.count + 1) * LOG_STRIDE > this.data.length) {
       const grown = new Float64Array(this.data.length * 2);
       grown.set(this.data);
       this.data = grown;
     }
-    const i = this.count++ * LOG_STRIDE;
-    const d = this.data;
-    d[i] = startS;
-    d[i + 1] = durationS;
-    d[i + 2] = v0;
-    d[i + 3] = s0;
-    d[i + 4] = rate;
-    d[i + 5] = key;
-    d[i + 6] = logic;
-    d[i + 7] = target;
-    d[i + 8] = vEnd;
-    d[i + 9] = integralV;
+    return this.count++ * LOG_STRIDE;
   }
 
   get(index: number, field: number): number {

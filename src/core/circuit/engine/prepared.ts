@@ -25,7 +25,7 @@ import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scop
 import { cycleLevels, pinCrossings, transitionDurations } from './figures.ts';
 import { Kinematics } from './kinematics.ts';
 import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
-import { OscillatorWalk, SteadyStart, type SteadyCycle } from './walker.ts';
+import { OscillatorWalk, saturationHighV, saturationLowV, SteadyStart, type SteadyCycle } from './walker.ts';
 
 /** Result status of one evaluation (0 = oscillates; the figures are then in the output). */
 export const EVALUATION_STATUS = {
@@ -216,16 +216,17 @@ const twoPieceProbe = new AffineProbe(twoPiece.kin);
  * undefined when the shape's pieces can end otherwise (the full walk answers).
  */
 function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, withTransitions: boolean, out: Float64Array): EvaluationStatus | undefined {
-  walk.reset(shape, values, dynamics, false);
+  // Only the walk's configuration cache is needed here (walkToCycle resets the whole walk if it must answer).
   const cache = walk.cache;
+  cache.reset(shape, values, dynamics, false);
   const high = cache.tryGet(shape.nominalHighKey);
-  const low = cache.tryGet(shape.nominalLowKey);
+  const low = shape.nominalLowKey === shape.nominalHighKey ? high : cache.tryGet(shape.nominalLowKey);
   if (!high || !low) return EVALUATION_STATUS.noPath;
   if (high.eventCount > 0 || low.eventCount > 0) return undefined;
   // A vector that gives the amplifier a slew rate or a delay its nominal lacks needs the walk.
   if (dynamics && (Number.isFinite(values[shape.slot.slew]) || values[shape.slot.delay] > 0)) return undefined;
-  const sHigh = shape.openDrain ? 0 : walk.highV;
-  const sLow = walk.lowV;
+  const sHigh = shape.openDrain ? 0 : saturationHighV(shape, values);
+  const sLow = saturationLowV(shape, values);
   const upperV = (high.hC + high.hS * sHigh) / -high.hV;
   const lowerV = (low.hC + low.hS * sLow) / -low.hV;
   if (!(upperV > lowerV)) return EVALUATION_STATUS.latched;

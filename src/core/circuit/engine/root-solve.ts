@@ -24,6 +24,8 @@ export class AffineProbe {
   cv = 0;
   cs = 0;
   order = 0;
+  /** Boundary tolerance of the function firstExit watches (a start this far outside still counts as on it). */
+  tolerance = 0;
   value = 0;
   slope = 0;
   constructor(readonly kin: Kinematics) {}
@@ -129,6 +131,19 @@ export class PieceEnds {
  * on the boundary: an exit only if g is moving outward there.
  */
 export function firstExit(probe: AffineProbe, ends: PieceEnds, c0: number, cv: number, cs: number, tolerance: number): number {
+  // Small enough to be inlined at the call site: the numbers land in the probe's fields instead of
+  // being boxed for the call (the walk calls this for every watched function of every piece).
+  probe.setAffine(c0, cv, cs);
+  probe.tolerance = tolerance;
+  return exitOfProbe(probe, ends);
+}
+
+/** firstExit for g = probe.c0 + probe.cv·v + probe.cs·s and the boundary tolerance probe.tolerance. */
+function exitOfProbe(probe: AffineProbe, ends: PieceEnds): number {
+  const c0 = probe.c0;
+  const cv = probe.cv;
+  const cs = probe.cs;
+  const tolerance = probe.tolerance;
   const kin = probe.kin;
   const T = ends.durationS;
   const g0 = c0 + cv * ends.v0 + cs * ends.s0;
@@ -143,7 +158,6 @@ export function firstExit(probe: AffineProbe, ends: PieceEnds, c0: number, cv: n
   if (g0 < 0 && gd0 < 0) return 0;
   const gT = c0 + cv * ends.vT + cs * ends.sT;
   const gdT = cv * ends.dvT + cs * kin.r;
-  probe.setAffine(c0, cv, cs);
   if (gd0 >= 0 && gdT >= 0) return Infinity; // non-decreasing over the piece
   if (gd0 <= 0 && gdT <= 0) {
     // non-increasing: one sign change at most

@@ -32,7 +32,7 @@ import { BOUNDARY_TOLERANCE, ConfigCache, diodeBits, EVENT, type ConfigModel } f
 import { delayForRampS } from '../../amplifiers/propagation-delay.ts';
 import { CapacitorKinematics } from './capacitor-kinematics.ts';
 import { PieceEvaluator } from './piece-evaluator.ts';
-import { PieceLog } from './piece-log.ts';
+import { LOG, PieceLog } from './piece-log.ts';
 import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
 
 /** Full switching cycles the walk may take to repeat before it gives up. */
@@ -48,6 +48,16 @@ const PENDING_CAPACITY = 16;
 
 const TIME_TARGET = -1;
 const TIME_SLEW_END = -2;
+
+/** The output stage's high saturation level: the positive rail less the high headroom, V. */
+export function saturationHighV(shape: CompiledShape, values: ArrayLike<number>): number {
+  return values[shape.slot.positiveV] - values[shape.slot.headroomHigh];
+}
+
+/** The low saturation level: the negative rail plus the low headroom, V. */
+export function saturationLowV(shape: CompiledShape, values: ArrayLike<number>): number {
+  return values[shape.slot.negativeV] + values[shape.slot.headroomLow];
+}
 
 export interface SteadyCycle {
   /** Log index of the first piece of the repeating cycle (it starts at a decision, rising or falling). */
@@ -172,8 +182,8 @@ export class OscillatorWalk {
     this.cache.reset(shape, values, dynamics, currents);
     this.kin.setShape(this.cache.biasShape, this.cache.spanV);
     const slot = shape.slot;
-    this.highV = values[slot.positiveV] - values[slot.headroomHigh];
-    this.lowV = values[slot.negativeV] + values[slot.headroomLow];
+    this.highV = saturationHighV(shape, values);
+    this.lowV = saturationLowV(shape, values);
     this.slewVPerS = dynamics ? values[slot.slew] : Infinity;
     this.delayS = dynamics ? values[slot.delay] : 0;
     this.halfHystV = dynamics ? values[slot.hysteresis] / 2 : 0;
@@ -355,7 +365,18 @@ export class OscillatorWalk {
         vEnd = out[0];
         integralV = out[1];
       }
-      this.log.push(this.t, best, this.v, this.s, this.rate, cfg.key, this.logic, this.target, vEnd, integralV);
+      const i = this.log.append();
+      const d = this.log.data;
+      d[i + LOG.startS] = this.t;
+      d[i + LOG.durationS] = best;
+      d[i + LOG.v0] = this.v;
+      d[i + LOG.s0] = this.s;
+      d[i + LOG.rate] = this.rate;
+      d[i + LOG.key] = cfg.key;
+      d[i + LOG.logic] = this.logic;
+      d[i + LOG.target] = this.target;
+      d[i + LOG.vEnd] = vEnd;
+      d[i + LOG.integralV] = integralV;
       this.v = vEnd;
       this.s = kin.s(best);
       this.t += best;
