@@ -17,7 +17,8 @@ import { BOM_RULES } from './codes.ts';
 import { readBomLine } from './read-line.ts';
 import { ruleResult } from './rule.ts';
 import { catalogueRules } from './rules/catalogue.ts';
-import { biasDeratingRule, dielectricRule, voltageRatingRule } from './rules/capacitor.ts';
+import { analyzeCircuit } from '../circuit/analyze.ts';
+import { biasDeratingRule, dielectricRule, timingCapacitorShape, voltageRatingRule } from './rules/capacitor.ts';
 import { circuitRules, supplyAt } from './rules/circuit.ts';
 import { seriesRule } from './rules/series.ts';
 import { dutyRule, frequencyRule, yieldRule, yieldSkippedRule } from './rules/spec.ts';
@@ -144,10 +145,14 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
   let capacitorPeakV: number | undefined;
   let capacitorMinV: number | undefined;
   let nominalAnalysis: ReturnType<typeof circuitRules>['nominal'];
+  const capacitorLine = readings.find((l) => l.role === topology.capacitorRole);
+  const capacitorShape = capacitorLine ? timingCapacitorShape(capacitorLine) : undefined;
   if (complete && amplifier) {
     const parts: Record<string, number> = {};
     for (const l of readings) parts[l.role] = l.value as number;
     circuit = { topology: topology.id, supply: supplyAt(assembly.supply, 'nominal'), amplifier, parts };
+    // A class II/III timing capacitor: every analysis of the assembly runs its C(V) (one model).
+    if (capacitorShape) circuit.capacitorShape = capacitorShape;
     const evaluation = circuitRules(circuit, assembly.supply);
     rules.push(...evaluation.rules);
     if (!evaluation.nominal) circuit = undefined;
@@ -163,8 +168,8 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
     if (d) rules.push(d);
     const v = voltageRatingRule(line, { highestRailV, operatingPeakV: capacitorPeakV });
     if (v) rules.push(v);
-    if (line.role === topology.capacitorRole) {
-      const b = biasDeratingRule(line, nominalAnalysis?.states, nominalAnalysis?.frequencyHz, assembly.spec);
+    if (line.role === topology.capacitorRole && circuit && nominalAnalysis && capacitorShape) {
+      const b = biasDeratingRule(line, nominalAnalysis, markedFrequencyHz(circuit), assembly.spec);
       if (b) rules.push(b);
     }
   }
@@ -184,6 +189,16 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
   const y = spread.yield ? yieldRule(assembly.spec, spread.yield) : yieldSkippedRule(assembly.spec, spread.yieldSkippedBecause ?? 'not requested');
   if (y) rules.push(y);
   return done();
+}
+
+/** The frequency the marked value would give: the same circuit with a flat capacitor (undefined when it does not oscillate). */
+function markedFrequencyHz(circuit: Circuit): number | undefined {
+  try {
+    return analyzeCircuit({ ...circuit, capacitorShape: undefined }).frequencyHz;
+  } catch (error) {
+    if (error instanceof CoreError) return undefined;
+    throw error;
+  }
 }
 
 /** Checks one assembly. An unexpected internal error is reported on this assembly alone. */

@@ -27,8 +27,13 @@
  * ΔT is the larger distance of the range's ends from 25 °C (the reference
  * temperature of tempcos and EIA-198 change figures).
  *
+ * The board temperature itself still enters as the analysis' temperature range:
+ * it drives what is not a part band — the amplifier's drift figures and the
+ * steering diodes' forward drop (tolerance/variation-model.ts).
+ *
  * The full model, as /v1/tolerance uses it (slew, recovery delay, clamp, current
- * limit): the prepared walk (circuit/engine/prepared.ts) keeps a batch fast.
+ * limit, a class II/III timing capacitor's C(V) carried on the circuit): the
+ * prepared walk (circuit/engine/prepared.ts) keeps a batch fast.
  */
 import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
@@ -133,6 +138,9 @@ export function toleranceRequest(
     // The full model (slew, recovery delay, clamp, current limit): the verdict /v1/tolerance gives.
     model: 'auto',
     tolerances,
+    // The board temperature still drives the active parts (amplifier drift, steering diodes); the
+    // parts' own drift is folded into their bands above.
+    ...(assembly.temperature ? { temperature: { minC: assembly.temperature.minC, maxC: assembly.temperature.maxC } } : {}),
     supplyTolerance: assembly.supply.tolerance,
     monteCarlo: { samples: monteCarloSamples, seed },
     spec: {
@@ -206,7 +214,18 @@ function spreadFigures(request: ToleranceRequest, wantYield: boolean): SpreadFig
 
 /** What makes two analysis runs identical (the amplifier object is compared by identity through its id and figures). */
 function cacheKey(request: ToleranceRequest): string {
-  return JSON.stringify([request.circuit.topology, request.circuit.supply, request.circuit.parts, request.circuit.amplifier, request.tolerances, request.supplyTolerance, request.spec, request.monteCarlo]);
+  return JSON.stringify([
+    request.circuit.topology,
+    request.circuit.supply,
+    request.circuit.parts,
+    request.circuit.amplifier,
+    request.circuit.capacitorShape?.key ?? 'flat',
+    request.tolerances,
+    request.temperature ?? null,
+    request.supplyTolerance,
+    request.spec,
+    request.monteCarlo,
+  ]);
 }
 
 /** Most entries kept by a spread cache before it starts over (bounds a batch's memory). */

@@ -1124,21 +1124,21 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "hysteresisRatio": 0.31249866659222497
         },
         "fitted": {
-          "frequencyHz": 9310.048457536494,
-          "periodS": 0.00010741082654521514,
-          "dutyCycle": 0.5000858330257784,
-          "capacitorMinV": -0.7895330415543864,
-          "capacitorMaxV": 0.7904809862420648,
-          "outputHighV": 2.4863577695741053,
-          "outputLowV": -2.4862048643319934,
-          "riseTimeS": 8.007373364927442e-7,
-          "fallTimeS": 8.007373334894771e-7,
-          "capacitorRisingTauS": 0.00008093753884168022,
-          "capacitorFallingTauS": 0.00008093753884166327,
-          "capacitorAboveMidShare": 0.5000270021672868,
-          "upperThresholdV": 0.777587045283235,
-          "lowerThresholdV": -0.7766313603443582,
-          "hysteresisRatio": 0.31255883938594203
+          "frequencyHz": 9310.04845176952,
+          "periodS": 0.00010741082661174919,
+          "dutyCycle": 0.5000858354336063,
+          "capacitorMinV": -0.7895330053035982,
+          "capacitorMaxV": 0.7904809961431486,
+          "outputHighV": 2.4863581443511107,
+          "outputLowV": -2.4862052166183495,
+          "riseTimeS": 8.007830679434072e-7,
+          "fallTimeS": 8.007830649390559e-7,
+          "capacitorRisingTauS": 0.00008093753487729027,
+          "capacitorFallingTauS": 0.00008093753487728245,
+          "capacitorAboveMidShare": 0.5000270028991324,
+          "upperThresholdV": 0.7775871637072187,
+          "lowerThresholdV": -0.7766314323529344,
+          "hysteresisRatio": 0.31255883198180906
         },
         "measurements": [
           {
@@ -1147,9 +1147,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 5,
             "source": "scalar",
             "nominal": 10085.8338052615,
-            "fitted": 9310.048457536494,
+            "fitted": 9310.04845176952,
             "nominalResidual": 155.1667610523,
-            "fittedResidual": 0.009691507298703073
+            "fittedResidual": 0.009690353904079529
           },
           {
             "name": "dutyCycle",
@@ -1157,9 +1157,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 0.002,
             "source": "scalar",
             "nominal": 0.5002150167951656,
-            "fitted": 0.5000858330257784,
+            "fitted": 0.5000858354336063,
             "nominalResidual": 0.10750839758277841,
-            "fittedResidual": 0.042916512889179526
+            "fittedResidual": 0.04291771680314804
           },
           {
             "name": "capacitorMaxV",
@@ -1167,9 +1167,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 0.01,
             "source": "scalar",
             "nominal": 0.7837232818973764,
-            "fitted": 0.7904809862420648,
+            "fitted": 0.7904809961431486,
             "nominalResidual": -0.6276718102623646,
-            "fittedResidual": 0.04809862420647182
+            "fittedResidual": 0.04809961431485599
           },
           {
             "name": "capacitorMinV",
@@ -1177,9 +1177,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 0.01,
             "source": "scalar",
             "nominal": -0.7817358794938263,
-            "fitted": -0.7895330415543864,
+            "fitted": -0.7895330053035982,
             "nominalResidual": 0.8264120506173755,
-            "fittedResidual": 0.04669584456136189
+            "fittedResidual": 0.046699469640187896
           },
           {
             "name": "capacitorRisingTauS",
@@ -1187,9 +1187,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "uncertainty": 8e-7,
             "source": "scalar",
             "nominal": 0.00007531740827479323,
-            "fitted": 0.00008093753884168022,
+            "fitted": 0.00008093753487729027,
             "nominalResidual": -7.47823965650846,
-            "fittedResidual": -0.45307644789972157
+            "fittedResidual": -0.4530814033871546
           }
         ],
         "estimates": [
@@ -1198,158 +1198,158 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "kind": "part",
             "unit": "ohm",
             "nominal": 16000,
-            "estimate": 16011.259671696142,
-            "standardDeviation": 53.129949352959365,
+            "estimate": 16011.259730531834,
+            "standardDeviation": 53.12990160627129,
             "priorStandardDeviation": 53.335111217785446,
-            "shift": 11.259671696141595,
-            "shiftInTolerances": 0.07037294810088301,
-            "posteriorToPriorSd": 0.9954528137720914,
+            "shift": 11.259730531834066,
+            "shiftInTolerances": 0.07037331582395723,
+            "posteriorToPriorSd": 0.9954519155231504,
             "tolerance": 0.01,
-            "relativeShift": 0.0007037294810088301
+            "relativeShift": 0.0007037331582395723
           },
           {
             "parameter": "cTiming",
             "kind": "part",
             "unit": "F",
             "nominal": 4.7e-9,
-            "estimate": 5.045450398933683e-9,
-            "standardDeviation": 4.8701783687109265e-11,
+            "estimate": 5.045447995214916e-9,
+            "standardDeviation": 4.870063949094128e-11,
             "priorStandardDeviation": 1.5719204477868513e-10,
-            "shift": 3.454503989336827e-10,
-            "shiftInTolerances": 0.7350008487950688,
-            "posteriorToPriorSd": 0.288610562287512,
+            "shift": 3.4544799521491615e-10,
+            "shiftInTolerances": 0.7349957344998215,
+            "posteriorToPriorSd": 0.2886039191866214,
             "tolerance": 0.1,
-            "relativeShift": 0.07350008487950688
+            "relativeShift": 0.07349957344998215
           },
           {
             "parameter": "rFeedback",
             "kind": "part",
             "unit": "ohm",
             "nominal": 22000,
-            "estimate": 21996.87418807198,
-            "standardDeviation": 73.03158508548347,
+            "estimate": 21996.87452644157,
+            "standardDeviation": 73.03140650123889,
             "priorStandardDeviation": 73.33577792445499,
-            "shift": -3.125811928020994,
-            "shiftInTolerances": -0.014208236036461486,
-            "posteriorToPriorSd": 0.995993567222305,
+            "shift": -3.1254735584298032,
+            "shiftInTolerances": -0.014206697992857897,
+            "posteriorToPriorSd": 0.9959911163967865,
             "tolerance": 0.01,
-            "relativeShift": -0.00014208236036461486
+            "relativeShift": -0.00014206697992857897
           },
           {
             "parameter": "rGround",
             "kind": "part",
             "unit": "ohm",
             "nominal": 10000,
-            "estimate": 10001.421040264378,
-            "standardDeviation": 33.205405470288724,
+            "estimate": 10001.420868977566,
+            "standardDeviation": 33.20553035987618,
             "priorStandardDeviation": 33.334444511115905,
-            "shift": 1.4210402643784619,
-            "shiftInTolerances": 0.014210402643777265,
-            "posteriorToPriorSd": 0.9959874239944356,
+            "shift": 1.4208689775659877,
+            "shiftInTolerances": 0.014208689775663252,
+            "posteriorToPriorSd": 0.9959911870824318,
             "tolerance": 0.01,
-            "relativeShift": 0.00014210402643777265
+            "relativeShift": 0.00014208689775663252
           },
           {
             "parameter": "outputHighV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": 2.48,
-            "estimate": 2.4801105034121855,
-            "standardDeviation": 0.026635615059174424,
+            "estimate": 2.480110602798087,
+            "standardDeviation": 0.026643321204584815,
             "priorStandardDeviation": 0.011586206896551748,
-            "shift": 0.00011050341218554749,
-            "shiftInTolerances": 0.003187666042727195,
-            "posteriorToPriorSd": 2.311223608712167
+            "shift": 0.00011060279808683404,
+            "shiftInTolerances": 0.0031905406849936434,
+            "posteriorToPriorSd": 2.311903427925898
           },
           {
             "parameter": "outputLowV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": -2.48,
-            "estimate": -2.479958971315125,
-            "standardDeviation": 0.026696285218622228,
+            "estimate": -2.479959048542349,
+            "standardDeviation": 0.026688273525732897,
             "priorStandardDeviation": 0.011586206896551736,
-            "shift": 0.00004102868487487754,
-            "shiftInTolerances": 0.0011792228436588758,
-            "posteriorToPriorSd": 2.2995950233517632
+            "shift": 0.00004095145765115049,
+            "shiftInTolerances": 0.0011770054106902746,
+            "posteriorToPriorSd": 2.2989134447308652
           },
           {
             "parameter": "slewRateVPerS",
             "kind": "amplifier",
             "unit": "V/s",
             "nominal": 8000000,
-            "estimate": 4982144.081422568,
-            "standardDeviation": 4646319.4664950995,
+            "estimate": 4981863.452767623,
+            "standardDeviation": 4645259.203146615,
             "priorStandardDeviation": 3862650.98984184,
-            "shift": -3017855.9185774317,
-            "shiftInTolerances": -0.33690620297909746,
-            "posteriorToPriorSd": 2.114603536613793
+            "shift": -3018136.5472323773,
+            "shiftInTolerances": -0.3369487773045033,
+            "posteriorToPriorSd": 2.114287763644393
           },
           {
             "parameter": "recoveryDelayS",
             "kind": "amplifier",
             "unit": "s",
             "nominal": 3e-7,
-            "estimate": 4.411467956883102e-7,
-            "standardDeviation": 4.5032313072648793e-7,
+            "estimate": 4.4113147775046007e-7,
+            "standardDeviation": 4.5035828439524896e-7,
             "priorStandardDeviation": 1.44e-7,
-            "shift": 1.4114679568831023e-7,
-            "shiftInTolerances": 0.2837390736086585,
-            "posteriorToPriorSd": 2.4101572525410564
+            "shift": 1.4113147775046008e-7,
+            "shiftInTolerances": 0.2837117458148914,
+            "posteriorToPriorSd": 2.410394224413061
           },
           {
             "parameter": "outputResistanceOhm",
             "kind": "amplifier",
             "unit": "ohm",
             "nominal": 25,
-            "estimate": 30.456838979470547,
-            "standardDeviation": 43.23294163104238,
+            "estimate": 30.46364983121879,
+            "standardDeviation": 43.2408425010988,
             "priorStandardDeviation": 12.070784343255756,
-            "shift": 5.456838979470547,
-            "shiftInTolerances": 0.13699341671959497,
-            "posteriorToPriorSd": 2.9848307823207882
+            "shift": 5.463649831218792,
+            "shiftInTolerances": 0.13715014380735455,
+            "posteriorToPriorSd": 2.984812166421559
           },
           {
             "parameter": "inputOffsetV",
             "kind": "amplifier",
             "unit": "V",
             "nominal": 0.001,
-            "estimate": 0.0004539656524235698,
-            "standardDeviation": 0.0042184638149379465,
+            "estimate": 0.0004539850740880452,
+            "standardDeviation": 0.00421855392980732,
             "priorStandardDeviation": 0.002057142857142857,
-            "shift": -0.0005460343475764302,
-            "shiftInTolerances": -0.08766405695476451,
-            "posteriorToPriorSd": 2.0172765799278887
+            "shift": -0.0005460149259119548,
+            "shiftInTolerances": -0.08766096112986312,
+            "posteriorToPriorSd": 2.0173204020629325
           },
           {
             "parameter": "inputBiasCurrentA",
             "kind": "amplifier",
             "unit": "A",
             "nominal": 1e-12,
-            "estimate": 2.994938413450514e-12,
-            "standardDeviation": 9.004356461059725e-9,
+            "estimate": 2.9554581668120442e-12,
+            "standardDeviation": 9.004356479981328e-9,
             "priorStandardDeviation": 3.0014999700149927e-9,
-            "shift": 1.9949384134505144e-12,
-            "shiftInTolerances": 0.00022154905875700675,
-            "posteriorToPriorSd": 2.99995244641431
+            "shift": 1.9554581668120444e-12,
+            "shiftInTolerances": 0.00021716455654897414,
+            "posteriorToPriorSd": 2.999952445677819
           },
           {
             "parameter": "supplyScale",
             "kind": "supply",
             "unit": "1",
             "nominal": 1,
-            "estimate": 1.0047386376283738,
-            "standardDeviation": 0.01624578420171293,
+            "estimate": 1.0047392492091893,
+            "standardDeviation": 0.01624657349914768,
             "priorStandardDeviation": 0.01,
-            "shift": 0.0047386376283737874,
-            "shiftInTolerances": 0.1579841544114431,
-            "posteriorToPriorSd": 1.6254909173982306
+            "shift": 0.0047392492091893335,
+            "shiftInTolerances": 0.1580045518905802,
+            "posteriorToPriorSd": 1.6255701271726495
           }
         ],
         "hysteresisRatio": {
           "nominal": 0.31249866659222497,
-          "estimate": 0.31255883938594203,
-          "standardDeviation": 0.0010049763815456268
+          "estimate": 0.31255883198180906,
+          "standardDeviation": 0.001004977855998374
         },
         "indistinguishable": [
           {
@@ -1357,40 +1357,40 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               "rTiming",
               "cTiming"
             ],
-            "correlation": -0.3174482631289518,
-            "sensitivityAlignment": 0.9999999933380108,
-            "distinguishingSigma": 0.021024568155354043,
-            "note": "rTiming and cTiming cannot be told apart from these measurements (each mimics the other to within 0.021 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": -0.31748788706742365,
+            "sensitivityAlignment": 0.9999999938352953,
+            "distinguishingSigma": 0.020224662520287116,
+            "note": "rTiming and cTiming cannot be told apart from these measurements (each mimics the other to within 0.020 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
             "parameters": [
               "rFeedback",
               "rGround"
             ],
-            "correlation": 0.008067492189394794,
-            "sensitivityAlignment": -0.9999999957516723,
-            "distinguishingSigma": 0.0012252657993109667,
-            "note": "rFeedback and rGround cannot be told apart from these measurements (each mimics the other to within 0.0012 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": 0.00806616795728637,
+            "sensitivityAlignment": -0.999999996821493,
+            "distinguishingSigma": 0.0010598215958163109,
+            "note": "rFeedback and rGround cannot be told apart from these measurements (each mimics the other to within 0.0011 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
             "parameters": [
               "rFeedback",
               "recoveryDelayS"
             ],
-            "correlation": 0.06654716092812614,
-            "sensitivityAlignment": -0.9999999979203787,
-            "distinguishingSigma": 0.0019018701334259278,
-            "note": "rFeedback and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0019 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": 0.06654918082696666,
+            "sensitivityAlignment": -0.9999999983197365,
+            "distinguishingSigma": 0.0017095178736840644,
+            "note": "rFeedback and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0017 σ of the measurements): the data fix one combination of them and their split follows the priors"
           },
           {
             "parameters": [
               "rGround",
               "recoveryDelayS"
             ],
-            "correlation": -0.06659847281766954,
-            "sensitivityAlignment": 0.9999999993527201,
-            "distinguishingSigma": 0.0010610474211667589,
-            "note": "rGround and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.0011 σ of the measurements): the data fix one combination of them and their split follows the priors"
+            "correlation": -0.06654859106157433,
+            "sensitivityAlignment": 0.9999999995132008,
+            "distinguishingSigma": 0.000920152604620657,
+            "note": "rGround and recoveryDelayS cannot be told apart from these measurements (each mimics the other to within 0.00092 σ of the measurements): the data fix one combination of them and their split follows the priors"
           }
         ],
         "uninformed": [
@@ -1423,189 +1423,189 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           ],
           "matrix": [
             [
-              0.9999999999999999,
-              -0.3174482631289518,
-              0.0009405999940020055,
-              -0.000935767139471779,
-              0.000031384230351763654,
-              -0.000033957495139727674,
-              0.010604675405535613,
-              -0.007736602953912845,
-              -0.006693950088044783,
-              -0.000002028281857066187,
-              4.3762578081491084e-7,
-              0.007250971489198822
-            ],
-            [
-              -0.3174482631289525,
               1,
-              0.03204172597355727,
-              -0.031873702778508026,
-              0.0010997363051308301,
-              -0.0011992832035353307,
-              0.3613085721133945,
-              -0.26353171319977486,
-              -0.23252598949006106,
-              -0.00006417521859584253,
-              0.00001523543294966453,
-              0.25509700427699966
+              -0.31748788706742365,
+              0.000937460491435989,
+              -0.0009374442836911831,
+              0.00003130715566640435,
+              -0.00003436589330943843,
+              0.010583915995501214,
+              -0.007734304723910156,
+              -0.006699708341737735,
+              -0.0000019327043196081026,
+              1.2204203390147405e-8,
+              0.007240860145887554
             ],
             [
-              0.0009405999940021046,
-              0.032041725973557235,
+              -0.31748788706742337,
               1,
-              0.008067492189394794,
-              0.0002628894463227968,
-              -0.00029861822513087163,
-              -0.08998174306672535,
-              0.06654716092812614,
-              -0.005772041188423526,
-              0.00006822661868045163,
-              5.311163944024665e-7,
-              0.06196739881465256
+              0.03197294157048164,
+              -0.031972384317904,
+              0.0011027532216697409,
+              -0.0012113383239151915,
+              0.36104201366559163,
+              -0.26378545295878186,
+              -0.23267454948003224,
+              -0.00006635205542278629,
+              4.2931325673503315e-7,
+              0.25514229059974286
             ],
             [
-              -0.0009357671394718437,
-              -0.03187370277850799,
-              0.00806749218939479,
+              0.0009374604914360628,
+              0.03197294157048156,
               1,
-              -0.0002638642326633857,
-              0.0002988527650251606,
-              0.0900503948982058,
-              -0.06659847281766954,
-              0.005781069540665952,
-              -0.00006820326189386655,
-              -5.294827913853614e-7,
-              -0.062101364971895126
+              0.00806616795728637,
+              0.0002630058151989447,
+              -0.00029888257016457304,
+              -0.09003644630078267,
+              0.06654918082696666,
+              -0.005779262322956149,
+              0.00006819582673671192,
+              -1.9651852665113814e-8,
+              0.06194407096518666
             ],
             [
-              0.000031384230351755414,
-              0.0010997363051308139,
-              0.00026288944632274995,
-              -0.00026386423266337337,
+              -0.0009374442836910587,
+              -0.03197238431790398,
+              0.008066167957286395,
               1,
-              -0.6883293837227509,
-              -0.0013560763373155712,
-              -0.0021852148357460535,
-              0.0006212349183814314,
-              0.026319497789658357,
-              0.0043520011338372645,
-              -0.5513906392506084
+              -0.000263893659745577,
+              0.0002997552846101065,
+              0.0900340313855064,
+              -0.06654859106157433,
+              0.005779351646245889,
+              -0.00006818666307039538,
+              1.972275772981166e-8,
+              -0.06213825685177136
             ],
             [
-              -0.000033957495139723344,
-              -0.001199283203535321,
-              -0.000298618225130916,
-              0.0002988527650251447,
-              -0.688329383722751,
-              1,
-              0.001487174252745785,
-              0.0024549791386157156,
-              -0.0006437579482820985,
-              0.02664469833483635,
-              0.004405898096668028,
-              0.5513228623164877
-            ],
-            [
-              0.010604675405536362,
-              0.36130857211339423,
-              -0.08998174306672531,
-              0.09005039489820582,
-              -0.0013560763373156243,
-              0.0014871742527458466,
+              0.00003130715566639866,
+              0.0011027532216696806,
+              0.0002630058151988735,
+              -0.0002638936597455192,
               1.0000000000000002,
-              0.7428096833461033,
-              -0.06365110633522905,
-              -0.00007799677717417288,
-              0.000006007243531070348,
-              -0.31283265859161385
+              -0.6883257305494991,
+              -0.0013546866342972045,
+              -0.0021859810332524403,
+              0.0006216174733085256,
+              0.026297687325992834,
+              0.004348870548931401,
+              -0.5513448285060004
             ],
             [
-              -0.007736602953913248,
-              -0.26353171319977464,
-              0.06654716092812615,
-              -0.0665984728176694,
-              -0.0021852148357460357,
-              0.0024549791386157156,
-              0.7428096833461033,
-              0.9999999999999998,
-              0.04767247239228631,
-              -0.00005445882915707902,
-              -0.000005223843852553378,
-              -0.5121039745130066
-            ],
-            [
-              -0.006693950088044799,
-              -0.23252598949006106,
-              -0.005772041188423528,
-              0.00578106954066595,
-              0.0006212349183814025,
-              -0.0006437579482820651,
-              -0.06365110633522908,
-              0.04767247239228626,
+              -0.00003436589330943928,
+              -0.0012113383239152219,
+              -0.0002988825701645413,
+              0.0002997552846101175,
+              -0.6883257305494991,
               1,
-              0.000003748577987779553,
-              8.277947582292074e-7,
-              0.13959308364001552
+              0.0014836164298789086,
+              0.0024596477497715427,
+              -0.0006448433878285013,
+              0.026665641050215655,
+              0.0044091237269526995,
+              0.5512999563195216
             ],
             [
-              -0.000002028281857066083,
-              -0.00006417521859584318,
-              0.00006822661868045079,
-              -0.00006820326189386743,
-              0.02631949778965836,
-              0.02664469833483635,
-              -0.0000779967771741729,
-              -0.00005445882915707906,
-              0.000003748577987779554,
+              0.010583915995501852,
+              0.36104201366559135,
+              -0.09003644630078245,
+              0.09003403138550643,
+              -0.001354686634297244,
+              0.0014836164298788485,
+              0.9999999999999999,
+              0.7428220556676248,
+              -0.06371883583625185,
+              -0.00007855844126207854,
+              -1.9743559114719746e-7,
+              -0.3129417422605879
+            ],
+            [
+              -0.007734304723910646,
+              -0.263785452958782,
+              0.06654918082696687,
+              -0.06654859106157433,
+              -0.002185981033252482,
+              0.0024596477497714855,
+              0.7428220556676248,
               1,
-              0.002018164044873457,
-              0.00024781795819936534
+              0.04768168165124962,
+              -0.00005374456734262716,
+              -6.850689976789635e-7,
+              -0.5121641793091514
             ],
             [
-              4.3762578081490946e-7,
-              0.000015235432949664595,
-              5.311163944024654e-7,
-              -5.294827913855854e-7,
-              0.004352001133837265,
-              0.004405898096668028,
-              0.000006007243531070346,
-              -0.000005223843852553378,
-              8.277947582292068e-7,
-              0.002018164044873457,
+              -0.006699708341737671,
+              -0.23267454948003238,
+              -0.005779262322956167,
+              0.005779351646245896,
+              0.0006216174733085156,
+              -0.0006448433878284554,
+              -0.06371883583625183,
+              0.04768168165124964,
               1,
-              0.000026946265645670767
+              0.0000034957076271101165,
+              4.1169287762257355e-8,
+              0.13966197019091367
             ],
             [
-              0.007250971489198653,
-              0.25509700427699966,
-              0.06196739881465258,
-              -0.06210136497189524,
-              -0.5513906392506086,
-              0.5513228623164877,
-              -0.3128326585916139,
-              -0.5121039745130067,
-              0.13959308364001552,
-              0.00024781795819936534,
-              0.000026946265645670767,
-              1.0000000000000002
+              -0.0000019327043196081894,
+              -0.00006635205542278651,
+              0.00006819582673671273,
+              -0.00006818666307039533,
+              0.026297687325992834,
+              0.02666564105021565,
+              -0.00007855844126207851,
+              -0.000053744567342627114,
+              0.00000349570762711011,
+              1,
+              0.0020180978246492035,
+              0.0002633321603803877
+            ],
+            [
+              1.2204203390157474e-8,
+              4.293132567349803e-7,
+              -1.96518526650476e-8,
+              1.9722757729893134e-8,
+              0.0043488705489314,
+              0.0044091237269526995,
+              -1.974355911471973e-7,
+              -6.850689976789646e-7,
+              4.116928776225707e-8,
+              0.0020180978246492043,
+              0.9999999999999999,
+              0.00002406545601817896
+            ],
+            [
+              0.007240860145887424,
+              0.2551422905997428,
+              0.06194407096518656,
+              -0.062138256851771455,
+              -0.5513448285060004,
+              0.5512999563195216,
+              -0.31294174226058774,
+              -0.5121641793091514,
+              0.13966197019091367,
+              0.00026333216038038775,
+              0.00002406545601817896,
+              0.9999999999999999
             ]
           ]
         },
         "fit": {
-          "chiSquare": 0.2117079995835713,
-          "priorChiSquare": 4.7663753473223,
+          "chiSquare": 0.21171300483156774,
+          "priorChiSquare": 4.766370361431697,
           "measurementCount": 5,
-          "iterations": 27,
+          "iterations": 6,
           "converged": true
         },
         "verdict": {
           "agreesWithNominal": true,
-          "nominalChiSquare": 24133.736290655797,
-          "toleranceChiSquare": 5.691431677931224,
+          "nominalChiSquare": 24133.7362906559,
+          "toleranceChiSquare": 5.691431677861721,
           "measurementCount": 5,
           "chiSquareBound95": 11.043946211607775,
-          "nominalScore": 0.7979862492615325,
+          "nominalScore": 0.7979881522387727,
           "statement": "The measurements agree with the nominal circuit within its tolerances (χ² 5.69 for 5 measurements, 95 % bound 11.0)."
         },
         "explanations": [
@@ -1618,22 +1618,22 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "part",
                 "unit": "F",
                 "nominal": 4.7e-9,
-                "estimate": 5.083087873036794e-9,
-                "standardDeviation": 3.4684021195884393e-11,
+                "estimate": 5.0830878866277625e-9,
+                "standardDeviation": 3.4684247867831867e-11,
                 "priorStandardDeviation": 1.5719204477868513e-10,
-                "shift": 3.8308787303679385e-10,
-                "shiftInTolerances": 0.8150805809293482,
-                "posteriorToPriorSd": 0.20401829789754952,
+                "shift": 3.8308788662776257e-10,
+                "shiftInTolerances": 0.8150806098463037,
+                "posteriorToPriorSd": 0.20401963068144185,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "cTiming +8.2 % (4.7 nF -> 5.08 nF), inside its 10 % tolerance",
                 "tolerance": 0.1,
-                "relativeShift": 0.08150805809293482
+                "relativeShift": 0.08150806098463037
               }
             ],
-            "score": 0.04811952245484379,
-            "logEvidence": -11.173642294102134,
-            "residualChiSquare": 0.5506727951049126,
+            "score": 0.048119951555804064,
+            "logEvidence": -11.173635761456051,
+            "residualChiSquare": 0.5506727846219915,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1641,37 +1641,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 9338.868478241064,
+                "predicted": 9338.86845370336,
                 "uncertainty": 5,
-                "normalized": 5.773695648212742
+                "normalized": 5.7736907406721
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002151056481527,
+                "predicted": 0.5002151056481554,
                 "uncertainty": 0.002,
-                "normalized": 0.10755282407637345
+                "normalized": 0.10755282407770572
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7830356531709587,
+                "predicted": 0.7830356531483952,
                 "uncertainty": 0.01,
-                "normalized": -0.6964346829041346
+                "normalized": -0.6964346851604852
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7810472342321122,
+                "predicted": -0.7810472342095155,
                 "uncertainty": 0.01,
-                "normalized": 0.8952765767887838
+                "normalized": 0.895276579048454
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00008145638396384355,
+                "predicted": 0.00008145638418164094,
                 "uncertainty": 8e-7,
-                "normalized": 0.1954799548044399
+                "normalized": 0.1954802270511799
               }
             ],
             "summary": "cTiming +8.2 % (4.7 nF -> 5.08 nF), inside its 10 % tolerance: accounts for the measurements (χ² 0.551 for 5, other parts within their tolerances)"
@@ -1685,22 +1685,22 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "part",
                 "unit": "ohm",
                 "nominal": 16000,
-                "estimate": 17227.278631883088,
-                "standardDeviation": 554.9244860914538,
+                "estimate": 17227.26834136741,
+                "standardDeviation": 554.9144554311728,
                 "priorStandardDeviation": 53.335111217785446,
-                "shift": 1227.2786318830877,
-                "shiftInTolerances": 7.670491449269301,
-                "posteriorToPriorSd": 9.663267193373922,
+                "shift": 1227.2683413674094,
+                "shiftInTolerances": 7.670427133546309,
+                "posteriorToPriorSd": 9.663098294990569,
                 "withinTolerance": false,
                 "fault": "off",
                 "text": "rTiming +7.7 % (16 kΩ -> 17.2 kΩ), 7.7× its 1 % tolerance",
                 "tolerance": 0.01,
-                "relativeShift": 0.07670491449269301
+                "relativeShift": 0.07670427133546309
               }
             ],
-            "score": 0.045371990894989035,
-            "logEvidence": -11.232435287089956,
-            "residualChiSquare": 0.5362420956168699,
+            "score": 0.04537130605437621,
+            "logEvidence": -11.232452765823629,
+            "residualChiSquare": 0.5362443032579898,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1708,37 +1708,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 9380.07711636773,
+                "predicted": 9380.08261991872,
                 "uncertainty": 5,
-                "normalized": 14.01542327354582
+                "normalized": 14.0165239837439
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150958813388,
+                "predicted": 0.5002150958807224,
                 "uncertainty": 0.002,
-                "normalized": 0.10754794066941686
+                "normalized": 0.10754794036121895
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7831329271871307,
+                "predicted": 0.7831329317862689,
                 "uncertainty": 0.01,
-                "normalized": -0.6867072812869357
+                "normalized": -0.6867068213731176
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7811446340685366,
+                "predicted": -0.7811446386746146,
                 "uncertainty": 0.01,
-                "normalized": 0.885536593146341
+                "normalized": 0.8855361325385447
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00008108561784462344,
+                "predicted": 0.00008108556947921692,
                 "uncertainty": 8e-7,
-                "normalized": -0.2679776942206906
+                "normalized": -0.2680381509788511
               }
             ],
             "summary": "rTiming +7.7 % (16 kΩ -> 17.2 kΩ), 7.7× its 1 % tolerance: accounts for the measurements (χ² 0.536 for 5, other parts within their tolerances)"
@@ -1752,20 +1752,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "A",
                 "nominal": 1e-12,
-                "estimate": 2.8625528024764533e-12,
-                "standardDeviation": 9.004020614847643e-9,
+                "estimate": 2.8375732251210566e-12,
+                "standardDeviation": 9.004020630750172e-9,
                 "priorStandardDeviation": 3.0014999700149927e-9,
-                "shift": 1.8625528024764535e-12,
-                "shiftInTolerances": 0.00020684689624706198,
-                "posteriorToPriorSd": 2.999840530374371,
+                "shift": 1.837573225121057e-12,
+                "shiftInTolerances": 0.0002040727744877235,
+                "posteriorToPriorSd": 2.9998405314054577,
                 "withinTolerance": true,
                 "fault": "off",
-                "text": "input bias current 1 pA -> 2.86 pA, inside its class-typical spread"
+                "text": "input bias current 1 pA -> 2.84 pA, inside its class-typical spread"
               }
             ],
-            "score": 0.022798529532905544,
-            "logEvidence": -11.920634221402318,
-            "residualChiSquare": 5.69143159810048,
+            "score": 0.022798583909003297,
+            "logEvidence": -11.92063422104749,
+            "residualChiSquare": 5.691431599166274,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1773,40 +1773,40 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.833805195656,
+                "predicted": 10085.833805196542,
                 "uncertainty": 5,
-                "normalized": 155.16676103913125
+                "normalized": 155.1667610393084
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150204585409,
+                "predicted": 0.5002150204094095,
                 "uncertainty": 0.002,
-                "normalized": 0.10751022927046883
+                "normalized": 0.1075102047047305
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7837232689660708,
+                "predicted": 0.7837232691394986,
                 "uncertainty": 0.01,
-                "normalized": -0.6276731033929228
+                "normalized": -0.62767308605014
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7817358924251875,
+                "predicted": -0.7817358922517591,
                 "uncertainty": 0.01,
-                "normalized": 0.8264107574812551
+                "normalized": 0.8264107748240934
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479894,
+                "predicted": 0.00007531740827478988,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656501328
+                "normalized": -7.4782396565126446
               }
             ],
-            "summary": "input bias current 1 pA -> 2.86 pA, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
+            "summary": "input bias current 1 pA -> 2.84 pA, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
           },
           {
             "rank": 4,
@@ -1817,20 +1817,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "ohm",
                 "nominal": 25,
-                "estimate": 24.64184583781512,
-                "standardDeviation": 34.98494973496235,
+                "estimate": 24.641581018829974,
+                "standardDeviation": 34.98359748455798,
                 "priorStandardDeviation": 12.070784343255756,
-                "shift": -0.3581541621848814,
-                "shiftInTolerances": -0.009962182938339134,
-                "posteriorToPriorSd": 2.9406778316869016,
+                "shift": -0.3584189811700256,
+                "shiftInTolerances": -0.00996960281037041,
+                "posteriorToPriorSd": 2.9405961215937824,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread"
               }
             ],
-            "score": 0.02240963817806016,
-            "logEvidence": -11.937839118986904,
-            "residualChiSquare": 5.691241662387898,
+            "score": 0.022409068939772566,
+            "logEvidence": -11.93786690551615,
+            "residualChiSquare": 5.691241514447325,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1838,37 +1838,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.892657227052,
+                "predicted": 10085.892700743549,
                 "uncertainty": 5,
-                "normalized": 155.1785314454104
+                "normalized": 155.17854014870971
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150133515038,
+                "predicted": 0.5002150133489575,
                 "uncertainty": 0.002,
-                "normalized": 0.10750667575187833
+                "normalized": 0.10750667447873008
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7837440257490672,
+                "predicted": 0.7837440410874665,
                 "uncertainty": 0.01,
-                "normalized": -0.6255974250932828
+                "normalized": -0.6255958912533499
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7817566374518264,
+                "predicted": -0.7817566528006562,
                 "uncertainty": 0.01,
-                "normalized": 0.8243362548173594
+                "normalized": 0.8243347199343831
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531572755855062,
+                "predicted": 0.0000753157263158138,
                 "uncertainty": 8e-7,
-                "normalized": -7.480340551811726
+                "normalized": -7.480342105232746
               }
             ],
             "summary": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread: accounts for the measurements (χ² 5.69 for 5, other parts within their tolerances)"
@@ -1882,20 +1882,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": 2.48,
-                "estimate": 2.4837412873727267,
-                "standardDeviation": 0.018379164490714254,
+                "estimate": 2.483740734256746,
+                "standardDeviation": 0.018385291246934762,
                 "priorStandardDeviation": 0.011586206896551748,
-                "shift": 0.0037412873727267204,
-                "shiftInTolerances": 0.11875666610014085,
-                "posteriorToPriorSd": 1.938369242604192,
+                "shift": 0.0037407342567461477,
+                "shiftInTolerances": 0.11873722152212028,
+                "posteriorToPriorSd": 1.9389513444954152,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output high level 2.48 V -> 2.484 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016360563717040262,
-            "logEvidence": -12.252456473499294,
-            "residualChiSquare": 5.646792189722036,
+            "score": 0.016365515894660024,
+            "logEvidence": -12.252156214099651,
+            "residualChiSquare": 5.646796808589731,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1903,37 +1903,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.76327766934,
+                "predicted": 10085.763288567432,
                 "uncertainty": 5,
-                "normalized": 155.15265553386817
+                "normalized": 155.1526577134864
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.4999387553964036,
+                "predicted": 0.49993879620832254,
                 "uncertainty": 0.002,
-                "normalized": -0.030622301798205465
+                "normalized": -0.030601895838727744
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7849076935842274,
+                "predicted": 0.784907518478719,
                 "uncertainty": 0.01,
-                "normalized": -0.5092306415772629
+                "normalized": -0.5092481521281056
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7817358794938266,
+                "predicted": -0.7817358794938265,
                 "uncertainty": 0.01,
-                "normalized": 0.8264120506173422
+                "normalized": 0.8264120506173533
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.0000753174082748011,
+                "predicted": 0.0000753174082747778,
                 "uncertainty": 8e-7,
-                "normalized": -7.4782396564986175
+                "normalized": -7.478239656527739
               }
             ],
             "summary": "output high level 2.48 V -> 2.484 V, inside its class-typical spread: accounts for the measurements (χ² 5.65 for 5, other parts within their tolerances)"
@@ -1947,20 +1947,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": 0.001,
-                "estimate": 0.00044827524381300596,
-                "standardDeviation": 0.004203783458930616,
+                "estimate": 0.00044829215383420697,
+                "standardDeviation": 0.004203872554395484,
                 "priorStandardDeviation": 0.002057142857142857,
-                "shift": -0.0005517247561869941,
-                "shiftInTolerances": -0.08857106350003964,
-                "posteriorToPriorSd": 2.010044910787927,
+                "shift": -0.0005517078461657931,
+                "shiftInTolerances": -0.08856836831623154,
+                "posteriorToPriorSd": 2.0100881364061234,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "input offset 1 mV -> 448.3 µV, inside its class-typical spread"
               }
             ],
-            "score": 0.016335130846851315,
-            "logEvidence": -12.25401220587677,
-            "residualChiSquare": 5.669932687550029,
+            "score": 0.016335521086246002,
+            "logEvidence": -12.253990701296093,
+            "residualChiSquare": 5.6699331649019635,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -1968,37 +1968,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.835349031628,
+                "predicted": 10085.835349002333,
                 "uncertainty": 5,
-                "normalized": 155.16706980632551
+                "normalized": 155.16706980046655
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5000963877903973,
+                "predicted": 0.5000963914263028,
                 "uncertainty": 0.002,
-                "normalized": 0.048193895198667125
+                "normalized": 0.04819571315139992
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7831750278583183,
+                "predicted": 0.7831750446619565,
                 "uncertainty": 0.01,
-                "normalized": -0.6824972141681762
+                "normalized": -0.6824955338043504
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7822841322223429,
+                "predicted": -0.78228411541873,
                 "uncertainty": 0.01,
-                "normalized": 0.7715867777657093
+                "normalized": 0.7715884581270038
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.0000753174082747947,
+                "predicted": 0.00007531740827479265,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656506614
+                "normalized": -7.478239656509189
               }
             ],
             "summary": "input offset 1 mV -> 448.3 µV, inside its class-typical spread: accounts for the measurements (χ² 5.67 for 5, other parts within their tolerances)"
@@ -2012,20 +2012,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "V",
                 "nominal": -2.48,
-                "estimate": -2.483172771132146,
-                "standardDeviation": 0.018391487998375134,
+                "estimate": -2.4831731014716545,
+                "standardDeviation": 0.018385401273476005,
                 "priorStandardDeviation": 0.011586206896551736,
-                "shift": -0.0031727711321458685,
-                "shiftInTolerances": -0.09910200358847673,
-                "posteriorToPriorSd": 1.8760281931600686,
+                "shift": -0.0031731014716545047,
+                "shiftInTolerances": -0.09911323581598902,
+                "posteriorToPriorSd": 1.8754430325440545,
                 "withinTolerance": true,
                 "fault": "off",
                 "text": "output low level -2.48 V -> -2.483 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016332883203891233,
-            "logEvidence": -12.254149810994738,
-            "residualChiSquare": 5.662116755243458,
+            "score": 0.016327827673643398,
+            "logEvidence": -12.254461774412412,
+            "residualChiSquare": 5.662114529084074,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -2033,37 +2033,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10085.765994694646,
+                "predicted": 10085.765987396708,
                 "uncertainty": 5,
-                "normalized": 155.1531989389292
+                "normalized": 155.15319747934154
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5004490494960346,
+                "predicted": 0.5004490738472046,
                 "uncertainty": 0.002,
-                "normalized": 0.22452474801731848
+                "normalized": 0.22453692360230315
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7837232818973762,
+                "predicted": 0.7837232818973761,
                 "uncertainty": 0.01,
-                "normalized": -0.6276718102623868
+                "normalized": -0.6276718102623979
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.782740317531053,
+                "predicted": -0.7827404221105646,
                 "uncertainty": 0.01,
-                "normalized": 0.7259682468947037
+                "normalized": 0.7259577889435431
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479338,
+                "predicted": 0.0000753174082747961,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656508274
+                "normalized": -7.4782396565048685
               }
             ],
             "summary": "output low level -2.48 V -> -2.483 V, inside its class-typical spread: accounts for the measurements (χ² 5.66 for 5, other parts within their tolerances)"
@@ -2077,20 +2077,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "amplifier",
                 "unit": "s",
                 "nominal": 3e-7,
-                "estimate": 5.02242128224454e-7,
-                "standardDeviation": 2.7864365421535546e-7,
+                "estimate": 5.022508186304408e-7,
+                "standardDeviation": 2.786177008578186e-7,
                 "priorStandardDeviation": 1.44e-7,
-                "shift": 2.0224212822445397e-7,
-                "shiftInTolerances": 0.3888144768027322,
-                "posteriorToPriorSd": 1.3901154306414092,
+                "shift": 2.0225081863044086e-7,
+                "shiftInTolerances": 0.3888289284932368,
+                "posteriorToPriorSd": 1.3899740086242285,
                 "withinTolerance": true,
                 "fault": "off",
-                "text": "recovery delay 300 ns -> 502.2 ns, inside its class-typical spread"
+                "text": "recovery delay 300 ns -> 502.3 ns, inside its class-typical spread"
               }
             ],
-            "score": 0.014285491909886183,
-            "logEvidence": -12.388085790608411,
-            "residualChiSquare": 5.149646712911546,
+            "score": 0.014284072647722112,
+            "logEvidence": -12.388187530154653,
+            "residualChiSquare": 5.1496354753133184,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -2098,40 +2098,40 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10023.810727526534,
+                "predicted": 10023.808080602057,
                 "uncertainty": 5,
-                "normalized": 142.76214550530676
+                "normalized": 142.76161612041142
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002146271333834,
+                "predicted": 0.5002146271166724,
                 "uncertainty": 0.002,
-                "normalized": 0.10731356669169134
+                "normalized": 0.10731355833620837
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7882604486211028,
+                "predicted": 0.7882606433236237,
                 "uncertainty": 0.01,
-                "normalized": -0.17395513788972528
+                "normalized": -0.1739356676376369
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7862783607674892,
+                "predicted": -0.786278555698073,
                 "uncertainty": 0.01,
-                "normalized": 0.3721639232510787
+                "normalized": 0.37214443019270016
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827479662,
+                "predicted": 0.00007531740827478591,
                 "uncertainty": 8e-7,
-                "normalized": -7.4782396565042255
+                "normalized": -7.478239656517609
               }
             ],
-            "summary": "recovery delay 300 ns -> 502.2 ns, inside its class-typical spread: accounts for the measurements (χ² 5.15 for 5, other parts within their tolerances)"
+            "summary": "recovery delay 300 ns -> 502.3 ns, inside its class-typical spread: accounts for the measurements (χ² 5.15 for 5, other parts within their tolerances)"
           }
         ],
         "ambiguities": [],
@@ -2261,16 +2261,16 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "frequency-within-spec",
                 "severity": "info",
-                "message": "Worst-case frequency 6.546 kHz to 7.249 kHz lies inside the spec 6.3 kHz to 7.7 kHz",
+                "message": "Worst-case frequency 6.543 kHz to 7.252 kHz lies inside the spec 6.3 kHz to 7.7 kHz",
                 "figures": {
                   "specFrequencyHz": 7000,
                   "specLowHz": 6300,
                   "specHighHz": 7700.000000000001,
                   "nominalFrequencyHz": 6886.277756625088,
-                  "worstCaseMinHz": 6546.173244829773,
-                  "worstCaseMaxHz": 7248.958794638477,
-                  "method": "all-corners",
-                  "cornersEvaluated": 65,
+                  "worstCaseMinHz": 6543.341767734211,
+                  "worstCaseMaxHz": 7252.463169058929,
+                  "method": "sensitivity-guided",
+                  "cornersEvaluated": 217,
                   "latchedCorners": 0,
                   "model": "time-domain",
                   "modelEffects": "slew-rate, recovery-delay, current-limit"
@@ -2279,14 +2279,14 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "duty-within-spec",
                 "severity": "info",
-                "message": "Worst-case duty cycle 49.57 % to 50.48 % lies inside the spec 40 % to 60 %",
+                "message": "Worst-case duty cycle 49.56 % to 50.48 % lies inside the spec 40 % to 60 %",
                 "figures": {
                   "specDutyMin": 0.4,
                   "specDutyMax": 0.6,
                   "nominalDutyCycle": 0.5002174067074259,
-                  "worstCaseDutyMin": 0.4956584490974326,
-                  "worstCaseDutyMax": 0.5047814812680567,
-                  "method": "all-corners"
+                  "worstCaseDutyMin": 0.49564970425173294,
+                  "worstCaseDutyMax": 0.5047916258509799,
+                  "method": "sensitivity-guided"
                 }
               },
               {
@@ -2483,20 +2483,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "bias-derating-leaves-spec",
                 "severity": "error",
-                "message": "C1 (Y5V, 16 V, 0805) sees 1.68…3.33 V (20.8 % of its rating): over that swing a class-typical part keeps about 81.1 % of its marked 4.7 nF (3.813 nF), so the clock runs near 8.597 kHz instead of 6.886 kHz, outside the spec 6.3 kHz to 7.7 kHz (assuming a 0805 case: none stated)",
+                "message": "C1 (Y5V, 16 V, 0805) sees 1.67…3.34 V (20.8 % of its rating): over that swing a class-typical part keeps about 81.1 % of its marked 4.7 nF (3.812 nF), so the clock runs near 8.464 kHz instead of 6.886 kHz, outside the spec 6.3 kHz to 7.7 kHz (assuming a 0805 case: none stated)",
                 "figures": {
                   "dielectric": "Y5V",
                   "ratedVoltageV": 16,
                   "caseSize": "0805",
                   "curveBasis": "class-typical",
-                  "swingLowV": 1.675161735808347,
-                  "swingHighV": 3.326838975652531,
-                  "peakOverRatedFraction": 0.2079274359782832,
+                  "swingLowV": 1.6679829291564185,
+                  "swingHighV": 3.335614228685381,
+                  "peakOverRatedFraction": 0.2084758892928363,
                   "markedCapacitanceF": 4.7e-9,
-                  "effectiveCapacitanceF": 3.812669559128978e-9,
-                  "effectiveFraction": 0.8112062891763784,
+                  "effectiveCapacitanceF": 3.812382980249009e-9,
+                  "effectiveFraction": 0.8111453149465977,
                   "nominalFrequencyHz": 6886.277756625088,
-                  "deratedFrequencyHz": 8596.920246826692,
+                  "deratedFrequencyHz": 8463.938172007263,
                   "specLowHz": 6300,
                   "specHighHz": 7700.000000000001
                 },
@@ -2506,16 +2506,16 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "frequency-outside-spec",
                 "severity": "error",
-                "message": "Worst-case frequency 3.517 kHz to 42.76 kHz leaves the spec 6.3 kHz to 7.7 kHz (nominal 6.886 kHz)",
+                "message": "Worst-case frequency 4.265 kHz to 52.44 kHz leaves the spec 6.3 kHz to 7.7 kHz (nominal 8.464 kHz)",
                 "figures": {
                   "specFrequencyHz": 7000,
                   "specLowHz": 6300,
                   "specHighHz": 7700.000000000001,
-                  "nominalFrequencyHz": 6886.277756625088,
-                  "worstCaseMinHz": 3517.087265823932,
-                  "worstCaseMaxHz": 42755.82667228581,
-                  "method": "all-corners",
-                  "cornersEvaluated": 65,
+                  "nominalFrequencyHz": 8463.938172007265,
+                  "worstCaseMinHz": 4264.780204888277,
+                  "worstCaseMaxHz": 52443.230603819095,
+                  "method": "sensitivity-guided",
+                  "cornersEvaluated": 181,
                   "latchedCorners": 0,
                   "model": "time-domain",
                   "modelEffects": "slew-rate, recovery-delay, current-limit"
@@ -2568,9 +2568,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "code": "yield-below-minimum",
                 "severity": "error",
-                "message": "Monte Carlo yield 28.4 % (500 samples) is below the minimum 99 %",
+                "message": "Monte Carlo yield 25.8 % (500 samples) is below the minimum 99 %",
                 "figures": {
-                  "yield": 0.284,
+                  "yield": 0.258,
                   "minimumYield": 0.99,
                   "samples": 500,
                   "failedSamples": 0,
@@ -2611,7 +2611,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
-      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 5.024174\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.115919\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 5.140093\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
+      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 5.473911\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.13521\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 5.609121\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
     }
   },
   "GET /problems/{code}": {

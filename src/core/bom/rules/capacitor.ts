@@ -11,14 +11,14 @@
  * ground — and reports the steady-state peak beside it.
  */
 import { formatSi } from '../../circuit/format.ts';
-import type { StateSummary } from '../../circuit/result.ts';
+import type { AnalysisResult } from '../../circuit/result.ts';
 import {
   CASE_SIZES,
   DEFAULT_CASE_SIZE,
   DEFAULT_RATED_VOLTAGE_V,
-  deratedTiming,
   isBiasDependent,
   typicalBiasShape,
+  type BiasShape,
   type CaseSize,
 } from '../../parts/capacitor/index.ts';
 import { parseDielectric, timingDielectricVerdict, type Dielectric } from '../../parts/dielectric.ts';
@@ -99,39 +99,61 @@ export function voltageRatingRule(line: BomLineReading, v: CapacitorVoltages): B
   );
 }
 
-/**
- * bias-derating (warning) or bias-derating-leaves-spec (error): a class II/III
- * timing capacitor loses capacitance with the DC bias it actually sees. Over the
- * steady swing between the thresholds, the class-typical C(V) curve for its
- * dielectric, rating and case (docs/model.md; typical of the class, from memory)
- * gives the effective capacitance, and the non-linear piece of each state gives
- * the frequency the board will run at — judged against the spec band.
- */
-export function biasDeratingRule(
-  line: BomLineReading,
-  states: { high: StateSummary; low: StateSummary } | undefined,
-  nominalFrequencyHz: number | undefined,
-  spec: BomSpec,
-): BomRuleResult | undefined {
-  if (line.kind !== 'capacitor' || line.value === undefined || !states || nominalFrequencyHz === undefined) return undefined;
+/** The class-typical C(V) basis of a class II/III line: its dielectric, its rating and case, or the stated defaults. */
+function biasBasis(line: BomLineReading): { dielectric: Dielectric; ratedVoltageV: number; caseSize: CaseSize; shape: BiasShape } | undefined {
+  if (line.kind !== 'capacitor' || line.value === undefined) return undefined;
   const d = dielectricOf(line);
   if (!isBiasDependent(d)) return undefined;
   const caseSize: CaseSize = (CASE_SIZES as readonly string[]).includes(line.packageCode ?? '') ? (line.packageCode as CaseSize) : DEFAULT_CASE_SIZE;
   const ratedVoltageV = line.ratedVoltageV ?? DEFAULT_RATED_VOLTAGE_V;
-  const shape = typicalBiasShape(d, ratedVoltageV, caseSize);
-  const derated = deratedTiming(states, shape, line.value, line.value);
+  return { dielectric: d!, ratedVoltageV, caseSize, shape: typicalBiasShape(d, ratedVoltageV, caseSize) };
+}
+
+/**
+ * The C(V) curve the assembly's circuit carries for its timing capacitor line (class II/III:
+ * the class-typical curve for its dielectric, rating and case; undefined for a flat part), so that
+ * every analysis of the assembly — the nominal, the worst case, the Monte Carlo — runs the
+ * non-linear capacitor through the one model.
+ */
+export function timingCapacitorShape(line: BomLineReading): BiasShape | undefined {
+  return biasBasis(line)?.shape;
+}
+
+/**
+ * bias-derating (warning) or bias-derating-leaves-spec (error): a class II/III
+ * timing capacitor loses capacitance with the DC bias it actually sees. The
+ * nominal analysis of the assembly runs the class-typical C(V) curve for its
+ * dielectric, rating and case (docs/model.md; typical of the class, from
+ * memory); the rule reports the swing it sees, the effective capacitance over
+ * it and the frequency the board runs at — against the spec band and against
+ * the frequency the marked value would give (markedFrequencyHz, the same
+ * circuit with a flat capacitor).
+ */
+export function biasDeratingRule(
+  line: BomLineReading,
+  nominal: AnalysisResult | undefined,
+  markedFrequencyHz: number | undefined,
+  spec: BomSpec,
+): BomRuleResult | undefined {
+  const basis = biasBasis(line);
+  if (!basis || !nominal || markedFrequencyHz === undefined || line.value === undefined) return undefined;
+  const { dielectric: d, ratedVoltageV, caseSize } = basis;
+  const effectiveCapacitanceF = nominal.capacitor.effectiveCapacitanceF;
+  if (effectiveCapacitanceF === undefined) return undefined;
+  const deratedFrequencyHz = nominal.frequencyHz;
+  const effectiveFraction = effectiveCapacitanceF / line.value;
   const lowHz = spec.frequencyHz * (1 - spec.frequencyTolerance);
   const highHz = spec.frequencyHz * (1 + spec.frequencyTolerance);
-  const inside = derated.frequencyHz >= lowHz && derated.frequencyHz <= highHz;
-  const swingLowV = Math.min(states.low.switchingV, states.high.switchingV);
-  const swingHighV = Math.max(states.low.switchingV, states.high.switchingV);
+  const inside = deratedFrequencyHz >= lowHz && deratedFrequencyHz <= highHz;
+  const swingLowV = nominal.capacitor.minV;
+  const swingHighV = nominal.capacitor.maxV;
   const peakV = Math.max(Math.abs(swingLowV), Math.abs(swingHighV));
   const assumed = [
     line.ratedVoltageV === undefined ? `a ${DEFAULT_RATED_VOLTAGE_V} V rating` : '',
     caseSize !== line.packageCode ? `a ${DEFAULT_CASE_SIZE} case` : '',
   ].filter(Boolean);
   const figures = {
-    dielectric: d!.code,
+    dielectric: d.code,
     ratedVoltageV,
     caseSize,
     curveBasis: 'class-typical',
@@ -139,19 +161,19 @@ export function biasDeratingRule(
     swingHighV,
     peakOverRatedFraction: peakV / ratedVoltageV,
     markedCapacitanceF: line.value,
-    effectiveCapacitanceF: derated.effectiveCapacitanceF,
-    effectiveFraction: derated.effectiveFraction,
-    nominalFrequencyHz,
-    deratedFrequencyHz: derated.frequencyHz,
+    effectiveCapacitanceF,
+    effectiveFraction,
+    nominalFrequencyHz: markedFrequencyHz,
+    deratedFrequencyHz,
     specLowHz: lowHz,
     specHighHz: highHz,
   };
   const pct = (x: number) => `${Number((x * 100).toPrecision(3))} %`;
   const message =
-    `${line.refdes} (${d!.code}, ${ratedVoltageV} V, ${caseSize}) sees ${Number(swingLowV.toPrecision(3))}…${Number(swingHighV.toPrecision(3))} V ` +
-    `(${pct(peakV / ratedVoltageV)} of its rating): over that swing a class-typical part keeps about ${pct(derated.effectiveFraction)} of its marked ` +
-    `${formatSi(line.value, 'F')} (${formatSi(derated.effectiveCapacitanceF, 'F')}), so the clock runs near ${formatSi(derated.frequencyHz, 'Hz')} ` +
-    `instead of ${formatSi(nominalFrequencyHz, 'Hz')}` +
+    `${line.refdes} (${d.code}, ${ratedVoltageV} V, ${caseSize}) sees ${Number(swingLowV.toPrecision(3))}…${Number(swingHighV.toPrecision(3))} V ` +
+    `(${pct(peakV / ratedVoltageV)} of its rating): over that swing a class-typical part keeps about ${pct(effectiveFraction)} of its marked ` +
+    `${formatSi(line.value, 'F')} (${formatSi(effectiveCapacitanceF, 'F')}), so the clock runs near ${formatSi(deratedFrequencyHz, 'Hz')} ` +
+    `instead of ${formatSi(markedFrequencyHz, 'Hz')}` +
     (inside ? `, still inside the spec ${formatSi(lowHz, 'Hz')} to ${formatSi(highHz, 'Hz')}` : `, outside the spec ${formatSi(lowHz, 'Hz')} to ${formatSi(highHz, 'Hz')}`) +
     (assumed.length ? ` (assuming ${assumed.join(' and ')}: none stated)` : '');
   return ruleResult(inside ? BOM_RULES.biasDerating : BOM_RULES.biasDeratingLeavesSpec, message, figures, at(line));

@@ -7,4 +7,3 @@ export * from './insulation.ts';
 export { NonlinearCharge, chargeBetween, effectiveCapacitanceF, CHARGE_RELATIVE_TOLERANCE } from './charging.ts';
 export { integrateAdaptive, lastQuadratureError } from './quadrature.ts';
 export { ChebyshevPiece } from './chebyshev-piece.ts';
-export { deratedTiming, type DeratedTiming } from './derating.ts';
