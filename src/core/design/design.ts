@@ -136,7 +136,7 @@ export const DESIGN_REQUEST_RANGES = {
   count: { min: 1, max: 20 },
 } as const;
 /** Designs whose worst case and yield are computed before the final ranking (the best by nominal error). */
-const ROBUSTNESS_POOL = 6;
+const ROBUSTNESS_POOL = 16;
 /** Hysteresis widths tried, as fractions of the swing: the three-equal-resistor third first (textbook), then narrower. */
 export const HYSTERESIS_FRACTIONS: readonly number[] = [1 / 3, 1 / 5, 1 / 8];
 /** Duty cycles reachable by threshold placement alone (wider needs diode steering). */

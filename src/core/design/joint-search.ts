@@ -342,6 +342,49 @@ function rankEvaluated(a: { frequencyError: number; preference: number }, b: { f
   return Math.abs(a.frequencyError) - Math.abs(b.frequencyError) || a.preference - b.preference;
 }
 
+/** Full analyses a capacitor re-pick may add per analysed candidate (the two series neighbours of its ideal). */
+const REPICK_NEIGHBOURS = 2;
+
+/**
+ * The full model can move the period against the closed form by a factor that differs from one threshold
+ * network and resistor to the next (a conducting input clamp loads the network: measured factors from 0.3 to
+ * 0.9 on one request), so one correction for all leaves most candidates off target. At a fixed network and
+ * resistor every piece of the walk is linear in the capacitor's time scale (slew and delay aside, which are
+ * short against a period the design keeps them short against), so each analysed candidate's own period says
+ * which capacitor lands it on the target: C · f_analysed / f_target. Its series neighbours are analysed in full.
+ */
+function repickCapacitors(input: JointSearchInput, analysed: JointCandidate[], analysedKeys: Set<string>, stats: JointSearchStats, dutyOk: (d: number) => boolean): void {
+  const roles = findTopology(input.topology)!.design!.timing;
+  if (roles.kind !== 'shared' || input.timing.combine === 'capacitor') return;
+  const set = input.timing.capacitor;
+  const f = input.targetFrequencyHz;
+  const queue: { key: string; circuit: Circuit; parts: Record<string, RoleValue>; preference: number }[] = [];
+  for (const c of [...analysed]) {
+    const ideal = c.parts[roles.capacitor].value * (1 + c.frequencyError);
+    // First series value at or above the ideal, and the one below it.
+    let hi = 0;
+    while (hi < set.values.length && set.values[hi] < ideal) hi++;
+    for (let j = Math.max(0, hi - 1); j <= Math.min(set.values.length - 1, hi - 1 + REPICK_NEIGHBOURS - 1); j++) {
+      const parts = { ...c.parts, [roles.capacitor]: single(set, j) };
+      const key = partsKey(parts);
+      if (analysedKeys.has(key)) continue;
+      queue.push({ key, circuit: circuitFor(input, parts), parts, preference: c.preference });
+    }
+  }
+  analyseInRankOrder(queue, queue.length, analysedKeys, stats, (e, analysis) => {
+    if (!dutyOk(analysis.dutyCycle)) return;
+    analysed.push({
+      topology: input.topology,
+      parts: e.parts,
+      circuit: e.circuit,
+      analysis,
+      frequencyError: analysis.frequencyHz / f - 1,
+      dutyCycleError: input.targetDutyCycle === undefined ? null : analysis.dutyCycle - input.targetDutyCycle,
+      preference: e.preference,
+    });
+  });
+}
+
 export function jointSearch(request: JointSearchInput): JointSearchResult {
   const def = findTopology(request.topology);
   // Answers carry the current id even when the request named a deprecated alias.
@@ -458,6 +501,7 @@ export function jointSearch(request: JointSearchInput): JointSearchResult {
     ratios.sort((a, b) => a - b);
     const ratio = ratios[ratios.length >> 1];
     if (Math.abs(ratio - 1) > 1e-4) pass(1 / (f * ratio));
+    repickCapacitors(input, analysed, analysedKeys, stats, dutyOk);
   }
   analysed.sort(rankEvaluated);
   return { candidates: analysed.slice(0, input.count), stats };
