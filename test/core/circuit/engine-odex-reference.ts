@@ -57,15 +57,18 @@ export interface ReferenceResult {
   cycles: number;
   rhsEvaluations: number;
   /** Uniform samples from the steady state on (when options.sample asked for them). */
-  samples?: { capacitorV: Float64Array; outputV: Float64Array };
+  samples?: { capacitorV: Float64Array; outputV: Float64Array; intervalS: number };
 }
 
 export interface ReferenceOptions {
   initialState?: 'high' | 'low';
   tolerance?: number;
   maxCycles?: number;
-  /** Also sample the capacitor and the output pin on a uniform grid from the steady state on (synthetic scope records). */
-  sample?: { intervalS: number; count: number };
+  /**
+   * Also sample the capacitor and the output pin on a uniform grid from the steady state on (synthetic
+   * scope records): a given interval and count, or so many samples per period over so many periods.
+   */
+  sample?: { intervalS: number; count: number } | { perPeriod: number; periods: number };
 }
 
 type Stage = 'driven' | 'released' | 'limSrc' | 'limSnk';
@@ -313,7 +316,9 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   };
 
   const maxCycles = options.maxCycles ?? 300;
-  const recording = options.sample;
+  // A grid per period is laid once the period is known (at the steady-state instant).
+  const perPeriod = options.sample && 'perPeriod' in options.sample ? options.sample : undefined;
+  const recording = options.sample && 'intervalS' in options.sample ? { ...options.sample } : perPeriod ? { intervalS: Number.NaN, count: perPeriod.perPeriod * perPeriod.periods } : undefined;
   let sampleStart = Number.NaN;
   let recorded = 0;
   const sampledCap = new Float64Array(recording?.count ?? 0);
@@ -465,6 +470,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
         }
         converged = n;
         sampleStart = t;
+        if (perPeriod) recording!.intervalS = p1 / perPeriod.perPeriod;
         observer = { mid: 0.5 * (hiLevel + loLevel), rise: NaN, fall: NaN, prev: NaN, hi: hiLevel, lo: loLevel, meanHi: hiI / hiT, meanLo: loI / loT };
       }
     }
@@ -474,7 +480,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
       const high = ((((observer.fall - observer.rise) % periodS) + periodS) % periodS) / periodS;
       const o = observer;
       const result: ReferenceResult = { periodS, dutyCycle: high, upperV, lowerV: risingV[m - 1], highV: o.hi, lowV: o.lo, meanHighV: o.meanHi, meanLowV: o.meanLo, cycles: m, rhsEvaluations: evals };
-      if (recording) result.samples = { capacitorV: sampledCap, outputV: sampledPin };
+      if (recording) result.samples = { capacitorV: sampledCap, outputV: sampledPin, intervalS: recording.intervalS };
       return result;
     }
   }

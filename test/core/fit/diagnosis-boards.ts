@@ -124,25 +124,20 @@ export interface BoardRecord {
 
 /**
  * The board's scope record by the odex reference, made once per board (every
- * channel set is cut from it): a cheap first run finds the period, the second
- * samples PERIODS periods from the steady state on. Undefined when the faulty
- * board does not oscillate (nothing to capture).
+ * channel set is cut from it): SAMPLES_PER_PERIOD samples per period over
+ * PERIODS periods from the steady state on. Undefined when the faulty board
+ * does not oscillate (nothing to capture).
  */
 export function boardRecord(board: Board): BoardRecord | undefined {
-  const probe = (() => {
-    try {
-      // Only the sample interval depends on it: a loose tolerance does.
-      return referenceOscillation(board.truth, { tolerance: 1e-7 });
-    } catch {
-      return undefined;
-    }
-  })();
-  if (!probe || !(probe.periodS > 0)) return undefined;
-  const count = PERIODS * SAMPLES_PER_PERIOD;
-  const intervalS = probe.periodS / SAMPLES_PER_PERIOD;
-  // 1e-8 of the span: far below the added noise (1e-3) and the 8-bit step.
-  const run = referenceOscillation(board.truth, { tolerance: 1e-8, maxCycles: 400, sample: { intervalS, count } });
-  return { intervalS, outputV: run.samples!.outputV, capacitorV: run.samples!.capacitorV };
+  let run;
+  try {
+    // 1e-8 of the span: far below the added noise (1e-3) and the 8-bit step.
+    run = referenceOscillation(board.truth, { tolerance: 1e-8, maxCycles: 400, sample: { perPeriod: SAMPLES_PER_PERIOD, periods: PERIODS } });
+  } catch {
+    return undefined; // latched: nothing to capture
+  }
+  if (!(run.periodS > 0)) return undefined;
+  return { intervalS: run.samples!.intervalS, outputV: run.samples!.outputV, capacitorV: run.samples!.capacitorV };
 }
 
 /**
@@ -177,6 +172,8 @@ const rolesOf = (e: FitReport['diagnosis']['explanations'][number]) => e.causes.
 
 export interface Verdict {
   faulty: boolean;
+  /** A faulty board whose record departs from the nominal circuit allowing every tolerance (the service's verdict). */
+  detected: boolean;
   top1: boolean;
   top3: boolean;
   falseAlarm: boolean;
@@ -187,12 +184,14 @@ export interface Verdict {
  * explanations names a role at fault; when the service declares the leading
  * hypotheses indistinguishable, any of them counts (the issue's rule).
  * An in-tolerance board is a false alarm when the verdict says it departs.
+ * A faulty board whose record the verdict finds within the tolerance spread is
+ * not detected: its channels cannot tell the fault from parts in tolerance.
  */
 export function score(board: Board, report: FitReport): Verdict {
   const faulty = board.faultRoles.length > 0;
-  if (!faulty) return { faulty, top1: false, top3: false, falseAlarm: !report.diagnosis.verdict.agreesWithNominal };
+  if (!faulty) return { faulty, detected: false, top1: false, top3: false, falseAlarm: !report.diagnosis.verdict.agreesWithNominal };
   const names = (k: number) => report.diagnosis.explanations.slice(0, k).some((e) => rolesOf(e).some((r) => board.faultRoles.includes(r)));
   const ambiguous = report.diagnosis.ambiguities.some((a) => a.hypotheses.some((h) => board.faultRoles.some((r) => h.includes(r))));
   const leaderIsFault = !report.diagnosis.verdict.agreesWithNominal;
-  return { faulty, top1: leaderIsFault && (names(1) || ambiguous), top3: names(3) || ambiguous, falseAlarm: false };
+  return { faulty, detected: leaderIsFault, top1: leaderIsFault && (names(1) || ambiguous), top3: names(3) || ambiguous, falseAlarm: false };
 }

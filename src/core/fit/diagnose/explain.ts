@@ -121,6 +121,13 @@ const PAIR_POOL = 6;
 const NUISANCE_STEP = 0.3;
 /** A hypothesis counts as a contender at this share of the leader's posterior (our choice). */
 const CONTENDER_SHARE = 0.2;
+/**
+ * A hypothesis that fits the measurements as well as the leader (residual χ²
+ * at most this much above it) is a contender too, whatever its prior: a sharp
+ * wrong-part hypothesis can outscore a part that is off by the same amount on
+ * priors and Occam factors alone, and then only another measurement decides.
+ */
+const CONTENDER_CHI_SQUARE = 1;
 /** Predictions closer than this on every measured figure, in σ, cannot be told apart (our choice). */
 const SEPARABLE_SIGMA = 1;
 const LN_GOF_CAP = Math.log(1000);
@@ -287,7 +294,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   // Contenders the measured figures cannot separate from the leader.
   const ambiguities: Ambiguity[] = [];
   const leader = listed.reduce((a, b) => (b.logEvidence > a.logEvidence ? b : a));
-  const contenders = listed.filter((s) => s !== leader && posterior(s) >= CONTENDER_SHARE * posterior(leader));
+  const contenders = listed.filter((s) => s !== leader && (posterior(s) >= CONTENDER_SHARE * posterior(leader) || (leader.h.kind !== 'nominal' && s.passes && s.chiSquare <= leader.chiSquare + CONTENDER_CHI_SQUARE)));
   if (contenders.length > 0) {
     // Distance of two hypotheses' predictions on the measured figures, in σ, the in-tolerance
     // spread of the other effects allowed for (whitened by the same covariance as the evidence).
