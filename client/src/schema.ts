@@ -3698,6 +3698,7 @@ export interface components {
             dielectric: string;
         };
         ToleranceRequest: {
+            /** @description The nominal circuit, as a POST /v1/analyze body */
             circuit: components["schemas"]["Circuit"];
             /** @description Per-part tolerance by role, fraction. Parts not listed are exact. */
             tolerances: {
@@ -3722,14 +3723,23 @@ export interface components {
             };
             /** @description Temperature behaviour by role */
             temperatureCoefficients?: {
+                /** @description Temperature behaviour of rTiming over `temperature` (absent: its value does not change with temperature) */
                 rTiming?: components["schemas"]["TemperatureCoefficient"];
+                /** @description Temperature behaviour of cTiming over `temperature` (absent: its value does not change with temperature) */
                 cTiming?: components["schemas"]["TemperatureCoefficient"];
+                /** @description Temperature behaviour of rTop over `temperature` (absent: its value does not change with temperature) */
                 rTop?: components["schemas"]["TemperatureCoefficient"];
+                /** @description Temperature behaviour of rBottom over `temperature` (absent: its value does not change with temperature) */
                 rBottom?: components["schemas"]["TemperatureCoefficient"];
+                /** @description Temperature behaviour of rFeedback over `temperature` (absent: its value does not change with temperature) */
                 rFeedback?: components["schemas"]["TemperatureCoefficient"];
+                /** @description Temperature behaviour of rGround over `temperature` (absent: its value does not change with temperature) */
                 rGround?: components["schemas"]["TemperatureCoefficient"];
+                /** @description Temperature behaviour of rCharge over `temperature` (absent: its value does not change with temperature) */
                 rCharge?: components["schemas"]["TemperatureCoefficient"];
+                /** @description Temperature behaviour of rDischarge over `temperature` (absent: its value does not change with temperature) */
                 rDischarge?: components["schemas"]["TemperatureCoefficient"];
+                /** @description Temperature behaviour of rPullup over `temperature` (absent: its value does not change with temperature) */
                 rPullup?: components["schemas"]["TemperatureCoefficient"];
             };
             /** @description Temperature range; Monte Carlo draws it uniformly, corners take its ends */
@@ -3790,7 +3800,9 @@ export interface components {
                 frequencyHz: number;
                 /** @description Allowed deviation from frequencyHz, fraction */
                 frequencyTolerance: number;
+                /** @description Lowest allowed duty cycle, fraction of the period high (absent: no lower duty limit) */
                 dutyMin?: number;
+                /** @description Highest allowed duty cycle, fraction of the period high (absent: no upper duty limit) */
                 dutyMax?: number;
             };
             /** @description Bars of the SVG histogram (default 60) */
@@ -3798,22 +3810,36 @@ export interface components {
         };
         /** @description Percentiles (Hyndman & Fan definition 7), mean, std, extremes */
         DistributionSummary: {
+            /** @description 0.1th percentile, in the unit of the summarised figure (Hz, or a fraction for duty) */
             p0_1: number;
+            /** @description 1st percentile */
             p1: number;
+            /** @description 5th percentile */
             p5: number;
+            /** @description Median */
             p50: number;
+            /** @description 95th percentile */
             p95: number;
+            /** @description 99th percentile */
             p99: number;
+            /** @description 99.9th percentile */
             p99_9: number;
+            /** @description Arithmetic mean of the oscillating samples */
             mean: number;
             /** @description Sample standard deviation (n − 1) */
             std: number;
+            /** @description Smallest sample */
             min: number;
+            /** @description Largest sample */
             max: number;
         };
+        /** @description One corner of the variation box and what the circuit does there */
         ToleranceCorner: {
+            /** @description Frequency at this corner, Hz */
             frequencyHz: number;
+            /** @description Duty cycle at this corner, fraction of the period high */
             dutyCycle: number;
+            /** @description Board temperature at this corner, °C (null: no temperature range given) */
             temperatureC: number | null;
             /** @description Value of every varied parameter at the corner, SI units */
             values: {
@@ -3824,65 +3850,101 @@ export interface components {
                 [key: string]: number;
             };
         };
+        /** @description Worst case, Monte Carlo, sensitivities and the variance budget of one circuit */
         ToleranceResult: {
+            /** @description Topology id of the analysed circuit */
             topology: string;
             /** @description Which model evaluated every point */
             model: "closed-form" | "time-domain";
             /** @description Amplifier effects included in the model that produced this answer (empty: the closed-form special case) */
             modelEffects: ("slew-rate" | "recovery-delay" | "current-limit" | "input-clamp")[];
+            /** @description The circuit with nothing varied */
             nominal: {
+                /** @description Frequency with every part at its nominal value, 25 °C, Hz */
                 frequencyHz: number;
+                /** @description Duty cycle at nominal, fraction of the period high */
                 dutyCycle: number;
             };
+            /** @description Extremes over the corners of every tolerance, temperature, supply and amplifier spread */
             worstCase: {
+                /** @description Lowest frequency found over the corners, Hz */
                 frequencyMinHz: number;
+                /** @description Highest frequency found over the corners, Hz */
                 frequencyMaxHz: number;
+                /** @description Lowest duty cycle found over the corners */
                 dutyMin: number;
+                /** @description Highest duty cycle found over the corners */
                 dutyMax: number;
+                /** @description all-corners: every corner of the box (up to 14 varied parameters with the closed form, 7 with the time-domain model); sensitivity-guided beyond that: corners chosen from one-at-a-time effects, then improved by ascent */
                 method: "all-corners" | "sensitivity-guided";
+                /** @description Circuits evaluated to find the extremes */
                 cornersEvaluated: number;
                 /** @description Corners at which the circuit does not oscillate */
                 latchedCorners: number;
                 /** @description The corner that produced each extreme */
                 corners: {
+                    /** @description The corner with the lowest frequency */
                     frequencyMin: components["schemas"]["ToleranceCorner"];
+                    /** @description The corner with the highest frequency */
                     frequencyMax: components["schemas"]["ToleranceCorner"];
+                    /** @description The corner with the lowest duty cycle */
                     dutyMin: components["schemas"]["ToleranceCorner"];
+                    /** @description The corner with the highest duty cycle */
                     dutyMax: components["schemas"]["ToleranceCorner"];
                 };
                 /** @description Every corner meets the spec (null without a spec) */
                 withinSpec: boolean | null;
             };
+            /** @description Monte Carlo over every spread (settings from the request, or the defaults) */
             monteCarlo: {
+                /** @description Samples drawn */
                 samples: number;
+                /** @description Seed used; the same seed and request give the same figures */
                 seed: number;
+                /** @description Distribution the spreads were drawn from */
                 distribution: "uniform" | "normal";
+                /** @description σ as a fraction of each tolerance (null: uniform distribution) */
                 sigmaPerTolerance: number | null;
+                /** @description Samples that oscillate */
                 oscillating: number;
+                /** @description Samples that do not oscillate (they count as failing the spec) */
                 latched: number;
+                /** @description Distribution of the frequency over the oscillating samples, Hz (null: none oscillates) */
                 frequencyHz: components["schemas"]["DistributionSummary"] | null;
+                /** @description Distribution of the duty cycle over the oscillating samples (null: none oscillates) */
                 dutyCycle: components["schemas"]["DistributionSummary"] | null;
                 /** @description Fraction of samples inside the spec (latched samples fail); null without a spec */
                 yield: number | null;
+                /** @description How the yield splits (null without a spec) */
                 yieldDetail: {
+                    /** @description Samples inside the spec */
                     passing: number;
+                    /** @description Samples outside the spec, latched ones included */
                     failing: number;
+                    /** @description Binomial standard error of the yield, √(y(1 − y)/samples) */
                     standardError: number;
                     /** @description Wilson score interval */
                     interval95: {
+                        /** @description Lower end of the 95 % interval, fraction */
                         low: number;
+                        /** @description Upper end of the 95 % interval, fraction */
                         high: number;
                     };
+                    /** @description Fraction of samples inside the frequency tolerance alone */
                     frequencyPassFraction: number;
+                    /** @description Fraction of samples inside the duty limits alone (1 without duty limits) */
                     dutyPassFraction: number;
                 } | null;
+                /** @description Wall time of the sampling, s (varies with the machine and its load) */
                 elapsedS: number;
+                /** @description samples / elapsedS */
                 samplesPerSecond: number;
             };
             /** @description Ranked by |sensitivity| */
             sensitivities: {
                 /** @description Part role, or the supply/amplifier/diode parameter name (diodeForwardDropV: the steering diodes' forward drop) */
                 role: string;
+                /** @description What the parameter belongs to */
                 kind: "resistor" | "capacitor" | "supply" | "amplifier" | "load" | "diode";
                 /** @description d ln f / d ln x at nominal */
                 sensitivity: number;
@@ -3893,21 +3955,33 @@ export interface components {
             }[];
             /** @description First-order variance budget of ln f by independent source, largest first */
             varianceSources: {
+                /** @description The role, tracking group or parameter the variation comes from */
                 source: string;
+                /** @description What kind of variation it is */
                 kind: "part-tolerance" | "tracking" | "tracking-residual" | "temperature" | "tempco-spread" | "dielectric-band" | "supply" | "amplifier" | "ageing";
+                /** @description First-order share of the variance of ln f, 0..1 */
                 share: number;
+                /** @description First-order contribution to the relative standard deviation of f, fraction */
                 relativeStd: number;
             }[];
+            /** @description First-order (linear) spread estimate, to compare with the Monte Carlo figures */
             linearEstimate: {
                 /** @description Root sum of squares of the sources, fraction */
                 frequencyRelativeStd: number;
             };
+            /** @description How each part with a temperature behaviour was modelled */
             temperatureModels: {
+                /** @description The part role */
                 role: string;
+                /** @description tempco: a linear coefficient; dielectric: the change band of an EIA-198 code or technology */
                 model: "tempco" | "dielectric";
+                /** @description The dielectric code or technology (null for a tempco) */
                 dielectric: string | null;
+                /** @description Lowest relative change of the value over the temperature range and its spread, fraction (negative: the value falls) */
                 changeMinFraction: number;
+                /** @description Highest relative change of the value over the temperature range and its spread, fraction */
                 changeMaxFraction: number;
+                /** @description false: the temperature range leaves the dielectric's rated range (a note says so) */
                 withinRatedRange: boolean;
             }[];
             /** @description Active parts that follow the board temperature at every corner and Monte Carlo sample (with a temperature range): amplifier offset, bias current, headroom and delay drift, the steering diodes' forward drop */
@@ -3940,8 +4014,11 @@ export interface components {
                 /** @description Capacitance change over the service life, fraction (negative: loss) */
                 changeFraction: number;
             } | null;
+            /** @description Things the caller should know about how the request was read (no effect, latching, ranges left) */
             notes: {
+                /** @description Stable code, e.g. corners-latch, samples-latch, nothing-varies, spread-without-effect, ageing-not-included */
                 code: string;
+                /** @description What the note means for this request, in words with the figures */
                 message: string;
             }[];
         };

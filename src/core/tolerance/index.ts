@@ -5,3 +5,4 @@ export type { PartialToleranceRun, ToleranceParts, ToleranceRun, ToleranceRunOpt
 export { Xoshiro128 } from './prng.ts';
 export { DEFAULT_SIGMA_PER_TOLERANCE } from './monte-carlo.ts';
 export { REFERENCE_TEMPERATURE_C } from './variation-model.ts';
+export { MAX_EXHAUSTIVE_DIMENSIONS } from './worst-case.ts';

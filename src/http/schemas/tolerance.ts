@@ -2,7 +2,7 @@
 import { ModelEffects } from './analysis.ts';
 import { Type, type Static } from 'typebox';
 import { TOPOLOGIES } from '../../core/index.ts';
-import { AMPLIFIER_SPREAD_FIELDS, MAX_HISTOGRAM_BINS, SERVICE_LIFE_LIMIT_YEARS } from '../../core/tolerance/index.ts';
+import { AMPLIFIER_SPREAD_FIELDS, MAX_EXHAUSTIVE_DIMENSIONS, MAX_HISTOGRAM_BINS, SERVICE_LIFE_LIMIT_YEARS } from '../../core/tolerance/index.ts';
 import { Circuit } from './circuit.ts';
 import { FrequencyHz, ref } from './common.ts';
 
@@ -10,8 +10,8 @@ const Fraction = (description: string) => Type.Number({ minimum: 0, exclusiveMax
 
 const ROLES = [...new Set(TOPOLOGIES.flatMap((t) => Object.keys(t.roles)))];
 
-function byRole<T extends Parameters<typeof Type.Optional>[0]>(schema: () => T) {
-  return Object.fromEntries(ROLES.map((role) => [role, Type.Optional(schema())]));
+function byRole<T extends Parameters<typeof Type.Optional>[0]>(schema: (role: string) => T) {
+  return Object.fromEntries(ROLES.map((role) => [role, Type.Optional(schema(role))]));
 }
 
 export const TemperatureCoefficient = Type.Union(
@@ -40,13 +40,16 @@ export const TemperatureCoefficient = Type.Union(
 
 export const ToleranceRequest = Type.Object(
   {
-    circuit: ref(Circuit),
+    circuit: ref(Circuit, 'The nominal circuit, as a POST /v1/analyze body'),
     tolerances: Type.Object(byRole(() => Fraction('Tolerance of this part, fraction (0.01 = 1 %)')), {
       additionalProperties: false,
       description: 'Per-part tolerance by role, fraction. Parts not listed are exact.',
     }),
     temperatureCoefficients: Type.Optional(
-      Type.Object(byRole(() => ref(TemperatureCoefficient)), { additionalProperties: false, description: 'Temperature behaviour by role' }),
+      Type.Object(
+        byRole((role) => ref(TemperatureCoefficient, `Temperature behaviour of ${role} over \`temperature\` (absent: its value does not change with temperature)`)),
+        { additionalProperties: false, description: 'Temperature behaviour by role' },
+      ),
     ),
     temperature: Type.Optional(
       Type.Object(
@@ -114,8 +117,8 @@ export const ToleranceRequest = Type.Object(
         {
           frequencyHz: FrequencyHz('Target frequency, Hz'),
           frequencyTolerance: Fraction('Allowed deviation from frequencyHz, fraction'),
-          dutyMin: Type.Optional(Type.Number({ minimum: 0, maximum: 1 })),
-          dutyMax: Type.Optional(Type.Number({ minimum: 0, maximum: 1 })),
+          dutyMin: Type.Optional(Type.Number({ minimum: 0, maximum: 1, description: 'Lowest allowed duty cycle, fraction of the period high (absent: no lower duty limit)' })),
+          dutyMax: Type.Optional(Type.Number({ minimum: 0, maximum: 1, description: 'Highest allowed duty cycle, fraction of the period high (absent: no upper duty limit)' })),
         },
         { additionalProperties: false, description: 'Spec the yield is counted against' },
       ),
@@ -129,17 +132,17 @@ export type ToleranceRequestBody = Static<typeof ToleranceRequest>;
 
 const Summary = Type.Object(
   {
-    p0_1: Type.Number(),
-    p1: Type.Number(),
-    p5: Type.Number(),
-    p50: Type.Number(),
-    p95: Type.Number(),
-    p99: Type.Number(),
-    p99_9: Type.Number(),
-    mean: Type.Number(),
+    p0_1: Type.Number({ description: '0.1th percentile, in the unit of the summarised figure (Hz, or a fraction for duty)' }),
+    p1: Type.Number({ description: '1st percentile' }),
+    p5: Type.Number({ description: '5th percentile' }),
+    p50: Type.Number({ description: 'Median' }),
+    p95: Type.Number({ description: '95th percentile' }),
+    p99: Type.Number({ description: '99th percentile' }),
+    p99_9: Type.Number({ description: '99.9th percentile' }),
+    mean: Type.Number({ description: 'Arithmetic mean of the oscillating samples' }),
     std: Type.Number({ description: 'Sample standard deviation (n − 1)' }),
-    min: Type.Number(),
-    max: Type.Number(),
+    min: Type.Number({ description: 'Smallest sample' }),
+    max: Type.Number({ description: 'Largest sample' }),
   },
   { $id: 'DistributionSummary', additionalProperties: false, description: 'Percentiles (Hyndman & Fan definition 7), mean, std, extremes' },
 );
@@ -148,73 +151,94 @@ const NumberMap = (description: string) => Type.Object({}, { additionalPropertie
 
 const Corner = Type.Object(
   {
-    frequencyHz: Type.Number(),
-    dutyCycle: Type.Number(),
-    temperatureC: Type.Union([Type.Number(), Type.Null()]),
+    frequencyHz: Type.Number({ description: 'Frequency at this corner, Hz' }),
+    dutyCycle: Type.Number({ description: 'Duty cycle at this corner, fraction of the period high' }),
+    temperatureC: Type.Union([Type.Number(), Type.Null()], { description: 'Board temperature at this corner, °C (null: no temperature range given)' }),
     values: NumberMap('Value of every varied parameter at the corner, SI units'),
     deviations: NumberMap('Relative change of each varied parameter against nominal'),
   },
-  { $id: 'ToleranceCorner', additionalProperties: false },
+  { $id: 'ToleranceCorner', additionalProperties: false, description: 'One corner of the variation box and what the circuit does there' },
 );
 
 export const ToleranceResult = Type.Object(
   {
-    topology: Type.String(),
+    topology: Type.String({ description: 'Topology id of the analysed circuit' }),
     model: Type.Union([Type.Literal('closed-form'), Type.Literal('time-domain')], { description: 'Which model evaluated every point' }),
     modelEffects: ModelEffects,
-    nominal: Type.Object({ frequencyHz: Type.Number(), dutyCycle: Type.Number() }, { additionalProperties: false }),
+    nominal: Type.Object(
+      {
+        frequencyHz: Type.Number({ description: 'Frequency with every part at its nominal value, 25 °C, Hz' }),
+        dutyCycle: Type.Number({ description: 'Duty cycle at nominal, fraction of the period high' }),
+      },
+      { additionalProperties: false, description: 'The circuit with nothing varied' },
+    ),
     worstCase: Type.Object(
       {
-        frequencyMinHz: Type.Number(),
-        frequencyMaxHz: Type.Number(),
-        dutyMin: Type.Number(),
-        dutyMax: Type.Number(),
-        method: Type.Union([Type.Literal('all-corners'), Type.Literal('sensitivity-guided')]),
-        cornersEvaluated: Type.Integer(),
+        frequencyMinHz: Type.Number({ description: 'Lowest frequency found over the corners, Hz' }),
+        frequencyMaxHz: Type.Number({ description: 'Highest frequency found over the corners, Hz' }),
+        dutyMin: Type.Number({ description: 'Lowest duty cycle found over the corners' }),
+        dutyMax: Type.Number({ description: 'Highest duty cycle found over the corners' }),
+        method: Type.Union([Type.Literal('all-corners'), Type.Literal('sensitivity-guided')], {
+          description: `all-corners: every corner of the box (up to ${MAX_EXHAUSTIVE_DIMENSIONS['closed-form']} varied parameters with the closed form, ${MAX_EXHAUSTIVE_DIMENSIONS['time-domain']} with the time-domain model); sensitivity-guided beyond that: corners chosen from one-at-a-time effects, then improved by ascent`,
+        }),
+        cornersEvaluated: Type.Integer({ description: 'Circuits evaluated to find the extremes' }),
         latchedCorners: Type.Integer({ description: 'Corners at which the circuit does not oscillate' }),
         corners: Type.Object(
-          { frequencyMin: ref(Corner), frequencyMax: ref(Corner), dutyMin: ref(Corner), dutyMax: ref(Corner) },
+          {
+            frequencyMin: ref(Corner, 'The corner with the lowest frequency'),
+            frequencyMax: ref(Corner, 'The corner with the highest frequency'),
+            dutyMin: ref(Corner, 'The corner with the lowest duty cycle'),
+            dutyMax: ref(Corner, 'The corner with the highest duty cycle'),
+          },
           { additionalProperties: false, description: 'The corner that produced each extreme' },
         ),
         withinSpec: Type.Union([Type.Boolean(), Type.Null()], { description: 'Every corner meets the spec (null without a spec)' }),
       },
-      { additionalProperties: false },
+      { additionalProperties: false, description: 'Extremes over the corners of every tolerance, temperature, supply and amplifier spread' },
     ),
     monteCarlo: Type.Object(
       {
-        samples: Type.Integer(),
-        seed: Type.Integer(),
-        distribution: Type.Union([Type.Literal('uniform'), Type.Literal('normal')]),
-        sigmaPerTolerance: Type.Union([Type.Number(), Type.Null()]),
-        oscillating: Type.Integer(),
-        latched: Type.Integer(),
-        frequencyHz: Type.Union([ref(Summary), Type.Null()]),
-        dutyCycle: Type.Union([ref(Summary), Type.Null()]),
+        samples: Type.Integer({ description: 'Samples drawn' }),
+        seed: Type.Integer({ description: 'Seed used; the same seed and request give the same figures' }),
+        distribution: Type.Union([Type.Literal('uniform'), Type.Literal('normal')], { description: 'Distribution the spreads were drawn from' }),
+        sigmaPerTolerance: Type.Union([Type.Number(), Type.Null()], { description: 'σ as a fraction of each tolerance (null: uniform distribution)' }),
+        oscillating: Type.Integer({ description: 'Samples that oscillate' }),
+        latched: Type.Integer({ description: 'Samples that do not oscillate (they count as failing the spec)' }),
+        frequencyHz: Type.Union([ref(Summary), Type.Null()], { description: 'Distribution of the frequency over the oscillating samples, Hz (null: none oscillates)' }),
+        dutyCycle: Type.Union([ref(Summary), Type.Null()], { description: 'Distribution of the duty cycle over the oscillating samples (null: none oscillates)' }),
         yield: Type.Union([Type.Number(), Type.Null()], { description: 'Fraction of samples inside the spec (latched samples fail); null without a spec' }),
         yieldDetail: Type.Union([
           Type.Object(
             {
-              passing: Type.Integer(),
-              failing: Type.Integer(),
-              standardError: Type.Number(),
-              interval95: Type.Object({ low: Type.Number(), high: Type.Number() }, { additionalProperties: false, description: 'Wilson score interval' }),
-              frequencyPassFraction: Type.Number(),
-              dutyPassFraction: Type.Number(),
+              passing: Type.Integer({ description: 'Samples inside the spec' }),
+              failing: Type.Integer({ description: 'Samples outside the spec, latched ones included' }),
+              standardError: Type.Number({ description: 'Binomial standard error of the yield, √(y(1 − y)/samples)' }),
+              interval95: Type.Object(
+                {
+                  low: Type.Number({ description: 'Lower end of the 95 % interval, fraction' }),
+                  high: Type.Number({ description: 'Upper end of the 95 % interval, fraction' }),
+                },
+                { additionalProperties: false, description: 'Wilson score interval' },
+              ),
+              frequencyPassFraction: Type.Number({ description: 'Fraction of samples inside the frequency tolerance alone' }),
+              dutyPassFraction: Type.Number({ description: 'Fraction of samples inside the duty limits alone (1 without duty limits)' }),
             },
             { additionalProperties: false },
           ),
           Type.Null(),
-        ]),
-        elapsedS: Type.Number(),
-        samplesPerSecond: Type.Number(),
+        ], { description: 'How the yield splits (null without a spec)' }),
+        elapsedS: Type.Number({ description: 'Wall time of the sampling, s (varies with the machine and its load)' }),
+        samplesPerSecond: Type.Number({ description: 'samples / elapsedS' }),
       },
-      { additionalProperties: false },
+      { additionalProperties: false, description: 'Monte Carlo over every spread (settings from the request, or the defaults)' },
     ),
     sensitivities: Type.Array(
       Type.Object(
         {
           role: Type.String({ description: 'Part role, or the supply/amplifier/diode parameter name (diodeForwardDropV: the steering diodes\' forward drop)' }),
-          kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor'), Type.Literal('supply'), Type.Literal('amplifier'), Type.Literal('load'), Type.Literal('diode')]),
+          kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor'), Type.Literal('supply'), Type.Literal('amplifier'), Type.Literal('load'), Type.Literal('diode')], {
+            description: 'What the parameter belongs to',
+          }),
           sensitivity: Type.Number({ description: 'd ln f / d ln x at nominal' }),
           dutySensitivity: Type.Number({ description: 'd(duty) / d ln x at nominal' }),
           varianceShare: Type.Number({ description: "Share of the first-order variance of ln f from this part's own variations" }),
@@ -226,7 +250,7 @@ export const ToleranceResult = Type.Object(
     varianceSources: Type.Array(
       Type.Object(
         {
-          source: Type.String(),
+          source: Type.String({ description: 'The role, tracking group or parameter the variation comes from' }),
           kind: Type.Union([
             Type.Literal('part-tolerance'),
             Type.Literal('tracking'),
@@ -237,9 +261,9 @@ export const ToleranceResult = Type.Object(
             Type.Literal('supply'),
             Type.Literal('amplifier'),
             Type.Literal('ageing'),
-          ]),
-          share: Type.Number(),
-          relativeStd: Type.Number(),
+          ], { description: 'What kind of variation it is' }),
+          share: Type.Number({ description: 'First-order share of the variance of ln f, 0..1' }),
+          relativeStd: Type.Number({ description: 'First-order contribution to the relative standard deviation of f, fraction' }),
         },
         { additionalProperties: false },
       ),
@@ -247,20 +271,21 @@ export const ToleranceResult = Type.Object(
     ),
     linearEstimate: Type.Object(
       { frequencyRelativeStd: Type.Number({ description: 'Root sum of squares of the sources, fraction' }) },
-      { additionalProperties: false },
+      { additionalProperties: false, description: 'First-order (linear) spread estimate, to compare with the Monte Carlo figures' },
     ),
     temperatureModels: Type.Array(
       Type.Object(
         {
-          role: Type.String(),
-          model: Type.Union([Type.Literal('tempco'), Type.Literal('dielectric')]),
-          dielectric: Type.Union([Type.String(), Type.Null()]),
-          changeMinFraction: Type.Number(),
-          changeMaxFraction: Type.Number(),
-          withinRatedRange: Type.Boolean(),
+          role: Type.String({ description: 'The part role' }),
+          model: Type.Union([Type.Literal('tempco'), Type.Literal('dielectric')], { description: 'tempco: a linear coefficient; dielectric: the change band of an EIA-198 code or technology' }),
+          dielectric: Type.Union([Type.String(), Type.Null()], { description: 'The dielectric code or technology (null for a tempco)' }),
+          changeMinFraction: Type.Number({ description: 'Lowest relative change of the value over the temperature range and its spread, fraction (negative: the value falls)' }),
+          changeMaxFraction: Type.Number({ description: 'Highest relative change of the value over the temperature range and its spread, fraction' }),
+          withinRatedRange: Type.Boolean({ description: 'false: the temperature range leaves the dielectric\'s rated range (a note says so)' }),
         },
         { additionalProperties: false },
       ),
+      { description: 'How each part with a temperature behaviour was modelled' },
     ),
     temperatureDrifts: Type.Array(
       Type.Object(
@@ -296,9 +321,18 @@ export const ToleranceResult = Type.Object(
       ],
       { description: 'The timing capacitor\'s ageing over serviceLifeYears (null: no service life, or a capacitor that does not age)' },
     ),
-    notes: Type.Array(Type.Object({ code: Type.String(), message: Type.String() }, { additionalProperties: false })),
+    notes: Type.Array(
+      Type.Object(
+        {
+          code: Type.String({ description: 'Stable code, e.g. corners-latch, samples-latch, nothing-varies, spread-without-effect, ageing-not-included' }),
+          message: Type.String({ description: 'What the note means for this request, in words with the figures' }),
+        },
+        { additionalProperties: false },
+      ),
+      { description: 'Things the caller should know about how the request was read (no effect, latching, ranges left)' },
+    ),
   },
-  { $id: 'ToleranceResult', additionalProperties: false },
+  { $id: 'ToleranceResult', additionalProperties: false, description: 'Worst case, Monte Carlo, sensitivities and the variance budget of one circuit' },
 );
 
 export const TOLERANCE_SCHEMAS = [TemperatureCoefficient, ToleranceRequest, Summary, Corner, ToleranceResult];
