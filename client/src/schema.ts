@@ -2232,6 +2232,8 @@ export interface components {
             inputCommonModeHighMarginV?: number | null;
             /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA?: number;
+            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it would add a state the model does not solve yet, so a value above 0 is refused (not-modelled). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
+            inputCapacitanceF?: number;
             /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV?: number;
             /** @description Differential input clamp: the inputs are diode-clamped beyond ±this, V. Accepted: 0.1 to 100 V; null: no clamp. Range: one diode drop (about 0.6 V) to a few in series; 0.1 V to 100 V accepted. */
@@ -2356,6 +2358,28 @@ export interface components {
             /** @description Series resistance while conducting, ohm (default 10); below its forward drop the diode is open */
             resistanceOhm?: number;
         };
+        /** @description Board and input capacitance and leakage at the oscillator nodes. Absent fields: no stray capacitance, no leakage */
+        Strays: {
+            /**
+             * @description Board capacitance at the timing node N (inverting input) to ground, F (default 0). Adds to the timing capacitor together with the amplifier's inputCapacitanceF; the timing capacitor should be ≥ 50× their sum (check stray-capacitance-significant). Not modelled beside a capacitor with a C(V) curve (422 not-modelled)
+             * @default 0
+             */
+            timingNodeF?: number;
+            /**
+             * @description Board capacitance at the threshold node P (non-inverting input) to ground, F (default 0). Only 0 is modelled yet: above 0 the answer is 422 not-modelled
+             * @default 0
+             */
+            thresholdNodeF?: number;
+            /**
+             * @description Board capacitance at the output pin to ground, F (default 0). Would make an open-drain rise an RC with the pull-up; only 0 is modelled yet: above 0 the answer is 422 not-modelled
+             * @default 0
+             */
+            outputNodeF?: number;
+            /** @description Leakage resistance across the timing capacitor (N) to ground, ohm (default: absent, no leakage; e.g. a class II capacitor's insulation resistance, a humid or flux-contaminated board) */
+            timingLeakageOhm?: number;
+            /** @description Leakage resistance at the threshold node P to ground, ohm (default: absent, no leakage; e.g. a class II capacitor's insulation resistance, a humid or flux-contaminated board) */
+            thresholdLeakageOhm?: number;
+        };
         /** @description One oscillator: topology, supply, amplifier and part values */
         Circuit: {
             /** @description three-resistor-divider: rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds anywhere in the swing; rTiming (output to N) charges cTiming (N to ground). Any supply. | two-resistor-feedback: rFeedback (output to P) and rGround (P to ground) set the thresholds at ±β of the output levels; rTiming (output to N) charges cTiming (N to ground). Needs a rail below ground. | diode-steered: Separate charge and discharge paths: rCharge + diode (output to N, conducts while high) and rDischarge + diode (N to output, conducts while low) charge cTiming; thresholds from rTop + rBottom + rFeedback (single rail) or rFeedback + rGround (split rails). Diode: forward drop + resistance (`diode`, default 0.6 V, 10 Ω). | open-drain-pullup: Open-drain comparator output with rPullup (V+ to output) giving the high level; rTop (V+ to P), rBottom (P to ground), rFeedback (output to P) set the thresholds; rTiming (output to N) charges cTiming (N to ground).. Deprecated aliases, accepted for one release (answers use the current id): single-supply-divider → three-resistor-divider, split-supply → two-resistor-feedback. */
@@ -2370,6 +2394,8 @@ export interface components {
             load?: components["schemas"]["OutputLoad"];
             /** @description Steering-diode model, read by diode-steered only (absent: 0.6 V drop, 10 Ω) */
             diode?: components["schemas"]["Diode"];
+            /** @description Board and input capacitance and leakage at the nodes (absent: none) */
+            strays?: components["schemas"]["Strays"];
             /** @description Which model answers; auto picks the time-domain engine whenever slew, delay, limits or clamps matter */
             model?: "auto" | "closed-form" | "time-domain";
             /**
@@ -2588,6 +2614,8 @@ export interface components {
             inputCommonModeHighMarginV: number | null;
             /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA: number;
+            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it would add a state the model does not solve yet, so a value above 0 is refused (not-modelled). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
+            inputCapacitanceF: number;
             /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV: number;
             /** @description Differential input clamp: the inputs are diode-clamped beyond ±this, V. Accepted: 0.1 to 100 V; null: no clamp. Range: one diode drop (about 0.6 V) to a few in series; 0.1 V to 100 V accepted. */
@@ -2661,6 +2689,8 @@ export interface components {
             inputCommonModeHighMarginV?: number | null;
             /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA?: number;
+            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it would add a state the model does not solve yet, so a value above 0 is refused (not-modelled). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
+            inputCapacitanceF?: number;
             /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV?: number;
             /** @description Differential input clamp: the inputs are diode-clamped beyond ±this, V. Accepted: 0.1 to 100 V; null: no clamp. Range: one diode drop (about 0.6 V) to a few in series; 0.1 V to 100 V accepted. */
@@ -3942,10 +3972,10 @@ export interface components {
             };
             /** @description Ranked by |sensitivity| */
             sensitivities: {
-                /** @description Part role, or the supply/amplifier/diode parameter name (diodeForwardDropV: the steering diodes' forward drop) */
+                /** @description Part role, or the supply/amplifier/diode/stray parameter name (diodeForwardDropV: the steering diodes' forward drop) */
                 role: string;
                 /** @description What the parameter belongs to */
-                kind: "resistor" | "capacitor" | "supply" | "amplifier" | "load" | "diode";
+                kind: "resistor" | "capacitor" | "supply" | "amplifier" | "load" | "diode" | "stray";
                 /** @description d ln f / d ln x at nominal */
                 sensitivity: number;
                 /** @description d(duty) / d ln x at nominal */

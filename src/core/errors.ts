@@ -12,7 +12,8 @@ export type CoreErrorCode =
   | 'infeasible' // a design/snap request with no solution under its constraints
   | 'limit-exceeded' // a request beyond a sample/size cap
   | 'bad-capture' // a measurement capture that cannot be analysed
-  | 'not-converged'; // an iterative solve that did not converge in its bound
+  | 'not-converged' // an iterative solve that did not converge in its bound
+  | 'not-modelled'; // a physical effect the request describes that the model does not solve yet (never approximated silently)
 
 export class CoreError extends Error {
   readonly code: CoreErrorCode;

@@ -7,6 +7,7 @@ import { canonicalTopologyId, findTopology, resolveAmplifier, type AmplifierMode
 import { CoreError } from '../core/errors.ts';
 import { UNLIMITED_FIGURES } from '../core/amplifiers/figures-table.ts';
 import { parseComponentValue } from '../core/parts/value-parse.ts';
+import { NO_STRAYS } from '../core/circuit/strays.ts';
 import { resolveCapacitor, type CapacitorModel, type CapacitorSpec } from '../core/parts/capacitor/index.ts';
 import type { AmplifierLookup } from './amplifier-directory.ts';
 import type { CircuitBody } from './schemas/circuit.ts';
@@ -60,6 +61,16 @@ export function circuitFromBody(body: CircuitBody, directory: AmplifierLookup, p
   const capacitor = timingCapacitorFromParts(body.topology, body.parts as Record<string, PartValue>, `${pointer}/parts`);
   if (capacitor && capacitor.shape.kind !== 'flat') circuit.capacitorShape = capacitor.shape;
   if (body.load) circuit.load = { resistanceOhm: body.load.resistanceOhm, returnV: body.load.returnV ?? 0 };
+  if (body.strays) {
+    const s = body.strays;
+    circuit.strays = {
+      timingNodeF: s.timingNodeF ?? NO_STRAYS.timingNodeF,
+      thresholdNodeF: s.thresholdNodeF ?? NO_STRAYS.thresholdNodeF,
+      outputNodeF: s.outputNodeF ?? NO_STRAYS.outputNodeF,
+      timingLeakageOhm: s.timingLeakageOhm ?? NO_STRAYS.timingLeakageOhm,
+      thresholdLeakageOhm: s.thresholdLeakageOhm ?? NO_STRAYS.thresholdLeakageOhm,
+    };
+  }
   if (body.diode) {
     circuit.diode = {
       forwardDropV: body.diode.forwardDropV ?? DEFAULT_DIODE.forwardDropV,

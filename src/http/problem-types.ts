@@ -24,6 +24,7 @@ const CORE: Record<CoreErrorCode, ProblemType> = {
   'limit-exceeded': { status: 422, description: 'The request asks for more work than a documented cap allows (samples, periods, assemblies …).' },
   'bad-capture': { status: 422, description: 'The measured capture cannot be analysed (too short, no transitions, clipped, unreadable units …).' },
   'not-converged': { status: 422, description: 'An iterative solve did not converge within its bound.' },
+  'not-modelled': { status: 422, description: 'The request describes an effect the model does not solve yet (see the pointer); it is refused rather than answered approximately.' },
   'non-finite': { status: 422, description: 'A figure of the answer would not be a finite number; the request is outside what the model can describe.' },
 } as Record<CoreErrorCode, ProblemType>;
 

@@ -65,6 +65,7 @@ const CORE_STATUS: Record<CoreErrorCode, number> = {
   'limit-exceeded': 422,
   'bad-capture': 422,
   'not-converged': 422,
+  'not-modelled': 422,
 };
 
 const STORE_STATUS: Record<StoreErrorCode, number> = {

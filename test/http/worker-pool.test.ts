@@ -21,7 +21,7 @@ const circuit = {
     supplyMinV: 0, supplyMaxV: Infinity, outputHeadroomHighV: 0, outputHeadroomLowV: 0, outputResistanceOhm: 0, outputCurrentLimitA: Infinity,
     slewRateVPerS: Infinity, recoveryDelayS: 0, inputCommonModeLowMarginV: -Infinity, inputCommonModeHighMarginV: -Infinity,
     inputBiasCurrentA: 0, inputOffsetV: 0, differentialClampV: Infinity, quiescentCurrentA: 0,
-    overdriveDelayChargeVS: 0, internalHysteresisV: 0, inputOffsetDriftVPerK: 0, inputBiasDoublingK: Infinity, outputHeadroomDriftVPerK: 0, recoveryDelayDriftPerK: 0,
+    overdriveDelayChargeVS: 0, internalHysteresisV: 0, inputOffsetDriftVPerK: 0, inputBiasDoublingK: Infinity, outputHeadroomDriftVPerK: 0, recoveryDelayDriftPerK: 0, inputCapacitanceF: 0,
   },
   parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 },
 };

@@ -45,6 +45,8 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     // Drift about 25 °C and comparator specifics: typical of the class, from memory.
     overdriveDelayChargeVS: 0,
     internalHysteresisV: 0,
+    // Input capacitance: 0 until the threshold node's capacitance is modelled (docs/model.md, strays and leakage).
+    inputCapacitanceF: 0,
     inputOffsetDriftVPerK: 7e-6,
     inputBiasDoublingK: Infinity,
     outputHeadroomDriftVPerK: -2e-3,
@@ -75,6 +77,8 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     // Drift about 25 °C and comparator specifics: typical of the class, from memory.
     overdriveDelayChargeVS: 0,
     internalHysteresisV: 0,
+    // Input capacitance: 0 until the threshold node's capacitance is modelled (docs/model.md, strays and leakage).
+    inputCapacitanceF: 0,
     inputOffsetDriftVPerK: 5e-6,
     inputBiasDoublingK: Infinity,
     outputHeadroomDriftVPerK: -2e-3,
@@ -105,6 +109,8 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     // Drift about 25 °C and comparator specifics: typical of the class, from memory.
     overdriveDelayChargeVS: 0,
     internalHysteresisV: 0,
+    // Input capacitance: 0 until the threshold node's capacitance is modelled (docs/model.md, strays and leakage).
+    inputCapacitanceF: 0,
     inputOffsetDriftVPerK: 0.5e-6,
     inputBiasDoublingK: Infinity,
     outputHeadroomDriftVPerK: -2e-3,
@@ -135,6 +141,8 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     // Drift about 25 °C and comparator specifics: typical of the class, from memory.
     overdriveDelayChargeVS: 0,
     internalHysteresisV: 0,
+    // Input capacitance: 0 until the threshold node's capacitance is modelled (docs/model.md, strays and leakage).
+    inputCapacitanceF: 0,
     inputOffsetDriftVPerK: 10e-6,
     inputBiasDoublingK: 10,
     outputHeadroomDriftVPerK: -1e-3,
@@ -165,6 +173,8 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     // Drift about 25 °C and comparator specifics: typical of the class, from memory.
     overdriveDelayChargeVS: 0,
     internalHysteresisV: 0,
+    // Input capacitance: 0 until the threshold node's capacitance is modelled (docs/model.md, strays and leakage).
+    inputCapacitanceF: 0,
     inputOffsetDriftVPerK: 2e-6,
     inputBiasDoublingK: 10,
     outputHeadroomDriftVPerK: 1e-4,
@@ -195,6 +205,8 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     // Drift about 25 °C and comparator specifics: typical of the class, from memory.
     overdriveDelayChargeVS: 0,
     internalHysteresisV: 0,
+    // Input capacitance: 0 until the threshold node's capacitance is modelled (docs/model.md, strays and leakage).
+    inputCapacitanceF: 0,
     inputOffsetDriftVPerK: 1e-6,
     inputBiasDoublingK: 10,
     outputHeadroomDriftVPerK: 1e-4,
@@ -225,6 +237,8 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     // Drift about 25 °C and comparator specifics: typical of the class, from memory.
     overdriveDelayChargeVS: 0,
     internalHysteresisV: 0,
+    // Input capacitance: 0 until the threshold node's capacitance is modelled (docs/model.md, strays and leakage).
+    inputCapacitanceF: 0,
     inputOffsetDriftVPerK: 5e-6,
     inputBiasDoublingK: Infinity,
     outputHeadroomDriftVPerK: -2e-3,
@@ -255,6 +269,8 @@ export const BUILT_IN_AMPLIFIERS: readonly AmplifierModel[] = Object.freeze([
     // Drift about 25 °C and comparator specifics: typical of the class, from memory.
     overdriveDelayChargeVS: 0,
     internalHysteresisV: 0,
+    // Input capacitance: 0 until the threshold node's capacitance is modelled (docs/model.md, strays and leakage).
+    inputCapacitanceF: 0,
     inputOffsetDriftVPerK: 2e-6,
     inputBiasDoublingK: 10,
     outputHeadroomDriftVPerK: 1e-4,

@@ -20,7 +20,7 @@
  */
 
 /** Core-side unit of a figure (SI base units; compound units written as in the figure's name). */
-export type FigureUnit = 'V' | 'ohm' | 'A' | 'V/s' | 's' | 'V/K' | 'A/K' | 'K' | 's/K' | 'V·s' | 'ohm/K' | 'none';
+export type FigureUnit = 'V' | 'ohm' | 'A' | 'F' | 'V/s' | 's' | 'V/K' | 'A/K' | 'K' | 's/K' | 'V·s' | 'ohm/K' | 'none';
 
 /** How a figure may vary in tolerance analysis (Monte Carlo / worst case). */
 export interface ToleranceSpec {
@@ -210,6 +210,16 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     rangeNote: '±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes',
     tolerance: { spread: 'relative', typicalSpread: 0.5 },
+  },
+  inputCapacitanceF: {
+    kind: 'number',
+    unit: 'F',
+    description:
+      'Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it would add a state the model does not solve yet, so a value above 0 is refused (not-modelled). The archetypes leave it at 0',
+    min: 0,
+    max: 1e-9,
+    ideal: 0,
+    rangeNote: 'real inputs have about 1 to 20 pF; up to 1 nF accepted',
   },
   inputOffsetV: {
     kind: 'number',

@@ -16,6 +16,7 @@ import { effectsOf, evaluateOnce, EVALUATION_STATUS, nominalKey, OUTPUT_LENGTH, 
 import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck } from './frequency-ceiling.ts';
 import type { AnalysisResult, ModelEffect, ModelName, OscillationFigures } from './result.ts';
 import { stateModelOf, type StateModel } from './state-model.ts';
+import { strayCapacitanceCheck, timingNodeStrayF } from './strays.ts';
 import { findTopology, TOPOLOGY_IDS } from './topologies/index.ts';
 import type { TopologyDefinition } from './topologies/topology.ts';
 import type { Circuit } from './types.ts';
@@ -141,10 +142,13 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
       supply: circuit.supply,
       amplifier: circuit.amplifier,
       capacitanceF,
-      timingResistanceOhm: Math.max(prepared.high.tauS, prepared.low.tauS) / capacitanceF,
+      // τ is set by everything at the timing node: the capacitor and the strays beside it.
+      timingResistanceOhm: Math.max(prepared.high.tauS, prepared.low.tauS) / (capacitanceF + timingNodeStrayF(circuit)),
       frequencyWithoutClampHz: prepared.dynamics && clampReached(figures, circuit.amplifier) ? frequencyWithoutClamp(circuit, options.model) : undefined,
     }),
   ];
+  const strayCheck = strayCapacitanceCheck(circuit, capacitanceF);
+  if (strayCheck) checks.push(strayCheck);
   if (!prepared.dynamics && hasDynamicLimits(circuit.amplifier)) {
     checks.push({
       code: CHECK_CODES.dynamicsApproximated,

@@ -1,6 +1,7 @@
 /** Plain circuit description the core works on: SI base units throughout. */
 import type { AmplifierModel } from '../amplifiers/model.ts';
 import type { BiasShape } from '../parts/capacitor/dc-bias.ts';
+import type { Strays } from './strays.ts';
 
 export type OutputState = 'high' | 'low';
 
@@ -38,6 +39,8 @@ export interface Circuit {
    * flat: a linear capacitor.
    */
   capacitorShape?: BiasShape;
+  /** Board capacitances and leakage at the nodes (circuit/strays.ts); absent: none. */
+  strays?: Strays;
 }
 
 /** What differs between the linear pieces of one output state. */

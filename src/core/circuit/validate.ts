@@ -2,6 +2,7 @@
 import { CoreError } from '../errors.ts';
 import type { TopologyDefinition } from './topologies/topology.ts';
 import type { Circuit } from './types.ts';
+import { validateStrays } from './strays.ts';
 
 /** Plausible ranges for real parts (one definition for every route): outside them the input is a mistake, not a design. */
 import { CAPACITANCE_RANGE_F, RESISTANCE_RANGE_OHM } from '../value-ranges.ts';
@@ -59,4 +60,5 @@ export function validateCircuit(circuit: Circuit, topology: TopologyDefinition):
       '/amplifier',
     );
   }
+  validateStrays(circuit);
 }

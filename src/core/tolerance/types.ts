@@ -153,7 +153,7 @@ export interface MonteCarloResult {
 export interface PartSensitivity {
   /** Part role, or the circuit-level parameter name for supply and amplifier figures. */
   role: string;
-  kind: 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load' | 'diode';
+  kind: 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load' | 'diode' | 'stray';
   /** d ln f / d ln x at nominal. */
   sensitivity: number;
   /** d(duty cycle) / d ln x at nominal. */

@@ -1,6 +1,7 @@
 /** The circuit description shared by analyze, waveform, tolerance and fit requests. */
 import { Type, type Static } from 'typebox';
 import { acceptedTopologyIds, aliasNote, DEFAULT_STEERING_DIODE, TOPOLOGIES } from '../../core/index.ts';
+import { LEAKAGE_RANGE_OHM, STRAY_CAPACITANCE_MAX_F, TIMING_STRAY_RATIO_MIN } from '../../core/circuit/strays.ts';
 import { CASE_SIZES } from '../../core/parts/capacitor/index.ts';
 import { AmplifierSpec, ComponentValue, ref, ResistanceOhm, Supply } from './common.ts';
 
@@ -99,6 +100,36 @@ export const Diode = Type.Object(
   { $id: 'Diode', additionalProperties: false, description: 'Steering-diode model for diode-steered circuits: a fixed drop in series with a resistance' },
 );
 
+const strayF = (where: string, modelled: string) =>
+  Type.Optional(Type.Number({ minimum: 0, maximum: STRAY_CAPACITANCE_MAX_F, default: 0, description: `Board capacitance ${where} to ground, F (default 0). ${modelled}` }));
+const leakageOhm = (where: string) =>
+  Type.Optional(
+    Type.Number({
+      minimum: LEAKAGE_RANGE_OHM.min,
+      maximum: LEAKAGE_RANGE_OHM.max,
+      description: `Leakage resistance ${where} to ground, ohm (default: absent, no leakage; e.g. a class II capacitor's insulation resistance, a humid or flux-contaminated board)`,
+    }),
+  );
+
+/** Strays and leakage at the nodes (docs/model.md, "strays and leakage"); defaults: none. */
+export const Strays = Type.Object(
+  {
+    timingNodeF: strayF(
+      'at the timing node N (inverting input)',
+      `Adds to the timing capacitor together with the amplifier's inputCapacitanceF; the timing capacitor should be ≥ ${TIMING_STRAY_RATIO_MIN}× their sum (check stray-capacitance-significant). Not modelled beside a capacitor with a C(V) curve (422 not-modelled)`,
+    ),
+    thresholdNodeF: strayF('at the threshold node P (non-inverting input)', 'Only 0 is modelled yet: above 0 the answer is 422 not-modelled'),
+    outputNodeF: strayF('at the output pin', 'Would make an open-drain rise an RC with the pull-up; only 0 is modelled yet: above 0 the answer is 422 not-modelled'),
+    timingLeakageOhm: leakageOhm('across the timing capacitor (N)'),
+    thresholdLeakageOhm: leakageOhm('at the threshold node P'),
+  },
+  {
+    $id: 'Strays',
+    additionalProperties: false,
+    description: 'Board and input capacitance and leakage at the oscillator nodes. Absent fields: no stray capacitance, no leakage',
+  },
+);
+
 export const ModelChoice = Type.Union([Type.Literal('auto'), Type.Literal('closed-form'), Type.Literal('time-domain')], {
   description: 'Which model answers; auto picks the time-domain engine whenever slew, delay, limits or clamps matter',
 });
@@ -114,6 +145,7 @@ export const Circuit = Type.Object(
     parts: ref(Parts, 'Part values by role; which roles the topology needs: GET /v1/topologies'),
     load: Type.Optional(ref(OutputLoad, 'Resistive load on the output (absent: no load beyond the circuit itself)')),
     diode: Type.Optional(ref(Diode, `Steering-diode model, read by diode-steered only (absent: ${DEFAULT_STEERING_DIODE.forwardDropV} V drop, ${DEFAULT_STEERING_DIODE.resistanceOhm} Ω)`)),
+    strays: Type.Optional(ref(Strays, 'Board and input capacitance and leakage at the nodes (absent: none)')),
     model: Type.Optional(ModelChoice),
     edgeFractionLimit: Type.Optional(
       Type.Number({
@@ -129,7 +161,7 @@ export const Circuit = Type.Object(
 
 export type CircuitBody = Static<typeof Circuit>;
 
-export const CIRCUIT_SCHEMAS = [TimingCapacitor, Parts, OutputLoad, Diode, Circuit];
+export const CIRCUIT_SCHEMAS = [TimingCapacitor, Parts, OutputLoad, Diode, Strays, Circuit];
 
 /** The Circuit schema as a typed reference for route bodies. */
 export const circuitSchemaRef = ref(Circuit);

@@ -70,6 +70,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
         "inputCommonModeLowMarginV": -0.1,
         "inputCommonModeHighMarginV": -0.1,
         "inputBiasCurrentA": 1e-12,
+        "inputCapacitanceF": 0,
         "inputOffsetV": 0.001,
         "differentialClampV": null,
         "quiescentCurrentA": 0.0012,
@@ -175,6 +176,151 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
         "designs": [
           {
             "rank": 1,
+            "topology": "three-resistor-divider",
+            "parts": [
+              {
+                "role": "rTop",
+                "value": 36000,
+                "arrangement": "single",
+                "tolerance": 0.01,
+                "series": "E24"
+              },
+              {
+                "role": "rBottom",
+                "value": 36000,
+                "arrangement": "single",
+                "tolerance": 0.01,
+                "series": "E24"
+              },
+              {
+                "role": "rFeedback",
+                "value": 33000,
+                "arrangement": "single",
+                "tolerance": 0.01,
+                "series": "E24"
+              },
+              {
+                "role": "rTiming",
+                "value": 240000,
+                "arrangement": "single",
+                "tolerance": 0.01,
+                "series": "E24"
+              },
+              {
+                "role": "cTiming",
+                "value": 5.6e-10,
+                "arrangement": "single",
+                "tolerance": 0.05,
+                "series": "E12"
+              }
+            ],
+            "predicted": {
+              "frequencyHz": 4998.136018786441,
+              "dutyCycle": 0.5002199138900555,
+              "model": "time-domain",
+              "thresholds": {
+                "upperV": 3.375806352447851,
+                "lowerV": 1.6261936977393856
+              },
+              "supplyCurrentA": 0.001298590648084923
+            },
+            "frequencyError": -0.00037279624271180367,
+            "dutyCycleError": 0.00021991389005548978,
+            "hysteresisFraction": 0.3333333333333333,
+            "robustness": {
+              "yield": 0.422,
+              "yieldStandardError": 0.01561781034588396,
+              "yieldInterval95": {
+                "low": 0.3917453086472168,
+                "high": 0.4528516656765298
+              },
+              "samples": 1000,
+              "seed": 1,
+              "worstCase": {
+                "frequencyMinHz": 4619.6772827487375,
+                "frequencyMaxHz": 5406.905344002271,
+                "dutyMin": 0.4966334803314644,
+                "dutyMax": 0.5038149935246347,
+                "withinSpec": false
+              },
+              "marginFraction": -7.138106880045415,
+              "partTolerances": {
+                "rTop": 0.01,
+                "rBottom": 0.01,
+                "rFeedback": 0.01,
+                "rTiming": 0.01,
+                "cTiming": 0.05
+              },
+              "model": "time-domain"
+            },
+            "practicality": {
+              "edgeProximity": 0.29176318051466177,
+              "supplyCurrentA": 0.001298590648084923,
+              "partCount": 5,
+              "score": 0.6140555075995631
+            },
+            "limits": [
+              {
+                "role": "rTop",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rBottom",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rFeedback",
+                "min": 1000,
+                "max": 1000000,
+                "minReason": "resistor window 1 kΩ",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "rTiming",
+                "min": 2500,
+                "max": 1000000,
+                "minReason": "the 25 Ω output resistance must stay below 1 % of the timing resistance",
+                "maxReason": "resistor window 1 MΩ",
+                "atLimit": null
+              },
+              {
+                "role": "cTiming",
+                "min": 2.4999999999999996e-10,
+                "max": 0.00001,
+                "minReason": "50× the 5 pF stray and input capacitance at the inverting input",
+                "maxReason": "capacitor window 10 µF",
+                "atLimit": null
+              }
+            ],
+            "circuit": {
+              "topology": "three-resistor-divider",
+              "supply": {
+                "positiveV": 5,
+                "negativeV": 0
+              },
+              "amplifier": "cmos-rrio-fast",
+              "parts": {
+                "rTiming": 240000,
+                "cTiming": 5.6e-10,
+                "rTop": 36000,
+                "rBottom": 36000,
+                "rFeedback": 33000
+              },
+              "edgeFractionLimit": 0.05
+            },
+            "checks": []
+          },
+          {
+            "rank": 2,
             "topology": "three-resistor-divider",
             "parts": [
               {
@@ -313,151 +459,6 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "rTop": 36000,
                 "rBottom": 36000,
                 "rFeedback": 27000
-              },
-              "edgeFractionLimit": 0.05
-            },
-            "checks": []
-          },
-          {
-            "rank": 2,
-            "topology": "three-resistor-divider",
-            "parts": [
-              {
-                "role": "rTop",
-                "value": 24000,
-                "arrangement": "single",
-                "tolerance": 0.01,
-                "series": "E24"
-              },
-              {
-                "role": "rBottom",
-                "value": 24000,
-                "arrangement": "single",
-                "tolerance": 0.01,
-                "series": "E24"
-              },
-              {
-                "role": "rFeedback",
-                "value": 47000,
-                "arrangement": "single",
-                "tolerance": 0.01,
-                "series": "E24"
-              },
-              {
-                "role": "rTiming",
-                "value": 240000,
-                "arrangement": "single",
-                "tolerance": 0.01,
-                "series": "E24"
-              },
-              {
-                "role": "cTiming",
-                "value": 1e-9,
-                "arrangement": "single",
-                "tolerance": 0.05,
-                "series": "E12"
-              }
-            ],
-            "predicted": {
-              "frequencyHz": 4998.865169883775,
-              "dutyCycle": 0.5002071119967408,
-              "model": "time-domain",
-              "thresholds": {
-                "upperV": 3.0051513332442,
-                "lowerV": 1.9968486899861049
-              },
-              "supplyCurrentA": 0.0013301820716712111
-            },
-            "frequencyError": -0.00022696602324501214,
-            "dutyCycleError": 0.00020711199674083858,
-            "hysteresisFraction": 0.2,
-            "robustness": {
-              "yield": 0.415,
-              "yieldStandardError": 0.015581238718407466,
-              "yieldInterval95": {
-                "low": 0.3848433602464026,
-                "high": 0.4458071886961417
-              },
-              "samples": 1000,
-              "seed": 1,
-              "worstCase": {
-                "frequencyMinHz": 4610.024729350859,
-                "frequencyMaxHz": 5419.593255491288,
-                "dutyMin": 0.49605567234016273,
-                "dutyMax": 0.5043677198855245,
-                "withinSpec": false
-              },
-              "marginFraction": -7.391865109825746,
-              "partTolerances": {
-                "rTop": 0.01,
-                "rBottom": 0.01,
-                "rFeedback": 0.01,
-                "rTiming": 0.01,
-                "cTiming": 0.05
-              },
-              "model": "time-domain"
-            },
-            "practicality": {
-              "edgeProximity": 0.30728381310405173,
-              "supplyCurrentA": 0.0013301820716712111,
-              "partCount": 5,
-              "score": 0.630761784402201
-            },
-            "limits": [
-              {
-                "role": "rTop",
-                "min": 1000,
-                "max": 1000000,
-                "minReason": "resistor window 1 kΩ",
-                "maxReason": "resistor window 1 MΩ",
-                "atLimit": null
-              },
-              {
-                "role": "rBottom",
-                "min": 1000,
-                "max": 1000000,
-                "minReason": "resistor window 1 kΩ",
-                "maxReason": "resistor window 1 MΩ",
-                "atLimit": null
-              },
-              {
-                "role": "rFeedback",
-                "min": 1000,
-                "max": 1000000,
-                "minReason": "resistor window 1 kΩ",
-                "maxReason": "resistor window 1 MΩ",
-                "atLimit": null
-              },
-              {
-                "role": "rTiming",
-                "min": 2500,
-                "max": 1000000,
-                "minReason": "the 25 Ω output resistance must stay below 1 % of the timing resistance",
-                "maxReason": "resistor window 1 MΩ",
-                "atLimit": null
-              },
-              {
-                "role": "cTiming",
-                "min": 2.4999999999999996e-10,
-                "max": 0.00001,
-                "minReason": "50× the 5 pF stray and input capacitance at the inverting input",
-                "maxReason": "capacitor window 10 µF",
-                "atLimit": null
-              }
-            ],
-            "circuit": {
-              "topology": "three-resistor-divider",
-              "supply": {
-                "positiveV": 5,
-                "negativeV": 0
-              },
-              "amplifier": "cmos-rrio-fast",
-              "parts": {
-                "rTiming": 240000,
-                "cTiming": 1e-9,
-                "rTop": 24000,
-                "rBottom": 24000,
-                "rFeedback": 47000
               },
               "edgeFractionLimit": 0.05
             },
@@ -698,7 +699,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "frequencyPassFraction": 0.99865,
             "dutyPassFraction": 1
           },
-          "elapsedS": 1,
+          "elapsedS": 0.1,
           "samplesPerSecond": 100000
         },
         "sensitivities": [
@@ -2611,7 +2612,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
   "GET /metrics": {
     "example": {
       "summary": "Prometheus text exposition after the examples above ran (abridged: help lines and counters)",
-      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 6.087738\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.176155\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 6.263893\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
+      "value": "# HELP tickwright_process_cpu_user_seconds_total Total user CPU time spent in seconds.\n# TYPE tickwright_process_cpu_user_seconds_total counter\ntickwright_process_cpu_user_seconds_total 6.792458\n# HELP tickwright_process_cpu_system_seconds_total Total system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_system_seconds_total counter\ntickwright_process_cpu_system_seconds_total 0.153678\n# HELP tickwright_process_cpu_seconds_total Total user and system CPU time spent in seconds.\n# TYPE tickwright_process_cpu_seconds_total counter\ntickwright_process_cpu_seconds_total 6.946136\n# HELP tickwright_process_start_time_seconds Start time of the process since unix epoch in seconds.\n# TYPE tickwright_process_start_time_seconds gauge\n# HELP tickwright_process_resident_memory_bytes Resident memory size in bytes.\n# TYPE tickwright_process_resident_memory_bytes gauge\n# HELP tickwright_process_virtual_memory_bytes Virtual memory size in bytes.\n# TYPE tickwright_process_virtual_memory_bytes gauge\n# HELP tickwright_process_heap_bytes Process heap size in bytes.\n# TYPE tickwright_process_heap_bytes gauge\n# HELP tickwright_process_open_fds Number of open file descriptors.\n# TYPE tickwright_process_open_fds gauge\n# HELP tickwright_process_max_fds Maximum number of open file descriptors.\n# TYPE tickwright_process_max_fds gauge\n# HELP tickwright_nodejs_eventloop_lag_seconds Lag of event loop in seconds.\n# TYPE tickwright_nodejs_eventloop_lag_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_min_seconds The minimum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_min_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_max_seconds The maximum recorded event loop delay.\n# TYPE tickwright_nodejs_eventloop_lag_max_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_mean_seconds The mean of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_mean_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_stddev_seconds The standard deviation of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_stddev_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p50_seconds The 50th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p50_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p90_seconds The 90th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p90_seconds gauge\n# HELP tickwright_nodejs_eventloop_lag_p99_seconds The 99th percentile of the recorded event loop delays.\n# TYPE tickwright_nodejs_eventloop_lag_p99_seconds gauge\n# HELP tickwright_nodejs_active_resources Number of active resources that are currently keeping the event loop alive, grouped by async resource type.\n# TYPE tickwright_nodejs_active_resources gauge\n# HELP tickwright_nodejs_active_resources_total Total number of active resources.\n# TYPE tickwright_nodejs_active_resources_total gauge\ntickwright_nodejs_active_resources_total 5\n# HELP tickwright_nodejs_active_handles Number of active libuv handles grouped by handle type. Every handle type is C++ class name.\n# TYPE tickwright_nodejs_active_handles gauge\n# HELP tickwright_nodejs_active_handles_total Total number of active handles.\n# TYPE tickwright_nodejs_active_handles_total gauge\ntickwright_nodejs_active_handles_total 0\n# HELP tickwright_nodejs_active_requests Number of active libuv requests grouped by request type. Every request type is C++ class name.\n# TYPE tickwright_nodejs_active_requests gauge\n# HELP tickwright_nodejs_active_requests_total Total number of active requests.\n# TYPE tickwright_nodejs_active_requests_total gauge\ntickwright_nodejs_active_requests_total 0\n# HELP tickwright_nodejs_heap_size_total_bytes Process heap size from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_size_used_bytes Process heap size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_size_used_bytes gauge\n# HELP tickwright_nodejs_external_memory_bytes Node.js external memory size in bytes.\n# TYPE tickwright_nodejs_external_memory_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_total_bytes Process heap space size total from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_total_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_used_bytes Process heap space size used from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_used_bytes gauge\n# HELP tickwright_nodejs_heap_space_size_available_bytes Process heap space size available from Node.js in bytes.\n# TYPE tickwright_nodejs_heap_space_size_available_bytes gauge\n# HELP tickwright_nodejs_version_info Node.js version info.\n# TYPE tickwright_nodejs_version_info gauge\n# HELP tickwright_nodejs_gc_duration_seconds Garbage collection duration by kind, one of major, minor, incremental or weakcb.\n# TYPE tickwright_nodejs_gc_duration_seconds histogram\n# HELP tickwright_http_requests_total HTTP requests by method, route (the matched pattern) and status.\n# TYPE tickwright_http_requests_total counter\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/catalogues/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"201\"} 1\ntickwright_http_requests_total{method=\"PUT\",route=\"/v1/amplifiers/:id\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/analyze\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/design\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/snap\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/tolerance\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/waveform\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/fit\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"POST\",route=\"/v1/bom-checks\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1\ntickwright_http_requests_total{method=\"GET\",route=\"/readyz\",status=\"200\"} 1\n# HELP tickwright_http_request_duration_seconds HTTP request duration by method, route and status, seconds.\n# TYPE tickwright_http_request_duration_seconds histogram\n# HELP tickwright_worker_pool_queue_depth Tasks waiting for a worker thread.\n# TYPE tickwright_worker_pool_queue_depth gauge\n# HELP tickwright_worker_pool_threads Worker threads alive.\n# TYPE tickwright_worker_pool_threads gauge\n# HELP tickwright_worker_task_duration_seconds Worker pool task duration (queue wait included) by task and outcome (ok, error, cancelled), seconds.\n# TYPE tickwright_worker_task_duration_seconds histogram\n# HELP tickwright_worker_task_cancellations_total Worker pool tasks cancelled because the client went away or the request was aborted.\n# TYPE tickwright_worker_task_cancellations_total counter\n# HELP tickwright_store_call_duration_seconds Store call latency by backend, operation, collection and outcome (ok, error), seconds.\n# TYPE tickwright_store_call_duration_seconds histogram"
     }
   },
   "GET /problems/{code}": {
@@ -2851,6 +2852,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": null,
             "inputCommonModeHighMarginV": null,
             "inputBiasCurrentA": 0,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0,
             "differentialClampV": null,
             "quiescentCurrentA": 0,
@@ -2880,6 +2882,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": -0.2,
             "inputCommonModeHighMarginV": 1.5,
             "inputBiasCurrentA": -4.5e-8,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.002,
             "differentialClampV": null,
             "quiescentCurrentA": 0.00035,
@@ -2909,6 +2912,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": 2,
             "inputCommonModeHighMarginV": 2,
             "inputBiasCurrentA": 8e-8,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
             "quiescentCurrentA": 0.0017,
@@ -2938,6 +2942,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": 1.5,
             "inputCommonModeHighMarginV": 1.5,
             "inputBiasCurrentA": 2e-7,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.0001,
             "differentialClampV": 0.7,
             "quiescentCurrentA": 0.004,
@@ -2967,6 +2972,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": 3,
             "inputCommonModeHighMarginV": 0.5,
             "inputBiasCurrentA": 3e-11,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.003,
             "differentialClampV": null,
             "quiescentCurrentA": 0.0014,
@@ -2996,6 +3002,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": -0.1,
             "inputCommonModeHighMarginV": 0.8,
             "inputBiasCurrentA": 1e-12,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
             "quiescentCurrentA": 0.00001,
@@ -3025,6 +3032,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": -0.1,
             "inputCommonModeHighMarginV": -0.1,
             "inputBiasCurrentA": 1e-12,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
             "quiescentCurrentA": 0.0012,
@@ -3054,6 +3062,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": -0.2,
             "inputCommonModeHighMarginV": 1.5,
             "inputBiasCurrentA": -2.5e-8,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.002,
             "differentialClampV": null,
             "quiescentCurrentA": 0.0002,
@@ -3083,6 +3092,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": -0.2,
             "inputCommonModeHighMarginV": -0.2,
             "inputBiasCurrentA": 1e-12,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
             "quiescentCurrentA": 0.00005,
@@ -3112,6 +3122,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
             "inputCommonModeLowMarginV": -0.1,
             "inputCommonModeHighMarginV": -0.1,
             "inputBiasCurrentA": 1e-12,
+            "inputCapacitanceF": 0,
             "inputOffsetV": 0.001,
             "differentialClampV": null,
             "quiescentCurrentA": 0.0012,
@@ -3148,6 +3159,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
         "inputCommonModeLowMarginV": -0.1,
         "inputCommonModeHighMarginV": -0.1,
         "inputBiasCurrentA": 1e-12,
+        "inputCapacitanceF": 0,
         "inputOffsetV": 0.001,
         "differentialClampV": null,
         "quiescentCurrentA": 0.0012,

@@ -235,8 +235,8 @@ export const ToleranceResult = Type.Object(
     sensitivities: Type.Array(
       Type.Object(
         {
-          role: Type.String({ description: 'Part role, or the supply/amplifier/diode parameter name (diodeForwardDropV: the steering diodes\' forward drop)' }),
-          kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor'), Type.Literal('supply'), Type.Literal('amplifier'), Type.Literal('load'), Type.Literal('diode')], {
+          role: Type.String({ description: 'Part role, or the supply/amplifier/diode/stray parameter name (diodeForwardDropV: the steering diodes\' forward drop)' }),
+          kind: Type.Union([Type.Literal('resistor'), Type.Literal('capacitor'), Type.Literal('supply'), Type.Literal('amplifier'), Type.Literal('load'), Type.Literal('diode'), Type.Literal('stray')], {
             description: 'What the parameter belongs to',
           }),
           sensitivity: Type.Number({ description: 'd ln f / d ln x at nominal' }),

@@ -115,6 +115,11 @@ function nodeVoltages(c: Circuit, d: Discrete, v: number, s: number): { V: Float
     if (d.stage === 'limSnk') inj[NODE.output] -= amp.outputCurrentLimitA;
   }
   if (c.load) branches.push({ from: NODE.output, to: NODE.loadReturn, resistanceOhm: c.load.resistanceOhm, emfV: 0, label: 'load' });
+  // Leakage (docs/model.md, strays and leakage): resistors from N and from P to ground.
+  const leakN = c.strays?.timingLeakageOhm ?? Infinity;
+  const leakP = c.strays?.thresholdLeakageOhm ?? Infinity;
+  if (Number.isFinite(leakN)) branches.push({ from: NODE.capacitor, to: NODE.ground, resistanceOhm: leakN, emfV: 0, label: 'leakN' });
+  if (Number.isFinite(leakP)) branches.push({ from: NODE.decision, to: NODE.ground, resistanceOhm: leakP, emfV: 0, label: 'leakP' });
   if (d.clamp === 1) branches.push({ from: NODE.decision, to: NODE.capacitor, resistanceOhm: CLAMP_R, emfV: amp.differentialClampV, label: 'clamp' });
   if (d.clamp === -1) branches.push({ from: NODE.capacitor, to: NODE.decision, resistanceOhm: CLAMP_R, emfV: amp.differentialClampV, label: 'clamp' });
   inj[NODE.decision] -= amp.inputBiasCurrentA;
@@ -169,7 +174,8 @@ function leaving(node: number, branches: Branch[], V: Float64Array, skip?: strin
 export function referenceOscillation(c: Circuit, options: ReferenceOptions = {}): ReferenceResult {
   const topology = findTopology(c.topology)!;
   const amp = c.amplifier;
-  const C = c.parts[topology.capacitorRole];
+  // Everything at N charges with the capacitor: board stray and the amplifier's input capacitance in parallel.
+  const C = c.parts[topology.capacitorRole] + (c.strays?.timingNodeF ?? 0) + (amp.inputCapacitanceF ?? 0);
   // A C(v) capacitor (class II/III ceramic): C(v) = C·r(v); the same curve the engine uses, nothing else shared.
   const shape = c.capacitorShape;
   const span = c.supply.positiveV - c.supply.negativeV;

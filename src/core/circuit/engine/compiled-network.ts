@@ -27,7 +27,7 @@ import type { TopologyDefinition } from '../topologies/topology.ts';
 import type { Circuit, PieceConfig } from '../types.ts';
 
 /** Kinds of entry in a parameter vector. */
-export type ParameterKind = 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load' | 'diode';
+export type ParameterKind = 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load' | 'diode' | 'stray';
 
 export interface ParameterInfo {
   name: string;
@@ -47,6 +47,7 @@ export const AMPLIFIER_PARAMETERS = [
   'differentialClampV',
   'internalHysteresisV',
   'overdriveDelayChargeVS',
+  'inputCapacitanceF',
 ] as const satisfies readonly (keyof AmplifierModel)[];
 export type AmplifierParameter = (typeof AMPLIFIER_PARAMETERS)[number];
 export const SUPPLY_PARAMETERS = ['supplyPositiveV', 'supplyNegativeV'] as const;
@@ -57,6 +58,20 @@ export const LOAD_PARAMETERS = ['loadResistanceOhm', 'loadReturnV'] as const;
  * Carlo can move it (about −2 mV/K, parts/diode-drift.ts).
  */
 export const DIODE_PARAMETERS = ['diodeForwardDropV'] as const;
+/**
+ * Strays the model solves (circuit/strays.ts), named as in Circuit.strays: the
+ * stray at the timing node (present whenever the circuit gives strays) and each
+ * leakage resistor the circuit has (a branch, so part of the shape).
+ */
+export const STRAY_PARAMETERS = ['timingNodeF', 'timingLeakageOhm', 'thresholdLeakageOhm'] as const;
+export type StrayParameter = (typeof STRAY_PARAMETERS)[number];
+
+/** The stray parameters a circuit's shape carries (none without `strays`: the vector of a plain circuit is unchanged). */
+export function strayParametersOf(circuit: Circuit): StrayParameter[] {
+  const strays = circuit.strays;
+  if (!strays) return [];
+  return STRAY_PARAMETERS.filter((name) => name === 'timingNodeF' || Number.isFinite(strays[name]));
+}
 
 /** Output-stage modes. */
 export const STAGE = {
@@ -136,13 +151,14 @@ export class ParameterLayout {
   /** Slot of the steering diodes' forward drop, −1 for a topology without diodes. */
   readonly diodeDropSlot: number;
 
-  constructor(topology: TopologyDefinition, rolesPresent: readonly string[], hasLoad: boolean) {
+  constructor(topology: TopologyDefinition, rolesPresent: readonly string[], hasLoad: boolean, strays: readonly StrayParameter[] = []) {
     const params: ParameterInfo[] = [];
     for (const role of rolesPresent) params.push({ name: role, kind: topology.roles[role].kind });
     for (const name of SUPPLY_PARAMETERS) params.push({ name, kind: 'supply' });
     for (const name of AMPLIFIER_PARAMETERS) params.push({ name, kind: 'amplifier' });
     if (hasLoad) for (const name of LOAD_PARAMETERS) params.push({ name, kind: 'load' });
     if (topology.diodeCount > 0) for (const name of DIODE_PARAMETERS) params.push({ name, kind: 'diode' });
+    for (const name of strays) params.push({ name, kind: 'stray' });
     this.parameters = params;
     params.forEach((p, i) => this.index.set(p.name, i));
     this.roleSlots = Int32Array.from(rolesPresent, (r) => this.index.get(r)!);
@@ -170,6 +186,7 @@ export class ParameterLayout {
       else if (p.name === 'loadResistanceOhm') v[i] = circuit.load!.resistanceOhm;
       else if (p.name === 'loadReturnV') v[i] = circuit.load!.returnV;
       else if (p.name === 'diodeForwardDropV') v[i] = (circuit.diode ?? DEFAULT_STEERING_DIODE).forwardDropV;
+      else if (p.kind === 'stray') v[i] = circuit.strays![p.name as StrayParameter];
       else v[i] = amp[p.name as AmplifierParameter];
     });
     return v;
@@ -182,6 +199,7 @@ export class ParameterLayout {
     const supply = { ...base.supply };
     const load = base.load ? { ...base.load } : undefined;
     let diode = base.diode;
+    const strays = base.strays ? { ...base.strays } : undefined;
     this.parameters.forEach((p, i) => {
       const v = values[i];
       if (p.kind === 'resistor' || p.kind === 'capacitor') parts[p.name] = v;
@@ -191,11 +209,13 @@ export class ParameterLayout {
       else if (p.name === 'loadReturnV') load!.returnV = v;
       else if (p.name === 'diodeForwardDropV') {
         if (v !== (diode ?? DEFAULT_STEERING_DIODE).forwardDropV) diode = { ...(diode ?? DEFAULT_STEERING_DIODE), forwardDropV: v };
-      } else amplifier[p.name as AmplifierParameter] = v;
+      } else if (p.kind === 'stray') strays![p.name as StrayParameter] = v;
+      else amplifier[p.name as AmplifierParameter] = v;
     });
     const out: Circuit = { ...base, supply, amplifier, parts };
     if (load) out.load = load;
     if (diode) out.diode = diode;
+    if (strays) out.strays = strays;
     return out;
   }
 }
@@ -280,6 +300,11 @@ class CompiledConfig {
     if (shape.hasLoad) {
       branches.push({ from: NODE.output, to: NODE.loadReturn, slot: layout.indexOf('loadResistanceOhm'), offsetOhm: 0, emfV: 0, emfSlot: -1, emfSign: 0 });
     }
+    // Leakage (circuit/strays.ts): plain resistors to ground at N and at P, present in every configuration.
+    const timingLeakageSlot = layout.indexOf('timingLeakageOhm');
+    if (timingLeakageSlot >= 0) branches.push({ from: NODE.capacitor, to: NODE.ground, slot: timingLeakageSlot, offsetOhm: 0, emfV: 0, emfSlot: -1, emfSign: 0 });
+    const thresholdLeakageSlot = layout.indexOf('thresholdLeakageOhm');
+    if (thresholdLeakageSlot >= 0) branches.push({ from: NODE.decision, to: NODE.ground, slot: thresholdLeakageSlot, offsetOhm: 0, emfV: 0, emfSlot: -1, emfSign: 0 });
     const clamp = Math.floor(key / 4) % 3;
     const clampSlot = layout.indexOf('differentialClampV');
     if (clamp === CLAMP.pAboveN) {
@@ -540,6 +565,9 @@ export function shapeKey(circuit: Circuit, topology: TopologyDefinition): string
   if (topology.diodeCount > 0) key += `|d${circuit.diode ? circuit.diode.resistanceOhm : '-'}`;
   // A C(v) timing capacitor changes the piece kinds (docs/model.md, non-linear capacitor).
   if (circuit.capacitorShape && circuit.capacitorShape.kind !== 'flat') key += `|c${circuit.capacitorShape.key}`;
+  // Strays: which stray parameters the vector carries (a leakage resistor is a branch).
+  const strays = strayParametersOf(circuit);
+  if (strays.length > 0) key += `|s${strays.join(',')}`;
   return key;
 }
 
@@ -558,7 +586,12 @@ export class CompiledShape {
   readonly biasShape: BiasShape;
   private readonly configs: (CompiledConfig | undefined)[] = new Array<CompiledConfig | undefined>(KEY_SPACE);
   /** Parameter slots the walk reads on every evaluation (looked up once here, not per evaluation). */
-  readonly slot: Readonly<Record<'positiveV' | 'negativeV' | 'headroomHigh' | 'headroomLow' | 'rOut' | 'offset' | 'bias' | 'slew' | 'delay' | 'limit' | 'clamp' | 'hysteresis' | 'delayCharge', number>>;
+  readonly slot: Readonly<
+    Record<
+      'positiveV' | 'negativeV' | 'headroomHigh' | 'headroomLow' | 'rOut' | 'offset' | 'bias' | 'slew' | 'delay' | 'limit' | 'clamp' | 'hysteresis' | 'delayCharge' | 'inputCapacitance' | 'timingNodeStray',
+      number
+    >
+  >;
   /** Keys of the nominal configuration of each state (high, low). */
   nominalHighKey = 0;
   nominalLowKey = 0;
@@ -574,7 +607,7 @@ export class CompiledShape {
     this.hasLoad = template.load !== undefined;
     this.outputResistanceSeparate = template.amplifier.outputResistanceOhm > 0;
     this.openDrain = topology.needsOpenDrain;
-    this.layout = new ParameterLayout(topology, roles, this.hasLoad);
+    this.layout = new ParameterLayout(topology, roles, this.hasLoad, strayParametersOf(template));
     this.diodeTerminals = findDiodeTerminals(topology, template, this.layout);
     const l = this.layout;
     this.slot = {
@@ -591,6 +624,8 @@ export class CompiledShape {
       clamp: l.indexOf('differentialClampV'),
       hysteresis: l.indexOf('internalHysteresisV'),
       delayCharge: l.indexOf('overdriveDelayChargeVS'),
+      inputCapacitance: l.indexOf('inputCapacitanceF'),
+      timingNodeStray: l.indexOf('timingNodeF'),
     };
     const bits = (on: readonly boolean[] | undefined) => (on ?? []).reduce((acc, x, k) => acc | (x ? 1 << k : 0), 0);
     this.nominalHighKey = configKey(this.openDrain ? STAGE.released : STAGE.driven, CLAMP.off, bits(topology.nominalDiodes?.('high')));

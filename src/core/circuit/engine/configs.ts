@@ -87,7 +87,7 @@ export class ConfigCache {
     this.currents = currents;
     this.values = values;
     const slot = shape.slot;
-    this.capacitanceF = values[shape.layout.capacitorSlot];
+    this.capacitanceF = values[shape.layout.capacitorSlot] + timingNodeStrayF(shape, values);
     this.spanV = values[slot.positiveV] - values[slot.negativeV];
     this.clampV = dynamics ? values[slot.clamp] : Infinity;
     this.limitA = dynamics ? values[slot.limit] : Infinity;
@@ -165,6 +165,18 @@ export class ConfigCache {
       }
     }
   }
+}
+
+/**
+ * Capacitance at the timing node besides the timing capacitor, F: the board
+ * stray and the amplifier's input capacitance, in parallel with it (circuit/strays.ts).
+ * Exactly 0 for a circuit without them, so its pieces stay bit for bit the same.
+ */
+export function timingNodeStrayF(shape: CompiledShape, values: ArrayLike<number>): number {
+  const input = values[shape.slot.inputCapacitance];
+  const board = shape.slot.timingNodeStray >= 0 ? values[shape.slot.timingNodeStray] : 0;
+  // A stored amplifier from before the figure existed has none (undefined reads as NaN).
+  return (input > 0 ? input : 0) + (board > 0 ? board : 0);
 }
 
 export function diodeBits(on: readonly boolean[] | undefined): number {

@@ -122,6 +122,8 @@ export class PreparedModel {
   private readonly twoPiece: boolean;
   private readonly wantTransitions: boolean;
   private readonly roleSlots: Int32Array;
+  /** Stray capacitances and leakages the vector carries (each must stay a finite value >= 0). */
+  private readonly straySlots: Int32Array;
   private readonly slewSlot: number;
   private readonly delaySlot: number;
   private readonly limitSlot: number;
@@ -143,6 +145,7 @@ export class PreparedModel {
     // A C(v) capacitor's pieces are not exponentials: the full walk (its non-linear piece kinds) answers.
     this.twoPiece = (!this.dynamics || this.effects.length === 0) && this.shape.biasShape.kind === 'flat';
     this.roleSlots = layout.roleSlots;
+    this.straySlots = Int32Array.from(layout.parameters.flatMap((p, i) => (p.kind === 'stray' ? [i] : [])));
     this.slewSlot = layout.indexOf('slewRateVPerS');
     this.delaySlot = layout.indexOf('recoveryDelayS');
     this.limitSlot = layout.indexOf('outputCurrentLimitA');
@@ -170,6 +173,10 @@ export class PreparedModel {
     for (let i = 0; i < this.roleSlots.length; i++) {
       const v = values[this.roleSlots[i]];
       if (!(v > 0) || v === Infinity) return false;
+    }
+    for (let i = 0; i < this.straySlots.length; i++) {
+      const v = values[this.straySlots[i]];
+      if (!(v >= 0) || v === Infinity) return false;
     }
     if (this.dynamics) {
       if (!(values[this.slewSlot] > 0) || !(values[this.delaySlot] >= 0) || !(values[this.limitSlot] > 0) || !(values[this.clampSlot] > 0)) return false;

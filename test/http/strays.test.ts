@@ -1,0 +1,80 @@
+/** Strays and leakage over HTTP: analyze and tolerance see them; what the model does not solve is a 422 naming the field. */
+import type { FastifyInstance } from 'fastify';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { expectContract } from '../helpers/contract.ts';
+import { testApp } from '../helpers/app.ts';
+
+let app: FastifyInstance;
+beforeAll(async () => {
+  app = await testApp();
+});
+afterAll(async () => app.close());
+
+// Our own scenario: a ±10 V lab timebase whose timing node picked up flux residue on the board.
+const timebase = {
+  topology: 'two-resistor-feedback',
+  supply: { positiveV: 10, negativeV: -10 },
+  amplifier: 'ideal',
+  parts: { rTiming: '47k', cTiming: '10n', rGround: '10k', rFeedback: '20k' },
+};
+const R = 47e3;
+const C = 10e-9;
+const V = 10;
+const BETA = 1 / 3;
+
+/** Hand derivation (Thevenin + RC charging, Sedra & Smith astable): T = 2·(R‖R_L)·C·ln((V_th + βV)/(V_th − βV)), V_th = V·R_L/(R + R_L). */
+function leakyPeriodS(leakOhm: number, strayF = 0): number {
+  const vTh = (V * leakOhm) / (R + leakOhm);
+  return 2 * ((R * leakOhm) / (R + leakOhm)) * (C + strayF) * Math.log((vTh + BETA * V) / (vTh - BETA * V));
+}
+
+async function post(url: string, payload: unknown) {
+  const res = await app.inject({ method: 'POST', url, payload: payload as object });
+  await expectContract(res, 'POST', url);
+  return res;
+}
+
+describe('strays in /v1/analyze', () => {
+  it('leakage and timing-node capacitance enter the answer (hand derivation within 1e-12)', async () => {
+    const res = await post('/v1/analyze', { ...timebase, strays: { timingLeakageOhm: 2e6, timingNodeF: 220e-12 } });
+    expect(res.statusCode).toBe(200);
+    const body = res.json();
+    expect(Math.abs(body.periodS / leakyPeriodS(2e6, 220e-12) - 1)).toBeLessThan(1e-12);
+    // 10 nF against 220 pF: 45× is below the 50× window, so the check fires.
+    expect(body.checks.find((c: { code: string }) => c.code === 'stray-capacitance-significant')).toMatchObject({ severity: 'warning', minimumRatio: 50 });
+  });
+
+  it('a capacitance at P or at the output pin, or an amplifier input capacitance, is 422 not-modelled naming the field', async () => {
+    for (const [body, pointer] of [
+      [{ ...timebase, strays: { thresholdNodeF: 3e-12 } }, '/strays/thresholdNodeF'],
+      [{ ...timebase, strays: { outputNodeF: 20e-12 } }, '/strays/outputNodeF'],
+      [{ ...timebase, amplifier: { inputCapacitanceF: 4e-12 } }, '/amplifier/inputCapacitanceF'],
+    ] as const) {
+      const res = await post('/v1/analyze', body);
+      expect(res.statusCode).toBe(422);
+      expect(res.json()).toMatchObject({ code: 'not-modelled', errors: [{ pointer }] });
+    }
+  });
+
+  it('an out-of-range leakage is a 400 naming the field', async () => {
+    const res = await post('/v1/analyze', { ...timebase, strays: { timingLeakageOhm: 5 } });
+    expect(res.statusCode).toBe(400);
+    expect(res.json().errors[0].pointer).toBe('/strays/timingLeakageOhm');
+  });
+});
+
+describe('strays in /v1/tolerance (through the prepared model)', () => {
+  it('the leakage is a parameter: its sensitivity matches the derivative of the hand formula', async () => {
+    const leakOhm = 1e6;
+    const res = await post('/v1/tolerance', { circuit: { ...timebase, strays: { timingLeakageOhm: leakOhm } }, tolerances: { rTiming: 0.01 } });
+    expect(res.statusCode).toBe(200);
+    const body = res.json();
+    expect(Math.abs(body.nominal.frequencyHz * leakyPeriodS(leakOhm) - 1)).toBeLessThan(1e-12);
+    const s = body.sensitivities.find((x: { role: string }) => x.role === 'timingLeakageOhm');
+    expect(s.kind).toBe('stray');
+    // d ln f / d ln R_L by a central difference on the closed form above (step 1e-5 in ln R_L).
+    const h = 1e-5;
+    const expected = -(Math.log(leakyPeriodS(leakOhm * Math.exp(h))) - Math.log(leakyPeriodS(leakOhm * Math.exp(-h)))) / (2 * h);
+    expect(s.sensitivity).toBeCloseTo(expected, 6);
+  });
+});
