@@ -33,22 +33,52 @@ export interface ToleranceSpec {
 }
 
 /**
- * How the fit may move a figure. `space` is the fitted coordinate:
- * - 'linear': the figure itself;
- * - 'reciprocal': 1/figure (so the figure's "no limit" is the finite value 0);
- * - 'level-high' / 'level-low': the output level the headroom sets
- *   (V+ − headroom, V− + headroom), fitted in volts and bounded by the rails.
- * The physical bounds are the figure's own range (min/max below), mapped into
- * the fitted space by `fitBounds`.
+ * Where the fit lets a figure move around the circuit's own value `x` (the
+ * class-typical figure of its amplifier; our assumptions, see
+ * fit/estimate/parameters.ts): the fitted quantity stays inside [lo, hi].
+ * - 'level-high': the output high level V+ − x, from V+ − (4x + 0.5 V) to V+;
+ * - 'level-low': the output low level V− + x, from V− to V− + 4x + 0.5 V;
+ * - 'factor': from x/factor to x·factor;
+ * - 'up-to': from 0 to factor·x (a value below 0 from rounding is taken as 0);
+ * - 'symmetric': ±(factor·|x| + margin), margin in the figure's unit.
+ */
+export type FitWindow =
+  | { readonly kind: 'level-high' }
+  | { readonly kind: 'level-low' }
+  | { readonly kind: 'factor'; readonly factor: number }
+  | { readonly kind: 'up-to'; readonly factor: number }
+  | { readonly kind: 'symmetric'; readonly factor: number; readonly margin: number };
+
+/**
+ * How the fit may move a figure (fit/estimate/parameters.ts builds its list of
+ * amplifier parameters from these entries, in `order`). `space` is the fitted
+ * coordinate: 'logit' of the position inside the window, or 'log-logit' (the
+ * position on a log scale, for figures that span decades).
  */
 export interface FitSpec {
   /** Name of the fitted parameter in /v1/fit answers (may differ from the figure, e.g. outputHighV). */
   readonly parameter: string;
-  readonly space: 'linear' | 'reciprocal' | 'level-high' | 'level-low';
+  /** Position among the fitted amplifier parameters (answers and the fit's vector follow it; a new figure takes the next number). */
+  readonly order: number;
+  readonly space: 'logit' | 'log-logit';
+  readonly window: FitWindow;
   /** Words for messages. */
   readonly label: string;
+  /** Words for messages when the output is open drain (default: label). */
+  readonly openDrainLabel?: string;
   /** Not fitted for open-drain outputs (the high level belongs to the pull-up). */
   readonly pushPullOnly?: boolean;
+}
+
+/**
+ * The figure is part of the parameter vector the time-domain walk reads
+ * (circuit/engine/compiled-network.ts, `AMPLIFIER_PARAMETERS`). `slot` is its
+ * position among the amplifier figures in that vector: answers list
+ * sensitivities and corner values in vector order, so a figure keeps its slot
+ * and a new one takes the next free number.
+ */
+export interface WalkSpec {
+  readonly slot: number;
 }
 
 export interface NumberFigure {
@@ -75,6 +105,7 @@ export interface NumberFigure {
   readonly rangeNote?: string;
   readonly tolerance?: ToleranceSpec;
   readonly fit?: FitSpec;
+  readonly walk?: WalkSpec;
 }
 
 export interface ChoiceFigure {
@@ -121,7 +152,8 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     rangeNote: 'class-typical headrooms are millivolts to about 2 V; 20 V covers high-voltage parts',
     tolerance: { spread: 'relative', typicalSpread: 0.2 },
-    fit: { parameter: 'outputHighV', space: 'level-high', label: 'output high level', pushPullOnly: true },
+    fit: { parameter: 'outputHighV', order: 0, space: 'logit', window: { kind: 'level-high' }, label: 'output high level', pushPullOnly: true },
+    walk: { slot: 0 },
   },
   outputHeadroomLowV: {
     kind: 'number',
@@ -132,7 +164,8 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     rangeNote: 'as outputHeadroomHighV',
     tolerance: { spread: 'relative', typicalSpread: 0.2 },
-    fit: { parameter: 'outputLowV', space: 'level-low', label: 'output low level' },
+    fit: { parameter: 'outputLowV', order: 1, space: 'logit', window: { kind: 'level-low' }, label: 'output low level', openDrainLabel: 'open-drain low level' },
+    walk: { slot: 1 },
   },
   outputResistanceOhm: {
     kind: 'number',
@@ -144,6 +177,8 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     rangeNote: '0 (ideal) or 1 mΩ to 1 MΩ; below 1 mΩ is indistinguishable from 0 and only makes the network solve ill-conditioned',
     tolerance: { spread: 'relative', typicalSpread: 0.3 },
+    fit: { parameter: 'outputResistanceOhm', order: 4, space: 'log-logit', window: { kind: 'factor', factor: 5 }, label: 'output resistance' },
+    walk: { slot: 2 },
   },
   outputCurrentLimitA: {
     kind: 'number',
@@ -155,6 +190,7 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: Infinity,
     timeDomain: true,
     rangeNote: '1 µA (nanopower parts) to 100 A',
+    walk: { slot: 7 },
   },
   slewRateVPerS: {
     kind: 'number',
@@ -167,7 +203,8 @@ export const AMPLIFIER_FIGURE_TABLE = {
     timeDomain: true,
     rangeNote: '100 V/s (0.0001 V/µs, slower than any nanopower part) to 1e12 V/s (1 V/ps)',
     tolerance: { spread: 'relative', typicalSpread: 0.3, timeDomainOnly: true },
-    fit: { parameter: 'slewRateVPerS', space: 'reciprocal', label: 'slew rate' },
+    fit: { parameter: 'slewRateVPerS', order: 2, space: 'log-logit', window: { kind: 'factor', factor: 5 }, label: 'slew rate' },
+    walk: { slot: 5 },
   },
   recoveryDelayS: {
     kind: 'number',
@@ -179,7 +216,8 @@ export const AMPLIFIER_FIGURE_TABLE = {
     timeDomain: true,
     rangeNote: '0 to 1 s; real parts take nanoseconds to a few hundred microseconds',
     tolerance: { spread: 'relative', typicalSpread: 0.3, timeDomainOnly: true },
-    fit: { parameter: 'recoveryDelayS', space: 'linear', label: 'recovery delay' },
+    fit: { parameter: 'recoveryDelayS', order: 3, space: 'logit', window: { kind: 'up-to', factor: 5 }, label: 'recovery delay', openDrainLabel: 'propagation delay' },
+    walk: { slot: 6 },
   },
   inputCommonModeLowMarginV: {
     kind: 'number',
@@ -210,6 +248,8 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     rangeNote: '±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes',
     tolerance: { spread: 'relative', typicalSpread: 0.5 },
+    fit: { parameter: 'inputBiasCurrentA', order: 6, space: 'logit', window: { kind: 'symmetric', factor: 5, margin: 10e-9 }, label: 'input bias current' },
+    walk: { slot: 4 },
   },
   inputCapacitanceF: {
     kind: 'number',
@@ -220,6 +260,7 @@ export const AMPLIFIER_FIGURE_TABLE = {
     max: 1e-9,
     ideal: 0,
     rangeNote: 'real inputs have about 1 to 20 pF; up to 1 nF accepted',
+    walk: { slot: 11 },
   },
   inputOffsetV: {
     kind: 'number',
@@ -230,6 +271,8 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     rangeNote: '±100 mV; real parts are microvolts to about 10 mV',
     tolerance: { spread: 'relative', typicalSpread: 1 },
+    fit: { parameter: 'inputOffsetV', order: 5, space: 'logit', window: { kind: 'symmetric', factor: 5, margin: 2e-3 }, label: 'input offset' },
+    walk: { slot: 3 },
   },
   differentialClampV: {
     kind: 'number',
@@ -241,6 +284,7 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: Infinity,
     timeDomain: true,
     rangeNote: 'one diode drop (about 0.6 V) to a few in series; 0.1 V to 100 V accepted',
+    walk: { slot: 8 },
   },
   quiescentCurrentA: {
     kind: 'number',
@@ -263,6 +307,7 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     timeDomain: true,
     rangeNote: 'class-typical comparators: about 1e-10 to 1e-8 V·s (a few mV of overdrive costing a microsecond); up to 1 mV·s accepted',
+    walk: { slot: 10 },
   },
   internalHysteresisV: {
     kind: 'number',
@@ -273,6 +318,7 @@ export const AMPLIFIER_FIGURE_TABLE = {
     ideal: 0,
     timeDomain: true,
     rangeNote: 'comparators with internal hysteresis have a few millivolts; 200 mV accepted',
+    walk: { slot: 9 },
   },
   inputOffsetDriftVPerK: {
     kind: 'number',
@@ -353,11 +399,19 @@ export type FittedFigureName = { [K in AmplifierFigureName]: AmplifierFigureTabl
 /** Figures that may spread in tolerance analysis, in table order. */
 export const TOLERANCE_FIGURES = NUMBER_FIGURE_NAMES.filter((n) => (AMPLIFIER_FIGURE_TABLE[n] as NumberFigure).tolerance !== undefined) as ToleranceFigureName[];
 
-/** Figures the fit may move, in table order, with their fit description. */
+/** Figures the fit may move, in the fit's order (FitSpec.order), with their fit description. */
 export const FITTED_FIGURES: readonly { readonly figure: FittedFigureName; readonly fit: FitSpec; readonly descriptor: NumberFigure }[] = NUMBER_FIGURE_NAMES.flatMap((n) => {
   const d = AMPLIFIER_FIGURE_TABLE[n] as NumberFigure;
   return d.fit ? [{ figure: n as FittedFigureName, fit: d.fit, descriptor: d }] : [];
-});
+}).sort((x, y) => x.fit.order - y.fit.order);
+
+/** Names of the figures the walk reads from the parameter vector, typed. */
+export type WalkFigureName = { [K in AmplifierFigureName]: AmplifierFigureTable[K] extends { walk: WalkSpec } ? K : never }[AmplifierFigureName];
+
+/** Figures the walk reads, in parameter-vector order (WalkSpec.slot). */
+export const WALK_FIGURES = NUMBER_FIGURE_NAMES.filter((n) => (AMPLIFIER_FIGURE_TABLE[n] as NumberFigure).walk !== undefined).sort(
+  (x, y) => (AMPLIFIER_FIGURE_TABLE[x] as NumberFigure).walk!.slot - (AMPLIFIER_FIGURE_TABLE[y] as NumberFigure).walk!.slot,
+) as WalkFigureName[];
 
 /** The tolerance entry of a figure (undefined when it does not vary). */
 export function toleranceSpec(name: AmplifierFigureName): ToleranceSpec | undefined {
@@ -366,22 +420,24 @@ export function toleranceSpec(name: AmplifierFigureName): ToleranceSpec | undefi
 }
 
 /**
- * Physical bounds of a fitted figure in its fitted coordinate, for a supply
- * (V+, V−): levels stay within the rails and within the headroom range; a
- * reciprocal runs from 0 ("no limit", when allowed) to 1/min; linear is the range.
+ * The fit's window for a figure whose circuit value is `value` (FitWindow), on
+ * a supply (V+, V−): the natural value of the fitted quantity and its bounds.
+ * For the levels the quantity is the level itself (V+ − headroom, V− + headroom).
  */
-export function fitBounds(name: FittedFigureName, supply: { positiveV: number; negativeV: number }): { lower: number; upper: number } {
-  const d = AMPLIFIER_FIGURE_TABLE[name] as NumberFigure;
-  const fit = d.fit!;
-  switch (fit.space) {
-    case 'linear':
-      return { lower: d.min, upper: d.max };
-    case 'reciprocal':
-      return { lower: d.unlimited ? 0 : 1 / d.max, upper: 1 / d.min };
+export function fitWindow(window: FitWindow, value: number, supply: { positiveV: number; negativeV: number }): { nominal: number; lo: number; hi: number } {
+  switch (window.kind) {
     case 'level-high':
-      return { lower: Math.max(supply.negativeV, supply.positiveV - d.max), upper: supply.positiveV - d.min };
+      return { nominal: supply.positiveV - value, lo: supply.positiveV - (4 * value + 0.5), hi: supply.positiveV };
     case 'level-low':
-      return { lower: supply.negativeV + d.min, upper: Math.min(supply.positiveV, supply.negativeV + d.max) };
+      return { nominal: supply.negativeV + value, lo: supply.negativeV, hi: supply.negativeV + 4 * value + 0.5 };
+    case 'factor':
+      return { nominal: value, lo: value / window.factor, hi: value * window.factor };
+    case 'up-to':
+      return { nominal: value, lo: 0, hi: window.factor * value };
+    case 'symmetric': {
+      const half = Math.abs(value) * window.factor + window.margin;
+      return { nominal: value, lo: -half, hi: half };
+    }
   }
 }
 

@@ -12,8 +12,9 @@ import {
   AMPLIFIER_FIGURE_TABLE,
   BUILT_IN_AMPLIFIERS,
   CoreError,
+  AMPLIFIER_PARAMETERS,
   FITTED_FIGURES,
-  fitBounds,
+  fitWindow,
   hasDynamicLimits,
   IDEAL_FIGURES,
   NUMBER_FIGURE_NAMES,
@@ -21,10 +22,13 @@ import {
   TOLERANCE_FIGURES,
   UNLIMITED_FIGURES,
   validateFigures,
+  WALK_FIGURES,
   type AmplifierFigures,
   type NumberFigure,
 } from '../../../src/core/index.ts';
 import { findBuiltInAmplifier } from '../../../src/core/amplifiers/archetypes.ts';
+import { prepareModel } from '../../../src/core/circuit/analyze.ts';
+import { buildParameters } from '../../../src/core/fit/estimate/parameters.ts';
 import { figureValueInRange } from '../../../src/core/amplifiers/validate-figures.ts';
 import { amplifierFigureSchema } from '../../../src/http/schemas/common.ts';
 
@@ -112,13 +116,81 @@ describe('amplifier figure table', () => {
     );
     expect(UNLIMITED_FIGURES.find((u) => u.name === 'inputCommonModeLowMarginV')!.value).toBe(-Infinity);
     expect(TOLERANCE_FIGURES).toEqual(['outputHeadroomHighV', 'outputHeadroomLowV', 'outputResistanceOhm', 'slewRateVPerS', 'recoveryDelayS', 'inputBiasCurrentA', 'inputOffsetV']);
-    expect(FITTED_FIGURES.map((f) => f.fit.parameter)).toEqual(['outputHighV', 'outputLowV', 'slewRateVPerS', 'recoveryDelayS']);
-    // Levels stay within the rails; the reciprocal slew runs from 0 (instant) to 1/min.
+    // The fit's amplifier parameters, in the order its answers list them.
+    expect(FITTED_FIGURES.map((f) => f.fit.parameter)).toEqual(['outputHighV', 'outputLowV', 'slewRateVPerS', 'recoveryDelayS', 'outputResistanceOhm', 'inputOffsetV', 'inputBiasCurrentA']);
+    expect(FITTED_FIGURES.map((f) => f.fit.order)).toEqual(FITTED_FIGURES.map((_, i) => i));
+  });
+
+  it("the walk's parameter vector takes its amplifier figures from the table, in slot order", () => {
+    const slots = NUMBER_FIGURE_NAMES.flatMap((n) => {
+      const walk = (AMPLIFIER_FIGURE_TABLE[n] as NumberFigure).walk;
+      return walk ? [{ n, slot: walk.slot }] : [];
+    });
+    // Slots are 0..n−1, each once; the vector lists the figures by slot.
+    expect(slots.map((s) => s.slot).sort((a, b) => a - b)).toEqual(slots.map((_, i) => i));
+    expect(AMPLIFIER_PARAMETERS).toEqual([...slots].sort((a, b) => a.slot - b.slot).map((s) => s.n));
+    expect(WALK_FIGURES).toEqual(AMPLIFIER_PARAMETERS);
+    // The order answers list sensitivities and corner values in (vector order) is the one before the list was derived.
+    expect(AMPLIFIER_PARAMETERS).toEqual([
+      'outputHeadroomHighV',
+      'outputHeadroomLowV',
+      'outputResistanceOhm',
+      'inputOffsetV',
+      'inputBiasCurrentA',
+      'slewRateVPerS',
+      'recoveryDelayS',
+      'outputCurrentLimitA',
+      'differentialClampV',
+      'internalHysteresisV',
+      'overdriveDelayChargeVS',
+      'inputCapacitanceF',
+    ]);
+    // Every time-domain figure the walk needs is in the vector.
+    for (const n of NUMBER_FIGURE_NAMES) if ((AMPLIFIER_FIGURE_TABLE[n] as NumberFigure).timeDomain) expect(AMPLIFIER_PARAMETERS, n).toContain(n);
+    const prepared = prepareModel({
+      topology: 'two-resistor-feedback',
+      supply: { positiveV: 5, negativeV: -5 },
+      amplifier: findBuiltInAmplifier('cmos-rrio-fast')!,
+      parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 20e3, rGround: 10e3 },
+    });
+    expect(prepared.parameters.filter((p) => p.kind === 'amplifier').map((p) => p.name)).toEqual(AMPLIFIER_PARAMETERS);
+  });
+
+  it("the fit's amplifier parameters and windows follow the table (windows checked against the fit's own rules written out)", () => {
     const supply = { positiveV: 12, negativeV: 0 };
-    expect(fitBounds('outputHeadroomHighV', supply)).toEqual({ lower: 0, upper: 12 });
-    expect(fitBounds('outputHeadroomLowV', supply)).toEqual({ lower: 0, upper: 12 });
-    expect(fitBounds('slewRateVPerS', supply)).toEqual({ lower: 0, upper: 1 / 100 });
-    expect(fitBounds('recoveryDelayS', supply)).toEqual({ lower: 0, upper: 1 });
+    const amplifier = findBuiltInAmplifier('bipolar-single-supply-general')!;
+    const fitted = buildParameters({ topology: 'two-resistor-feedback', supply, amplifier, parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 100e3, rGround: 100e3 } }).filter(
+      (p) => p.kind === 'amplifier',
+    );
+    expect(fitted.map((p) => p.name)).toEqual(FITTED_FIGURES.map((f) => f.fit.parameter));
+    // The windows as the fit documents them (fit/estimate/parameters.ts): levels from the rail to 4 × headroom + 0.5 V
+    // inside it, a factor of five either side, delay 0 to 5 × typical, offset ±(5|x| + 2 mV), bias ±(5|x| + 10 nA).
+    const h = amplifier.outputHeadroomHighV;
+    const l = amplifier.outputHeadroomLowV;
+    const expected: Record<string, [number, number, number]> = {
+      outputHighV: [12 - h, 12 - (4 * h + 0.5), 12],
+      outputLowV: [l, 0, 4 * l + 0.5],
+      slewRateVPerS: [amplifier.slewRateVPerS, amplifier.slewRateVPerS / 5, amplifier.slewRateVPerS * 5],
+      recoveryDelayS: [amplifier.recoveryDelayS, 0, 5 * amplifier.recoveryDelayS],
+      outputResistanceOhm: [amplifier.outputResistanceOhm, amplifier.outputResistanceOhm / 5, amplifier.outputResistanceOhm * 5],
+      inputOffsetV: [amplifier.inputOffsetV, -(Math.abs(amplifier.inputOffsetV) * 5 + 2e-3), Math.abs(amplifier.inputOffsetV) * 5 + 2e-3],
+      inputBiasCurrentA: [amplifier.inputBiasCurrentA, -(Math.abs(amplifier.inputBiasCurrentA) * 5 + 10e-9), Math.abs(amplifier.inputBiasCurrentA) * 5 + 10e-9],
+    };
+    for (const p of fitted) expect([p.nominal, p.lo, p.hi], p.name).toEqual(expected[p.name]);
+    for (const f of FITTED_FIGURES) {
+      const w = fitWindow(f.fit.window, amplifier[f.figure], supply);
+      expect([w.nominal, w.lo, w.hi], f.figure).toEqual(expected[f.fit.parameter]);
+    }
+    // Open drain: the high level belongs to the pull-up, and the delay is a propagation delay.
+    const comparator = findBuiltInAmplifier('comparator-open-drain-bipolar')!;
+    const od = buildParameters({
+      topology: 'open-drain-pullup',
+      supply,
+      amplifier: comparator,
+      parts: { rTiming: 10e3, cTiming: 10e-9, rPullup: 4.7e3, rTop: 100e3, rBottom: 100e3, rFeedback: 100e3 },
+    }).filter((p) => p.kind === 'amplifier');
+    expect(od.map((p) => p.name)).not.toContain('outputHighV');
+    expect(od.find((p) => p.name === 'recoveryDelayS')?.label).toBe('propagation delay');
   });
 
   it('an inline amplifier takes omitted figures from its base, others from the ideal part', () => {

@@ -19,6 +19,7 @@
  * only network solve in the service; there is no second, object-based copy.
  */
 import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
+import { WALK_FIGURES, type WalkFigureName } from '../../amplifiers/figures-table.ts';
 import type { AmplifierModel } from '../../amplifiers/model.ts';
 import { NODE } from '../nodes.ts';
 import { DEFAULT_STEERING_DIODE } from '../topologies/diode-steered.ts';
@@ -34,22 +35,12 @@ export interface ParameterInfo {
   kind: ParameterKind;
 }
 
-/** Amplifier figures the model reads, in vector order (the first five shape the static network). */
-export const AMPLIFIER_PARAMETERS = [
-  'outputHeadroomHighV',
-  'outputHeadroomLowV',
-  'outputResistanceOhm',
-  'inputOffsetV',
-  'inputBiasCurrentA',
-  'slewRateVPerS',
-  'recoveryDelayS',
-  'outputCurrentLimitA',
-  'differentialClampV',
-  'internalHysteresisV',
-  'overdriveDelayChargeVS',
-  'inputCapacitanceF',
-] as const satisfies readonly (keyof AmplifierModel)[];
-export type AmplifierParameter = (typeof AMPLIFIER_PARAMETERS)[number];
+/**
+ * Amplifier figures the model reads, in vector order: the figure table's entries with a `walk` slot
+ * (amplifiers/figures-table.ts; the first five shape the static network).
+ */
+export const AMPLIFIER_PARAMETERS: readonly AmplifierParameter[] = WALK_FIGURES;
+export type AmplifierParameter = WalkFigureName;
 export const SUPPLY_PARAMETERS = ['supplyPositiveV', 'supplyNegativeV'] as const;
 export const LOAD_PARAMETERS = ['loadResistanceOhm', 'loadReturnV'] as const;
 /**

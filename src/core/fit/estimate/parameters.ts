@@ -17,12 +17,13 @@
  *   out of tolerance, log-normal with σ = 0.2 (a factor 1.8 at 3σ); an
  *   amplifier figure or the supply anywhere in its range (σ = 1.8 in logit
  *   space is close to flat across it). Our assumptions, documented here.
- * Ranges for amplifier effects (our assumption until the amplifier figures
- * table carries fit bounds): a factor of five either side of the class-typical
- * figure; levels from the rail to 4 × the headroom + 0.5 V inside it; delay 0
- * to 5 × typical; offset ±(5 × typical + 2 mV); bias ±(5 × typical + 10 nA);
- * supply ±20 %.
+ * Ranges for amplifier effects (our assumptions, carried by the amplifier
+ * figure table's `fit` entries, amplifiers/figures-table.ts): a factor of five
+ * either side of the class-typical figure; levels from the rail to 4 × the
+ * headroom + 0.5 V inside it; delay 0 to 5 × typical; offset ±(5 × typical +
+ * 2 mV); bias ±(5 × typical + 10 nA); supply ±20 %.
  */
+import { FITTED_FIGURES, fitWindow, type NumberFigure } from '../../amplifiers/figures-table.ts';
 import type { AmplifierModel } from '../../amplifiers/model.ts';
 import { getTopology } from '../../circuit/analyze.ts';
 import type { Circuit } from '../../circuit/types.ts';
@@ -64,7 +65,6 @@ export const MIN_TOLERANCE = 1e-4;
 const PART_OFF_SD = 0.2;
 const AMP_NUISANCE_SD = 0.6;
 const AMP_OFF_SD = 1.8;
-const RANGE_FACTOR = 5;
 const SUPPLY_RANGE = 0.2;
 const SUPPLY_NUISANCE = 0.01;
 
@@ -114,27 +114,28 @@ export function buildParameters(circuit: Circuit, tolerances: Readonly<Record<st
     });
   }
   const amp = circuit.amplifier;
-  const { positiveV, negativeV } = circuit.supply;
+  const openDrain = amp.outputStage === 'open-drain';
   const add = (p: FitParameter | undefined) => p && params.push(p);
-  if (amp.outputStage !== 'open-drain') {
-    const h = amp.outputHeadroomHighV;
-    add(ranged('outputHighV', 'amplifier', 'V', 'logit', positiveV - h, positiveV - (4 * h + 0.5), positiveV, 'output high level'));
+  // The amplifier effects, their windows and order come from the figure table (FitSpec).
+  for (const { figure, fit, descriptor } of FITTED_FIGURES) {
+    if (fit.pushPullOnly && openDrain) continue;
+    const w = fitWindow(fit.window, amp[figure], circuit.supply);
+    const label = openDrain && fit.openDrainLabel ? fit.openDrainLabel : fit.label;
+    add(ranged(fit.parameter, 'amplifier', fitUnit(descriptor), fit.space, w.nominal, w.lo, w.hi, label));
   }
-  const l = amp.outputHeadroomLowV;
-  add(ranged('outputLowV', 'amplifier', 'V', 'logit', negativeV + l, negativeV, negativeV + 4 * l + 0.5, amp.outputStage === 'open-drain' ? 'open-drain low level' : 'output low level'));
-  const sr = amp.slewRateVPerS;
-  add(ranged('slewRateVPerS', 'amplifier', 'V/s', 'log-logit', sr, sr / RANGE_FACTOR, sr * RANGE_FACTOR, 'slew rate'));
-  const d = amp.recoveryDelayS;
-  add(ranged('recoveryDelayS', 'amplifier', 's', 'logit', d, 0, RANGE_FACTOR * d, amp.outputStage === 'open-drain' ? 'propagation delay' : 'recovery delay'));
-  const ro = amp.outputResistanceOhm;
-  add(ranged('outputResistanceOhm', 'amplifier', 'ohm', 'log-logit', ro, ro / RANGE_FACTOR, ro * RANGE_FACTOR, 'output resistance'));
-  const os = Math.abs(amp.inputOffsetV) * RANGE_FACTOR + 2e-3;
-  add(ranged('inputOffsetV', 'amplifier', 'V', 'logit', amp.inputOffsetV, -os, os, 'input offset'));
-  const ib = Math.abs(amp.inputBiasCurrentA) * RANGE_FACTOR + 10e-9;
-  add(ranged('inputBiasCurrentA', 'amplifier', 'A', 'logit', amp.inputBiasCurrentA, -ib, ib, 'input bias current'));
   add(ranged('supplyScale', 'supply', '1', 'logit', 1, 1 - SUPPLY_RANGE, 1 + SUPPLY_RANGE, 'supply voltage', SUPPLY_NUISANCE));
   return params;
 }
+
+/** The unit of a fitted amplifier figure as fit answers name it. */
+function fitUnit(descriptor: NumberFigure): FitParameter['unit'] {
+  const unit = descriptor.unit;
+  if (unit === 'ohm' || unit === 'V' || unit === 'V/s' || unit === 's' || unit === 'A') return unit;
+  throw new Error(`a fitted amplifier figure in ${unit} has no fit unit: add it to FitParameter['unit']`);
+}
+
+/** What the fit does with the natural value of each fitted amplifier parameter, by parameter name. */
+const FITTED_BY_PARAMETER = new Map(FITTED_FIGURES.map((f) => [f.fit.parameter, f]));
 
 /** Natural value of a parameter at its fitted-space value. */
 export function naturalValue(p: FitParameter, x: number): number {
@@ -194,31 +195,25 @@ export function circuitAt(base: Circuit, params: readonly FitParameter[], x: Arr
       continue;
     }
     const v = naturalValue(p, x[j]);
-    switch (p.name) {
-      case 'outputHighV':
+    if (p.name === 'supplyScale') {
+      supply = { positiveV: base.supply.positiveV * v, negativeV: base.supply.negativeV * v };
+      continue;
+    }
+    const fitted = FITTED_BY_PARAMETER.get(p.name);
+    if (!fitted) continue;
+    switch (fitted.fit.window.kind) {
+      case 'level-high':
         highV = v;
         break;
-      case 'outputLowV':
+      case 'level-low':
         lowV = v;
         break;
-      case 'slewRateVPerS':
-        amplifier.slewRateVPerS = v;
+      case 'up-to':
+        // The window starts at 0: rounding in the logistic must not take the figure below it.
+        amplifier[fitted.figure] = Math.max(0, v);
         break;
-      case 'recoveryDelayS':
-        amplifier.recoveryDelayS = Math.max(0, v);
-        break;
-      case 'outputResistanceOhm':
-        amplifier.outputResistanceOhm = v;
-        break;
-      case 'inputOffsetV':
-        amplifier.inputOffsetV = v;
-        break;
-      case 'inputBiasCurrentA':
-        amplifier.inputBiasCurrentA = v;
-        break;
-      case 'supplyScale':
-        supply = { positiveV: base.supply.positiveV * v, negativeV: base.supply.negativeV * v };
-        break;
+      default:
+        amplifier[fitted.figure] = v;
     }
   }
   // Levels are absolute; the supply scale moves the rails, and the headroom is what is left.
