@@ -1615,7 +1615,7 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description Default Response */
+                /** @description Parameter estimates and a ranked diagnosis of the built board */
                 200: {
                     headers: {
                         [name: string]: unknown;
@@ -2903,6 +2903,7 @@ export interface components {
             /** @description Minimum fraction of boards inside the spec (Monte Carlo); omit for no yield rule */
             minimumYield?: number;
         };
+        /** @description One board revision: its BOM lines, which line fills which role, and its spec */
         BomAssembly: {
             /** @description The caller's id for the assembly (echoed in its result) */
             id: string;
@@ -2914,9 +2915,13 @@ export interface components {
             };
             /** @description Topology id: three-resistor-divider, two-resistor-feedback, diode-steered, open-drain-pullup (an unknown one fails this assembly only) */
             topology: string;
+            /** @description The amplifier fitted on the board: an archetype or registered id, or inline figures (an unknown id fails this assembly only) */
             amplifier: components["schemas"]["AmplifierSpec"];
+            /** @description The rails of the board and their regulation band */
             supply: components["schemas"]["BomSupply"];
+            /** @description Ambient range the board must work over (absent: no temperature drift is applied, tolerances alone) */
             temperature?: components["schemas"]["BomTemperatureRange"];
+            /** @description What the clock must meet for the assembly to pass */
             spec: components["schemas"]["BomSpec"];
             /** @description Id of a stored parts catalogue to check part numbers, values and status against */
             catalogue?: string;
@@ -2924,6 +2929,7 @@ export interface components {
             series?: string | {
                 [key: string]: string;
             };
+            /** @description Tolerances for lines whose value text states none */
             assumedTolerance?: {
                 /** @description Tolerance assumed for resistors that state none (default 0.05) */
                 resistor?: number;
@@ -2953,14 +2959,20 @@ export interface components {
              */
             seed?: number;
         };
+        /** @description A batch of assemblies to check */
         BomCheckRequest: {
+            /** @description Assemblies to check, 1 to 5000; each passes or fails on its own */
             assemblies: components["schemas"]["BomAssembly"][];
+            /** @description How deeply to check and what fails an assembly (absent: every option at its default) */
             options?: components["schemas"]["BomCheckOptions"];
         };
+        /** @description One rule result for an assembly */
         BomRule: {
             /** @description Stable rule code: role-unassigned, role-unknown, refdes-missing, refdes-duplicated, topology-unknown, amplifier-unresolved, catalogue-unavailable, series-unknown, spec-inconsistent, value-read, value-unreadable, value-text-leftover, tolerance-assumed, tempco-assumed, value-off-series, part-number-unlisted, value-disagrees-with-catalogue, value-not-in-catalogue, part-not-for-new-designs, dielectric-unfit-for-timing, electrolytic-in-timing-path, dielectric-unstated, voltage-rating-below-supply, voltage-rating-unstated, temperature-beyond-part-rating, bias-derating, bias-derating-leaves-spec, circuit-rejected, supply-outside-amplifier-range, output-drive-exceeded, inputs-outside-common-mode, input-clamp-conducts, bias-shifts-thresholds, selv-caution, stored-energy-caution, dynamics-approximated, frequency-within-spec, frequency-outside-spec, duty-within-spec, duty-outside-spec, yield-met, yield-below-minimum, yield-not-evaluated, evaluation-failed; checks the analysis adds later arrive as analysis-<code> */
             code: string;
+            /** @description error: the board will not meet its spec or work as intended; warning: it works with reduced margin; caution: safety note; info: for the record */
             severity: "error" | "warning" | "caution" | "info";
+            /** @description What was found, in words with the figures */
             message: string;
             /** @description The designator the rule is about */
             refdes?: string;
@@ -2973,7 +2985,9 @@ export interface components {
             /** @description value-read only: what the value text was read as, in words */
             understood?: string[];
         };
+        /** @description The verdict on one assembly */
         BomCheckResult: {
+            /** @description The assembly id from the request */
             id: string;
             /** @description Position of the assembly in the request */
             index: number;
@@ -2981,39 +2995,62 @@ export interface components {
             pass: boolean;
             /** @description Rule results by severity */
             counts: {
+                /** @description Rule results of severity error */
                 error: number;
+                /** @description Rule results of severity warning */
                 warning: number;
+                /** @description Rule results of severity caution */
                 caution: number;
+                /** @description Rule results of severity info */
                 info: number;
             };
+            /** @description Every rule result for the assembly (passing checks report as info) */
             rules: components["schemas"]["BomRule"][];
         };
+        /** @description Verdicts on a batch of assemblies */
         BomCheckResponse: {
+            /** @description One result per assembly, in request order */
             results: components["schemas"]["BomCheckResult"][];
+            /** @description Totals over the batch */
             summary: {
+                /** @description Assemblies checked */
                 assemblies: number;
+                /** @description Assemblies with pass true */
                 passed: number;
+                /** @description Assemblies with pass false */
                 failed: number;
             };
         };
         /** @description A measured figure: a number, or {value, uncertainty} with its standard uncertainty (1σ) */
         ScalarMeasurement: number | {
+            /** @description The measured value, in the unit the figure's name states */
             value: number;
-            /** @description Standard uncertainty (1σ), same unit as the value */
+            /** @description Standard uncertainty (1σ), same unit as the value (absent: the figure's default) */
             uncertainty?: number;
         };
         /** @description Scalar figures read off a scope, each with its uncertainty */
         FitMeasurements: {
+            /** @description Oscillation frequency, Hz (default uncertainty 0.1 %) */
             frequencyHz?: components["schemas"]["ScalarMeasurement"];
+            /** @description Output-high share of the period between 50 % crossings, 0..1 (default uncertainty 0.005) */
             dutyCycle?: components["schemas"]["ScalarMeasurement"];
+            /** @description Lowest capacitor voltage (its turning point, overshoot included), V (default 1 % + 20 mV) */
             capacitorMinV?: components["schemas"]["ScalarMeasurement"];
+            /** @description Highest capacitor voltage (its turning point, overshoot included), V (default 1 % + 20 mV) */
             capacitorMaxV?: components["schemas"]["ScalarMeasurement"];
+            /** @description Settled output high level, V (default 1 % + 20 mV) */
             outputHighV?: components["schemas"]["ScalarMeasurement"];
+            /** @description Settled output low level, V (default 1 % + 20 mV) */
             outputLowV?: components["schemas"]["ScalarMeasurement"];
+            /** @description 10–90 % rise time of the output, s (default 5 %) */
             riseTimeS?: components["schemas"]["ScalarMeasurement"];
+            /** @description 90–10 % fall time of the output, s (default 5 %) */
             fallTimeS?: components["schemas"]["ScalarMeasurement"];
+            /** @description Time constant of the charging capacitor, s (default 5 %) */
             capacitorRisingTauS?: components["schemas"]["ScalarMeasurement"];
+            /** @description Time constant of the discharging capacitor, s (default 5 %) */
             capacitorFallingTauS?: components["schemas"]["ScalarMeasurement"];
+            /** @description Share of the period the capacitor spends above the middle of its range, 0..1 (default uncertainty 0.005) */
             capacitorAboveMidShare?: components["schemas"]["ScalarMeasurement"];
         };
         /** @description A scope capture: one or two channels as arrays with a sample interval or time column, or a CSV export */
@@ -3041,11 +3078,17 @@ export interface components {
         Tolerances: {
             [key: string]: number;
         };
+        /** @description A circuit and what was measured on the built board */
         FitRequest: {
+            /** @description The circuit as designed (nominal values), as a POST /v1/analyze body */
             circuit: components["schemas"]["Circuit"];
+            /** @description How far each part may be from nominal before it counts as off (absent: 1 % resistors, 10 % capacitors) */
             tolerances?: components["schemas"]["Tolerances"];
+            /** @description Figures read off the bench; give these, a capture, or both */
             measurements?: components["schemas"]["FitMeasurements"];
+            /** @description Sampled scope channels the figures are read from (IEEE Std 181); give this, measurements, or both */
             capture?: components["schemas"]["FitCapture"];
+            /** @description How many explanations to rank and how complex they may be (absent: the defaults) */
             diagnosis?: {
                 /** @description Explanations with up to this many causes (default 2) */
                 maxCauses?: 1 | 2;
@@ -3053,10 +3096,13 @@ export interface components {
                 maxExplanations?: number;
             };
         };
+        /** @description What the measurements say about one effective parameter */
         ParameterEstimate: {
             /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA) or supplyScale */
             parameter: string;
+            /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails */
             kind: "part" | "amplifier" | "supply";
+            /** @description Unit of nominal, estimate, the standard deviations and shift ("1": dimensionless) */
             unit: "ohm" | "F" | "V" | "V/s" | "s" | "A" | "1";
             /** @description Nominal value (null: no limit, e.g. an instant slew rate) */
             nominal: number | null;
@@ -3077,14 +3123,19 @@ export interface components {
             /** @description Posterior over prior width; near 1: the data say nothing about this parameter */
             posteriorToPriorSd: number;
         };
+        /** @description A ranked hypothesis of what is off on the board */
         FitExplanation: {
+            /** @description Position in the ranking, 1 = most plausible */
             rank: number;
             /** @description Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom */
             hypothesis: string;
+            /** @description The one or two effects this explanation blames */
             causes: {
                 /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA) or supplyScale */
                 parameter: string;
+                /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails */
                 kind: "part" | "amplifier" | "supply";
+                /** @description Unit of nominal, estimate, the standard deviations and shift ("1": dimensionless) */
                 unit: "ohm" | "F" | "V" | "V/s" | "s" | "A" | "1";
                 /** @description Nominal value (null: no limit, e.g. an instant slew rate) */
                 nominal: number | null;
@@ -3104,6 +3155,7 @@ export interface components {
                 shiftInTolerances: number;
                 /** @description Posterior over prior width; near 1: the data say nothing about this parameter */
                 posteriorToPriorSd: number;
+                /** @description The fitted shift stays inside the part's tolerance (or the 3σ prior spread of an amplifier effect) */
                 withinTolerance: boolean;
                 /** @description off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted */
                 fault: "off" | "neighbouring-value" | "decade-slip" | "swapped";
@@ -3116,71 +3168,107 @@ export interface components {
             logEvidence: number;
             /** @description χ² of the measurements this explanation leaves, the other effects allowed their tolerances */
             residualChiSquare: number;
+            /** @description Measurements the χ² figures count */
             measurementCount: number;
             /** @description Residual χ² within its 95 % bound */
             accountsForMeasurements: boolean;
             /** @description Residual χ² within its 1e-3 bound; one that fails never outranks one that passes */
             passesGoodnessOfFit: boolean;
+            /** @description How well the explanation reproduces each measurement */
             residuals: {
+                /** @description The measured figure */
                 measurement: "frequencyHz" | "dutyCycle" | "capacitorMinV" | "capacitorMaxV" | "outputHighV" | "outputLowV" | "riseTimeS" | "fallTimeS" | "capacitorRisingTauS" | "capacitorFallingTauS" | "capacitorAboveMidShare";
+                /** @description The measured value, in the unit the name states */
                 measured: number;
+                /** @description What this explanation predicts for it */
                 predicted: number;
+                /** @description Standard uncertainty used, same unit */
                 uncertainty: number;
                 /** @description (predicted − measured)/uncertainty */
                 normalized: number;
             }[];
+            /** @description The explanation in one sentence with its figures */
             summary: string;
         };
+        /** @description Parameter estimates and a ranked diagnosis of the built board */
         FitResult: {
             /** @description What predicts the figures during the fit */
             forwardModel: string;
-            /** @description Figures the forward model predicts */
+            /** @description What the forward model predicts with every parameter at nominal */
             nominal: {
+                /** @description Oscillation frequency, Hz */
                 frequencyHz: number;
+                /** @description Period, s */
                 periodS: number;
+                /** @description Fraction of the period the output is high, between 50 % crossings */
                 dutyCycle: number;
+                /** @description Lowest capacitor voltage (its turning point), V */
                 capacitorMinV: number;
+                /** @description Highest capacitor voltage (its turning point), V */
                 capacitorMaxV: number;
+                /** @description Settled output high level, V */
                 outputHighV: number;
+                /** @description Settled output low level, V */
                 outputLowV: number;
+                /** @description Output 10–90 % rise time, s */
                 riseTimeS: number;
+                /** @description Output 90–10 % fall time, s */
                 fallTimeS: number;
+                /** @description Time constant of the charging capacitor, s */
                 capacitorRisingTauS: number;
+                /** @description Time constant of the discharging capacitor, s */
                 capacitorFallingTauS: number;
                 /** @description Share of the period the capacitor spends above the middle of its range */
                 capacitorAboveMidShare: number;
-                /** @description Switching level at node P, V */
+                /** @description Switching level at node P while the output is high, V */
                 upperThresholdV: number;
+                /** @description Switching level at node P while the output is low, V */
                 lowerThresholdV: number;
                 /** @description (upper − lower threshold)/(output high − low) */
                 hysteresisRatio: number;
             };
-            /** @description Figures the forward model predicts */
+            /** @description What the forward model predicts with every parameter at its estimate */
             fitted: {
+                /** @description Oscillation frequency, Hz */
                 frequencyHz: number;
+                /** @description Period, s */
                 periodS: number;
+                /** @description Fraction of the period the output is high, between 50 % crossings */
                 dutyCycle: number;
+                /** @description Lowest capacitor voltage (its turning point), V */
                 capacitorMinV: number;
+                /** @description Highest capacitor voltage (its turning point), V */
                 capacitorMaxV: number;
+                /** @description Settled output high level, V */
                 outputHighV: number;
+                /** @description Settled output low level, V */
                 outputLowV: number;
+                /** @description Output 10–90 % rise time, s */
                 riseTimeS: number;
+                /** @description Output 90–10 % fall time, s */
                 fallTimeS: number;
+                /** @description Time constant of the charging capacitor, s */
                 capacitorRisingTauS: number;
+                /** @description Time constant of the discharging capacitor, s */
                 capacitorFallingTauS: number;
                 /** @description Share of the period the capacitor spends above the middle of its range */
                 capacitorAboveMidShare: number;
-                /** @description Switching level at node P, V */
+                /** @description Switching level at node P while the output is high, V */
                 upperThresholdV: number;
+                /** @description Switching level at node P while the output is low, V */
                 lowerThresholdV: number;
                 /** @description (upper − lower threshold)/(output high − low) */
                 hysteresisRatio: number;
             };
+            /** @description Every measurement the fit used, from `measurements` and the capture */
             measurements: {
+                /** @description The measured figure (a key of `measurements`) */
                 name: "frequencyHz" | "dutyCycle" | "capacitorMinV" | "capacitorMaxV" | "outputHighV" | "outputLowV" | "riseTimeS" | "fallTimeS" | "capacitorRisingTauS" | "capacitorFallingTauS" | "capacitorAboveMidShare";
+                /** @description The measured value, in the unit the name states */
                 value: number;
                 /** @description Standard uncertainty used, same unit */
                 uncertainty: number;
+                /** @description scalar: from `measurements`; capture: read off the capture */
                 source: "scalar" | "capture";
                 /** @description What the nominal circuit predicts */
                 nominal: number;
@@ -3193,48 +3281,72 @@ export interface components {
             }[];
             /** @description What the capture analysis (IEEE Std 181 levels, crossings, segment fits) found */
             capture?: {
+                /** @description Figures read off the capture (absent ones: the channel they need was not given) */
                 features: {
+                    /** @description The channel the period, duty cycle and edges were read from (output when it is there) */
                     timingSource: "output" | "capacitor";
+                    /** @description 1 / periodS, Hz */
                     frequencyHz: number;
+                    /** @description Mean of the whole periods in the record, s */
                     periodS: number;
                     /** @description Standard deviation of the periods, s */
                     periodJitterS: number;
+                    /** @description Shortest whole period in the record, s */
                     periodMinS: number;
+                    /** @description Longest whole period in the record, s */
                     periodMaxS: number;
+                    /** @description Whole periods in the record */
                     periodCount: number;
+                    /** @description Output-high share of the period between 50 % crossings (output channel only) */
                     dutyCycle?: number;
                     /** @description Settled output level (IEEE Std 181 histogram levels refined over the settled parts of the states), V */
                     outputHighV?: number;
+                    /** @description Settled output low level, read like outputHighV, V (output channel only) */
                     outputLowV?: number;
                     /** @description Mean 10–90 % transition duration, s */
                     riseTimeS?: number;
+                    /** @description Mean 90–10 % transition duration of the falling edges, s (output channel only) */
                     fallTimeS?: number;
+                    /** @description Output transitions (or capacitor turning points when timing comes from the capacitor) found */
                     edgeCount?: number;
+                    /** @description Capacitor low turning points (local fits on both sides), averaged, V (capacitor channel only) */
                     capacitorMinV?: number;
+                    /** @description Capacitor high turning points, averaged, V (capacitor channel only) */
                     capacitorMaxV?: number;
                     /** @description Windowed time constant of the charging segments, s */
                     risingTauS?: number;
+                    /** @description Windowed time constant of the discharging segments, s */
                     fallingTauS?: number;
                     /** @description Share of the period the capacitor spends above the middle of its range */
                     capacitorAboveMidShare?: number;
+                    /** @description Capacitor turning points found (capacitor channel only) */
                     turningPointCount?: number;
+                    /** @description Samples in the record */
                     sampleCount: number;
+                    /** @description Mean sample spacing, s */
                     sampleIntervalS: number;
+                    /** @description Length of the record, s */
                     durationS: number;
                 };
+                /** @description How the capture was read (which column is which channel, and why) */
                 notes: string[];
+                /** @description What may make the readings less trustworthy (clipping, few periods, noise) */
                 warnings: string[];
             };
             /** @description MAP estimates of every effective parameter, with priors from the nominal values and tolerances */
             estimates: components["schemas"]["ParameterEstimate"][];
             /** @description Derived, identifiable: (upper − lower threshold)/(output swing) */
             hysteresisRatio: {
+                /** @description Hysteresis ratio of the nominal circuit */
                 nominal: number;
+                /** @description Hysteresis ratio at the estimate */
                 estimate: number;
+                /** @description Posterior standard deviation of the ratio, first order */
                 standardDeviation: number;
             };
             /** @description Pairs the data cannot tell apart: whatever one does across its tolerance band, the other mimics to within the measurement uncertainty */
             indistinguishable: {
+                /** @description The two parameters, as named in `estimates` */
                 parameters: string[];
                 /** @description Posterior correlation */
                 correlation: number;
@@ -3242,49 +3354,69 @@ export interface components {
                 sensitivityAlignment: number;
                 /** @description What the measurements could see of the difference between the two across a tolerance band, in σ (< 1: nothing) */
                 distinguishingSigma: number;
+                /** @description What this means for the diagnosis, in words */
                 note: string;
             }[];
             /** @description Parameters the data add (almost) nothing to: posterior width over 0.9 of the prior */
             uninformed: string[];
             /** @description Posterior correlation matrix */
             correlation: {
+                /** @description Row and column order of the matrix, as named in `estimates` */
                 parameters: string[];
+                /** @description Correlation coefficients, −1..1, one row per parameter; the diagonal is 1 */
                 matrix: number[][];
             };
+            /** @description How the MAP fit went */
             fit: {
                 /** @description Data χ² at the estimate */
                 chiSquare: number;
+                /** @description Prior penalty at the estimate: Σ((estimate − nominal)/prior σ)², in the parameters' fit spaces */
                 priorChiSquare: number;
+                /** @description Measurements fitted */
                 measurementCount: number;
+                /** @description Levenberg–Marquardt iterations taken */
                 iterations: number;
+                /** @description false: the fit stopped without meeting its convergence test (a warning says so); treat the estimates with care */
                 converged: boolean;
             };
+            /** @description Does the board behave as designed? */
             verdict: {
+                /** @description true: the nominal circuit, its parts within tolerance, explains the measurements best and passes the χ² test */
                 agreesWithNominal: boolean;
                 /** @description χ² with every part at its nominal value */
                 nominalChiSquare: number;
                 /** @description χ² allowing every effect its tolerance or class spread (what the verdict tests) */
                 toleranceChiSquare: number;
+                /** @description Measurements the χ² figures count */
                 measurementCount: number;
                 /** @description 95 % χ² bound (Wilson–Hilferty) */
                 chiSquareBound95: number;
                 /** @description Posterior probability that nothing is off */
                 nominalScore: number;
+                /** @description The verdict in words with its figures, naming the most plausible explanation when the board departs from nominal */
                 statement: string;
             };
             /** @description Ranked one- and two-cause explanations, wrong parts included */
             explanations: components["schemas"]["FitExplanation"][];
             /** @description Leading hypotheses the measurements cannot tell apart, and the measurement that would (computed from their predictions) */
             ambiguities: {
+                /** @description Hypothesis ids the measurements cannot tell apart, the leading one first */
                 hypotheses: string[];
                 /** @description Largest difference of their predictions on the measured figures, in σ */
                 measuredSeparationSigma: number;
+                /** @description The ambiguity and what would settle it, in words */
                 statement: string;
+                /** @description A measurement that would tell them apart (absent: none found) */
                 separatingMeasurement?: {
+                    /** @description What to do on the bench, in words */
                     action: string;
+                    /** @description The figure that would separate them: an observable, a switching level, or the frequency after a part swap */
                     figure: string;
+                    /** @description What each hypothesis predicts for the figure */
                     predictions: {
+                        /** @description Hypothesis id */
                         hypothesis: string;
+                        /** @description What that hypothesis predicts for the figure, in its unit */
                         value: number;
                     }[];
                     /** @description Difference of the predictions over a typical bench uncertainty of that figure */
@@ -3293,6 +3425,7 @@ export interface components {
             }[];
             /** @description Hypotheses scored */
             candidateCount: number;
+            /** @description What limits the answer (non-convergence, weak data, a model limit), in words */
             warnings: string[];
         };
         /** @description Where a role takes its values from: a series, or an approved-parts catalogue */

@@ -76,10 +76,10 @@ export const BomAssembly = Type.Object(
       description: 'Topology role -> reference designator, e.g. {"rTiming": "R12", "cTiming": "C4"}',
     }),
     topology: Type.String({ minLength: 1, maxLength: 64, description: `Topology id: ${TOPOLOGY_IDS.join(', ')} (an unknown one fails this assembly only)` }),
-    amplifier: ref(AmplifierSpec),
-    supply: ref(BomSupply),
-    temperature: Type.Optional(ref(BomTemperatureRange)),
-    spec: ref(BomSpec),
+    amplifier: ref(AmplifierSpec, 'The amplifier fitted on the board: an archetype or registered id, or inline figures (an unknown id fails this assembly only)'),
+    supply: ref(BomSupply, 'The rails of the board and their regulation band'),
+    temperature: Type.Optional(ref(BomTemperatureRange, 'Ambient range the board must work over (absent: no temperature drift is applied, tolerances alone)')),
+    spec: ref(BomSpec, 'What the clock must meet for the assembly to pass'),
     catalogue: Type.Optional(Type.String({ minLength: 1, maxLength: 64, description: 'Id of a stored parts catalogue to check part numbers, values and status against' })),
     series: Type.Optional(
       Type.Union([SeriesNameText, Type.Record(Type.String({ minLength: 1, maxLength: 64 }), SeriesNameText, { maxProperties: 32 })], {
@@ -92,11 +92,11 @@ export const BomAssembly = Type.Object(
           resistor: Type.Optional(Type.Number({ exclusiveMinimum: 0, maximum: 0.5, description: 'Tolerance assumed for resistors that state none (default 0.05)' })),
           capacitor: Type.Optional(Type.Number({ exclusiveMinimum: 0, maximum: 0.5, description: 'Tolerance assumed for capacitors that state none (default 0.1)' })),
         },
-        { additionalProperties: false },
+        { additionalProperties: false, description: 'Tolerances for lines whose value text states none' },
       ),
     ),
   },
-  { $id: 'BomAssembly', additionalProperties: false },
+  { $id: 'BomAssembly', additionalProperties: false, description: 'One board revision: its BOM lines, which line fills which role, and its spec' },
 );
 
 export const BomCheckOptions = Type.Object(
@@ -118,17 +118,23 @@ export const BomCheckOptions = Type.Object(
 
 export const BomCheckRequest = Type.Object(
   {
-    assemblies: Type.Array(ref(BomAssembly), { minItems: 1, maxItems: MAX_ASSEMBLIES_PER_BATCH }),
-    options: Type.Optional(ref(BomCheckOptions)),
+    assemblies: Type.Array(ref(BomAssembly), {
+      minItems: 1,
+      maxItems: MAX_ASSEMBLIES_PER_BATCH,
+      description: `Assemblies to check, 1 to ${MAX_ASSEMBLIES_PER_BATCH}; each passes or fails on its own`,
+    }),
+    options: Type.Optional(ref(BomCheckOptions, 'How deeply to check and what fails an assembly (absent: every option at its default)')),
   },
-  { $id: 'BomCheckRequest', additionalProperties: false },
+  { $id: 'BomCheckRequest', additionalProperties: false, description: 'A batch of assemblies to check' },
 );
 
 export const BomRule = Type.Object(
   {
     code: Type.String({ description: `Stable rule code: ${BOM_RULE_CODES.join(', ')}; checks the analysis adds later arrive as analysis-<code>` }),
-    severity: Type.Union([Type.Literal('error'), Type.Literal('warning'), Type.Literal('caution'), Type.Literal('info')]),
-    message: Type.String(),
+    severity: Type.Union([Type.Literal('error'), Type.Literal('warning'), Type.Literal('caution'), Type.Literal('info')], {
+      description: 'error: the board will not meet its spec or work as intended; warning: it works with reduced margin; caution: safety note; info: for the record',
+    }),
+    message: Type.String({ description: 'What was found, in words with the figures' }),
     refdes: Type.Optional(Type.String({ description: 'The designator the rule is about' })),
     role: Type.Optional(Type.String({ description: 'The topology role that designator fills' })),
     figures: Type.Record(Type.String(), Type.Union([Type.Number(), Type.String(), Type.Boolean(), Type.Null()]), {
@@ -136,34 +142,43 @@ export const BomRule = Type.Object(
     }),
     understood: Type.Optional(Type.Array(Type.String(), { description: 'value-read only: what the value text was read as, in words' })),
   },
-  { $id: 'BomRule', additionalProperties: false },
+  { $id: 'BomRule', additionalProperties: false, description: 'One rule result for an assembly' },
 );
 
 const Counts = Type.Object(
-  { error: Type.Integer(), warning: Type.Integer(), caution: Type.Integer(), info: Type.Integer() },
+  {
+    error: Type.Integer({ description: 'Rule results of severity error' }),
+    warning: Type.Integer({ description: 'Rule results of severity warning' }),
+    caution: Type.Integer({ description: 'Rule results of severity caution' }),
+    info: Type.Integer({ description: 'Rule results of severity info' }),
+  },
   { additionalProperties: false, description: 'Rule results by severity' },
 );
 
 export const BomCheckResult = Type.Object(
   {
-    id: Type.String(),
+    id: Type.String({ description: 'The assembly id from the request' }),
     index: Type.Integer({ minimum: 0, description: 'Position of the assembly in the request' }),
     pass: Type.Boolean({ description: 'False when any rule at or above options.failOn severity fired' }),
     counts: Counts,
-    rules: Type.Array(ref(BomRule)),
+    rules: Type.Array(ref(BomRule), { description: 'Every rule result for the assembly (passing checks report as info)' }),
   },
-  { $id: 'BomCheckResult', additionalProperties: false },
+  { $id: 'BomCheckResult', additionalProperties: false, description: 'The verdict on one assembly' },
 );
 
 export const BomCheckResponse = Type.Object(
   {
-    results: Type.Array(ref(BomCheckResult)),
+    results: Type.Array(ref(BomCheckResult), { description: 'One result per assembly, in request order' }),
     summary: Type.Object(
-      { assemblies: Type.Integer(), passed: Type.Integer(), failed: Type.Integer() },
-      { additionalProperties: false },
+      {
+        assemblies: Type.Integer({ description: 'Assemblies checked' }),
+        passed: Type.Integer({ description: 'Assemblies with pass true' }),
+        failed: Type.Integer({ description: 'Assemblies with pass false' }),
+      },
+      { additionalProperties: false, description: 'Totals over the batch' },
     ),
   },
-  { $id: 'BomCheckResponse', additionalProperties: false },
+  { $id: 'BomCheckResponse', additionalProperties: false, description: 'Verdicts on a batch of assemblies' },
 );
 
 export type BomCheckRequestBody = Static<typeof BomCheckRequest>;
