@@ -40,13 +40,7 @@ export class CapacitorKinematics extends Kinematics {
     this.scaleV = scaleV;
   }
 
-  override set(a: number, k0: number, k1: number, v0: number, s0: number, r: number): void {
-    // Kept small so the walk inlines it (a linear capacitor's pieces pass straight through).
-    super.set(a, k0, k1, v0, s0, r);
-    if (this.nonlinear) this.setNonlinearPiece();
-  }
-
-  private setNonlinearPiece(): void {
+  protected override setNonlinearPiece(): void {
     const { a, k0, k1, v0 } = this;
     this.autonomous = k1 === 0;
     this.exits = 0;

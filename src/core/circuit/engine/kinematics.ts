@@ -29,6 +29,10 @@ export class Kinematics {
   nonlinear = false;
   private readonly phi = new Float64Array(4);
 
+  /**
+   * One method for every kinematics (not overridden, and small): the walk calls it for every piece,
+   * and a call the compiler inlines hands the six numbers over without boxing them.
+   */
   set(a: number, k0: number, k1: number, v0: number, s0: number, r: number): void {
     this.a = a;
     this.k0 = k0;
@@ -36,7 +40,11 @@ export class Kinematics {
     this.v0 = v0;
     this.s0 = s0;
     this.r = r;
+    if (this.nonlinear) this.setNonlinearPiece();
   }
+
+  /** A C(v) capacitor's piece set-up from the fields above (CapacitorKinematics; never called for a linear capacitor). */
+  protected setNonlinearPiece(): void {}
 
   /** Capacitor voltage at time t into the piece. */
   v(t: number): number {

@@ -39,6 +39,12 @@ export class AffineProbe {
 
   eval(t: number): void {
     const k = this.kin;
+    if (this.cv === 0 && this.order === 0) {
+      // g follows the source alone (e.g. the pin of a stiff output): no capacitor voltage needed.
+      this.value = this.c0 + this.cs * k.s(t);
+      this.slope = this.cs * k.r;
+      return;
+    }
     const v = k.v(t);
     const dv = k.dv(t, v);
     if (this.order === 0) {
