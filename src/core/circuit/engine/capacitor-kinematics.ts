@@ -70,7 +70,7 @@ export class CapacitorKinematics extends Kinematics {
   override integralV(durationS: number): number {
     if (!this.nonlinear) return super.integralV(durationS);
     if (!this.autonomous) return this.cheb.integralV(durationS);
-    return this.charge.voltageTimeBetween(this.v0, this.v(durationS));
+    return this.charge.voltageTimeOver(this.v0, this.v(durationS), durationS);
   }
 
   override endAndIntegral(durationS: number, out: Float64Array): void {
@@ -85,7 +85,7 @@ export class CapacitorKinematics extends Kinematics {
     }
     const vEnd = this.v(durationS);
     out[0] = vEnd;
-    out[1] = this.charge.voltageTimeBetween(this.v0, vEnd);
+    out[1] = this.charge.voltageTimeOver(this.v0, vEnd, durationS);
   }
 
   /**

@@ -23,7 +23,11 @@
  * log-distance coordinate u = ln((v∞−v0)/(v∞−v)), where dt/du = C·r(v)/g is
  * bounded and positive, so the iteration is monotone and quadratic.
  *
- * No time stepping anywhere: every answer is a quadrature or a root of one.
+ * Charge integrals (a constant-current piece's time, ∫ v dt, ΔQ/ΔV) need no
+ * quadrature: the curve's antiderivative is tabulated once per curve
+ * (shape.charge, charge-table.ts).
+ *
+ * No time stepping anywhere: every answer is a quadrature, a table value or a root of one.
  */
 import type { BiasShape } from './dc-bias.ts';
 import { integrateAdaptive } from './quadrature.ts';
@@ -46,12 +50,6 @@ export class NonlinearCharge {
   private readonly remainder = (v: number): number => {
     const d = this.vInf - v;
     return (this.shape.ratio(v) - this.rInf) / d;
-  };
-  private readonly ratioOf = (v: number): number => this.shape.ratio(v);
-  /** For ∫v dt: the remainder of v·r(v)/(v∞ − v) after its singular part v∞·r(v∞)/(v∞ − v). */
-  private readonly remainderWeighted = (v: number): number => {
-    const d = this.vInf - v;
-    return (v * this.shape.ratio(v) - this.vInf * this.rInf) / d;
   };
   private readonly ratioTimesV = (v: number): number => v * this.shape.ratio(v);
 
@@ -92,28 +90,39 @@ export class NonlinearCharge {
     }
     if (this.i0 === 0 || (v1 - v0) * this.i0 < 0) return Infinity;
     if (this.shape.kind === 'flat') return (this.capacitanceF * (v1 - v0)) / this.i0;
-    const scale = Math.abs(v1 - v0) * this.shape.ratio(0.5 * (v0 + v1));
-    return (this.capacitanceF * this.split(this.ratioOf, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale)) / this.i0;
+    // A constant current: the time is the charge over the current, C·(Q(v1) − Q(v0))/i.
+    return (this.capacitanceF * (this.shape.charge(v1) - this.shape.charge(v0))) / this.i0;
   }
 
   /**
    * ∫ v dt over the motion from v0 to v1 (= ∫ v·C(v)/i(v) dv), V·s — what the
    * walk logs with each piece for averages. Same reachability rules as timeBetween.
+   * With g > 0, v = v∞ − i/g and ∫ i dt is the charge moved, so
+   * ∫ v dt = v∞·t − C·(Q(v1) − Q(v0))/g with Q the curve's antiderivative
+   * (shape.charge: a table, no quadrature); its error is the time's, scaled by v∞,
+   * as the direct quadrature's was.
    */
   voltageTimeBetween(v0: number, v1: number): number {
     if (v0 === v1) return 0;
     if (this.g > 0) {
-      const d0 = this.vInf - v0;
-      const d1 = this.vInf - v1;
-      if (d0 === 0 || d1 / d0 <= 0 || Math.abs(d1) >= Math.abs(d0)) return Infinity;
-      const logPart = this.vInf * this.rInf * Math.log(d0 / d1);
-      const scale = Math.abs(logPart) + Math.abs(this.remainderWeighted(0.5 * (v0 + v1)) * (v1 - v0)) + 1e-300;
-      const rest = this.split(this.remainderWeighted, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale);
-      return (this.capacitanceF / this.g) * (logPart + rest);
+      const t = this.timeBetween(v0, v1);
+      if (!Number.isFinite(t)) return t;
+      return this.vInf * t - (this.capacitanceF * (this.shape.charge(v1) - this.shape.charge(v0))) / this.g;
     }
     if (this.i0 === 0 || (v1 - v0) * this.i0 < 0) return Infinity;
     const scale = Math.abs(v1 - v0) * (Math.abs(v0) + Math.abs(v1)) + 1e-300;
     return (this.capacitanceF * this.split(this.ratioTimesV, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale)) / this.i0;
+  }
+
+  /**
+   * ∫ v dt over a motion from v0 to v1 already known to take tS (the piece's own
+   * duration): for g > 0 the charge identity alone, no integral at all.
+   */
+  voltageTimeOver(v0: number, v1: number, tS: number): number {
+    if (this.g > 0 && Number.isFinite(tS)) {
+      return this.vInf * tS - (this.capacitanceF * (this.shape.charge(v1) - this.shape.charge(v0))) / this.g;
+    }
+    return this.voltageTimeBetween(v0, v1);
   }
 
   /** Voltage reached tS after starting at v0 (the inverse of timeBetween). */
@@ -190,9 +199,7 @@ export class NonlinearCharge {
 /** Charge moved between v0 and v1 on a capacitor of capacitanceF (at 0 V) with this shape: ∫C(v)dv, coulomb. */
 export function chargeBetween(shape: BiasShape, capacitanceF: number, v0: number, v1: number): number {
   if (shape.kind === 'flat') return capacitanceF * (v1 - v0);
-  const charge = new NonlinearCharge().setPiece(shape, capacitanceF, 1, 0);
-  // With g = 0 and i = 1 A the time integral is ∫C dv: reuse the same split quadrature.
-  return v1 >= v0 ? charge.timeBetween(v0, v1) : -charge.timeBetween(v1, v0);
+  return capacitanceF * (shape.charge(v1) - shape.charge(v0));
 }
 
 /** The capacitance that moves the same charge over the swing v0…v1 as the curve: ΔQ/ΔV, farad. */

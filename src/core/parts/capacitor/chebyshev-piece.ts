@@ -55,6 +55,30 @@ function antiderivative(c: Float64Array, b: Float64Array): void {
   b[0] = -s;
 }
 
+/**
+ * The Picard step's linear part as one matrix: node values of f → node values of
+ * ∫_{−1}^{x_j} p_f (p_f the interpolant of f), i.e. coefficients, antiderivative
+ * and evaluation at the nodes composed once (row j, column i).
+ */
+const INTEGRATE = (() => {
+  const m = new Float64Array((N + 1) * (N + 1));
+  const e = new Float64Array(N + 1);
+  const c = new Float64Array(N + 1);
+  const b = new Float64Array(N + 2);
+  for (let i = 0; i <= N; i++) {
+    e.fill(0);
+    e[i] = 1;
+    coefficients(e, c);
+    antiderivative(c, b);
+    for (let j = 0; j <= N; j++) {
+      let sum = 0;
+      for (let k = 0; k <= N + 1; k++) sum += b[k] * COS[k * (N + 1) + j];
+      m[j * (N + 1) + i] = sum;
+    }
+  }
+  return m;
+})();
+
 /** Σ_{k=0}^{n} c_k T_k(x) by Clenshaw's recurrence. */
 function clenshaw(c: Float64Array, n: number, x: number, offset = 0): number {
   let b1 = 0;
@@ -164,7 +188,7 @@ export class ChebyshevPiece {
   /** Picard iteration on one sub-interval of length h from (tA, vA); leaves v's Chebyshev coefficients in c. */
   private picard(tA: number, vA: number): void {
     const h = this.h;
-    const { f, vNodes, c, b } = this;
+    const { f, vNodes, c } = this;
     // Start: the frozen-capacitance exact motion (exponential + ramp), good to the capacitance change over the segment.
     const rA = this.shape.ratio(vA);
     const a = this.a / rA;
@@ -182,12 +206,11 @@ export class ChebyshevPiece {
         const v = vNodes[j];
         f[j] = (this.k0 + this.k1 * t - this.a * v) / this.shape.ratio(v);
       }
-      coefficients(f, c);
-      antiderivative(c, b);
       let change = 0;
       for (let j = 0; j <= N; j++) {
         let s = 0;
-        for (let k = 0; k <= N + 1; k++) s += b[k] * COS[k * (N + 1) + j];
+        const row = j * (N + 1);
+        for (let i = 0; i <= N; i++) s += INTEGRATE[row + i] * f[i];
         const next = vA + 0.5 * h * s;
         const d = Math.abs(next - vNodes[j]);
         if (d > change) change = d;

@@ -21,6 +21,7 @@
  */
 import { CoreError } from '../../errors.ts';
 import type { Dielectric } from '../dielectric.ts';
+import { ChargeTable } from './charge-table.ts';
 
 /** One measured or published point of a C(V) curve. Binding API names. */
 export interface CapacitancePoint {
@@ -39,6 +40,8 @@ export interface BiasShape {
   readonly key: string;
   /** C(v)/C(0), even in v. */
   ratio(voltageV: number): number;
+  /** ∫₀ᵛ ratio(u) du, V: the charge at v per unit C(0) (odd in v). Exact to rounding, no quadrature. */
+  charge(voltageV: number): number;
   /** |v| where the shape has a kink (point-wise curves); quadrature splits there. Empty when smooth. */
   readonly kneesV: readonly number[];
 }
@@ -47,6 +50,7 @@ export const FLAT_SHAPE: BiasShape = Object.freeze({
   kind: 'flat' as const,
   key: 'flat',
   ratio: () => 1,
+  charge: (voltageV: number) => voltageV,
   kneesV: Object.freeze([]) as readonly number[],
 });
 
@@ -63,11 +67,19 @@ export class JohnsonShape implements BiasShape {
   ratio(voltageV: number): number {
     return 1 / Math.cbrt(1 + voltageV * voltageV * this.invScaleSq);
   }
+  /** In units of V_a the law is (1 + x²)^(−1/3) whatever the part: one table serves every scale. */
+  charge(voltageV: number): number {
+    const x = voltageV / this.scaleV;
+    return Math.sign(x) * this.scaleV * JOHNSON_CHARGE.value(Math.abs(x));
+  }
   /** V_a for which ratio(ratedV) = retention (Johnson law solved for the scale). */
   static throughRetention(ratedV: number, retention: number): JohnsonShape {
     return new JohnsonShape(ratedV / Math.sqrt(retention ** -3 - 1));
   }
 }
+
+/** ∫₀ˣ (1 + u²)^(−1/3) du, the field law in units of its scale voltage. */
+const JOHNSON_CHARGE = new ChargeTable((x) => 1 / Math.cbrt(1 + x * x));
 
 /**
  * Piecewise-linear in |v| through caller points (absolute farads, normalised by
@@ -116,6 +128,20 @@ export class PointsShape implements BiasShape {
     }
     const w = (x - vs[lo]) / (vs[hi] - vs[lo]);
     return this.rs[lo] + w * (this.rs[hi] - this.rs[lo]);
+  }
+  /** Piecewise quadratic: the trapezoids of the linear pieces below |v|, plus the part of the one |v| is in. */
+  charge(voltageV: number): number {
+    const x = Math.abs(voltageV);
+    const { vs, rs } = this;
+    const n = vs.length;
+    let q = Math.min(x, vs[0]) * rs[0];
+    for (let i = 1; i < n && vs[i - 1] < x; i++) {
+      const end = Math.min(x, vs[i]);
+      const rEnd = rs[i - 1] + ((end - vs[i - 1]) / (vs[i] - vs[i - 1])) * (rs[i] - rs[i - 1]);
+      q += 0.5 * (rs[i - 1] + rEnd) * (end - vs[i - 1]);
+    }
+    if (x > vs[n - 1]) q += (x - vs[n - 1]) * rs[n - 1];
+    return Math.sign(voltageV) * q;
   }
 }
 
