@@ -3703,7 +3703,7 @@ export interface components {
                  */
                 nodeCapacitanceF?: number;
                 /**
-                 * @description Offer class II/III ceramic timing capacitors (then a warning; otherwise refused, as in analyze and BOM checks). Electrolytics are never offered.
+                 * @description Offer class II/III ceramic timing capacitors (then a warning; otherwise refused, as in analyze and BOM checks). Even then a class I, film or mica part of the same value is preferred, and a class II/III part is kept only when its DC-bias loss over the capacitor swing and its ageing over 10 years (class-typical figures for its dielectric, rating and case) leave the frequency inside frequencyTolerance. Electrolytics are never offered.
                  * @default false
                  */
                 allowHighKDielectric?: boolean;
@@ -3824,7 +3824,7 @@ export interface components {
                     supplyCurrentA: number;
                     /** @description Parts on the board besides the amplifier: a series or parallel pair counts two, steering diodes count */
                     partCount: number;
-                    /** @description Smaller is more practical (edge proximity, part count, supply current; our weighting) */
+                    /** @description Smaller is more practical (edge proximity, part count, supply current, and a class II/III timing capacitor counting as much as a value at the edge of its window; our weighting) */
                     score: number;
                 };
                 /** @description What bounds each role: the window, output drive, bias-current error, supply budget or stray capacitance */

@@ -21,6 +21,7 @@ import { canonicalTopologyId, findTopology, TOPOLOGIES } from '../circuit/topolo
 import type { DiodeModel, Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { parseDielectric, timingDielectricVerdict } from '../parts/dielectric.ts';
+import { highKBudgetShortfall, highKShift } from './high-k-budget.ts';
 import { checkRobustnessOptions, designRobustness, type DesignRobustness, type RobustnessOptions } from './robustness.ts';
 import { requireFeasibleRequest, timingResistorBounds } from './bounds.ts';
 import { DEFAULT_DUTY_TOLERANCE, jointSearch, type JointCandidate } from './joint-search.ts';
@@ -88,7 +89,7 @@ export interface Practicality {
   edgeProximity: number;
   supplyCurrentA: number;
   partCount: number;
-  /** Smaller is more practical: edgeProximity + 0.05·partCount + 0.2·log10(1 + supply current / 1 mA) (our weighting). */
+  /** Smaller is more practical: edgeProximity + 0.05·partCount + 0.2·log10(1 + supply current / 1 mA) + 1 for a class II/III timing capacitor (our weighting). */
   score: number;
 }
 
@@ -301,12 +302,14 @@ export function designOscillator(req: DesignRequest): DesignResult {
   let best: Design | undefined;
   const ratioShortfalls: RatioShortfall[] = [];
   const reach = new ReachTracker();
+  const highKNotes = new Map<string, string>();
   const keep = (d: Design) => {
     if (!best || Math.abs(d.frequencyError) < Math.abs(best.frequencyError)) best = d;
     const failing = d.checks.find((k) => k.severity === 'error');
     if (Math.abs(d.frequencyError) > req.frequencyTolerance) return;
     if (failing) return;
     if (c.maxSupplyCurrentA !== undefined && d.analysis.currents.supplyAverageA > c.maxSupplyCurrentA) return;
+    if (!highKFits(d, req.frequencyTolerance, highKNotes)) return;
     designs.push(d);
   };
   for (const topology of topologies) {
@@ -412,6 +415,7 @@ export function designOscillator(req: DesignRequest): DesignResult {
       for (const cand of result.candidates) keep(toDesign(cand, fraction, duty, windows, allowHighK));
     }
   }
+  notes.push(...highKNotes.values());
   // Ranked by how much of each tolerance a design uses: frequency and duty together.
   const score = (d: Design) => Math.abs(d.frequencyError) / req.frequencyTolerance + Math.abs(d.dutyCycleError) / dutyTolerance;
   designs.sort((a, b) => score(a) - score(b));
@@ -493,6 +497,44 @@ class ReachTracker {
   }
 }
 
+/**
+ * A class II/III timing capacitor stays only when its DC-bias and ageing shifts leave the frequency inside the
+ * tolerance (high-k-budget.ts); otherwise the design is dropped and the reason noted once per part kind.
+ */
+function highKFits(d: Design, frequencyTolerance: number, notes: Map<string, string>): boolean {
+  const capacitor = d.parts[findTopology(d.topology)!.capacitorRole];
+  const { minV, maxV } = d.analysis.capacitor;
+  for (const part of capacitor?.parts ?? []) {
+    const shift = highKShift(part, minV, maxV);
+    if (!shift) continue;
+    const why = highKBudgetShortfall(shift, d.frequencyError, frequencyTolerance, minV, maxV);
+    if (why) {
+      const kind = `${d.topology}|${shift.dielectric}|${shift.ratedVoltageV}|${shift.caseSize}`;
+      if (!notes.has(kind)) notes.set(kind, `${d.topology}: ${why}`);
+      return false;
+    }
+  }
+  return true;
+}
+
+/** Whether a design's timing capacitor is a class II/III ceramic (ranked after class I, film and mica). */
+function usesHighK(d: Design): boolean {
+  const capacitor = d.parts[findTopology(d.topology)!.capacitorRole];
+  return (capacitor?.parts ?? []).some((p) => p.dielectric !== undefined && isHighK(p.dielectric));
+}
+
+function isHighK(code: string): boolean {
+  try {
+    const family = parseDielectric(code).family;
+    return family === 'ceramic-class-2' || family === 'ceramic-class-3';
+  } catch {
+    return false;
+  }
+}
+
+/** Practicality cost of a class II/III timing capacitor (our weighting: as much as a value at the edge of its window). */
+const HIGH_K_PRACTICALITY_COST = 1;
+
 /** Edge proximity of each value inside its window, in decades relative to the half-width (0 middle, 1 edge). */
 function practicality(d: Design): Practicality {
   const proximities = d.limits
@@ -504,7 +546,8 @@ function practicality(d: Design): Practicality {
   const edgeProximity = proximities.length ? proximities.reduce((a, b) => a + b, 0) / proximities.length : 0;
   const partCount = Object.values(d.parts).reduce((n, v) => n + v.parts.length, 0) + (d.diode ? 2 : 0);
   const supplyCurrentA = d.analysis.currents.supplyAverageA;
-  return { edgeProximity, supplyCurrentA, partCount, score: edgeProximity + 0.05 * partCount + 0.2 * Math.log10(1 + supplyCurrentA / 1e-3) };
+  const highK = usesHighK(d) ? HIGH_K_PRACTICALITY_COST : 0;
+  return { edgeProximity, supplyCurrentA, partCount, score: edgeProximity + 0.05 * partCount + 0.2 * Math.log10(1 + supplyCurrentA / 1e-3) + highK };
 }
 
 /**

@@ -23,6 +23,9 @@ export interface PartOption {
   catalogueId?: string;
   dielectric?: string;
   tempcoPpmPerK?: number;
+  /** Capacitors from a catalogue: rated voltage, V, and package (EIA inch case code when it is one). */
+  ratedVoltageV?: number;
+  caseSize?: string;
 }
 
 export interface ValueSet {
@@ -64,8 +67,19 @@ function tryParseDielectric(code: string) {
 
 const STATUS_RANK: Record<PartStatus, number> = { preferred: 0, active: 1, 'not-for-new-designs': 2 };
 
-/** Of two parts with the same value, the one to offer: preferred status first, then the tighter tolerance. */
+/** 0 for bodies that hold their value (class I ceramics, film, mica, or unknown), 1 for class II/III ceramics. */
+function highKRank(part: CataloguePart): number {
+  const d = part.dielectric ? tryParseDielectric(part.dielectric) : undefined;
+  return d && (d.family === 'ceramic-class-2' || d.family === 'ceramic-class-3') ? 1 : 0;
+}
+
+/**
+ * Of two parts with the same value, the one to offer: a class I, film or mica capacitor before a class II/III
+ * one (no DC-bias or ageing loss), then preferred status, then the tighter tolerance.
+ */
 function betterPart(a: CataloguePart, b: CataloguePart): CataloguePart {
+  const byBody = highKRank(a) - highKRank(b);
+  if (byBody !== 0) return byBody < 0 ? a : b;
   const byStatus = STATUS_RANK[a.status] - STATUS_RANK[b.status];
   if (byStatus !== 0) return byStatus < 0 ? a : b;
   return a.tolerance <= b.tolerance ? a : b;
@@ -87,6 +101,8 @@ function fromCatalogue(catalogue: Catalogue, kind: ValueKind, range: ValueRange,
       const o: PartOption = { value: p.value, tolerance: p.tolerance, partNumber: p.partNumber, catalogueId: catalogue.id };
       if (p.dielectric !== undefined) o.dielectric = p.dielectric;
       if (p.tempcoPpmPerK !== undefined) o.tempcoPpmPerK = p.tempcoPpmPerK;
+      if (p.ratedVoltageV !== undefined) o.ratedVoltageV = p.ratedVoltageV;
+      if (p.package !== undefined) o.caseSize = p.package;
       return o;
     });
 }

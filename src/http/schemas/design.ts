@@ -60,7 +60,7 @@ export const DesignRequest = Type.Object(
             Type.Number({ minimum: 0, maximum: 1e-9, default: DEFAULT_NODE_CAPACITANCE_F, description: 'Stray plus input capacitance at the inverting input, F; the timing capacitor is kept at least 50× above it' }),
           ),
           allowHighKDielectric: Type.Optional(
-            Type.Boolean({ default: false, description: 'Offer class II/III ceramic timing capacitors (then a warning; otherwise refused, as in analyze and BOM checks). Electrolytics are never offered.' }),
+            Type.Boolean({ default: false, description: 'Offer class II/III ceramic timing capacitors (then a warning; otherwise refused, as in analyze and BOM checks). Even then a class I, film or mica part of the same value is preferred, and a class II/III part is kept only when its DC-bias loss over the capacitor swing and its ageing over 10 years (class-typical figures for its dielectric, rating and case) leave the frequency inside frequencyTolerance. Electrolytics are never offered.' }),
           ),
           dielectrics: Type.Optional(
             Type.Array(Type.String({ minLength: 1, maxLength: 16 }), { maxItems: 32, description: 'Allowed dielectric codes for catalogue timing capacitors' }),
@@ -182,7 +182,7 @@ const DesignItem = Type.Object(
         edgeProximity: Type.Number({ description: '0 when every value sits in the geometric middle of its window, 1 at an edge' }),
         supplyCurrentA: Type.Number({ description: 'Mean supply current including the amplifier, A' }),
         partCount: Type.Integer({ description: 'Parts on the board besides the amplifier: a series or parallel pair counts two, steering diodes count' }),
-        score: Type.Number({ description: 'Smaller is more practical (edge proximity, part count, supply current; our weighting)' }),
+        score: Type.Number({ description: 'Smaller is more practical (edge proximity, part count, supply current, and a class II/III timing capacitor counting as much as a value at the edge of its window; our weighting)' }),
       },
       { additionalProperties: false, description: 'How easy the design is to build; used to rank designs of equal yield and margin' },
     ),
