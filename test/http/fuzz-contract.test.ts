@@ -17,6 +17,7 @@ import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { testApp } from '../helpers/app.ts';
 import { expectContract } from '../helpers/contract.ts';
+import { bomAssembly } from './fixtures/heavy-requests.ts';
 
 type Schema = Record<string, unknown>;
 type Operation = {
@@ -227,28 +228,7 @@ const FIXTURE_SEEDS: { method: string; path: string; body: unknown }[] = [
   { method: 'POST', path: '/v1/tolerance', body: { circuit: CIRCUIT, tolerances: { rTiming: 0.01, cTiming: 0.05 }, monteCarlo: { samples: 200, seed: 1, distribution: 'uniform' }, spec: { frequencyHz: 1800, frequencyTolerance: 0.1 } } },
   { method: 'POST', path: '/v1/tolerance', body: { circuit: SPLIT, tolerances: { cTiming: 0.05 }, amplifierSpreads: { slewRateVPerS: 0.2, recoveryDelayS: 0.3 }, monteCarlo: { samples: 100, seed: 2 } } },
   { method: 'POST', path: '/v1/fit', body: { circuit: CIRCUIT, measurements: { frequencyHz: { value: 1750, uncertainty: 5 }, dutyCycle: { value: 0.5, uncertainty: 0.01 } } } },
-  {
-    method: 'POST',
-    path: '/v1/bom-checks',
-    body: {
-      assemblies: [
-        {
-          id: 'a1',
-          lines: [
-            { refdes: 'R1', value: '2K2 1%' },
-            { refdes: 'C1', value: '180n C0G 5%' },
-            { refdes: 'R2, R3', value: '5K1 1%' },
-            { refdes: 'R4', value: '18K 1%' },
-          ],
-          roles: { rTiming: 'R1', cTiming: 'C1', rTop: 'R2', rBottom: 'R3', rFeedback: 'R4' },
-          topology: 'three-resistor-divider',
-          amplifier: 'cmos-rrio-fast',
-          supply: { positiveV: 5 },
-          spec: { frequencyHz: 1800, frequencyTolerance: 0.1 },
-        },
-      ],
-    },
-  },
+  { method: 'POST', path: '/v1/bom-checks', body: { assemblies: [bomAssembly(0)] } },
   { method: 'PUT', path: '/v1/amplifiers/fuzz-amp', body: { name: 'Fuzz amplifier', base: 'cmos-rrio-fast', slewRateVPerS: 2e6, inputCommonModeLowMarginV: null } },
 ];
 

@@ -8,6 +8,7 @@ import fc from 'fast-check';
 import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { testApp } from '../helpers/app.ts';
+import { bomAssembly } from './fixtures/heavy-requests.ts';
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -30,24 +31,7 @@ const VALID: Record<string, unknown> = {
   '/v1/snap': { values: [{ ideal: 15800, kind: 'resistor', source: { series: 'E24' } }] },
   '/v1/tolerance': { circuit, tolerances: { rTiming: 0.01, cTiming: 0.05 }, monteCarlo: { samples: 200, seed: 1, distribution: 'uniform' } },
   '/v1/fit': { circuit, measurements: { frequencyHz: { value: 5100, uncertainty: 5 } } },
-  '/v1/bom-checks': {
-    assemblies: [
-      {
-        id: 'a1',
-        lines: [
-          { refdes: 'R1', value: '2K2 1%' },
-          { refdes: 'C1', value: '180n C0G 5%' },
-          { refdes: 'R2, R3', value: '5K1 1%' },
-          { refdes: 'R4', value: '18K 1%' },
-        ],
-        roles: { rTiming: 'R1', cTiming: 'C1', rTop: 'R2', rBottom: 'R3', rFeedback: 'R4' },
-        topology: 'three-resistor-divider',
-        amplifier: 'cmos-rrio-fast',
-        supply: { positiveV: 5 },
-        spec: { frequencyHz: 5000, frequencyTolerance: 0.1 },
-      },
-    ],
-  },
+  '/v1/bom-checks': { assemblies: [bomAssembly(0)] },
 };
 
 const WEIRD_VALUES = fc.oneof(
