@@ -2361,7 +2361,7 @@ export interface components {
         /** @description Board and input capacitance and leakage at the oscillator nodes. Absent fields: no stray capacitance, no leakage */
         Strays: {
             /**
-             * @description Board capacitance at the timing node N (inverting input) to ground, F (default 0). Adds to the timing capacitor together with the amplifier's inputCapacitanceF; the timing capacitor should be ≥ 50× their sum (check stray-capacitance-significant). Not modelled beside a capacitor with a C(V) curve (422 not-modelled)
+             * @description Board capacitance at the timing node N (inverting input) to ground, F (default 0). Adds to the timing capacitor together with the amplifier's inputCapacitanceF; the timing capacitor should be ≥ 50× their sum (check stray-capacitance-significant). Beside a class II/III capacitor it is a flat part of the node's C(V)
              * @default 0
              */
             timingNodeF?: number;

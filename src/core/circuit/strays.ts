@@ -6,13 +6,15 @@
  *   the board and the inverting input together) and at the threshold node (P to
  *   ground): plain resistors in the per-piece nodal solve;
  * - capacitance at the timing node N (board stray + the amplifier's input
- *   capacitance): in parallel with a linear timing capacitor, so it adds to it.
+ *   capacitance): in parallel with the timing capacitor, so it adds to it (to a
+ *   C(v) capacitor as a flat part of the node's curve, StrayLoadedShape).
  * A capacitance at the threshold node P or at the output pin adds a state to
  * the piece (an RC of its own); the piece walk solves one capacitor per piece,
  * so such a circuit is refused with 'not-modelled' naming the field rather than
  * answered approximately.
  */
 import { CoreError } from '../errors.ts';
+import { FLAT_SHAPE, type BiasShape } from '../parts/capacitor/index.ts';
 import { formatSi } from './format.ts';
 import type { Check } from './checks.ts';
 import type { Circuit } from './types.ts';
@@ -88,13 +90,35 @@ export function validateStrays(circuit: Circuit): void {
     // The input capacitance sits at both inputs: N is covered, P adds a state.
     throw notModelled('/amplifier/inputCapacitanceF', 'the input capacitance at the non-inverting input P');
   }
-  const shape = circuit.capacitorShape;
-  if (shape && shape.kind !== 'flat' && timingNodeStrayF(circuit) > 0) {
-    throw new CoreError(
-      'not-modelled',
-      'A stray capacitance beside a timing capacitor with a C(V) curve is not modelled yet: give the stray at the timing node as 0, or the capacitor as a plain value',
-      '/strays/timingNodeF',
-    );
+}
+
+/**
+ * The timing node's C(v) when a linear stray Cs sits beside a C(v) capacitor
+ * C0·r(v), per unit of their sum at 0 V: (C0·r(v) + Cs)/(C0 + Cs) = f + (1 − f)·r(v),
+ * f = Cs/(C0 + Cs). Even in v like r. One mutable object per configuration
+ * cache (f follows the parameter vector), so a stream of evaluations allocates nothing.
+ */
+export class StrayLoadedShape implements BiasShape {
+  kind: BiasShape['kind'] = 'flat';
+  kneesV: readonly number[] = [];
+  private inner: BiasShape = FLAT_SHAPE;
+  private strayFraction = 0;
+
+  set(inner: BiasShape, strayFraction: number): this {
+    this.inner = inner;
+    this.strayFraction = strayFraction;
+    this.kind = inner.kind;
+    this.kneesV = inner.kneesV;
+    return this;
+  }
+
+  /** Identity of the curve (built on request only: evaluations never ask for it). */
+  get key(): string {
+    return `${this.inner.key}+stray:${this.strayFraction}`;
+  }
+
+  ratio(voltageV: number): number {
+    return this.strayFraction + (1 - this.strayFraction) * this.inner.ratio(voltageV);
   }
 }
 

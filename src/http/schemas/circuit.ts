@@ -116,7 +116,7 @@ export const Strays = Type.Object(
   {
     timingNodeF: strayF(
       'at the timing node N (inverting input)',
-      `Adds to the timing capacitor together with the amplifier's inputCapacitanceF; the timing capacitor should be ≥ ${TIMING_STRAY_RATIO_MIN}× their sum (check stray-capacitance-significant). Not modelled beside a capacitor with a C(V) curve (422 not-modelled)`,
+      `Adds to the timing capacitor together with the amplifier's inputCapacitanceF; the timing capacitor should be ≥ ${TIMING_STRAY_RATIO_MIN}× their sum (check stray-capacitance-significant). Beside a class II/III capacitor it is a flat part of the node's C(V)`,
     ),
     thresholdNodeF: strayF('at the threshold node P (non-inverting input)', 'Only 0 is modelled yet: above 0 the answer is 422 not-modelled'),
     outputNodeF: strayF('at the output pin', 'Would make an open-drain rise an RC with the pull-up; only 0 is modelled yet: above 0 the answer is 422 not-modelled'),

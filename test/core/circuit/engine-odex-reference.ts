@@ -175,7 +175,9 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   const topology = findTopology(c.topology)!;
   const amp = c.amplifier;
   // Everything at N charges with the capacitor: board stray and the amplifier's input capacitance in parallel.
-  const C = c.parts[topology.capacitorRole] + (c.strays?.timingNodeF ?? 0) + (amp.inputCapacitanceF ?? 0);
+  const strayAtN = (c.strays?.timingNodeF ?? 0) + (amp.inputCapacitanceF ?? 0);
+  const C0 = c.parts[topology.capacitorRole];
+  const C = C0 + strayAtN;
   // A C(v) capacitor (class II/III ceramic): C(v) = C·r(v); the same curve the engine uses, nothing else shared.
   const shape = c.capacitorShape;
   const span = c.supply.positiveV - c.supply.negativeV;
@@ -318,7 +320,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     evals++;
     const { V, branches } = nodeVoltages(c, d, yy[0], yy[1]);
     const iCap = -leaving(NODE.capacitor, branches, V) - amp.inputBiasCurrentA;
-    return [iCap / (shape ? C * shape.ratio(yy[0]) : C), d.rate, pinOf(V)];
+    return [iCap / (shape ? C0 * shape.ratio(yy[0]) + strayAtN : C), d.rate, pinOf(V)];
   };
 
   const maxCycles = options.maxCycles ?? 300;

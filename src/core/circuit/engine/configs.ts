@@ -10,6 +10,7 @@
 import { CoreError } from '../../errors.ts';
 import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
 import { CLAMP, KEY_SPACE, NetworkCoefficients, STAGE, type CompiledShape } from './compiled-network.ts';
+import { StrayLoadedShape } from '../strays.ts';
 
 export { CLAMP, CLAMP_RESISTANCE_OHM, configKey, STAGE } from './compiled-network.ts';
 
@@ -77,6 +78,7 @@ export class ConfigCache {
   biasA = 0;
   /** C(v)/C0 of the timing capacitor (from the compiled shape; flat: a linear capacitor). */
   biasShape: BiasShape = FLAT_SHAPE;
+  private readonly strayLoaded = new StrayLoadedShape();
 
   /** False: skip the output and rail current sums (timing-only evaluations; figures need them). */
   currents = true;
@@ -87,7 +89,9 @@ export class ConfigCache {
     this.currents = currents;
     this.values = values;
     const slot = shape.slot;
-    this.capacitanceF = values[shape.layout.capacitorSlot] + timingNodeStrayF(shape, values);
+    const capacitorF = values[shape.layout.capacitorSlot];
+    const strayF = timingNodeStrayF(shape, values);
+    this.capacitanceF = capacitorF + strayF;
     this.spanV = values[slot.positiveV] - values[slot.negativeV];
     this.clampV = dynamics ? values[slot.clamp] : Infinity;
     this.limitA = dynamics ? values[slot.limit] : Infinity;
@@ -95,7 +99,8 @@ export class ConfigCache {
     this.openDrain = shape.openDrain;
     this.offsetV = values[slot.offset];
     this.biasA = values[slot.bias];
-    this.biasShape = shape.biasShape;
+    // A linear stray beside a C(v) capacitor: the node's curve per unit of their sum at 0 V.
+    this.biasShape = strayF > 0 && shape.biasShape.kind !== 'flat' ? this.strayLoaded.set(shape.biasShape, strayF / (capacitorF + strayF)) : shape.biasShape;
     // Only the slots the previous evaluation filled need clearing.
     for (let i = 0; i < this.used; i++) this.slot[this.pool[i].key] = -1;
     this.used = 0;
