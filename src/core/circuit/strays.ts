@@ -120,6 +120,11 @@ export class StrayLoadedShape implements BiasShape {
   ratio(voltageV: number): number {
     return this.strayFraction + (1 - this.strayFraction) * this.inner.ratio(voltageV);
   }
+
+  /** ∫₀ᵛ ratio(u) du: the stray's share is linear, the capacitor's is its own curve's charge. */
+  charge(voltageV: number): number {
+    return this.strayFraction * voltageV + (1 - this.strayFraction) * this.inner.charge(voltageV);
+  }
 }
 
 function notModelled(pointer: string, what: string): CoreError {
