@@ -46,6 +46,18 @@ const MAX_RESOLUTION_STEPS = 32;
 /** Output flips waiting for the recovery delay at once. */
 const PENDING_CAPACITY = 16;
 
+// The log record's fields as plain numbers: read once here, not through the imported object per piece.
+const LOG_START = LOG.startS;
+const LOG_DURATION = LOG.durationS;
+const LOG_V0 = LOG.v0;
+const LOG_S0 = LOG.s0;
+const LOG_RATE = LOG.rate;
+const LOG_KEY = LOG.key;
+const LOG_LOGIC = LOG.logic;
+const LOG_TARGET = LOG.target;
+const LOG_VEND = LOG.vEnd;
+const LOG_INTEGRAL = LOG.integralV;
+
 const TIME_TARGET = -1;
 const TIME_SLEW_END = -2;
 
@@ -367,16 +379,16 @@ export class OscillatorWalk {
       }
       const i = this.log.append();
       const d = this.log.data;
-      d[i + LOG.startS] = this.t;
-      d[i + LOG.durationS] = best;
-      d[i + LOG.v0] = this.v;
-      d[i + LOG.s0] = this.s;
-      d[i + LOG.rate] = this.rate;
-      d[i + LOG.key] = cfg.key;
-      d[i + LOG.logic] = this.logic;
-      d[i + LOG.target] = this.target;
-      d[i + LOG.vEnd] = vEnd;
-      d[i + LOG.integralV] = integralV;
+      d[i + LOG_START] = this.t;
+      d[i + LOG_DURATION] = best;
+      d[i + LOG_V0] = this.v;
+      d[i + LOG_S0] = this.s;
+      d[i + LOG_RATE] = this.rate;
+      d[i + LOG_KEY] = cfg.key;
+      d[i + LOG_LOGIC] = this.logic;
+      d[i + LOG_TARGET] = this.target;
+      d[i + LOG_VEND] = vEnd;
+      d[i + LOG_INTEGRAL] = integralV;
       this.v = vEnd;
       this.s = kin.s(best);
       this.t += best;
