@@ -2,7 +2,8 @@
  * Diagnosis accuracy on synthetic faulty boards made by the odex reference
  * integrator (test/core/fit/diagnosis-boards.ts): every registered topology,
  * every role off by ±3–20 %, wrong parts (decade slip, neighbouring E24 value,
- * swapped roles), in-tolerance boards for the false-alarm rate; each board
+ * swapped roles, a small-case class II timing capacitor in place of the flat
+ * one), in-tolerance boards for the false-alarm rate; each board
  * recorded once and captured with noise and 8-bit quantisation as output only,
  * capacitor only and both channels. Prints top-1 / top-3 per topology and
  * channel set (a board counts as found when an explanation in the first k
@@ -109,7 +110,8 @@ if (!isMainThread) {
   let records = 0;
   let referenceMs = 0;
   let latched = 0;
-  const kindOf = (fault: string) => (fault.includes('decade') ? 'decade slip' : fault.includes('neighbouring') ? 'neighbouring value' : fault.includes('swapped') ? 'swapped roles' : 'deviation ±3–20 %');
+  const kindOf = (fault: string) =>
+    fault.includes('decade') ? 'decade slip' : fault.includes('neighbouring') ? 'neighbouring value' : fault.includes('swapped') ? 'swapped roles' : fault.includes('dielectric') ? 'other dielectric' : 'deviation ±3–20 %';
   for (const b of results) {
     referenceMs += b.referenceMs;
     if (!b.oscillates) latched++;

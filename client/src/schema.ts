@@ -3157,8 +3157,8 @@ export interface components {
                 posteriorToPriorSd: number;
                 /** @description The fitted shift stays inside the part's tolerance (or the 3σ prior spread of an amplifier effect) */
                 withinTolerance: boolean;
-                /** @description off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted */
-                fault: "off" | "neighbouring-value" | "decade-slip" | "swapped";
+                /** @description off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, or a timing capacitor of another dielectric class (a class II ceramic with its class-typical DC-bias C(V) in place of a flat part, or the reverse; its marked value within a class II tolerance) */
+                fault: "off" | "neighbouring-value" | "decade-slip" | "swapped" | "other-dielectric";
                 /** @description e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance" */
                 text: string;
             }[];

@@ -181,8 +181,10 @@ const Cause = Type.Object(
   {
     ...EstimateProperties,
     withinTolerance: Type.Boolean({ description: 'The fitted shift stays inside the part\'s tolerance (or the 3σ prior spread of an amplifier effect)' }),
-    fault: Type.Union([Type.Literal('off'), Type.Literal('neighbouring-value'), Type.Literal('decade-slip'), Type.Literal('swapped')], {
-      description: 'off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted',
+    fault: Type.Union([Type.Literal('off'), Type.Literal('neighbouring-value'), Type.Literal('decade-slip'), Type.Literal('swapped'), Type.Literal('other-dielectric')], {
+      description:
+        'off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, ' +
+        'or a timing capacitor of another dielectric class (a class II ceramic with its class-typical DC-bias C(V) in place of a flat part, or the reverse; its marked value within a class II tolerance)',
     }),
     text: Type.String({ description: 'e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance"' }),
   },

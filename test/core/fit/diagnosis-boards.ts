@@ -12,6 +12,7 @@ import { BUILT_IN_AMPLIFIERS } from '../../../src/core/amplifiers/archetypes.ts'
 import type { AmplifierModel } from '../../../src/core/amplifiers/model.ts';
 import { TOPOLOGIES, type TopologyDefinition } from '../../../src/core/circuit/topologies/index.ts';
 import type { Circuit } from '../../../src/core/circuit/types.ts';
+import { resolveCapacitor } from '../../../src/core/parts/capacitor/index.ts';
 import { nearestInSeries } from '../../../src/core/parts/series.ts';
 import type { FitInput, FitReport } from '../../../src/core/fit/index.ts';
 import { referenceOscillation } from '../circuit/engine-odex-reference.ts';
@@ -23,6 +24,12 @@ export const CHANNEL_SETS: readonly ChannelSet[] = ['output', 'capacitor', 'both
 /** Bench tolerances: 1 % resistors, a 2 % film/C0G timing capacitor (common practice for timing parts). */
 export const RESISTOR_TOLERANCE = 0.01;
 export const CAPACITOR_TOLERANCE = 0.02;
+
+/** Class II parts swapped in for the flat timing capacitor on the "other dielectric" boards. */
+const OTHER_DIELECTRICS = [
+  { dielectric: 'X7R', caseSize: '0603', ratedVoltageV: 6.3 },
+  { dielectric: 'X5R', caseSize: '0402', ratedVoltageV: 10 },
+] as const;
 
 export interface Board {
   topology: string;
@@ -70,7 +77,8 @@ function scatter(c: Circuit, tol: Record<string, number>, rand: () => number): R
 /**
  * Boards for one topology: each role off by ±3–20 % (the rest scattered within
  * tolerance), the wrong-part faults (decade slip, neighbouring E24 value, a
- * swap of two same-kind roles of different value), and in-tolerance boards.
+ * swap of two same-kind roles of different value, a class II timing capacitor
+ * in place of the flat one), and in-tolerance boards.
  */
 export function boardsFor(topology: TopologyDefinition, seed: number, options: { deviationsPerRole: number; wrongParts: boolean; inTolerance: number }): Board[] {
   const rand = seededRandom(seed);
@@ -101,6 +109,21 @@ export function boardsFor(topology: TopologyDefinition, seed: number, options: {
         if (topology.roles[ra].kind !== topology.roles[rb].kind || nominal.parts[ra] === nominal.parts[rb]) continue;
         make({ ...scatter(nominal, tol, rand), [ra]: nominal.parts[rb], [rb]: nominal.parts[ra] }, [ra, rb], `${ra} and ${rb} swapped`);
       }
+    }
+    // Another dielectric: small-case class II ceramics of the same marked value (within their ±10 %) in place of the
+    // flat timing capacitor; their class-typical C(V) from the capacitor model (cases and ratings of our choosing).
+    const role = topology.capacitorRole;
+    for (const part of OTHER_DIELECTRICS) {
+      const marked = nominal.parts[role] * (1 + 0.1 * (2 * rand() - 1));
+      const c = resolveCapacitor({ value: marked, ...part });
+      out.push({
+        topology: topology.id,
+        nominal,
+        truth: { ...nominal, parts: { ...scatter(nominal, tol, rand), [role]: c.capacitanceF }, capacitorShape: c.shape },
+        faultRoles: [role],
+        fault: `${role} other dielectric (${part.dielectric} ${part.caseSize} ${part.ratedVoltageV} V)`,
+        tolerances: tol,
+      });
     }
   }
   for (let k = 0; k < options.inTolerance; k++) make(scatter(nominal, tol, rand), [], 'in tolerance');

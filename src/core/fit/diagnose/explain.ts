@@ -24,7 +24,8 @@ import { defaultUncertainty, OBSERVABLES, type ObservableName } from '../estimat
 import { describeEstimate, type ParameterEstimate } from '../estimate/estimate.ts';
 import type { PredictedFigures } from '../estimate/forward.ts';
 import { cholesky, choleskyLogDet } from '../estimate/linalg.ts';
-import { naturalSd } from '../estimate/parameters.ts';
+import { naturalSd, TOLERANCE_SIGMAS } from '../estimate/parameters.ts';
+import { FLAT_SHAPE } from '../../parts/capacitor/dc-bias.ts';
 import { fitSubset, nominalChiSquare, type FitSetup } from '../estimate/setup.ts';
 import { chiSquareQuantile95, chiSquareQuantile999 } from './chi-square.ts';
 import { buildHypotheses, pairHypothesis, type Hypothesis, type WrongPartKind } from './hypotheses.ts';
@@ -207,20 +208,23 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   const all = whitener(columns, m, []);
 
   const score = (h: Hypothesis): Scored | undefined => {
-    if (h.kind !== 'off') {
+    if (h.kind !== 'off' && h.active.length === 0) {
       let r: Float64Array;
       try {
-        r = setup.residualsAt(setup.nominalX, h.parts);
+        r = setup.residualsAt(setup.nominalX, h.variant);
       } catch {
         return undefined; // the wrong part stops the oscillation: not what was measured
       }
-      const chi = sumSq(all.whiten(r));
+      // A hypothesis that widens a nuisance (another part's tolerance) is whitened by its own covariance.
+      const widened = h.nuisanceSd;
+      const w = widened ? whitener(columns.map((c, j) => (widened[j] === undefined ? c : c.map((v) => (v * widened[j]) / params[j].priorSd))), m, []) : all;
+      const chi = sumSq(w.whiten(r));
       if (!Number.isFinite(chi)) return undefined;
-      return { h, x: setup.nominalX, covariance: new Float64Array(0), chiSquare: chi, logEvidence: h.logPrior - 0.5 * chi - 0.5 * all.logDet, passes: chi <= chiSquareQuantile999(m) };
+      return { h, x: setup.nominalX, covariance: new Float64Array(0), chiSquare: chi, logEvidence: h.logPrior - 0.5 * chi - 0.5 * w.logDet, passes: chi <= chiSquareQuantile999(m) };
     }
     const w = whitener(columns, m, h.active);
     try {
-      const fit = fitSubset(setup, h.active, { priorSd: h.active.map((j) => params[j].offSd), transform: w.whiten, maxIterations: 30 });
+      const fit = fitSubset(setup, h.active, { priorSd: h.active.map((j) => params[j].offSd), transform: w.whiten, maxIterations: 30, ...(h.variant ? { variant: h.variant } : {}) });
       const s = fit.solution;
       const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
       return { h, x: fit.x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - h.active.length)) };
@@ -261,7 +265,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   const posterior = (s: Scored) => Math.exp(s.logEvidence - top) / total;
 
   const bound95 = chiSquareQuantile95(m);
-  const figuresOf = (s: Scored) => setup.figuresAt(s.x, s.h.parts);
+  const figuresOf = (s: Scored) => setup.figuresAt(s.x, s.h.variant);
   const figureCache = new Map<Scored, PredictedFigures>();
   const figs = (s: Scored) => {
     let f = figureCache.get(s);
@@ -298,7 +302,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   if (contenders.length > 0) {
     // Distance of two hypotheses' predictions on the measured figures, in σ, the in-tolerance
     // spread of the other effects allowed for (whitened by the same covariance as the evidence).
-    const residualsOf = (s: Scored) => setup.residualsAt(s.x, s.h.parts);
+    const residualsOf = (s: Scored) => setup.residualsAt(s.x, s.h.variant);
     const rl = residualsOf(leader);
     const alike: { s: Scored; sep: number }[] = [];
     for (const c of contenders) {
@@ -336,7 +340,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
       (ambiguities.length > 0 ? ` ${ambiguities[0].statement}` : '');
   }
   const leaderX = Float64Array.from(leader.x);
-  for (const [role, value] of Object.entries(leader.h.parts ?? {})) {
+  for (const [role, value] of Object.entries(leader.h.variant?.parts ?? {})) {
     const j = params.findIndex((p) => p.name === role);
     if (j >= 0) leaderX[j] = Math.log(value / params[j].nominal);
   }
@@ -364,7 +368,14 @@ function causesOf(setup: FitSetup, s: Scored): Cause[] {
     return wp.roles.map((role) => {
       const j = params.findIndex((p) => p.name === role);
       const p = params[j];
-      const value = s.h.parts![role];
+      const value = s.h.variant?.parts?.[role];
+      if (value === undefined) {
+        // A part of another kind, same marked value (another dielectric), its tolerance allowed for.
+        const widened = s.h.nuisanceSd?.[j] ?? p.priorSd;
+        const e = describeEstimate(p, 0, naturalSd(p, 0, widened));
+        e.posteriorToPriorSd = 1;
+        return { ...e, withinTolerance: false, fault: wp.kind, text: `${wp.words}: ${formatNatural(p.unit, p.nominal)} marked, ±${Number((100 * (Math.exp(TOLERANCE_SIGMAS * widened) - 1)).toPrecision(2))} % allowed` };
+      }
       const e = describeEstimate(p, Math.log(value / p.nominal), 0);
       e.standardDeviation = naturalSd(p, Math.log(value / p.nominal), p.priorSd);
       e.posteriorToPriorSd = 1;
@@ -423,12 +434,15 @@ function separatingMeasurement(setup: FitSetup, a: Scored, b: Scored, figs: (s: 
   for (const p of setup.parameters) {
     if (p.kind !== 'part') continue;
     const known = { [p.name]: p.nominal };
+    // A known capacitor is the part as declared (its own C(V)), whatever the hypothesis says the fitted one is.
+    const isCapacitor = p.unit === 'F';
     try {
       const at = (s: Scored) => {
         const x = Float64Array.from(s.x);
         const j = setup.parameters.indexOf(p);
         x[j] = 0;
-        return setup.figuresAt(x, { ...s.h.parts, ...known }).frequencyHz;
+        const shape = isCapacitor ? (setup.circuit.capacitorShape ?? FLAT_SHAPE) : s.h.variant?.capacitorShape;
+        return setup.figuresAt(x, { parts: { ...s.h.variant?.parts, ...known }, ...(shape ? { capacitorShape: shape } : {}) }).frequencyHz;
       };
       const va = at(a);
       const vb = at(b);

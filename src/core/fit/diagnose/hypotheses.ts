@@ -6,28 +6,42 @@
  *   free within its physical range with the `off` prior of parameters.ts;
  * - `wrong-part`: a part of another value was fitted — the neighbouring value
  *   of its preferred-number series, a decade slip (×10, ÷10), or two roles of
- *   the same kind swapped. A capacitor of another dielectric class joins here
- *   once the capacitor model carries one (see WRONG_PART_SOURCES).
+ *   the same kind swapped — or a timing capacitor of another dielectric class
+ *   (its C(V) from the capacitor model, src/core/parts/capacitor): a class II
+ *   ceramic whose DC-bias derating makes the charging curve non-exponential in
+ *   place of a flat part, a flat part in place of a class II one, or a class II
+ *   part that derates more or less than the one declared. Its marked value is
+ *   a nuisance within a class II tolerance (one evaluation per curve: a C(V)
+ *   walk costs far more than a linear one).
  * Prior probabilities, our assumptions (orders of magnitude from assembly
- * practice, not measured): a given effect off 2 %; a specific wrong part 0.2 %;
- * nothing off is the rest.
+ * practice, not measured): a given effect off 2 %; a specific wrong part 0.2 %
+ * (shared among the class-typical curves of a dielectric swap); nothing off is
+ * the rest.
  */
 import { findTopology } from '../../circuit/topologies/index.ts';
 import type { Circuit } from '../../circuit/types.ts';
+import { FLAT_SHAPE, JohnsonShape, typicalRetentionAtRated, type CaseSize } from '../../parts/capacitor/dc-bias.ts';
+import { parseDielectric } from '../../parts/dielectric.ts';
 import { isInSeries, nearestInSeries, type SeriesName } from '../../parts/series.ts';
-import type { FitParameter } from '../estimate/parameters.ts';
+import { TOLERANCE_SIGMAS, type FitParameter } from '../estimate/parameters.ts';
+import type { CircuitVariant } from '../estimate/setup.ts';
 
 export type HypothesisKind = 'nominal' | 'off' | 'wrong-part';
-export type WrongPartKind = 'neighbouring-value' | 'decade-slip' | 'swapped';
+export type WrongPartKind = 'neighbouring-value' | 'decade-slip' | 'swapped' | 'other-dielectric';
 
 export interface Hypothesis {
   /** Stable id, e.g. "off:rTiming", "off:rTiming+recoveryDelayS", "decade-slip:rTiming×10", "swapped:rTop/rBottom". */
   id: string;
   kind: HypothesisKind;
-  /** Parameters freed with their `off` prior (indices into the setup's parameters). */
+  /** Parameters freed (indices into the setup's parameters), with their `off` prior unless activePriorSd says otherwise. */
   active: number[];
-  /** Part values replaced (wrong-part hypotheses), natural units. */
-  parts?: Record<string, number>;
+  /**
+   * Nuisance prior σ (fitted space) by parameter index where the hypothesis widens it: a capacitor of another
+   * dielectric has its own marked-value tolerance, marginalised like every other in-tolerance spread.
+   */
+  nuisanceSd?: Readonly<Record<number, number>>;
+  /** What the hypothesis replaces in the circuit (wrong-part hypotheses): part values (natural units), the capacitor's C(V). */
+  variant?: CircuitVariant;
   wrongPart?: { kind: WrongPartKind; roles: string[]; words: string };
   logPrior: number;
 }
@@ -50,8 +64,8 @@ function neighbours(value: number, kind: 'resistor' | 'capacitor'): { series: Se
   return undefined;
 }
 
-/** A hook per source of wrong-part alternatives; the dielectric-class source joins when the capacitor model has classes. */
-type WrongPartSource = (circuit: Circuit, role: string) => Hypothesis[];
+/** A hook per source of wrong-part alternatives. */
+type WrongPartSource = (circuit: Circuit, role: string, parameters: readonly FitParameter[]) => Hypothesis[];
 
 const seriesNeighbour: WrongPartSource = (circuit, role) => {
   const value = circuit.parts[role];
@@ -61,7 +75,7 @@ const seriesNeighbour: WrongPartSource = (circuit, role) => {
     id: `neighbouring-value:${role}=${Number(v.toPrecision(3))}`,
     kind: 'wrong-part' as const,
     active: [],
-    parts: { [role]: v },
+    variant: { parts: { [role]: v } },
     wrongPart: { kind: 'neighbouring-value' as const, roles: [role], words: `${role} is the neighbouring ${n.series} value` },
     logPrior: Math.log(PRIOR_WRONG_PART),
   }));
@@ -72,19 +86,86 @@ const decadeSlip: WrongPartSource = (circuit, role) =>
     id: `decade-slip:${role}${factor > 1 ? '×10' : '÷10'}`,
     kind: 'wrong-part' as const,
     active: [],
-    parts: { [role]: circuit.parts[role] * factor },
+    variant: { parts: { [role]: circuit.parts[role] * factor } },
     wrongPart: { kind: 'decade-slip' as const, roles: [role], words: `${role} is a decade ${factor > 1 ? 'up (×10)' : 'down (÷10)'}` },
     logPrior: Math.log(PRIOR_WRONG_PART),
   }));
 
-export const WRONG_PART_SOURCES: readonly WrongPartSource[] = [seriesNeighbour, decadeSlip];
+/**
+ * Class II parts a flat timing capacitor may have been swapped for: an X7R body
+ * (the archetypal class II code) in the cases and ratings most often fitted,
+ * each with its class-typical C(V) (dc-bias.ts). Curves whose scale voltages lie
+ * within CURVE_SPACING of one kept are dropped (the fit cannot tell them apart).
+ */
+const CLASS_II_SWAPS: readonly { caseSize: CaseSize; ratedVoltageV: number }[] = [
+  { caseSize: '0402', ratedVoltageV: 6.3 },
+  { caseSize: '0402', ratedVoltageV: 16 },
+  { caseSize: '0603', ratedVoltageV: 10 },
+  { caseSize: '0603', ratedVoltageV: 50 },
+  { caseSize: '0805', ratedVoltageV: 16 },
+  { caseSize: '1206', ratedVoltageV: 50 },
+];
+const CURVE_SPACING = 0.25;
+/** A curve that keeps this share of its capacitance at the largest bias the supply can put on it is flat for this circuit. */
+const FLAT_ENOUGH = 0.97;
+/** Marked-value tolerance of a class II timing capacitor: ±10 % (K, the usual class II grade; common practice). */
+const CLASS_II_TOLERANCE = 0.1;
+
+/** The timing capacitor of another dielectric class (only the capacitor role; its marked value spreads within a class II tolerance). */
+const otherDielectric: WrongPartSource = (circuit, role, parameters) => {
+  const topology = findTopology(circuit.topology)!;
+  if (role !== topology.capacitorRole) return [];
+  const j = parameters.findIndex((p) => p.name === role);
+  if (j < 0) return [];
+  const declared = circuit.capacitorShape;
+  const declaredScaleV = declared instanceof JohnsonShape ? declared.scaleV : undefined;
+  const nuisanceSd = { [j]: Math.max(parameters[j].priorSd, Math.log(1 + CLASS_II_TOLERANCE) / TOLERANCE_SIGMAS) };
+  const x7r = parseDielectric('X7R');
+  const maxBiasV = Math.max(Math.abs(circuit.supply.positiveV), Math.abs(circuit.supply.negativeV));
+  const curves: { scaleV: number; words: string }[] = [];
+  for (const swap of CLASS_II_SWAPS) {
+    const retention = typicalRetentionAtRated(x7r, swap.ratedVoltageV, swap.caseSize);
+    const shape = JohnsonShape.throughRetention(swap.ratedVoltageV, retention);
+    const near = (scaleV: number) => Math.abs(Math.log(shape.scaleV / scaleV)) < CURVE_SPACING;
+    if (curves.some((c) => near(c.scaleV)) || (declaredScaleV !== undefined && near(declaredScaleV))) continue;
+    if (shape.ratio(maxBiasV) >= FLAT_ENOUGH) continue;
+    curves.push({ scaleV: shape.scaleV, words: `an X7R-like ${swap.caseSize} ${swap.ratedVoltageV} V part (class-typical C(V): ${Math.round(retention * 100)} % kept at ${swap.ratedVoltageV} V)` });
+  }
+  const out: Hypothesis[] = curves.map((c) => ({
+    id: `other-dielectric:${role}=class-II@${Number(c.scaleV.toPrecision(3))}V`,
+    kind: 'wrong-part' as const,
+    active: [],
+    nuisanceSd,
+    variant: { capacitorShape: new JohnsonShape(c.scaleV) },
+    wrongPart: {
+      kind: 'other-dielectric' as const,
+      roles: [role],
+      words: `${role} is a class II ceramic that loses capacitance with DC bias, e.g. ${c.words}${declared && declared.kind !== 'flat' ? ', not the part declared' : ', not a flat dielectric'}`,
+    },
+    logPrior: Math.log(PRIOR_WRONG_PART / curves.length),
+  }));
+  if (declared && declared.kind !== 'flat') {
+    out.push({
+      id: `other-dielectric:${role}=flat`,
+      kind: 'wrong-part',
+      active: [],
+      nuisanceSd,
+      variant: { capacitorShape: FLAT_SHAPE },
+      wrongPart: { kind: 'other-dielectric', roles: [role], words: `${role} is a flat part (class I ceramic or film), not the class II part declared` },
+      logPrior: Math.log(PRIOR_WRONG_PART),
+    });
+  }
+  return out;
+};
+
+export const WRONG_PART_SOURCES: readonly WrongPartSource[] = [seriesNeighbour, decadeSlip, otherDielectric];
 
 export function buildHypotheses(circuit: Circuit, parameters: readonly FitParameter[]): Hypothesis[] {
   const out: Hypothesis[] = [{ id: 'nominal', kind: 'nominal', active: [], logPrior: Math.log(PRIOR_NOMINAL) }];
   parameters.forEach((p, j) => out.push({ id: `off:${p.name}`, kind: 'off', active: [j], logPrior: Math.log(PRIOR_EFFECT_OFF) }));
   const topology = findTopology(circuit.topology)!;
   const roles = Object.keys(topology.roles).filter((r) => circuit.parts[r] !== undefined);
-  for (const role of roles) for (const source of WRONG_PART_SOURCES) out.push(...source(circuit, role));
+  for (const role of roles) for (const source of WRONG_PART_SOURCES) out.push(...source(circuit, role, parameters));
   for (let a = 0; a < roles.length; a++) {
     for (let b = a + 1; b < roles.length; b++) {
       const [ra, rb] = [roles[a], roles[b]];
@@ -95,7 +176,7 @@ export function buildHypotheses(circuit: Circuit, parameters: readonly FitParame
         id: `swapped:${ra}/${rb}`,
         kind: 'wrong-part',
         active: [],
-        parts: { [ra]: vb, [rb]: va },
+        variant: { parts: { [ra]: vb, [rb]: va } },
         wrongPart: { kind: 'swapped', roles: [ra, rb], words: `${ra} and ${rb} are swapped` },
         logPrior: Math.log(PRIOR_WRONG_PART),
       });

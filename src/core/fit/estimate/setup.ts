@@ -4,11 +4,22 @@
  * at nominal) — the full estimate and every hypothesis of the diagnosis use it.
  */
 import type { Circuit } from '../../circuit/types.ts';
+import type { BiasShape } from '../../parts/capacitor/dc-bias.ts';
 import { CoreError } from '../../errors.ts';
 import { ForwardModel, type PredictedFigures } from './forward.ts';
 import { solveMap, type MapSolution } from './map-lm.ts';
 import type { Measurement } from './measurements.ts';
 import { buildParameters, circuitAt, nominalVector, type FitParameter } from './parameters.ts';
+
+/**
+ * What a hypothesis changes in the circuit besides the fitted parameters: parts
+ * of other values (a wrong part), a timing capacitor of another C(V) (another
+ * dielectric). Fitted parameters of a replaced part scale its new value.
+ */
+export interface CircuitVariant {
+  parts?: Readonly<Record<string, number>>;
+  capacitorShape?: BiasShape;
+}
 
 export interface FitSetup {
   circuit: Circuit;
@@ -16,8 +27,8 @@ export interface FitSetup {
   measurements: Measurement[];
   nominalX: Float64Array;
   nominalFigures: PredictedFigures;
-  figuresAt(x: ArrayLike<number>, parts?: Readonly<Record<string, number>>): PredictedFigures;
-  residualsAt(x: ArrayLike<number>, parts?: Readonly<Record<string, number>>): Float64Array;
+  figuresAt(x: ArrayLike<number>, variant?: CircuitVariant): PredictedFigures;
+  residualsAt(x: ArrayLike<number>, variant?: CircuitVariant): Float64Array;
 }
 
 export function createFitSetup(circuit: Circuit, measurements: Measurement[], tolerances: Readonly<Record<string, number>> = {}): FitSetup {
@@ -26,9 +37,13 @@ export function createFitSetup(circuit: Circuit, measurements: Measurement[], to
   const nominalFigures = forward.figures(circuit);
   const parameters = buildParameters(circuit, tolerances);
   const nominalX = nominalVector(parameters);
-  const figuresAt = (x: ArrayLike<number>, parts?: Readonly<Record<string, number>>) => forward.figures(circuitAt(circuit, parameters, x, parts));
-  const residualsAt = (x: ArrayLike<number>, parts?: Readonly<Record<string, number>>) => {
-    const fig = figuresAt(x, parts);
+  const figuresAt = (x: ArrayLike<number>, variant?: CircuitVariant) => {
+    const at = circuitAt(circuit, parameters, x, variant?.parts);
+    if (variant?.capacitorShape) at.capacitorShape = variant.capacitorShape;
+    return forward.figures(at);
+  };
+  const residualsAt = (x: ArrayLike<number>, variant?: CircuitVariant) => {
+    const fig = figuresAt(x, variant);
     const r = new Float64Array(measurements.length);
     for (let i = 0; i < measurements.length; i++) {
       const m = measurements[i];
@@ -54,6 +69,8 @@ export interface SubsetOptions {
   transform?: (r: Float64Array) => Float64Array;
   start?: ArrayLike<number>;
   maxIterations?: number;
+  /** The circuit variant the fit runs on (a hypothesis' other part or capacitor). */
+  variant?: CircuitVariant;
 }
 
 /**
@@ -82,7 +99,7 @@ export function fitSubset(setup: FitSetup, active: readonly number[], options: S
       size: active.length,
       priorMean: params.map((p) => p.priorMean),
       priorSd: options.priorSd ?? params.map((p) => p.priorSd),
-      residuals: (xs) => transform(setup.residualsAt(embed(xs))),
+      residuals: (xs) => transform(setup.residualsAt(embed(xs), options.variant)),
       ...(options.start ? { start: active.map((j) => options.start![j]) } : {}),
     },
     options.maxIterations === undefined ? FIT_SEARCH : { ...FIT_SEARCH, maxIterations: options.maxIterations },
