@@ -12,7 +12,6 @@ import { estimateParameters, type EstimationResult } from '../estimate/estimate.
 import { FORWARD_MODEL_DESCRIPTION, type PredictedFigures } from '../estimate/forward.ts';
 import {
   captureMeasurements,
-  estimateStepV,
   scalarMeasurements,
   type CaptureUncertaintyOptions,
   type Measurement,
@@ -48,7 +47,7 @@ export interface MeasurementReport extends Measurement {
 }
 
 export interface CaptureReport {
-  features: Omit<CaptureFeatures, 'warnings' | 'spreads'>;
+  features: Omit<CaptureFeatures, 'warnings' | 'spreads' | 'sampleSteps'>;
   /** How the capture was read (CSV layout, channel choice, uncertainty choices). */
   notes: string[];
   warnings: string[];
@@ -124,8 +123,9 @@ export function readCapture(spec: CaptureSpec, options: CaptureAnalysisOptions =
     prefixed('/capture', err);
   }
   const uncertainty: CaptureUncertaintyOptions = { ...spec };
-  if (uncertainty.outputStepV === undefined && input.output !== undefined) uncertainty.outputStepV = estimateStepV(input.output);
-  if (uncertainty.capacitorStepV === undefined && input.capacitor !== undefined) uncertainty.capacitorStepV = estimateStepV(input.capacitor);
+  // The ADC steps the capture analysis found in its first pass over each channel (CaptureFeatures.sampleSteps).
+  if (uncertainty.outputStepV === undefined && features.sampleSteps.outputV !== undefined) uncertainty.outputStepV = features.sampleSteps.outputV;
+  if (uncertainty.capacitorStepV === undefined && features.sampleSteps.capacitorV !== undefined) uncertainty.capacitorStepV = features.sampleSteps.capacitorV;
   const read = captureMeasurements(features, uncertainty);
   notes.push(...read.notes);
   return { features, measurements: read.measurements, notes };
@@ -146,7 +146,7 @@ export function fitCircuit(input: FitInput): FitReport {
   let fromCapture: Measurement[] = [];
   if (input.capture !== undefined) {
     const read = readCapture(input.capture, input.captureOptions);
-    const { warnings: captureWarnings, spreads: _spreads, ...features } = read.features;
+    const { warnings: captureWarnings, spreads: _spreads, sampleSteps: _steps, ...features } = read.features;
     void _spreads;
     captureReport = { features, notes: read.notes, warnings: captureWarnings };
     fromCapture = read.measurements;

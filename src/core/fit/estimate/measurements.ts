@@ -118,7 +118,7 @@ export interface CaptureUncertaintyOptions {
   verticalUncertainty?: number;
   /** Time-base accuracy as a fraction (default 5e-5: tens of ppm, common practice). */
   timebaseUncertainty?: number;
-  /** ADC step per channel, V, when known (estimated from the samples otherwise). */
+  /** ADC step per channel, V, when known (otherwise the capture analysis reads it: CaptureFeatures.sampleSteps). */
   outputStepV?: number;
   capacitorStepV?: number;
 }
@@ -178,18 +178,4 @@ export function captureMeasurements(f: CaptureFeatures, options: CaptureUncertai
   push('capacitorRisingTauS', f.risingTauS, tau(f.risingTauS, sem('risingTauS')));
   push('capacitorFallingTauS', f.fallingTauS, tau(f.fallingTauS, sem('fallingTauS')));
   return { measurements: out, notes };
-}
-
-/**
- * ADC step of a quantised channel: the smallest non-zero difference between
- * neighbouring samples (noise makes a quantised record toggle between
- * adjacent codes). On an unquantised record this is tiny and harmless.
- */
-export function estimateStepV(values: ArrayLike<number>): number {
-  let step = Infinity;
-  for (let i = 1; i < values.length; i++) {
-    const d = Math.abs(values[i] - values[i - 1]);
-    if (d > 0 && d < step) step = d;
-  }
-  return Number.isFinite(step) ? step : 0;
 }
