@@ -63,6 +63,24 @@ describe('strays in /v1/analyze', () => {
   });
 });
 
+describe('strays in /v1/waveform', () => {
+  it('the capacitor follows the leakage-loaded charge V_th − (V_th + βV)·e^(−t/τ), τ = (R‖R_L)·(C + C_s) (hand derivation)', async () => {
+    const leakOhm = 2e6;
+    const strayF = 100e-12;
+    const res = await post('/v1/waveform', { circuit: { ...timebase, strays: { timingLeakageOhm: leakOhm, timingNodeF: strayF } }, periods: 1, samples: 201 });
+    expect(res.statusCode).toBe(200);
+    const body = res.json();
+    expect(Math.abs(body.periodS / leakyPeriodS(leakOhm, strayF) - 1)).toBeLessThan(1e-12);
+    // The window opens at a rising decision: the capacitor leaves the lower threshold −βV toward V_th.
+    const vTh = (V * leakOhm) / (R + leakOhm);
+    const tauS = ((R * leakOhm) / (R + leakOhm)) * (C + strayF);
+    for (const k of [0, 25, 50, 99]) {
+      const t = body.timeS[k] - body.timeS[0];
+      expect(body.capacitorV[k]).toBeCloseTo(vTh - (vTh + BETA * V) * Math.exp(-t / tauS), 9);
+    }
+  });
+});
+
 describe('strays in /v1/tolerance (through the prepared model)', () => {
   it('the leakage is a parameter: its sensitivity matches the derivative of the hand formula', async () => {
     const leakOhm = 1e6;

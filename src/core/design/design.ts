@@ -15,6 +15,7 @@
  */
 import type { AmplifierModel } from '../amplifiers/model.ts';
 import { OUTPUT_RESISTANCE_WARNING_FRACTION, type Check } from '../circuit/checks.ts';
+import { TIMING_STRAY_RATIO_MIN } from '../circuit/strays.ts';
 import { formatPercent, formatSi } from '../circuit/format.ts';
 import type { AnalysisResult } from '../circuit/result.ts';
 import { canonicalTopologyId, findTopology, TOPOLOGIES } from '../circuit/topologies/index.ts';
@@ -127,7 +128,8 @@ export const DEFAULT_DESIGN_COUNT = 5;
 export const DESIGN_WINDOWS = { resistor: { min: 1e3, max: 1e6 }, capacitor: { min: 100e-12, max: 10e-6 } } as const;
 /** Input plus board stray capacitance at the inverting input, F (from memory, typical of the class: a few pF each). */
 export const DEFAULT_NODE_CAPACITANCE_F = 5e-12;
-export const NODE_CAPACITANCE_FACTOR = 50;
+/** The same window analyze checks (stray-capacitance-significant): one definition, circuit/strays.ts. */
+export const NODE_CAPACITANCE_FACTOR = TIMING_STRAY_RATIO_MIN;
 /** Request ranges that keep the search cost bounded by construction. */
 export const DESIGN_REQUEST_RANGES = {
   targetFrequencyHz: { min: 1e-3, max: 1e8 },
