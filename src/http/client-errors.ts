@@ -8,8 +8,9 @@
 import type { Socket } from 'node:net';
 import type { FastifyInstance } from 'fastify';
 import { PROBLEM_MEDIA_TYPE, problem } from './problem.ts';
+import type { ProblemCode } from './problem-types.ts';
 
-function answerFor(err: NodeJS.ErrnoException): { status: number; code: string; detail: string } {
+function answerFor(err: NodeJS.ErrnoException): { status: number; code: ProblemCode; detail: string } {
   switch (err.code) {
     case 'ERR_HTTP_REQUEST_TIMEOUT':
       return { status: 408, code: 'request-timeout', detail: 'The request did not arrive in time (TICKWRIGHT_REQUEST_TIMEOUT_MS); the connection is closed' };

@@ -4,8 +4,9 @@
  * map by their stable codes; nothing a caller sends can produce a 500.
  */
 import type { FastifyError, FastifyReply, FastifyRequest } from 'fastify';
-import { CoreError, type CoreErrorCode } from '../core/errors.ts';
-import { StoreError, type StoreErrorCode } from '../store/errors.ts';
+import { CoreError } from '../core/errors.ts';
+import { StoreError } from '../store/errors.ts';
+import { PROBLEM_TYPES, type GenericProblemCode, type ProblemCode } from './problem-types.ts';
 import type { ProblemBody } from './schemas/common.ts';
 
 /**
@@ -38,7 +39,7 @@ const TITLES: Record<number, string> = {
 export class HttpProblem extends Error {
   constructor(
     readonly status: number,
-    readonly code: string,
+    readonly code: ProblemCode | GenericProblemCode,
     message: string,
     readonly errors?: ProblemBody['errors'],
     readonly headers?: Record<string, string>,
@@ -48,35 +49,12 @@ export class HttpProblem extends Error {
   }
 }
 
-export function problem(status: number, code: string, detail: string, instance?: string, errors?: ProblemBody['errors'], extra?: Record<string, unknown>): ProblemBody {
+export function problem(status: number, code: ProblemCode | GenericProblemCode, detail: string, instance?: string, errors?: ProblemBody['errors'], extra?: Record<string, unknown>): ProblemBody {
   const body: ProblemBody = { type: PROBLEM_TYPE_BASE + code, title: TITLES[status] ?? 'Error', status, code, detail };
   if (instance) body.instance = instance;
   if (errors && errors.length) body.errors = errors;
   return extra ? { ...body, ...extra } : body;
 }
-
-const CORE_STATUS: Record<CoreErrorCode, number> = {
-  'invalid-value': 400,
-  'missing-part': 400,
-  'unexpected-part': 400,
-  'unknown-reference': 422,
-  'no-oscillation': 422,
-  infeasible: 422,
-  'limit-exceeded': 422,
-  'bad-capture': 422,
-  'not-converged': 422,
-  'not-modelled': 422,
-};
-
-const STORE_STATUS: Record<StoreErrorCode, number> = {
-  'not-found': 404,
-  'precondition-required': 428,
-  'precondition-failed': 412,
-  conflict: 409,
-  'invalid-id': 400,
-  corrupt: 500,
-  unavailable: 503,
-};
 
 interface ValidationItem {
   instancePath?: string;
@@ -125,12 +103,12 @@ export function errorHandler(error: FastifyError | Error, request: FastifyReques
     return sendProblem(reply, problem(error.status, error.code, error.message, instance, error.errors, error.extra), error.headers);
   }
   if (error instanceof CoreError) {
-    const status = CORE_STATUS[error.code] ?? 422;
+    const status = PROBLEM_TYPES[error.code].status;
     const errors = error.pointer !== undefined ? [{ pointer: error.pointer, detail: error.message }] : undefined;
     return sendProblem(reply, problem(status, error.code, error.message, instance, errors, error.details ? { figures: error.details } : undefined));
   }
   if (error instanceof StoreError) {
-    const status = STORE_STATUS[error.code] ?? 500;
+    const status = PROBLEM_TYPES[error.code].status;
     if (status >= 500) request.log.error({ err: error }, 'store error');
     return sendProblem(reply, problem(status, error.code, error.message, instance), status === 503 ? { 'retry-after': '5' } : undefined);
   }
@@ -164,7 +142,7 @@ export function errorHandler(error: FastifyError | Error, request: FastifyReques
   }
   const status = typeof fe.statusCode === 'number' ? fe.statusCode : 500;
   if (status >= 400 && status < 500) {
-    const code = status === 400 && error instanceof SyntaxError ? 'malformed-json' : `http-${status}`;
+    const code: ProblemCode | GenericProblemCode = status === 400 && error instanceof SyntaxError ? 'malformed-json' : `http-${status}`;
     return sendProblem(reply, problem(status, code, fe.message, instance, status === 400 ? [{ pointer: '/', detail: fe.message }] : undefined));
   }
   if (status === 503) return sendProblem(reply, problem(503, 'unavailable', fe.message, instance), { 'retry-after': '5' });

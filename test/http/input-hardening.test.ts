@@ -8,6 +8,7 @@ import Fastify, { type FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { findNonFinite, installFiniteAnswerGuard } from '../../src/http/finite-answer.ts';
 import { errorHandler } from '../../src/http/problem.ts';
+import { problemType } from '../../src/http/problem-types.ts';
 import { testApp } from '../helpers/app.ts';
 import { expectContract } from '../helpers/contract.ts';
 
@@ -116,6 +117,9 @@ describe('no non-finite number leaves the service', () => {
     expect(res.statusCode).toBe(422);
     expect(res.headers['content-type']).toMatch(/^application\/problem\+json/);
     expect(res.json()).toMatchObject({ code: 'non-finite-result', answerPointer: '/edges/riseS' });
+    // Its `type` URI resolves like every other (GET /problems/{code}); this code was once missing from the table.
+    expect(res.json().type).toBe('/problems/non-finite-result');
+    expect(problemType('non-finite-result')).toMatchObject({ status: 422 });
     expect((await bare.inject({ method: 'GET', url: '/fine' })).json()).toEqual({ frequencyHz: 1000 });
     await bare.close();
   });
