@@ -446,6 +446,16 @@ export function designOscillator(req: DesignRequest): DesignResult {
     );
   }
   if (unique.length === 0) reach.explain(req.targetFrequencyHz, req.frequencyTolerance);
+  if (unique.length === 0 && designs.length === 0 && highKNotes.size > 0) {
+    // Designs on target existed, but only with class II/III capacitors that drift out of the tolerance.
+    throw new CoreError(
+      'infeasible',
+      `Every design found times with a class II/III ceramic capacitor whose DC-bias and ageing shifts leave the ±${formatPercent(req.frequencyTolerance)} tolerance: ` +
+        `${[...highKNotes.values()].join('; ')}. Offer class I (C0G), film or mica capacitors, higher-rated or larger-case parts, or widen frequencyTolerance`,
+      '/values/capacitor',
+      { reasons: [...highKNotes.values()].join('; ') },
+    );
+  }
   if (unique.length === 0) {
     const bestNote = best
       ? `; the closest found is ${formatPercent(best.frequencyError)} off (${best.topology})`

@@ -71,7 +71,8 @@ describe('class II timing capacitors in design', () => {
     }
     expect(caught).toBeInstanceOf(CoreError);
     expect((caught as CoreError).code).toBe('infeasible');
-    expect((caught as CoreError).message).toMatch(/X7R timing capacitor .*DC bias .*ageing over 10 years/);
+    expect((caught as CoreError).message).toMatch(/class II\/III ceramic .*X7R timing capacitor .*DC bias .*ageing over 10 years/);
+    expect((caught as CoreError).pointer).toBe('/values/capacitor');
   });
 
   it('keeps a large high-voltage X7R when its shifts fit a wide tolerance, with the class II warning', () => {
