@@ -73,9 +73,26 @@ describe('POST /v1/fit refuses what it cannot use, never with a 5xx', () => {
       const rows = Array.from({ length: 40 }, (_, i) => `${i},${i % 10 < 5 ? 0 : 5}`).join('\n');
       const res = await post({ circuit, capture: { csv: `Time (${unit}),CH1 (V)\n${rows}\n` } });
       expect(res.statusCode).toBe(422);
-      expect(res.json().detail).toContain(`"${unit}"`);
-      expect(pointers(res).concat([res.json().instance ?? ''])).toBeDefined();
+      // Names the column by its header and the field the CSV came in.
+      expect(res.json().detail).toContain(`"Time (${unit})"`);
+      expect(res.json().figures).toMatchObject({ reason: 'bad-time-unit', column: 1, unit });
+      expect(pointers(res)).toEqual(['/capture/csv']);
     }
+  });
+
+  it('the same refusals for a text/csv body (the only media type read as CSV)', async () => {
+    const url = `/v1/fit?circuit=${encodeURIComponent(JSON.stringify(circuit))}`;
+    const send = (csv: string) => app.inject({ method: 'POST', url, payload: csv, headers: { 'content-type': 'text/csv' } });
+    const timeRows = Array.from({ length: 40 }, (_, i) => `${i},${i % 10 < 5 ? 0 : 5}`).join('\n');
+    const badUnit = await send(`Time (Ts),CH1 (V)\n${timeRows}\n`);
+    await expectContract(badUnit, 'POST', '/v1/fit');
+    expect(badUnit.statusCode).toBe(422);
+    expect(badUnit.json().detail).toContain('"Time (Ts)"');
+    const twoRows = Array.from({ length: 40 }, (_, i) => `${i * 1e-6},${i % 10 < 5 ? 0 : 5},${i % 10}`).join('\n');
+    const duplicate = await send(`Time (s),CH2 (V),CH2 (V)\n${twoRows}\n`);
+    await expectContract(duplicate, 'POST', '/v1/fit');
+    expect(duplicate.statusCode).toBe(422);
+    expect(duplicate.json().figures).toMatchObject({ reason: 'duplicate-channel', channel: 'CH2' });
   });
 
   it('two channels with the same name: 422 naming it', async () => {
