@@ -374,7 +374,7 @@ function causesOf(setup: FitSetup, s: Scored): Cause[] {
         const widened = s.h.nuisanceSd?.[j] ?? p.priorSd;
         const e = describeEstimate(p, 0, naturalSd(p, 0, widened));
         e.posteriorToPriorSd = 1;
-        return { ...e, withinTolerance: false, fault: wp.kind, text: `${wp.words}: ${formatNatural(p.unit, p.nominal)} marked, ±${Number((100 * (Math.exp(TOLERANCE_SIGMAS * widened) - 1)).toPrecision(2))} % allowed` };
+        return { ...e, withinTolerance: false, fault: wp.kind, text: `${wp.words}: ${formatNatural(p.unit, p.nominal)} marked, ±${Math.round(100 * (Math.exp(TOLERANCE_SIGMAS * widened) - 1))} % allowed` };
       }
       const e = describeEstimate(p, Math.log(value / p.nominal), 0);
       e.standardDeviation = naturalSd(p, Math.log(value / p.nominal), p.priorSd);
