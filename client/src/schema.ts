@@ -2919,6 +2919,8 @@ export interface components {
             amplifier: components["schemas"]["AmplifierSpec"];
             /** @description The rails of the board and their regulation band */
             supply: components["schemas"]["BomSupply"];
+            /** @description Board and input capacitance and leakage at the nodes (absent: none); every analysis of the assembly includes them */
+            strays?: components["schemas"]["Strays"];
             /** @description Ambient range the board must work over (absent: no temperature drift is applied, tolerances alone) */
             temperature?: components["schemas"]["BomTemperatureRange"];
             /** @description What the clock must meet for the assembly to pass */
@@ -2968,7 +2970,7 @@ export interface components {
         };
         /** @description One rule result for an assembly */
         BomRule: {
-            /** @description Stable rule code: role-unassigned, role-unknown, refdes-missing, refdes-duplicated, topology-unknown, amplifier-unresolved, catalogue-unavailable, series-unknown, spec-inconsistent, value-read, value-unreadable, value-text-leftover, tolerance-assumed, tempco-assumed, value-off-series, part-number-unlisted, value-disagrees-with-catalogue, value-not-in-catalogue, part-not-for-new-designs, dielectric-unfit-for-timing, electrolytic-in-timing-path, dielectric-unstated, voltage-rating-below-supply, voltage-rating-unstated, temperature-beyond-part-rating, bias-derating, bias-derating-leaves-spec, circuit-rejected, supply-outside-amplifier-range, output-drive-exceeded, inputs-outside-common-mode, input-clamp-conducts, bias-shifts-thresholds, selv-caution, stored-energy-caution, dynamics-approximated, frequency-within-spec, frequency-outside-spec, duty-within-spec, duty-outside-spec, yield-met, yield-below-minimum, yield-not-evaluated, evaluation-failed; checks the analysis adds later arrive as analysis-<code> */
+            /** @description Stable rule code: role-unassigned, role-unknown, refdes-missing, refdes-duplicated, topology-unknown, amplifier-unresolved, catalogue-unavailable, series-unknown, spec-inconsistent, value-read, value-unreadable, value-text-leftover, tolerance-assumed, tempco-assumed, value-off-series, part-number-unlisted, value-disagrees-with-catalogue, value-not-in-catalogue, part-not-for-new-designs, dielectric-unfit-for-timing, electrolytic-in-timing-path, dielectric-unstated, voltage-rating-below-supply, voltage-rating-unstated, temperature-beyond-part-rating, bias-derating, bias-derating-leaves-spec, circuit-rejected, supply-outside-amplifier-range, output-drive-exceeded, inputs-outside-common-mode, input-clamp-conducts, bias-shifts-thresholds, selv-caution, stored-energy-caution, dynamics-approximated, stray-capacitance-significant, frequency-within-spec, frequency-outside-spec, duty-within-spec, duty-outside-spec, yield-met, yield-below-minimum, yield-not-evaluated, evaluation-failed; checks the analysis adds later arrive as analysis-<code> */
             code: string;
             /** @description error: the board will not meet its spec or work as intended; warning: it works with reduced margin; caution: safety note; info: for the record */
             severity: "error" | "warning" | "caution" | "info";

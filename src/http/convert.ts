@@ -7,10 +7,10 @@ import { canonicalTopologyId, findTopology, resolveAmplifier, type AmplifierMode
 import { CoreError } from '../core/errors.ts';
 import { UNLIMITED_FIGURES } from '../core/amplifiers/figures-table.ts';
 import { parseComponentValue } from '../core/parts/value-parse.ts';
-import { NO_STRAYS } from '../core/circuit/strays.ts';
+import { NO_STRAYS, type Strays } from '../core/circuit/strays.ts';
 import { resolveCapacitor, type CapacitorModel, type CapacitorSpec } from '../core/parts/capacitor/index.ts';
 import type { AmplifierLookup } from './amplifier-directory.ts';
-import type { CircuitBody } from './schemas/circuit.ts';
+import type { CircuitBody, StraysBody } from './schemas/circuit.ts';
 
 /** Default diode for steered topologies: small-signal silicon, common practice. */
 export const DEFAULT_DIODE = { forwardDropV: 0.6, resistanceOhm: 10 } as const;
@@ -61,16 +61,7 @@ export function circuitFromBody(body: CircuitBody, directory: AmplifierLookup, p
   const capacitor = timingCapacitorFromParts(body.topology, body.parts as Record<string, PartValue>, `${pointer}/parts`);
   if (capacitor && capacitor.shape.kind !== 'flat') circuit.capacitorShape = capacitor.shape;
   if (body.load) circuit.load = { resistanceOhm: body.load.resistanceOhm, returnV: body.load.returnV ?? 0 };
-  if (body.strays) {
-    const s = body.strays;
-    circuit.strays = {
-      timingNodeF: s.timingNodeF ?? NO_STRAYS.timingNodeF,
-      thresholdNodeF: s.thresholdNodeF ?? NO_STRAYS.thresholdNodeF,
-      outputNodeF: s.outputNodeF ?? NO_STRAYS.outputNodeF,
-      timingLeakageOhm: s.timingLeakageOhm ?? NO_STRAYS.timingLeakageOhm,
-      thresholdLeakageOhm: s.thresholdLeakageOhm ?? NO_STRAYS.thresholdLeakageOhm,
-    };
-  }
+  if (body.strays) circuit.strays = straysFromBody(body.strays);
   if (body.diode) {
     circuit.diode = {
       forwardDropV: body.diode.forwardDropV ?? DEFAULT_DIODE.forwardDropV,
@@ -78,6 +69,17 @@ export function circuitFromBody(body: CircuitBody, directory: AmplifierLookup, p
     };
   }
   return circuit;
+}
+
+/** Strays as sent (absent fields: none) -> the core's complete Strays (no leakage = Infinity). */
+export function straysFromBody(s: StraysBody): Strays {
+  return {
+    timingNodeF: s.timingNodeF ?? NO_STRAYS.timingNodeF,
+    thresholdNodeF: s.thresholdNodeF ?? NO_STRAYS.thresholdNodeF,
+    outputNodeF: s.outputNodeF ?? NO_STRAYS.outputNodeF,
+    timingLeakageOhm: s.timingLeakageOhm ?? NO_STRAYS.timingLeakageOhm,
+    thresholdLeakageOhm: s.thresholdLeakageOhm ?? NO_STRAYS.thresholdLeakageOhm,
+  };
 }
 
 /** Prefix a core error's pointer when the circuit sits inside a larger body (e.g. /circuit). */

@@ -96,3 +96,38 @@ describe('strays in /v1/tolerance (through the prepared model)', () => {
     expect(s.sensitivity).toBeCloseTo(expected, 6);
   });
 });
+
+describe('strays in /v1/bom-checks', () => {
+  // Our own scenario: the same 5 V fan-sense clock built twice, once on a clean board, once with flux residue at N.
+  const assembly = {
+    id: 'clean-board',
+    lines: [
+      { refdes: 'R1', value: '22K 1% 0603' },
+      { refdes: 'C1', value: '4n7 50V C0G 2%' },
+      { refdes: 'R2, R3, R4', value: '68K 1% 0603' },
+    ],
+    roles: { rTiming: 'R1', cTiming: 'C1', rTop: 'R2', rBottom: 'R3', rFeedback: 'R4' },
+    topology: 'three-resistor-divider',
+    amplifier: 'ideal',
+    supply: { positiveV: 5 },
+    spec: { frequencyHz: 7000, frequencyTolerance: 0.2 },
+  };
+  const strays = { timingNodeF: 150e-12, timingLeakageOhm: 300e3 };
+
+  it('every analysis of the assembly includes them (same batch, no cached answer shared), and the stray rule fires', async () => {
+    const res = await post('/v1/bom-checks', { assemblies: [assembly, { ...assembly, id: 'residue', strays }] });
+    expect(res.statusCode).toBe(200);
+    const [clean, residue] = res.json().results;
+    const nominalHz = (r: { rules: { code: string; figures: Record<string, number> }[] }) =>
+      r.rules.find((x) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec')!.figures.nominalFrequencyHz;
+    const circuit = { topology: 'three-resistor-divider', supply: { positiveV: 5 }, amplifier: 'ideal', parts: { rTiming: '22k', cTiming: '4n7', rTop: '68k', rBottom: '68k', rFeedback: '68k' } };
+    const plain = (await post('/v1/analyze', circuit)).json();
+    const loaded = (await post('/v1/analyze', { ...circuit, strays })).json();
+    expect(nominalHz(clean) / plain.frequencyHz - 1).toBeCloseTo(0, 9);
+    expect(nominalHz(residue) / loaded.frequencyHz - 1).toBeCloseTo(0, 9);
+    expect(Math.abs(loaded.frequencyHz / plain.frequencyHz - 1)).toBeGreaterThan(0.01);
+    // 4.7 nF against 150 pF is 31×, under the 50× window.
+    expect(residue.rules.map((r: { code: string }) => r.code)).toContain('stray-capacitance-significant');
+    expect(clean.rules.map((r: { code: string }) => r.code)).not.toContain('stray-capacitance-significant');
+  });
+});

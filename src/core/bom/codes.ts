@@ -47,6 +47,7 @@ export const BOM_RULES = {
   selvCaution: { code: 'selv-caution', severity: 'caution' },
   storedEnergyCaution: { code: 'stored-energy-caution', severity: 'caution' },
   dynamicsApproximated: { code: 'dynamics-approximated', severity: 'info' },
+  strayCapacitanceSignificant: { code: 'stray-capacitance-significant', severity: 'warning' },
   // --- against the spec ---
   frequencyWithinSpec: { code: 'frequency-within-spec', severity: 'info' },
   frequencyOutsideSpec: { code: 'frequency-outside-spec', severity: 'error' },

@@ -153,6 +153,7 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
     circuit = { topology: topology.id, supply: supplyAt(assembly.supply, 'nominal'), amplifier, parts };
     // A class II/III timing capacitor: every analysis of the assembly runs its C(V) (one model).
     if (capacitorShape) circuit.capacitorShape = capacitorShape;
+    if (assembly.strays) circuit.strays = assembly.strays;
     const evaluation = circuitRules(circuit, assembly.supply);
     rules.push(...evaluation.rules);
     if (!evaluation.nominal) circuit = undefined;

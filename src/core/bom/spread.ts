@@ -220,6 +220,7 @@ function cacheKey(request: ToleranceRequest): string {
     request.circuit.parts,
     request.circuit.amplifier,
     request.circuit.capacitorShape?.key ?? 'flat',
+    request.circuit.strays ?? null,
     request.tolerances,
     request.temperature ?? null,
     request.supplyTolerance,

@@ -3,6 +3,7 @@
  * The HTTP layer converts the wire body into these; nothing here knows about
  * fastify or JSON.
  */
+import type { Strays } from '../circuit/strays.ts';
 import type { AmplifierModel } from '../amplifiers/model.ts';
 import type { InlineAmplifier } from '../amplifiers/resolve.ts';
 import type { CoreError } from '../errors.ts';
@@ -67,6 +68,8 @@ export interface BomAssembly {
   /** Declared preferred-number series: one for every role, or per role. */
   series?: SeriesName | Readonly<Record<string, SeriesName>>;
   assumedTolerance?: Partial<AssumedTolerances>;
+  /** Board capacitance and leakage at the nodes (circuit/strays.ts); every analysis of the assembly includes them. */
+  strays?: Strays;
 }
 
 export type BomRuleSeverity = 'error' | 'warning' | 'caution' | 'info';

@@ -29,6 +29,7 @@ export const CHECK_CODES = {
   storedEnergy: 'stored-energy',
   dynamicsApproximated: 'dynamics-approximated',
   slewLimited: 'slew-limited',
+  strayCapacitanceSignificant: 'stray-capacitance-significant',
 } as const;
 
 /** SELV limit for ripple-free DC in dry conditions (IEC 61140 / IEC 60364-4-41): 60 V. */

@@ -16,7 +16,7 @@
 import { CoreError } from '../errors.ts';
 import { FLAT_SHAPE, type BiasShape } from '../parts/capacitor/index.ts';
 import { formatSi } from './format.ts';
-import type { Check } from './checks.ts';
+import { CHECK_CODES, type Check } from './checks.ts';
 import type { Circuit } from './types.ts';
 
 export interface Strays {
@@ -144,7 +144,7 @@ export function strayCapacitanceCheck(circuit: Circuit, timingCapacitanceF: numb
   if (!(strayF > 0) || timingCapacitanceF >= TIMING_STRAY_RATIO_MIN * strayF) return undefined;
   const ratio = timingCapacitanceF / strayF;
   return {
-    code: 'stray-capacitance-significant',
+    code: CHECK_CODES.strayCapacitanceSignificant,
     severity: 'warning',
     message: `The timing capacitor (${formatSi(timingCapacitanceF, 'F')}) is only ${ratio.toFixed(1)}× the stray and input capacitance at its node (${formatSi(strayF, 'F')}); keep it at least ${TIMING_STRAY_RATIO_MIN}× so the frequency does not rest on the board`,
     timingCapacitanceF,

@@ -25,7 +25,7 @@ import {
 } from '../../core/index.ts';
 import type { Catalogue, SeriesName } from '../../core/parts/index.ts';
 import { catalogueLookupFor, type CatalogueLookup } from '../catalogue-source.ts';
-import { inlineAmplifierFromBody } from '../convert.ts';
+import { inlineAmplifierFromBody, straysFromBody } from '../convert.ts';
 import { BomCheckRequest, BomCheckResponse, BomCheckResult, type BomAssemblyBody } from '../schemas/bom.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
 
@@ -62,6 +62,7 @@ export function bomAssemblyFromBody(body: BomAssemblyBody): BomAssembly {
   const series = seriesFromBody(body.series);
   if (series !== undefined) assembly.series = series;
   if (body.assumedTolerance) assembly.assumedTolerance = body.assumedTolerance;
+  if (body.strays) assembly.strays = straysFromBody(body.strays);
   return assembly;
 }
 

@@ -10,6 +10,7 @@ import { Type, type Static } from 'typebox';
 import { BOM_RULE_CODES, MAX_ASSEMBLIES_PER_BATCH, TOPOLOGY_IDS } from '../../core/index.ts';
 import { SERIES_NAMES } from '../../core/parts/index.ts';
 import { AmplifierSpec, FrequencyHz, ref } from './common.ts';
+import { Strays } from './circuit.ts';
 
 export const MAX_LINES_PER_ASSEMBLY = 500;
 export const MAX_MONTE_CARLO_SAMPLES = 20_000;
@@ -78,6 +79,7 @@ export const BomAssembly = Type.Object(
     topology: Type.String({ minLength: 1, maxLength: 64, description: `Topology id: ${TOPOLOGY_IDS.join(', ')} (an unknown one fails this assembly only)` }),
     amplifier: ref(AmplifierSpec, 'The amplifier fitted on the board: an archetype or registered id, or inline figures (an unknown id fails this assembly only)'),
     supply: ref(BomSupply, 'The rails of the board and their regulation band'),
+    strays: Type.Optional(ref(Strays, 'Board and input capacitance and leakage at the nodes (absent: none); every analysis of the assembly includes them')),
     temperature: Type.Optional(ref(BomTemperatureRange, 'Ambient range the board must work over (absent: no temperature drift is applied, tolerances alone)')),
     spec: ref(BomSpec, 'What the clock must meet for the assembly to pass'),
     catalogue: Type.Optional(Type.String({ minLength: 1, maxLength: 64, description: 'Id of a stored parts catalogue to check part numbers, values and status against' })),

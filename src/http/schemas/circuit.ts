@@ -160,6 +160,7 @@ export const Circuit = Type.Object(
 );
 
 export type CircuitBody = Static<typeof Circuit>;
+export type StraysBody = Static<typeof Strays>;
 
 export const CIRCUIT_SCHEMAS = [TimingCapacitor, Parts, OutputLoad, Diode, Strays, Circuit];
 

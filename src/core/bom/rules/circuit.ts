@@ -24,6 +24,7 @@ const CHECK_TO_RULE: Readonly<Record<string, RuleDefinition>> = {
   [CHECK_CODES.selv]: BOM_RULES.selvCaution,
   [CHECK_CODES.storedEnergy]: BOM_RULES.storedEnergyCaution,
   [CHECK_CODES.dynamicsApproximated]: BOM_RULES.dynamicsApproximated,
+  [CHECK_CODES.strayCapacitanceSignificant]: BOM_RULES.strayCapacitanceSignificant,
 };
 
 export type SupplyCorner = 'nominal' | 'low' | 'high';
