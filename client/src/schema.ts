@@ -3865,7 +3865,7 @@ export interface components {
         ToleranceRequest: {
             /** @description The nominal circuit, as a POST /v1/analyze body */
             circuit: components["schemas"]["Circuit"];
-            /** @description Per-part tolerance by role, fraction. Parts not listed are exact. */
+            /** @description Per-part tolerance by role, fraction. Parts not listed are exact, except a timing capacitor given as a part object with a tolerance (that tolerance is used). */
             tolerances: {
                 /** @description Tolerance of this part, fraction (0.01 = 1 %) */
                 rTiming?: number;
@@ -3886,7 +3886,7 @@ export interface components {
                 /** @description Tolerance of this part, fraction (0.01 = 1 %) */
                 rPullup?: number;
             };
-            /** @description Temperature behaviour by role */
+            /** @description Temperature behaviour by role. A timing capacitor given as a part object with a dielectric and not listed here follows its dielectric. */
             temperatureCoefficients?: {
                 /** @description Temperature behaviour of rTiming over `temperature` (absent: its value does not change with temperature) */
                 rTiming?: components["schemas"]["TemperatureCoefficient"];

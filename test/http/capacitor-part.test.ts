@@ -81,6 +81,18 @@ describe('timing capacitor object', () => {
     expect(body.worstCase.frequencyMaxHz / body.nominal.frequencyHz).toBeCloseTo(1 / ratio, 6);
   });
 
+  it('tolerance takes the part\'s own tolerance and dielectric where the request does not name the capacitor', async () => {
+    const part = { ...x7r, tolerance: 'K' }; // IEC 60062 letter K: ±10 %
+    const body = (await post('/v1/tolerance', { circuit: probe(part), tolerances: { rTiming: 0.01 }, temperature: { minC: -55, maxC: 125 }, monteCarlo: { samples: 200 } })).json();
+    // EIA-198 X7R: ±15 % over −55…125 °C.
+    expect(body.temperatureModels).toEqual([expect.objectContaining({ role: 'cTiming', model: 'dielectric', dielectric: 'X7R', changeMinFraction: -0.15, changeMaxFraction: 0.15 })]);
+    expect(body.varianceSources.map((v: { source: string }) => v.source)).toEqual(expect.arrayContaining(['cTiming', 'cTiming dielectric', 'rTiming']));
+    // A request that names the capacitor keeps its own figures.
+    const named = (await post('/v1/tolerance', { circuit: probe(part), tolerances: { cTiming: 0.05 }, temperature: { minC: 0, maxC: 50 }, temperatureCoefficients: { cTiming: { dielectric: 'X5R' } }, monteCarlo: { samples: 200 } })).json();
+    expect(named.temperatureModels[0].dielectric).toBe('X5R');
+    expect(named.worstCase.corners.frequencyMax.deviations.cTiming).toBeLessThan(-0.05 * 0.999);
+  });
+
   it('names the bad field under /parts/cTiming', async () => {
     for (const [bad, pointer] of [
       [{ ...x7r, caseSize: '0404' }, '/parts/cTiming'],

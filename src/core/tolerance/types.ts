@@ -49,12 +49,16 @@ export interface FrequencySpec {
   dutyMax?: number;
 }
 
-/** The timing capacitor's ageing, when the circuit gives the capacitor as a part (parts/capacitor/model.ts). */
-export interface TimingCapacitorAgeing {
+/** What the timing capacitor's part object states (parts/capacitor/model.ts), when the circuit gives one. */
+export interface TimingCapacitorPart {
   /** Fractional loss per decade of hours (log-decade law, parts/capacitor/ageing.ts). */
   ageingRatePerDecade: number;
   /** Hours since the last de-ageing at the start of service. */
   ageHours: number;
+  /** Its dielectric code: its temperature behaviour when temperatureCoefficients does not name the capacitor. */
+  dielectric?: string;
+  /** Its tolerance (the larger side), fraction: used when tolerances does not name the capacitor. */
+  toleranceFraction?: number;
 }
 
 /** Longest service life a request may state, years (beyond it the log-decade law is extrapolated past any data). */
@@ -72,8 +76,12 @@ export interface ToleranceRequest {
    * them (corners take the start and the end, Monte Carlo a uniform age). Default 0: no ageing.
    */
   serviceLifeYears?: number;
-  /** The timing capacitor's ageing law and age (from its part object); without it, from its dielectric in temperatureCoefficients. */
-  timingCapacitor?: TimingCapacitorAgeing;
+  /**
+   * The timing capacitor's part object: its ageing law and age, and its dielectric and tolerance where
+   * temperatureCoefficients and tolerances do not name it. Without it, ageing follows a dielectric
+   * named for the capacitor in temperatureCoefficients.
+   */
+  timingCapacitor?: TimingCapacitorPart;
   /** Both rails scale by one shared draw within ± this fraction (or each on its own: supplyRailsIndependent). */
   supplyTolerance?: number;
   supplyRailsIndependent?: boolean;

@@ -147,6 +147,7 @@ export function buildVariationModel(
   nominal: Float64Array,
   model: ModelName,
 ): VariationModel {
+  request = withPartDefaults(request, parameters);
   const index = new Map(parameters.map((p, i) => [p.name, i]));
   const partIndex = (role: string, pointer: string): number => {
     const i = index.get(role);
@@ -454,6 +455,26 @@ export function buildVariationModel(
     ageing,
     notes,
   };
+}
+
+/**
+ * What the timing capacitor's part object states fills in for what the request leaves out: its
+ * tolerance (unless tolerances or a tracking group names it) and its dielectric as its temperature
+ * behaviour (unless temperatureCoefficients names it).
+ */
+function withPartDefaults(request: ToleranceRequest, parameters: readonly ParameterInfo[]): ToleranceRequest {
+  const part = request.timingCapacitor;
+  const role = parameters.find((p) => p.kind === 'capacitor')?.name;
+  if (!part || role === undefined) return request;
+  const tracked = (request.tracking ?? []).some((g) => g.roles.includes(role));
+  const out = { ...request };
+  if (part.toleranceFraction !== undefined && part.toleranceFraction > 0 && request.tolerances[role] === undefined && !tracked) {
+    out.tolerances = { ...request.tolerances, [role]: part.toleranceFraction };
+  }
+  if (part.dielectric !== undefined && request.temperature && request.temperatureCoefficients?.[role] === undefined) {
+    out.temperatureCoefficients = { ...request.temperatureCoefficients, [role]: { dielectric: part.dielectric } };
+  }
+  return out;
 }
 
 /**

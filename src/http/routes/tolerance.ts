@@ -72,7 +72,16 @@ export const toleranceRoutes: FastifyPluginAsyncTypebox = async (app) => {
       const circuit = withPointerPrefix('/circuit', () => circuitFromBody(body.circuit, amplifiers, '/circuit'));
       const coreRequest = toCoreRequest(body, circuit, kind === 'svg');
       const capacitor = withPointerPrefix('/circuit', () => timingCapacitorFromParts(body.circuit.topology, body.circuit.parts as Parameters<typeof timingCapacitorFromParts>[1], '/circuit/parts'));
-      if (capacitor) coreRequest.timingCapacitor = { ageingRatePerDecade: capacitor.ageingRatePerDecade, ageHours: capacitor.ageHours };
+      if (capacitor) {
+        coreRequest.timingCapacitor = {
+          ageingRatePerDecade: capacitor.ageingRatePerDecade,
+          ageHours: capacitor.ageHours,
+          ...(capacitor.dielectric ? { dielectric: capacitor.dielectric.code } : {}),
+          ...(capacitor.tolerancePlusFraction !== undefined
+            ? { toleranceFraction: Math.max(capacitor.tolerancePlusFraction, capacitor.toleranceMinusFraction ?? 0) }
+            : {}),
+        };
+      }
       // Refuse an oversized run before it takes a thread.
       monteCarloOptions(coreRequest);
       const result: ToleranceResult = await runForRequest(app.services.workers, reply, 'tolerance', coreRequest, 'run');

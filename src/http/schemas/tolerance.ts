@@ -43,12 +43,12 @@ export const ToleranceRequest = Type.Object(
     circuit: ref(Circuit, 'The nominal circuit, as a POST /v1/analyze body'),
     tolerances: Type.Object(byRole(() => Fraction('Tolerance of this part, fraction (0.01 = 1 %)')), {
       additionalProperties: false,
-      description: 'Per-part tolerance by role, fraction. Parts not listed are exact.',
+      description: 'Per-part tolerance by role, fraction. Parts not listed are exact, except a timing capacitor given as a part object with a tolerance (that tolerance is used).',
     }),
     temperatureCoefficients: Type.Optional(
       Type.Object(
         byRole((role) => ref(TemperatureCoefficient, `Temperature behaviour of ${role} over \`temperature\` (absent: its value does not change with temperature)`)),
-        { additionalProperties: false, description: 'Temperature behaviour by role' },
+        { additionalProperties: false, description: 'Temperature behaviour by role. A timing capacitor given as a part object with a dielectric and not listed here follows its dielectric.' },
       ),
     ),
     temperature: Type.Optional(
