@@ -2190,6 +2190,7 @@ export interface components {
     schemas: {
         /** @description A component value as a number in SI base units or a value string */
         ComponentValue: number | string;
+        /** @description The supply rails, relative to ground (the circuit's 0 V) */
         Supply: {
             /** @description Positive rail relative to ground, V */
             positiveV: number;
@@ -2861,6 +2862,7 @@ export interface components {
             /** @description Ordered by id */
             catalogues: components["schemas"]["CatalogueSummary"][];
         };
+        /** @description One BOM line as the BOM carries it */
         BomLine: {
             /** @description Reference designator, or several that share the line ("R3, R7" or "R3 R7"); compared trimmed and case-blind */
             refdes: string;
@@ -2871,6 +2873,7 @@ export interface components {
             /** @description Free text; tolerance, voltage, dielectric, tempco and package missing from the value are read from it */
             description?: string;
         };
+        /** @description The board's rails and their regulation band */
         BomSupply: {
             /** @description Nominal positive rail relative to ground, V */
             positiveV: number;
@@ -2885,12 +2888,14 @@ export interface components {
              */
             tolerance?: number;
         };
+        /** @description Ambient temperature range of the board, °C */
         BomTemperatureRange: {
             /** @description Lowest ambient temperature, °C */
             minC: number;
             /** @description Highest ambient temperature, °C */
             maxC: number;
         };
+        /** @description What the clock must meet for the assembly to pass */
         BomSpec: {
             /** @description Target frequency, Hz (0.001 to 100000000 Hz) */
             frequencyHz: number;
@@ -2939,6 +2944,7 @@ export interface components {
                 capacitor?: number;
             };
         };
+        /** @description How deeply to check and what fails an assembly */
         BomCheckOptions: {
             /**
              * @description full: worst case and, where a minimum yield is given, Monte Carlo; worst-case: no Monte Carlo (faster)
@@ -3862,6 +3868,7 @@ export interface components {
             /** @description Capacitor dielectric: an EIA-198 code (class I such as C0G or U2J: linear tempco ± its tolerance; class II/III such as X7R, X5R, Y5V: the code's change band, taken as uniform within the band at every temperature of the range) or a technology word (PP, PET, PPS, mica...) */
             dielectric: string;
         };
+        /** @description A circuit and how its parts, temperature, supply and amplifier may spread */
         ToleranceRequest: {
             /** @description The nominal circuit, as a POST /v1/analyze body */
             circuit: components["schemas"]["Circuit"];

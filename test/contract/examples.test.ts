@@ -84,12 +84,12 @@ describe('examples in the contract', () => {
     }
   });
 
-  it('every property of every schema in the document has a description, and so has every parameter', async () => {
+  it('every component, every property of every schema in the document and every parameter has a description', async () => {
     const doc = await openApiDocument();
-    // The walker must find what it is meant to find: a nested property, one inside array items, one in an
-    // anyOf branch and an undescribed parameter (so this check cannot pass by walking nothing).
+    // The walker must find what it is meant to find: a nested property, an undescribed component, one inside
+    // array items, one in an anyOf branch and an undescribed parameter (so this check cannot pass by walking nothing).
     const planted = undescribedFields({
-      components: { schemas: { A: { type: 'object', properties: { ok: { type: 'number', description: 'x' }, inner: { type: 'object', description: 'x', properties: { bare: { type: 'number' } } } } } } },
+      components: { schemas: { A: { type: 'object', description: 'x', properties: { ok: { type: 'number', description: 'x' }, inner: { type: 'object', description: 'x', properties: { bare: { type: 'number' } } } } }, B: { type: 'string' } } },
       paths: {
         '/p': {
           get: {
@@ -99,7 +99,7 @@ describe('examples in the contract', () => {
         },
       },
     });
-    expect(planted).toEqual(['#/components/schemas/A/properties/inner/properties/bare', 'GET /p parameter q', 'GET /p responses/200 application/json: items/anyOf/0/properties/deep']);
+    expect(planted).toEqual(['#/components/schemas/A/properties/inner/properties/bare', '#/components/schemas/B', 'GET /p parameter q', 'GET /p responses/200 application/json: items/anyOf/0/properties/deep']);
 
     const undescribed = undescribedFields(doc as unknown as DocumentShape);
     expect(undescribed, 'describe these fields in src/http/schemas (unit, meaning, default, range), then npm run openapi:write').toEqual([]);
@@ -132,7 +132,11 @@ function walkProperties(node: unknown, path: string, visit: (property: SchemaNod
 
 /** Every schema of the document: the components, each operation's parameters, request bodies and responses. */
 function forEachField(doc: DocumentShape, visit: (property: SchemaNode, where: string) => void, visitParameter: (parameter: SchemaNode, where: string) => void): void {
-  for (const [name, schema] of Object.entries(doc.components?.schemas ?? {})) walkProperties(schema, `#/components/schemas/${name}`, visit);
+  for (const [name, schema] of Object.entries(doc.components?.schemas ?? {})) {
+    // A shared schema says what it is, once, for every place that references it.
+    visit(schema, `#/components/schemas/${name}`);
+    walkProperties(schema, `#/components/schemas/${name}`, visit);
+  }
   for (const [path, operations] of Object.entries(doc.paths)) {
     for (const [method, op] of Object.entries(operations)) {
       const key = `${method.toUpperCase()} ${path}`;

@@ -33,7 +33,7 @@ export const BomLine = Type.Object(
       Type.String({ maxLength: 1000, description: 'Free text; tolerance, voltage, dielectric, tempco and package missing from the value are read from it' }),
     ),
   },
-  { $id: 'BomLine', additionalProperties: false },
+  { $id: 'BomLine', additionalProperties: false, description: 'One BOM line as the BOM carries it' },
 );
 
 export const BomSupply = Type.Object(
@@ -44,7 +44,7 @@ export const BomSupply = Type.Object(
       Type.Number({ minimum: 0, maximum: 0.5, default: 0, description: 'Regulation band of both rails as a fraction (0.05: each rail ±5 %); the checks run at both ends' }),
     ),
   },
-  { $id: 'BomSupply', additionalProperties: false },
+  { $id: 'BomSupply', additionalProperties: false, description: 'The board\'s rails and their regulation band' },
 );
 
 export const BomTemperatureRange = Type.Object(
@@ -52,7 +52,7 @@ export const BomTemperatureRange = Type.Object(
     minC: Type.Number({ minimum: -273.15, maximum: 1000, description: 'Lowest ambient temperature, °C' }),
     maxC: Type.Number({ minimum: -273.15, maximum: 1000, description: 'Highest ambient temperature, °C' }),
   },
-  { $id: 'BomTemperatureRange', additionalProperties: false },
+  { $id: 'BomTemperatureRange', additionalProperties: false, description: 'Ambient temperature range of the board, °C' },
 );
 
 export const BomSpec = Type.Object(
@@ -63,7 +63,7 @@ export const BomSpec = Type.Object(
     dutyMax: Type.Optional(Fraction('Highest allowed duty cycle, fraction of the period high')),
     minimumYield: Type.Optional(Fraction('Minimum fraction of boards inside the spec (Monte Carlo); omit for no yield rule')),
   },
-  { $id: 'BomSpec', additionalProperties: false },
+  { $id: 'BomSpec', additionalProperties: false, description: 'What the clock must meet for the assembly to pass' },
 );
 
 const SeriesNameText = Type.String({ minLength: 1, maxLength: 16, description: `IEC 60063 series, case-insensitive: ${SERIES_NAMES.join(', ')}` });
@@ -115,7 +115,7 @@ export const BomCheckOptions = Type.Object(
     monteCarloSamples: Type.Optional(Type.Integer({ minimum: 50, maximum: MAX_MONTE_CARLO_SAMPLES, default: 500, description: 'Monte Carlo samples per assembly' })),
     seed: Type.Optional(Type.Integer({ minimum: 0, maximum: 2 ** 31 - 1, default: 1, description: 'Monte Carlo seed (same seed, same figures)' })),
   },
-  { $id: 'BomCheckOptions', additionalProperties: false },
+  { $id: 'BomCheckOptions', additionalProperties: false, description: 'How deeply to check and what fails an assembly' },
 );
 
 export const BomCheckRequest = Type.Object(

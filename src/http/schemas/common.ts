@@ -72,7 +72,7 @@ export const Supply = Type.Object(
     positiveV: Type.Number({ description: 'Positive rail relative to ground, V' }),
     negativeV: Type.Optional(Type.Number({ default: 0, description: 'Negative rail relative to ground, V (0 for a single supply)' })),
   },
-  { $id: 'Supply', additionalProperties: false },
+  { $id: 'Supply', additionalProperties: false, description: 'The supply rails, relative to ground (the circuit\'s 0 V)' },
 );
 
 /**

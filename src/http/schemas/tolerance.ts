@@ -125,7 +125,7 @@ export const ToleranceRequest = Type.Object(
     ),
     histogramBins: Type.Optional(Type.Integer({ minimum: 1, maximum: MAX_HISTOGRAM_BINS, description: 'Bars of the SVG histogram (default 60)' })),
   },
-  { $id: 'ToleranceRequest', additionalProperties: false },
+  { $id: 'ToleranceRequest', additionalProperties: false, description: 'A circuit and how its parts, temperature, supply and amplifier may spread' },
 );
 
 export type ToleranceRequestBody = Static<typeof ToleranceRequest>;
