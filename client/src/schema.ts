@@ -3448,9 +3448,9 @@ export interface components {
         };
         /** @description Value source per kind of part, with per-role overrides */
         ValueSources: {
-            /** @description Source for every resistor role without its own entry in `roles`; a resistor role left with no source is refused (400 at /values/resistor) */
+            /** @description Source for every resistor role without its own entry in `roles`. Absent: design uses E24 at 1 %; snap refuses a resistor role left with no source (400 at /values/resistor) */
             resistor?: components["schemas"]["ValueSource"];
-            /** @description Source for every capacitor role without its own entry in `roles`; a capacitor role left with no source is refused (400 at /values/capacitor) */
+            /** @description Source for every capacitor role without its own entry in `roles`. Absent: design uses E12 at 5 % (C0G); snap refuses a capacitor role left with no source (400 at /values/capacitor) */
             capacitor?: components["schemas"]["ValueSource"];
             /** @description Per-role sources, overriding the per-kind ones (e.g. rTiming from a catalogue) */
             roles?: {
@@ -3681,7 +3681,7 @@ export interface components {
             supply: components["schemas"]["Supply"];
             /** @description The amplifier every design is sized and analysed with */
             amplifier: components["schemas"]["AmplifierSpec"];
-            /** @description Where each role takes its values from (absent: E24 resistors at 1 %, E12 C0G capacitors at 5 %) */
+            /** @description Where each role takes its values from; a kind not given takes E24 resistors at 1 % or E12 C0G capacitors at 5 % */
             values?: components["schemas"]["ValueSources"];
             /** @description Windows and budgets every offered design keeps to (absent: the defaults of each field) */
             constraints?: {

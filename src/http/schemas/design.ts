@@ -48,7 +48,7 @@ export const DesignRequest = Type.Object(
     ),
     supply: ref(Supply, 'The rails the design runs from; a negative rail below 0 V also offers the split-supply networks'),
     amplifier: ref(AmplifierSpec, 'The amplifier every design is sized and analysed with'),
-    values: Type.Optional(ref(ValueSources, 'Where each role takes its values from (absent: E24 resistors at 1 %, E12 C0G capacitors at 5 %)')),
+    values: Type.Optional(ref(ValueSources, 'Where each role takes its values from; a kind not given takes E24 resistors at 1 % or E12 C0G capacitors at 5 %')),
     constraints: Type.Optional(
       Type.Object(
         {

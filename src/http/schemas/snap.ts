@@ -30,8 +30,8 @@ const ROLE_PATTERN = '^[a-z][A-Za-z0-9]{0,31}$';
 
 export const ValueSources = Type.Object(
   {
-    resistor: Type.Optional(ref(ValueSource, 'Source for every resistor role without its own entry in `roles`; a resistor role left with no source is refused (400 at /values/resistor)')),
-    capacitor: Type.Optional(ref(ValueSource, 'Source for every capacitor role without its own entry in `roles`; a capacitor role left with no source is refused (400 at /values/capacitor)')),
+    resistor: Type.Optional(ref(ValueSource, 'Source for every resistor role without its own entry in `roles`. Absent: design uses E24 at 1 %; snap refuses a resistor role left with no source (400 at /values/resistor)')),
+    capacitor: Type.Optional(ref(ValueSource, 'Source for every capacitor role without its own entry in `roles`. Absent: design uses E12 at 5 % (C0G); snap refuses a capacitor role left with no source (400 at /values/capacitor)')),
     roles: Type.Optional(
       Type.Record(Type.String({ pattern: ROLE_PATTERN }), ref(ValueSource), { description: 'Per-role sources, overriding the per-kind ones (e.g. rTiming from a catalogue)' }),
     ),
