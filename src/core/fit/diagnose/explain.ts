@@ -20,6 +20,7 @@
  * When the leading hypotheses predict the measured figures alike, the
  * diagnosis says so and computes which further measurement separates them.
  */
+import { CoreError } from '../../errors.ts';
 import { defaultUncertainty, OBSERVABLES, type ObservableName } from '../estimate/measurements.ts';
 import { describeEstimate, type ParameterEstimate } from '../estimate/estimate.ts';
 import type { PredictedFigures } from '../estimate/forward.ts';
@@ -257,7 +258,16 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
     for (const s of scored) if (!s.passes) s.logEvidence = Math.min(s.logEvidence, floor);
   }
   scored.sort((a, b) => b.logEvidence - a.logEvidence);
-  const nominal = scored.find((s) => s.h.kind === 'nominal')!;
+  const nominal = scored.find((s) => s.h.kind === 'nominal');
+  if (!nominal) {
+    // The nominal circuit could not even be weighed: a measured figure so far from any oscillator this
+    // circuit can be (e.g. a frequency of 1e-300 Hz) that its normalised residual overflows.
+    throw new CoreError(
+      'invalid-value',
+      'The measurements are too far from the circuit to be weighed (the nominal χ² is not finite): check the measured figures and their units',
+      '/measurements',
+    );
+  }
   const faults = scored.filter((s) => s.h.kind !== 'nominal').slice(0, maxExplanations);
   const listed = [nominal, ...faults];
   const top = Math.max(...listed.map((s) => s.logEvidence));
