@@ -100,30 +100,54 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         return evaluate(p);
       }),
     );
+    // The four ascents revisit corners (each other's starts and neighbours): a corner is evaluated once, keyed
+    // by its bits (bit k set: dimension k at its high end). The model is deterministic, so a remembered
+    // result is the result; it was offered to every objective when first evaluated.
+    // (Bits are exact integers up to 2^53: beyond 52 dimensions nothing is remembered.)
+    const visited = new Map<number, { frequencyHz: number; dutyCycle: number } | undefined>();
+    const remember = n <= 52;
+    const evaluateCorner = (p: Float64Array, bits: number) => {
+      if (!remember) {
+        const fresh = evaluate(p);
+        if (fresh) offer(p, fresh);
+        return fresh;
+      }
+      if (visited.has(bits)) return visited.get(bits);
+      const r = evaluate(p);
+      visited.set(bits, r);
+      if (r) offer(p, r);
+      return r;
+    };
+    const bitOf = (k: number) => 2 ** k;
     for (const o of OBJECTIVES) {
+      let bits = 0;
       const start = corner((k) => {
         const [lo, hi] = ends[k];
-        if (!lo || !hi) return hi !== undefined;
-        return score(o, hi.frequencyHz, hi.dutyCycle) >= score(o, lo.frequencyHz, lo.dutyCycle);
+        const high = !lo || !hi ? hi !== undefined : score(o, hi.frequencyHz, hi.dutyCycle) >= score(o, lo.frequencyHz, lo.dutyCycle);
+        if (high) bits += bitOf(k);
+        return high;
       });
-      let current = evaluate(start);
-      if (current) offer(start, current);
+      let current = evaluateCorner(start, bits);
       let point = start;
       const better = (r: { frequencyHz: number; dutyCycle: number } | undefined) =>
         r !== undefined && current !== undefined && score(o, r.frequencyHz, r.dutyCycle) > score(o, current.frequencyHz, current.dutyCycle);
       const flip = (p: Float64Array, k: number) => {
         p[k] = p[k] === dims[k].high ? dims[k].low : dims[k].high;
       };
+      const flipBit = (b: number, k: number) => (Math.floor(b / bitOf(k)) % 2 === 1 ? b - bitOf(k) : b + bitOf(k));
       /** Evaluate the point with coordinates k (and l) flipped; move there when it improves the objective. */
       const tryFlips = (k: number, l?: number): boolean => {
+        let candidateBits = flipBit(bits, k);
+        if (l !== undefined) candidateBits = flipBit(candidateBits, l);
+        if (remember && visited.has(candidateBits) && !better(visited.get(candidateBits))) return false;
         const candidate = Float64Array.from(point);
         flip(candidate, k);
         if (l !== undefined) flip(candidate, l);
-        const r = evaluate(candidate);
+        const r = evaluateCorner(candidate, candidateBits);
         if (!r) return false;
-        offer(candidate, r);
         if (!better(r)) return false;
         point = candidate;
+        bits = candidateBits;
         current = r;
         return true;
       };
