@@ -23,8 +23,7 @@ import { CLAMP, configKey, STAGE, type CompiledShape, type ParameterInfo } from 
 import { diodeBits } from './configs.ts';
 import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
 import { cycleLevels, pinCrossings, transitionDurations } from './figures.ts';
-import { Kinematics } from './kinematics.ts';
-import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
+import { exponentialExit } from './root-solve.ts';
 import { OscillatorWalk, saturationHighV, saturationLowV, SteadyStart, type SteadyCycle } from './walker.ts';
 
 /** Result status of one evaluation (0 = oscillates; the figures are then in the output). */
@@ -210,9 +209,6 @@ export class PreparedModel {
   }
 }
 
-const twoPiece = { kin: new Kinematics(), ends: new PieceEnds() };
-const twoPieceProbe = new AffineProbe(twoPiece.kin);
-
 /**
  * The walk's first steps when no piece but the two nominal ones can occur (no
  * amplifier effect, no event function in either configuration): from the
@@ -237,14 +233,13 @@ function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: Array
   const upperV = (high.hC + high.hS * sHigh) / -high.hV;
   const lowerV = (low.hC + low.hS * sLow) / -low.hV;
   if (!(upperV > lowerV)) return EVALUATION_STATUS.latched;
-  const { kin, ends } = twoPiece;
-  // High piece: h = hC + hV·v + hS·s must stay >= 0 (logic high); the low piece watches −h.
-  kin.set(high.a, high.b0 + high.bS * sHigh, 0, lowerV, sHigh, 0);
-  ends.fill(kin, Infinity);
-  const timeHighS = firstExit(twoPieceProbe, ends, high.hC, high.hV, high.hS, 0);
-  kin.set(low.a, low.b0 + low.bS * sLow, 0, upperV, sLow, 0);
-  ends.fill(kin, Infinity);
-  const timeLowS = firstExit(twoPieceProbe, ends, -low.hC, -low.hV, -low.hS, 0);
+  // High piece: h = hC + hV·v + hS·s must stay >= 0 (logic high); the low piece watches −h. Each is
+  // OscillatorWalk.step's threshold exit on a source at rest (root-solve.ts firstExit with no boundary
+  // tolerance, then its closed-form exponential exit), called here without the probe and piece ends.
+  const gHigh = high.hC + high.hV * lowerV + high.hS * sHigh;
+  const timeHighS = gHigh < 0 ? 0 : exponentialExit(high.a, high.b0 + high.bS * sHigh, lowerV, gHigh, high.hC + high.hS * sHigh, high.hV, Infinity);
+  const gLow = -low.hC + -low.hV * upperV + -low.hS * sLow;
+  const timeLowS = gLow < 0 ? 0 : exponentialExit(low.a, low.b0 + low.bS * sLow, upperV, gLow, -low.hC + -low.hS * sLow, -low.hV, Infinity);
   if (!(timeHighS > 0 && timeHighS < Infinity && timeLowS > 0 && timeLowS < Infinity)) return EVALUATION_STATUS.latched;
   const periodS = timeHighS + timeLowS;
   // The pin jumps at each decision and then moves monotonically (an exponential piece). The reference

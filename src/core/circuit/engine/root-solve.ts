@@ -157,7 +157,7 @@ function exitOfProbe(probe: AffineProbe, ends: PieceEnds): number {
   if (kin.r === 0) {
     // Source at rest: an exponential (closed form), or with a C(v) capacitor the exit at a known voltage.
     if (kin.nonlinear) return (kin as CapacitorKinematics).voltageExit(g0, c0 + cs * ends.s0, cv, T);
-    return exponentialExit(kin, g0, c0 + cs * ends.s0, cv, T);
+    return exponentialExit(kin.a, kin.k0, kin.v0, g0, c0 + cs * ends.s0, cv, T);
   }
 
   const gd0 = cv * ends.dv0 + cs * kin.r;
@@ -188,20 +188,24 @@ function exitOfProbe(probe: AffineProbe, ends: PieceEnds): number {
   return solveBracket(probe, tExt, T, gExt, gT);
 }
 
-/** g(t) = α + β·e^(−a·t) (or linear when a = 0): closed-form exit time. */
-function exponentialExit(kin: Kinematics, g0: number, constPart: number, cv: number, T: number): number {
-  const a = kin.a;
+/**
+ * Exit time of g = constPart + cv·v from g >= 0 in a plain exponential piece (dv/dt = k0 − a·v from v0;
+ * g0 = g at the start, already known not to be below the boundary tolerance):
+ * g(t) = α + β·e^(−a·t) (or linear when a = 0), closed form. Numbers in, a number out, so the
+ * prepared model's two-piece program (prepared.ts) calls it without a probe.
+ */
+export function exponentialExit(a: number, k0: number, v0: number, g0: number, constPart: number, cv: number, T: number): number {
   let t: number;
   if (a > 0) {
-    const vInf = kin.k0 / a;
+    const vInf = k0 / a;
     const alpha = constPart + cv * vInf;
-    const beta = cv * (kin.v0 - vInf);
+    const beta = cv * (v0 - vInf);
     if (!(beta > 0)) return Infinity; // rising or constant: never leaves
     if (g0 < 0) return 0;
     if (!(alpha < 0)) return Infinity; // settles inside the region
     t = Math.log(beta / -alpha) / a;
   } else {
-    const slope = cv * kin.k0;
+    const slope = cv * k0;
     if (!(slope < 0)) return Infinity;
     if (g0 < 0) return 0;
     t = g0 / -slope;
