@@ -19,8 +19,8 @@
 import { CoreError } from '../../errors.ts';
 import type { Circuit } from '../types.ts';
 import type { ModelEffect, ModelName } from '../result.ts';
-import { CLAMP, configKey, STAGE, type CompiledShape, type ParameterInfo } from './compiled-network.ts';
-import { diodeBits } from './configs.ts';
+import { CLAMP, configKey, NetworkCoefficients, STAGE, type CompiledShape, type ParameterInfo } from './compiled-network.ts';
+import { diodeBits, timingNodeStrayF } from './configs.ts';
 import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
 import { cycleLevels, pinCrossings, transitionDurations } from './figures.ts';
 import { exponentialExit } from './root-solve.ts';
@@ -191,7 +191,7 @@ export class PreparedModel {
     if (!this.valid(values)) return fail(out, EVALUATION_STATUS.invalidValue);
     const walk = sharedWalk;
     if (this.twoPiece) {
-      const status = twoPieceCycle(walk, this.shape, values, this.dynamics, this.wantTransitions, out);
+      const status = twoPieceCycle(this.shape, values, this.dynamics, this.wantTransitions, out);
       if (status === EVALUATION_STATUS.ok) return status;
       if (status !== undefined) return fail(out, status);
     }
@@ -209,6 +209,9 @@ export class PreparedModel {
   }
 }
 
+const twoPieceHigh = new NetworkCoefficients();
+const twoPieceLow = new NetworkCoefficients();
+
 /**
  * The walk's first steps when no piece but the two nominal ones can occur (no
  * amplifier effect, no event function in either configuration): from the
@@ -218,28 +221,43 @@ export class PreparedModel {
  * decisions and the state levels are the pin at each piece's end. Returns
  * undefined when the shape's pieces can end otherwise (the full walk answers).
  */
-function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, withTransitions: boolean, out: Float64Array): EvaluationStatus | undefined {
-  // Only the walk's configuration cache is needed here (walkToCycle resets the whole walk if it must answer).
-  const cache = walk.cache;
-  cache.reset(shape, values, dynamics, false);
-  const high = cache.tryGet(shape.nominalHighKey);
-  const low = shape.nominalLowKey === shape.nominalHighKey ? high : cache.tryGet(shape.nominalLowKey);
-  if (!high || !low) return EVALUATION_STATUS.noPath;
-  if (high.eventCount > 0 || low.eventCount > 0) return undefined;
+function twoPieceCycle(shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, withTransitions: boolean, out: Float64Array): EvaluationStatus | undefined {
+  // The two nominal configurations solved as the walk's ConfigCache would solve them (same arguments; the
+  // current sums are not needed), without its per-evaluation bookkeeping: only these two are ever entered.
+  const slot = shape.slot;
+  const capacitanceF = values[shape.layout.capacitorSlot] + timingNodeStrayF(shape, values);
+  const biasA = values[slot.bias];
+  const limitA = dynamics ? values[slot.limit] : Infinity;
+  const high = twoPieceHigh;
+  if (!shape.config(shape.nominalHighKey).solve(values, capacitanceF, biasA, limitA, high, false)) return EVALUATION_STATUS.noPath;
+  const low = shape.nominalLowKey === shape.nominalHighKey ? high : twoPieceLow;
+  if (low !== high && !shape.config(shape.nominalLowKey).solve(values, capacitanceF, biasA, limitA, low, false)) return EVALUATION_STATUS.noPath;
+  // ConfigCache.addEvents would give the pieces event functions (a steering diode, a finite input clamp or
+  // current limit): those can end a piece early, and the walk answers.
+  if (shape.diodeTerminals.length > 0) return undefined;
+  if (dynamics && (Number.isFinite(values[slot.clamp]) || Number.isFinite(limitA))) return undefined;
   // A vector that gives the amplifier a slew rate or a delay its nominal lacks needs the walk.
-  if (dynamics && (Number.isFinite(values[shape.slot.slew]) || values[shape.slot.delay] > 0)) return undefined;
+  if (dynamics && (Number.isFinite(values[slot.slew]) || values[slot.delay] > 0)) return undefined;
+  // The threshold function h = P + offset − v (ConfigCache.tryGet's hC, hV, hS).
+  const offsetV = values[slot.offset];
+  const highHC = high.pC + offsetV;
+  const highHV = high.pV - 1;
+  const highHS = high.pS;
+  const lowHC = low.pC + offsetV;
+  const lowHV = low.pV - 1;
+  const lowHS = low.pS;
   const sHigh = shape.openDrain ? 0 : saturationHighV(shape, values);
   const sLow = saturationLowV(shape, values);
-  const upperV = (high.hC + high.hS * sHigh) / -high.hV;
-  const lowerV = (low.hC + low.hS * sLow) / -low.hV;
+  const upperV = (highHC + highHS * sHigh) / -highHV;
+  const lowerV = (lowHC + lowHS * sLow) / -lowHV;
   if (!(upperV > lowerV)) return EVALUATION_STATUS.latched;
   // High piece: h = hC + hV·v + hS·s must stay >= 0 (logic high); the low piece watches −h. Each is
   // OscillatorWalk.step's threshold exit on a source at rest (root-solve.ts firstExit with no boundary
   // tolerance, then its closed-form exponential exit), called here without the probe and piece ends.
-  const gHigh = high.hC + high.hV * lowerV + high.hS * sHigh;
-  const timeHighS = gHigh < 0 ? 0 : exponentialExit(high.a, high.b0 + high.bS * sHigh, lowerV, gHigh, high.hC + high.hS * sHigh, high.hV, Infinity);
-  const gLow = -low.hC + -low.hV * upperV + -low.hS * sLow;
-  const timeLowS = gLow < 0 ? 0 : exponentialExit(low.a, low.b0 + low.bS * sLow, upperV, gLow, -low.hC + -low.hS * sLow, -low.hV, Infinity);
+  const gHigh = highHC + highHV * lowerV + highHS * sHigh;
+  const timeHighS = gHigh < 0 ? 0 : exponentialExit(high.a, high.b0 + high.bS * sHigh, lowerV, gHigh, highHC + highHS * sHigh, highHV, Infinity);
+  const gLow = -lowHC + -lowHV * upperV + -lowHS * sLow;
+  const timeLowS = gLow < 0 ? 0 : exponentialExit(low.a, low.b0 + low.bS * sLow, upperV, gLow, -lowHC + -lowHS * sLow, -lowHV, Infinity);
   if (!(timeHighS > 0 && timeHighS < Infinity && timeLowS > 0 && timeLowS < Infinity)) return EVALUATION_STATUS.latched;
   const periodS = timeHighS + timeLowS;
   // The pin jumps at each decision and then moves monotonically (an exponential piece). The reference
@@ -274,7 +292,7 @@ function twoPieceCycle(walk: OscillatorWalk, shape: CompiledShape, values: Array
  */
 export function evaluateOnce(shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, out: Float64Array): EvaluationStatus {
   const walk = sharedWalk;
-  const status = twoPieceCycle(walk, shape, values, dynamics, false, out);
+  const status = twoPieceCycle(shape, values, dynamics, false, out);
   if (status === EVALUATION_STATUS.ok) return status;
   if (status !== undefined) return fail(out, status);
   try {
