@@ -16,13 +16,27 @@
  * Boards are shared out over worker threads (one per core); each thread
  * builds the same board list from the seed and takes every W-th board.
  * TICKWRIGHT_DIAGNOSIS_SCALE (default 1) scales the number of boards.
+ * Slices (the full run takes minutes on a shared machine):
+ * - TICKWRIGHT_DIAGNOSIS_FILTER: a regular expression on "topology fault"
+ *   (e.g. "open-drain", "other dielectric", "open-drain.*cTiming"); boards that
+ *   do not match are left out;
+ * - TICKWRIGHT_DIAGNOSIS_CHANNELS: channel sets, comma-separated (e.g. "both,capacitor");
+ * - TICKWRIGHT_DIAGNOSIS_SEED: another board list (default the bench's seed);
+ * - TICKWRIGHT_DIAGNOSIS_THREADS: worker threads (default one per core, at most 8).
+ * The slice is printed on the first line, so a table is never read as the full run's.
  */
 import { availableParallelism } from 'node:os';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
 import { fitCircuit } from '../src/core/fit/index.ts';
 import { allBoards, boardRecord, captureOf, CHANNEL_SETS, score, type Board, type ChannelSet } from '../test/core/fit/diagnosis-boards.ts';
 
-const SEED = 20261202;
+const SEED = Number(process.env.TICKWRIGHT_DIAGNOSIS_SEED ?? 20261202);
+const FILTER = process.env.TICKWRIGHT_DIAGNOSIS_FILTER ? new RegExp(process.env.TICKWRIGHT_DIAGNOSIS_FILTER) : undefined;
+const CHANNELS: readonly ChannelSet[] = process.env.TICKWRIGHT_DIAGNOSIS_CHANNELS
+  ? CHANNEL_SETS.filter((c) => process.env.TICKWRIGHT_DIAGNOSIS_CHANNELS!.split(',').map((s) => s.trim()).includes(c))
+  : CHANNEL_SETS;
+/** The boards of this run: the whole list, or the slice the filter names (indices kept, so seeds stay per board). */
+const selected = (boards: Board[]) => boards.map((b, k) => ({ b, k })).filter(({ b }) => !FILTER || FILTER.test(`${b.topology} ${b.fault}`));
 const SCALE = Number(process.env.TICKWRIGHT_DIAGNOSIS_SCALE ?? 1);
 /** 13 deviations per role: ≥ 300 faulty boards over the registered topologies (with the wrong parts and swaps). */
 const OPTIONS = { deviationsPerRole: Math.max(1, Math.round(13 * SCALE)), wrongParts: true, inTolerance: Math.max(1, Math.round(10 * SCALE)) };
@@ -53,7 +67,7 @@ function runBoard(board: Board, k: number): BoardResult {
   const referenceMs = performance.now() - t0;
   if (!record) return { records: [], referenceMs, oscillates: false };
   const records: RecordResult[] = [];
-  for (const channels of CHANNEL_SETS) {
+  for (const channels of CHANNELS) {
     const capture = captureOf(board, record, channels, 7919 * k + channels.length);
     const base = { topology: board.topology, channels, fault: board.fault, faulty: board.faultRoles.length > 0 };
     const t1 = performance.now();
@@ -73,14 +87,16 @@ function runBoard(board: Board, k: number): BoardResult {
 
 if (!isMainThread) {
   const { index, count } = workerData as { index: number; count: number };
-  const boards = allBoards(SEED, OPTIONS);
+  const boards = selected(allBoards(SEED, OPTIONS));
   const results: BoardResult[] = [];
-  for (let k = index; k < boards.length; k += count) results.push(runBoard(boards[k], k));
+  for (let i = index; i < boards.length; i += count) results.push(runBoard(boards[i].b, boards[i].k));
   parentPort!.postMessage(results);
 } else {
-  const boards = allBoards(SEED, OPTIONS);
-  const threads = Math.max(1, Math.min(availableParallelism(), 8));
+  const boards = selected(allBoards(SEED, OPTIONS)).map(({ b }) => b);
+  const threads = Math.max(1, Math.min(Number(process.env.TICKWRIGHT_DIAGNOSIS_THREADS ?? availableParallelism()), 8));
   const faultyBoards = boards.filter((b) => b.faultRoles.length > 0).length;
+  const slice = [FILTER ? `filter /${FILTER.source}/` : '', CHANNELS.length < CHANNEL_SETS.length ? `channels ${CHANNELS.join(',')}` : '', process.env.TICKWRIGHT_DIAGNOSIS_SEED ? `seed ${SEED}` : ''].filter(Boolean);
+  console.log(slice.length > 0 ? `SLICE: ${slice.join('; ')}` : 'full run');
   process.stderr.write(`${boards.length} boards (${faultyBoards} faulty) over ${threads} worker threads\n`);
   const started = performance.now();
   // Each thread registers tsx itself (as src/http/workers/source-entry.mjs does), then loads this file.
@@ -180,6 +196,6 @@ if (!isMainThread) {
     `time: ${perFit.toFixed(0)} ms per record for capture analysis + fit + diagnosis, beside ${perReference.toFixed(0)} ms per board for the reference integration ` +
       `that made it (ratio ${(perFit / perReference).toFixed(2)}); wall ${wallS.toFixed(0)} s on ${threads} threads`,
   );
-  console.log(`misses and top-3-only finds (first 40 of ${misses.length}):`);
-  for (const m of misses.slice(0, 40)) console.log(`  ${m}`);
+  console.log(`misses and top-3-only finds (first 80 of ${misses.length}):`);
+  for (const m of misses.slice(0, 80)) console.log(`  ${m}`);
 }

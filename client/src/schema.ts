@@ -3106,10 +3106,10 @@ export interface components {
         };
         /** @description What the measurements say about one effective parameter */
         ParameterEstimate: {
-            /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA) or supplyScale */
+            /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA), supplyScale, or a stray at the timing node that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm; diagnosis causes only) */
             parameter: string;
-            /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails */
-            kind: "part" | "amplifier" | "supply";
+            /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails; stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N beyond what circuit.strays declares (diagnosis causes only) */
+            kind: "part" | "amplifier" | "supply" | "stray";
             /** @description Unit of nominal, estimate, the standard deviations and shift ("1": dimensionless) */
             unit: "ohm" | "F" | "V" | "V/s" | "s" | "A" | "1";
             /** @description Nominal value (null: no limit, e.g. an instant slew rate) */
@@ -3122,7 +3122,7 @@ export interface components {
             priorStandardDeviation: number | null;
             /** @description Part tolerance, fraction */
             tolerance?: number;
-            /** @description estimate − nominal (slew rate: in its reciprocal, s/V) */
+            /** @description estimate − nominal (slew rate: in its reciprocal, s/V; a leakage where none is declared: its conductance, S) */
             shift: number;
             /** @description estimate/nominal − 1 (parts) */
             relativeShift?: number;
@@ -3135,14 +3135,14 @@ export interface components {
         FitExplanation: {
             /** @description Position in the ranking, 1 = most plausible */
             rank: number;
-            /** @description Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom */
+            /** @description Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom, stray:timingNodeF */
             hypothesis: string;
             /** @description The one or two effects this explanation blames */
             causes: {
-                /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA) or supplyScale */
+                /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA), supplyScale, or a stray at the timing node that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm; diagnosis causes only) */
                 parameter: string;
-                /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails */
-                kind: "part" | "amplifier" | "supply";
+                /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails; stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N beyond what circuit.strays declares (diagnosis causes only) */
+                kind: "part" | "amplifier" | "supply" | "stray";
                 /** @description Unit of nominal, estimate, the standard deviations and shift ("1": dimensionless) */
                 unit: "ohm" | "F" | "V" | "V/s" | "s" | "A" | "1";
                 /** @description Nominal value (null: no limit, e.g. an instant slew rate) */
@@ -3155,7 +3155,7 @@ export interface components {
                 priorStandardDeviation: number | null;
                 /** @description Part tolerance, fraction */
                 tolerance?: number;
-                /** @description estimate − nominal (slew rate: in its reciprocal, s/V) */
+                /** @description estimate − nominal (slew rate: in its reciprocal, s/V; a leakage where none is declared: its conductance, S) */
                 shift: number;
                 /** @description estimate/nominal − 1 (parts) */
                 relativeShift?: number;
@@ -3165,8 +3165,8 @@ export interface components {
                 posteriorToPriorSd: number;
                 /** @description The fitted shift stays inside the part's tolerance (or the 3σ prior spread of an amplifier effect) */
                 withinTolerance: boolean;
-                /** @description off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, or a timing capacitor of another dielectric class (a class II ceramic with its class-typical DC-bias C(V) in place of a flat part, or the reverse; its marked value within a class II tolerance) */
-                fault: "off" | "neighbouring-value" | "decade-slip" | "swapped" | "other-dielectric";
+                /** @description off: the effect departs from nominal (fitted within its physical range); stray: a capacitance or leakage at the timing node N that the circuit does not declare (fitted within its window); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, or a timing capacitor of another dielectric class (a class II ceramic with its class-typical DC-bias C(V) in place of a flat part, or the reverse; its marked value within a class II tolerance) */
+                fault: "off" | "neighbouring-value" | "decade-slip" | "swapped" | "other-dielectric" | "stray";
                 /** @description e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance" */
                 text: string;
             }[];

@@ -1606,7 +1606,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "toleranceChiSquare": 5.691431677861721,
           "measurementCount": 5,
           "chiSquareBound95": 11.043946211607775,
-          "nominalScore": 0.7979881522387727,
+          "nominalScore": 0.7976066053280813,
           "statement": "The measurements agree with the nominal circuit within its tolerances (χ² 5.69 for 5 measurements, 95 % bound 11.0)."
         },
         "explanations": [
@@ -1632,7 +1632,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "relativeShift": 0.08150806098463037
               }
             ],
-            "score": 0.048119951555804064,
+            "score": 0.04809694367178068,
             "logEvidence": -11.173635761456051,
             "residualChiSquare": 0.5506727846219915,
             "measurementCount": 5,
@@ -1699,7 +1699,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "relativeShift": 0.07670427133546309
               }
             ],
-            "score": 0.04537130605437621,
+            "score": 0.04534961239688203,
             "logEvidence": -11.232452765823629,
             "residualChiSquare": 0.5362443032579898,
             "measurementCount": 5,
@@ -1764,7 +1764,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "input bias current 1 pA -> 2.84 pA, inside its class-typical spread"
               }
             ],
-            "score": 0.022798583909003297,
+            "score": 0.022787683083929373,
             "logEvidence": -11.92063422104749,
             "residualChiSquare": 5.691431599166274,
             "measurementCount": 5,
@@ -1829,7 +1829,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread"
               }
             ],
-            "score": 0.022409068939772566,
+            "score": 0.02239835435585117,
             "logEvidence": -11.93786690551615,
             "residualChiSquare": 5.691241514447325,
             "measurementCount": 5,
@@ -1894,7 +1894,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output high level 2.48 V -> 2.484 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016365515894660024,
+            "score": 0.016357690951377395,
             "logEvidence": -12.252156214099651,
             "residualChiSquare": 5.646796808589731,
             "measurementCount": 5,
@@ -1959,7 +1959,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "input offset 1 mV -> 448.3 µV, inside its class-typical spread"
               }
             ],
-            "score": 0.016335521086246002,
+            "score": 0.016327710484562875,
             "logEvidence": -12.253990701296093,
             "residualChiSquare": 5.6699331649019635,
             "measurementCount": 5,
@@ -2024,7 +2024,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output low level -2.48 V -> -2.483 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016327827673643398,
+            "score": 0.016320020750458256,
             "logEvidence": -12.254461774412412,
             "residualChiSquare": 5.662114529084074,
             "measurementCount": 5,
@@ -2071,27 +2071,27 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           },
           {
             "rank": 8,
-            "hypothesis": "off:recoveryDelayS",
+            "hypothesis": "stray:timingNodeF",
             "causes": [
               {
-                "parameter": "recoveryDelayS",
-                "kind": "amplifier",
-                "unit": "s",
-                "nominal": 3e-7,
-                "estimate": 5.022508186304408e-7,
-                "standardDeviation": 2.786177008578186e-7,
-                "priorStandardDeviation": 1.44e-7,
-                "shift": 2.0225081863044086e-7,
-                "shiftInTolerances": 0.3888289284932368,
-                "posteriorToPriorSd": 1.3899740086242285,
-                "withinTolerance": true,
-                "fault": "off",
-                "text": "recovery delay 300 ns -> 502.3 ns, inside its class-typical spread"
+                "parameter": "strayTimingNodeF",
+                "kind": "stray",
+                "unit": "F",
+                "nominal": 0,
+                "estimate": 1.0583752333589727e-10,
+                "standardDeviation": 1.0005300975122808e-10,
+                "priorStandardDeviation": 1.6244296674544185e-11,
+                "shift": 1.0583752333589727e-10,
+                "shiftInTolerances": 0.41725526795567147,
+                "posteriorToPriorSd": 0.7931573327212075,
+                "withinTolerance": false,
+                "fault": "stray",
+                "text": "a capacitance of 106 pF at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node)"
               }
             ],
-            "score": 0.014284072647722112,
-            "logEvidence": -12.388187530154653,
-            "residualChiSquare": 5.1496354753133184,
+            "score": 0.014755378977077164,
+            "logEvidence": -12.355246702702164,
+            "residualChiSquare": 3.144071830612856,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -2099,44 +2099,44 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 10023.808080602057,
+                "predicted": 9867.778030610712,
                 "uncertainty": 5,
-                "normalized": 142.76161612041142
+                "normalized": 111.55560612214249
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002146271166724,
+                "predicted": 0.5002150427514181,
                 "uncertainty": 0.002,
-                "normalized": 0.10731355833620837
+                "normalized": 0.10752137570907427
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7882606433236237,
+                "predicted": 0.7835223909545723,
                 "uncertainty": 0.01,
-                "normalized": -0.1739356676376369
+                "normalized": -0.6477609045427712
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.786278555698073,
+                "predicted": -0.7815346915950382,
                 "uncertainty": 0.01,
-                "normalized": 0.37214443019270016
+                "normalized": 0.8465308404961847
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007531740827478591,
+                "predicted": 0.00007701345252071364,
                 "uncertainty": 8e-7,
-                "normalized": -7.478239656517609
+                "normalized": -5.358184349107948
               }
             ],
-            "summary": "recovery delay 300 ns -> 502.3 ns, inside its class-typical spread: accounts for the measurements (χ² 5.15 for 5, other parts within their tolerances)"
+            "summary": "a capacitance of 106 pF at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node): accounts for the measurements (χ² 3.14 for 5, other parts within their tolerances)"
           }
         ],
         "ambiguities": [],
-        "candidateCount": 35,
+        "candidateCount": 37,
         "warnings": []
       }
     }

@@ -152,10 +152,14 @@ const MeasurementReport = Type.Object(
 
 const EstimateProperties = {
   parameter: Type.String({
-    description: 'Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA) or supplyScale',
+    description:
+      'Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA), supplyScale, ' +
+      'or a stray at the timing node that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm; diagnosis causes only)',
   }),
-  kind: Type.Union([Type.Literal('part'), Type.Literal('amplifier'), Type.Literal('supply')], {
-    description: 'part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails',
+  kind: Type.Union([Type.Literal('part'), Type.Literal('amplifier'), Type.Literal('supply'), Type.Literal('stray')], {
+    description:
+      'part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails; ' +
+      'stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N beyond what circuit.strays declares (diagnosis causes only)',
   }),
   unit: Type.Union([Type.Literal('ohm'), Type.Literal('F'), Type.Literal('V'), Type.Literal('V/s'), Type.Literal('s'), Type.Literal('A'), Type.Literal('1')], {
     description: 'Unit of nominal, estimate, the standard deviations and shift ("1": dimensionless)',
@@ -165,7 +169,7 @@ const EstimateProperties = {
   standardDeviation: NumberOrNull('Posterior standard deviation, first order (null: unbounded)'),
   priorStandardDeviation: NumberOrNull('Prior standard deviation at nominal'),
   tolerance: Type.Optional(num('Part tolerance, fraction')),
-  shift: num('estimate − nominal (slew rate: in its reciprocal, s/V)'),
+  shift: num('estimate − nominal (slew rate: in its reciprocal, s/V; a leakage where none is declared: its conductance, S)'),
   relativeShift: Type.Optional(num('estimate/nominal − 1 (parts)')),
   shiftInTolerances: num('Shift over the tolerance (parts) or over the 3σ prior spread (amplifier effects)'),
   posteriorToPriorSd: num('Posterior over prior width; near 1: the data say nothing about this parameter'),
@@ -181,9 +185,10 @@ const Cause = Type.Object(
   {
     ...EstimateProperties,
     withinTolerance: Type.Boolean({ description: 'The fitted shift stays inside the part\'s tolerance (or the 3σ prior spread of an amplifier effect)' }),
-    fault: Type.Union([Type.Literal('off'), Type.Literal('neighbouring-value'), Type.Literal('decade-slip'), Type.Literal('swapped'), Type.Literal('other-dielectric')], {
+    fault: Type.Union([Type.Literal('off'), Type.Literal('neighbouring-value'), Type.Literal('decade-slip'), Type.Literal('swapped'), Type.Literal('other-dielectric'), Type.Literal('stray')], {
       description:
-        'off: the effect departs from nominal (fitted within its physical range); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, ' +
+        'off: the effect departs from nominal (fitted within its physical range); stray: a capacitance or leakage at the timing node N that the circuit does not declare (fitted within its window); ' +
+        'the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, ' +
         'or a timing capacitor of another dielectric class (a class II ceramic with its class-typical DC-bias C(V) in place of a flat part, or the reverse; its marked value within a class II tolerance)',
     }),
     text: Type.String({ description: 'e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance"' }),
@@ -194,7 +199,7 @@ const Cause = Type.Object(
 const Explanation = Type.Object(
   {
     rank: Type.Integer({ minimum: 1, description: 'Position in the ranking, 1 = most plausible' }),
-    hypothesis: Type.String({ description: 'Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom' }),
+    hypothesis: Type.String({ description: 'Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom, stray:timingNodeF' }),
     causes: Type.Array(Cause, { minItems: 1, maxItems: 2, description: 'The one or two effects this explanation blames' }),
     score: num('Posterior probability among the nominal circuit and the explanations listed (they sum to one with verdict.nominalScore)'),
     logEvidence: num('Laplace-approximated log evidence times prior'),

@@ -20,19 +20,22 @@
  * When the leading hypotheses predict the measured figures alike, the
  * diagnosis says so and computes which further measurement separates them.
  */
+import { findTopology } from '../../circuit/topologies/index.ts';
 import { CoreError } from '../../errors.ts';
 import { defaultUncertainty, OBSERVABLES, type ObservableName } from '../estimate/measurements.ts';
 import { describeEstimate, type ParameterEstimate } from '../estimate/estimate.ts';
 import type { PredictedFigures } from '../estimate/forward.ts';
 import { cholesky, choleskyLogDet } from '../estimate/linalg.ts';
-import { naturalSd, TOLERANCE_SIGMAS } from '../estimate/parameters.ts';
+import { naturalSd, naturalValue, TOLERANCE_SIGMAS } from '../estimate/parameters.ts';
 import { FLAT_SHAPE } from '../../parts/capacitor/dc-bias.ts';
-import { fitSubset, nominalChiSquare, type FitSetup } from '../estimate/setup.ts';
+import { solveMap } from '../estimate/map-lm.ts';
+import { FIT_SEARCH, fitSubset, nominalChiSquare, type CircuitVariant, type FitSetup } from '../estimate/setup.ts';
 import { chiSquareQuantile95, chiSquareQuantile999 } from './chi-square.ts';
 import { buildHypotheses, pairHypothesis, type Hypothesis, type WrongPartKind } from './hypotheses.ts';
 import { describeShift, formatNatural } from './wording.ts';
 
-export type FaultKind = 'off' | WrongPartKind;
+/** 'stray': a capacitance or leakage at a node that the circuit does not declare (stray-hypotheses.ts). */
+export type FaultKind = 'off' | WrongPartKind | 'stray';
 
 export interface Cause extends ParameterEstimate {
   /** |shift| within the tolerance band (parts) or the 3σ nuisance spread (others). */
@@ -137,6 +140,10 @@ const LN_GOF_CAP = Math.log(1000);
 interface Scored {
   h: Hypothesis;
   x: Float64Array;
+  /** The circuit variant the hypothesis was weighed on (a stray hypothesis: with its fitted stray). */
+  variant?: CircuitVariant;
+  /** A stray hypothesis' fitted value (fitted space of its parameter). */
+  strayX?: number;
   /** Posterior covariance of the active parameters (fitted space). */
   covariance: Float64Array;
   chiSquare: number;
@@ -209,6 +216,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   const all = whitener(columns, m, []);
 
   const score = (h: Hypothesis): Scored | undefined => {
+    if (h.kind === 'stray') return scoreStray(setup, h, all, m);
     if (h.kind !== 'off' && h.active.length === 0) {
       let r: Float64Array;
       try {
@@ -221,14 +229,14 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
       const w = widened ? whitener(columns.map((c, j) => (widened[j] === undefined ? c : c.map((v) => (v * widened[j]) / params[j].priorSd))), m, []) : all;
       const chi = sumSq(w.whiten(r));
       if (!Number.isFinite(chi)) return undefined;
-      return { h, x: setup.nominalX, covariance: new Float64Array(0), chiSquare: chi, logEvidence: h.logPrior - 0.5 * chi - 0.5 * w.logDet, passes: chi <= chiSquareQuantile999(m) };
+      return { h, x: setup.nominalX, ...(h.variant ? { variant: h.variant } : {}), covariance: new Float64Array(0), chiSquare: chi, logEvidence: h.logPrior - 0.5 * chi - 0.5 * w.logDet, passes: chi <= chiSquareQuantile999(m) };
     }
     const w = whitener(columns, m, h.active);
     try {
       const fit = fitSubset(setup, h.active, { priorSd: h.active.map((j) => params[j].offSd), transform: w.whiten, maxIterations: 30, ...(h.variant ? { variant: h.variant } : {}) });
       const s = fit.solution;
       const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
-      return { h, x: fit.x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - h.active.length)) };
+      return { h, x: fit.x, ...(h.variant ? { variant: h.variant } : {}), covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - h.active.length)) };
     } catch {
       return undefined;
     }
@@ -275,7 +283,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   const posterior = (s: Scored) => Math.exp(s.logEvidence - top) / total;
 
   const bound95 = chiSquareQuantile95(m);
-  const figuresOf = (s: Scored) => setup.figuresAt(s.x, s.h.variant);
+  const figuresOf = (s: Scored) => setup.figuresAt(s.x, s.variant);
   const figureCache = new Map<Scored, PredictedFigures>();
   const figs = (s: Scored) => {
     let f = figureCache.get(s);
@@ -312,7 +320,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   if (contenders.length > 0) {
     // Distance of two hypotheses' predictions on the measured figures, in σ, the in-tolerance
     // spread of the other effects allowed for (whitened by the same covariance as the evidence).
-    const residualsOf = (s: Scored) => setup.residualsAt(s.x, s.h.variant);
+    const residualsOf = (s: Scored) => setup.residualsAt(s.x, s.variant);
     const rl = residualsOf(leader);
     const alike: { s: Scored; sep: number }[] = [];
     for (const c of contenders) {
@@ -324,12 +332,25 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
       const names = [leader, ...alike.map((a) => a.s)].map((s) => s.h.id);
       const best = separatingMeasurement(setup, leader, alike[0].s, figs);
       const label = (s: Scored) => (s.h.kind === 'nominal' ? 'nothing off' : causesOf(setup, s).map((c) => c.parameter + (c.fault === 'off' ? '' : ` (${c.fault})`)).join(' + '));
+      const group = [leader, ...alike.map((a) => a.s)];
       const statement =
         `The measured figures cannot tell ${label(leader)} from ${alike.map((a) => label(a.s)).join(', ')} (their predictions differ by at most ${Math.max(...alike.map((a) => a.sep)).toPrecision(2)} σ).` +
-        (best ? ` To separate them: ${best.action} — ${best.predictions.map((p) => `${p.hypothesis} predicts ${formatFigure(best.figure, p.value)}`).join(', ')} (${best.separationSigma.toPrecision(2)} σ apart).` : '');
+        whyAlike(setup, group) +
+        (best ? ` To separate them: ${separationWords(best)}.` : '');
       const amb: Ambiguity = { hypotheses: names, measuredSeparationSigma: Math.max(...alike.map((a) => a.sep)), statement };
       if (best) amb.separatingMeasurement = best;
       ambiguities.push(amb);
+      // A stray at N among them: the experiment that tells it from the timing capacitor, as an ambiguity of its own.
+      const strayAtN = group.find((s) => s.h.stray?.field === 'timingNodeF');
+      const capacitor = group.find((s) => s !== strayAtN && blames(setup, s, capacitorRoleOf(setup)));
+      if (strayAtN && capacitor && !(best && [leader, alike[0].s].includes(strayAtN) && [leader, alike[0].s].includes(capacitor))) {
+        const pair = separatingMeasurement(setup, capacitor, strayAtN, figs);
+        const sep = Math.sqrt(sumSq(all.whiten(Float64Array.from(residualsOf(capacitor), (v, i) => v - residualsOf(strayAtN)[i]))));
+        const words = `The measured figures cannot tell ${label(capacitor)} from ${label(strayAtN)}.${whyAlike(setup, [capacitor, strayAtN])}${pair ? ` To separate them: ${separationWords(pair)}.` : ''}`;
+        const extra: Ambiguity = { hypotheses: [capacitor.h.id, strayAtN.h.id], measuredSeparationSigma: sep, statement: words };
+        if (pair) extra.separatingMeasurement = pair;
+        ambiguities.push(extra);
+      }
     }
   }
 
@@ -373,6 +394,17 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
 
 function causesOf(setup: FitSetup, s: Scored): Cause[] {
   const params = setup.parameters;
+  if (s.h.kind === 'stray') {
+    const stray = s.h.stray!;
+    const p = stray.parameter;
+    const e = describeEstimate(p, s.strayX!, Math.sqrt(Math.max(0, s.covariance[0])));
+    const found = e.estimate;
+    // The estimate is the node's whole figure: what the circuit declares with the stray found added (a leakage in parallel).
+    e.estimate = stray.strays(setup.circuit, found)[stray.field];
+    // A leakage's nominal is no leakage (an infinite resistance): its shift is in conductance, as a slew rate's is in its reciprocal.
+    e.shift = Number.isFinite(e.nominal) ? e.estimate - e.nominal : 1 / e.estimate;
+    return [{ ...e, withinTolerance: false, fault: 'stray', text: stray.words(found) }];
+  }
   if (s.h.kind === 'wrong-part') {
     const wp = s.h.wrongPart!;
     return wp.roles.map((role) => {
@@ -398,6 +430,39 @@ function causesOf(setup: FitSetup, s: Scored): Cause[] {
     const e = describeEstimate(p, s.x[j], Math.sqrt(Math.max(0, s.covariance[i * k + i])));
     return { ...e, withinTolerance: Math.abs(e.shiftInTolerances) <= 1, fault: 'off' as const, text: describeShift(e, p.label) };
   });
+}
+
+/** The topology's timing capacitor role. */
+function capacitorRoleOf(setup: FitSetup): string {
+  return findTopology(setup.circuit.topology)!.capacitorRole;
+}
+
+/** Whether a hypothesis blames a role (off, or a wrong part in it). */
+function blames(setup: FitSetup, s: Scored, role: string): boolean {
+  return (s.h.kind === 'off' && s.h.active.some((j) => setup.parameters[j].name === role)) || (s.h.wrongPart?.roles.includes(role) ?? false);
+}
+
+/**
+ * Why alike, when the physics says so (not only the numbers): a capacitance at N
+ * parallels the timing capacitor; a timing resistor and the capacitor meet
+ * only as their product in every charging time constant.
+ */
+function whyAlike(setup: FitSetup, group: readonly Scored[]): string {
+  const topology = findTopology(setup.circuit.topology)!;
+  const cap = topology.capacitorRole;
+  const timingResistors = Object.entries(topology.roles).filter(([, r]) => r.kind === 'resistor' && r.purpose === 'timing').map(([name]) => name);
+  const out: string[] = [];
+  const hasCap = group.some((s) => blames(setup, s, cap));
+  if (hasCap && group.some((s) => s.h.stray?.field === 'timingNodeF')) {
+    out.push(`A capacitance at the timing node N is in parallel with ${cap}: no timing or waveform figure tells it from a larger ${cap}`);
+  }
+  const resistor = timingResistors.find((r) => group.some((s) => blames(setup, s, r)));
+  if (hasCap && resistor) out.push(`The timing follows the product ${resistor}·${cap} only: the waveform fixes the product, not the two values`);
+  return out.length > 0 ? ` ${out.join('. ')}.` : '';
+}
+
+function separationWords(best: SeparatingMeasurement): string {
+  return `${best.action} — ${best.predictions.map((p) => `${p.hypothesis} predicts ${formatFigure(best.figure, p.value)}`).join(', ')} (${best.separationSigma.toPrecision(2)} σ apart)`;
 }
 
 const PROBE_FIGURES: Record<string, string> = {
@@ -451,8 +516,9 @@ function separatingMeasurement(setup: FitSetup, a: Scored, b: Scored, figs: (s: 
         const x = Float64Array.from(s.x);
         const j = setup.parameters.indexOf(p);
         x[j] = 0;
-        const shape = isCapacitor ? (setup.circuit.capacitorShape ?? FLAT_SHAPE) : s.h.variant?.capacitorShape;
-        return setup.figuresAt(x, { parts: { ...s.h.variant?.parts, ...known }, ...(shape ? { capacitorShape: shape } : {}) }).frequencyHz;
+        const shape = isCapacitor ? (setup.circuit.capacitorShape ?? FLAT_SHAPE) : s.variant?.capacitorShape;
+        // A stray stays where it is: the swap changes the part, not the board around it.
+        return setup.figuresAt(x, { parts: { ...s.variant?.parts, ...known }, ...(shape ? { capacitorShape: shape } : {}), ...(s.variant?.strays ? { strays: s.variant.strays } : {}) }).frequencyHz;
       };
       const va = at(a);
       const vb = at(b);
@@ -473,3 +539,41 @@ function separatingMeasurement(setup: FitSetup, a: Scored, b: Scored, figs: (s: 
   return best.separationSigma >= SEPARABLE_SIGMA ? best : undefined;
 }
 
+
+/** Starting points tried across a stray's window (fitted space) before the search: its response is far from linear there. */
+const STRAY_STARTS = [-3, -1.5, 0, 1.5, 3];
+
+/**
+ * A stray hypothesis: its one scalar fitted by MAP within its window (log-logit
+ * space, the `off`-like prior of stray-hypotheses.ts), every other effect
+ * marginalised within its tolerance like any single cause; evidence by the
+ * same Laplace formula.
+ */
+function scoreStray(setup: FitSetup, h: Hypothesis, all: { whiten: (r: Float64Array) => Float64Array; logDet: number }, m: number): Scored | undefined {
+  const stray = h.stray!;
+  const p = stray.parameter;
+  const variantAt = (x: number): CircuitVariant => ({ strays: stray.strays(setup.circuit, naturalValue(p, x)) });
+  const residuals = (xs: Float64Array) => all.whiten(setup.residualsAt(setup.nominalX, variantAt(xs[0])));
+  let start = p.priorMean;
+  let best = Infinity;
+  for (const x0 of STRAY_STARTS) {
+    try {
+      const cost = sumSq(residuals(Float64Array.of(x0))) + ((x0 - p.priorMean) / p.priorSd) ** 2;
+      if (cost < best) {
+        best = cost;
+        start = x0;
+      }
+    } catch {
+      // this amount stops the oscillation: not a start
+    }
+  }
+  if (!Number.isFinite(best)) return undefined;
+  try {
+    const s = solveMap({ size: 1, priorMean: [p.priorMean], priorSd: [p.priorSd], residuals, start: [start] }, { ...FIT_SEARCH, maxIterations: 30 });
+    const x = s.x[0];
+    const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * all.logDet;
+    return { h, x: setup.nominalX, variant: variantAt(x), strayX: x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - 1)) };
+  } catch {
+    return undefined;
+  }
+}

@@ -13,6 +13,12 @@
  *   part that derates more or less than the one declared. Its marked value is
  *   a nuisance within a class II tolerance (one evaluation per curve: a C(V)
  *   walk costs far more than a linear one).
+ * - `stray`: a capacitance or a leakage at the timing node N that the circuit
+ *   does not declare, fitted within a physical window (stray-hypotheses.ts).
+ * DC-bias derating of the timing capacitor is weighed through the dielectric:
+ * a declared class II part already derates in the nominal model (its C(V)), and
+ * `other-dielectric` covers a part that derates more or less than declared, a
+ * class II part where a flat one was designed, and the reverse.
  * Prior probabilities, our assumptions (orders of magnitude from assembly
  * practice, not measured): a given effect off 2 %; a specific wrong part 0.2 %
  * (shared among the class-typical curves of a dielectric swap); nothing off is
@@ -25,8 +31,9 @@ import { parseDielectric } from '../../parts/dielectric.ts';
 import { isInSeries, nearestInSeries, type SeriesName } from '../../parts/series.ts';
 import { TOLERANCE_SIGMAS, type FitParameter } from '../estimate/parameters.ts';
 import type { CircuitVariant } from '../estimate/setup.ts';
+import { PRIOR_STRAY, strayEffects, type StrayEffect } from './stray-hypotheses.ts';
 
-export type HypothesisKind = 'nominal' | 'off' | 'wrong-part';
+export type HypothesisKind = 'nominal' | 'off' | 'wrong-part' | 'stray';
 export type WrongPartKind = 'neighbouring-value' | 'decade-slip' | 'swapped' | 'other-dielectric';
 
 export interface Hypothesis {
@@ -43,6 +50,8 @@ export interface Hypothesis {
   /** What the hypothesis replaces in the circuit (wrong-part hypotheses): part values (natural units), the capacitor's C(V). */
   variant?: CircuitVariant;
   wrongPart?: { kind: WrongPartKind; roles: string[]; words: string };
+  /** The stray a `stray` hypothesis fits (one scalar in its window). */
+  stray?: StrayEffect;
   logPrior: number;
 }
 
@@ -182,6 +191,7 @@ export function buildHypotheses(circuit: Circuit, parameters: readonly FitParame
       });
     }
   }
+  for (const stray of strayEffects(circuit)) out.push({ id: `stray:${stray.field}`, kind: 'stray', active: [], stray, logPrior: Math.log(PRIOR_STRAY) });
   return out;
 }
 

@@ -29,7 +29,8 @@ import { getTopology } from '../../circuit/analyze.ts';
 import type { Circuit } from '../../circuit/types.ts';
 import { CoreError } from '../../errors.ts';
 
-export type ParameterKind = 'part' | 'amplifier' | 'supply';
+/** 'stray': only a stray hypothesis frees it (diagnose/stray-hypotheses.ts); never in the full estimate's vector. */
+export type ParameterKind = 'part' | 'amplifier' | 'supply' | 'stray';
 export type ParameterSpace = 'log' | 'logit' | 'log-logit';
 
 export interface FitParameter {

@@ -3,6 +3,7 @@
  * residual function, and fits any subset of the parameters (the others held
  * at nominal) — the full estimate and every hypothesis of the diagnosis use it.
  */
+import type { Strays } from '../../circuit/strays.ts';
 import type { Circuit } from '../../circuit/types.ts';
 import type { BiasShape } from '../../parts/capacitor/dc-bias.ts';
 import { CoreError } from '../../errors.ts';
@@ -14,11 +15,14 @@ import { buildParameters, circuitAt, nominalVector, type FitParameter } from './
 /**
  * What a hypothesis changes in the circuit besides the fitted parameters: parts
  * of other values (a wrong part), a timing capacitor of another C(V) (another
- * dielectric). Fitted parameters of a replaced part scale its new value.
+ * dielectric), strays the circuit does not declare (a stray hypothesis). Fitted
+ * parameters of a replaced part scale its new value.
  */
 export interface CircuitVariant {
   parts?: Readonly<Record<string, number>>;
   capacitorShape?: BiasShape;
+  /** The whole strays record of the variant (what the circuit declares plus the hypothesis' own). */
+  strays?: Strays;
 }
 
 export interface FitSetup {
@@ -40,6 +44,7 @@ export function createFitSetup(circuit: Circuit, measurements: Measurement[], to
   const figuresAt = (x: ArrayLike<number>, variant?: CircuitVariant) => {
     const at = circuitAt(circuit, parameters, x, variant?.parts);
     if (variant?.capacitorShape) at.capacitorShape = variant.capacitorShape;
+    if (variant?.strays) at.strays = variant.strays;
     return forward.figures(at);
   };
   const residualsAt = (x: ArrayLike<number>, variant?: CircuitVariant) => {
@@ -84,7 +89,7 @@ export interface SubsetOptions {
  *   by a factor e^(−5e-5) and the estimates by about a hundredth of a posterior
  *   width (Δχ² ≈ |step|² in posterior widths near the optimum).
  */
-const FIT_SEARCH = { differenceStep: 1e-3, costTolerance: 1e-4 } as const;
+export const FIT_SEARCH = { differenceStep: 1e-3, costTolerance: 1e-4 } as const;
 
 export function fitSubset(setup: FitSetup, active: readonly number[], options: SubsetOptions = {}): SubsetFit {
   const params = active.map((j) => setup.parameters[j]);
