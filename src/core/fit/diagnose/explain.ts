@@ -541,7 +541,7 @@ function separatingMeasurement(setup: FitSetup, a: Scored, b: Scored, figs: (s: 
 
 
 /** Starting points tried across a stray's window (fitted space) before the search: its response is far from linear there. */
-const STRAY_STARTS = [-3, -1.5, 0, 1.5, 3];
+const STRAY_STARTS = [-2.5, 0, 2.5];
 
 /**
  * A stray hypothesis: its one scalar fitted by MAP within its window (log-logit
