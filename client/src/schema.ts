@@ -2928,6 +2928,8 @@ export interface components {
             strays?: components["schemas"]["Strays"];
             /** @description Ambient range the board must work over (absent: no temperature drift is applied, tolerances alone) */
             temperature?: components["schemas"]["BomTemperatureRange"];
+            /** @description Years the board must keep its clock in spec (default 0: no ageing). A class II/III timing capacitor (its dielectric from the BOM line) loses capacitance by the log-decade law from the reference age of its marked value over these years, in the worst case (start and end of service) and the Monte Carlo yield (uniform age), as in POST /v1/tolerance */
+            serviceLifeYears?: number;
             /** @description What the clock must meet for the assembly to pass */
             spec: components["schemas"]["BomSpec"];
             /** @description Id of a stored parts catalogue to check part numbers, values and status against */

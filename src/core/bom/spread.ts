@@ -37,6 +37,7 @@
  */
 import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
+import { AGEING_REFERENCE_HOURS, ageingRatePerDecade } from '../parts/capacitor/ageing.ts';
 import { capacitanceChangeAt, parseDielectric } from '../parts/dielectric.ts';
 import { REFERENCE_TEMPERATURE_C, runToleranceAnalysis, type ToleranceRequest } from '../tolerance/index.ts';
 import { BOM_RULES } from './codes.ts';
@@ -142,6 +143,7 @@ export function toleranceRequest(
     // parts' own drift is folded into their bands above.
     ...(assembly.temperature ? { temperature: { minC: assembly.temperature.minC, maxC: assembly.temperature.maxC } } : {}),
     supplyTolerance: assembly.supply.tolerance,
+    ...serviceLifeOf(lines, assembly),
     monteCarlo: { samples: monteCarloSamples, seed },
     spec: {
       frequencyHz: assembly.spec.frequencyHz,
@@ -150,6 +152,25 @@ export function toleranceRequest(
       ...(assembly.spec.dutyMax !== undefined ? { dutyMax: assembly.spec.dutyMax } : {}),
     },
   };
+}
+
+/**
+ * The service life and the timing capacitor's ageing law for the analysis: the law of the capacitor
+ * line's dielectric (class II/III ceramics age, class I and film do not), from the reference age at
+ * which the marked value applies — a BOM line states no hours since de-ageing.
+ */
+function serviceLifeOf(lines: readonly BomLineReading[], assembly: BomAssembly): Pick<ToleranceRequest, 'serviceLifeYears' | 'timingCapacitor'> {
+  const years = assembly.serviceLifeYears ?? 0;
+  if (years <= 0) return {};
+  const capacitor = lines.find((l) => l.kind === 'capacitor' && l.dielectricCode !== undefined);
+  if (!capacitor?.dielectricCode) return { serviceLifeYears: years };
+  let rate: number;
+  try {
+    rate = ageingRatePerDecade(parseDielectric(capacitor.dielectricCode));
+  } catch {
+    return { serviceLifeYears: years }; // an unknown code is reported by the dielectric rule
+  }
+  return { serviceLifeYears: years, timingCapacitor: { ageingRatePerDecade: rate, ageHours: AGEING_REFERENCE_HOURS } };
 }
 
 function temperatureRules(lines: readonly BomLineReading[], range: BomTemperatureRange | undefined, drifts: readonly LineDrift[] | undefined): BomRuleResult[] {
@@ -224,6 +245,8 @@ function cacheKey(request: ToleranceRequest): string {
     request.tolerances,
     request.temperature ?? null,
     request.supplyTolerance,
+    request.serviceLifeYears ?? 0,
+    request.timingCapacitor ?? null,
     request.spec,
     request.monteCarlo,
   ]);

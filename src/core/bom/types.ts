@@ -62,6 +62,11 @@ export interface BomAssembly {
   amplifier: string | InlineAmplifier;
   supply: BomSupply;
   temperature?: BomTemperatureRange;
+  /**
+   * Years the board must keep its clock in spec: a class II/III timing capacitor ages over them by the
+   * log-decade law, as in POST /v1/tolerance (default 0: no ageing).
+   */
+  serviceLifeYears?: number;
   spec: BomSpec;
   /** Id of the approved-parts catalogue to check against. */
   catalogue?: string;

@@ -58,6 +58,7 @@ export function bomAssemblyFromBody(body: BomAssemblyBody): BomAssembly {
     spec: body.spec,
   };
   if (body.temperature) assembly.temperature = body.temperature;
+  if (body.serviceLifeYears !== undefined) assembly.serviceLifeYears = body.serviceLifeYears;
   if (body.catalogue !== undefined) assembly.catalogue = body.catalogue;
   const series = seriesFromBody(body.series);
   if (series !== undefined) assembly.series = series;

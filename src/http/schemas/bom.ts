@@ -9,6 +9,7 @@
 import { Type, type Static } from 'typebox';
 import { BOM_RULE_CODES, MAX_ASSEMBLIES_PER_BATCH, TOPOLOGY_IDS } from '../../core/index.ts';
 import { SERIES_NAMES } from '../../core/parts/index.ts';
+import { SERVICE_LIFE_LIMIT_YEARS } from '../../core/tolerance/index.ts';
 import { AmplifierSpec, FrequencyHz, ref } from './common.ts';
 import { Strays } from './circuit.ts';
 
@@ -81,6 +82,14 @@ export const BomAssembly = Type.Object(
     supply: ref(BomSupply, 'The rails of the board and their regulation band'),
     strays: Type.Optional(ref(Strays, 'Board and input capacitance and leakage at the nodes (absent: none); every analysis of the assembly includes them')),
     temperature: Type.Optional(ref(BomTemperatureRange, 'Ambient range the board must work over (absent: no temperature drift is applied, tolerances alone)')),
+    serviceLifeYears: Type.Optional(
+      Type.Number({
+        minimum: 0,
+        maximum: SERVICE_LIFE_LIMIT_YEARS,
+        description:
+          'Years the board must keep its clock in spec (default 0: no ageing). A class II/III timing capacitor (its dielectric from the BOM line) loses capacitance by the log-decade law from the reference age of its marked value over these years, in the worst case (start and end of service) and the Monte Carlo yield (uniform age), as in POST /v1/tolerance',
+      }),
+    ),
     spec: ref(BomSpec, 'What the clock must meet for the assembly to pass'),
     catalogue: Type.Optional(Type.String({ minLength: 1, maxLength: 64, description: 'Id of a stored parts catalogue to check part numbers, values and status against' })),
     series: Type.Optional(

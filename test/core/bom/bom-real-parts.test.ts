@@ -99,3 +99,38 @@ describe('diode-steered clock over −40…85 °C: the BOM worst case covers the
     expect(find(still.rules, 'frequency-within-spec', 'frequency-outside-spec')!.code).toBe('frequency-within-spec');
   });
 });
+
+describe('service life: a class II timing capacitor ages in the BOM check as in /v1/tolerance', () => {
+  // The probe clock of the fixtures with a 50 V X7R part (bias derating small), an ideal amplifier so the
+  // period is exactly proportional to the capacitance and the ageing corner can be checked by hand.
+  const assembly: BomAssembly = baseAssembly({
+    id: 'probe-clock-rev-f',
+    amplifier: 'ideal',
+    lines: [
+      { refdes: 'R1', value: '22K 1% 0603' },
+      { refdes: 'C1', value: '4n7 50V X7R 10% 0805' },
+      { refdes: 'R2, R3, R4', value: '68K 1% 0603' },
+    ],
+  });
+
+  it('ten years move the worst-case maximum by the log-decade law: 1 / (1 − 0.02·log10((1000 + 87,660) h / 1000 h))', () => {
+    const fresh = evaluateAssembly(assembly, 0, context({ mode: 'worst-case' }));
+    const aged = evaluateAssembly({ ...assembly, serviceLifeYears: 10 }, 0, context({ mode: 'worst-case' }));
+    const span = (r: typeof fresh) => find(r.rules, 'frequency-within-spec', 'frequency-outside-spec')!.figures;
+    // Log-decade ageing law of class II ceramics, C(t) = C(t0)(1 − k·log10(t/t0)) (IEC 60384-9 describes
+    // ageing this way); k = 2 %/decade for X7R is typical of the class (from memory), t0 = 1000 h, 8766 h a year.
+    const expectedRatio = 1 / (1 - 0.02 * Math.log10((1000 + 10 * 8766) / 1000));
+    expect(Number(span(aged).worstCaseMaxHz) / Number(span(fresh).worstCaseMaxHz)).toBeCloseTo(expectedRatio, 6);
+    // Ageing only lowers the capacitance: the slow end stays where it was.
+    expect(Number(span(aged).worstCaseMinHz) / Number(span(fresh).worstCaseMinHz)).toBeCloseTo(1, 9);
+  });
+
+  it('a C0G part does not age: the same figures with or without a service life', () => {
+    const c0g: BomAssembly = { ...assembly, lines: [assembly.lines[0], { refdes: 'C1', value: '4n7 50V C0G 2%' }, assembly.lines[2]] };
+    const fresh = evaluateAssembly(c0g, 0, context({ mode: 'worst-case' }));
+    const aged = evaluateAssembly({ ...c0g, serviceLifeYears: 10 }, 0, context({ mode: 'worst-case' }));
+    expect(find(aged.rules, 'frequency-within-spec', 'frequency-outside-spec')!.figures).toEqual(
+      find(fresh.rules, 'frequency-within-spec', 'frequency-outside-spec')!.figures,
+    );
+  });
+});
