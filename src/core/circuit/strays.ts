@@ -8,10 +8,12 @@
  * - capacitance at the timing node N (board stray + the amplifier's input
  *   capacitance): in parallel with the timing capacitor, so it adds to it (to a
  *   C(v) capacitor as a flat part of the node's curve, StrayLoadedShape).
- * A capacitance at the threshold node P or at the output pin adds a state to
- * the piece (an RC of its own); the piece walk solves one capacitor per piece,
- * so such a circuit is refused with 'not-modelled' naming the field rather than
- * answered approximately.
+ * - capacitance at the threshold node P (board stray + the amplifier's input
+ *   capacitance) and at the output pin: each makes its node a state of the
+ *   piece beside N (an RC of its own, e.g. the open-drain rise through the
+ *   pull-up), solved exactly by the multi-state form of the walk
+ *   (engine/modal.ts). Beside a C(V) timing capacitor these are refused with
+ *   'not-modelled' naming the field rather than answered approximately.
  */
 import { CoreError } from '../errors.ts';
 import { FLAT_SHAPE, type BiasShape } from '../parts/capacitor/index.ts';
@@ -83,12 +85,14 @@ export function validateStrays(circuit: Circuit): void {
         throw new CoreError('invalid-value', `strays.${field} must be between ${LEAKAGE_RANGE_OHM.min} Ω and ${LEAKAGE_RANGE_OHM.max} Ω, or absent (no leakage)`, `/strays/${field}`);
       }
     }
-    if (strays.thresholdNodeF > 0) throw notModelled('/strays/thresholdNodeF', 'a capacitance at the threshold node P');
-    if (strays.outputNodeF > 0) throw notModelled('/strays/outputNodeF', 'a capacitance at the output pin (the RC of an open-drain rise)');
   }
-  if (inputCapacitanceOf(circuit) > 0) {
-    // The input capacitance sits at both inputs: N is covered, P adds a state.
-    throw notModelled('/amplifier/inputCapacitanceF', 'the input capacitance at the non-inverting input P');
+  // A capacitance at P or at the pin makes the pieces multi-state (engine/modal.ts), solved for linear
+  // capacitors; the C(V) piece kinds are one-state: the combination is refused, not approximated.
+  const shape = circuit.capacitorShape;
+  if (shape && shape.kind !== 'flat') {
+    if ((strays?.thresholdNodeF ?? 0) > 0) throw notModelled('/strays/thresholdNodeF', 'a capacitance at the threshold node P beside a C(V) timing capacitor');
+    if ((strays?.outputNodeF ?? 0) > 0) throw notModelled('/strays/outputNodeF', 'a capacitance at the output pin beside a C(V) timing capacitor');
+    if (inputCapacitanceOf(circuit) > 0) throw notModelled('/amplifier/inputCapacitanceF', 'the input capacitance at the non-inverting input P beside a C(V) timing capacitor');
   }
 }
 
@@ -130,7 +134,7 @@ export class StrayLoadedShape implements BiasShape {
 function notModelled(pointer: string, what: string): CoreError {
   return new CoreError(
     'not-modelled',
-    `${what[0].toUpperCase()}${what.slice(1)} adds a second state to the network (an RC of its own), which the model does not solve yet; give it as 0 (the model covers leakage and the capacitance at the timing node)`,
+    `${what[0].toUpperCase()}${what.slice(1)} adds a state to the network (an RC of its own) that the non-linear C(V) pieces do not solve yet; give it as 0, or the capacitor as a linear part (with a linear timing capacitor the model solves it exactly)`,
     pointer,
   );
 }

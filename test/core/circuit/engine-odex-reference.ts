@@ -83,8 +83,17 @@ interface Discrete {
   pending: number[];
 }
 
+/**
+ * Voltages of the other capacitive nodes (strays at P and at the output pin), when the circuit has
+ * them: then they are integration states like v and held at these values in the nodal solve.
+ */
+interface ExtraStates {
+  p?: number;
+  o?: number;
+}
+
 /** Node voltages by dense Gaussian elimination for given v (capacitor) and s (source). */
-function nodeVoltages(c: Circuit, d: Discrete, v: number, s: number): { V: Float64Array; branches: Branch[] } {
+function nodeVoltages(c: Circuit, d: Discrete, v: number, s: number, x: ExtraStates = {}): { V: Float64Array; branches: Branch[] } {
   const topology = findTopology(c.topology)!;
   const n = NODE.firstInternal + topology.internalNodeCount;
   const amp = c.amplifier;
@@ -101,16 +110,20 @@ function nodeVoltages(c: Circuit, d: Discrete, v: number, s: number): { V: Float
   fix(NODE.negativeRail, c.supply.negativeV);
   fix(NODE.loadReturn, c.load?.returnV ?? 0);
   fix(NODE.capacitor, v);
+  // A capacitive P is a state (its voltage given), like N.
+  if (x.p !== undefined) fix(NODE.decision, x.p);
   if (d.stage === 'driven') {
     if (amp.outputResistanceOhm > 0) {
       fix(NODE.source, s);
       branches.push({ from: NODE.source, to: NODE.output, resistanceOhm: amp.outputResistanceOhm, emfV: 0, label: 'rOut' });
+      if (x.o !== undefined) fix(NODE.output, x.o);
     } else {
       fix(NODE.output, s);
       fix(NODE.source, 0);
     }
   } else {
     fix(NODE.source, 0);
+    if (x.o !== undefined) fix(NODE.output, x.o);
     if (d.stage === 'limSrc') inj[NODE.output] += amp.outputCurrentLimitA;
     if (d.stage === 'limSnk') inj[NODE.output] -= amp.outputCurrentLimitA;
   }
@@ -202,12 +215,27 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     pending: [],
   };
   let t = 0;
-  let y = [0, init === 'high' ? vHigh : vLow, 0]; // v, s, ∫pin dt
+  // Capacitance at P (board + input) and at the pin: integration states of their own (y[3], y[4]).
+  const CP = (c.strays?.thresholdNodeF ?? 0) + (amp.inputCapacitanceF ?? 0);
+  const CO = c.strays?.outputNodeF ?? 0;
+  const hasP = CP > 0;
+  const hasO = CO > 0;
+  /** The pin is held by a stiff driven output (no output resistance): it follows s. */
+  const pinned = () => hasO && d.stage === 'driven' && !(amp.outputResistanceOhm > 0);
+  const xOf = (get: (k: number) => number): ExtraStates => ({ p: hasP ? get(3) : undefined, o: hasO && !pinned() ? get(4) : undefined });
+  let y = [0, init === 'high' ? vHigh : vLow, 0, 0, 0]; // v, s, ∫pin dt, P, pin
+  {
+    // Power-up: the timing capacitor empty, the strays at P and the pin where the network holds them then.
+    const V0 = nodeVoltages(c, d, 0, y[1]).V;
+    y[3] = V0[NODE.decision];
+    y[4] = V0[NODE.output];
+  }
+  const X = () => xOf((k) => y[k]);
 
   const pinOf = (V: Float64Array) => V[NODE.output];
   /** Functions that must stay >= 0, with the action when one goes negative. */
-  const guards = (v: number, s: number): { g: number; act: () => void }[] => {
-    const { V, branches } = nodeVoltages(c, d, v, s);
+  const guards = (v: number, s: number, x: ExtraStates = X()): { g: number; act: () => void }[] => {
+    const { V, branches } = nodeVoltages(c, d, v, s, x);
     const P = V[NODE.decision];
     const N = V[NODE.capacitor];
     const out: { g: number; act: () => void }[] = [];
@@ -250,12 +278,14 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     const k = amp.overdriveDelayChargeVS ?? 0;
     if (!(k > 0)) return delay;
     const dec = NODE.decision;
-    const base = nodeVoltages(c, d, y[0], y[1]).V[dec];
+    const base = nodeVoltages(c, d, y[0], y[1], X()).V[dec];
     const h = 1e-3;
-    const pV = (nodeVoltages(c, d, y[0] + h, y[1]).V[dec] - base) / h;
-    const pS = (nodeVoltages(c, d, y[0], y[1] + h).V[dec] - base) / h;
-    const dv = rhs(t, y)[0];
-    const slope = Math.abs(pV * dv + pS * d.rate - dv);
+    const pV = (nodeVoltages(c, d, y[0] + h, y[1], X()).V[dec] - base) / h;
+    const pS = (nodeVoltages(c, d, y[0], y[1] + h, X()).V[dec] - base) / h;
+    const f = rhs(t, y);
+    const dv = f[0];
+    // A capacitive P moves by its own equation.
+    const slope = hasP ? Math.abs(f[3] - dv) : Math.abs(pV * dv + pS * d.rate - dv);
     return slope > 0 ? delay + Math.sqrt((2 * k) / slope) : delay;
   }
   function flip() {
@@ -270,7 +300,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     else changeTarget();
   }
   function changeTarget() {
-    const pinBefore = pinOf(nodeVoltages(c, d, y[0], y[1]).V);
+    const pinBefore = pinOf(nodeVoltages(c, d, y[0], y[1], X()).V);
     d.target ^= 1;
     targetMarks.push({ t, I: y[2], target: d.target, pinBefore });
     const level = d.target ? vHigh : vLow;
@@ -281,7 +311,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
         return;
       }
       if (d.stage === 'released') {
-        y[1] = pinOf(nodeVoltages(c, d, y[0], y[1]).V);
+        y[1] = pinOf(nodeVoltages(c, d, y[0], y[1], X()).V);
         d.stage = 'driven';
       }
     }
@@ -292,6 +322,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
   }
   const resolve = () => {
     for (let k = 0; k < 40; k++) {
+      if (pinned()) y[4] = y[1];
       const gs = guards(y[0], y[1]);
       let worst = -1e-9 * span;
       let pick: (() => void) | undefined;
@@ -307,10 +338,10 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     throw new Error('reference: no consistent configuration');
   };
 
-  const solver = new odex.Solver(3);
+  const solver = new odex.Solver(5);
   solver.denseOutput = true;
   solver.relativeTolerance = tol;
-  solver.absoluteTolerance = [tol * span, tol * span, tol * span * 1e-3];
+  solver.absoluteTolerance = [tol * span, tol * span, tol * span * 1e-3, tol * span, tol * span];
   solver.maxSteps = 1e6;
   // A bounded step, so that two events inside one step (a sign change and back) are not stepped over.
   const rMin = Math.min(...Object.entries(c.parts).filter(([k]) => k !== topology.capacitorRole).map(([, x]) => x));
@@ -318,9 +349,13 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
 
   const rhs = (_x: number, yy: number[]): number[] => {
     evals++;
-    const { V, branches } = nodeVoltages(c, d, yy[0], yy[1]);
+    const x = xOf((k) => yy[k]);
+    const { V, branches } = nodeVoltages(c, d, yy[0], yy[1], x);
     const iCap = -leaving(NODE.capacitor, branches, V) - amp.inputBiasCurrentA;
-    return [iCap / (shape ? C0 * shape.ratio(yy[0]) + strayAtN : C), d.rate, pinOf(V)];
+    const iP = hasP ? -leaving(NODE.decision, branches, V) - amp.inputBiasCurrentA : 0;
+    const limit = d.stage === 'limSrc' ? amp.outputCurrentLimitA : d.stage === 'limSnk' ? -amp.outputCurrentLimitA : 0;
+    const dO = x.o !== undefined ? (-leaving(NODE.output, branches, V) + limit) / CO : pinned() ? d.rate : 0;
+    return [iCap / (shape ? C0 * shape.ratio(yy[0]) + strayAtN : C), d.rate, pinOf(V), iP / CP || 0, dO];
   };
 
   const maxCycles = options.maxCycles ?? 300;
@@ -369,12 +404,12 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     }
     let hit: { tt: number; yy: number[]; k: number } | undefined;
     let prevG = guards(y[0], y[1]).map((q) => q.g);
-    if (observer) observe(t, pinOf(nodeVoltages(c, d, y[0], y[1]).V));
+    if (observer) observe(t, pinOf(nodeVoltages(c, d, y[0], y[1], X()).V));
     let endY = y;
     if (tEnd > t) {
       endY = solver.solve(rhs, t, y, tEnd, (nr, x0, x1, yy, dense) => {
         if (nr === 1 || x1 <= x0) return;
-        const gs = guards(yy[0], yy[1]).map((q) => q.g);
+        const gs = guards(yy[0], yy[1], xOf((k) => yy[k])).map((q) => q.g);
         let first = -1;
         let firstT = Infinity;
         for (let k = 0; k < gs.length; k++) {
@@ -384,7 +419,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
             let b = x1;
             for (let it = 0; it < 200 && b - a > 1e-15 * Math.abs(b); it++) {
               const mid = 0.5 * (a + b);
-              const gm = guards(dense!(0, mid), dense!(1, mid))[k].g;
+              const gm = guards(dense!(0, mid), dense!(1, mid), xOf((j) => dense!(j, mid)))[k].g;
               if (gm >= 0) a = mid;
               else b = mid;
             }
@@ -396,7 +431,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
         }
         if (observer) {
           // pin midpoint crossings inside the step (observers do not stop the integration)
-          const pinAt = (x: number) => pinOf(nodeVoltages(c, d, dense!(0, x), dense!(1, x)).V);
+          const pinAt = (x: number) => pinOf(nodeVoltages(c, d, dense!(0, x), dense!(1, x), xOf((j) => dense!(j, x))).V);
           const end = first >= 0 ? firstT : x1;
           const g0 = pinAt(x0) - observer.mid;
           const g1 = pinAt(end) - observer.mid;
@@ -420,13 +455,13 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
             if (tk >= x0) {
               const vk = dense!(0, tk);
               sampledCap[recorded] = vk;
-              sampledPin[recorded] = pinOf(nodeVoltages(c, d, vk, dense!(1, tk)).V);
+              sampledPin[recorded] = pinOf(nodeVoltages(c, d, vk, dense!(1, tk), xOf((j) => dense!(j, tk))).V);
             }
             recorded++;
           }
         }
         if (first >= 0) {
-          hit = { tt: firstT, yy: [dense!(0, firstT), dense!(1, firstT), dense!(2, firstT)], k: first };
+          hit = { tt: firstT, yy: [0, 1, 2, 3, 4].map((j) => dense!(j, firstT)), k: first };
           return false;
         }
         prevG = gs;
@@ -448,7 +483,7 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
       }
     }
     resolve();
-    if (observer) observe(t, pinOf(nodeVoltages(c, d, y[0], y[1]).V));
+    if (observer) observe(t, pinOf(nodeVoltages(c, d, y[0], y[1], X()).V));
     const n = risingTimes.length;
     if (converged < 0 && n >= 3) {
       const p1 = risingTimes[n - 1] - risingTimes[n - 2];

@@ -19,6 +19,7 @@
  * only network solve in the service; there is no second, object-based copy.
  */
 import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
+import { MAX_STATES, QUANTITY, ROW, R_C, R_S, R_X, SLOT, type DynamicModel } from './modal.ts';
 import { WALK_FIGURES, type WalkFigureName } from '../../amplifiers/figures-table.ts';
 import type { AmplifierModel } from '../../amplifiers/model.ts';
 import { NODE } from '../nodes.ts';
@@ -54,14 +55,28 @@ export const DIODE_PARAMETERS = ['diodeForwardDropV'] as const;
  * stray at the timing node (present whenever the circuit gives strays) and each
  * leakage resistor the circuit has (a branch, so part of the shape).
  */
-export const STRAY_PARAMETERS = ['timingNodeF', 'timingLeakageOhm', 'thresholdLeakageOhm'] as const;
+export const STRAY_PARAMETERS = ['timingNodeF', 'timingLeakageOhm', 'thresholdLeakageOhm', 'thresholdNodeF', 'outputNodeF'] as const;
 export type StrayParameter = (typeof STRAY_PARAMETERS)[number];
 
-/** The stray parameters a circuit's shape carries (none without `strays`: the vector of a plain circuit is unchanged). */
+/**
+ * The stray parameters a circuit's shape carries (none without `strays`: the vector of a plain circuit is
+ * unchanged): the timing-node stray, each leakage resistor, and a capacitance at P or at the output pin
+ * when it is not zero (it makes that node a state of its own: docs/model.md, strays and leakage).
+ */
 export function strayParametersOf(circuit: Circuit): StrayParameter[] {
   const strays = circuit.strays;
   if (!strays) return [];
-  return STRAY_PARAMETERS.filter((name) => name === 'timingNodeF' || Number.isFinite(strays[name]));
+  return STRAY_PARAMETERS.filter((name) => {
+    if (name === 'timingNodeF') return true;
+    if (name === 'thresholdNodeF' || name === 'outputNodeF') return strays[name] > 0;
+    return Number.isFinite(strays[name]);
+  });
+}
+
+/** Which nodes besides N carry capacitance (a state each): P (board stray or input capacitance) and the output pin. */
+export function capacitiveNodesOf(circuit: Circuit): { threshold: boolean; output: boolean } {
+  const input = circuit.amplifier.inputCapacitanceF;
+  return { threshold: (circuit.strays?.thresholdNodeF ?? 0) > 0 || input > 0, output: (circuit.strays?.outputNodeF ?? 0) > 0 };
 }
 
 /** Output-stage modes. */
@@ -95,6 +110,10 @@ export function configKey(stage: number, clamp: number, diodes: number): number 
 export const KEY_SPACE = 4 * 3 * 4;
 
 const STRIDE = 4;
+/** Coefficient columns of a dynamic configuration: constant, N, s, probe, then the states P and O. */
+const STRIDE_DYNAMIC = 6;
+const COLUMN_P = 4;
+const COLUMN_O = 5;
 
 /**
  * What one configuration solve yields (filled in place by CompiledConfig.solve;
@@ -251,6 +270,16 @@ class CompiledConfig {
   readonly opSlot: Int32Array;
   /** Branches touching N, the source node and V+ (current sums). */
   readonly capBranches: Int32Array;
+  /** Branches touching P and the output pin (the currents into their capacitances in a dynamic configuration). */
+  readonly decisionBranches: Int32Array;
+  readonly outputBranches: Int32Array;
+  /** Coefficient columns per node (4; 6 in a dynamic configuration). */
+  readonly stride: number;
+  /** P and the output pin are states of this (dynamic) configuration. */
+  readonly stateP: boolean;
+  readonly stateO: boolean;
+  /** The shape has a capacitance at the output pin (pinned to the source in a stiff driven configuration). */
+  readonly shapeCapacitiveOutput: boolean;
   readonly sourceBranches: Int32Array;
   readonly railBranches: Int32Array;
   readonly matrix: Float64Array;
@@ -265,6 +294,8 @@ class CompiledConfig {
     readonly key: number,
     branches: CompiledBranch[],
     readonly diodeTerminals: readonly DiodeTerminal[],
+    /** A dynamic configuration: P and/or the output pin are states (columns) like N, not rows. */
+    dynamic = false,
   ) {
     const stage = key % 4;
     this.stage = stage;
@@ -303,15 +334,25 @@ class CompiledConfig {
     } else if (clamp === CLAMP.nAboveP) {
       branches.push({ from: NODE.capacitor, to: NODE.decision, slot: -1, offsetOhm: CLAMP_RESISTANCE_OHM, emfV: 0, emfSlot: clampSlot, emfSign: 1 });
     }
+    // Columns of the nodes given as inputs: N always; in a dynamic configuration P and O when they are states.
+    const stride = dynamic ? STRIDE_DYNAMIC : STRIDE;
+    this.stride = stride;
+    const column = new Int8Array(nodeCount).fill(-1);
+    column[NODE.capacitor] = 1;
+    this.stateP = dynamic && shape.capacitiveThreshold;
+    this.stateO = dynamic && shape.capacitiveOutput && sourceNode !== NODE.output;
+    this.shapeCapacitiveOutput = dynamic && shape.capacitiveOutput;
+    if (this.stateP) column[NODE.decision] = COLUMN_P;
+    if (this.stateO) column[NODE.output] = COLUMN_O;
     const row = new Int32Array(nodeCount).fill(-1);
     const rowNode: number[] = [];
     for (let k = 0; k < nodeCount; k++) {
-      if (k === NODE.capacitor || k === sourceNode || fixed[k]) continue;
+      if (column[k] >= 0 || k === sourceNode || fixed[k]) continue;
       row[k] = rowNode.length;
       rowNode.push(k);
     }
     const m = rowNode.length;
-    const width = m + STRIDE;
+    const width = m + stride;
     this.m = m;
     this.width = width;
     this.rowNode = Int32Array.from(rowNode);
@@ -335,17 +376,21 @@ class CompiledConfig {
       if (b.emfSlot >= 0) ops.push({ branch: j, cell: base + m, kind: OP_G_VALUE, scale: sign * b.emfSign, slot: b.emfSlot });
       const rq = row[q];
       if (rq >= 0) ops.push({ branch: j, cell: base + rq, kind: OP_G, scale: -1, slot: -1 });
-      else if (q === NODE.capacitor) ops.push({ branch: j, cell: base + m + 1, kind: OP_G, scale: 1, slot: -1 });
+      else if (column[q] >= 0) ops.push({ branch: j, cell: base + m + column[q], kind: OP_G, scale: 1, slot: -1 });
       else if (q === sourceNode) ops.push({ branch: j, cell: base + m + 2, kind: OP_G, scale: 1, slot: -1 });
       else if (fixedSlot[q] >= 0) ops.push({ branch: j, cell: base + m, kind: OP_G_VALUE, scale: 1, slot: fixedSlot[q] });
     };
     const capB: number[] = [];
     const srcB: number[] = [];
     const railB: number[] = [];
+    const pB: number[] = [];
+    const oB: number[] = [];
     branches.forEach((b, j) => {
       stampEnd(j, b.from, b.to, 1);
       stampEnd(j, b.to, b.from, -1);
       if (b.from === NODE.capacitor || b.to === NODE.capacitor) capB.push(j);
+      if (b.from === NODE.decision || b.to === NODE.decision) pB.push(j);
+      if (b.from === NODE.output || b.to === NODE.output) oB.push(j);
       if (sourceNode >= 0 && (b.from === sourceNode || b.to === sourceNode)) srcB.push(j);
       if (b.from === NODE.positiveRail || b.to === NODE.positiveRail) railB.push(j);
     });
@@ -362,12 +407,16 @@ class CompiledConfig {
     this.opScale = Float64Array.from(ops, (o) => o.scale);
     this.opSlot = Int32Array.from(ops, (o) => o.slot);
     this.capBranches = Int32Array.from(capB);
+    this.decisionBranches = Int32Array.from(pB);
+    this.outputBranches = Int32Array.from(oB);
     this.sourceBranches = Int32Array.from(srcB);
     this.railBranches = Int32Array.from(railB);
     this.matrix = new Float64Array(m * width);
-    this.coeff = new Float64Array(nodeCount * STRIDE);
-    this.coeff[NODE.capacitor * STRIDE + 1] = 1;
-    if (sourceNode >= 0) this.coeff[sourceNode * STRIDE + 2] = 1;
+    this.coeff = new Float64Array(nodeCount * stride);
+    this.coeff[NODE.capacitor * stride + 1] = 1;
+    if (sourceNode >= 0) this.coeff[sourceNode * stride + 2] = 1;
+    if (this.stateP) this.coeff[NODE.decision * stride + COLUMN_P] = 1;
+    if (this.stateO) this.coeff[NODE.output * stride + COLUMN_O] = 1;
     this.fixedNodes = Int32Array.from([...fixedSlot.keys()].filter((k) => fixedSlot[k] >= 0));
     this.conductance = new Float64Array(branches.length);
   }
@@ -382,46 +431,8 @@ class CompiledConfig {
    * a node floats (no DC path) or a resistance is not a positive finite value.
    */
   solve(values: ArrayLike<number>, capacitanceF: number, biasA: number, limitA: number, out: NetworkCoefficients, currents = true): boolean {
-    const { m, width, matrix: a, coeff, rowNode, conductance, fixedSlot, branchSlot, branchOffset } = this;
-    const nb = conductance.length;
-    for (let j = 0; j < nb; j++) {
-      const slot = branchSlot[j];
-      const r = slot >= 0 ? values[slot] + branchOffset[j] : branchOffset[j];
-      if (!(r > 0) || r === Infinity) return false;
-      conductance[j] = 1 / r;
-    }
-    // A loop, not fill(): the matrix has a handful of cells and the builtin call costs more than clearing them.
-    for (let c = 0; c < a.length; c++) a[c] = 0;
-    // Only the held nodes' voltages and the rows change between solves (the rest was set once, in the constructor).
-    for (let k = 0; k < this.fixedNodes.length; k++) {
-      const node = this.fixedNodes[k];
-      coeff[node * STRIDE] = values[fixedSlot[node]];
-    }
-    // Bias current flows into the input pins, i.e. out of the network at P and N.
-    if (this.decisionRow >= 0) {
-      a[this.decisionRow * width + m] = -biasA;
-      a[this.decisionRow * width + m + 3] = 1; // unit probe current: the Thevenin resistance at P
-    }
-    if (this.outputRow >= 0 && (this.stage === STAGE.limitedSource || this.stage === STAGE.limitedSink)) {
-      // The stage is a current source into the pin while limited.
-      a[this.outputRow * width + m] += this.stage === STAGE.limitedSource ? limitA : -limitA;
-    }
-    const { opKind, opBranch, opCell, opScale, opSlot } = this;
-    const ops = opKind.length;
-    for (let o = 0; o < ops; o++) {
-      const g = conductance[opBranch[o]];
-      if (opKind[o] === OP_G) a[opCell[o]] += g * opScale[o];
-      else a[opCell[o]] += g * opScale[o] * values[opSlot[o]];
-    }
-    if (!gaussJordan(a, m, width)) return false;
-    for (let r = 0; r < m; r++) {
-      const k = rowNode[r] * STRIDE;
-      const src = r * width + m;
-      coeff[k] = a[src];
-      coeff[k + 1] = a[src + 1];
-      coeff[k + 2] = a[src + 2];
-      coeff[k + 3] = a[src + 3];
-    }
+    if (!this.eliminate(values, biasA, limitA)) return false;
+    const { coeff, conductance } = this;
     // Current into the capacitor: the bias current drawn at N, minus what leaves N through branches.
     let q0 = -biasA;
     let qv = 0;
@@ -471,6 +482,147 @@ class CompiledConfig {
     }
     return true;
   }
+
+  /**
+   * Stamp the network for `values` and eliminate: every node voltage affine in the input columns
+   * (coeff). False when a node floats or a resistance is not a positive finite value.
+   */
+  private eliminate(values: ArrayLike<number>, biasA: number, limitA: number): boolean {
+    const { m, width, matrix: a, coeff, rowNode, conductance, fixedSlot, branchSlot, branchOffset } = this;
+    const nb = conductance.length;
+    for (let j = 0; j < nb; j++) {
+      const slot = branchSlot[j];
+      const r = slot >= 0 ? values[slot] + branchOffset[j] : branchOffset[j];
+      if (!(r > 0) || r === Infinity) return false;
+      conductance[j] = 1 / r;
+    }
+    // A loop, not fill(): the matrix has a handful of cells and the builtin call costs more than clearing them.
+    for (let c = 0; c < a.length; c++) a[c] = 0;
+    // Only the held nodes' voltages and the rows change between solves (the rest was set once, in the constructor).
+    for (let k = 0; k < this.fixedNodes.length; k++) {
+      const node = this.fixedNodes[k];
+      coeff[node * this.stride] = values[fixedSlot[node]];
+    }
+    // Bias current flows into the input pins, i.e. out of the network at P and N.
+    if (this.decisionRow >= 0) {
+      a[this.decisionRow * width + m] = -biasA;
+      a[this.decisionRow * width + m + 3] = 1; // unit probe current: the Thevenin resistance at P
+    }
+    if (this.outputRow >= 0 && (this.stage === STAGE.limitedSource || this.stage === STAGE.limitedSink)) {
+      // The stage is a current source into the pin while limited.
+      a[this.outputRow * width + m] += this.stage === STAGE.limitedSource ? limitA : -limitA;
+    }
+    const { opKind, opBranch, opCell, opScale, opSlot } = this;
+    const ops = opKind.length;
+    for (let o = 0; o < ops; o++) {
+      const g = conductance[opBranch[o]];
+      if (opKind[o] === OP_G) a[opCell[o]] += g * opScale[o];
+      else a[opCell[o]] += g * opScale[o] * values[opSlot[o]];
+    }
+    if (!gaussJordan(a, m, width)) return false;
+    const stride = this.stride;
+    for (let r = 0; r < m; r++) {
+      const k = rowNode[r] * stride;
+      const src = r * width + m;
+      coeff[k] = a[src];
+      coeff[k + 1] = a[src + 1];
+      coeff[k + 2] = a[src + 2];
+      coeff[k + 3] = a[src + 3];
+      if (stride === STRIDE_DYNAMIC) {
+        coeff[k + COLUMN_P] = a[src + COLUMN_P];
+        coeff[k + COLUMN_O] = a[src + COLUMN_O];
+      }
+    }
+    return true;
+  }
+
+  /**
+   * Solve a dynamic configuration (P and/or the output pin are states beside N; docs/model.md, strays
+   * and leakage) for `values`: the currents into the state capacitors and the rows of every quantity
+   * the walk watches, affine in (s, x_N, x_P, x_O), into `dyn`; then its modes. False as solve().
+   */
+  solveDynamic(values: ArrayLike<number>, capF: ArrayLike<number>, biasA: number, limitA: number, offsetV: number, dyn: DynamicModel): boolean {
+    if (!this.eliminate(values, biasA, limitA)) return false;
+    const stateP = this.stateP;
+    const stateO = this.stateO;
+    dyn.active[SLOT.N] = 1;
+    dyn.active[SLOT.P] = stateP ? 1 : 0;
+    dyn.active[SLOT.O] = stateO ? 1 : 0;
+    dyn.oPinned = this.shapeCapacitiveOutput && !stateO;
+    dyn.capF[SLOT.N] = capF[SLOT.N];
+    dyn.capF[SLOT.P] = stateP ? capF[SLOT.P] : 0;
+    dyn.capF[SLOT.O] = stateO ? capF[SLOT.O] : 0;
+    dyn.Q.fill(0);
+    const limited = this.stage === STAGE.limitedSource ? limitA : this.stage === STAGE.limitedSink ? -limitA : 0;
+    this.stateCurrent(this.capBranches, NODE.capacitor, values, -biasA, dyn, SLOT.N);
+    if (stateP) this.stateCurrent(this.decisionBranches, NODE.decision, values, -biasA, dyn, SLOT.P);
+    else dyn.q0[SLOT.P] = dyn.qS[SLOT.P] = 0;
+    // A current-limited stage is a current source into the pin.
+    if (stateO) this.stateCurrent(this.outputBranches, NODE.output, values, limited, dyn, SLOT.O);
+    else dyn.q0[SLOT.O] = dyn.qS[SLOT.O] = 0;
+    const stride = this.stride;
+    const coeff = this.coeff;
+    const rowOf = (node: number, row: Float64Array) => {
+      const k = node * stride;
+      row[R_C] = coeff[k];
+      row[R_S] = coeff[k + 2];
+      row[R_X + SLOT.N] = coeff[k + 1];
+      row[R_X + SLOT.P] = coeff[k + COLUMN_P];
+      row[R_X + SLOT.O] = coeff[k + COLUMN_O];
+    };
+    const p = dyn.row(QUANTITY.p);
+    rowOf(NODE.decision, p);
+    rowOf(NODE.output, dyn.row(QUANTITY.o));
+    // h = P + Vos − N
+    const h = dyn.row(QUANTITY.h);
+    h.set(p);
+    h[R_C] += offsetV;
+    h[R_X + SLOT.N] -= 1;
+    const i = dyn.row(QUANTITY.i);
+    i.fill(0);
+    if (this.stage === STAGE.driven) this.leavingRow(this.sourceBranches, this.sourceNode, values, i);
+    else i[R_C] = limited;
+    this.leavingRow(this.railBranches, NODE.positiveRail, values, dyn.row(QUANTITY.rail));
+    const dt = this.diodeTerminals;
+    const from = new Float64Array(ROW);
+    const to = new Float64Array(ROW);
+    for (let d = 0; d < dt.length; d++) {
+      const row = dyn.row(QUANTITY.diode0 + d);
+      rowOf(dt[d].from, from);
+      rowOf(dt[d].to, to);
+      for (let c = 0; c < ROW; c++) row[c] = from[c] - to[c];
+      row[R_C] -= dt[d].emfSlot >= 0 ? dt[d].emfV + dt[d].emfSign * values[dt[d].emfSlot] : dt[d].emfV;
+    }
+    return dyn.decompose();
+  }
+
+  /** The current into a state node's capacitor: `injectedA` minus what leaves the node through its branches. */
+  private stateCurrent(list: Int32Array, node: number, values: ArrayLike<number>, injectedA: number, dyn: DynamicModel, slot: number): void {
+    const row = this.scratchRow;
+    this.leavingRow(list, node, values, row);
+    dyn.q0[slot] = injectedA - row[R_C];
+    dyn.qS[slot] = -row[R_S];
+    for (let k = 0; k < MAX_STATES; k++) dyn.Q[slot * MAX_STATES + k] = -row[R_X + k];
+  }
+
+  /** Sum of branch currents leaving `node`, as a row over (s, x_N, x_P, x_O). */
+  private leavingRow(list: Int32Array, node: number, values: ArrayLike<number>, row: Float64Array): void {
+    const k = this.coeff;
+    const stride = this.stride;
+    row.fill(0);
+    for (let n = 0; n < list.length; n++) {
+      const j = list[n];
+      const g = (this.branchFrom[j] === node ? 1 : -1) * this.conductance[j];
+      const f = this.branchFrom[j] * stride;
+      const t = this.branchTo[j] * stride;
+      row[R_C] += g * (k[f] - k[t] - this.emfOf(j, values));
+      row[R_S] += g * (k[f + 2] - k[t + 2]);
+      row[R_X + SLOT.N] += g * (k[f + 1] - k[t + 1]);
+      row[R_X + SLOT.P] += g * (k[f + COLUMN_P] - k[t + COLUMN_P]);
+      row[R_X + SLOT.O] += g * (k[f + COLUMN_O] - k[t + COLUMN_O]);
+    }
+  }
+  private readonly scratchRow = new Float64Array(ROW);
 
   /** Sum of branch currents leaving `node`, into the output (which 0) or rail (which 1) fields. */
   private leaving(list: Int32Array, node: number, values: ArrayLike<number>, out: NetworkCoefficients, which: 0 | 1): void {
@@ -559,6 +711,9 @@ export function shapeKey(circuit: Circuit, topology: TopologyDefinition): string
   // Strays: which stray parameters the vector carries (a leakage resistor is a branch).
   const strays = strayParametersOf(circuit);
   if (strays.length > 0) key += `|s${strays.join(',')}`;
+  // Capacitance at P or at the output pin: that node is a state of the pieces (the input capacitance counts at P).
+  const states = capacitiveNodesOf(circuit);
+  if (states.threshold || states.output) key += `|x${states.threshold ? 'P' : ''}${states.output ? 'O' : ''}`;
   return key;
 }
 
@@ -575,11 +730,33 @@ export class CompiledShape {
   readonly diodeTerminals: readonly DiodeTerminal[];
   /** C(v)/C0 of the timing capacitor (flat: linear; the capacitor slot then holds C, else C at 0 V). */
   readonly biasShape: BiasShape;
+  /** Capacitance at P / at the output pin: those nodes are states of the dynamic configurations. */
+  readonly capacitiveThreshold: boolean;
+  readonly capacitiveOutput: boolean;
+  /** More than one capacitive node: the walk solves each piece as a multi-state system (modal.ts). */
+  readonly dynamic: boolean;
   private readonly configs: (CompiledConfig | undefined)[] = new Array<CompiledConfig | undefined>(KEY_SPACE);
+  private readonly dynamicConfigs: (CompiledConfig | undefined)[] = new Array<CompiledConfig | undefined>(KEY_SPACE);
   /** Parameter slots the walk reads on every evaluation (looked up once here, not per evaluation). */
   readonly slot: Readonly<
     Record<
-      'positiveV' | 'negativeV' | 'headroomHigh' | 'headroomLow' | 'rOut' | 'offset' | 'bias' | 'slew' | 'delay' | 'limit' | 'clamp' | 'hysteresis' | 'delayCharge' | 'inputCapacitance' | 'timingNodeStray',
+      | 'positiveV'
+      | 'negativeV'
+      | 'headroomHigh'
+      | 'headroomLow'
+      | 'rOut'
+      | 'offset'
+      | 'bias'
+      | 'slew'
+      | 'delay'
+      | 'limit'
+      | 'clamp'
+      | 'hysteresis'
+      | 'delayCharge'
+      | 'inputCapacitance'
+      | 'timingNodeStray'
+      | 'thresholdNodeStray'
+      | 'outputNodeStray',
       number
     >
   >;
@@ -617,7 +794,13 @@ export class CompiledShape {
       delayCharge: l.indexOf('overdriveDelayChargeVS'),
       inputCapacitance: l.indexOf('inputCapacitanceF'),
       timingNodeStray: l.indexOf('timingNodeF'),
+      thresholdNodeStray: l.indexOf('thresholdNodeF'),
+      outputNodeStray: l.indexOf('outputNodeF'),
     };
+    const states = capacitiveNodesOf(template);
+    this.capacitiveThreshold = states.threshold;
+    this.capacitiveOutput = states.output;
+    this.dynamic = states.threshold || states.output;
     const bits = (on: readonly boolean[] | undefined) => (on ?? []).reduce((acc, x, k) => acc | (x ? 1 << k : 0), 0);
     this.nominalHighKey = configKey(this.openDrain ? STAGE.released : STAGE.driven, CLAMP.off, bits(topology.nominalDiodes?.('high')));
     this.nominalLowKey = configKey(STAGE.driven, CLAMP.off, bits(topology.nominalDiodes?.('low')));
@@ -635,6 +818,18 @@ export class CompiledShape {
       }
       c = new CompiledConfig(this, key, mapped.slice(), this.diodeTerminals);
       this.configs[key] = c;
+    }
+    return c;
+  }
+
+  /** The configuration with P and/or the output pin as states (a dynamic shape only). */
+  dynamicConfig(key: number): CompiledConfig {
+    let c = this.dynamicConfigs[key];
+    if (!c) {
+      this.config(key); // maps the topology's branches for this diode combination
+      const mapped = this.topologyBranches.get(Math.floor(key / 12))!;
+      c = new CompiledConfig(this, key, mapped.slice(), this.diodeTerminals, true);
+      this.dynamicConfigs[key] = c;
     }
     return c;
   }

@@ -11,6 +11,7 @@ import { CoreError } from '../../errors.ts';
 import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
 import { CLAMP, KEY_SPACE, NetworkCoefficients, STAGE, type CompiledShape } from './compiled-network.ts';
 import { StrayLoadedShape } from '../strays.ts';
+import { DynamicModel, MAX_STATES, QUANTITY, ROW, R_C, R_S, R_X, SLOT } from './modal.ts';
 
 export { CLAMP, CLAMP_RESISTANCE_OHM, configKey, STAGE } from './compiled-network.ts';
 
@@ -45,6 +46,12 @@ export class ConfigModel extends NetworkCoefficients {
   readonly evTol = new Float64Array(MAX_EVENTS);
   readonly evKind = new Int8Array(MAX_EVENTS);
   readonly evIndex = new Int8Array(MAX_EVENTS);
+  /**
+   * A shape with capacitance at P or at the output pin: the multi-state model of this configuration
+   * (the scalar fields above are then its quasi-static reduction, those capacitances left out: the
+   * DC levels, switching lines and messages; the pieces are walked on this).
+   */
+  dyn: DynamicModel | undefined;
 
   pushEvent(kind: number, index: number, c0: number, cv: number, cs: number, tol: number): void {
     const n = this.eventCount++;
@@ -79,6 +86,10 @@ export class ConfigCache {
   /** C(v)/C0 of the timing capacitor (from the compiled shape; flat: a linear capacitor). */
   biasShape: BiasShape = FLAT_SHAPE;
   private readonly strayLoaded = new StrayLoadedShape();
+  /** Capacitance per state slot (N, P, O), F, for a dynamic shape. */
+  readonly stateCapF = new Float64Array(MAX_STATES);
+  /** Models of the dynamic configurations (reused like the pool). */
+  private readonly dynPool: DynamicModel[] = [];
 
   /** False: skip the output and rail current sums (timing-only evaluations; figures need them). */
   currents = true;
@@ -101,6 +112,11 @@ export class ConfigCache {
     this.biasA = values[slot.bias];
     // A linear stray beside a C(v) capacitor: the node's curve per unit of their sum at 0 V.
     this.biasShape = strayF > 0 && shape.biasShape.kind !== 'flat' ? this.strayLoaded.set(shape.biasShape, strayF / (capacitorF + strayF)) : shape.biasShape;
+    if (shape.dynamic) {
+      this.stateCapF[SLOT.N] = this.capacitanceF;
+      this.stateCapF[SLOT.P] = thresholdNodeCapacitanceF(shape, values);
+      this.stateCapF[SLOT.O] = shape.slot.outputNodeStray >= 0 ? values[shape.slot.outputNodeStray] : 0;
+    }
     // Only the slots the previous evaluation filled need clearing.
     for (let i = 0; i < this.used; i++) this.slot[this.pool[i].key] = -1;
     this.used = 0;
@@ -117,6 +133,14 @@ export class ConfigCache {
     m.clamp = Math.floor(key / 4) % 3;
     m.diodes = Math.floor(key / 12);
     if (!this.shape.config(key).solve(this.values, this.capacitanceF, this.biasA, this.limitA, m, this.currents)) return undefined;
+    if (this.shape.dynamic) {
+      while (this.dynPool.length <= this.used) this.dynPool.push(new DynamicModel());
+      const dyn = this.dynPool[this.used];
+      if (!this.shape.dynamicConfig(key).solveDynamic(this.values, this.stateCapF, this.biasA, this.limitA, this.offsetV, dyn)) return undefined;
+      m.dyn = dyn;
+    } else {
+      m.dyn = undefined;
+    }
     this.slot[key] = this.used++;
     m.hC = m.pC + this.offsetV;
     m.hV = m.pV - 1;
@@ -135,9 +159,11 @@ export class ConfigCache {
   private addEvents(m: ConfigModel): void {
     const vTol = BOUNDARY_TOLERANCE * this.spanV;
     const diodes = this.shape.diodeTerminals.length;
+    const dyn = m.dyn;
     // Diodes: forward voltage beyond the drop f = V_from − V_to − Vf; off: f <= 0, on: current (= f/R) >= 0.
     for (let d = 0; d < diodes; d++) {
       const sign = (m.diodes >> d) & 1 ? 1 : -1;
+      if (dyn) eventRow(dyn, m.eventCount, dyn.row(QUANTITY.diode0 + d), sign, 0, 0, 0);
       m.pushEvent(EVENT.diode, d, sign * m.diodeF[3 * d], sign * m.diodeF[3 * d + 1], sign * m.diodeF[3 * d + 2], vTol);
     }
     if (Number.isFinite(this.clampV)) {
@@ -146,26 +172,41 @@ export class ConfigCache {
       const dV = m.pV - 1;
       const dS = m.pS;
       const vc = this.clampV;
+      // The same functions as rows: d = P − N is the threshold row less the offset.
+      const h = dyn?.row(QUANTITY.h);
+      const off = -this.offsetV;
       if (m.clamp === CLAMP.off) {
+        if (dyn) eventRow(dyn, m.eventCount, h!, -1, vc - off, 0, 0);
         m.pushEvent(EVENT.clampOnPAboveN, 0, vc - dC, -dV, -dS, vTol);
+        if (dyn) eventRow(dyn, m.eventCount, h!, 1, vc + off, 0, 0);
         m.pushEvent(EVENT.clampOnNAboveP, 0, vc + dC, dV, dS, vTol);
       } else if (m.clamp === CLAMP.pAboveN) {
+        if (dyn) eventRow(dyn, m.eventCount, h!, 1, off - vc, 0, 0);
         m.pushEvent(EVENT.clampOff, 0, dC - vc, dV, dS, vTol);
       } else {
+        if (dyn) eventRow(dyn, m.eventCount, h!, -1, -off - vc, 0, 0);
         m.pushEvent(EVENT.clampOff, 0, -dC - vc, -dV, -dS, vTol);
       }
     }
     if (Number.isFinite(this.limitA)) {
       const iTol = BOUNDARY_TOLERANCE * this.limitA;
       const drop = this.limitA * this.outputResistanceOhm;
+      const i = dyn?.row(QUANTITY.i);
+      const o = dyn?.row(QUANTITY.o);
       if (m.stage === STAGE.driven) {
         // An open-drain transistor only sinks; a push-pull stage limits both ways.
-        if (!this.openDrain) m.pushEvent(EVENT.limitSource, 0, this.limitA - m.iC, -m.iV, -m.iS, iTol);
+        if (!this.openDrain) {
+          if (dyn) eventRow(dyn, m.eventCount, i!, -1, this.limitA, 0, 0);
+          m.pushEvent(EVENT.limitSource, 0, this.limitA - m.iC, -m.iV, -m.iS, iTol);
+        }
+        if (dyn) eventRow(dyn, m.eventCount, i!, 1, this.limitA, 0, 0);
         m.pushEvent(EVENT.limitSink, 0, this.limitA + m.iC, m.iV, m.iS, iTol);
       } else if (m.stage === STAGE.limitedSource) {
         // Stays limited while the source would push more than the limit: s >= pin + limit·rOut.
+        if (dyn) eventRow(dyn, m.eventCount, o!, -1, -drop, 1, 0);
         m.pushEvent(EVENT.limitLeave, 0, -m.oC - drop, -m.oV, 1 - m.oS, vTol);
       } else if (m.stage === STAGE.limitedSink) {
+        if (dyn) eventRow(dyn, m.eventCount, o!, 1, -drop, -1, 0);
         m.pushEvent(EVENT.limitLeave, 0, m.oC - drop, m.oV, m.oS - 1, vTol);
       }
     }
@@ -181,6 +222,25 @@ export function timingNodeStrayF(shape: CompiledShape, values: ArrayLike<number>
   const input = values[shape.slot.inputCapacitance];
   const board = shape.slot.timingNodeStray >= 0 ? values[shape.slot.timingNodeStray] : 0;
   // A stored amplifier from before the figure existed has none (undefined reads as NaN).
+  return (input > 0 ? input : 0) + (board > 0 ? board : 0);
+}
+
+/**
+ * Event row k of a dynamic configuration: scale·source + constant (+ sAdd per volt of s, + nAdd per
+ * volt of x_N), the multi-state form of the function pushed beside it.
+ */
+function eventRow(dyn: DynamicModel, k: number, source: Float64Array, scale: number, constant: number, sAdd: number, nAdd: number): void {
+  const row = dyn.row(QUANTITY.event0 + k);
+  for (let c = 0; c < ROW; c++) row[c] = scale * source[c];
+  row[R_C] += constant;
+  row[R_S] += sAdd;
+  row[R_X + SLOT.N] += nAdd;
+}
+
+/** Capacitance at the threshold node P, F: its board stray and the amplifier's input capacitance. */
+export function thresholdNodeCapacitanceF(shape: CompiledShape, values: ArrayLike<number>): number {
+  const input = values[shape.slot.inputCapacitance];
+  const board = shape.slot.thresholdNodeStray >= 0 ? values[shape.slot.thresholdNodeStray] : 0;
   return (input > 0 ? input : 0) + (board > 0 ? board : 0);
 }
 

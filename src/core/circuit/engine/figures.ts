@@ -24,6 +24,7 @@ import { configKey, STAGE, type ConfigCache, type ConfigModel } from './configs.
 import type { PieceEvaluator } from './piece-evaluator.ts';
 import { LOG, LOG_STRIDE } from './piece-log.ts';
 import type { OscillatorWalk, SteadyCycle } from './walker.ts';
+import { MAX_STATES, ModalKinematics, QUANTITY, ROW, R_X, rowAt, SLOT } from './modal.ts';
 
 export interface TimeDomainFigures extends OscillationFigures {
   edges: EdgeTimes;
@@ -70,8 +71,17 @@ function crossingMemoScratch(pieces: number): Float64Array {
   for (let k = 0; k < pieces; k++) crossingMemoBuffer[k] = NOT_SEARCHED;
   return crossingMemoBuffer;
 }
-const scratchT = new Float64Array(2);
-const scratchDir = new Int8Array(2);
+// A multi-state piece can cross a level up to four times (modal.ts); a one-capacitor piece twice.
+const scratchT = new Float64Array(4);
+const scratchDir = new Int8Array(4);
+/** Rows of a multi-state piece: N itself, P − N, rail + output current. */
+const rowN = new Float64Array(ROW);
+rowN[R_X + SLOT.N] = 1;
+const rowDiff = new Float64Array(ROW);
+const rowSupply = new Float64Array(ROW);
+/** The pin at a logged multi-state piece's end, without disturbing the evaluator's loaded piece. */
+const endModal = new ModalKinematics();
+const endState = new Float64Array(MAX_STATES);
 
 /**
  * Sums and extremes over the cycle pieces, one piece at a time (a reusable
@@ -109,6 +119,10 @@ class CycleTotals {
 
   /** Adds the loaded piece; its pin voltage at both ends goes to pinEnds[j], pinEnds[j + 1]. */
   add(ev: PieceEvaluator, cache: ConfigCache, pinEnds: Float64Array, j: number): void {
+    if (ev.dynamic) {
+      this.addDynamic(ev, cache, pinEnds, j);
+      return;
+    }
     const cfg = ev.config;
     const T = ev.durationS;
     pinEnds[j] = ev.atStart(cfg.oC, cfg.oV, cfg.oS);
@@ -126,6 +140,56 @@ class CycleTotals {
     this.railCharge += ev.integralFull(cfg.railC, cfg.railV, cfg.railS);
     this.sourcedCharge += ev.positiveIntegral(cfg.iC, cfg.iV, cfg.iS, scratchT, scratchDir);
     this.addRanges(ev, cfg, cache);
+  }
+
+  /** add() for a multi-state piece: the same sums and extremes, on its rows. */
+  private addDynamic(ev: PieceEvaluator, cache: ConfigCache, pinEnds: Float64Array, j: number): void {
+    const cfg = ev.config;
+    const dyn = cfg.dyn!;
+    const T = ev.durationS;
+    const o = dyn.row(QUANTITY.o);
+    pinEnds[j] = ev.atRow(o, 0);
+    pinEnds[j + 1] = ev.atRow(o, T);
+    const pin = ev.integralRow(o);
+    if (ev.target) {
+      this.pinHighInt += pin;
+      this.pinHighS += T;
+    } else {
+      this.pinLowInt += pin;
+      this.pinLowS += T;
+    }
+    if (ev.logic) this.highPiece = cfg;
+    else this.lowPiece = cfg;
+    const rail = dyn.row(QUANTITY.rail);
+    const i = dyn.row(QUANTITY.i);
+    this.railCharge += ev.integralRow(rail);
+    this.sourcedCharge += ev.positiveIntegralRow(i, scratchT, scratchDir);
+    ev.rangeRow(rowN);
+    this.capMin = Math.min(this.capMin, ev.rangeMin);
+    this.capMax = Math.max(this.capMax, ev.rangeMax);
+    const p = dyn.row(QUANTITY.p);
+    ev.rangeRow(p);
+    this.pMin = Math.min(this.pMin, ev.rangeMin);
+    this.pMax = Math.max(this.pMax, ev.rangeMax);
+    rowDiff.set(p);
+    rowDiff[R_X + SLOT.N] -= 1;
+    ev.rangeRow(rowDiff);
+    this.diffMin = Math.min(this.diffMin, ev.rangeMin);
+    this.diffMax = Math.max(this.diffMax, ev.rangeMax);
+    ev.rangeRow(i);
+    this.iMin = Math.min(this.iMin, ev.rangeMin);
+    this.iMax = Math.max(this.iMax, ev.rangeMax);
+    if (cfg.stage === STAGE.limitedSource || cfg.stage === STAGE.limitedSink) {
+      this.limitedS += T;
+      const drive = cache.get(configKey(STAGE.driven, cfg.clamp, cfg.diodes));
+      ev.rangeRow(drive.dyn!.row(QUANTITY.i));
+      this.demandPeakA = Math.max(this.demandPeakA, Math.abs(ev.rangeMin), Math.abs(ev.rangeMax));
+    }
+    ev.rangeRow(rail);
+    this.supplyMax = Math.max(this.supplyMax, ev.rangeMax);
+    for (let c = 0; c < ROW; c++) rowSupply[c] = rail[c] + i[c];
+    ev.rangeRow(rowSupply);
+    this.supplyMax = Math.max(this.supplyMax, ev.rangeMax);
   }
 
   /**
@@ -202,7 +266,26 @@ const LOG_DURATION = LOG.durationS;
 function pinAtEnd(walk: OscillatorWalk, d: Float64Array, i: number): number {
   const b = i * LOG_STRIDE;
   const cfg = walk.cache.get(d[b + LOG_KEY]);
+  if (cfg.dyn) {
+    loggedState(d, b, endState);
+    endModal.set(cfg.dyn, endState, d[b + LOG_S0], d[b + LOG_RATE]);
+    return endModal.setRow(cfg.dyn.row(QUANTITY.o)).at(d[b + LOG_DURATION]);
+  }
   return cfg.oC + cfg.oV * d[b + LOG_VEND] + cfg.oS * (d[b + LOG_S0] + d[b + LOG_RATE] * d[b + LOG_DURATION]);
+}
+
+/** The capacitive nodes' voltages at the start of logged piece (record offset b). */
+function loggedState(d: Float64Array, b: number, out: Float64Array): Float64Array {
+  out[SLOT.N] = d[b + LOG_V0];
+  out[SLOT.P] = d[b + LOG.xP0];
+  out[SLOT.O] = d[b + LOG.xO0];
+  return out;
+}
+
+/** The pin at the start of logged piece (record offset b). */
+function pinAtStart(cfg: ConfigModel, d: Float64Array, b: number): number {
+  if (cfg.dyn) return rowAt(cfg.dyn.row(QUANTITY.o), loggedState(d, b, endState), d[b + LOG_S0]);
+  return cfg.oC + cfg.oV * d[b + LOG_V0] + cfg.oS * d[b + LOG_S0];
 }
 
 export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, memo?: Float64Array): void {
@@ -214,17 +297,17 @@ export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: n
   for (let i = cycle.startIndex; i < cycle.endIndex && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); i++) {
     const b = i * LOG_STRIDE;
     const pc = walk.cache.get(d[b + LOG_KEY]);
-    const start = pc.oC + pc.oV * d[b + LOG_V0] + pc.oS * d[b + LOG_S0] - levelV;
+    const start = pinAtStart(pc, d, b) - levelV;
     const end = pinAtEnd(walk, d, i) - levelV;
     const startS = d[i * LOG_STRIDE + LOG.startS];
     if (prevEnd < 0 && start >= 0 && Number.isNaN(riseAt)) riseAt = startS;
     else if (prevEnd >= 0 && start < 0 && Number.isNaN(fallAt)) fallAt = startS;
     prevEnd = end;
     // A plain exponential piece is monotone: a crossing inside shows as a sign change of its ends.
-    if (d[i * LOG_STRIDE + LOG.rate] === 0 && start < 0 === end < 0) continue;
+    if (!pc.dyn && d[i * LOG_STRIDE + LOG.rate] === 0 && start < 0 === end < 0) continue;
     ev.load(i);
     const cfg = ev.config;
-    const n = ev.crossings(cfg.oC - levelV, cfg.oV, cfg.oS, scratchT, scratchDir);
+    const n = cfg.dyn ? ev.crossingsRow(cfg.dyn.row(QUANTITY.o), -levelV, scratchT, scratchDir) : ev.crossings(cfg.oC - levelV, cfg.oV, cfg.oS, scratchT, scratchDir);
     if (memo) memo[i - cycle.startIndex] = n > 0 ? scratchT[0] : Number.NaN;
     for (let k = 0; k < n; k++) {
       if (scratchDir[k] > 0 && Number.isNaN(riseAt)) riseAt = startS + scratchT[k];
@@ -346,16 +429,17 @@ function firstCrossing(ev: PieceEvaluator, count: number, midV: number, memoStar
     ev.load(i);
     const cfg = ev.config;
     const c0 = cfg.oC - midV;
-    const start = ev.atStart(c0, cfg.oV, cfg.oS);
+    const o = cfg.dyn?.row(QUANTITY.o);
+    const start = o ? ev.atRow(o, 0) - midV : ev.atStart(c0, cfg.oV, cfg.oS);
     if (!Number.isNaN(prevEnd) && prevEnd < 0 !== start < 0) return ev.startS;
     const known = i >= memoStart && i < memoEnd ? memo[i - memoStart] : NOT_SEARCHED;
     if (known !== NOT_SEARCHED) {
       if (!Number.isNaN(known)) return ev.startS + known;
     } else {
-      const n = ev.crossings(c0, cfg.oV, cfg.oS, scratchT, scratchDir);
+      const n = o ? ev.crossingsRow(o, -midV, scratchT, scratchDir) : ev.crossings(c0, cfg.oV, cfg.oS, scratchT, scratchDir);
       if (n > 0) return ev.startS + scratchT[0];
     }
-    prevEnd = ev.atEnd(c0, cfg.oV, cfg.oS);
+    prevEnd = o ? ev.atRow(o, ev.durationS) - midV : ev.atEnd(c0, cfg.oV, cfg.oS);
   }
   return Number.NaN;
 }
@@ -367,5 +451,7 @@ function stateSummary(nominal: StateModel, cfg: ConfigModel | undefined, levelV:
   if (!cfg || !(cfg.a > 0)) {
     return { tauS: nominal.tauS, asymptoteV: nominal.asymptoteV, switchingV, sourceV, dwellS };
   }
-  return { tauS: 1 / cfg.a, asymptoteV: (cfg.b0 + cfg.bS * levelV) / cfg.a, switchingV, sourceV, dwellS };
+  // With more capacitive nodes the state's settling is its slowest mode; the asymptote is DC (no capacitance in it).
+  const tauS = cfg.dyn ? 1 / Math.min(...cfg.dyn.lambda.subarray(0, cfg.dyn.modeCount)) : 1 / cfg.a;
+  return { tauS, asymptoteV: (cfg.b0 + cfg.bS * levelV) / cfg.a, switchingV, sourceV, dwellS };
 }

@@ -6,6 +6,7 @@ import type { ConfigCache, ConfigModel } from './configs.ts';
 import { CapacitorKinematics } from './capacitor-kinematics.ts';
 import { LOG, LOG_STRIDE, type PieceLog } from './piece-log.ts';
 import { AffineProbe, extremumTime, PieceEnds, solveBracket } from './root-solve.ts';
+import { MAX_STATES, ModalKinematics, ROW, R_C, R_S, R_X, SLOT } from './modal.ts';
 
 export class PieceEvaluator {
   readonly kin = new CapacitorKinematics();
@@ -36,11 +37,33 @@ export class PieceEvaluator {
   /** The configuration of the loaded piece (set by load: no cache lookup per use). */
   config!: ConfigModel;
 
+  /** The multi-state motion of the loaded piece (set when its configuration is dynamic: modal.ts). */
+  readonly modal = new ModalKinematics();
+  /** The loaded piece is multi-state: read it with the row methods. */
+  dynamic = false;
+  private readonly x0 = new Float64Array(MAX_STATES);
+  private readonly span = new Float64Array(2);
+
   load(index: number): void {
     // The record read in place (this runs for every piece of every figure pass).
     const d = this.log.data;
     const base = index * LOG_STRIDE;
     const cfg = this.cache.get(d[base + LOG.key]);
+    if (cfg.dyn) {
+      this.dynamic = true;
+      this.x0[SLOT.N] = d[base + LOG.v0];
+      this.x0[SLOT.P] = d[base + LOG.xP0];
+      this.x0[SLOT.O] = d[base + LOG.xO0];
+      this.modal.set(cfg.dyn, this.x0, d[base + LOG.s0], d[base + LOG.rate]);
+      this.startS = d[base + LOG.startS];
+      this.durationS = d[base + LOG.durationS];
+      this.logic = d[base + LOG.logic];
+      this.target = d[base + LOG.target];
+      this.key = cfg.key;
+      this.config = cfg;
+      return;
+    }
+    this.dynamic = false;
     if (this.kin.shape !== this.cache.biasShape) this.kin.setShape(this.cache.biasShape, this.cache.spanV);
     const s0 = d[base + LOG.s0];
     const r = d[base + LOG.rate];
@@ -58,6 +81,56 @@ export class PieceEvaluator {
     const e = this.ends;
     // With r = 0, g' = cv·v' has strictly opposite signs at the ends only if v' has.
     this.monotone = r === 0 && !(e.dv0 < 0 && e.dvT > 0) && !(e.dv0 > 0 && e.dvT < 0);
+  }
+
+  // Row forms (a multi-state piece): g = row·[1, s, x_N, x_P, x_O] (modal.ts ROW).
+
+  /** A row at t into the loaded multi-state piece. */
+  atRow(row: ArrayLike<number>, t: number): number {
+    return this.modal.setRow(row).at(t);
+  }
+
+  /** Minimum and maximum of a row over the piece into rangeMin, rangeMax. */
+  rangeRow(row: ArrayLike<number>): void {
+    this.modal.setRow(row).range(this.durationS, this.span);
+    this.rangeMin = this.span[0];
+    this.rangeMax = this.span[1];
+  }
+
+  /** Crossings of a row (plus `offset`) through zero inside the piece: as crossings(). */
+  crossingsRow(row: ArrayLike<number>, offset: number, out: Float64Array, dir: Int8Array): number {
+    return this.modal.setRow(row, 1, offset).crossings(this.durationS, out, dir, out.length);
+  }
+
+  /** ∫ of a row over the whole piece. */
+  integralRow(row: ArrayLike<number>): number {
+    return this.modal.setRow(row).integral(this.durationS);
+  }
+
+  /** ∫ max(0, row) dt over the whole piece. */
+  positiveIntegralRow(row: ArrayLike<number>, scratchT: Float64Array, scratchDir: Int8Array): number {
+    const mk = this.modal.setRow(row);
+    const T = this.durationS;
+    const n = mk.crossings(T, scratchT, scratchDir, scratchT.length);
+    let total = 0;
+    let from = 0;
+    let positive = n > 0 ? scratchDir[0] < 0 : Math.max(mk.at(0), mk.at(T)) > 0;
+    for (let i = 0; i <= n; i++) {
+      const to = i < n ? scratchT[i] : T;
+      if (positive) total += mk.integral(to) - mk.integral(from);
+      if (i < n) positive = scratchDir[i] > 0;
+      from = to;
+    }
+    return total;
+  }
+
+  /** The one-capacitor triplet (c0, cv, cs) as a row (N is the capacitor). */
+  static tripletRow(c0: number, cv: number, cs: number, out: Float64Array): Float64Array {
+    out.fill(0);
+    out[R_C] = c0;
+    out[R_S] = cs;
+    out[R_X + SLOT.N] = cv;
+    return out;
   }
 
   /** ∫ g dt over the whole piece. */

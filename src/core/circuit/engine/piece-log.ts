@@ -22,8 +22,11 @@ export const LOG = {
   vEnd: 8,
   /** ∫ v dt over the whole piece, V·s. */
   integralV: 9,
+  /** Voltages of the other capacitive nodes at the start of the piece (P, output pin), V (0 when they have none). */
+  xP0: 10,
+  xO0: 11,
 } as const;
-export const LOG_STRIDE = 10;
+export const LOG_STRIDE = 12;
 
 export class PieceLog {
   data = new Float64Array(16 * LOG_STRIDE);

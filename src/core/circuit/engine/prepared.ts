@@ -142,7 +142,8 @@ export class PreparedModel {
     this.model = this.effects.length > 0 ? 'time-domain' : 'closed-form';
     // No amplifier effect can add a piece: the two-piece program applies (it still checks for event functions).
     // A C(v) capacitor's pieces are not exponentials: the full walk (its non-linear piece kinds) answers.
-    this.twoPiece = (!this.dynamics || this.effects.length === 0) && this.shape.biasShape.kind === 'flat';
+    // Capacitance at P or at the output pin: multi-state pieces, never one exponential per state.
+    this.twoPiece = (!this.dynamics || this.effects.length === 0) && this.shape.biasShape.kind === 'flat' && !this.shape.dynamic;
     this.roleSlots = layout.roleSlots;
     this.straySlots = Int32Array.from(layout.parameters.flatMap((p, i) => (p.kind === 'stray' ? [i] : [])));
     this.slewSlot = layout.indexOf('slewRateVPerS');
@@ -222,6 +223,7 @@ const twoPieceLow = new NetworkCoefficients();
  * undefined when the shape's pieces can end otherwise (the full walk answers).
  */
 function twoPieceCycle(shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, withTransitions: boolean, out: Float64Array): EvaluationStatus | undefined {
+  if (shape.dynamic) return undefined; // multi-state pieces: the walk answers
   // The two nominal configurations solved as the walk's ConfigCache would solve them (same arguments; the
   // current sums are not needed), without its per-evaluation bookkeeping: only these two are ever entered.
   const slot = shape.slot;

@@ -18,8 +18,15 @@ const MAX_ITERATIONS = 100;
 /** Relative bracket width at which a time is considered exact (a few ulps). */
 const RELATIVE_TIME_TOLERANCE = 4e-16;
 
+/** What the bracketed solver needs: a value and its slope at t. */
+export interface BracketProbe {
+  eval(t: number): void;
+  value: number;
+  slope: number;
+}
+
 /** Evaluates g (order 0) or g' (order 1) and its slope at t, for the bracketed solver. */
-export class AffineProbe {
+export class AffineProbe implements BracketProbe {
   c0 = 0;
   cv = 0;
   cs = 0;
@@ -62,7 +69,7 @@ export class AffineProbe {
  * < 0 at hi (values fLo, fHi). Returns a time on the hi side of the change
  * (the probe is already negative there), within a few ulps of the crossing.
  */
-export function solveBracket(probe: AffineProbe, lo: number, hi: number, fLo: number, fHi: number, relativeTolerance = RELATIVE_TIME_TOLERANCE): number {
+export function solveBracket(probe: BracketProbe, lo: number, hi: number, fLo: number, fHi: number, relativeTolerance = RELATIVE_TIME_TOLERANCE): number {
   let a = lo;
   let b = hi;
   const tolT = Math.max(relativeTolerance * Math.abs(hi), 1e-300);

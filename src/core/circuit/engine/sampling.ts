@@ -6,6 +6,9 @@
 import { CoreError } from '../../errors.ts';
 import { LOG } from './piece-log.ts';
 import type { OscillatorWalk, SteadyCycle } from './walker.ts';
+import { MAX_STATES, QUANTITY, rowAt, SLOT } from './modal.ts';
+
+const state = new Float64Array(MAX_STATES);
 
 /** Cap on samples per request: 200 000 × 4 series is about 8 MB of JSON. */
 export const MAX_WAVEFORM_SAMPLES = 200_000;
@@ -79,6 +82,16 @@ export function sampleWaveform(walk: OscillatorWalk, cycle: SteadyCycle, options
     }
     const cfg = walk.cache.get(ev.key);
     const local = Math.min(Math.max(t - ev.startS, 0), ev.durationS);
+    out.timeS[k] = rel;
+    if (cfg.dyn) {
+      // A multi-state piece: N, the pin and P from its modes.
+      ev.modal.state(local, state);
+      const s = ev.modal.s(local);
+      out.capacitorV[k] = state[SLOT.N];
+      out.outputV[k] = rowAt(cfg.dyn.row(QUANTITY.o), state, s);
+      out.decisionV[k] = rowAt(cfg.dyn.row(QUANTITY.p), state, s);
+      continue;
+    }
     const v = ev.kin.v(local);
     const s = ev.kin.s(local);
     out.timeS[k] = rel;

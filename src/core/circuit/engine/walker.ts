@@ -15,9 +15,13 @@
  * - Current limit: when the stage would source or sink more than the limit it
  *   becomes a current source of that size; s keeps its own motion so that the
  *   walk knows when the voltage drive would ask for less again (leave event).
- * - Open drain: the high level is "released" (no drive, no slew: pin
- *   capacitance is not modelled, so the rise is set by the network at once); a
- *   low level pulls down from the pin's voltage at the slew rate.
+ * - Open drain: the high level is "released" (no drive, no slew: without a
+ *   capacitance at the pin the rise is set by the network at once; with one,
+ *   the pin is a state and rises as the pull-up charges it); a low level pulls
+ *   down from the pin's voltage at the slew rate.
+ * - Capacitance at P or at the output pin (strays): those nodes are states of
+ *   the piece beside N, solved by the multi-state form (modal.ts); the walk,
+ *   its events and its decisions are the same.
  * - Input clamp and steering diodes: piecewise linear, on/off events.
  *
  * Every loop is bounded: a walk that does not repeat within the cycle bound
@@ -34,6 +38,8 @@ import { CapacitorKinematics } from './capacitor-kinematics.ts';
 import { PieceEvaluator } from './piece-evaluator.ts';
 import { LOG, PieceLog } from './piece-log.ts';
 import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
+import { MAX_STATES, ModalKinematics, QUANTITY, rowAt, SLOT } from './modal.ts';
+import type { DynamicModel } from './modal.ts';
 
 /** Full switching cycles the walk may take to repeat before it gives up. */
 export const MAX_CYCLES = 200;
@@ -57,6 +63,8 @@ const LOG_LOGIC = LOG.logic;
 const LOG_TARGET = LOG.target;
 const LOG_VEND = LOG.vEnd;
 const LOG_INTEGRAL = LOG.integralV;
+const LOG_XP0 = LOG.xP0;
+const LOG_XO0 = LOG.xO0;
 
 const TIME_TARGET = -1;
 const TIME_SLEW_END = -2;
@@ -113,6 +121,8 @@ class DecisionRecord {
   valid = false;
   t = 0;
   v = 0;
+  xP = 0;
+  xO = 0;
   s = 0;
   key = 0;
   target = 0;
@@ -130,6 +140,9 @@ export class OscillatorWalk {
   private readonly probe = new AffineProbe(this.kin);
   private readonly ends = new PieceEnds();
   private readonly endScratch = new Float64Array(2);
+  /** The multi-state form of the pieces (a shape with capacitance at P or at the output pin). */
+  private readonly modal = new ModalKinematics();
+  private readonly xScratch = new Float64Array(MAX_STATES);
   shape!: CompiledShape;
   values!: ArrayLike<number>;
   /** False: the closed-form special case (instant edges, no delay, clamp or current limit). */
@@ -143,6 +156,9 @@ export class OscillatorWalk {
 
   t = 0;
   v = 0;
+  /** Voltage of P and of the output pin when they are states (capacitance there), V; else 0. */
+  xP = 0;
+  xO = 0;
   s = 0;
   rate = 0;
   logic = 1;
@@ -216,12 +232,20 @@ export class OscillatorWalk {
     const high = initial === 'high' ? 1 : 0;
     this.t = 0;
     this.v = 0;
+    this.xP = this.xO = 0;
     this.logic = this.target = high;
     this.stage = this.cache.openDrain && high ? STAGE.released : STAGE.driven;
     this.s = high ? this.highV : this.lowV;
     this.rate = 0;
     this.clamp = CLAMP.off;
     this.diodes = diodeBits(this.shape.topology.nominalDiodes?.(initial));
+    if (this.shape.dynamic) {
+      // The timing capacitor starts empty; the small capacitances at P and at the pin start where the
+      // network holds them then (their quasi-static values: the one-capacitor model's power-up).
+      const cfg = this.cache.get(this.key);
+      this.xP = this.shape.capacitiveThreshold ? cfg.pC + cfg.pS * this.s : 0;
+      this.xO = this.shape.capacitiveOutput ? cfg.oC + cfg.oS * this.s : 0;
+    }
     this.pendingCount = 0;
     this.pendingHead = 0;
     this.log.clear();
@@ -263,7 +287,8 @@ export class OscillatorWalk {
    * False when the state does not carry over (the caller walks from power-up).
    */
   startFrom(start: SteadyStart): boolean {
-    if (!start.valid) return false;
+    // With more capacitive nodes the switching state carries their voltages too: walk from power-up.
+    if (!start.valid || this.shape.dynamic) return false;
     this.t = 0;
     this.logic = start.logic;
     this.target = start.target;
@@ -329,6 +354,10 @@ export class OscillatorWalk {
 
   private step(): void {
     const cfg = this.cache.get(this.key);
+    if (cfg.dyn) {
+      this.stepDynamic(cfg, cfg.dyn);
+      return;
+    }
     const kin = this.kin;
     kin.set(cfg.a, cfg.b0 + cfg.bS * this.s, cfg.bS * this.rate, this.v, this.s, this.rate);
     let best = Infinity;
@@ -399,6 +428,102 @@ export class OscillatorWalk {
       this.flippedNow = false;
       this.recordDecision();
     }
+  }
+
+  /** The state of the capacitive nodes now (the pin follows a stiff source that holds it). */
+  private stateNow(dyn: DynamicModel): Float64Array {
+    if (dyn.oPinned) this.xO = this.s;
+    const x = this.xScratch;
+    x[SLOT.N] = this.v;
+    x[SLOT.P] = this.xP;
+    x[SLOT.O] = this.xO;
+    return x;
+  }
+
+  /** step() for a piece with more than one capacitive node: the same events, found on the multi-state motion. */
+  private stepDynamic(cfg: ConfigModel, dyn: DynamicModel): void {
+    const mk = this.modal;
+    const x = this.stateNow(dyn);
+    mk.set(dyn, x, this.s, this.rate);
+    let best = Infinity;
+    let kind = 0;
+    let index = 0;
+    if (this.pendingCount > 0) {
+      best = Math.max(0, this.pending[this.pendingHead] - this.t);
+      kind = TIME_TARGET;
+    }
+    if (this.rate !== 0) {
+      const dt = Math.max(0, (this.targetLevel() - this.s) / this.rate);
+      if (dt < best) {
+        best = dt;
+        kind = TIME_SLEW_END;
+      }
+    }
+    const sg = this.logic ? 1 : -1;
+    let te = mk.setRow(dyn.row(QUANTITY.h), sg, this.halfHystV).firstExit(best, this.vTol);
+    if (te < best) {
+      best = te;
+      kind = EVENT.threshold;
+    }
+    for (let k = 0; k < cfg.eventCount; k++) {
+      te = mk.setRow(dyn.row(QUANTITY.event0 + k)).firstExit(best, cfg.evTol[k]);
+      if (te < best) {
+        best = te;
+        kind = cfg.evKind[k];
+        index = cfg.evIndex[k];
+      }
+    }
+    if (best === Infinity) this.latch(cfg);
+    if (kind === EVENT.threshold) this.refuseChatter(best, dyn);
+    if (best > 0) {
+      const i = this.log.append();
+      const d = this.log.data;
+      d[i + LOG_START] = this.t;
+      d[i + LOG_DURATION] = best;
+      d[i + LOG_V0] = this.v;
+      d[i + LOG_S0] = this.s;
+      d[i + LOG_RATE] = this.rate;
+      d[i + LOG_KEY] = cfg.key;
+      d[i + LOG_LOGIC] = this.logic;
+      d[i + LOG_TARGET] = this.target;
+      d[i + LOG_XP0] = this.xP;
+      d[i + LOG_XO0] = this.xO;
+      mk.state(best, x);
+      d[i + LOG_VEND] = x[SLOT.N];
+      d[i + LOG_INTEGRAL] = mk.integralState(SLOT.N, best);
+      this.v = x[SLOT.N];
+      this.xP = x[SLOT.P];
+      this.xO = x[SLOT.O];
+      this.s = mk.s(best);
+      this.t += best;
+    }
+    this.apply(kind, index);
+    this.resolve();
+    if (this.flippedNow) {
+      this.flippedNow = false;
+      this.recordDecision();
+    }
+  }
+
+  /**
+   * With capacitance at P the positive feedback is no longer instant: when the output switches, P
+   * follows through its own RC while N moves at once, and if N runs ahead the comparator switches
+   * straight back — an ideal comparator then chatters at no time scale at all. A decision that comes
+   * within 1e-9 of the previous interval is that, and is refused instead of reported as a period.
+   */
+  private refuseChatter(afterS: number, dyn: DynamicModel): void {
+    // "Within no time": a billionth of the piece's fastest time constant, after a decision as close.
+    let fastest = 0;
+    for (let i = 0; i < dyn.modeCount; i++) fastest = Math.max(fastest, dyn.lambda[i]);
+    const instantS = fastest > 0 ? 1e-9 / fastest : 0;
+    const last = Number.isNaN(this.lastRiseT) ? this.lastFallT : Number.isNaN(this.lastFallT) ? this.lastRiseT : Math.max(this.lastRiseT, this.lastFallT);
+    if (!(afterS <= instantS && this.t - last <= instantS)) return;
+    throw new CoreError(
+      'no-oscillation',
+      'The capacitance at the threshold node P (or at the output pin) delays the positive feedback so much that, when the output switches, the timing node runs ahead of the threshold and the comparator switches straight back: the output chatters instead of oscillating',
+      undefined,
+      { stuckState: this.logic ? 'high' : 'low', model: 'time-domain' },
+    );
   }
 
   private targetLevel(): number {
@@ -483,8 +608,13 @@ export class OscillatorWalk {
   private decisionDelayS(): number {
     if (!(this.delayChargeVS > 0)) return this.delayS;
     const cfg = this.cache.get(this.key);
-    const dv = (cfg.b0 + cfg.bS * this.s - cfg.a * this.v) / this.kin.shape.ratio(this.v);
-    const slope = Math.abs(cfg.hV * dv + cfg.hS * this.rate);
+    let slope: number;
+    if (cfg.dyn) {
+      slope = Math.abs(cfg.dyn.rowRate(cfg.dyn.row(QUANTITY.h), this.stateNow(cfg.dyn), this.s, this.rate));
+    } else {
+      const dv = (cfg.b0 + cfg.bS * this.s - cfg.a * this.v) / this.kin.shape.ratio(this.v);
+      slope = Math.abs(cfg.hV * dv + cfg.hS * this.rate);
+    }
     return slope > 0 ? delayForRampS({ floorS: this.delayS, chargeVS: this.delayChargeVS }, slope) : this.delayS;
   }
 
@@ -518,6 +648,7 @@ export class OscillatorWalk {
 
   private pinV(): number {
     const cfg = this.cache.get(this.key);
+    if (cfg.dyn) return rowAt(cfg.dyn.row(QUANTITY.o), this.stateNow(cfg.dyn), this.s);
     return cfg.oC + cfg.oV * this.v + cfg.oS * this.s;
   }
 
@@ -543,11 +674,13 @@ export class OscillatorWalk {
       const v = this.v;
       const s = this.s;
       const sg = this.logic ? 1 : -1;
-      let worst = (sg * (cfg.hC + cfg.hV * v + cfg.hS * s) + this.halfHystV) / this.vTol;
+      const dyn = cfg.dyn;
+      const x = dyn ? this.stateNow(dyn) : this.xScratch;
+      let worst = (sg * (dyn ? rowAt(dyn.row(QUANTITY.h), x, s) : cfg.hC + cfg.hV * v + cfg.hS * s) + this.halfHystV) / this.vTol;
       let kind: number = EVENT.threshold;
       let index = 0;
       for (let k = 0; k < cfg.eventCount; k++) {
-        const r = (cfg.evC[k] + cfg.evV[k] * v + cfg.evS[k] * s) / cfg.evTol[k];
+        const r = (dyn ? rowAt(dyn.row(QUANTITY.event0 + k), x, s) : cfg.evC[k] + cfg.evV[k] * v + cfg.evS[k] * s) / cfg.evTol[k];
         if (r < worst) {
           worst = r;
           kind = cfg.evKind[k];
@@ -569,6 +702,7 @@ export class OscillatorWalk {
    * both directions finds the repeat half a cycle sooner after power-up.
    */
   private recordDecision(): void {
+    if (this.cache.get(this.key).dyn?.oPinned) this.xO = this.s;
     const pendingRelS = this.pendingCount > 0 ? this.pending[this.pendingHead] - this.t : 0;
     const key = this.key;
     const r = this.rec[this.logic];
@@ -579,6 +713,8 @@ export class OscillatorWalk {
       this.target === r.target &&
       this.pendingCount === r.pending &&
       Math.abs(this.v - r.v) <= this.steadyTolV &&
+      Math.abs(this.xP - r.xP) <= this.steadyTolV &&
+      Math.abs(this.xO - r.xO) <= this.steadyTolV &&
       Math.abs(this.s - r.s) <= this.steadyTolV &&
       Math.abs(pendingRelS - r.pendingRelS) <= STEADY_STATE_TOLERANCE * (this.t - r.t)
     ) {
@@ -611,6 +747,8 @@ export class OscillatorWalk {
     r.valid = true;
     r.t = this.t;
     r.v = this.v;
+    r.xP = this.xP;
+    r.xO = this.xO;
     r.s = this.s;
     r.key = key;
     r.target = this.target;
@@ -638,7 +776,8 @@ export class OscillatorWalk {
     h[0] = h[1];
     h[1] = h[2];
     h[2] = this.s;
-    if (++this.accCount < 3) return false;
+    // The extrapolation places N on the switching line from s alone: one capacitive node only.
+    if (++this.accCount < 3 || this.shape.dynamic) return false;
     const d1 = h[1] - h[0];
     const d2 = h[2] - h[1];
     const ratio = d2 / d1;
