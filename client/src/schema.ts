@@ -2367,12 +2367,12 @@ export interface components {
              */
             timingNodeF?: number;
             /**
-             * @description Board capacitance at the threshold node P (non-inverting input) to ground, F (default 0). Only 0 is modelled yet: above 0 the answer is 422 not-modelled
+             * @description Board capacitance at the threshold node P (non-inverting input) to ground, F (default 0). Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces); beside a class II/III C(V) capacitor: 422 not-modelled
              * @default 0
              */
             thresholdNodeF?: number;
             /**
-             * @description Board capacitance at the output pin to ground, F (default 0). Would make an open-drain rise an RC with the pull-up; only 0 is modelled yet: above 0 the answer is 422 not-modelled
+             * @description Board capacitance at the output pin to ground, F (default 0). Makes the pin an RC of its own: an open-drain rise charges it through the pull-up, a driven pin through the output resistance (solved exactly); beside a class II/III C(V) capacitor: 422 not-modelled
              * @default 0
              */
             outputNodeF?: number;

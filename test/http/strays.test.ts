@@ -48,7 +48,7 @@ describe('strays in /v1/analyze', () => {
     for (const body of [
       { ...timebase, amplifier: { outputResistanceOhm: 100 }, strays: { thresholdNodeF: 3e-9 } },
       { ...timebase, amplifier: { outputResistanceOhm: 100 }, strays: { outputNodeF: 20e-9 } },
-      { ...timebase, amplifier: { outputResistanceOhm: 100, inputCapacitanceF: 4e-9 } },
+      { ...timebase, amplifier: { outputResistanceOhm: 100, inputCapacitanceF: 1e-9 } },
     ]) {
       const res = await post('/v1/analyze', body);
       expect(res.statusCode).toBe(200);

@@ -118,8 +118,14 @@ export const Strays = Type.Object(
       'at the timing node N (inverting input)',
       `Adds to the timing capacitor together with the amplifier's inputCapacitanceF; the timing capacitor should be ≥ ${TIMING_STRAY_RATIO_MIN}× their sum (check stray-capacitance-significant). Beside a class II/III capacitor it is a flat part of the node's C(V)`,
     ),
-    thresholdNodeF: strayF('at the threshold node P (non-inverting input)', 'Only 0 is modelled yet: above 0 the answer is 422 not-modelled'),
-    outputNodeF: strayF('at the output pin', 'Would make an open-drain rise an RC with the pull-up; only 0 is modelled yet: above 0 the answer is 422 not-modelled'),
+    thresholdNodeF: strayF(
+      'at the threshold node P (non-inverting input)',
+      "Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces); beside a class II/III C(V) capacitor: 422 not-modelled",
+    ),
+    outputNodeF: strayF(
+      'at the output pin',
+      'Makes the pin an RC of its own: an open-drain rise charges it through the pull-up, a driven pin through the output resistance (solved exactly); beside a class II/III C(V) capacitor: 422 not-modelled',
+    ),
     timingLeakageOhm: leakageOhm('across the timing capacitor (N)'),
     thresholdLeakageOhm: leakageOhm('at the threshold node P'),
   },

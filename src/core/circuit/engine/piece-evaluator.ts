@@ -6,7 +6,7 @@ import type { ConfigCache, ConfigModel } from './configs.ts';
 import { CapacitorKinematics } from './capacitor-kinematics.ts';
 import { LOG, LOG_STRIDE, type PieceLog } from './piece-log.ts';
 import { AffineProbe, extremumTime, PieceEnds, solveBracket } from './root-solve.ts';
-import { MAX_STATES, ModalKinematics, ROW, R_C, R_S, R_X, SLOT } from './modal.ts';
+import { MAX_STATES, ModalKinematics, R_C, R_S, R_X, SLOT } from './modal.ts';
 
 export class PieceEvaluator {
   readonly kin = new CapacitorKinematics();
