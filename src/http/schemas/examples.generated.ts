@@ -1606,7 +1606,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "toleranceChiSquare": 5.691431677861721,
           "measurementCount": 5,
           "chiSquareBound95": 11.043946211607775,
-          "nominalScore": 0.7976066053280813,
+          "nominalScore": 0.7976065581023767,
           "statement": "The measurements agree with the nominal circuit within its tolerances (χ² 5.69 for 5 measurements, 95 % bound 11.0)."
         },
         "explanations": [
@@ -1632,7 +1632,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "relativeShift": 0.08150806098463037
               }
             ],
-            "score": 0.04809694367178068,
+            "score": 0.04809694082399577,
             "logEvidence": -11.173635761456051,
             "residualChiSquare": 0.5506727846219915,
             "measurementCount": 5,
@@ -1699,7 +1699,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "relativeShift": 0.07670427133546309
               }
             ],
-            "score": 0.04534961239688203,
+            "score": 0.0453496097117646,
             "logEvidence": -11.232452765823629,
             "residualChiSquare": 0.5362443032579898,
             "measurementCount": 5,
@@ -1764,7 +1764,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "input bias current 1 pA -> 2.84 pA, inside its class-typical spread"
               }
             ],
-            "score": 0.022787683083929373,
+            "score": 0.022787681734687298,
             "logEvidence": -11.92063422104749,
             "residualChiSquare": 5.691431599166274,
             "measurementCount": 5,
@@ -1829,7 +1829,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread"
               }
             ],
-            "score": 0.02239835435585117,
+            "score": 0.022398353029660967,
             "logEvidence": -11.93786690551615,
             "residualChiSquare": 5.691241514447325,
             "measurementCount": 5,
@@ -1894,7 +1894,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output high level 2.48 V -> 2.484 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016357690951377395,
+            "score": 0.01635768998285046,
             "logEvidence": -12.252156214099651,
             "residualChiSquare": 5.646796808589731,
             "measurementCount": 5,
@@ -1959,7 +1959,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "input offset 1 mV -> 448.3 µV, inside its class-typical spread"
               }
             ],
-            "score": 0.016327710484562875,
+            "score": 0.01632770951781106,
             "logEvidence": -12.253990701296093,
             "residualChiSquare": 5.6699331649019635,
             "measurementCount": 5,
@@ -2024,7 +2024,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output low level -2.48 V -> -2.483 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016320020750458256,
+            "score": 0.016320019784161748,
             "logEvidence": -12.254461774412412,
             "residualChiSquare": 5.662114529084074,
             "measurementCount": 5,
@@ -2078,20 +2078,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "stray",
                 "unit": "F",
                 "nominal": 0,
-                "estimate": 1.0583752333589727e-10,
-                "standardDeviation": 1.0005300975122808e-10,
+                "estimate": 1.058422157903993e-10,
+                "standardDeviation": 1.0005242013880206e-10,
                 "priorStandardDeviation": 1.6244296674544185e-11,
-                "shift": 1.0583752333589727e-10,
-                "shiftInTolerances": 0.41725526795567147,
-                "posteriorToPriorSd": 0.7931573327212075,
+                "shift": 1.058422157903993e-10,
+                "shiftInTolerances": 0.4172676676263108,
+                "posteriorToPriorSd": 0.79316050375612,
                 "withinTolerance": false,
                 "fault": "stray",
                 "text": "a capacitance of 106 pF at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node)"
               }
             ],
-            "score": 0.014755378977077164,
-            "logEvidence": -12.355246702702164,
-            "residualChiSquare": 3.144071830612856,
+            "score": 0.014755437312691688,
+            "logEvidence": -12.355242689985545,
+            "residualChiSquare": 3.143978670857317,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -2099,37 +2099,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 9867.778030610712,
+                "predicted": 9867.768571837118,
                 "uncertainty": 5,
-                "normalized": 111.55560612214249
+                "normalized": 111.55371436742352
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150427514181,
+                "predicted": 0.5002150427525436,
                 "uncertainty": 0.002,
-                "normalized": 0.10752137570907427
+                "normalized": 0.10752137627179081
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7835223909545723,
+                "predicted": 0.7835223822431777,
                 "uncertainty": 0.01,
-                "normalized": -0.6477609045427712
+                "normalized": -0.6477617756822318
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.7815346915950382,
+                "predicted": -0.781534682870766,
                 "uncertainty": 0.01,
-                "normalized": 0.8465308404961847
+                "normalized": 0.846531712923404
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007701345252071364,
+                "predicted": 0.00007701352771720742,
                 "uncertainty": 8e-7,
-                "normalized": -5.358184349107948
+                "normalized": -5.358090353490724
               }
             ],
             "summary": "a capacitance of 106 pF at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node): accounts for the measurements (χ² 3.14 for 5, other parts within their tolerances)"
