@@ -561,7 +561,9 @@ export class VariationTerms {
   }
 
   apply(u: Float64Array, values: Float64Array): void {
-    values.set(this.nominal);
+    // A loop, not values.set(): the vector has a couple of dozen entries and the builtin call costs more.
+    const nominal = this.nominal;
+    for (let i = 0; i < nominal.length; i++) values[i] = nominal[i];
     const { mP, mD, mS } = this;
     for (let i = 0; i < mP.length; i++) values[mP[i]] *= 1 + mS[i] * u[mD[i]];
     if (this.tDim >= 0) {
