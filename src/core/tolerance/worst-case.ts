@@ -69,7 +69,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     for (let o = 0; o < OBJECTIVES.length; o++) {
       const s = score(OBJECTIVES[o], r.frequencyHz, r.dutyCycle);
       const current = best[o];
-      if (!current || s > current.score) best[o] = { score: s, point: Float64Array.from(point), ...r };
+      if (!current || s > current.score) best[o] = { score: s, point: point.slice(), frequencyHz: r.frequencyHz, dutyCycle: r.dutyCycle };
     }
   };
   const corner = (bits: (k: number) => boolean) => Float64Array.from(dims, (d, k) => (bits(k) ? d.high : d.low));
@@ -95,7 +95,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     const center = model.centerPoint();
     const ends = dims.map((d, k) =>
       [d.low, d.high].map((x) => {
-        const p = Float64Array.from(center);
+        const p = center.slice();
         p[k] = x;
         return evaluate(p);
       }),
@@ -140,7 +140,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         let candidateBits = flipBit(bits, k);
         if (l !== undefined) candidateBits = flipBit(candidateBits, l);
         if (remember && visited.has(candidateBits) && !better(visited.get(candidateBits))) return false;
-        const candidate = Float64Array.from(point);
+        const candidate = point.slice();
         flip(candidate, k);
         if (l !== undefined) flip(candidate, l);
         const r = evaluateCorner(candidate, candidateBits);
