@@ -103,9 +103,9 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     // The four ascents revisit corners (each other's starts and neighbours): a corner is evaluated once, keyed
     // by its bits (bit k set: dimension k at its high end). The model is deterministic, so a remembered
     // result is the result; it was offered to every objective when first evaluated.
-    // (Bits are exact integers up to 2^53: beyond 52 dimensions nothing is remembered.)
+    // (Bits of a 32-bit integer: beyond 30 dimensions nothing is remembered.)
     const visited = new Map<number, { frequencyHz: number; dutyCycle: number } | undefined>();
-    const remember = n <= 52;
+    const remember = n <= 30;
     const evaluateCorner = (p: Float64Array, bits: number) => {
       if (!remember) {
         const fresh = evaluate(p);
@@ -118,13 +118,12 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
       if (r) offer(p, r);
       return r;
     };
-    const bitOf = (k: number) => 2 ** k;
     for (const o of OBJECTIVES) {
       let bits = 0;
       const start = corner((k) => {
         const [lo, hi] = ends[k];
         const high = !lo || !hi ? hi !== undefined : score(o, hi.frequencyHz, hi.dutyCycle) >= score(o, lo.frequencyHz, lo.dutyCycle);
-        if (high) bits += bitOf(k);
+        if (high) bits |= 1 << k;
         return high;
       });
       let current = evaluateCorner(start, bits);
@@ -134,11 +133,10 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
       const flip = (p: Float64Array, k: number) => {
         p[k] = p[k] === dims[k].high ? dims[k].low : dims[k].high;
       };
-      const flipBit = (b: number, k: number) => (Math.floor(b / bitOf(k)) % 2 === 1 ? b - bitOf(k) : b + bitOf(k));
       /** Evaluate the point with coordinates k (and l) flipped; move there when it improves the objective. */
       const tryFlips = (k: number, l?: number): boolean => {
-        let candidateBits = flipBit(bits, k);
-        if (l !== undefined) candidateBits = flipBit(candidateBits, l);
+        let candidateBits = bits ^ (1 << k);
+        if (l !== undefined) candidateBits ^= 1 << l;
         if (remember && visited.has(candidateBits) && !better(visited.get(candidateBits))) return false;
         const candidate = point.slice();
         flip(candidate, k);
