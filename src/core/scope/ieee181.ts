@@ -14,8 +14,13 @@
  *   is where the output is flattest in each state: the pin at the instant the
  *   output stage starts to leave the state (an output approaching its level
  *   monotonically is flattest at the end; a waveform that never settles has its
- *   turning point there). On samples it is the histogram's modal bin refined to
- *   the centroid of the bins around it (`histogramModeLevels`).
+ *   turning point there). On samples the histogram's modal bin, refined to
+ *   the centroid of the bins around it (`histogramModeLevels`), finds the
+ *   states and the transitions between them; the level is then read where the
+ *   definition puts it, by a local fit over the end of each state evaluated
+ *   where the output starts to leave it (src/core/fit/capture/scope-readings.ts,
+ *   endOfStateLevels): on a tilted top the modal window leans into the tilt,
+ *   on a flat one both agree.
  * - **Reference levels**: fractions of the amplitude above the low state
  *   (`REFERENCE_FRACTION`, §5.3.2); the 50 % reference-level instant is the
  *   transition's time.

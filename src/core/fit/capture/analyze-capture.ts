@@ -1,7 +1,7 @@
 import { CoreError } from '../../errors.ts';
 import type { CrossingOptions, IntervalStats } from './crossings.ts';
 import { stateLevelsInRange } from './levels.ts';
-import { readCapacitor, readOutput, type Spread } from './scope-readings.ts';
+import { readCapacitor, readOutput, sampleNoiseV, type Spread } from './scope-readings.ts';
 import { assertFiniteSamples } from './sample-checks.ts';
 import { explicitClock, uniformClock } from './sample-clock.ts';
 import type { SampleClock } from './sample-clock.ts';
@@ -272,7 +272,8 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
     }
   }
   if (capacitor !== undefined) {
-    const turning = findTurningPoints(capacitor, clock, { hysteresisV: TURNING_POINT_HYSTERESIS * (capacitorRange!.maxV - capacitorRange!.minV) });
+    const noiseV = sampleNoiseV(capacitor, n, capacitorRange!.stepV);
+    const turning = findTurningPoints(capacitor, clock, { hysteresisV: TURNING_POINT_HYSTERESIS * (capacitorRange!.maxV - capacitorRange!.minV), noiseV });
     const maxima = turning.filter((p) => p.kind === 'max').length;
     const minima = turning.filter((p) => p.kind === 'min').length;
     if (output === undefined && maxima < 2 && minima < 2) {
@@ -283,7 +284,7 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
     }
     let periodHintS = features! ? features.periodS : Number.NaN;
     if (!Number.isFinite(periodHintS)) periodHintS = turning.length > 2 ? (2 * (turning[turning.length - 1].timeS - turning[0].timeS)) / (turning.length - 1) : durationS;
-    const read = readCapacitor(capacitor, clock, turning, periodHintS);
+    const read = readCapacitor(capacitor, clock, turning, periodHintS, capacitorRange!.stepV, noiseV);
     if (features! === undefined) {
       if (read.period === undefined) throw bad('capacitor turning points too close to the record ends to time a full period', 'too-few-edges', '/capacitor', { edgeCount: turning.length });
       features = timing('capacitor', read.period);

@@ -44,14 +44,70 @@ export interface OutputReadings {
   fall: Spread | undefined;
 }
 
+/** Share of each state, before the output leaves it, that the end-of-state fit reads (our choice). */
+const STATE_END_SHARE = 0.3;
+/** Fewest samples an end-of-state fit takes. */
+const STATE_END_MIN_SAMPLES = 8;
+
 /**
- * Reference instants of the output between its histogram-mode state levels
- * (../../scope/ieee181.ts): one pass over the samples for the transitions,
- * then per cycle the period (like-direction 50 % instants), the duty cycle
- * (rising to falling 50 % instant over the cycle) and the 10–90 % durations.
+ * The state levels as the shared definition reads them on the exact cycle
+ * (../../scope/ieee181.ts): the pin at the instant the output starts to leave
+ * the state. On samples: per state, a quadratic through the samples of its
+ * last STATE_END_SHARE (clear of both transitions by one transition duration)
+ * evaluated at the instant the departing transition starts (its 10–90 %
+ * line extended to 0 %, t_leave = startS − durationS/8). A tilted top (an
+ * open-drain pull-up loaded by the timing resistor, an output resistance)
+ * then reads its end value as the model does, where the histogram's modal
+ * window leans into the tilt; a flat top reads its mean, as the mode does.
+ * Undefined when no state holds enough samples.
  */
-export function readOutput(values: Float64Array, clock: SampleClock, highV: number, lowV: number, crossing: CrossingOptions = {}): OutputReadings {
-  const transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
+function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions: readonly Transition[]): { highV?: number; lowV?: number } {
+  const n = Math.min(values.length, clockLength(clock));
+  const highs: number[] = [];
+  const lows: number[] = [];
+  for (let k = 1; k < transitions.length; k++) {
+    const arrive = transitions[k - 1];
+    const leave = transitions[k];
+    const leaveS = leave.startS - leave.durationS / 8;
+    const fromS = arrive.endS + arrive.durationS;
+    const toS = leave.startS - leave.durationS;
+    const stateS = toS - fromS;
+    if (!(stateS > 0)) continue;
+    const i1 = Math.min(n - 1, Math.floor(indexAtTime(clock, toS)));
+    const i0 = Math.max(0, Math.ceil(indexAtTime(clock, toS - STATE_END_SHARE * stateS)));
+    if (i1 - i0 + 1 < STATE_END_MIN_SAMPLES) continue;
+    const q = quadraticFit(values, clock, i0, i1, leaveS);
+    if (!q || !Number.isFinite(q[0])) continue;
+    (leave.direction === 'falling' ? highs : lows).push(q[0]);
+  }
+  const mean = (xs: number[]) => (xs.length === 0 ? undefined : xs.reduce((a, b) => a + b, 0) / xs.length);
+  const out: { highV?: number; lowV?: number } = {};
+  const h = mean(highs);
+  const l = mean(lows);
+  if (h !== undefined) out.highV = h;
+  if (l !== undefined) out.lowV = l;
+  return out;
+}
+
+/**
+ * Reference instants of the output between its state levels
+ * (../../scope/ieee181.ts): the histogram-mode levels find the transitions,
+ * the end-of-state levels (endOfStateLevels) replace them, and the
+ * transitions are found again between those; then per cycle the period
+ * (like-direction 50 % instants), the duty cycle (rising to falling 50 %
+ * instant over the cycle) and the 10–90 % durations.
+ */
+export function readOutput(values: Float64Array, clock: SampleClock, modeHighV: number, modeLowV: number, crossing: CrossingOptions = {}): OutputReadings {
+  let highV = modeHighV;
+  let lowV = modeLowV;
+  let transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
+  const ends = endOfStateLevels(values, clock, transitions);
+  // Only a refinement: levels that would not keep the two states apart leave the modes in place.
+  if (ends.highV !== undefined && ends.lowV !== undefined && ends.highV - ends.lowV > 0.5 * (modeHighV - modeLowV)) {
+    highV = ends.highV;
+    lowV = ends.lowV;
+    transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
+  }
   const periods: number[] = [];
   const duties: number[] = [];
   const rises: number[] = [];
@@ -171,28 +227,42 @@ function firstPast(values: Float64Array, from: number, to: number, levelV: numbe
  * Instant the samples cross levelV between indices [from, to] in the given
  * direction: the first sample past the level, then a local quadratic fit over
  * ±halfWidth samples solved for the level (noise averages out; a noisy record
- * that wiggles across the level still gives one instant).
+ * that wiggles across the level still gives one instant). On a small swing
+ * the first sample past the level can be a noise or quantisation excursion
+ * far ahead of the crossing: the fit is re-centred on its own root until it
+ * stays within a sample (a few rounds), so the answer is where the fitted
+ * curve crosses, not where the noise first did.
  */
 function levelCrossing(values: Float64Array, clock: SampleClock, from: number, to: number, levelV: number, rising: boolean, halfWidth: number): number {
   const n = Math.min(values.length, clockLength(clock));
-  const i = firstPast(values, from, to, levelV, rising);
-  if (i > to || i - halfWidth < 0 || i + halfWidth > n - 1) return Number.NaN;
-  const t0 = timeAt(clock, i);
-  const q = quadraticFit(values, clock, i - halfWidth, i + halfWidth, t0);
-  if (!q) return Number.NaN;
-  // Root of c0 − level + c1·u + c2·u² nearest u = 0 (Newton from 0 converges on the steep part).
-  let u = 0;
-  for (let k = 0; k < 20; k++) {
-    const f = q[0] - levelV + u * (q[1] + u * q[2]);
-    const d = q[1] + 2 * u * q[2];
-    if (!(Math.abs(d) > 0)) return Number.NaN;
-    const step = f / d;
-    u -= step;
-    if (Math.abs(step) < 1e-12 * (Math.abs(u) + (timeAt(clock, i + 1) - t0))) break;
+  let i = firstPast(values, from, to, levelV, rising);
+  if (i > to) return Number.NaN;
+  for (let round = 0; round < RECENTRE_ROUNDS; round++) {
+    if (i - halfWidth < 0 || i + halfWidth > n - 1) return Number.NaN;
+    const t0 = timeAt(clock, i);
+    const q = quadraticFit(values, clock, i - halfWidth, i + halfWidth, t0);
+    if (!q) return Number.NaN;
+    // Root of c0 − level + c1·u + c2·u² nearest u = 0 (Newton from 0 converges on the steep part).
+    let u = 0;
+    for (let k = 0; k < 20; k++) {
+      const f = q[0] - levelV + u * (q[1] + u * q[2]);
+      const d = q[1] + 2 * u * q[2];
+      if (!(Math.abs(d) > 0)) return Number.NaN;
+      const step = f / d;
+      u -= step;
+      if (Math.abs(step) < 1e-12 * (Math.abs(u) + (timeAt(clock, i + 1) - t0))) break;
+    }
+    const spanS = timeAt(clock, i + halfWidth) - t0;
+    if (!(Math.abs(u) <= spanS)) return Number.NaN;
+    const next = Math.round(indexAtTime(clock, t0 + u));
+    if (Math.abs(next - i) <= 1) return t0 + u;
+    i = next;
   }
-  const spanS = timeAt(clock, i + halfWidth) - t0;
-  return Math.abs(u) <= spanS ? t0 + u : Number.NaN;
+  return Number.NaN;
 }
+
+/** Re-centring rounds of a level crossing's local fit (each moves it at most its half-width). */
+const RECENTRE_ROUNDS = 4;
 
 export interface CapacitorReadings {
   maxV: Spread | undefined;
@@ -205,11 +275,37 @@ export interface CapacitorReadings {
   turningPointCount: number;
 }
 
-export function readCapacitor(values: Float64Array, clock: SampleClock, turningPoints: readonly TurningPoint[], periodHintS: number): CapacitorReadings {
+/**
+ * Sample noise, V (1σ): the mean absolute second difference over the record,
+ * which for white noise of σ is σ·√6·√(2/π) (the signal's own curvature is
+ * negligible at scope sampling rates except at a few corner samples). A
+ * quantised record's rounding error counts too, at least step/√12 (the
+ * uniform rounding error of an ADC, common practice).
+ */
+export function sampleNoiseV(values: Float64Array, n: number, stepV: number): number {
+  let sum = 0;
+  for (let i = 1; i + 1 < n; i++) sum += Math.abs(values[i + 1] - 2 * values[i] + values[i - 1]);
+  const sigma = n > 2 ? sum / (n - 2) / (Math.sqrt(6) * Math.sqrt(2 / Math.PI)) : 0;
+  return Math.max(sigma, stepV / Math.sqrt(12));
+}
+
+/**
+ * A level crossing's local fit must see the signal move well beyond the noise
+ * and the ADC step, or a small-swing record (a tiny hysteresis: a triangle a
+ * few codes high) gives a flat run of one code and no crossing: at least
+ * ±CROSSING_NOISE_MULTIPLE noise σ and ±CROSSING_STEP_MULTIPLE steps
+ * vertically (our choice), never beyond a quarter of the stretch.
+ */
+const CROSSING_NOISE_MULTIPLE = 4;
+const CROSSING_STEP_MULTIPLE = 2;
+
+/** `stepV`, `noiseV`: the channel's ADC step (0 when unquantised) and sample noise (sampleNoiseV), for the crossing windows. */
+export function readCapacitor(values: Float64Array, clock: SampleClock, turningPoints: readonly TurningPoint[], periodHintS: number, stepV = 0, noiseV = 0): CapacitorReadings {
   const n = Math.min(values.length, clockLength(clock));
   const dt = (timeAt(clock, n - 1) - timeAt(clock, 0)) / (n - 1);
   const halfWidth = Math.max(4, Math.round((EXTREME_WINDOW_SHARE * periodHintS) / dt));
   const crossWidth = Math.max(3, Math.round((CROSSING_WINDOW_SHARE * periodHintS) / dt));
+  const verticalV = Math.max(CROSSING_NOISE_MULTIPLE * noiseV, CROSSING_STEP_MULTIPLE * stepV);
   const refined: { kind: 'max' | 'min'; index: number; timeS: number; valueV: number }[] = [];
   for (const tp of turningPoints) {
     const r = refineTurningPoint(values, clock, tp.index, tp.kind, halfWidth);
@@ -225,8 +321,9 @@ export function readCapacitor(values: Float64Array, clock: SampleClock, turningP
   const high = minV.mean + TAU_WINDOW_HIGH * rangeV;
   const rising: number[] = [];
   const falling: number[] = [];
-  const ups: number[] = [];
-  const downs: number[] = [];
+  // Mid-level instants by stretch (the k-th pair of turning points; NaN where none was read): periods
+  // only between stretches two apart, so a crossing not read never merges two periods into one.
+  const mids = new Float64Array(Math.max(0, turningPoints.length - 1)).fill(Number.NaN);
   const tauOver = (a: number, b: number) => {
     const h = (b - a) / 3;
     if (!(h > 2 * dt)) return Number.NaN;
@@ -239,23 +336,27 @@ export function readCapacitor(values: Float64Array, clock: SampleClock, turningP
     if (a.kind === b.kind) continue;
     const up = a.kind === 'min';
     const [first, last] = up ? [low, high] : [high, low];
+    // The stretch's mean slope, samples per volt: the window that spans the noise and the ADC step.
+    const perVolt = (b.index - a.index) / Math.max(Math.abs(b.valueV - a.valueV), Number.MIN_VALUE);
+    const width = Math.min(Math.max(crossWidth, Math.ceil(verticalV * perVolt)), Math.max(crossWidth, (b.index - a.index) >> 2));
     // The levels lie in order along the stretch: each search starts where the one before found its level
     // (the first sample past a further level cannot come earlier), so the stretch is read once.
     const i1 = firstPast(values, a.index, b.index, first, up);
     const im = firstPast(values, i1, b.index, mid, up);
-    const t1 = levelCrossing(values, clock, i1, b.index, first, up, crossWidth);
-    const tm = levelCrossing(values, clock, im, b.index, mid, up, crossWidth);
-    const t2 = levelCrossing(values, clock, firstPast(values, im, b.index, last, up), b.index, last, up, crossWidth);
-    if (Number.isFinite(tm)) (up ? ups : downs).push(tm);
+    const t1 = levelCrossing(values, clock, i1, b.index, first, up, width);
+    const tm = levelCrossing(values, clock, im, b.index, mid, up, width);
+    const t2 = levelCrossing(values, clock, firstPast(values, im, b.index, last, up), b.index, last, up, width);
+    mids[k] = tm;
     if (Number.isFinite(t1) && Number.isFinite(t2)) (up ? rising : falling).push(tauOver(t1, t2));
   }
   const periods: number[] = [];
-  for (let k = 1; k < ups.length; k++) periods.push(ups[k] - ups[k - 1]);
-  for (let k = 1; k < downs.length; k++) periods.push(downs[k] - downs[k - 1]);
   const shares: number[] = [];
-  for (let k = 0; k + 1 < ups.length; k++) {
-    const down = downs.find((t) => t > ups[k] && t < ups[k + 1]);
-    if (down !== undefined) shares.push((down - ups[k]) / (ups[k + 1] - ups[k]));
+  for (let k = 0; k + 2 < mids.length; k++) {
+    const cycleS = mids[k + 2] - mids[k];
+    if (!Number.isFinite(cycleS)) continue;
+    periods.push(cycleS);
+    // An upward stretch to the next upward one: the part above the mid level is up → down.
+    if (turningPoints[k].kind === 'min' && Number.isFinite(mids[k + 1])) shares.push((mids[k + 1] - mids[k]) / cycleS);
   }
   out.risingTau = spread(rising);
   out.fallingTau = spread(falling);

@@ -25,10 +25,47 @@ export interface TurningPointOptions {
   hysteresisV?: number;
   /** Default 0.25 of (max - min): far above noise, well below the swing between switching levels. */
   hysteresisFraction?: number;
+  /**
+   * Sample noise, V (1σ, quantisation included). When the hysteresis is not
+   * well above it (a small swing a few ADC codes high), extremes are sought on
+   * a centred running mean of the samples, long enough that the mean's noise
+   * is a sixth of the hysteresis (our margin: a 6σ excursion never poses as a
+   * turning point). The reported index is the running mean's extreme.
+   */
+  noiseV?: number;
 }
 
-export function findTurningPoints(values: Float64Array, clock: SampleClock, options: TurningPointOptions = {}): TurningPoint[] {
-  const n = Math.min(values.length, clockLength(clock));
+/** Most samples averaged when smoothing: a fraction of the record (a period is far longer on any usable record). */
+const MAX_SMOOTHING_SHARE = 1 / 64;
+const NOISE_MARGIN = 6;
+
+/** Running-mean length for a hysteresis h over noise σ: (6σ/h)² samples (the mean of w samples has σ/√w). */
+export function smoothingLength(hysteresisV: number, noiseV: number, n: number): number {
+  if (!(noiseV > 0) || !(hysteresisV > 0)) return 1;
+  const w = Math.ceil(((NOISE_MARGIN * noiseV) / hysteresisV) ** 2);
+  return Math.max(1, Math.min(w, Math.floor(n * MAX_SMOOTHING_SHARE)));
+}
+
+/** Centred running mean over w samples (ends: over the samples there are). */
+function runningMean(values: Float64Array, n: number, w: number): Float64Array {
+  const out = new Float64Array(n);
+  const half = w >> 1;
+  let sum = 0;
+  let lo = 0;
+  let hi = -1;
+  for (let i = 0; i < n; i++) {
+    const a = Math.max(0, i - half);
+    const b = Math.min(n - 1, i + half);
+    while (hi < b) sum += values[++hi];
+    while (lo < a) sum -= values[lo++];
+    out[i] = sum / (b - a + 1);
+  }
+  return out;
+}
+
+export function findTurningPoints(raw: Float64Array, clock: SampleClock, options: TurningPointOptions = {}): TurningPoint[] {
+  const n = Math.min(raw.length, clockLength(clock));
+  let values = raw;
   const out: TurningPoint[] = [];
   if (n < 3) return out;
   let h = options.hysteresisV;
@@ -43,6 +80,8 @@ export function findTurningPoints(values: Float64Array, clock: SampleClock, opti
     h = (options.hysteresisFraction ?? 0.25) * (maxV - minV);
   }
   if (!(h > 0)) return out;
+  const w = smoothingLength(h, options.noiseV ?? 0, n);
+  if (w > 1) values = runningMean(raw, n, w);
 
   const push = (kind: 'max' | 'min', index: number): void => {
     out.push({ kind, index, timeS: timeAt(clock, index), valueV: values[index] });

@@ -31,7 +31,7 @@ import { parseDielectric } from '../../parts/dielectric.ts';
 import { isInSeries, nearestInSeries, type SeriesName } from '../../parts/series.ts';
 import { TOLERANCE_SIGMAS, type FitParameter } from '../estimate/parameters.ts';
 import type { CircuitVariant } from '../estimate/setup.ts';
-import { PRIOR_STRAY, strayEffects, type StrayEffect } from './stray-hypotheses.ts';
+import { strayEffects, type StrayEffect } from './stray-hypotheses.ts';
 
 export type HypothesisKind = 'nominal' | 'off' | 'wrong-part' | 'stray';
 export type WrongPartKind = 'neighbouring-value' | 'decade-slip' | 'swapped' | 'other-dielectric';
@@ -191,7 +191,7 @@ export function buildHypotheses(circuit: Circuit, parameters: readonly FitParame
       });
     }
   }
-  for (const stray of strayEffects(circuit)) out.push({ id: `stray:${stray.field}`, kind: 'stray', active: [], stray, logPrior: Math.log(PRIOR_STRAY) });
+  for (const stray of strayEffects(circuit)) out.push({ id: `stray:${stray.field}`, kind: 'stray', active: [], stray, logPrior: Math.log(stray.prior) });
   return out;
 }
 

@@ -18,8 +18,12 @@
  *   model's accepted range (LEAKAGE_RANGE_OHM).
  * Both fitted on a log scale bounded by the window (log-logit), prior σ 1.8
  * (nearly flat across the window, as for an amplifier effect that is off).
- * Prior probability of each: 1 % (our assumption: about half as likely as a
- * given part or amplifier effect being off, PRIOR_EFFECT_OFF).
+ * Prior probabilities (our assumptions): a capacitance at N that matters,
+ * 1 % (about half as likely as a given part or amplifier effect being off,
+ * PRIOR_EFFECT_OFF: a probe left on the node, a long trace); a leakage that
+ * moves the clock, 0.2 % (as rare as a specific wrong part: a clean board
+ * leaks gigaohms, and megohms at a high-impedance node take a contaminated or
+ * wet one).
  *
  * A stray capacitance parallels a linear timing capacitor exactly: from timing
  * alone it is the capacitor +Cs/C, and the diagnosis declares them
@@ -38,12 +42,15 @@ export interface StrayEffect {
   field: StrayField;
   /** As a fit parameter (kind 'stray', log-logit over the window): its prior is the `off` one, centred in the window. */
   parameter: FitParameter;
+  /** Prior probability of the hypothesis "this stray is what is wrong". */
+  prior: number;
   /** The strays with the fitted amount added to what the circuit declares. */
   strays(circuit: Circuit, value: number): Strays;
   words(value: number): string;
 }
 
-export const PRIOR_STRAY = 0.01;
+export const PRIOR_STRAY_CAPACITANCE = 0.01;
+export const PRIOR_LEAKAGE = 0.002;
 export const STRAY_CAPACITANCE_WINDOW_F = Object.freeze({ lo: 0.1e-12, hi: 220e-12 });
 export const STRAY_LEAKAGE_WINDOW_OHM = Object.freeze({ lo: 100e3, hi: 100e9 });
 const STRAY_PRIOR_SD = 1.8;
@@ -63,12 +70,14 @@ export function strayEffects(circuit: Circuit): StrayEffect[] {
   return [
     {
       field: 'timingNodeF',
+      prior: PRIOR_STRAY_CAPACITANCE,
       parameter: windowParameter('strayTimingNodeF', 'F', declared.timingNodeF, cLo, cHi, 'capacitance at the timing node N'),
       strays: (c, value) => ({ ...NO_STRAYS, ...c.strays, timingNodeF: declared.timingNodeF + value }),
       words: (value) => `a capacitance of ${formatPf(value)} at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node)`,
     },
     {
       field: 'timingLeakageOhm',
+      prior: PRIOR_LEAKAGE,
       parameter: windowParameter('leakageTimingNodeOhm', 'ohm', declared.timingLeakageOhm, rLo, rHi, 'leakage from the timing node N to ground'),
       // A leakage found on a board that already declares one is in parallel with it.
       strays: (c, value) => ({ ...NO_STRAYS, ...c.strays, timingLeakageOhm: parallelOhm(declared.timingLeakageOhm, value) }),

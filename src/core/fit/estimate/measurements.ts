@@ -133,7 +133,8 @@ const EDGE_RELATIVE_UNCERTAINTY = 0.02;
 /**
  * Measurements from capture features. Frequency: the mean of N periods has
  * the period jitter over √N, the end-point crossing quantisation
- * Δt/(√6·N) and the time base. Per-cycle readings (duty, edges, turning
+ * Δt/(√6·N) and the time base. Duty and shares: the crossing quantisation
+ * Δt/√6 of the period, not averaged (see below). Per-cycle readings (duty, edges, turning
  * points, time constants) add the standard error of their mean; levels add
  * the vertical accuracy and half an ADC step.
  */
@@ -156,7 +157,11 @@ export function captureMeasurements(f: CaptureFeatures, options: CaptureUncertai
   const quantRel = dt / (Math.sqrt(6) * n * f.periodS);
   const freqRel = Math.hypot(jitterRel / Math.sqrt(n), quantRel, timebase);
   push('frequencyHz', f.frequencyHz, f.frequencyHz * freqRel);
-  const timing = Math.hypot(dt / (f.periodS * Math.sqrt(6 * n)), DUTY_FLOOR);
+  // A crossing read between two samples is off by up to half a sample (σ = Δt/√12 per instant, two per
+  // reading). That error averages over the cycles only when the sampling phase moves from cycle to cycle;
+  // a record whose period is close to a whole number of samples keeps it in every cycle, so it is not
+  // divided by √N (the correlated case, which a scope's free-running clock can hit).
+  const timing = Math.hypot(dt / (f.periodS * Math.sqrt(6)), DUTY_FLOOR);
   push('dutyCycle', f.dutyCycle, Math.hypot(sem('dutyCycle'), timing));
   push('capacitorAboveMidShare', f.capacitorAboveMidShare, Math.hypot(sem('capacitorAboveMidShare'), timing));
 
