@@ -304,7 +304,20 @@ export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: n
     else if (prevEnd >= 0 && start < 0 && Number.isNaN(fallAt)) fallAt = startS;
     prevEnd = end;
     // A plain exponential piece is monotone: a crossing inside shows as a sign change of its ends.
-    if (!pc.dyn && d[i * LOG_STRIDE + LOG.rate] === 0 && start < 0 === end < 0) continue;
+    const rate = d[b + LOG_RATE];
+    if (!pc.dyn && rate === 0 && start < 0 === end < 0) continue;
+    if (!pc.dyn && pc.oV === 0 && rate !== 0) {
+      // A pin that does not see the capacitor (a stiff output) follows the source's ramp: a straight line,
+      // crossed at most once, where the bracketed solve below would converge to (without loading the piece).
+      let t = Number.NaN;
+      if (start < 0 !== end < 0) {
+        t = Math.min(Math.max(-start / (pc.oS * rate), 0), d[b + LOG_DURATION]);
+        if (end >= 0 && Number.isNaN(riseAt)) riseAt = startS + t;
+        if (end < 0 && Number.isNaN(fallAt)) fallAt = startS + t;
+      }
+      if (memo) memo[i - cycle.startIndex] = t;
+      continue;
+    }
     ev.load(i);
     const cfg = ev.config;
     const n = cfg.dyn ? ev.crossingsRow(cfg.dyn.row(QUANTITY.o), -levelV, scratchT, scratchDir) : ev.crossings(cfg.oC - levelV, cfg.oV, cfg.oS, scratchT, scratchDir);
