@@ -164,6 +164,9 @@ function exitOfProbe(probe: AffineProbe, ends: PieceEnds): number {
   if (kin.r === 0) {
     // Source at rest: an exponential (closed form), or with a C(v) capacitor the exit at a known voltage.
     if (kin.nonlinear) return (kin as CapacitorKinematics).voltageExit(g0, c0 + cs * ends.s0, cv, T);
+    // g is monotone in a plain exponential piece: strictly inside at a far end already evaluated (a piece
+    // that ends at a time event), it never left — no logarithm needed.
+    if (c0 + cv * ends.vT + cs * ends.sT > 0) return Infinity;
     return exponentialExit(kin.a, kin.k0, kin.v0, g0, c0 + cs * ends.s0, cv, T);
   }
 

@@ -375,7 +375,9 @@ export class OscillatorWalk {
       }
     }
     const ends = this.ends;
-    ends.fill(kin, best);
+    // A linear capacitor's piece that ends at a time event: its far end is needed anyway (it usually runs
+    // there), and with it the exit tests of a plain exponential piece skip their logarithm.
+    ends.fill(kin, best, !kin.nonlinear);
     const sg = this.logic ? 1 : -1;
     const probe = this.probe;
     // Internal hysteresis moves the decision h/2 beyond P + offset in the direction of travel.
