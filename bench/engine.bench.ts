@@ -8,7 +8,11 @@
  * 2. the same steady-state analysis by the independent reference (odex, Hairer's
  *    extrapolation method, events by bisection) at matched accuracy: its
  *    tolerance is set so it agrees with the engine to ~1e-12 — target engine ≥ 100×
- *    faster.
+ *    faster;
+ * 3. the multi-state pieces (capacitance at P and at the output pin: docs/model.md,
+ *    strays and leakage) on the same circuit, analyses per CPU-second as a ratio
+ *    to the one-capacitor engine measured just before, and their agreement with
+ *    odex integrating the same multi-capacitor ODE.
  * Bounded: about 2 s per engine measurement and a fixed number of odex runs.
  * Run: npx tsx bench/engine.bench.ts
  */
@@ -74,4 +78,14 @@ console.log(`odex reference, same analysis:   ${(odexSecondsPerAnalysis * 1e3).t
 console.log(`agreement engine vs odex:        ${agreement.toExponential(2)} relative (period, duty)`);
 console.log(`ratio engine/odex, CPU time:     ${fmt(odexCpuSecondsPerAnalysis * engine.cpuRate)}×  (target ≥ 100×; wall-clock ${fmt(odexSecondsPerAnalysis * engine.rate)}×)`);
 console.log(`ratio end-to-end/odex, CPU time: ${fmt(odexCpuSecondsPerAnalysis * endToEnd.cpuRate)}×`);
-if (!Number.isFinite(engine.check + endToEnd.check)) process.exitCode = 1;
+
+// 3. The same clock with 47 pF at P and 100 pF on the output pin (behind the part's output resistance).
+const strayed: Circuit = { ...circuit, strays: { timingNodeF: 0, thresholdNodeF: 47e-12, outputNodeF: 100e-12, timingLeakageOhm: Infinity, thresholdLeakageOhm: Infinity } };
+const preparedStrayed = prepareCircuit(strayed);
+ratePerSecond(0.3, 100, () => analyzeTimeDomain(preparedStrayed).periodS);
+const multi = ratePerSecond(ENGINE_SECONDS, 100, () => analyzeTimeDomain(preparedStrayed).periodS);
+const multiResult = analyzeTimeDomain(preparedStrayed);
+const multiRef = referenceOscillation(strayed, { initialState: multiResult.powerUp.initialState });
+const multiAgreement = Math.max(Math.abs(multiResult.periodS / multiRef.periodS - 1), Math.abs(multiResult.dutyCycle / multiRef.dutyCycle - 1));
+console.log(`multi-state (47 pF at P, 100 pF at the pin): ${fmt(multi.rate)} analyses/s wall, ${fmt(multi.cpuRate)} per CPU-second = ${(multi.cpuRate / engine.cpuRate).toFixed(3)}× the one-capacitor engine; period shift ${(multiResult.periodS / engineResult.periodS - 1).toExponential(2)}, agreement with odex ${multiAgreement.toExponential(2)}`);
+if (!Number.isFinite(engine.check + endToEnd.check + multi.check)) process.exitCode = 1;

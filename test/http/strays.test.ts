@@ -133,3 +133,57 @@ describe('strays in /v1/bom-checks', () => {
     expect(clean.rules.map((r: { code: string }) => r.code)).not.toContain('stray-capacitance-significant');
   });
 });
+
+describe('capacitance at P and at the output pin reaches every answer (the same multi-state walk)', () => {
+  // Our own scenario: the lab timebase with a long output trace (1 nF) behind a 200 Ω output and 470 pF at P.
+  const trace = { ...timebase, amplifier: { outputResistanceOhm: 200 }, strays: { thresholdNodeF: 470e-12, outputNodeF: 1e-9 } };
+
+  it('tolerance: the nominal is analyze\'s, and the new strays are parameters with a sensitivity', async () => {
+    const analyzed = (await post('/v1/analyze', trace)).json();
+    const res = await post('/v1/tolerance', { circuit: trace, tolerances: { rTiming: 0.01, cTiming: 0.05 } });
+    expect(res.statusCode).toBe(200);
+    const body = res.json();
+    expect(Math.abs(body.nominal.frequencyHz / analyzed.frequencyHz - 1)).toBeLessThan(1e-12);
+    for (const role of ['thresholdNodeF', 'outputNodeF']) {
+      const s = body.sensitivities.find((x: { role: string }) => x.role === role);
+      expect(s).toMatchObject({ kind: 'stray' });
+      // More capacitance on the feedback path: a slower clock.
+      expect(s.sensitivity).toBeLessThan(0);
+    }
+  });
+
+  it('waveform: the same period, and the pin leaves the rail through its RC (not a jump)', async () => {
+    const analyzed = (await post('/v1/analyze', trace)).json();
+    const res = await post('/v1/waveform', { circuit: trace, periods: 1, samples: 2001 });
+    expect(res.statusCode).toBe(200);
+    const body = res.json();
+    expect(Math.abs(body.periodS / analyzed.periodS - 1)).toBeLessThan(1e-12);
+    // 200 Ω·1 nF = 200 ns against a ~1 ms period: the 10–90 % rise is about ln 9·200 ns (the divider barely loads the pin).
+    expect(analyzed.transitions.riseTimeS / (Math.log(9) * 200 * 1e-9)).toBeGreaterThan(0.95);
+    expect(analyzed.transitions.riseTimeS / (Math.log(9) * 200 * 1e-9)).toBeLessThan(1.05);
+  });
+
+  it('BOM checks: the assembly\'s strays at P and at the pin are in its analysis', async () => {
+    const assembly = {
+      id: 'long-trace',
+      lines: [
+        { refdes: 'R1', value: '47K 1% 0603' },
+        { refdes: 'C1', value: '10n 50V C0G 2%' },
+        { refdes: 'R2', value: '10K 1% 0603' },
+        { refdes: 'R3', value: '20K 1% 0603' },
+      ],
+      roles: { rTiming: 'R1', cTiming: 'C1', rGround: 'R2', rFeedback: 'R3' },
+      topology: 'two-resistor-feedback',
+      amplifier: { outputResistanceOhm: 200 },
+      supply: { positiveV: 10, negativeV: -10 },
+      spec: { frequencyHz: 1000, frequencyTolerance: 0.2 },
+      strays: { thresholdNodeF: 470e-12, outputNodeF: 1e-9 },
+    };
+    const res = await post('/v1/bom-checks', { assemblies: [assembly] });
+    expect(res.statusCode).toBe(200);
+    const [result] = res.json().results;
+    const rule = result.rules.find((x: { code: string }) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec');
+    const analyzed = (await post('/v1/analyze', trace)).json();
+    expect(rule.figures.nominalFrequencyHz / analyzed.frequencyHz - 1).toBeCloseTo(0, 9);
+  });
+});

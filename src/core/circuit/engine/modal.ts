@@ -63,9 +63,11 @@ export class DynamicModel {
   readonly f0 = new Float64Array(MAX_STATES);
   readonly fS = new Float64Array(MAX_STATES);
   readonly rows = new Float64Array(QUANTITY_COUNT * ROW);
+  /** One view per quantity, made once (a view per call would allocate on the walk's hot path). */
+  private readonly views: Float64Array[] = Array.from({ length: QUANTITY_COUNT }, (_, q) => this.rows.subarray(q * ROW, q * ROW + ROW));
 
   row(q: number): Float64Array {
-    return this.rows.subarray(q * ROW, q * ROW + ROW);
+    return this.views[q];
   }
 
   /**
@@ -182,59 +184,75 @@ export function jacobiEigen(A: Float64Array, n: number, lam: Float64Array, U: Fl
 const ISOLATION_TOLERANCE = 1e-15;
 
 /**
- * Sign changes of E(t) = Σ coef_k·e^(−rate_k·t) in (0, T) (T may be Infinity), sorted, into out from
- * index `at`; returns the new count. Terms must be sorted by rate, ascending, rates distinct.
- * Divided by the slowest term, E keeps its sign and its derivative has one term fewer, whose sign
- * changes (recursively) split (0, T) into parts where E/e^(−rate_0·t) is monotone: at most one
- * sign change each (Descartes' rule for exponential sums).
+ * Sign changes of E(t) = Σ coef_k·e^(−rate_k·t) in (0, T) (T may be Infinity), at most three terms
+ * sorted by rate, ascending, rates distinct, coefficients non-zero; sorted times into out, returns the
+ * count. Divided by the slowest term, E keeps its sign and its derivative has one term fewer, whose
+ * sign changes split (0, T) into parts where E/e^(−rate_0·t) is monotone: at most one sign change
+ * each (Descartes' rule for exponential sums; no sign change in the coefficients, no zero). Two terms
+ * have their zero in closed form; three, one closed-form split and bracketed solves. Allocation-free.
  */
-function expSumZeros(coef: number[], rate: number[], T: number, out: number[]): void {
-  const n = coef.length;
-  if (n <= 1) return;
-  const base = rate[0];
-  const dc: number[] = [];
-  const dr: number[] = [];
-  for (let k = 1; k < n; k++) {
-    dc.push(-(rate[k] - base) * coef[k]);
-    dr.push(rate[k] - base);
+function expSumZeros(c: Float64Array, r: Float64Array, n: number, T: number, out: Float64Array): number {
+  if (n <= 1) return 0;
+  let changes = 0;
+  for (let k = 1; k < n; k++) if (c[k] < 0 !== c[k - 1] < 0) changes++;
+  if (changes === 0) return 0;
+  if (n === 2) {
+    // c0 + c1·e^(−d·t) = 0  ⇔  t = ln(−c1/c0)/d.
+    const t = Math.log(-c[1] / c[0]) / (r[1] - r[0]);
+    if (t > 0 && t < T) {
+      out[0] = t;
+      return 1;
+    }
+    return 0;
   }
-  const crit: number[] = [];
-  expSumZeros(dc, dr, T, crit);
-  const H = (t: number) => {
-    let h = coef[0];
-    for (let k = 1; k < n; k++) h += coef[k] * Math.exp(-(rate[k] - base) * t);
-    return h;
-  };
+  // Three terms: H = c0 + c1·e^(−d1·t) + c2·e^(−d2·t); H' = 0 at one closed-form instant at most.
+  const d1 = r[1] - r[0];
+  const d2 = r[2] - r[0];
+  let split = Math.log((-c[2] * d2) / (c[1] * d1)) / (d2 - d1);
+  if (!(split > 0 && split < T)) split = Number.NaN;
+  let count = 0;
   let a = 0;
-  let ha = H(0);
-  const slowest = 1 / (rate[1] - base);
-  for (let j = 0; j <= crit.length; j++) {
-    let b = j < crit.length ? crit[j] : T;
-    let hb: number;
-    if (b === Infinity) {
-      hb = coef[0];
-      if (ha < 0 === hb < 0) break;
+  let ha = c[0] + c[1] + c[2];
+  for (let j = 0; j < 2; j++) {
+    let b = j === 0 && !Number.isNaN(split) ? split : T;
+    let hb = b === Infinity ? c[0] : expSum3(c, d1, d2, b);
+    if (b === Infinity && ha < 0 !== hb < 0) {
       // A finite far end with the limit's sign.
-      b = a + slowest;
-      for (let k = 0; k < 2000 && H(b) < 0 === ha < 0; k++) b = a + (b - a) * 2;
-      hb = H(b);
-    } else {
-      hb = H(b);
+      b = a + 1 / d1;
+      for (let k = 0; k < 2000 && expSum3(c, d1, d2, b) < 0 === ha < 0; k++) b = a + (b - a) * 2;
+      hb = expSum3(c, d1, d2, b);
     }
     if (ha < 0 !== hb < 0) {
-      let lo = a;
-      let hi = b;
-      const negLo = ha < 0;
-      for (let it = 0; it < 200 && hi - lo > ISOLATION_TOLERANCE * hi; it++) {
-        const mid = 0.5 * (lo + hi);
-        if (H(mid) < 0 === negLo) lo = mid;
-        else hi = mid;
-      }
-      if (hi > 0 && hi < T) out.push(hi);
+      const t = expSum3Root(c, d1, d2, a, b, ha < 0);
+      if (t > 0 && t < T) out[count++] = t;
     }
+    if (Number.isNaN(split) || j === 1) break;
     a = b;
     ha = hb;
   }
+  return count;
+}
+
+function expSum3(c: Float64Array, d1: number, d2: number, t: number): number {
+  return c[0] + c[1] * Math.exp(-d1 * t) + c[2] * Math.exp(-d2 * t);
+}
+
+/** The sign change of a monotone three-term sum in [lo, hi]: Newton steps kept inside a shrinking bracket. */
+function expSum3Root(c: Float64Array, d1: number, d2: number, lo: number, hi: number, negativeAtLo: boolean): number {
+  let x = 0.5 * (lo + hi);
+  for (let it = 0; it < 200 && hi - lo > ISOLATION_TOLERANCE * hi; it++) {
+    const e1 = c[1] * Math.exp(-d1 * x);
+    const e2 = c[2] * Math.exp(-d2 * x);
+    const h = c[0] + e1 + e2;
+    if (h === 0) return x;
+    if (h < 0 === negativeAtLo) lo = x;
+    else hi = x;
+    const next = x - h / (-d1 * e1 - d2 * e2);
+    // Newton converged (its step below the tolerance): done; else keep it only inside the bracket.
+    if (Math.abs(next - x) <= ISOLATION_TOLERANCE * Math.abs(x)) return next;
+    x = next > lo && next < hi ? next : 0.5 * (lo + hi);
+  }
+  return 0.5 * (lo + hi);
 }
 
 /**
@@ -253,6 +271,10 @@ export class ModalKinematics implements BracketProbe {
   value = 0;
   slope = 0;
   private readonly crit: number[] = [];
+  private readonly termC = new Float64Array(MAX_STATES);
+  private readonly termR = new Float64Array(MAX_STATES);
+  private readonly z2 = new Float64Array(MAX_STATES);
+  private readonly split: number[] = [];
   private readonly zeros: number[] = [];
   /** Direction of each zero zerosBetween found (+1 rising through zero, −1 falling). */
   private readonly zeroDir: number[] = [];
@@ -434,27 +456,44 @@ export class ModalKinematics implements BracketProbe {
 
   /** Critical points of the targeted row in (0, T), sorted (at most one per mode). */
   criticalPoints(T: number, out: number[]): void {
-    // g'' = Σ w_i·z_i''(0)·e^(−λ_i t): a pure exponential sum (z''' = −λz'' in every mode).
+    // g'' = Σ w_i·z_i''(0)·e^(−λ_i t): a pure exponential sum (z''' = −λz'' in every mode); equal rates merged, sorted by rate.
     const n = this.dyn.modeCount;
-    const terms: { c: number; r: number }[] = [];
+    const c = this.termC;
+    const r = this.termR;
+    let m = 0;
     for (let i = 0; i < n; i++) {
-      const m = this.modes[i];
+      const mode = this.modes[i];
       if (this.w[i] === 0) continue;
-      const c = this.w[i] * m.d2v(m.dv(0, m.v0));
-      if (c === 0) continue;
-      const same = terms.find((x) => x.r === m.a);
-      if (same) same.c += c;
-      else terms.push({ c, r: m.a });
+      const ci = this.w[i] * mode.d2v(mode.dv(0, mode.v0));
+      if (ci === 0) continue;
+      let k = 0;
+      while (k < m && r[k] !== mode.a) k++;
+      if (k < m) {
+        c[k] += ci;
+        continue;
+      }
+      // Insertion in rate order.
+      k = m++;
+      while (k > 0 && r[k - 1] > mode.a) {
+        c[k] = c[k - 1];
+        r[k] = r[k - 1];
+        k--;
+      }
+      c[k] = ci;
+      r[k] = mode.a;
     }
-    terms.sort((x, y) => x.r - y.r);
-    const z2: number[] = [];
-    expSumZeros(
-      terms.map((x) => x.c),
-      terms.map((x) => x.r),
-      T,
-      z2,
-    );
-    this.zerosBetween(1, z2, T, out);
+    // Merged terms can cancel to zero: drop them.
+    let kept = 0;
+    for (let k = 0; k < m; k++) {
+      if (c[k] === 0) continue;
+      c[kept] = c[k];
+      r[kept++] = r[k];
+    }
+    const count = expSumZeros(c, r, kept, T, this.z2);
+    const split = this.split;
+    split.length = 0;
+    for (let k = 0; k < count; k++) split.push(this.z2[k]);
+    this.zerosBetween(1, split, T, out);
   }
 
   /**
