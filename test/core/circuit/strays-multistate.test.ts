@@ -180,3 +180,25 @@ describe('the one-capacitor model is the limit of the multi-state one', () => {
     expect(gaps[gaps.length - 1]).toBeLessThan(2e-9);
   });
 });
+
+describe('the prepared form (tolerance, BOM checks, fit) gives analyze\'s answer for every vector', () => {
+  it('perturbed parts and strays, started from the nominal\'s steady state: period and duty within 1e-12', () => {
+    const circuit: Circuit = {
+      topology: 'two-resistor-feedback',
+      supply: { positiveV: 12, negativeV: -12 },
+      amplifier: findBuiltInAmplifier('bipolar-split-supply-general')!,
+      parts: { rTiming: 10e3, cTiming: 10e-9, rFeedback: 10e3, rGround: 10e3 },
+      strays: strays({ thresholdNodeF: 470e-12, outputNodeF: 1e-9 }),
+    };
+    const model = prepareModel(circuit);
+    const out = new Float64Array(OUTPUT_LENGTH);
+    for (let k = 0; k < 12; k++) {
+      const values = Float64Array.from(model.nominal);
+      for (const name of ['rTiming', 'cTiming', 'rGround', 'thresholdNodeF', 'outputNodeF']) values[model.indexOf(name)] *= 1 + 0.1 * Math.sin(k * 7.3 + name.length);
+      model.evaluate(values, out);
+      const analyzed = analyzeCircuit(model.circuitAt(values));
+      expect(rel(out[OUTPUT_SLOT.periodS], analyzed.periodS)).toBeLessThan(1e-12);
+      expect(Math.abs(out[OUTPUT_SLOT.dutyCycle] - analyzed.dutyCycle)).toBeLessThan(1e-12);
+    }
+  });
+});

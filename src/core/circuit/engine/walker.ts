@@ -38,7 +38,7 @@ import { CapacitorKinematics } from './capacitor-kinematics.ts';
 import { PieceEvaluator } from './piece-evaluator.ts';
 import { LOG, PieceLog } from './piece-log.ts';
 import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
-import { MAX_STATES, ModalKinematics, QUANTITY, rowAt, SLOT } from './modal.ts';
+import { MAX_STATES, ModalKinematics, QUANTITY, R_C, R_S, R_X, rowAt, SLOT } from './modal.ts';
 import type { DynamicModel } from './modal.ts';
 
 /** Full switching cycles the walk may take to repeat before it gives up. */
@@ -114,6 +114,9 @@ export class SteadyStart {
   pendingCount = 0;
   readonly pendingRelS = new Float64Array(PENDING_CAPACITY);
   motionFlipRelS = 0;
+  /** Voltages of P and of the pin when they are states (capacitance there), V. */
+  xP = 0;
+  xO = 0;
 }
 
 /** The switching state at one decision. */
@@ -276,6 +279,8 @@ export class OscillatorWalk {
     into.pendingCount = this.pendingCount;
     for (let k = 0; k < this.pendingCount; k++) into.pendingRelS[k] = this.pending[(this.pendingHead + k) % PENDING_CAPACITY] - this.t;
     into.motionFlipRelS = this.motionFlipS - this.t;
+    into.xP = this.xP;
+    into.xO = this.xO;
     return into;
   }
 
@@ -287,8 +292,7 @@ export class OscillatorWalk {
    * False when the state does not carry over (the caller walks from power-up).
    */
   startFrom(start: SteadyStart): boolean {
-    // With more capacitive nodes the switching state carries their voltages too: walk from power-up.
-    if (!start.valid || this.shape.dynamic) return false;
+    if (!start.valid) return false;
     this.t = 0;
     this.logic = start.logic;
     this.target = start.target;
@@ -312,8 +316,18 @@ export class OscillatorWalk {
     this.motionFlipS = start.motionFlipRelS;
     const cfg = this.cache.tryGet(this.key);
     if (!cfg || !(cfg.hV !== 0)) return false;
-    // On the switching line: h = hC + hV·v + hS·s = 0.
-    this.v = (cfg.hC + cfg.hS * this.s) / -cfg.hV;
+    if (cfg.dyn) {
+      // More capacitive nodes: P and the pin keep the other vector's voltages (their fast RCs forget them
+      // within the cycle), N goes on the switching line h(x, s) = 0 of this vector.
+      const h = cfg.dyn.row(QUANTITY.h);
+      if (!(h[R_X + SLOT.N] !== 0)) return false;
+      this.xP = start.xP;
+      this.xO = cfg.dyn.oPinned ? this.s : start.xO;
+      this.v = (h[R_C] + h[R_S] * this.s + h[R_X + SLOT.P] * this.xP + h[R_X + SLOT.O] * this.xO) / -h[R_X + SLOT.N];
+    } else {
+      // On the switching line: h = hC + hV·v + hS·s = 0.
+      this.v = (cfg.hC + cfg.hS * this.s) / -cfg.hV;
+    }
     this.log.clear();
     this.steady = undefined;
     this.rec[0].valid = this.rec[1].valid = false;
