@@ -147,6 +147,16 @@ describe('the stray-loaded threshold node against the reference integrator (odex
       },
     },
     {
+      name: 'strongly loaded: 10 nF at P and at the pin (the feedback lags; a quarter of the unloaded period)',
+      circuit: {
+        topology: 'two-resistor-feedback',
+        supply: { positiveV: 5, negativeV: -5 },
+        amplifier: { ...ideal, outputResistanceOhm: 100 },
+        parts: { rTiming: 100e3, cTiming: 1e-9, rGround: 10e3, rFeedback: 10e3 },
+        strays: strays({ thresholdNodeF: 10e-9, outputNodeF: 10e-9 }),
+      },
+    },
+    {
       name: 'open drain with capacitance at P and at the pin, leakage at P',
       circuit: {
         ...openDrainClock(330e-12),
@@ -163,6 +173,20 @@ describe('the stray-loaded threshold node against the reference integrator (odex
       expect(rel(engine.thresholds.upperV, ref.upperV)).toBeLessThan(1e-6);
     });
   }
+});
+
+describe('a threshold node slower than the timing node', () => {
+  it('is refused as no-oscillation (the comparator would switch straight back: chatter), not answered with a period', () => {
+    // τ_P = (10 kΩ‖10 kΩ)·1 nF = 5 µs against τ_N = 1 kΩ·1 nF = 1 µs: after each switch N overtakes P at once.
+    const circuit: Circuit = {
+      topology: 'two-resistor-feedback',
+      supply: { positiveV: 5, negativeV: -5 },
+      amplifier: ideal,
+      parts: { rTiming: 1e3, cTiming: 1e-9, rGround: 10e3, rFeedback: 10e3 },
+      strays: strays({ thresholdNodeF: 1e-9 }),
+    };
+    expect(() => analyzeCircuit(circuit)).toThrow(expect.objectContaining({ code: 'no-oscillation', message: expect.stringContaining('chatters') }));
+  });
 });
 
 describe('the one-capacitor model is the limit of the multi-state one', () => {
