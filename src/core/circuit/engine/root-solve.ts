@@ -122,7 +122,9 @@ export class PieceEnds {
   fill(kin: Kinematics, durationS: number, always = false): void {
     this.durationS = durationS;
     this.v0 = kin.v0;
-    this.dv0 = kin.dv(0, kin.v0);
+    // Kinematics.dv at t = 0 written out for a linear capacitor (the C(v) override is a call the walk's
+    // every piece paid for).
+    this.dv0 = kin.nonlinear ? kin.dv(0, kin.v0) : -kin.a * kin.v0 + kin.k0 + kin.k1 * 0;
     this.s0 = kin.s0;
     if (Number.isFinite(durationS) && (always || kin.r !== 0)) {
       // The end voltage and the integral share one evaluation of the φ-functions.
@@ -130,8 +132,8 @@ export class PieceEnds {
       kin.endAndIntegral(durationS, out);
       this.vT = out[0];
       this.integralV = out[1];
-      this.dvT = kin.dv(durationS, this.vT);
-      this.sT = kin.s(durationS);
+      this.dvT = kin.nonlinear ? kin.dv(durationS, this.vT) : -kin.a * this.vT + kin.k0 + kin.k1 * durationS;
+      this.sT = kin.s0 + kin.r * durationS;
     } else {
       this.vT = this.dvT = this.sT = this.integralV = Number.NaN;
     }

@@ -312,7 +312,7 @@ export class OscillatorWalk {
     // The decision that starts the cycle queued its own flip a full delay ahead.
     if (this.pendingCount > 0) this.pending[this.pendingCount - 1] = this.delayS;
     // The start state's flips are taken at the floor delay (an overdrive-dependent delay settles within the walk).
-    this.pendingDelay.fill(this.delayS, 0, this.pendingCount);
+    for (let k = 0; k < this.pendingCount; k++) this.pendingDelay[k] = this.delayS; // a loop: one or two entries
     this.motionFlipS = start.motionFlipRelS;
     const cfg = this.cache.tryGet(this.key);
     if (!cfg || !(cfg.hV !== 0)) return false;
