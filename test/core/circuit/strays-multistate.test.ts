@@ -226,3 +226,21 @@ describe('the prepared form (tolerance, BOM checks, fit) gives analyze\'s answer
     }
   });
 });
+
+describe('a stiff output charging the capacitance on its pin (charge balance: Q = C·ΔV per edge)', () => {
+  it('the timing is unchanged and the supply carries Co·swing per period more', () => {
+    const base: Circuit = {
+      topology: 'two-resistor-feedback',
+      supply: { positiveV: 5, negativeV: -5 },
+      amplifier: ideal,
+      parts: { rTiming: 47e3, cTiming: 2.2e-9, rGround: 22e3, rFeedback: 22e3 },
+    };
+    const co = 1e-9;
+    const plain = analyzeCircuit(base);
+    const loaded = analyzeCircuit({ ...base, strays: strays({ outputNodeF: co }) });
+    // The pin is the ideal source itself: its capacitance cannot move it.
+    expect(rel(loaded.periodS, plain.periodS)).toBeLessThan(1e-12);
+    const extraA = (co * loaded.output.swingV) / loaded.periodS;
+    expect(rel(loaded.currents.supplyAverageA - plain.currents.supplyAverageA, extraA)).toBeLessThan(1e-9);
+  });
+});

@@ -549,6 +549,7 @@ class CompiledConfig {
     dyn.active[SLOT.P] = stateP ? 1 : 0;
     dyn.active[SLOT.O] = stateO ? 1 : 0;
     dyn.oPinned = this.shapeCapacitiveOutput && !stateO;
+    dyn.pinnedCapF = dyn.oPinned ? capF[SLOT.O] : 0;
     dyn.capF[SLOT.N] = capF[SLOT.N];
     dyn.capF[SLOT.P] = stateP ? capF[SLOT.P] : 0;
     dyn.capF[SLOT.O] = stateO ? capF[SLOT.O] : 0;

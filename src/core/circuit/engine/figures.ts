@@ -24,7 +24,7 @@ import { configKey, STAGE, type ConfigCache, type ConfigModel } from './configs.
 import type { PieceEvaluator } from './piece-evaluator.ts';
 import { LOG, LOG_STRIDE } from './piece-log.ts';
 import type { OscillatorWalk, SteadyCycle } from './walker.ts';
-import { MAX_STATES, ModalKinematics, QUANTITY, ROW, R_X, rowAt, SLOT } from './modal.ts';
+import { MAX_STATES, ModalKinematics, QUANTITY, ROW, R_C, R_X, rowAt, SLOT } from './modal.ts';
 
 export interface TimeDomainFigures extends OscillationFigures {
   edges: EdgeTimes;
@@ -79,6 +79,7 @@ const rowN = new Float64Array(ROW);
 rowN[R_X + SLOT.N] = 1;
 const rowDiff = new Float64Array(ROW);
 const rowSupply = new Float64Array(ROW);
+const rowOut = new Float64Array(ROW);
 /** The pin at a logged multi-state piece's end, without disturbing the evaluator's loaded piece. */
 const endModal = new ModalKinematics();
 const endState = new Float64Array(MAX_STATES);
@@ -161,7 +162,13 @@ class CycleTotals {
     if (ev.logic) this.highPiece = cfg;
     else this.lowPiece = cfg;
     const rail = dyn.row(QUANTITY.rail);
-    const i = dyn.row(QUANTITY.i);
+    let i = dyn.row(QUANTITY.i);
+    if (dyn.pinnedCapF > 0 && ev.modal.r !== 0) {
+      // A stiff output holding a capacitive pin also charges it: Co·ds/dt out of the stage while it slews.
+      rowOut.set(i);
+      rowOut[R_C] += dyn.pinnedCapF * ev.modal.r;
+      i = rowOut;
+    }
     this.railCharge += ev.integralRow(rail);
     this.sourcedCharge += ev.positiveIntegralRow(i, scratchT, scratchDir);
     ev.rangeRow(rowN);
@@ -348,6 +355,26 @@ export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, hi
   out[1] = durationBetween(crossScratch[1], fall10, cycle.periodS);
 }
 
+/**
+ * Charge a stiff output puts into a capacitive pin when its source jumps (no slew limit): Co·Δs at each
+ * upward jump of the cycle, sourced from the stage (the charge of the step, whatever its duration).
+ */
+function pinnedJumpCharge(walk: OscillatorWalk, cycle: SteadyCycle): number {
+  const d = walk.log.data;
+  let charge = 0;
+  const n = cycle.endIndex - cycle.startIndex;
+  for (let k = 0; k < n; k++) {
+    const b = (cycle.startIndex + k) * LOG_STRIDE;
+    const dyn = walk.cache.get(d[b + LOG_KEY]).dyn;
+    if (!dyn || !(dyn.pinnedCapF > 0)) continue;
+    const p = (cycle.startIndex + ((k + n - 1) % n)) * LOG_STRIDE;
+    if (!walk.cache.get(d[p + LOG_KEY]).dyn?.oPinned) continue;
+    const jumpV = d[b + LOG_S0] - (d[p + LOG_S0] + d[p + LOG_RATE] * d[p + LOG_DURATION]);
+    if (jumpV > 0) charge += dyn.pinnedCapF * jumpV;
+  }
+  return charge;
+}
+
 /** Figures of the walk's steady cycle (the walk went from power-up: firstEdgeS reads the transient). */
 export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: FigureContext, extras?: WalkExtras): TimeDomainFigures {
   const ev = walk.evaluator;
@@ -360,6 +387,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
     ev.load(i);
     sums.add(ev, walk.cache, pinEnds, 2 * (i - cycle.startIndex));
   }
+  if (walk.shape.capacitiveOutput) sums.sourcedCharge += pinnedJumpCharge(walk, cycle);
   const { pinHighInt, pinHighS, pinLowInt, pinLowS, railCharge, sourcedCharge, capMin, capMax, pMin, pMax, diffMin, diffMax, iMin, iMax, supplyMax, highPiece, lowPiece, limitedS, demandPeakA } = sums;
   // The accumulator is reused: drop its references to this circuit's configurations.
   sums.highPiece = sums.lowPiece = undefined;

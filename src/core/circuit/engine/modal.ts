@@ -49,6 +49,8 @@ export class DynamicModel {
   readonly active = new Uint8Array(MAX_STATES);
   /** The pin is the stiff source itself in this configuration (x_O follows s). */
   oPinned = false;
+  /** The pin's capacitance while pinned, F: the source charges it directly (Co·ds/dt, not in any branch). */
+  pinnedCapF = 0;
   /** Capacitance per slot, F. */
   readonly capF = new Float64Array(MAX_STATES);
   /** Current into each slot's capacitor: q0 + Σ Q[k][j]·x_j + qS·s (G = −Q), A. */
