@@ -3167,7 +3167,7 @@ export interface components {
                 posteriorToPriorSd: number;
                 /** @description The fitted shift stays inside the part's tolerance (or the 3σ prior spread of an amplifier effect) */
                 withinTolerance: boolean;
-                /** @description off: the effect departs from nominal (fitted within its physical range); stray: a capacitance or leakage at the timing node N that the circuit does not declare (fitted within its window); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, or a timing capacitor of another dielectric class (a class II ceramic with its class-typical DC-bias C(V) in place of a flat part, or the reverse; its marked value within a class II tolerance) */
+                /** @description off: the effect departs from nominal (fitted within its physical range); stray: a capacitance or leakage at the timing node N that the circuit does not declare (fitted within its window); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, or a timing capacitor of another dielectric class (a class II ceramic in place of a flat part, its DC-bias C(V) fitted on the class-typical law within the span class II and III parts cover, or the reverse; its marked value within a class II tolerance) */
                 fault: "off" | "neighbouring-value" | "decade-slip" | "swapped" | "other-dielectric" | "stray";
                 /** @description e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance" */
                 text: string;

@@ -142,8 +142,8 @@ interface Scored {
   x: Float64Array;
   /** The circuit variant the hypothesis was weighed on (a stray hypothesis: with its fitted stray). */
   variant?: CircuitVariant;
-  /** A stray hypothesis' fitted value (fitted space of its parameter). */
-  strayX?: number;
+  /** A scalar hypothesis' fitted value (fitted space of its parameter: a stray, a dielectric's C(V) scale). */
+  scalarX?: number;
   /** Posterior covariance of the active parameters (fitted space). */
   covariance: Float64Array;
   chiSquare: number;
@@ -216,7 +216,10 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   const all = whitener(columns, m, []);
 
   const score = (h: Hypothesis): Scored | undefined => {
-    if (h.kind === 'stray') return scoreStray(setup, h, all, m);
+    // A hypothesis that widens a nuisance (another part's tolerance) is whitened by its own covariance.
+    const widened = h.nuisanceSd;
+    const whitenerOf = () => (widened ? whitener(columns.map((c, j) => (widened[j] === undefined ? c : c.map((v) => (v * widened[j]) / params[j].priorSd))), m, []) : all);
+    if (h.scalar) return scoreScalar(setup, h, whitenerOf(), m);
     if (h.kind !== 'off' && h.active.length === 0) {
       let r: Float64Array;
       try {
@@ -224,9 +227,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
       } catch {
         return undefined; // the wrong part stops the oscillation: not what was measured
       }
-      // A hypothesis that widens a nuisance (another part's tolerance) is whitened by its own covariance.
-      const widened = h.nuisanceSd;
-      const w = widened ? whitener(columns.map((c, j) => (widened[j] === undefined ? c : c.map((v) => (v * widened[j]) / params[j].priorSd))), m, []) : all;
+      const w = whitenerOf();
       const chi = sumSq(w.whiten(r));
       if (!Number.isFinite(chi)) return undefined;
       return { h, x: setup.nominalX, ...(h.variant ? { variant: h.variant } : {}), covariance: new Float64Array(0), chiSquare: chi, logEvidence: h.logPrior - 0.5 * chi - 0.5 * w.logDet, passes: chi <= chiSquareQuantile999(m) };
@@ -397,7 +398,7 @@ function causesOf(setup: FitSetup, s: Scored): Cause[] {
   if (s.h.kind === 'stray') {
     const stray = s.h.stray!;
     const p = stray.parameter;
-    const e = describeEstimate(p, s.strayX!, Math.sqrt(Math.max(0, s.covariance[0])));
+    const e = describeEstimate(p, s.scalarX!, Math.sqrt(Math.max(0, s.covariance[0])));
     const found = e.estimate;
     // The estimate is the node's whole figure: what the circuit declares with the stray found added (a leakage in parallel).
     e.estimate = stray.strays(setup.circuit, found)[stray.field];
@@ -416,7 +417,8 @@ function causesOf(setup: FitSetup, s: Scored): Cause[] {
         const widened = s.h.nuisanceSd?.[j] ?? p.priorSd;
         const e = describeEstimate(p, 0, naturalSd(p, 0, widened));
         e.posteriorToPriorSd = 1;
-        return { ...e, withinTolerance: false, fault: wp.kind, text: `${wp.words}: ${formatNatural(p.unit, p.nominal)} marked, ±${Math.round(100 * (Math.exp(TOLERANCE_SIGMAS * widened) - 1))} % allowed` };
+        const what = s.h.scalar && s.scalarX !== undefined ? s.h.scalar.words(naturalValue(s.h.scalar.parameter, s.scalarX)) : wp.words;
+        return { ...e, withinTolerance: false, fault: wp.kind, text: `${what}: ${formatNatural(p.unit, p.nominal)} marked, ±${Math.round(100 * (Math.exp(TOLERANCE_SIGMAS * widened) - 1))} % allowed` };
       }
       const e = describeEstimate(p, Math.log(value / p.nominal), 0);
       e.standardDeviation = naturalSd(p, Math.log(value / p.nominal), p.priorSd);
@@ -518,7 +520,13 @@ function separatingMeasurement(setup: FitSetup, a: Scored, b: Scored, figs: (s: 
         x[j] = 0;
         const shape = isCapacitor ? (setup.circuit.capacitorShape ?? FLAT_SHAPE) : s.variant?.capacitorShape;
         // A stray stays where it is: the swap changes the part, not the board around it.
-        return setup.figuresAt(x, { parts: { ...s.variant?.parts, ...known }, ...(shape ? { capacitorShape: shape } : {}), ...(s.variant?.strays ? { strays: s.variant.strays } : {}) }).frequencyHz;
+        const law = isCapacitor ? undefined : s.variant?.capacitorScaleV;
+        return setup.figuresAt(x, {
+          parts: { ...s.variant?.parts, ...known },
+          ...(shape ? { capacitorShape: shape } : {}),
+          ...(law !== undefined ? { capacitorScaleV: law } : {}),
+          ...(s.variant?.strays ? { strays: s.variant.strays } : {}),
+        }).frequencyHz;
       };
       const va = at(a);
       const vb = at(b);
@@ -540,23 +548,23 @@ function separatingMeasurement(setup: FitSetup, a: Scored, b: Scored, figs: (s: 
 }
 
 
-/** Starting points tried across a stray's window (fitted space) before the search: its response is far from linear there. */
-const STRAY_STARTS = [-2.5, 0, 2.5];
+/** Starting points tried across a scalar's window (fitted space) before the search: its response is far from linear there. */
+const SCALAR_STARTS = [-2.5, 0, 2.5];
 
 /**
- * A stray hypothesis: its one scalar fitted by MAP within its window (log-logit
- * space, the `off`-like prior of stray-hypotheses.ts), every other effect
- * marginalised within its tolerance like any single cause; evidence by the
- * same Laplace formula.
+ * A hypothesis with one scalar of its own (a stray at N, a dielectric's C(V)
+ * scale): the scalar fitted by MAP within its window (log-logit space, its
+ * near-flat prior), every other effect marginalised within its tolerance (the
+ * hypothesis' whitener) like any single cause; evidence by the same Laplace formula.
  */
-function scoreStray(setup: FitSetup, h: Hypothesis, all: { whiten: (r: Float64Array) => Float64Array; logDet: number }, m: number): Scored | undefined {
-  const stray = h.stray!;
-  const p = stray.parameter;
-  const variantAt = (x: number): CircuitVariant => ({ strays: stray.strays(setup.circuit, naturalValue(p, x)) });
-  const residuals = (xs: Float64Array) => all.whiten(setup.residualsAt(setup.nominalX, variantAt(xs[0])));
+function scoreScalar(setup: FitSetup, h: Hypothesis, w: { whiten: (r: Float64Array) => Float64Array; logDet: number }, m: number): Scored | undefined {
+  const scalar = h.scalar!;
+  const p = scalar.parameter;
+  const variantAt = (x: number): CircuitVariant => scalar.variantAt(naturalValue(p, x));
+  const residuals = (xs: Float64Array) => w.whiten(setup.residualsAt(setup.nominalX, variantAt(xs[0])));
   let start = p.priorMean;
   let best = Infinity;
-  for (const x0 of STRAY_STARTS) {
+  for (const x0 of SCALAR_STARTS) {
     try {
       const cost = sumSq(residuals(Float64Array.of(x0))) + ((x0 - p.priorMean) / p.priorSd) ** 2;
       if (cost < best) {
@@ -564,15 +572,15 @@ function scoreStray(setup: FitSetup, h: Hypothesis, all: { whiten: (r: Float64Ar
         start = x0;
       }
     } catch {
-      // this amount stops the oscillation: not a start
+      // this value stops the oscillation: not a start
     }
   }
   if (!Number.isFinite(best)) return undefined;
   try {
     const s = solveMap({ size: 1, priorMean: [p.priorMean], priorSd: [p.priorSd], residuals, start: [start] }, { ...FIT_SEARCH, maxIterations: 30 });
     const x = s.x[0];
-    const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * all.logDet;
-    return { h, x: setup.nominalX, variant: variantAt(x), strayX: x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - 1)) };
+    const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
+    return { h, x: setup.nominalX, variant: variantAt(x), scalarX: x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - 1)) };
   } catch {
     return undefined;
   }

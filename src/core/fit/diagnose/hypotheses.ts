@@ -26,7 +26,7 @@
  */
 import { findTopology } from '../../circuit/topologies/index.ts';
 import type { Circuit } from '../../circuit/types.ts';
-import { FLAT_SHAPE, JohnsonShape, typicalRetentionAtRated, type CaseSize } from '../../parts/capacitor/dc-bias.ts';
+import { CASE_SIZES, FLAT_SHAPE, JohnsonShape, typicalRetentionAtRated, type CaseSize } from '../../parts/capacitor/dc-bias.ts';
 import { parseDielectric } from '../../parts/dielectric.ts';
 import { isInSeries, nearestInSeries, type SeriesName } from '../../parts/series.ts';
 import { TOLERANCE_SIGMAS, type FitParameter } from '../estimate/parameters.ts';
@@ -52,7 +52,19 @@ export interface Hypothesis {
   wrongPart?: { kind: WrongPartKind; roles: string[]; words: string };
   /** The stray a `stray` hypothesis fits (one scalar in its window). */
   stray?: StrayEffect;
+  /** One scalar the hypothesis fits in its window (a stray's amount, a dielectric's C(V) scale), and what it makes of the circuit. */
+  scalar?: ScalarFit;
   logPrior: number;
+}
+
+/** A scalar fitted within a window by a hypothesis of its own (not one of the setup's parameters). */
+export interface ScalarFit {
+  /** Kind 'stray' or 'part'-like, log-logit over its window; its prior is the hypothesis' own. */
+  parameter: FitParameter;
+  /** The circuit variant at a natural value of the scalar. */
+  variantAt(value: number): CircuitVariant;
+  /** Words for the cause at the fitted value. */
+  words(value: number): string;
 }
 
 export const PRIOR_EFFECT_OFF = 0.02;
@@ -101,24 +113,54 @@ const decadeSlip: WrongPartSource = (circuit, role) =>
   }));
 
 /**
- * Class II parts a flat timing capacitor may have been swapped for: an X7R body
- * (the archetypal class II code) in the cases and ratings most often fitted,
- * each with its class-typical C(V) (dc-bias.ts). Curves whose scale voltages lie
- * within CURVE_SPACING of one kept are dropped (the fit cannot tell them apart).
+ * Class II parts a timing capacitor may have been swapped for: class II and
+ * III bodies (X7R, X5R, Y5V) in every case size and the common ratings, each
+ * with its class-typical C(V) from the capacitor model (dc-bias.ts, Johnson's
+ * law through the retention at the rated voltage). The hypothesis fits the
+ * law's scale voltage within the span these parts cover (a curve between two
+ * catalogued ones is as plausible as either: real parts scatter around the
+ * class-typical figure), and names the nearest of them as an example.
  */
-const CLASS_II_SWAPS: readonly { caseSize: CaseSize; ratedVoltageV: number }[] = [
-  { caseSize: '0402', ratedVoltageV: 6.3 },
-  { caseSize: '0402', ratedVoltageV: 16 },
-  { caseSize: '0603', ratedVoltageV: 10 },
-  { caseSize: '0603', ratedVoltageV: 50 },
-  { caseSize: '0805', ratedVoltageV: 16 },
-  { caseSize: '1206', ratedVoltageV: 50 },
-];
-const CURVE_SPACING = 0.25;
+const CLASS_II_BODIES = ['X7R', 'X5R', 'Y5V'] as const;
+const CLASS_II_RATINGS_V = [4, 6.3, 10, 16, 25, 50, 100] as const;
+
+interface ClassTypicalPart {
+  dielectric: string;
+  caseSize: CaseSize;
+  ratedVoltageV: number;
+  retention: number;
+  scaleV: number;
+}
+
+const CLASS_TYPICAL_PARTS: readonly ClassTypicalPart[] = CLASS_II_BODIES.flatMap((code) => {
+  const d = parseDielectric(code);
+  return CASE_SIZES.flatMap((caseSize) =>
+    CLASS_II_RATINGS_V.map((ratedVoltageV) => {
+      const retention = typicalRetentionAtRated(d, ratedVoltageV, caseSize);
+      return { dielectric: code, caseSize, ratedVoltageV, retention, scaleV: JohnsonShape.throughRetention(ratedVoltageV, retention).scaleV };
+    }),
+  );
+});
+
 /** A curve that keeps this share of its capacitance at the largest bias the supply can put on it is flat for this circuit. */
 const FLAT_ENOUGH = 0.97;
 /** Marked-value tolerance of a class II timing capacitor: ±10 % (K, the usual class II grade; common practice). */
 const CLASS_II_TOLERANCE = 0.1;
+/** Prior σ of the scale voltage in its window (log-logit space): nearly flat across it, as for an effect that is off. */
+const SCALE_PRIOR_SD = 1.8;
+
+/** The class-typical part whose curve is nearest (log of the scale) to a fitted scale voltage. */
+function nearestClassTypical(scaleV: number, maxBiasV: number): ClassTypicalPart {
+  let best = CLASS_TYPICAL_PARTS[0];
+  for (const p of CLASS_TYPICAL_PARTS) {
+    // Only a part that could sit on this supply (rated at or above the bias it sees), when one is near.
+    const fits = p.ratedVoltageV >= 0.5 * maxBiasV;
+    const bestFits = best.ratedVoltageV >= 0.5 * maxBiasV;
+    const closer = Math.abs(Math.log(p.scaleV / scaleV)) < Math.abs(Math.log(best.scaleV / scaleV));
+    if ((fits && !bestFits) || (fits === bestFits && closer)) best = p;
+  }
+  return best;
+}
 
 /** The timing capacitor of another dielectric class (only the capacitor role; its marked value spreads within a class II tolerance). */
 const otherDielectric: WrongPartSource = (circuit, role, parameters) => {
@@ -127,32 +169,35 @@ const otherDielectric: WrongPartSource = (circuit, role, parameters) => {
   const j = parameters.findIndex((p) => p.name === role);
   if (j < 0) return [];
   const declared = circuit.capacitorShape;
-  const declaredScaleV = declared instanceof JohnsonShape ? declared.scaleV : undefined;
   const nuisanceSd = { [j]: Math.max(parameters[j].priorSd, Math.log(1 + CLASS_II_TOLERANCE) / TOLERANCE_SIGMAS) };
-  const x7r = parseDielectric('X7R');
   const maxBiasV = Math.max(Math.abs(circuit.supply.positiveV), Math.abs(circuit.supply.negativeV));
-  const curves: { scaleV: number; words: string }[] = [];
-  for (const swap of CLASS_II_SWAPS) {
-    const retention = typicalRetentionAtRated(x7r, swap.ratedVoltageV, swap.caseSize);
-    const shape = JohnsonShape.throughRetention(swap.ratedVoltageV, retention);
-    const near = (scaleV: number) => Math.abs(Math.log(shape.scaleV / scaleV)) < CURVE_SPACING;
-    if (curves.some((c) => near(c.scaleV)) || (declaredScaleV !== undefined && near(declaredScaleV))) continue;
-    if (shape.ratio(maxBiasV) >= FLAT_ENOUGH) continue;
-    curves.push({ scaleV: shape.scaleV, words: `an X7R-like ${swap.caseSize} ${swap.ratedVoltageV} V part (class-typical C(V): ${Math.round(retention * 100)} % kept at ${swap.ratedVoltageV} V)` });
+  // The window: the strongest class-typical derating to the weakest one that still moves this circuit (FLAT_ENOUGH at the largest bias).
+  const flatScaleV = maxBiasV / Math.sqrt(FLAT_ENOUGH ** -3 - 1);
+  const scales = CLASS_TYPICAL_PARTS.map((p) => p.scaleV);
+  const lo = Math.min(...scales);
+  const hi = Math.min(Math.max(...scales), flatScaleV);
+  const out: Hypothesis[] = [];
+  if (hi > lo * 1.01) {
+    const parameter: FitParameter = { name: 'capacitorScaleV', kind: 'part', unit: 'V', space: 'log-logit', nominal: declared instanceof JohnsonShape ? declared.scaleV : Infinity, lo, hi, priorMean: 0, priorSd: SCALE_PRIOR_SD, offSd: SCALE_PRIOR_SD, label: `${role} C(V) scale voltage` };
+    const words = (scaleV: number) => {
+      const shape = new JohnsonShape(scaleV);
+      const example = nearestClassTypical(scaleV, maxBiasV);
+      return (
+        `${role} is a class II ceramic that loses capacitance with DC bias (fitted: keeps ${Math.round(100 * shape.ratio(maxBiasV))} % at ${Number(maxBiasV.toPrecision(3))} V), ` +
+        `e.g. an ${example.dielectric}-like ${example.caseSize} ${example.ratedVoltageV} V part (class-typical C(V): ${Math.round(example.retention * 100)} % kept at ${example.ratedVoltageV} V)` +
+        (declared && declared.kind !== 'flat' ? ', not the part declared' : ', not a flat dielectric')
+      );
+    };
+    out.push({
+      id: `other-dielectric:${role}=class-II`,
+      kind: 'wrong-part',
+      active: [],
+      nuisanceSd,
+      scalar: { parameter, variantAt: (scaleV) => ({ capacitorScaleV: scaleV }), words },
+      wrongPart: { kind: 'other-dielectric', roles: [role], words: `${role} is a class II ceramic that loses capacitance with DC bias` },
+      logPrior: Math.log(PRIOR_WRONG_PART),
+    });
   }
-  const out: Hypothesis[] = curves.map((c) => ({
-    id: `other-dielectric:${role}=class-II@${Number(c.scaleV.toPrecision(3))}V`,
-    kind: 'wrong-part' as const,
-    active: [],
-    nuisanceSd,
-    variant: { capacitorShape: new JohnsonShape(c.scaleV) },
-    wrongPart: {
-      kind: 'other-dielectric' as const,
-      roles: [role],
-      words: `${role} is a class II ceramic that loses capacitance with DC bias, e.g. ${c.words}${declared && declared.kind !== 'flat' ? ', not the part declared' : ', not a flat dielectric'}`,
-    },
-    logPrior: Math.log(PRIOR_WRONG_PART / curves.length),
-  }));
   if (declared && declared.kind !== 'flat') {
     out.push({
       id: `other-dielectric:${role}=flat`,
@@ -191,7 +236,16 @@ export function buildHypotheses(circuit: Circuit, parameters: readonly FitParame
       });
     }
   }
-  for (const stray of strayEffects(circuit)) out.push({ id: `stray:${stray.field}`, kind: 'stray', active: [], stray, logPrior: Math.log(stray.prior) });
+  for (const stray of strayEffects(circuit)) {
+    out.push({
+      id: `stray:${stray.field}`,
+      kind: 'stray',
+      active: [],
+      stray,
+      scalar: { parameter: stray.parameter, variantAt: (value) => ({ strays: stray.strays(circuit, value) }), words: (value) => stray.words(value) },
+      logPrior: Math.log(stray.prior),
+    });
+  }
   return out;
 }
 

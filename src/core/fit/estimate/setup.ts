@@ -5,7 +5,7 @@
  */
 import type { Strays } from '../../circuit/strays.ts';
 import type { Circuit } from '../../circuit/types.ts';
-import type { BiasShape } from '../../parts/capacitor/dc-bias.ts';
+import { JohnsonShape, type BiasShape } from '../../parts/capacitor/dc-bias.ts';
 import { CoreError } from '../../errors.ts';
 import { ForwardModel, type PredictedFigures } from './forward.ts';
 import { solveMap, type MapSolution } from './map-lm.ts';
@@ -21,9 +21,40 @@ import { buildParameters, circuitAt, nominalVector, type FitParameter } from './
 export interface CircuitVariant {
   parts?: Readonly<Record<string, number>>;
   capacitorShape?: BiasShape;
+  /**
+   * The timing capacitor follows the class-typical law (JohnsonShape) with this scale voltage: a
+   * hypothesis that fits the curve. Evaluated through one adjustable shape (FITTED_LAW), so the
+   * engine compiles one circuit shape for every scale instead of one per trial value.
+   */
+  capacitorScaleV?: number;
   /** The whole strays record of the variant (what the circuit declares plus the hypothesis' own). */
   strays?: Strays;
 }
+
+/**
+ * The class-typical law with an adjustable scale, for fits over the scale. Its
+ * key is fixed, so every scale walks the same compiled shape (a compiled shape
+ * holds its curve by reference and reads it per piece, never caching values of
+ * it); the scale is set right before each evaluation, which the fit makes
+ * synchronously one at a time. One instance per thread: a second instance
+ * with the same key would share the first one's compiled shape.
+ */
+class AdjustableLaw implements BiasShape {
+  readonly kind = 'class-typical' as const;
+  readonly key = 'johnson:fit-adjustable';
+  readonly kneesV: readonly number[] = [];
+  private law = new JohnsonShape(1);
+  set scaleV(v: number) {
+    if (v !== this.law.scaleV) this.law = new JohnsonShape(v);
+  }
+  ratio(voltageV: number): number {
+    return this.law.ratio(voltageV);
+  }
+  charge(voltageV: number): number {
+    return this.law.charge(voltageV);
+  }
+}
+const FITTED_LAW = new AdjustableLaw();
 
 export interface FitSetup {
   circuit: Circuit;
@@ -44,6 +75,10 @@ export function createFitSetup(circuit: Circuit, measurements: Measurement[], to
   const figuresAt = (x: ArrayLike<number>, variant?: CircuitVariant) => {
     const at = circuitAt(circuit, parameters, x, variant?.parts);
     if (variant?.capacitorShape) at.capacitorShape = variant.capacitorShape;
+    if (variant?.capacitorScaleV !== undefined) {
+      FITTED_LAW.scaleV = variant.capacitorScaleV;
+      at.capacitorShape = FITTED_LAW;
+    }
     if (variant?.strays) at.strays = variant.strays;
     return forward.figures(at);
   };
