@@ -127,7 +127,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         return high;
       });
       let current = evaluateCorner(start, bits);
-      let point = start;
+      const point = start;
       const better = (r: { frequencyHz: number; dutyCycle: number } | undefined) =>
         r !== undefined && current !== undefined && score(o, r.frequencyHz, r.dutyCycle) > score(o, current.frequencyHz, current.dutyCycle);
       const flip = (p: Float64Array, k: number) => {
@@ -138,13 +138,15 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         let candidateBits = bits ^ (1 << k);
         if (l !== undefined) candidateBits ^= 1 << l;
         if (remember && visited.has(candidateBits) && !better(visited.get(candidateBits))) return false;
-        const candidate = point.slice();
-        flip(candidate, k);
-        if (l !== undefined) flip(candidate, l);
-        const r = evaluateCorner(candidate, candidateBits);
-        if (!r) return false;
-        if (!better(r)) return false;
-        point = candidate;
+        // Flipped in place and flipped back when it does not improve (offer copies what it keeps).
+        flip(point, k);
+        if (l !== undefined) flip(point, l);
+        const r = evaluateCorner(point, candidateBits);
+        if (!r || !better(r)) {
+          flip(point, k);
+          if (l !== undefined) flip(point, l);
+          return false;
+        }
         bits = candidateBits;
         current = r;
         return true;
