@@ -2367,7 +2367,7 @@ export interface components {
              */
             timingNodeF?: number;
             /**
-             * @description Board capacitance at the threshold node P (non-inverting input) to ground, F (default 0). Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces); beside a class II/III C(V) capacitor: 422 not-modelled
+             * @description Board capacitance at the threshold node P (non-inverting input) to ground, F (default 0). Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces; check stray-capacitance-significant when it and outputNodeF move the frequency by more than 2 %); beside a class II/III C(V) capacitor: 422 not-modelled
              * @default 0
              */
             thresholdNodeF?: number;

@@ -185,5 +185,12 @@ describe('capacitance at P and at the output pin reaches every answer (the same 
     const rule = result.rules.find((x: { code: string }) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec');
     const analyzed = (await post('/v1/analyze', trace)).json();
     expect(rule.figures.nominalFrequencyHz / analyzed.frequencyHz - 1).toBeCloseTo(0, 9);
+    // 470 pF at P and 1 nF at the pin move it by well under 2 %: no stray rule.
+    expect(result.rules.map((r: { code: string }) => r.code)).not.toContain('stray-capacitance-significant');
+    // 22 nF at P (a filter capacitor fitted there by mistake) does: the rule names both frequencies.
+    const heavy = (await post('/v1/bom-checks', { assemblies: [{ ...assembly, id: 'probe-on-P', strays: { thresholdNodeF: 22e-9 } }] })).json().results[0];
+    const stray = heavy.rules.find((r: { code: string }) => r.code === 'stray-capacitance-significant');
+    expect(stray.figures).toMatchObject({ thresholdNodeCapacitanceF: 22e-9, maximumFrequencyShift: 0.02 });
+    expect(Math.abs(stray.figures.frequencyShift)).toBeGreaterThan(0.02);
   });
 });

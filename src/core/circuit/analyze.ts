@@ -16,7 +16,7 @@ import { effectsOf, evaluateOnce, EVALUATION_STATUS, nominalKey, OUTPUT_LENGTH, 
 import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck } from './frequency-ceiling.ts';
 import type { AnalysisResult, ModelEffect, ModelName, OscillationFigures } from './result.ts';
 import { stateModelOf, type StateModel } from './state-model.ts';
-import { strayCapacitanceCheck, timingNodeStrayF } from './strays.ts';
+import { hasNodeStrays, strayCapacitanceCheck, timingNodeStrayF, withoutNodeStrays, type NodeStrayShift } from './strays.ts';
 import { findTopology, TOPOLOGY_IDS } from './topologies/index.ts';
 import type { TopologyDefinition } from './topologies/topology.ts';
 import type { Circuit } from './types.ts';
@@ -125,6 +125,20 @@ function frequencyWithoutClamp(circuit: Circuit, model: ModelChoice | undefined)
   }
 }
 
+/**
+ * With capacitance at P or at the pin: the frequency beside the same circuit without it (same model),
+ * for the stray check; undefined when there is none or the circuit without it does not oscillate.
+ */
+function nodeStrayShift(circuit: Circuit, frequencyHz: number, model: ModelChoice | undefined): NodeStrayShift | undefined {
+  if (!hasNodeStrays(circuit)) return undefined;
+  try {
+    return { frequencyHz, frequencyWithoutHz: analyzeTimeDomain(prepareCircuit(withoutNodeStrays(circuit), model)).frequencyHz };
+  } catch (err) {
+    if (err instanceof CoreError) return undefined;
+    throw err;
+  }
+}
+
 /** Points of the C(v) curve an analysis reports over the capacitor's swing. */
 const CURVE_POINTS = 9;
 
@@ -147,7 +161,7 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
       frequencyWithoutClampHz: prepared.dynamics && clampReached(figures, circuit.amplifier) ? frequencyWithoutClamp(circuit, options.model) : undefined,
     }),
   ];
-  const strayCheck = strayCapacitanceCheck(circuit, capacitanceF);
+  const strayCheck = strayCapacitanceCheck(circuit, capacitanceF, nodeStrayShift(circuit, figures.frequencyHz, options.model));
   if (strayCheck) checks.push(strayCheck);
   if (!prepared.dynamics && hasDynamicLimits(circuit.amplifier)) {
     checks.push({

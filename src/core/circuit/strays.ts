@@ -139,21 +139,66 @@ function notModelled(pointer: string, what: string): CoreError {
   );
 }
 
+/** The frequency with the capacitance at P and at the pin, and without it (the same model, the same circuit otherwise). */
+export interface NodeStrayShift {
+  frequencyHz: number;
+  frequencyWithoutHz: number;
+}
+
+/** Whether the circuit has capacitance at P (board or input) or at the output pin (multi-state pieces). */
+export function hasNodeStrays(circuit: Circuit): boolean {
+  return (circuit.strays?.thresholdNodeF ?? 0) > 0 || (circuit.strays?.outputNodeF ?? 0) > 0 || inputCapacitanceOf(circuit) > 0;
+}
+
 /**
- * Warning when the capacitance at the timing node besides the timing capacitor
- * is more than 1/50 of it: the frequency then rests on a stray nobody controls.
+ * The circuit without capacitance at P and at the pin: the amplifier's input capacitance stays at N
+ * (moved into timingNodeF), everything else as given. The baseline of the check below.
  */
-export function strayCapacitanceCheck(circuit: Circuit, timingCapacitanceF: number): Check | undefined {
-  const strayF = timingNodeStrayF(circuit);
-  if (!(strayF > 0) || timingCapacitanceF >= TIMING_STRAY_RATIO_MIN * strayF) return undefined;
-  const ratio = timingCapacitanceF / strayF;
+export function withoutNodeStrays(circuit: Circuit): Circuit {
+  const strays = circuit.strays ?? NO_STRAYS;
   return {
-    code: CHECK_CODES.strayCapacitanceSignificant,
-    severity: 'warning',
-    message: `The timing capacitor (${formatSi(timingCapacitanceF, 'F')}) is only ${ratio.toFixed(1)}× the stray and input capacitance at its node (${formatSi(strayF, 'F')}); keep it at least ${TIMING_STRAY_RATIO_MIN}× so the frequency does not rest on the board`,
-    timingCapacitanceF,
-    strayCapacitanceF: strayF,
-    ratio,
-    minimumRatio: TIMING_STRAY_RATIO_MIN,
+    ...circuit,
+    amplifier: { ...circuit.amplifier, inputCapacitanceF: 0 },
+    strays: { ...strays, timingNodeF: strays.timingNodeF + inputCapacitanceOf(circuit), thresholdNodeF: 0, outputNodeF: 0 },
   };
+}
+
+/**
+ * Warning when the strays decide too much of the frequency: the capacitance at the timing node besides
+ * the timing capacitor is more than 1/50 of it, or the capacitance at P and at the output pin moves
+ * the frequency by more than 1/50 (the same 2 % margin). One check either way (BOM rules report a
+ * code once), with the figures of whichever fired.
+ */
+export function strayCapacitanceCheck(circuit: Circuit, timingCapacitanceF: number, shift?: NodeStrayShift): Check | undefined {
+  const strayF = timingNodeStrayF(circuit);
+  const timingFires = strayF > 0 && timingCapacitanceF < TIMING_STRAY_RATIO_MIN * strayF;
+  const relativeShift = shift ? shift.frequencyHz / shift.frequencyWithoutHz - 1 : 0;
+  const nodeFires = shift !== undefined && Math.abs(relativeShift) > 1 / TIMING_STRAY_RATIO_MIN;
+  if (!timingFires && !nodeFires) return undefined;
+  const parts: string[] = [];
+  const check: Check = { code: CHECK_CODES.strayCapacitanceSignificant, severity: 'warning', message: '' };
+  if (timingFires) {
+    const ratio = timingCapacitanceF / strayF;
+    parts.push(
+      `The timing capacitor (${formatSi(timingCapacitanceF, 'F')}) is only ${ratio.toFixed(1)}× the stray and input capacitance at its node (${formatSi(strayF, 'F')}); keep it at least ${TIMING_STRAY_RATIO_MIN}× so the frequency does not rest on the board`,
+    );
+    Object.assign(check, { timingCapacitanceF, strayCapacitanceF: strayF, ratio, minimumRatio: TIMING_STRAY_RATIO_MIN });
+  }
+  if (nodeFires) {
+    const atP = (circuit.strays?.thresholdNodeF ?? 0) + inputCapacitanceOf(circuit);
+    const atPin = circuit.strays?.outputNodeF ?? 0;
+    parts.push(
+      `The capacitance at the threshold node P (${formatSi(atP, 'F')}) and at the output pin (${formatSi(atPin, 'F')}) moves the frequency by ${(relativeShift * 100).toFixed(1)} % (${formatSi(shift.frequencyHz, 'Hz')} against ${formatSi(shift.frequencyWithoutHz, 'Hz')} without it); keep their RCs short against the half period so the frequency does not rest on the board`,
+    );
+    Object.assign(check, {
+      thresholdNodeCapacitanceF: atP,
+      outputNodeCapacitanceF: atPin,
+      frequencyHz: shift.frequencyHz,
+      frequencyWithoutNodeStraysHz: shift.frequencyWithoutHz,
+      frequencyShift: relativeShift,
+      maximumFrequencyShift: 1 / TIMING_STRAY_RATIO_MIN,
+    });
+  }
+  check.message = parts.join('. ');
+  return check;
 }

@@ -120,7 +120,7 @@ export const Strays = Type.Object(
     ),
     thresholdNodeF: strayF(
       'at the threshold node P (non-inverting input)',
-      "Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces); beside a class II/III C(V) capacitor: 422 not-modelled",
+      "Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces; check stray-capacitance-significant when it and outputNodeF move the frequency by more than 2 %); beside a class II/III C(V) capacitor: 422 not-modelled",
     ),
     outputNodeF: strayF(
       'at the output pin',

@@ -244,3 +244,24 @@ describe('a stiff output charging the capacitance on its pin (charge balance: Q 
     expect(rel(loaded.currents.supplyAverageA - plain.currents.supplyAverageA, extraA)).toBeLessThan(1e-9);
   });
 });
+
+describe('check stray-capacitance-significant covers P and the pin (the same 2 % margin as at N)', () => {
+  const base: Circuit = {
+    topology: 'two-resistor-feedback',
+    supply: { positiveV: 5, negativeV: -5 },
+    amplifier: { ...ideal, outputResistanceOhm: 100 },
+    parts: { rTiming: 100e3, cTiming: 1e-9, rGround: 10e3, rFeedback: 10e3 },
+  };
+  it('fires when they move the frequency by more than 2 %, with the frequency without them (its own analysis)', () => {
+    const loaded = analyzeCircuit({ ...base, strays: strays({ thresholdNodeF: 10e-9, outputNodeF: 10e-9 }) });
+    const plain = analyzeCircuit(base);
+    const check = loaded.checks.find((c) => c.code === 'stray-capacitance-significant');
+    expect(check).toMatchObject({ severity: 'warning', thresholdNodeCapacitanceF: 10e-9, outputNodeCapacitanceF: 10e-9, maximumFrequencyShift: 0.02 });
+    expect(rel(check!.frequencyWithoutNodeStraysHz as number, plain.frequencyHz)).toBeLessThan(1e-12);
+    expect(check!.frequencyShift).toBeCloseTo(loaded.frequencyHz / plain.frequencyHz - 1, 12);
+  });
+  it('stays quiet below 2 % (470 pF at P, 1 nF at the pin)', () => {
+    const loaded = analyzeCircuit({ ...base, strays: strays({ thresholdNodeF: 470e-12, outputNodeF: 1e-9 }) });
+    expect(loaded.checks.some((c) => c.code === 'stray-capacitance-significant')).toBe(false);
+  });
+});
