@@ -353,6 +353,13 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
         ambiguities.push(extra);
       }
     }
+    // The timing pair as a product: the leader blames one timing part (a value off, a wrong part) and a
+    // contender that fits as well blames the other. When the two parts merely off predict alike, the
+    // figures fix their product only, whatever the leader's sharper prior made of it: declared, with the
+    // swap that tells them apart (the leader's own group above may not hold the contender: a wrong part's
+    // fixed value predicts a little apart from both).
+    const product = productAmbiguity(setup, leader, contenders, scored, alike.map((a) => a.s), residualsOf, all.whiten, figs);
+    if (product) ambiguities.push(product);
   }
 
   const tolChi = nominal.chiSquare;
@@ -463,6 +470,51 @@ function whyAlike(setup: FitSetup, group: readonly Scored[]): string {
   return out.length > 0 ? ` ${out.join('. ')}.` : '';
 }
 
+/** See the call: the product rTiming·cTiming (or a steered pair's resistor with the capacitor) when the leader's group misses it. */
+function productAmbiguity(
+  setup: FitSetup,
+  leader: Scored,
+  contenders: readonly Scored[],
+  scored: readonly Scored[],
+  alreadyAlike: readonly Scored[],
+  residualsOf: (s: Scored) => Float64Array,
+  whiten: (r: Float64Array) => Float64Array,
+  figs: (s: Scored) => PredictedFigures,
+): Ambiguity | undefined {
+  if (leader.h.kind === 'nominal') return undefined;
+  const topology = findTopology(setup.circuit.topology)!;
+  const timingRoles = [topology.capacitorRole, ...Object.entries(topology.roles).filter(([, r]) => r.kind === 'resistor' && r.purpose === 'timing').map(([name]) => name)];
+  const blamed = timingRoles.filter((r) => blames(setup, leader, r));
+  if (blamed.length !== 1) return undefined;
+  const own = scored.find((x) => x.h.id === `off:${blamed[0]}`);
+  if (!own) return undefined;
+  const distance = (a: Scored, b: Scored) => {
+    const ra = residualsOf(a);
+    const rb = residualsOf(b);
+    return Math.sqrt(sumSq(whiten(Float64Array.from(ra, (v, i) => v - rb[i]))));
+  };
+  const other = contenders.find(
+    (c) =>
+      !alreadyAlike.includes(c) &&
+      c.h.kind === 'off' &&
+      c.h.active.length === 1 &&
+      c.passes &&
+      c.chiSquare <= leader.chiSquare + CONTENDER_CHI_SQUARE &&
+      timingRoles.some((r) => r !== blamed[0] && blames(setup, c, r)) &&
+      distance(own, c) < SEPARABLE_SIGMA,
+  );
+  if (!other) return undefined;
+  const otherRole = timingRoles.find((r) => r !== blamed[0] && blames(setup, other, r))!;
+  const best = separatingMeasurement(setup, leader, other, figs);
+  const statement =
+    `The measured figures fix the product ${blamed[0]}·${otherRole}, not which of the two is off: they cannot tell ${leader.h.id} from ${other.h.id} ` +
+    `(${own.h.id} and ${other.h.id} predict them alike).` +
+    (best ? ` To separate them: ${separationWords(best)}.` : '');
+  const out: Ambiguity = { hypotheses: [leader.h.id, other.h.id, own.h.id].filter((id, i, all) => all.indexOf(id) === i), measuredSeparationSigma: distance(leader, other), statement };
+  if (best) out.separatingMeasurement = best;
+  return out;
+}
+
 function separationWords(best: SeparatingMeasurement): string {
   return `${best.action} — ${best.predictions.map((p) => `${p.hypothesis} predicts ${formatFigure(best.figure, p.value)}`).join(', ')} (${best.separationSigma.toPrecision(2)} σ apart)`;
 }
@@ -549,7 +601,22 @@ function separatingMeasurement(setup: FitSetup, a: Scored, b: Scored, figs: (s: 
 
 
 /** Starting points tried across a scalar's window (fitted space) before the search: its response is far from linear there. */
-const SCALAR_STARTS = [-2.5, 0, 2.5];
+const SCALAR_STARTS = [-4, -2, 0, 2, 4];
+/**
+ * Search steps of a scalar's fit from the best of its starts. One unknown: a
+ * few Newton-like steps from a start within a fifth of the window reach the
+ * optimum to well below its posterior width; what the 30 of a many-parameter
+ * fit added was creep at a window edge, where the logistic flattens and the
+ * evidence no longer moves (and each trial of a C(V) curve is a costly walk).
+ */
+const SCALAR_ITERATIONS = 4;
+/**
+ * A scalar's search also ends when a rejected step has shrunk below this many
+ * posterior widths: the optimum is then known to far better than its width
+ * (the solver's default, 1e-10, spent some 17 more walks per fit halving a
+ * step that the walk's own precision kept rejecting).
+ */
+const SCALAR_STEP_TOLERANCE = 1e-2;
 
 /**
  * A hypothesis with one scalar of its own (a stray at N, a dielectric's C(V)
@@ -577,7 +644,7 @@ function scoreScalar(setup: FitSetup, h: Hypothesis, w: { whiten: (r: Float64Arr
   }
   if (!Number.isFinite(best)) return undefined;
   try {
-    const s = solveMap({ size: 1, priorMean: [p.priorMean], priorSd: [p.priorSd], residuals, start: [start] }, { ...FIT_SEARCH, maxIterations: 30 });
+    const s = solveMap({ size: 1, priorMean: [p.priorMean], priorSd: [p.priorSd], residuals, start: [start] }, { ...FIT_SEARCH, stepTolerance: SCALAR_STEP_TOLERANCE, maxIterations: SCALAR_ITERATIONS });
     const x = s.x[0];
     const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
     return { h, x: setup.nominalX, variant: variantAt(x), scalarX: x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - 1)) };
