@@ -259,7 +259,10 @@ export function referenceOscillation(c: Circuit, options: ReferenceOptions = {})
     if (Number.isFinite(ilim)) {
       const pin = pinOf(V);
       if (d.stage === 'driven') {
-        const iout = leaving(NODE.output, branches, V, 'rOut');
+        // The stage's own current: through its output resistance (a capacitive pin takes its share of it),
+        // or, a stiff stage holding a capacitive pin, the network's plus the pin capacitance's C·ds/dt.
+        const rOutBranch = branches.find((b) => b.label === 'rOut');
+        const iout = rOutBranch ? current(rOutBranch, V) : leaving(NODE.output, branches, V, 'rOut') + (hasO ? CO * d.rate : 0);
         if (!openDrain) out.push({ g: (ilim - iout) / ilim * span, act: () => (d.stage = 'limSrc') });
         out.push({ g: (ilim + iout) / ilim * span, act: () => (d.stage = 'limSnk') });
       } else if (d.stage === 'limSrc') out.push({ g: s - pin - ilim * amp.outputResistanceOhm, act: () => (d.stage = 'driven') });

@@ -157,6 +157,18 @@ describe('the stray-loaded threshold node against the reference integrator (odex
       },
     },
     {
+      // The stage's current is the one through its output resistance, the pin's capacitance taking its share.
+      name: 'diode-steered, current-limited stage driving 2 nF on the pin through 400 Ω, with delay and input clamp',
+      circuit: {
+        topology: 'diode-steered',
+        supply: { positiveV: 15, negativeV: -15 },
+        amplifier: { ...ideal, outputResistanceOhm: 400, outputCurrentLimitA: 5e-3, recoveryDelayS: 5e-6, differentialClampV: 0.8, inputOffsetV: 1e-3 },
+        parts: { rCharge: 4.7e3, rDischarge: 4.7e3, cTiming: 1e-9, rFeedback: 71.5e3, rGround: 96.5e3 },
+        diode: { forwardDropV: 0.415, resistanceOhm: 50 },
+        strays: strays({ outputNodeF: 2e-9 }),
+      },
+    },
+    {
       name: 'open drain with capacitance at P and at the pin, leakage at P',
       circuit: {
         ...openDrainClock(330e-12),

@@ -493,6 +493,8 @@ function stateSummary(nominal: StateModel, cfg: ConfigModel | undefined, levelV:
     return { tauS: nominal.tauS, asymptoteV: nominal.asymptoteV, switchingV, sourceV, dwellS };
   }
   // With more capacitive nodes the state's settling is its slowest mode; the asymptote is DC (no capacitance in it).
-  const tauS = cfg.dyn ? 1 / Math.min(...cfg.dyn.lambda.subarray(0, cfg.dyn.modeCount)) : 1 / cfg.a;
+  const slowest = cfg.dyn ? Math.min(...cfg.dyn.lambda.subarray(0, cfg.dyn.modeCount)) : cfg.a;
+  // A mode without a DC path (rate 0) has no time constant to report: the nominal state's stands in.
+  const tauS = slowest > 0 ? 1 / slowest : nominal.tauS;
   return { tauS, asymptoteV: (cfg.b0 + cfg.bS * levelV) / cfg.a, switchingV, sourceV, dwellS };
 }

@@ -446,6 +446,17 @@ export class OscillatorWalk {
     }
   }
 
+  /**
+   * A stiff stage holding a capacitive pin also drives its capacitance, Co·ds/dt while it slews: the
+   * current-limit events (limit − i, limit + i) see it as an offset of their rows. 0 for every other event.
+   */
+  private pinnedChargeCurrent(cfg: ConfigModel, dyn: DynamicModel, k: number): number {
+    if (!(dyn.pinnedCapF > 0) || this.rate === 0) return 0;
+    const kind = cfg.evKind[k];
+    const i = dyn.pinnedCapF * this.rate;
+    return kind === EVENT.limitSource ? -i : kind === EVENT.limitSink ? i : 0;
+  }
+
   /** The state of the capacitive nodes now (the pin follows a stiff source that holds it). */
   private stateNow(dyn: DynamicModel): Float64Array {
     if (dyn.oPinned) this.xO = this.s;
@@ -482,7 +493,7 @@ export class OscillatorWalk {
       kind = EVENT.threshold;
     }
     for (let k = 0; k < cfg.eventCount; k++) {
-      te = mk.setRow(dyn.row(QUANTITY.event0 + k)).firstExit(best, cfg.evTol[k]);
+      te = mk.setRow(dyn.row(QUANTITY.event0 + k), 1, this.pinnedChargeCurrent(cfg, dyn, k)).firstExit(best, cfg.evTol[k]);
       if (te < best) {
         best = te;
         kind = cfg.evKind[k];
@@ -696,7 +707,7 @@ export class OscillatorWalk {
       let kind: number = EVENT.threshold;
       let index = 0;
       for (let k = 0; k < cfg.eventCount; k++) {
-        const r = (dyn ? rowAt(dyn.row(QUANTITY.event0 + k), x, s) : cfg.evC[k] + cfg.evV[k] * v + cfg.evS[k] * s) / cfg.evTol[k];
+        const r = (dyn ? rowAt(dyn.row(QUANTITY.event0 + k), x, s) + this.pinnedChargeCurrent(cfg, dyn, k) : cfg.evC[k] + cfg.evV[k] * v + cfg.evS[k] * s) / cfg.evTol[k];
         if (r < worst) {
           worst = r;
           kind = cfg.evKind[k];
