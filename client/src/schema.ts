@@ -4053,7 +4053,7 @@ export interface components {
                 method: "all-corners" | "sensitivity-guided";
                 /** @description Circuits evaluated to find the extremes */
                 cornersEvaluated: number;
-                /** @description Corners at which the circuit does not oscillate */
+                /** @description Corners at which the circuit does not oscillate (all-corners: every such corner; sensitivity-guided: those the search met, so more than 0 whenever it met one). The extremes are over the corners that oscillate */
                 latchedCorners: number;
                 /** @description The corner that produced each extreme */
                 corners: {

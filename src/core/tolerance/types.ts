@@ -125,7 +125,7 @@ export interface WorstCase {
   dutyMax: number;
   method: 'all-corners' | 'sensitivity-guided';
   cornersEvaluated: number;
-  /** Corners at which the circuit does not oscillate (excluded from the extremes). */
+  /** Corners at which the circuit does not oscillate (excluded from the extremes); sensitivity-guided: those the search met. */
   latchedCorners: number;
   corners: { frequencyMin: Corner; frequencyMax: Corner; dutyMin: Corner; dutyMax: Corner };
   /** Whether every corner meets the spec (null without a spec). */

@@ -6,6 +6,20 @@
  * effects point to and then flips single coordinates, and when that stalls
  * pairs of coordinates, while that improves the objective (a local search on
  * the corners: it may miss an extreme that needs three coordinates at once).
+ * Where the board temperature reverses the effect of other dimensions (tempco
+ * spreads, offset drift of unknown sign) it starts from both temperature ends.
+ *
+ * Extremes are over the corners that oscillate. A latched corner is no
+ * candidate but no dead end either: when an objective's start corner latches,
+ * the search backs off to its best oscillating neighbour (or walks away from it
+ * until the circuit oscillates) and ascends from there, along the edge of the
+ * latching region where such extremes sit (there a step may need three
+ * coordinates, one of which alone would latch: those triples are tried too).
+ * Last, every objective is ascended again from the best corner met for each
+ * objective (the ascents cross each other's ground).
+ *
+ * Checked against the exhaustive enumeration on random circuits, latching ones
+ * included (test/core/tolerance/worst-case-search.test.ts).
  */
 import { CoreError } from '../errors.ts';
 import { EVALUATION_STATUS, OUTPUT_LENGTH } from '../circuit/engine/prepared.ts';
@@ -15,7 +29,14 @@ import type { VariationModel } from './variation-model.ts';
 
 /** Exhaustive corner search up to this many dimensions (2^n corners), by model cost. */
 export const MAX_EXHAUSTIVE_DIMENSIONS = { 'closed-form': 14, 'time-domain': 7 } as const;
-const MAX_ASCENT_PASSES = 8;
+/**
+ * Safety stop for one ascent, in passes (a pass tries every single flip, and every pair when no single
+ * flip helps). Each pass that continues improves the objective strictly, so an ascent ends by itself;
+ * the cap only bounds a pathological staircase. Observed: at most a handful of passes.
+ */
+const MAX_ASCENT_PASSES = 64;
+/** Rounds of re-ascending from the best corners met (stops earlier when a round changes no extreme). */
+const MAX_POLISH_ROUNDS = 4;
 
 type Objective = 'frequencyMin' | 'frequencyMax' | 'dutyMin' | 'dutyMax';
 const OBJECTIVES: readonly Objective[] = ['frequencyMin', 'frequencyMax', 'dutyMin', 'dutyMax'];
@@ -23,6 +44,13 @@ const OBJECTIVES: readonly Objective[] = ['frequencyMin', 'frequencyMax', 'dutyM
 interface Found {
   score: number;
   point: Float64Array;
+  /** Whether point is a corner of the box (the nominal is not): an ascent may start there. */
+  corner: boolean;
+  frequencyHz: number;
+  dutyCycle: number;
+}
+
+interface Figures {
   frequencyHz: number;
   dutyCycle: number;
 }
@@ -46,14 +74,17 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
   let latched = 0;
   let allInSpec = true;
   const seenLatched = new Set<string>();
-  const evaluate = (point: Float64Array): { frequencyHz: number; dutyCycle: number } | undefined => {
+  /** Evaluates a point; a latched corner is counted once (isCorner false: a probe inside the box, not counted). */
+  const evaluate = (point: Float64Array, isCorner: boolean): Figures | undefined => {
     terms.apply(point, values);
     evaluated++;
     if (evaluator.evaluate(values, out) !== EVALUATION_STATUS.ok) {
-      const key = point.join(',');
-      if (!seenLatched.has(key)) {
-        seenLatched.add(key);
-        latched++;
+      if (isCorner) {
+        const key = point.join(',');
+        if (!seenLatched.has(key)) {
+          seenLatched.add(key);
+          latched++;
+        }
       }
       allInSpec = false;
       return undefined;
@@ -65,18 +96,17 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
   // Best point per objective, in OBJECTIVES order; the point is copied only when it improves, because
   // callers may hand in a scratch buffer they go on to overwrite.
   const best: (Found | undefined)[] = OBJECTIVES.map(() => undefined);
-  const offer = (point: Float64Array, r: { frequencyHz: number; dutyCycle: number }) => {
+  const offer = (point: Float64Array, r: Figures, corner: boolean) => {
     for (let o = 0; o < OBJECTIVES.length; o++) {
       const s = score(OBJECTIVES[o], r.frequencyHz, r.dutyCycle);
       const current = best[o];
-      if (!current || s > current.score) best[o] = { score: s, point: point.slice(), frequencyHz: r.frequencyHz, dutyCycle: r.dutyCycle };
+      if (!current || s > current.score) best[o] = { score: s, point: point.slice(), corner, frequencyHz: r.frequencyHz, dutyCycle: r.dutyCycle };
     }
   };
-  const corner = (bits: (k: number) => boolean) => Float64Array.from(dims, (d, k) => (bits(k) ? d.high : d.low));
 
   const reference = model.referencePoint();
-  const nominal = evaluate(reference);
-  if (nominal) offer(reference, nominal);
+  const nominal = evaluate(reference, false);
+  if (nominal) offer(reference, nominal, false);
   let method: WorstCase['method'];
   if (n <= MAX_EXHAUSTIVE_DIMENSIONS[evaluator.model]) {
     method = 'all-corners';
@@ -86,86 +116,199 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     const point = new Float64Array(n); // one scratch corner: offer copies what it keeps
     for (let mask = 0; mask < count; mask++) {
       for (let k = 0; k < n; k++) point[k] = ((mask >>> k) & 1) === 1 ? high[k] : low[k];
-      const r = evaluate(point);
-      if (r) offer(point, r);
+      const r = evaluate(point, true);
+      if (r) offer(point, r, true);
     }
   } else {
     method = 'sensitivity-guided';
-    // One-at-a-time effect of each end of each dimension, from the centre.
+    // One-at-a-time effect of each end of each dimension, from the centre (probes inside the box).
     const center = model.centerPoint();
     const ends = dims.map((d, k) =>
       [d.low, d.high].map((x) => {
         const p = center.slice();
         p[k] = x;
-        return evaluate(p);
+        return evaluate(p, false);
       }),
     );
-    // The four ascents revisit corners (each other's starts and neighbours): a corner is evaluated once, keyed
+    // The ascents revisit corners (each other's starts and neighbours): a corner is evaluated once, keyed
     // by its bits (bit k set: dimension k at its high end). The model is deterministic, so a remembered
     // result is the result; it was offered to every objective when first evaluated.
     // (Bits of a 32-bit integer: beyond 30 dimensions nothing is remembered.)
-    const visited = new Map<number, { frequencyHz: number; dutyCycle: number } | undefined>();
+    const visited = new Map<number, Figures | undefined>();
     const remember = n <= 30;
-    const evaluateCorner = (p: Float64Array, bits: number) => {
+    const evaluateCorner = (p: Float64Array, bits: number): Figures | undefined => {
       if (!remember) {
-        const fresh = evaluate(p);
-        if (fresh) offer(p, fresh);
+        const fresh = evaluate(p, true);
+        if (fresh) offer(p, fresh, true);
         return fresh;
       }
       if (visited.has(bits)) return visited.get(bits);
-      const r = evaluate(p);
+      const r = evaluate(p, true);
       visited.set(bits, r);
-      if (r) offer(p, r);
+      if (r) offer(p, r, true);
       return r;
     };
-    for (const o of OBJECTIVES) {
-      let bits = 0;
-      const start = corner((k) => {
-        const [lo, hi] = ends[k];
-        const high = !lo || !hi ? hi !== undefined : score(o, hi.frequencyHz, hi.dutyCycle) >= score(o, lo.frequencyHz, lo.dutyCycle);
-        if (high) bits |= 1 << k;
-        return high;
-      });
-      let current = evaluateCorner(start, bits);
-      const point = start;
-      const better = (r: { frequencyHz: number; dutyCycle: number } | undefined) =>
-        r !== undefined && current !== undefined && score(o, r.frequencyHz, r.dutyCycle) > score(o, current.frequencyHz, current.dutyCycle);
-      const flip = (p: Float64Array, k: number) => {
-        p[k] = p[k] === dims[k].high ? dims[k].low : dims[k].high;
-      };
-      /** Evaluate the point with coordinates k (and l) flipped; move there when it improves the objective. */
-      const tryFlips = (k: number, l?: number): boolean => {
+    // The working corner of the ascent under way: its coordinates, bits and figures (undefined: latched).
+    const point = new Float64Array(n);
+    let bits = 0;
+    let current: Figures | undefined;
+    const flip = (k: number) => {
+      point[k] = point[k] === dims[k].high ? dims[k].low : dims[k].high;
+      bits ^= 1 << k;
+    };
+    const moveTo = (p: Float64Array) => {
+      bits = 0;
+      for (let k = 0; k < n; k++) {
+        point[k] = p[k];
+        if (p[k] === dims[k].high) bits |= 1 << k;
+      }
+    };
+    const scoreOf = (o: Objective, r: Figures | undefined) => (r === undefined ? -Infinity : score(o, r.frequencyHz, r.dutyCycle));
+    /** Flip coordinates k (and l, m when not -1); stay when the objective improves on an oscillating corner, else flip back. */
+    const tryFlips = (o: Objective, k: number, l: number, m: number): boolean => {
+      const currentScore = scoreOf(o, current);
+      if (remember) {
         let candidateBits = bits ^ (1 << k);
-        if (l !== undefined) candidateBits ^= 1 << l;
-        if (remember && visited.has(candidateBits) && !better(visited.get(candidateBits))) return false;
-        // Flipped in place and flipped back when it does not improve (offer copies what it keeps).
-        flip(point, k);
-        if (l !== undefined) flip(point, l);
-        const r = evaluateCorner(point, candidateBits);
-        if (!r || !better(r)) {
-          flip(point, k);
-          if (l !== undefined) flip(point, l);
-          return false;
-        }
-        bits = candidateBits;
-        current = r;
-        return true;
-      };
-      // Ascend by single flips; when stuck, try every pair once (interactions such as asymmetric rails and
-      // offsets can hide an extreme behind two coordinates); stop when neither helps.
-      for (let pass = 0; pass < MAX_ASCENT_PASSES && current; pass++) {
+        if (l >= 0) candidateBits ^= 1 << l;
+        if (m >= 0) candidateBits ^= 1 << m;
+        if (visited.has(candidateBits) && !(scoreOf(o, visited.get(candidateBits)) > currentScore)) return false;
+      }
+      // Flipped in place and flipped back when it does not improve (offer copies what it keeps).
+      flip(k);
+      if (l >= 0) flip(l);
+      if (m >= 0) flip(m);
+      const r = evaluateCorner(point, bits);
+      if (!(scoreOf(o, r) > currentScore)) {
+        flip(k);
+        if (l >= 0) flip(l);
+        if (m >= 0) flip(m);
+        return false;
+      }
+      current = r;
+      return true;
+    };
+    // Ascend by single flips; when stuck, try every pair once (interactions such as asymmetric rails and
+    // offsets can hide an extreme behind two coordinates); stop when neither helps. Latched corners never
+    // improve (score -Infinity), so the ascent keeps to oscillating corners.
+    const ascend = (o: Objective) => {
+      for (let pass = 0; pass < MAX_ASCENT_PASSES; pass++) {
         let improved = false;
         for (let k = 0; k < n; k++) {
-          if (tryFlips(k)) improved = true;
+          if (tryFlips(o, k, -1, -1)) improved = true;
         }
         if (improved) continue;
         for (let k = 0; k < n; k++) {
           for (let l = k + 1; l < n; l++) {
-            if (tryFlips(k, l)) improved = true;
+            if (tryFlips(o, k, l, -1)) improved = true;
           }
         }
-        if (!improved) break;
+        if (improved) continue;
+        if (!remember) return;
+        // On the edge of the latching region the way on may lead through three coordinates, one of which
+        // alone would latch: try each such coordinate with every pair of the others.
+        for (let k = 0; k < n && !improved; k++) {
+          if (!visited.has(bits ^ (1 << k)) || visited.get(bits ^ (1 << k)) !== undefined) continue;
+          for (let l = 0; l < n && !improved; l++) {
+            for (let m = l + 1; m < n && !improved; m++) {
+              if (l !== k && m !== k && tryFlips(o, k, l, m)) improved = true;
+            }
+          }
+        }
+        if (!improved) return;
       }
+    };
+    /**
+     * The start corner latches: the extreme lies on the edge of the latching region. Back off to the best
+     * oscillating single-flip neighbour; when every neighbour latches too, give up the coordinates that
+     * are predicted to matter least first, one after another, until the circuit oscillates.
+     */
+    const backOff = (o: Objective, gain: Float64Array) => {
+      let bestK = -1;
+      let bestScore = -Infinity;
+      for (let k = 0; k < n; k++) {
+        flip(k);
+        const s = scoreOf(o, evaluateCorner(point, bits));
+        flip(k);
+        if (s > bestScore) {
+          bestScore = s;
+          bestK = k;
+        }
+      }
+      if (bestK >= 0) {
+        flip(bestK);
+        current = evaluateCorner(point, bits);
+        return;
+      }
+      const order = Array.from({ length: n }, (_, k) => k).sort((a, b) => gain[a] - gain[b]);
+      for (const k of order) {
+        flip(k);
+        current = evaluateCorner(point, bits);
+        if (current) return;
+      }
+    };
+    // The board temperature multiplies the dimensions whose effect changes sign with it (a tempco's spread,
+    // an offset drift of unknown sign: value ∝ w·ΔT), so each temperature end is a basin of its own whose
+    // best signs for those dimensions are opposite. At the centre ΔT ≈ 0 and their effects say nothing:
+    // they are probed at each temperature end, and the search starts from both ends.
+    const t = model.temperatureDimension;
+    const signDims = t >= 0 ? dims.flatMap((d, k) => (d.kind === 'tempco-spread' ? [k] : [])) : [];
+    const basins = signDims.length > 0 ? [dims[t].low, dims[t].high] : [];
+    const basinEnds = basins.map((temperature) => {
+      const byDim = new Map<number, (Figures | undefined)[]>();
+      for (const k of signDims) {
+        byDim.set(k, [dims[k].low, dims[k].high].map((x) => {
+          const p = center.slice();
+          p[t] = temperature;
+          p[k] = x;
+          return evaluate(p, false);
+        }));
+      }
+      return byDim;
+    });
+    const gain = new Float64Array(n);
+    const start = new Float64Array(n);
+    /**
+     * Start where the one-at-a-time effects point (at the basin's temperature end for the sign dimensions;
+     * basin −1: no basins); gain[k]: what the chosen end of k is predicted to add.
+     */
+    const predict = (o: Objective, basin: number) => {
+      for (let k = 0; k < n; k++) {
+        if (basin >= 0 && k === t) {
+          start[k] = basins[basin];
+          gain[k] = Infinity;
+          continue;
+        }
+        const [lo, hi] = (basin >= 0 ? basinEnds[basin].get(k) : undefined) ?? ends[k];
+        const high = !lo || !hi ? hi !== undefined : score(o, hi.frequencyHz, hi.dutyCycle) >= score(o, lo.frequencyHz, lo.dutyCycle);
+        start[k] = high ? dims[k].high : dims[k].low;
+        gain[k] = lo && hi ? Math.abs(score(o, hi.frequencyHz, hi.dutyCycle) - score(o, lo.frequencyHz, lo.dutyCycle)) : Infinity;
+      }
+    };
+    for (const o of OBJECTIVES) {
+      for (let basin = basins.length > 0 ? 0 : -1; basin < basins.length; basin++) {
+        predict(o, basin);
+        moveTo(start);
+        current = evaluateCorner(point, bits);
+        if (!current) backOff(o, gain);
+        if (current) ascend(o);
+      }
+    }
+    // Polish: ascend again for each objective from the best corner met for every objective (an extreme of
+    // one figure is often next to another's). Remembered corners cost nothing, so a start whose
+    // neighbourhood was searched adds nothing; without memory (beyond 30 dimensions) it would repeat
+    // every ascent, so it is left out there.
+    for (let round = 0; remember && round < MAX_POLISH_ROUNDS; round++) {
+      const before = best.map((b) => b?.score);
+      for (let o = 0; o < OBJECTIVES.length; o++) {
+        for (let from = 0; from < OBJECTIVES.length; from++) {
+          const found = best[from];
+          if (!found || !found.corner) continue;
+          moveTo(found.point);
+          current = { frequencyHz: found.frequencyHz, dutyCycle: found.dutyCycle };
+          ascend(OBJECTIVES[o]);
+        }
+      }
+      if (best.every((b, o) => b?.score === before[o])) break;
     }
   }
   if (best[0] === undefined) throw new CoreError('no-oscillation', 'The circuit oscillates at no point of the tolerance box (nominal and corners all latch)');

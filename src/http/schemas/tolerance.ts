@@ -182,7 +182,7 @@ export const ToleranceResult = Type.Object(
           description: `all-corners: every corner of the box (up to ${MAX_EXHAUSTIVE_DIMENSIONS['closed-form']} varied parameters with the closed form, ${MAX_EXHAUSTIVE_DIMENSIONS['time-domain']} with the time-domain model); sensitivity-guided beyond that: corners chosen from one-at-a-time effects, then improved by ascent`,
         }),
         cornersEvaluated: Type.Integer({ description: 'Circuits evaluated to find the extremes' }),
-        latchedCorners: Type.Integer({ description: 'Corners at which the circuit does not oscillate' }),
+        latchedCorners: Type.Integer({ description: 'Corners at which the circuit does not oscillate (all-corners: every such corner; sensitivity-guided: those the search met, so more than 0 whenever it met one). The extremes are over the corners that oscillate' }),
         corners: Type.Object(
           {
             frequencyMin: ref(Corner, 'The corner with the lowest frequency'),
