@@ -8,9 +8,12 @@
  * quadrature of charging.ts does not apply. It is solved as a whole-interval
  * spectral collocation (Picard iteration on Chebyshev–Lobatto nodes with
  * Clenshaw–Curtis integration, the "Picard–Chebyshev" method), started from the
- * exact exponential-plus-ramp solution with the capacitance frozen at its start,
- * over as few sub-intervals as keep a·h/r small enough for the iteration to
- * contract fast. The result is a polynomial per sub-interval, so any time inside
+ * exact exponential-plus-ramp solution with the capacitance frozen at its start.
+ * The iteration carries the frozen-capacitance decay −(a/r_A)·v on its implicit
+ * side (a fixed matrix per step size, built once), so it contracts with the
+ * CHANGE of capacitance over a sub-interval rather than with a·h/r itself:
+ * sub-intervals are as long as the degree resolves, and the fixed point is the
+ * same collocation solution plain Picard converges to. The result is a polynomial per sub-interval, so any time inside
  * the piece is evaluated (and root-solved) without stepping: the same dense
  * answer serves the events, the figures and the waveform samples.
  *
@@ -22,8 +25,11 @@ import type { BiasShape } from './dc-bias.ts';
 
 /** Polynomial degree per sub-interval. */
 const N = 12;
-/** a·h / r bound per sub-interval: the Picard contraction factor is about this. */
-const CONTRACTION = 0.2;
+/**
+ * a·h / r_A of the first try per sub-interval (halved while the tail check fails): the
+ * polynomial must resolve e^(−a·t/r) over it, whose Chebyshev coefficients fall as (κ/4)^k/k!.
+ */
+const STEP_KAPPA = 1;
 const MAX_PICARD = 60;
 const MAX_SEGMENTS = 512;
 /** Converged when the node values change by less than this, relative to the voltage scale. */
@@ -79,6 +85,65 @@ const INTEGRATE = (() => {
   return m;
 })();
 
+/**
+ * The split Picard step for the step level κ = α·h (α the frozen decay rate a/r_A):
+ * the collocation equations v = v_A + (h/2)·M·f with f = −α·v + g rearrange to
+ * v = v_A·P·1 + (h/2)·P·M·g, P = (I + (κ/2)·M)⁻¹. Built once per level (levels are
+ * STEP_KAPPA·2^−n, and 0 for plain Picard) and kept: PM row-major, u = P·1.
+ */
+interface SplitStep {
+  readonly kappa: number;
+  readonly pm: Float64Array;
+  readonly u: Float64Array;
+}
+const SPLIT_LEVELS: SplitStep[] = [];
+const PLAIN_PICARD: SplitStep = { kappa: 0, pm: INTEGRATE, u: new Float64Array(N + 1).fill(1) };
+
+function splitStep(level: number): SplitStep {
+  const cached = SPLIT_LEVELS[level];
+  if (cached) return cached;
+  const kappa = STEP_KAPPA * 2 ** -level;
+  const n = N + 1;
+  // Gauss–Jordan with partial pivoting on [I + (κ/2)·M | M | 1] gives P·M and P·1 together.
+  const w = 2 * n + 1;
+  const aug = new Float64Array(n * w);
+  for (let j = 0; j < n; j++) {
+    for (let i = 0; i < n; i++) {
+      aug[j * w + i] = (i === j ? 1 : 0) + 0.5 * kappa * INTEGRATE[j * n + i];
+      aug[j * w + n + i] = INTEGRATE[j * n + i];
+    }
+    aug[j * w + 2 * n] = 1;
+  }
+  for (let col = 0; col < n; col++) {
+    let pivot = col;
+    for (let r = col + 1; r < n; r++) if (Math.abs(aug[r * w + col]) > Math.abs(aug[pivot * w + col])) pivot = r;
+    if (pivot !== col) {
+      for (let k = 0; k < w; k++) {
+        const t = aug[col * w + k];
+        aug[col * w + k] = aug[pivot * w + k];
+        aug[pivot * w + k] = t;
+      }
+    }
+    const inv = 1 / aug[col * w + col];
+    for (let k = 0; k < w; k++) aug[col * w + k] *= inv;
+    for (let r = 0; r < n; r++) {
+      if (r === col) continue;
+      const factor = aug[r * w + col];
+      if (factor === 0) continue;
+      for (let k = 0; k < w; k++) aug[r * w + k] -= factor * aug[col * w + k];
+    }
+  }
+  const pm = new Float64Array(n * n);
+  const u = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    for (let i = 0; i < n; i++) pm[j * n + i] = aug[j * w + n + i];
+    u[j] = aug[j * w + 2 * n];
+  }
+  const step = { kappa, pm, u };
+  SPLIT_LEVELS[level] = step;
+  return step;
+}
+
 /** Σ_{k=0}^{n} c_k T_k(x) by Clenshaw's recurrence. */
 function clenshaw(c: Float64Array, n: number, x: number, offset = 0): number {
   let b1 = 0;
@@ -98,8 +163,11 @@ export class ChebyshevPiece {
   private k1 = 0;
   private v0 = 0;
   private scaleV = 1;
-  /** Length of the next sub-interval; start and length of each solved one (lengths adapt). */
+  /** Length of the current sub-interval; start and length of each solved one (lengths adapt). */
   private h = 0;
+  /** Step level of the next sub-interval (κ = STEP_KAPPA·2^−level; halvings stick); first-interval bound. */
+  private level = 0;
+  private horizonS = Infinity;
   private segments = 0;
   private readonly segStart = new Float64Array(MAX_SEGMENTS + 1);
   private readonly segLen = new Float64Array(MAX_SEGMENTS);
@@ -126,10 +194,9 @@ export class ChebyshevPiece {
     this.scaleV = Math.max(scaleV, Math.abs(v0), 1e-300);
     this.segments = 0;
     this.integralAtStart[0] = 0;
-    // Sub-interval length from the fastest rate the piece can have: a over the smallest ratio near v0.
-    const rNear = Math.min(shape.ratio(v0), shape.ratio(k0 / (a || 1)));
-    this.h = a > 0 ? (CONTRACTION * Math.max(rNear, 1e-3)) / a : Infinity;
-    if (horizonS > 0 && horizonS < this.h) this.h = horizonS;
+    this.level = 0;
+    this.horizonS = horizonS > 0 ? horizonS : Infinity;
+    this.h = a > 0 ? 0 : Infinity;
     this.segStart[0] = 0;
     return this;
   }
@@ -164,11 +231,22 @@ export class ChebyshevPiece {
     const tA = this.segStart[m];
     const vA = m === 0 ? this.v0 : this.valueIn(m - 1, 1);
     const tailTol = 1e-13 * this.scaleV;
+    const plain = !Number.isFinite(this.h);
+    // Frozen decay rate at the segment start: the split's implicit part and the step length's scale.
+    const alpha = plain ? 0 : this.a / Math.max(this.shape.ratio(vA), 1e-3);
     for (let tries = 0; tries < 40; tries++) {
-      this.picard(tA, vA);
+      let step = PLAIN_PICARD;
+      if (!plain) {
+        step = splitStep(this.level);
+        this.h = step.kappa / alpha;
+        if (m === 0 && this.horizonS < this.h) this.h = this.horizonS;
+      }
+      // The split needs κ = α·h exactly; a shorter (horizon-bound) h only changes α, never the fixed point.
+      this.picard(tA, vA, step, plain ? 0 : step.kappa / this.h);
       const c = this.c;
       if (Math.abs(c[N]) + Math.abs(c[N - 1]) <= tailTol) break;
-      this.h *= 0.5;
+      if (plain) this.h *= 0.5;
+      else this.level++;
     }
     const h = this.h;
     const { b, c } = this;
@@ -185,8 +263,11 @@ export class ChebyshevPiece {
     this.integralAtStart[m + 1] = this.integralAtStart[m] + 0.5 * h * clenshaw(b, N + 1, 1);
   }
 
-  /** Picard iteration on one sub-interval of length h from (tA, vA); leaves v's Chebyshev coefficients in c. */
-  private picard(tA: number, vA: number): void {
+  /**
+   * Split Picard iteration (step level `step`, implicit decay rate alpha = κ/h) on one
+   * sub-interval of length h from (tA, vA); leaves v's Chebyshev coefficients in c.
+   */
+  private picard(tA: number, vA: number, step: SplitStep, alpha: number): void {
     const h = this.h;
     const { f, vNodes, c } = this;
     // Start: the frozen-capacitance exact motion (exponential + ramp), good to the capacitance change over the segment.
@@ -200,18 +281,20 @@ export class ChebyshevPiece {
     }
     const tol = PICARD_TOLERANCE * this.scaleV;
     let converged = false;
+    const { pm, u } = step;
     for (let it = 0; it < MAX_PICARD && !converged; it++) {
+      // g = f + α·v: the ODE's right side with the frozen decay moved to the implicit side.
       for (let j = 0; j <= N; j++) {
         const t = tA + ((NODE_X[j] + 1) * h) / 2;
         const v = vNodes[j];
-        f[j] = (this.k0 + this.k1 * t - this.a * v) / this.shape.ratio(v);
+        f[j] = (this.k0 + this.k1 * t - this.a * v) / this.shape.ratio(v) + alpha * v;
       }
       let change = 0;
       for (let j = 0; j <= N; j++) {
         let s = 0;
         const row = j * (N + 1);
-        for (let i = 0; i <= N; i++) s += INTEGRATE[row + i] * f[i];
-        const next = vA + 0.5 * h * s;
+        for (let i = 0; i <= N; i++) s += pm[row + i] * f[i];
+        const next = vA * u[j] + 0.5 * h * s;
         const d = Math.abs(next - vNodes[j]);
         if (d > change) change = d;
         vNodes[j] = next;
