@@ -21,13 +21,21 @@ import { Kinematics } from './kinematics.ts';
 
 /** Event functions a piece can watch (threshold + diodes + clamp + limit). */
 const EXIT_MEMORY = 10;
+/**
+ * Slew pieces kept solved: a walk meets the same few pieces again and again (the
+ * rising and falling edge of every settled cycle, and the re-tries of a piece
+ * shortened by an event), and each is the same polynomial every time.
+ */
+const SLEW_MEMORY = 4;
 
 export class CapacitorKinematics extends Kinematics {
   shape: BiasShape = FLAT_SHAPE;
   private autonomous = true;
   private scaleV = 1;
   private readonly charge = new NonlinearCharge();
-  private readonly cheb = new ChebyshevPiece();
+  private readonly slews = Array.from({ length: SLEW_MEMORY }, () => new ChebyshevPiece());
+  private slewNext = 0;
+  private cheb = this.slews[0];
   /** Events of this piece located at known voltages: their times and voltages (save the inverse at the piece end). */
   private readonly exitT = new Float64Array(EXIT_MEMORY);
   private readonly exitV = new Float64Array(EXIT_MEMORY);
@@ -46,7 +54,15 @@ export class CapacitorKinematics extends Kinematics {
     this.exits = 0;
     // Per unit C0: the "capacitance" is 1 and the current k0 − a·v.
     if (this.autonomous) this.charge.setPiece(this.shape, 1, k0, a);
-    else this.cheb.set(this.shape, a, k0, k1, v0, this.scaleV);
+    else this.cheb = this.slewPiece(a, k0, k1, v0);
+  }
+
+  /** The solved slew piece for these inputs if one is kept, else the oldest slot set to them. */
+  private slewPiece(a: number, k0: number, k1: number, v0: number): ChebyshevPiece {
+    for (const piece of this.slews) if (piece.holds(this.shape, a, k0, k1, v0, this.scaleV)) return piece;
+    const piece = this.slews[this.slewNext];
+    this.slewNext = (this.slewNext + 1) % SLEW_MEMORY;
+    return piece.set(this.shape, a, k0, k1, v0, this.scaleV);
   }
 
   override v(t: number): number {

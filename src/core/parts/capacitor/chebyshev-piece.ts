@@ -182,6 +182,25 @@ export class ChebyshevPiece {
   private readonly b = new Float64Array(N + 2);
 
   /**
+   * Whether this piece was last set with exactly these inputs: its solved
+   * segments are then the answer already (the solve is deterministic), so a walk
+   * that meets the same piece again re-uses them instead of solving anew.
+   */
+  holds(shape: BiasShape, a: number, k0: number, k1: number, v0: number, scaleV: number): boolean {
+    return (
+      this.shape === shape &&
+      this.a === a &&
+      this.k0 === k0 &&
+      this.k1 === k1 &&
+      this.v0 === v0 &&
+      this.scaleInput === scaleV &&
+      this.horizonS === Infinity
+    );
+  }
+
+  private scaleInput = Number.NaN;
+
+  /**
    * r(v)·v' = k0 + k1·t − a·v from v(0) = v0; scaleV sets the convergence tolerance (the supply span);
    * horizonS (when known: the end of the slew) bounds the first sub-interval.
    */
@@ -191,6 +210,7 @@ export class ChebyshevPiece {
     this.k0 = k0;
     this.k1 = k1;
     this.v0 = v0;
+    this.scaleInput = scaleV;
     this.scaleV = Math.max(scaleV, Math.abs(v0), 1e-300);
     this.segments = 0;
     this.integralAtStart[0] = 0;
