@@ -55,9 +55,11 @@ function coefficients(f: Float64Array, c: Float64Array): void {
 
 /** Antiderivative coefficients b (degree N+1) of p = Σ c_k T_k with I(−1) = 0. */
 function antiderivative(c: Float64Array, b: Float64Array): void {
-  const at = (k: number) => (k <= N ? c[k] : 0);
-  b[1] = c[0] - 0.5 * at(2);
-  for (let k = 2; k <= N + 1; k++) b[k] = (at(k - 1) - at(k + 1)) / (2 * k);
+  // c_k beyond N is 0 (written out: a helper closure here would be built on every call).
+  b[1] = c[0] - 0.5 * c[2];
+  for (let k = 2; k < N; k++) b[k] = (c[k - 1] - c[k + 1]) / (2 * k);
+  b[N] = c[N - 1] / (2 * N);
+  b[N + 1] = c[N] / (2 * (N + 1));
   let s = 0;
   for (let k = 1; k <= N + 1; k++) s += k & 1 ? -b[k] : b[k];
   b[0] = -s;
@@ -179,6 +181,7 @@ export class ChebyshevPiece {
   /** ∫ v dt from 0 to the start of each segment. */
   private readonly integralAtStart = new Float64Array(MAX_SEGMENTS + 1);
   private readonly f = new Float64Array(N + 1);
+  private readonly drive = new Float64Array(N + 1);
   private readonly vNodes = new Float64Array(N + 1);
   private readonly c = new Float64Array(N + 1);
   private readonly b = new Float64Array(N + 2);
@@ -304,12 +307,14 @@ export class ChebyshevPiece {
     const tol = PICARD_TOLERANCE * this.scaleV;
     let converged = false;
     const { pm, u } = step;
+    // The sweep's invariants out of the loop: the drive k0 + k1·t at each node, the curve, a.
+    const { drive, shape, a: decay } = this;
+    for (let j = 0; j <= N; j++) drive[j] = this.k0 + this.k1 * (tA + ((NODE_X[j] + 1) * h) / 2);
     for (let it = 0; it < MAX_PICARD && !converged; it++) {
       // g = f + α·v: the ODE's right side with the frozen decay moved to the implicit side.
       for (let j = 0; j <= N; j++) {
-        const t = tA + ((NODE_X[j] + 1) * h) / 2;
         const v = vNodes[j];
-        f[j] = (this.k0 + this.k1 * t - this.a * v) / this.shape.ratio(v) + alpha * v;
+        f[j] = (drive[j] - decay * v) / shape.ratio(v) + alpha * v;
       }
       let change = 0;
       for (let j = 0; j <= N; j++) {
