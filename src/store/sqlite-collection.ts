@@ -19,7 +19,6 @@ type SummaryRow = Omit<DocumentRow, 'body'> & { body_bytes: number };
 
 /** One collection (catalogues, amplifiers...) as rows of the shared `documents` table. */
 export class SqliteDocumentCollection<T extends DocumentBody> implements DocumentCollection<T> {
-  private readonly db: Database.Database;
   private readonly collection: string;
   private readonly codec: DocumentCodec;
   private readonly selectOne: Database.Statement<[string, string], DocumentRow>;
@@ -32,7 +31,6 @@ export class SqliteDocumentCollection<T extends DocumentBody> implements Documen
   private readonly deleteTransaction: (id: string, expectedEtag: string | undefined) => void;
 
   constructor(db: Database.Database, collection: string) {
-    this.db = db;
     this.collection = collection;
     this.codec = new DocumentCodec(collection);
     const columns = 'id, incarnation, version, created_at, updated_at';
