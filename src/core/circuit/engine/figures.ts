@@ -129,18 +129,23 @@ class CycleTotals {
     pinEnds[j] = ev.atStart(cfg.oC, cfg.oV, cfg.oS);
     pinEnds[j + 1] = ev.atEnd(cfg.oC, cfg.oV, cfg.oS);
     const pin = ev.integralFull(cfg.oC, cfg.oV, cfg.oS);
-    if (ev.target) {
-      this.pinHighInt += pin;
-      this.pinHighS += T;
-    } else {
-      this.pinLowInt += pin;
-      this.pinLowS += T;
-    }
-    if (ev.logic) this.highPiece = cfg;
-    else this.lowPiece = cfg;
+    this.addPinShare(ev, cfg, pin, T);
     this.railCharge += ev.integralFull(cfg.railC, cfg.railV, cfg.railS);
     this.sourcedCharge += ev.positiveIntegral(cfg.iC, cfg.iV, cfg.iS, scratchT, scratchDir);
     this.addRanges(ev, cfg, cache);
+  }
+
+  /** The pin's ∫ over a piece (V·s) and its duration (s) into the driven state's sums; the state's last piece. */
+  private addPinShare(ev: PieceEvaluator, cfg: ConfigModel, pinIntegralVS: number, durationS: number): void {
+    if (ev.target) {
+      this.pinHighInt += pinIntegralVS;
+      this.pinHighS += durationS;
+    } else {
+      this.pinLowInt += pinIntegralVS;
+      this.pinLowS += durationS;
+    }
+    if (ev.logic) this.highPiece = cfg;
+    else this.lowPiece = cfg;
   }
 
   /** add() for a multi-state piece: the same sums and extremes, on its rows. */
@@ -152,15 +157,7 @@ class CycleTotals {
     pinEnds[j] = ev.atRow(o, 0);
     pinEnds[j + 1] = ev.atRow(o, T);
     const pin = ev.integralRow(o);
-    if (ev.target) {
-      this.pinHighInt += pin;
-      this.pinHighS += T;
-    } else {
-      this.pinLowInt += pin;
-      this.pinLowS += T;
-    }
-    if (ev.logic) this.highPiece = cfg;
-    else this.lowPiece = cfg;
+    this.addPinShare(ev, cfg, pin, T);
     const rail = dyn.row(QUANTITY.rail);
     let i = dyn.row(QUANTITY.i);
     if (dyn.pinnedCapF > 0 && ev.modal.r !== 0) {

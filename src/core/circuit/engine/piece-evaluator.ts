@@ -44,6 +44,16 @@ export class PieceEvaluator {
   private readonly x0 = new Float64Array(MAX_STATES);
   private readonly span = new Float64Array(2);
 
+  /** What every logged piece records whatever its motion: its place in time, the output state, its configuration. */
+  private takeLogged(d: Float64Array, base: number, cfg: ConfigModel): void {
+    this.startS = d[base + LOG.startS];
+    this.durationS = d[base + LOG.durationS];
+    this.logic = d[base + LOG.logic];
+    this.target = d[base + LOG.target];
+    this.key = cfg.key;
+    this.config = cfg;
+  }
+
   load(index: number): void {
     // The record read in place (this runs for every piece of every figure pass).
     const d = this.log.data;
@@ -55,12 +65,7 @@ export class PieceEvaluator {
       this.x0[SLOT.P] = d[base + LOG.xP0];
       this.x0[SLOT.O] = d[base + LOG.xO0];
       this.modal.set(cfg.dyn, this.x0, d[base + LOG.s0], d[base + LOG.rate]);
-      this.startS = d[base + LOG.startS];
-      this.durationS = d[base + LOG.durationS];
-      this.logic = d[base + LOG.logic];
-      this.target = d[base + LOG.target];
-      this.key = cfg.key;
-      this.config = cfg;
+      this.takeLogged(d, base, cfg);
       return;
     }
     this.dynamic = false;
@@ -68,12 +73,7 @@ export class PieceEvaluator {
     const s0 = d[base + LOG.s0];
     const r = d[base + LOG.rate];
     this.kin.set(cfg.a, cfg.b0 + cfg.bS * s0, cfg.bS * r, d[base + LOG.v0], s0, r);
-    this.startS = d[base + LOG.startS];
-    this.durationS = d[base + LOG.durationS];
-    this.logic = d[base + LOG.logic];
-    this.target = d[base + LOG.target];
-    this.key = cfg.key;
-    this.config = cfg;
+    this.takeLogged(d, base, cfg);
     // The walk logged the far end and ∫v with the piece: no φ-function evaluation here.
     this.ends.fillWithEnd(this.kin, this.durationS, d[base + LOG.vEnd]);
     this.fullIntegralV = d[base + LOG.integralV];

@@ -172,6 +172,9 @@ export class OscillatorWalk {
   private readonly pending = new Float64Array(PENDING_CAPACITY);
   private pendingHead = 0;
   private pendingCount = 0;
+  /** Written by nextTimeEvent(): seconds to the piece's earliest time event and its kind. */
+  private timeEventDt = Infinity;
+  private timeEventKind = 0;
   private motionFlipS = 0;
   /** Delay of each pending flip (it depends on the input slope when the delay follows overdrive). */
   private readonly pendingDelay = new Float64Array(PENDING_CAPACITY);
@@ -374,20 +377,10 @@ export class OscillatorWalk {
     }
     const kin = this.kin;
     kin.set(cfg.a, cfg.b0 + cfg.bS * this.s, cfg.bS * this.rate, this.v, this.s, this.rate);
-    let best = Infinity;
-    let kind = 0;
+    this.nextTimeEvent();
+    let best = this.timeEventDt;
+    let kind = this.timeEventKind;
     let index = 0;
-    if (this.pendingCount > 0) {
-      best = Math.max(0, this.pending[this.pendingHead] - this.t);
-      kind = TIME_TARGET;
-    }
-    if (this.rate !== 0) {
-      const dt = Math.max(0, (this.targetLevel() - this.s) / this.rate);
-      if (dt < best) {
-        best = dt;
-        kind = TIME_SLEW_END;
-      }
-    }
     const ends = this.ends;
     // A linear capacitor's piece that ends at a time event: its far end is needed anyway (it usually runs
     // there), and with it the exit tests of a plain exponential piece skip their logarithm.
@@ -467,14 +460,14 @@ export class OscillatorWalk {
     return x;
   }
 
-  /** step() for a piece with more than one capacitive node: the same events, found on the multi-state motion. */
-  private stepDynamic(cfg: ConfigModel, dyn: DynamicModel): void {
-    const mk = this.modal;
-    const x = this.stateNow(dyn);
-    mk.set(dyn, x, this.s, this.rate);
+  /**
+   * The piece's earliest time event, whatever the capacitors do: a pending delay target or the end
+   * of the output's slew ramp (timeEventDt, s from now; Infinity and kind 0 when there is none).
+   * Written to fields, not returned as an object, so the hot path allocates nothing.
+   */
+  private nextTimeEvent(): void {
     let best = Infinity;
     let kind = 0;
-    let index = 0;
     if (this.pendingCount > 0) {
       best = Math.max(0, this.pending[this.pendingHead] - this.t);
       kind = TIME_TARGET;
@@ -486,6 +479,19 @@ export class OscillatorWalk {
         kind = TIME_SLEW_END;
       }
     }
+    this.timeEventDt = best;
+    this.timeEventKind = kind;
+  }
+
+  /** step() for a piece with more than one capacitive node: the same events, found on the multi-state motion. */
+  private stepDynamic(cfg: ConfigModel, dyn: DynamicModel): void {
+    const mk = this.modal;
+    const x = this.stateNow(dyn);
+    mk.set(dyn, x, this.s, this.rate);
+    this.nextTimeEvent();
+    let best = this.timeEventDt;
+    let kind = this.timeEventKind;
+    let index = 0;
     const sg = this.logic ? 1 : -1;
     let te = mk.setRow(dyn.row(QUANTITY.h), sg, this.halfHystV).firstExit(best, this.vTol);
     if (te < best) {
