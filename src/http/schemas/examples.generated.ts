@@ -1606,7 +1606,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "toleranceChiSquare": 5.691431677861721,
           "measurementCount": 5,
           "chiSquareBound95": 11.043946211607775,
-          "nominalScore": 0.7976065581023767,
+          "nominalScore": 0.7976055282765836,
           "statement": "The measurements agree with the nominal circuit within its tolerances (χ² 5.69 for 5 measurements, 95 % bound 11.0)."
         },
         "explanations": [
@@ -1632,7 +1632,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "relativeShift": 0.08150806098463037
               }
             ],
-            "score": 0.04809694082399577,
+            "score": 0.04809687872386668,
             "logEvidence": -11.173635761456051,
             "residualChiSquare": 0.5506727846219915,
             "measurementCount": 5,
@@ -1699,7 +1699,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "relativeShift": 0.07670427133546309
               }
             ],
-            "score": 0.0453496097117646,
+            "score": 0.04534955115883858,
             "logEvidence": -11.232452765823629,
             "residualChiSquare": 0.5362443032579898,
             "measurementCount": 5,
@@ -1764,7 +1764,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "input bias current 1 pA -> 2.84 pA, inside its class-typical spread"
               }
             ],
-            "score": 0.022787681734687298,
+            "score": 0.02278765231248386,
             "logEvidence": -11.92063422104749,
             "residualChiSquare": 5.691431599166274,
             "measurementCount": 5,
@@ -1829,7 +1829,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output resistance 25 Ω -> 24.6 Ω, inside its class-typical spread"
               }
             ],
-            "score": 0.022398353029660967,
+            "score": 0.022398324110137376,
             "logEvidence": -11.93786690551615,
             "residualChiSquare": 5.691241514447325,
             "measurementCount": 5,
@@ -1894,7 +1894,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output high level 2.48 V -> 2.484 V, inside its class-typical spread"
               }
             ],
-            "score": 0.01635768998285046,
+            "score": 0.016357668862699317,
             "logEvidence": -12.252156214099651,
             "residualChiSquare": 5.646796808589731,
             "measurementCount": 5,
@@ -1959,7 +1959,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "input offset 1 mV -> 448.3 µV, inside its class-typical spread"
               }
             ],
-            "score": 0.01632770951781106,
+            "score": 0.01632768843636905,
             "logEvidence": -12.253990701296093,
             "residualChiSquare": 5.6699331649019635,
             "measurementCount": 5,
@@ -2024,7 +2024,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "text": "output low level -2.48 V -> -2.483 V, inside its class-typical spread"
               }
             ],
-            "score": 0.016320019784161748,
+            "score": 0.016319998712648297,
             "logEvidence": -12.254461774412412,
             "residualChiSquare": 5.662114529084074,
             "measurementCount": 5,
@@ -2078,20 +2078,20 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                 "kind": "stray",
                 "unit": "F",
                 "nominal": 0,
-                "estimate": 1.058422157903993e-10,
-                "standardDeviation": 1.0005242013880206e-10,
+                "estimate": 1.0594500922821863e-10,
+                "standardDeviation": 1.0003945018492272e-10,
                 "priorStandardDeviation": 1.6244296674544185e-11,
-                "shift": 1.058422157903993e-10,
-                "shiftInTolerances": 0.4172676676263108,
-                "posteriorToPriorSd": 0.79316050375612,
+                "shift": 1.0594500922821863e-10,
+                "shiftInTolerances": 0.4175393270595422,
+                "posteriorToPriorSd": 0.7932301896336265,
                 "withinTolerance": false,
                 "fault": "stray",
                 "text": "a capacitance of 106 pF at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node)"
               }
             ],
-            "score": 0.014755437312691688,
-            "logEvidence": -12.355242689985545,
-            "residualChiSquare": 3.143978670857317,
+            "score": 0.014756709406373506,
+            "logEvidence": -12.355155190696598,
+            "residualChiSquare": 3.1419383327686123,
             "measurementCount": 5,
             "accountsForMeasurements": true,
             "passesGoodnessOfFit": true,
@@ -2099,37 +2099,37 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
               {
                 "measurement": "frequencyHz",
                 "measured": 9310,
-                "predicted": 9867.768571837118,
+                "predicted": 9867.561371425018,
                 "uncertainty": 5,
-                "normalized": 111.55371436742352
+                "normalized": 111.51227428500351
               },
               {
                 "measurement": "dutyCycle",
                 "measured": 0.5,
-                "predicted": 0.5002150427525436,
+                "predicted": 0.5002150427772006,
                 "uncertainty": 0.002,
-                "normalized": 0.10752137627179081
+                "normalized": 0.1075213886003179
               },
               {
                 "measurement": "capacitorMaxV",
                 "measured": 0.79,
-                "predicted": 0.7835223822431777,
+                "predicted": 0.7835221914146357,
                 "uncertainty": 0.01,
-                "normalized": -0.6477617756822318
+                "normalized": -0.6477808585364286
               },
               {
                 "measurement": "capacitorMinV",
                 "measured": -0.79,
-                "predicted": -0.781534682870766,
+                "predicted": -0.7815344917601329,
                 "uncertainty": 0.01,
-                "normalized": 0.846531712923404
+                "normalized": 0.8465508239867137
               },
               {
                 "measurement": "capacitorRisingTauS",
                 "measured": 0.0000813,
-                "predicted": 0.00007701352771720742,
+                "predicted": 0.00007701517498004728,
                 "uncertainty": 8e-7,
-                "normalized": -5.358090353490724
+                "normalized": -5.3560312749409
               }
             ],
             "summary": "a capacitance of 106 pF at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node): accounts for the measurements (χ² 3.14 for 5, other parts within their tolerances)"
@@ -2490,14 +2490,14 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                   "ratedVoltageV": 16,
                   "caseSize": "0805",
                   "curveBasis": "class-typical",
-                  "swingLowV": 1.6679829291564188,
-                  "swingHighV": 3.335614228685381,
-                  "peakOverRatedFraction": 0.2084758892928363,
+                  "swingLowV": 1.66798292915642,
+                  "swingHighV": 3.335614228685375,
+                  "peakOverRatedFraction": 0.20847588929283595,
                   "markedCapacitanceF": 4.7e-9,
-                  "effectiveCapacitanceF": 3.812382980249008e-9,
-                  "effectiveFraction": 0.8111453149465976,
+                  "effectiveCapacitanceF": 3.812382980249009e-9,
+                  "effectiveFraction": 0.8111453149465977,
                   "nominalFrequencyHz": 6886.277756625088,
-                  "deratedFrequencyHz": 8463.938172007263,
+                  "deratedFrequencyHz": 8463.938172007258,
                   "specLowHz": 6300,
                   "specHighHz": 7700.000000000001
                 },
@@ -2512,9 +2512,9 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                   "specFrequencyHz": 7000,
                   "specLowHz": 6300,
                   "specHighHz": 7700.000000000001,
-                  "nominalFrequencyHz": 8463.938172007265,
-                  "worstCaseMinHz": 4264.780204888277,
-                  "worstCaseMaxHz": 52443.23060381911,
+                  "nominalFrequencyHz": 8463.938172007258,
+                  "worstCaseMinHz": 4264.780204888283,
+                  "worstCaseMaxHz": 52443.230603819095,
                   "method": "sensitivity-guided",
                   "cornersEvaluated": 183,
                   "latchedCorners": 0,

@@ -31,6 +31,7 @@
  * experiment that separates them. With a class II capacitor (C(V)) a flat stray
  * changes the shape of the charging curve, and the capture can tell.
  */
+import { formatSi } from '../../circuit/format.ts';
 import { NO_STRAYS, type Strays } from '../../circuit/strays.ts';
 import type { Circuit } from '../../circuit/types.ts';
 import type { FitParameter } from '../estimate/parameters.ts';
@@ -73,7 +74,7 @@ export function strayEffects(circuit: Circuit): StrayEffect[] {
       prior: PRIOR_STRAY_CAPACITANCE,
       parameter: windowParameter('strayTimingNodeF', 'F', declared.timingNodeF, cLo, cHi, 'capacitance at the timing node N'),
       strays: (c, value) => ({ ...NO_STRAYS, ...c.strays, timingNodeF: declared.timingNodeF + value }),
-      words: (value) => `a capacitance of ${formatPf(value)} at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node)`,
+      words: (value) => `a capacitance of ${formatSi(value, 'F', 3)} at the timing node N besides the timing capacitor (board, amplifier input or a probe left on the node)`,
     },
     {
       field: 'timingLeakageOhm',
@@ -81,18 +82,7 @@ export function strayEffects(circuit: Circuit): StrayEffect[] {
       parameter: windowParameter('leakageTimingNodeOhm', 'ohm', declared.timingLeakageOhm, rLo, rHi, 'leakage from the timing node N to ground'),
       // A leakage found on a board that already declares one is in parallel with it.
       strays: (c, value) => ({ ...NO_STRAYS, ...c.strays, timingLeakageOhm: parallelOhm(declared.timingLeakageOhm, value) }),
-      words: (value) => `a leakage of ${formatOhm(value)} from the timing node N to ground (flux residue, moisture or a damaged input)`,
+      words: (value) => `a leakage of ${formatSi(value, 'Ω', 3)} from the timing node N to ground (flux residue, moisture or a damaged input)`,
     },
   ];
-}
-
-function formatPf(valueF: number): string {
-  const pf = valueF * 1e12;
-  return `${Number(pf.toPrecision(pf < 10 ? 2 : 3))} pF`;
-}
-
-function formatOhm(valueOhm: number): string {
-  const units: [number, string][] = [[1e9, 'GΩ'], [1e6, 'MΩ'], [1e3, 'kΩ']];
-  for (const [scale, unit] of units) if (valueOhm >= scale) return `${Number((valueOhm / scale).toPrecision(3))} ${unit}`;
-  return `${Number(valueOhm.toPrecision(3))} Ω`;
 }
