@@ -6,15 +6,17 @@
  * slew, delay, current limit, clamp and bias on top.
  * - The prepared evaluator equals analyzeCircuit to 1e-12 relative, evaluated at
  *   the circuit's own vector and from a neighbouring circuit's steady state
- *   (the steady-state start many-vector callers use).
+ *   (the steady-state start many-vector callers use, and the neighbour's cycle
+ *   replay where it compiled one: both answer in these draws).
  * - Both equal the independent reference — odex (Hairer & Wanner's ODEX
  *   extrapolation integrator, npm registry) integrating the same circuit ODE with
  *   bisection event location (engine-odex-reference.ts) — to 1e-6 in period and duty.
  * A fixed-seed generator keeps every run on the same circuits.
  */
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { analyzeCircuit, BUILT_IN_AMPLIFIERS, CoreError, prepareModel, TOPOLOGIES, type AmplifierModel, type Circuit } from '../../../src/core/index.ts';
 import { OUTPUT_LENGTH, OUTPUT_SLOT } from '../../../src/core/circuit/engine/prepared.ts';
+import { CycleReplay } from '../../../src/core/circuit/engine/cycle-replay.ts';
 import { referenceOscillation } from './engine-odex-reference.ts';
 
 function lcg(seed: number): () => number {
@@ -75,6 +77,7 @@ describe('prepared evaluator = analyzeCircuit = odex reference, every registered
       expect(circuits.length).toBe(PER_TOPOLOGY);
       const out = new Float64Array(OUTPUT_LENGTH);
       let fromNeighbour = 0;
+      const replay = vi.spyOn(CycleReplay.prototype, 'run');
       let closedForm = 0;
       let odexChecked = 0;
       for (const c of circuits) {
@@ -119,6 +122,11 @@ describe('prepared evaluator = analyzeCircuit = odex reference, every registered
           expect(Math.abs(out[OUTPUT_SLOT.dutyCycle] - ref.dutyCycle), 'prepared vs odex duty').toBeLessThan(1e-6);
         }
       }
+      const replayed = replay.mock.results.filter((r) => r.value !== undefined).length;
+      replay.mockRestore();
+      // The replay covers push-pull stages without steering diodes (their diodes switch inside each cycle).
+      if (!TOPOLOGIES[t].needsOpenDrain && TOPOLOGIES[t].diodeCount === 0) expect(replayed).toBeGreaterThan(PER_TOPOLOGY / 2);
+      else expect(replayed).toBe(0);
       expect(fromNeighbour).toBeGreaterThan(PER_TOPOLOGY / 2);
       expect(odexChecked).toBe(ODEX_PER_TOPOLOGY);
       // Both programs of the prepared model ran: the two-piece one (no amplifier effect) and the walk.

@@ -25,8 +25,10 @@ export const LOG = {
   /** Voltages of the other capacitive nodes at the start of the piece (P, output pin), V (0 when they have none). */
   xP0: 10,
   xO0: 11,
+  /** What ended the piece: an EVENT kind (configs.ts) or a time event (walker.ts TIME_EVENT). */
+  end: 12,
 } as const;
-export const LOG_STRIDE = 12;
+export const LOG_STRIDE = 13;
 
 export class PieceLog {
   data = new Float64Array(16 * LOG_STRIDE);

@@ -11,6 +11,9 @@
  *   and the walk's Aitken step on the return map closes it). When that walk
  *   does not converge, or the state does not carry over, the vector is walked
  *   from power-up like any analysis;
+ * - replaying the nominal's cycle where its piece sequence compiles
+ *   (cycle-replay.ts): the same pieces and arithmetic without the general
+ *   walk's bookkeeping, handing any vector that leaves the sequence to the walk;
  * - reading only the timing figures (period, scope levels, 50 % crossings,
  *   optionally the 10–90 % transitions) off the cycle.
  * The closed form is the special case `dynamics = false`: no slew, delay, clamp
@@ -22,6 +25,7 @@ import type { ModelEffect, ModelName } from '../result.ts';
 import { CLAMP, configKey, NetworkCoefficients, STAGE, type CompiledShape, type ParameterInfo } from './compiled-network.ts';
 import { diodeBits, timingNodeStrayF } from './configs.ts';
 import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
+import { CycleReplay } from './cycle-replay.ts';
 import { cycleLevels, pinCrossings, transitionDurations } from './figures.ts';
 import { exponentialExit } from './root-solve.ts';
 import { OscillatorWalk, saturationHighV, saturationLowV, SteadyStart, type SteadyCycle } from './walker.ts';
@@ -118,6 +122,8 @@ export class PreparedModel {
   readonly effects: readonly ModelEffect[];
   readonly model: ModelName;
   private readonly start = new SteadyStart();
+  /** The nominal's steady cycle compiled for replay (undefined: not replayable, the walk answers). */
+  private readonly replay: CycleReplay | undefined;
   private readonly twoPiece: boolean;
   private readonly wantTransitions: boolean;
   private readonly roleSlots: Int32Array;
@@ -158,6 +164,7 @@ export class PreparedModel {
       if (!(err instanceof CoreError)) throw err;
       this.start.valid = false;
     }
+    this.replay = compileCycleReplay(sharedWalk, shape, this.nominal, this.dynamics, this.start);
   }
 
   indexOf(name: string): number {
@@ -196,6 +203,14 @@ export class PreparedModel {
       if (status === EVALUATION_STATUS.ok) return status;
       if (status !== undefined) return fail(out, status);
     }
+    if (this.replay) {
+      // The nominal's cycle replayed; a vector that leaves its piece sequence is walked below.
+      const replayed = this.replay.run(walk, values, this.start);
+      if (replayed) {
+        readTiming(walk, replayed, out, this.wantTransitions);
+        return EVALUATION_STATUS.ok;
+      }
+    }
     let cycle: SteadyCycle;
     try {
       cycle = walkToCycle(walk, this.shape, values, this.dynamics, this.start, false);
@@ -207,6 +222,23 @@ export class PreparedModel {
     }
     readTiming(walk, cycle, out, this.wantTransitions);
     return EVALUATION_STATUS.ok;
+  }
+}
+
+/**
+ * The cycle every evaluation's walk meets first, compiled: the nominal walked once
+ * more from its own steady start (as an evaluation walks) and, if that closes after
+ * one cycle of replayable pieces, that cycle (cycle-replay.ts).
+ */
+export function compileCycleReplay(walk: OscillatorWalk, shape: CompiledShape, nominal: ArrayLike<number>, dynamics: boolean, start: SteadyStart): CycleReplay | undefined {
+  if (!start.valid) return undefined;
+  walk.reset(shape, nominal, dynamics, false);
+  if (!walk.startFrom(start)) return undefined;
+  try {
+    return CycleReplay.compile(walk, walk.runToSteadyState(), start);
+  } catch (err) {
+    if (!(err instanceof CoreError)) throw err;
+    return undefined;
   }
 }
 

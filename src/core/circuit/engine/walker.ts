@@ -65,9 +65,12 @@ const LOG_VEND = LOG.vEnd;
 const LOG_INTEGRAL = LOG.integralV;
 const LOG_XP0 = LOG.xP0;
 const LOG_XO0 = LOG.xO0;
+const LOG_END = LOG.end;
 
-const TIME_TARGET = -1;
-const TIME_SLEW_END = -2;
+/** Time events that end a piece (beside the function events of configs.ts EVENT): the delayed flip reaching the stage, the end of a slew ramp. */
+export const TIME_EVENT = { target: -1, slewEnd: -2 } as const;
+const TIME_TARGET = TIME_EVENT.target;
+const TIME_SLEW_END = TIME_EVENT.slewEnd;
 
 /** The output stage's high saturation level: the positive rail less the high headroom, V. */
 export function saturationHighV(shape: CompiledShape, values: ArrayLike<number>): number {
@@ -117,6 +120,21 @@ export class SteadyStart {
   /** Voltages of P and of the pin when they are states (capacitance there), V. */
   xP = 0;
   xO = 0;
+
+  /** The source's slope for a vector with this slew rate: the start's direction, 0 when it sat still or jumps. */
+  rateAt(slewVPerS: number): number {
+    return this.rate === 0 || !Number.isFinite(slewVPerS) ? 0 : this.rate > 0 ? slewVPerS : -slewVPerS;
+  }
+
+  /**
+   * The source voltage for a vector with these saturation levels and slope: it keeps its place between
+   * the two levels (exactly at a level when it sat there); a driven source at rest sits at its target.
+   */
+  sourceAt(lowV: number, highV: number, rate: number): number {
+    if (rate === 0 && this.stage === STAGE.driven) return this.target ? highV : lowV;
+    const f = this.sFraction;
+    return f === 0 ? lowV : f === 1 ? highV : lowV + f * (highV - lowV);
+  }
 }
 
 /** The switching state at one decision. */
@@ -304,11 +322,8 @@ export class OscillatorWalk {
     this.diodes = start.diodes;
     // A delay that appears or vanishes changes what a decision instant holds: walk from power-up.
     if (this.delayS > 0 !== start.pendingCount > 0) return false;
-    // The source keeps its place between the two saturation levels (exactly at a level when it sat there).
-    const f = start.sFraction;
-    this.s = f === 0 ? this.lowV : f === 1 ? this.highV : this.lowV + f * (this.highV - this.lowV);
-    this.rate = start.rate === 0 || !Number.isFinite(this.slewVPerS) ? 0 : start.rate > 0 ? this.slewVPerS : -this.slewVPerS;
-    if (this.rate === 0 && this.stage === STAGE.driven) this.s = this.target ? this.highV : this.lowV;
+    this.rate = start.rateAt(this.slewVPerS);
+    this.s = start.sourceAt(this.lowV, this.highV, this.rate);
     this.pendingCount = start.pendingCount;
     this.pendingHead = 0;
     for (let k = 0; k < start.pendingCount; k++) this.pending[k] = Math.min(start.pendingRelS[k], this.delayS);
@@ -427,6 +442,7 @@ export class OscillatorWalk {
       d[i + LOG_TARGET] = this.target;
       d[i + LOG_VEND] = vEnd;
       d[i + LOG_INTEGRAL] = integralV;
+      d[i + LOG_END] = kind;
       this.v = vEnd;
       this.s = kin.s(best);
       this.t += best;
@@ -521,6 +537,7 @@ export class OscillatorWalk {
       d[i + LOG_TARGET] = this.target;
       d[i + LOG_XP0] = this.xP;
       d[i + LOG_XO0] = this.xO;
+      d[i + LOG_END] = kind;
       mk.state(best, x);
       d[i + LOG_VEND] = x[SLOT.N];
       d[i + LOG_INTEGRAL] = mk.integralState(SLOT.N, best);
