@@ -438,6 +438,8 @@ export function buildVariationModel(
   const terms = new VariationTerms(nominal, { multParam, multDim, multScale, linear, bandParam, bandDim, addParam, addDim, addScale, drifts, ageing: ageingTerms }, temperatureDimension);
   const apply = (u: Float64Array, values: Float64Array) => terms.apply(u, values);
 
+  const reference = Float64Array.from(dims, (d) => d.reference);
+  const center = Float64Array.from(dims, (d) => d.center);
   const varied = new Set<number>();
   for (const d of dims) for (const t of d.targets) varied.add(t);
   return {
@@ -448,8 +450,8 @@ export function buildVariationModel(
     variedParameters: [...varied].sort((a, b) => a - b),
     apply,
     terms,
-    referencePoint: () => Float64Array.from(dims, (d) => d.reference),
-    centerPoint: () => Float64Array.from(dims, (d) => d.center),
+    referencePoint: () => reference.slice(),
+    centerPoint: () => center.slice(),
     temperatureModels,
     temperatureDrifts,
     ageing,
@@ -532,6 +534,13 @@ export class VariationTerms {
   private readonly gRate: Float64Array;
   private readonly gHours: Float64Array;
   private readonly gD: Int32Array;
+  /**
+   * The temperature-only factors of the bias-doubling and delay laws (a power and a product), kept for
+   * the last board temperature: a search or a sample run meets a handful of temperatures over and over.
+   * NaN: none computed yet. The product x·factor is the one driftedValue forms.
+   */
+  private factorDT = Number.NaN;
+  private readonly dFactor: Float64Array;
 
   constructor(
     private readonly nominal: Float64Array,
@@ -558,6 +567,20 @@ export class VariationTerms {
     this.gRate = Float64Array.from(lists.ageing, (g) => g.ratePerDecade);
     this.gHours = Float64Array.from(lists.ageing, (g) => g.ageHours);
     this.gD = Int32Array.from(lists.ageing, (g) => g.yearsDim);
+    this.dFactor = new Float64Array(lists.drifts.length);
+  }
+
+  /** dFactor for board temperature dT kelvin from 25 °C (recomputed only when dT changes). */
+  private driftFactorsAt(dT: number): Float64Array {
+    if (dT !== this.factorDT) {
+      const { dLaw, dFigure, dFactor } = this;
+      for (let i = 0; i < dLaw.length; i++) {
+        if (dLaw[i] === DRIFT_LAW.biasDoubling) dFactor[i] = biasCurrentFactorAt(dFigure[i], dT);
+        else if (dLaw[i] === DRIFT_LAW.delay) dFactor[i] = delayFactorAt(dFigure[i], dT);
+      }
+      this.factorDT = dT;
+    }
+    return this.dFactor;
   }
 
   apply(u: Float64Array, values: Float64Array): void {
@@ -583,9 +606,15 @@ export class VariationTerms {
       // Active parts drift last: their laws act on the spread value (e.g. a headroom's floor at 0).
       const dT = u[this.tDim] - REFERENCE_TEMPERATURE_C;
       const { dP, dLaw, dFigure, dSign } = this;
+      const factor = this.driftFactorsAt(dT);
       for (let i = 0; i < dP.length; i++) {
+        const law = dLaw[i] as DriftLaw;
+        if (law === DRIFT_LAW.biasDoubling || law === DRIFT_LAW.delay) {
+          values[dP[i]] *= factor[i];
+          continue;
+        }
         const w = dSign[i] >= 0 ? u[dSign[i]] : 1;
-        values[dP[i]] = driftedValue(dLaw[i] as DriftLaw, dFigure[i], values[dP[i]], dT, w);
+        values[dP[i]] = driftedValue(law, dFigure[i], values[dP[i]], dT, w);
       }
     }
   }

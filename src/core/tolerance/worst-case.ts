@@ -97,10 +97,11 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
   // callers may hand in a scratch buffer they go on to overwrite.
   const best: (Found | undefined)[] = OBJECTIVES.map(() => undefined);
   const offer = (point: Float64Array, r: Figures, corner: boolean) => {
+    let kept: Float64Array | undefined; // one copy for every objective it improves (kept points are never written)
     for (let o = 0; o < OBJECTIVES.length; o++) {
       const s = score(OBJECTIVES[o], r.frequencyHz, r.dutyCycle);
       const current = best[o];
-      if (!current || s > current.score) best[o] = { score: s, point: point.slice(), corner, frequencyHz: r.frequencyHz, dutyCycle: r.dutyCycle };
+      if (!current || s > current.score) best[o] = { score: s, point: (kept ??= point.slice()), corner, frequencyHz: r.frequencyHz, dutyCycle: r.dutyCycle };
     }
   };
 
@@ -123,26 +124,28 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     method = 'sensitivity-guided';
     // One-at-a-time effect of each end of each dimension, from the centre (probes inside the box).
     const center = model.centerPoint();
-    const ends = dims.map((d, k) =>
-      [d.low, d.high].map((x) => {
-        const p = center.slice();
-        p[k] = x;
-        return evaluate(p, false);
-      }),
-    );
+    const probe = center.slice(); // one scratch point, put back to the centre after each probe (offer copies)
+    const probeAt = (k: number, x: number): Figures | undefined => {
+      probe[k] = x;
+      const r = evaluate(probe, false);
+      probe[k] = center[k];
+      return r;
+    };
+    const ends = dims.map((d, k) => [probeAt(k, d.low), probeAt(k, d.high)]);
     // The ascents revisit corners (each other's starts and neighbours): a corner is evaluated once, keyed
     // by its bits (bit k set: dimension k at its high end). The model is deterministic, so a remembered
     // result is the result; it was offered to every objective when first evaluated.
     // (Bits of a 32-bit integer: beyond 30 dimensions nothing is remembered.)
-    const visited = new Map<number, Figures | undefined>();
     const remember = n <= 30;
+    const visited = new CornerMemo(remember ? n : 0);
     const evaluateCorner = (p: Float64Array, bits: number): Figures | undefined => {
       if (!remember) {
         const fresh = evaluate(p, true);
         if (fresh) offer(p, fresh, true);
         return fresh;
       }
-      if (visited.has(bits)) return visited.get(bits);
+      const seen = visited.lookup(bits);
+      if (seen !== UNSEEN) return seen === LATCHED ? undefined : seen;
       const r = evaluate(p, true);
       visited.set(bits, r);
       if (r) offer(p, r, true);
@@ -152,15 +155,17 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     const point = new Float64Array(n);
     let bits = 0;
     let current: Figures | undefined;
+    const lowEnd = Float64Array.from(dims, (d) => d.low);
+    const highEnd = Float64Array.from(dims, (d) => d.high);
     const flip = (k: number) => {
-      point[k] = point[k] === dims[k].high ? dims[k].low : dims[k].high;
+      point[k] = point[k] === highEnd[k] ? lowEnd[k] : highEnd[k];
       bits ^= 1 << k;
     };
     const moveTo = (p: Float64Array) => {
       bits = 0;
       for (let k = 0; k < n; k++) {
         point[k] = p[k];
-        if (p[k] === dims[k].high) bits |= 1 << k;
+        if (p[k] === highEnd[k]) bits |= 1 << k;
       }
     };
     const scoreOf = (o: Objective, r: Figures | undefined) => (r === undefined ? -Infinity : score(o, r.frequencyHz, r.dutyCycle));
@@ -171,7 +176,8 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         let candidateBits = bits ^ (1 << k);
         if (l >= 0) candidateBits ^= 1 << l;
         if (m >= 0) candidateBits ^= 1 << m;
-        if (visited.has(candidateBits) && !(scoreOf(o, visited.get(candidateBits)) > currentScore)) return false;
+        const seen = visited.lookup(candidateBits);
+        if (seen !== UNSEEN && !(scoreOf(o, seen === LATCHED ? undefined : seen) > currentScore)) return false;
       }
       // Flipped in place and flipped back when it does not improve (offer copies what it keeps).
       flip(k);
@@ -207,7 +213,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         // On the edge of the latching region the way on may lead through three coordinates, one of which
         // alone would latch: try each such coordinate with every pair of the others.
         for (let k = 0; k < n && !improved; k++) {
-          if (!visited.has(bits ^ (1 << k)) || visited.get(bits ^ (1 << k)) !== undefined) continue;
+          if (visited.lookup(bits ^ (1 << k)) !== LATCHED) continue;
           for (let l = 0; l < n && !improved; l++) {
             for (let m = l + 1; m < n && !improved; m++) {
               if (l !== k && m !== k && tryFlips(o, k, l, m)) improved = true;
@@ -256,12 +262,9 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     const basinEnds = basins.map((temperature) => {
       const byDim = new Map<number, (Figures | undefined)[]>();
       for (const k of signDims) {
-        byDim.set(k, [dims[k].low, dims[k].high].map((x) => {
-          const p = center.slice();
-          p[t] = temperature;
-          p[k] = x;
-          return evaluate(p, false);
-        }));
+        probe[t] = temperature;
+        byDim.set(k, [probeAt(k, dims[k].low), probeAt(k, dims[k].high)]);
+        probe[t] = center[t];
       }
       return byDim;
     });
@@ -312,7 +315,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     }
   }
   if (best[0] === undefined) throw new CoreError('no-oscillation', 'The circuit oscillates at no point of the tolerance box (nominal and corners all latch)');
-  const describe = (o: Objective): Corner => describeCorner(model, best[OBJECTIVES.indexOf(o)]!);
+  const describe = (o: Objective): Corner => describeCorner(model, best[OBJECTIVES.indexOf(o)]!, values);
   const corners = { frequencyMin: describe('frequencyMin'), frequencyMax: describe('frequencyMax'), dutyMin: describe('dutyMin'), dutyMax: describe('dutyMax') };
   return {
     frequencyMinHz: corners.frequencyMin.frequencyHz,
@@ -327,6 +330,36 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
   };
 }
 
+/** What a CornerMemo holds for a corner not evaluated yet, and for one that latched. */
+const UNSEEN: Figures = { frequencyHz: Number.NaN, dutyCycle: Number.NaN };
+const LATCHED: Figures = { frequencyHz: Number.NaN, dutyCycle: Number.NaN };
+/** Most dimensions whose corners a CornerMemo keeps in a flat table (2^16 entries). */
+const MEMO_TABLE_DIMENSIONS = 16;
+
+/**
+ * The corners the ascents met, by their bits: UNSEEN, LATCHED or the figures. The ascents look a corner up
+ * several times for each one they evaluate, so up to MEMO_TABLE_DIMENSIONS dimensions the bits index a
+ * flat table (no hashing); beyond that, a map.
+ */
+class CornerMemo {
+  private readonly table: Figures[] | undefined;
+  private readonly map: Map<number, Figures> | undefined;
+
+  constructor(dimensions: number) {
+    if (dimensions <= MEMO_TABLE_DIMENSIONS) this.table = new Array<Figures>(2 ** dimensions).fill(UNSEEN);
+    else this.map = new Map();
+  }
+
+  lookup(bits: number): Figures {
+    return this.table ? this.table[bits] : (this.map!.get(bits) ?? UNSEEN);
+  }
+
+  set(bits: number, r: Figures | undefined): void {
+    if (this.table) this.table[bits] = r ?? LATCHED;
+    else this.map!.set(bits, r ?? LATCHED);
+  }
+}
+
 export function meetsSpec(spec: FrequencySpec, frequencyHz: number, dutyCycle: number): boolean {
   return (
     Math.abs(frequencyHz - spec.frequencyHz) <= spec.frequencyHz * spec.frequencyTolerance &&
@@ -335,8 +368,8 @@ export function meetsSpec(spec: FrequencySpec, frequencyHz: number, dutyCycle: n
   );
 }
 
-function describeCorner(model: VariationModel, found: Found): Corner {
-  const values = new Float64Array(model.nominal.length);
+/** The corner's figures and values; `values` is a scratch vector of the model's length. */
+function describeCorner(model: VariationModel, found: Found, values: Float64Array): Corner {
   model.apply(found.point, values);
   const v: Record<string, number> = {};
   const deviations: Record<string, number> = {};
