@@ -3108,9 +3108,9 @@ export interface components {
         };
         /** @description What the measurements say about one effective parameter */
         ParameterEstimate: {
-            /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA), supplyScale, or a stray at the timing node that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm; diagnosis causes only) */
+            /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA), supplyScale, or a stray that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm at the timing node N, strayThresholdNodeF at the threshold node P, strayOutputNodeF at the output pin; diagnosis causes only) */
             parameter: string;
-            /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails; stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N beyond what circuit.strays declares (diagnosis causes only) */
+            /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails; stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N, a capacitance at the threshold node P (0.1–220 pF) or at the output pin (0.1 pF–2.2 nF), beyond what circuit.strays declares (diagnosis causes only) */
             kind: "part" | "amplifier" | "supply" | "stray";
             /** @description Unit of nominal, estimate, the standard deviations and shift ("1": dimensionless) */
             unit: "ohm" | "F" | "V" | "V/s" | "s" | "A" | "1";
@@ -3137,13 +3137,13 @@ export interface components {
         FitExplanation: {
             /** @description Position in the ranking, 1 = most plausible */
             rank: number;
-            /** @description Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom, stray:timingNodeF */
+            /** @description Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom, stray:timingNodeF, stray:outputNodeF */
             hypothesis: string;
             /** @description The one or two effects this explanation blames */
             causes: {
-                /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA), supplyScale, or a stray at the timing node that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm; diagnosis causes only) */
+                /** @description Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA), supplyScale, or a stray that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm at the timing node N, strayThresholdNodeF at the threshold node P, strayOutputNodeF at the output pin; diagnosis causes only) */
                 parameter: string;
-                /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails; stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N beyond what circuit.strays declares (diagnosis causes only) */
+                /** @description part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails; stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N, a capacitance at the threshold node P (0.1–220 pF) or at the output pin (0.1 pF–2.2 nF), beyond what circuit.strays declares (diagnosis causes only) */
                 kind: "part" | "amplifier" | "supply" | "stray";
                 /** @description Unit of nominal, estimate, the standard deviations and shift ("1": dimensionless) */
                 unit: "ohm" | "F" | "V" | "V/s" | "s" | "A" | "1";
@@ -3167,7 +3167,7 @@ export interface components {
                 posteriorToPriorSd: number;
                 /** @description The fitted shift stays inside the part's tolerance (or the 3σ prior spread of an amplifier effect) */
                 withinTolerance: boolean;
-                /** @description off: the effect departs from nominal (fitted within its physical range); stray: a capacitance or leakage at the timing node N that the circuit does not declare (fitted within its window); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, or a timing capacitor of another dielectric class (a class II ceramic in place of a flat part, its DC-bias C(V) fitted on the class-typical law within the span class II and III parts cover, or the reverse; its marked value within a class II tolerance) */
+                /** @description off: the effect departs from nominal (fitted within its physical range); stray: a capacitance or leakage at the timing node N, or a capacitance at the threshold node P or at the output pin, that the circuit does not declare (fitted within its window); the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, or a timing capacitor of another dielectric class (a class II ceramic in place of a flat part, its DC-bias C(V) fitted on the class-typical law within the span class II and III parts cover, or the reverse; its marked value within a class II tolerance) */
                 fault: "off" | "neighbouring-value" | "decade-slip" | "swapped" | "other-dielectric" | "stray";
                 /** @description e.g. "cTiming +8.9 % (4.7 nF -> 5.12 nF), inside its 10 % tolerance" */
                 text: string;

@@ -2136,7 +2136,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           }
         ],
         "ambiguities": [],
-        "candidateCount": 35,
+        "candidateCount": 37,
         "warnings": []
       }
     }

@@ -154,12 +154,12 @@ const EstimateProperties = {
   parameter: Type.String({
     description:
       'Part role (from the topology), amplifier effect (outputHighV, outputLowV, slewRateVPerS, recoveryDelayS, outputResistanceOhm, inputOffsetV, inputBiasCurrentA), supplyScale, ' +
-      'or a stray at the timing node that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm; diagnosis causes only)',
+      'or a stray that the circuit does not declare (strayTimingNodeF, leakageTimingNodeOhm at the timing node N, strayThresholdNodeF at the threshold node P, strayOutputNodeF at the output pin; diagnosis causes only)',
   }),
   kind: Type.Union([Type.Literal('part'), Type.Literal('amplifier'), Type.Literal('supply'), Type.Literal('stray')], {
     description:
       'part: a passive part of the topology; amplifier: an amplifier figure; supply: the common scale of the rails; ' +
-      'stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N beyond what circuit.strays declares (diagnosis causes only)',
+      'stray: a capacitance (0.1–220 pF) or leakage (100 kΩ–100 GΩ) at the timing node N, a capacitance at the threshold node P (0.1–220 pF) or at the output pin (0.1 pF–2.2 nF), beyond what circuit.strays declares (diagnosis causes only)',
   }),
   unit: Type.Union([Type.Literal('ohm'), Type.Literal('F'), Type.Literal('V'), Type.Literal('V/s'), Type.Literal('s'), Type.Literal('A'), Type.Literal('1')], {
     description: 'Unit of nominal, estimate, the standard deviations and shift ("1": dimensionless)',
@@ -187,7 +187,7 @@ const Cause = Type.Object(
     withinTolerance: Type.Boolean({ description: 'The fitted shift stays inside the part\'s tolerance (or the 3σ prior spread of an amplifier effect)' }),
     fault: Type.Union([Type.Literal('off'), Type.Literal('neighbouring-value'), Type.Literal('decade-slip'), Type.Literal('swapped'), Type.Literal('other-dielectric'), Type.Literal('stray')], {
       description:
-        'off: the effect departs from nominal (fitted within its physical range); stray: a capacitance or leakage at the timing node N that the circuit does not declare (fitted within its window); ' +
+        'off: the effect departs from nominal (fitted within its physical range); stray: a capacitance or leakage at the timing node N, or a capacitance at the threshold node P or at the output pin, that the circuit does not declare (fitted within its window); ' +
         'the others: a wrong part fitted — the neighbouring series value, a decade slip, two roles swapped, ' +
         'or a timing capacitor of another dielectric class (a class II ceramic in place of a flat part, its DC-bias C(V) fitted on the class-typical law within the span class II and III parts cover, or the reverse; its marked value within a class II tolerance)',
     }),
@@ -199,7 +199,7 @@ const Cause = Type.Object(
 const Explanation = Type.Object(
   {
     rank: Type.Integer({ minimum: 1, description: 'Position in the ranking, 1 = most plausible' }),
-    hypothesis: Type.String({ description: 'Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom, stray:timingNodeF' }),
+    hypothesis: Type.String({ description: 'Stable id of the hypothesis, e.g. off:rTiming, decade-slip:cTiming×10, swapped:rTop/rBottom, stray:timingNodeF, stray:outputNodeF' }),
     causes: Type.Array(Cause, { minItems: 1, maxItems: 2, description: 'The one or two effects this explanation blames' }),
     score: num('Posterior probability among the nominal circuit and the explanations listed (they sum to one with verdict.nominalScore)'),
     logEvidence: num('Laplace-approximated log evidence times prior'),

@@ -107,6 +107,12 @@ export class PieceEvaluator {
     return this.modal.setRow(row).integral(this.durationS);
   }
 
+  /** ∫ of a row over [t1, t2] inside the piece. */
+  integralRowBetween(row: ArrayLike<number>, t1: number, t2: number): number {
+    const mk = this.modal.setRow(row);
+    return mk.integral(t2) - (t1 > 0 ? mk.integral(t1) : 0);
+  }
+
   /** ∫ max(0, row) dt over the whole piece. */
   positiveIntegralRow(row: ArrayLike<number>, scratchT: Float64Array, scratchDir: Int8Array): number {
     const mk = this.modal.setRow(row);

@@ -454,7 +454,9 @@ function blames(setup: FitSetup, s: Scored, role: string): boolean {
 /**
  * Why alike, when the physics says so (not only the numbers): a capacitance at N
  * parallels the timing capacitor; a timing resistor and the capacitor meet
- * only as their product in every charging time constant.
+ * only as their product in every charging time constant; a capacitance at P
+ * makes the capacitor turn before P reaches its new level (docs/model.md,
+ * strays and leakage), a narrower hysteresis as a threshold resistor gives.
  */
 function whyAlike(setup: FitSetup, group: readonly Scored[]): string {
   const topology = findTopology(setup.circuit.topology)!;
@@ -464,6 +466,12 @@ function whyAlike(setup: FitSetup, group: readonly Scored[]): string {
   const hasCap = group.some((s) => blames(setup, s, cap));
   if (hasCap && group.some((s) => s.h.stray?.field === 'timingNodeF')) {
     out.push(`A capacitance at the timing node N is in parallel with ${cap}: no timing or waveform figure tells it from a larger ${cap}`);
+  }
+  const thresholdRole = Object.entries(topology.roles).find(([name, r]) => r.purpose === 'thresholds' && group.some((s) => blames(setup, s, name)))?.[0];
+  if (thresholdRole && group.some((s) => s.h.stray?.field === 'thresholdNodeF')) {
+    out.push(
+      `A capacitance at the threshold node P delays P after each switch, so the capacitor turns before P reaches its new level: the hysteresis it sees narrows as with another ${thresholdRole}, and the figures measured on this board do not tell the two apart`,
+    );
   }
   const resistor = timingResistors.find((r) => group.some((s) => blames(setup, s, r)));
   if (hasCap && resistor) out.push(`The timing follows the product ${resistor}·${cap} only: the waveform fixes the product, not the two values`);
@@ -631,7 +639,7 @@ function scoreScalar(setup: FitSetup, h: Hypothesis, w: { whiten: (r: Float64Arr
   const residuals = (xs: Float64Array) => w.whiten(setup.residualsAt(setup.nominalX, variantAt(xs[0])));
   let start = p.priorMean;
   let best = Infinity;
-  for (const x0 of SCALAR_STARTS) {
+  for (const x0 of scalar.starts ?? SCALAR_STARTS) {
     try {
       const cost = sumSq(residuals(Float64Array.of(x0))) + ((x0 - p.priorMean) / p.priorSd) ** 2;
       if (cost < best) {
@@ -644,7 +652,7 @@ function scoreScalar(setup: FitSetup, h: Hypothesis, w: { whiten: (r: Float64Arr
   }
   if (!Number.isFinite(best)) return undefined;
   try {
-    const s = solveMap({ size: 1, priorMean: [p.priorMean], priorSd: [p.priorSd], residuals, start: [start] }, { ...FIT_SEARCH, stepTolerance: SCALAR_STEP_TOLERANCE, maxIterations: SCALAR_ITERATIONS });
+    const s = solveMap({ size: 1, priorMean: [p.priorMean], priorSd: [p.priorSd], residuals, start: [start] }, { ...FIT_SEARCH, stepTolerance: SCALAR_STEP_TOLERANCE, maxIterations: scalar.iterations ?? SCALAR_ITERATIONS });
     const x = s.x[0];
     const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
     return { h, x: setup.nominalX, variant: variantAt(x), scalarX: x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - 1)) };

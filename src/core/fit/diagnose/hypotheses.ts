@@ -13,8 +13,9 @@
  *   part that derates more or less than the one declared. Its marked value is
  *   a nuisance within a class II tolerance (one evaluation per curve: a C(V)
  *   walk costs far more than a linear one).
- * - `stray`: a capacitance or a leakage at the timing node N that the circuit
- *   does not declare, fitted within a physical window (stray-hypotheses.ts).
+ * - `stray`: a capacitance or a leakage at the timing node N, or a capacitance
+ *   at the threshold node P or at the output pin, that the circuit does not
+ *   declare, fitted within a physical window (stray-hypotheses.ts).
  * DC-bias derating of the timing capacitor is weighed through the dielectric:
  * a declared class II part already derates in the nominal model (its C(V)), and
  * `other-dielectric` covers a part that derates more or less than declared, a
@@ -65,6 +66,10 @@ export interface ScalarFit {
   variantAt(value: number): CircuitVariant;
   /** Words for the cause at the fitted value. */
   words(value: number): string;
+  /** Starting points tried across the window (fitted space) when the default few are too coarse for its response. */
+  starts?: readonly number[];
+  /** Search steps from the best start, when more than the default few are needed. */
+  iterations?: number;
 }
 
 export const PRIOR_EFFECT_OFF = 0.02;
@@ -242,7 +247,13 @@ export function buildHypotheses(circuit: Circuit, parameters: readonly FitParame
       kind: 'stray',
       active: [],
       stray,
-      scalar: { parameter: stray.parameter, variantAt: (value) => ({ strays: stray.strays(circuit, value) }), words: (value) => stray.words(value) },
+      scalar: {
+        parameter: stray.parameter,
+        variantAt: (value) => ({ strays: stray.strays(circuit, value) }),
+        words: (value) => stray.words(value),
+        ...(stray.starts ? { starts: stray.starts } : {}),
+        ...(stray.iterations ? { iterations: stray.iterations } : {}),
+      },
       logPrior: Math.log(stray.prior),
     });
   }

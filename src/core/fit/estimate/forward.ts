@@ -10,6 +10,8 @@
 import { getTopology } from '../../circuit/analyze.ts';
 import { shapeFor, type CompiledShape } from '../../circuit/engine/compiled-network.ts';
 import { OUTPUT_LENGTH, OUTPUT_SLOT, readTiming, walkToCycle } from '../../circuit/engine/prepared.ts';
+import { QUANTITY, R_X, ROW, SLOT } from '../../circuit/engine/modal.ts';
+import type { PieceEvaluator } from '../../circuit/engine/piece-evaluator.ts';
 import { OscillatorWalk, SteadyStart, type SteadyCycle } from '../../circuit/engine/walker.ts';
 import type { Circuit } from '../../circuit/types.ts';
 import { validateCircuit } from '../../circuit/validate.ts';
@@ -59,6 +61,20 @@ const TAU_HIGH = TAU_WINDOW_HIGH;
 
 const mod = (x: number, m: number) => ((x % m) + m) % m;
 
+/** The capacitor N as a row of a multi-state piece (modal.ts ROW). */
+const ROW_N = new Float64Array(ROW);
+ROW_N[R_X + SLOT.N] = 1;
+
+/**
+ * The quantity `kind` reads as a row of the loaded piece when it is multi-state
+ * (a capacitance at P or at the pin: modal.ts), undefined for a one-capacitor piece
+ * (read with its affine triplet).
+ */
+function rowOf(ev: PieceEvaluator, kind: number): Float64Array | undefined {
+  if (!ev.dynamic) return undefined;
+  return kind === PIN ? ev.config.dyn!.row(QUANTITY.o) : ROW_N;
+}
+
 /**
  * Reads figures off a steady cycle in passes over its pieces: first crossings
  * of several levels at once, integrals over several windows at once (windows
@@ -66,8 +82,9 @@ const mod = (x: number, m: number) => ((x % m) + m) % m;
  * walk times, folded into [cycle.startS, cycle.startS + period).
  */
 class CycleReader {
-  private readonly crossT = new Float64Array(2);
-  private readonly crossDir = new Int8Array(2);
+  // A multi-state piece can cross a level up to four times (modal.ts); a one-capacitor piece twice.
+  private readonly crossT = new Float64Array(4);
+  private readonly crossDir = new Int8Array(4);
   /** First rising / falling crossing per level of the last crossings() pass. */
   readonly rise = new Float64Array(4);
   readonly fall = new Float64Array(4);
@@ -77,9 +94,7 @@ class CycleReader {
   private readonly wA = new Float64Array(16);
   private readonly wB = new Float64Array(16);
   private readonly wOf = new Int8Array(16);
-  maxT = 0;
   maxV = 0;
-  minT = 0;
   minV = 0;
   walk!: OscillatorWalk;
   cycle!: SteadyCycle;
@@ -95,39 +110,41 @@ class CycleReader {
     const { startIndex, endIndex } = this.cycle;
     ev.load(endIndex - 1);
     let cfg = ev.config;
+    let row = rowOf(ev, kind);
     let c0 = kind === PIN ? cfg.oC : 0;
     let cv = kind === PIN ? cfg.oV : 1;
     let cs = kind === PIN ? cfg.oS : 0;
     for (let k = 0; k < count; k++) {
       this.rise[k] = Number.NaN;
       this.fall[k] = Number.NaN;
-      this.prevEnd[k] = ev.atEnd(c0 - levels[k], cv, cs);
+      this.prevEnd[k] = row ? ev.atRow(row, ev.durationS) - levels[k] : ev.atEnd(c0 - levels[k], cv, cs);
     }
     for (let i = startIndex; i < endIndex; i++) {
       ev.load(i);
       cfg = ev.config;
+      row = rowOf(ev, kind);
       c0 = kind === PIN ? cfg.oC : 0;
       cv = kind === PIN ? cfg.oV : 1;
       cs = kind === PIN ? cfg.oS : 0;
       for (let k = 0; k < count; k++) {
         const g0 = c0 - levels[k];
-        const start = ev.atStart(g0, cv, cs);
+        const start = row ? ev.atRow(row, 0) - levels[k] : ev.atStart(g0, cv, cs);
         const prev = this.prevEnd[k];
         if (prev < 0 && start >= 0 && Number.isNaN(this.rise[k])) this.rise[k] = ev.startS;
         if (prev >= 0 && start < 0 && Number.isNaN(this.fall[k])) this.fall[k] = ev.startS;
         if (Number.isNaN(this.rise[k]) || Number.isNaN(this.fall[k])) {
-          const n = ev.crossings(g0, cv, cs, this.crossT, this.crossDir);
+          const n = row ? ev.crossingsRow(row, -levels[k], this.crossT, this.crossDir) : ev.crossings(g0, cv, cs, this.crossT, this.crossDir);
           for (let j = 0; j < n; j++) {
             if (this.crossDir[j] > 0 && Number.isNaN(this.rise[k])) this.rise[k] = ev.startS + this.crossT[j];
             if (this.crossDir[j] < 0 && Number.isNaN(this.fall[k])) this.fall[k] = ev.startS + this.crossT[j];
           }
         }
-        this.prevEnd[k] = ev.atEnd(g0, cv, cs);
+        this.prevEnd[k] = row ? ev.atRow(row, ev.durationS) - levels[k] : ev.atEnd(g0, cv, cs);
       }
     }
   }
 
-  /** Capacitor turning points into maxT/maxV, minT/minV. */
+  /** Capacitor turning points (its extremes over the cycle) into maxV, minV. */
   turningPoints(): void {
     const ev = this.walk.evaluator;
     const { startIndex, endIndex } = this.cycle;
@@ -135,23 +152,24 @@ class CycleReader {
     this.minV = Infinity;
     for (let i = startIndex; i < endIndex; i++) {
       ev.load(i);
+      if (ev.dynamic) {
+        // A multi-state piece: N's extremes over the piece from its critical points (modal.ts).
+        ev.rangeRow(ROW_N);
+        this.consider(ev.rangeMin);
+        this.consider(ev.rangeMax);
+        continue;
+      }
       const cfg = ev.config;
-      this.consider(ev.startS, ev.ends.v0);
+      this.consider(ev.ends.v0);
       // v' = b0 + bS·s − a·v is affine in (v, s) and monotone within a piece: at most one interior zero.
       const n = ev.crossings(cfg.b0, -cfg.a, cfg.bS, this.crossT, this.crossDir);
-      for (let k = 0; k < n; k++) this.consider(ev.startS + this.crossT[k], ev.kin.v(this.crossT[k]));
+      for (let k = 0; k < n; k++) this.consider(ev.kin.v(this.crossT[k]));
     }
   }
 
-  private consider(t: number, v: number): void {
-    if (v > this.maxV) {
-      this.maxV = v;
-      this.maxT = t;
-    }
-    if (v < this.minV) {
-      this.minV = v;
-      this.minT = t;
-    }
+  private consider(v: number): void {
+    if (v > this.maxV) this.maxV = v;
+    if (v < this.minV) this.minV = v;
   }
 
   /** ∫ of `kind` over each window [from[k], to[k]] (each at most one period long) into sums[k]. */
@@ -184,6 +202,7 @@ class CycleReader {
       const p0 = ev.startS;
       const p1 = p0 + ev.durationS;
       const cfg = ev.config;
+      const row = rowOf(ev, kind);
       const c0 = kind === PIN ? cfg.oC : 0;
       const cv = kind === PIN ? cfg.oV : 1;
       const cs = kind === PIN ? cfg.oS : 0;
@@ -191,7 +210,9 @@ class CycleReader {
         const a = this.wA[w];
         const b = this.wB[w];
         if (p1 <= a || p0 >= b) continue;
-        this.sums[this.wOf[w]] += ev.integral(c0, cv, cs, Math.max(a, p0) - p0, Math.min(b, p1) - p0);
+        const t1 = Math.max(a, p0) - p0;
+        const t2 = Math.min(b, p1) - p0;
+        this.sums[this.wOf[w]] += row ? ev.integralRowBetween(row, t1, t2) : ev.integral(c0, cv, cs, t1, t2);
       }
     }
   }
