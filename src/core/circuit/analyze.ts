@@ -189,11 +189,8 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
       capacitanceCurve: curvePoints(shape, capacitanceF, minV, maxV, CURVE_POINTS),
     };
   }
-  return {
-    ...figures,
-    edges,
-    frequencyCeilingHz: Number.isFinite(ceilingHz) ? ceilingHz : null,
-    edgeFractionLimit: edgeFraction,
-    checks,
-  };
+  // The walk's figures are this analysis' own object: completed in place rather than copied field by field
+  // (the same fields in the same order: edges keeps its place, the rest follow).
+  const result: AnalysisResult = Object.assign(figures, { edges, frequencyCeilingHz: Number.isFinite(ceilingHz) ? ceilingHz : null, edgeFractionLimit: edgeFraction, checks });
+  return result;
 }

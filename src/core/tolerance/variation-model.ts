@@ -511,6 +511,16 @@ interface TermLists {
   ageing: AgeingTerm[];
 }
 
+/**
+ * One field of each entry as a typed array: a plain loop (TypedArray.from with a map function goes through
+ * the iterator protocol, and a model is built per tolerance run: once per BOM assembly).
+ */
+function column<T, A extends Float64Array | Int32Array | Uint8Array>(Type: new (length: number) => A, list: readonly T[], field: (entry: T) => number): A {
+  const out = new Type(list.length);
+  for (let i = 0; i < list.length; i++) out[i] = field(list[i]);
+  return out;
+}
+
 /** The hot-loop form of the map from a point to the value vector (see the module comment for the formulas). */
 export class VariationTerms {
   private readonly mP: Int32Array;
@@ -550,23 +560,23 @@ export class VariationTerms {
     this.mP = Int32Array.from(lists.multParam);
     this.mD = Int32Array.from(lists.multDim);
     this.mS = Float64Array.from(lists.multScale);
-    this.lP = Int32Array.from(lists.linear, (l) => l.param);
-    this.lA = Float64Array.from(lists.linear, (l) => l.tempcoPpmPerK * 1e-6);
-    this.lS = Float64Array.from(lists.linear, (l) => l.spreadPpmPerK * 1e-6);
-    this.lD = Int32Array.from(lists.linear, (l) => l.spreadDim);
+    this.lP = column(Int32Array, lists.linear, (l) => l.param);
+    this.lA = column(Float64Array, lists.linear, (l) => l.tempcoPpmPerK * 1e-6);
+    this.lS = column(Float64Array, lists.linear, (l) => l.spreadPpmPerK * 1e-6);
+    this.lD = column(Int32Array, lists.linear, (l) => l.spreadDim);
     this.bP = Int32Array.from(lists.bandParam);
     this.bD = Int32Array.from(lists.bandDim);
     this.aP = Int32Array.from(lists.addParam);
     this.aD = Int32Array.from(lists.addDim);
     this.aS = Float64Array.from(lists.addScale);
-    this.dP = Int32Array.from(lists.drifts, (d) => d.param);
-    this.dLaw = Uint8Array.from(lists.drifts, (d) => d.law);
-    this.dFigure = Float64Array.from(lists.drifts, (d) => d.figure);
-    this.dSign = Int32Array.from(lists.drifts, (d) => d.signDim);
-    this.gP = Int32Array.from(lists.ageing, (g) => g.param);
-    this.gRate = Float64Array.from(lists.ageing, (g) => g.ratePerDecade);
-    this.gHours = Float64Array.from(lists.ageing, (g) => g.ageHours);
-    this.gD = Int32Array.from(lists.ageing, (g) => g.yearsDim);
+    this.dP = column(Int32Array, lists.drifts, (d) => d.param);
+    this.dLaw = column(Uint8Array, lists.drifts, (d) => d.law);
+    this.dFigure = column(Float64Array, lists.drifts, (d) => d.figure);
+    this.dSign = column(Int32Array, lists.drifts, (d) => d.signDim);
+    this.gP = column(Int32Array, lists.ageing, (g) => g.param);
+    this.gRate = column(Float64Array, lists.ageing, (g) => g.ratePerDecade);
+    this.gHours = column(Float64Array, lists.ageing, (g) => g.ageHours);
+    this.gD = column(Int32Array, lists.ageing, (g) => g.yearsDim);
     this.dFactor = new Float64Array(lists.drifts.length);
   }
 
