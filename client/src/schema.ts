@@ -2549,9 +2549,9 @@ export interface components {
             biasThresholdShiftV: number;
             /** @description Edge durations: measured by the time-domain engine, estimated from delay + swing/slew rate otherwise */
             edges?: {
-                /** @description From the comparator decision to the output settled high (recovery delay + full-swing slew), s; not the 10–90 % rise time */
+                /** @description From the comparator decision to the output settled high (recovery delay + full-swing slew; with capacitance on the output pin, until the pin reaches the 90 % level of its rise: e.g. an open drain charging it through the pull-up), s; not the 10–90 % rise time */
                 riseSettleS: number;
-                /** @description From the comparator decision to the output settled low, s */
+                /** @description From the comparator decision to the output settled low (with capacitance on the output pin, until the pin reaches the 10 % level of its fall), s */
                 fallSettleS: number;
             };
             /** @description Present when the time-domain engine saw the output run into its current limit */

@@ -13,7 +13,7 @@ import { shapeFor, type CompiledShape } from './engine/compiled-network.ts';
 import { ConfigCache } from './engine/configs.ts';
 import { analyzeTimeDomain } from './engine/index.ts';
 import { effectsOf, evaluateOnce, EVALUATION_STATUS, nominalKey, OUTPUT_LENGTH, OUTPUT_SLOT, PreparedModel, type PrepareModelOptions } from './engine/prepared.ts';
-import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck } from './frequency-ceiling.ts';
+import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck, slowerEdges } from './frequency-ceiling.ts';
 import type { AnalysisResult, ModelEffect, ModelName, OscillationFigures } from './result.ts';
 import { stateModelOf, type StateModel } from './state-model.ts';
 import { hasNodeStrays, strayCapacitanceCheck, timingNodeStrayF, withoutNodeStrays, type NodeStrayShift } from './strays.ts';
@@ -172,11 +172,15 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
   }
   // The ceiling is a property of the circuit/amplifier pair (delay + full swing at the slew rate);
   // the check compares the edges of this answer (measured by the engine) with its period.
-  const estimated = nominalEdgeTimes(prepared);
+  // A capacitance on the pin adds its RC behind the stage (an open drain's rise through its pull-up): the
+  // walk's own settling times hold it (engine/figures.ts), the amplifier-only estimate does not.
+  const pinLoaded = (circuit.strays?.outputNodeF ?? 0) > 0 && figures.edges !== undefined;
+  const amplifierEdges = nominalEdgeTimes(prepared);
+  const estimated = pinLoaded ? slowerEdges(amplifierEdges, figures.edges!) : amplifierEdges;
   // The closed-form special case has instant edges; its check still reports the edges the amplifier would have.
   const edges = prepared.dynamics && figures.edges ? figures.edges : estimated;
   const ceilingHz = frequencyCeilingHz(estimated, edgeFraction);
-  const slewCheck = slewLimitedCheck(edges, figures.periodS, edgeFraction, ceilingHz);
+  const slewCheck = slewLimitedCheck(edges, figures.periodS, edgeFraction, ceilingHz, pinLoaded);
   if (slewCheck) checks.push(slewCheck);
   const shape = circuit.capacitorShape;
   if (shape && shape.kind !== 'flat') {

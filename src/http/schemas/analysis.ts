@@ -128,9 +128,10 @@ export const Analysis = Type.Object(
       Type.Object(
         {
           riseSettleS: Type.Number({
-            description: 'From the comparator decision to the output settled high (recovery delay + full-swing slew), s; not the 10–90 % rise time',
+            description:
+              'From the comparator decision to the output settled high (recovery delay + full-swing slew; with capacitance on the output pin, until the pin reaches the 90 % level of its rise: e.g. an open drain charging it through the pull-up), s; not the 10–90 % rise time',
           }),
-          fallSettleS: Type.Number({ description: 'From the comparator decision to the output settled low, s' }),
+          fallSettleS: Type.Number({ description: 'From the comparator decision to the output settled low (with capacitance on the output pin, until the pin reaches the 10 % level of its fall), s' }),
         },
         { additionalProperties: false, description: 'Edge durations: measured by the time-domain engine, estimated from delay + swing/slew rate otherwise' },
       ),

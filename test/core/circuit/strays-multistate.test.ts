@@ -124,6 +124,33 @@ describe('Strays: an RC pull-up rise against its closed form', () => {
   });
 });
 
+describe('edge times with a capacitance on the pin (slew-limited check and frequency ceiling)', () => {
+  it('the released pin reaches 90 % of its swing when the two-node RC solution does: the edge, its check and the ceiling see the RC', () => {
+    // 2.2 nF behind 2.2 kΩ: the pin's RC is some 8 % of the period, beyond the 5 % edge allowance (our design margin).
+    const co = 2.2e-9;
+    const r = analyzeCircuit(openDrainClock(co));
+    const { highV, lowV } = r.output;
+    // An ideal open drain releases the pin at the decision: from there the pin is the hand-derived solution.
+    const pin = releasedPin(co, lowV, r.thresholds.lowerV);
+    const settleS = reach(pin, lowV + 0.9 * (highV - lowV), 1e-3);
+    expect(rel(r.edges!.riseSettleS, settleS)).toBeLessThan(1e-9);
+    // The pull-down is instant: nothing on the falling edge.
+    expect(r.edges!.fallSettleS).toBe(0);
+    const check = r.checks.find((c) => c.code === 'slew-limited');
+    expect(check?.message).toMatch(/the output pin's RC/);
+    expect(check?.edgeTimeS).toBeCloseTo(settleS, 12);
+    expect(r.frequencyCeilingHz).toBeCloseTo(0.05 / settleS, 3);
+    expect(r.frequencyHz).toBeGreaterThan(r.frequencyCeilingHz!);
+  });
+
+  it('without capacitance on the pin the ideal open drain has instant edges: no check, no ceiling', () => {
+    const r = analyzeCircuit(openDrainClock(0));
+    expect(r.edges).toEqual({ riseSettleS: 0, fallSettleS: 0 });
+    expect(r.checks.some((c) => c.code === 'slew-limited')).toBe(false);
+    expect(r.frequencyCeilingHz).toBeNull();
+  });
+});
+
 describe('the stray-loaded threshold node against the reference integrator (odex, the same multi-capacitor ODE)', () => {
   const cases: { name: string; circuit: Circuit }[] = [
     {

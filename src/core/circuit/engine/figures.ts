@@ -341,16 +341,47 @@ const crossScratch = new Float64Array(2);
 /**
  * The 10–90 % transition durations of the cycle into out[0] (rise), out[1] (fall):
  * between the pin's crossings of the 10 % and 90 % reference levels (0 for an
- * instant edge).
+ * instant edge). With `arrivals`, the walk times at which each edge ends go
+ * there too: the rise's 90 % crossing in [0], the fall's 10 % crossing in [1].
  */
-export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array): void {
+export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array, arrivals?: Float64Array): void {
   pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.lower), crossScratch);
   const rise10 = crossScratch[0];
   const fall10 = crossScratch[1];
   pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.upper), crossScratch);
   out[0] = durationBetween(rise10, crossScratch[0], cycle.periodS);
   out[1] = durationBetween(crossScratch[1], fall10, cycle.periodS);
+  if (arrivals) {
+    arrivals[0] = crossScratch[0];
+    arrivals[1] = fall10;
+  }
 }
+
+const arrivalScratch = new Float64Array(2);
+
+/**
+ * Decision to the end of each edge (docs/model.md, strays and leakage): the
+ * stage's own motion (delay, slew: `cycle.riseS`/`fallS`) and, with a
+ * capacitance on the pin, the pin's RC behind it — the pin reaches the 90 %
+ * (rising) or 10 % (falling) reference level of the 10–90 % transition only
+ * after the stage is done, e.g. a released open drain charging through its
+ * pull-up. Without capacitance on the pin the pin follows the stage and the
+ * stage's motion is the edge.
+ */
+function settleTimes(walk: OscillatorWalk, cycle: SteadyCycle, nominal: EdgeTimes, out: Float64Array): void {
+  let rise = Number.isNaN(cycle.riseS) ? nominal.riseSettleS : cycle.riseS;
+  let fall = Number.isNaN(cycle.fallS) ? nominal.fallSettleS : cycle.fallS;
+  if (walk.shape.capacitiveOutput) {
+    const fallingDecisionS = cycle.risingS + cycle.decisionHighS;
+    const pinRise = durationBetween(cycle.risingS, arrivalScratch[0], cycle.periodS);
+    const pinFall = durationBetween(fallingDecisionS, arrivalScratch[1], cycle.periodS);
+    if (pinRise > rise) rise = pinRise;
+    if (pinFall > fall) fall = pinFall;
+  }
+  out[0] = rise;
+  out[1] = fall;
+}
+const settleScratch = new Float64Array(2);
 
 /**
  * Charge a stiff output puts into a capacitive pin when its source jumps (no slew limit): Co·Δs at each
@@ -409,13 +440,12 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
   }
   const timeLowS = periodS - timeHighS;
   const transitions = new Float64Array(2);
-  transitionDurations(walk, cycle, highV, lowV, transitions);
+  transitionDurations(walk, cycle, highV, lowV, transitions, arrivalScratch);
 
   const firstEdgeS = firstCrossing(ev, walk.log.count, midV, cycle.startIndex, cycle.endIndex, memo);
-  let rise = cycle.riseS;
-  let fall = cycle.fallS;
-  if (Number.isNaN(rise)) rise = ctx.nominalEdges.riseSettleS;
-  if (Number.isNaN(fall)) fall = ctx.nominalEdges.fallSettleS;
+  settleTimes(walk, cycle, ctx.nominalEdges, settleScratch);
+  const rise = settleScratch[0];
+  const fall = settleScratch[1];
   const { high, low } = ctx;
 
   const figures: TimeDomainFigures = {
