@@ -195,8 +195,9 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     };
     // Ascend by single flips; when stuck, try every pair once (interactions such as asymmetric rails and
     // offsets can hide an extreme behind two coordinates); stop when neither helps. Latched corners never
-    // improve (score -Infinity), so the ascent keeps to oscillating corners.
-    const ascend = (o: Objective) => {
+    // improve (score -Infinity), so the ascent keeps to oscillating corners. True when it ended by itself
+    // (no flip, pair or triple it tries improves), false at the pass cap or without memory.
+    const ascend = (o: Objective): boolean => {
       for (let pass = 0; pass < MAX_ASCENT_PASSES; pass++) {
         let improved = false;
         for (let k = 0; k < n; k++) {
@@ -209,7 +210,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
           }
         }
         if (improved) continue;
-        if (!remember) return;
+        if (!remember) return false;
         // On the edge of the latching region the way on may lead through three coordinates, one of which
         // alone would latch: try each such coordinate with every pair of the others.
         for (let k = 0; k < n && !improved; k++) {
@@ -220,8 +221,18 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
             }
           }
         }
-        if (!improved) return;
+        if (!improved) return true;
       }
+      return false;
+    };
+    // Corners where an ascent for an objective ended by itself: every flip, pair and triple it tries there
+    // was met and none improves, and remembered corners never change, so an ascent for that objective
+    // started there again would end at once without evaluating anything. It is skipped.
+    const settled = new Set<number>();
+    const settledKey = (o: Objective) => bits * OBJECTIVES.length + OBJECTIVES.indexOf(o);
+    const ascendFrom = (o: Objective) => {
+      if (settled.has(settledKey(o))) return;
+      if (ascend(o)) settled.add(settledKey(o));
     };
     /**
      * The start corner latches: the extreme lies on the edge of the latching region. Back off to the best
@@ -293,7 +304,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         moveTo(start);
         current = evaluateCorner(point, bits);
         if (!current) backOff(o, gain);
-        if (current) ascend(o);
+        if (current) ascendFrom(o);
       }
     }
     // Polish: ascend again for each objective from the best corner met for every objective (an extreme of
@@ -308,7 +319,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
           if (!found || !found.corner) continue;
           moveTo(found.point);
           current = { frequencyHz: found.frequencyHz, dutyCycle: found.dutyCycle };
-          ascend(OBJECTIVES[o]);
+          ascendFrom(OBJECTIVES[o]);
         }
       }
       if (best.every((b, o) => b?.score === before[o])) break;
