@@ -16,7 +16,9 @@
  *   tolerance.
  * Any other outcome returns undefined and the general walk answers from the same
  * start. The pieces it logs are the ones the walk would log, bit for bit, so the
- * figures are read off them unchanged (test/core/circuit/cycle-replay.test.ts).
+ * timing figures are read off them unchanged (test/core/circuit/cycle-replay.test.ts);
+ * only ∫v dt is left out (NaN): the prepared model reads no integral figure, and
+ * it saves a φ3 per piece.
  *
  * Replayable: one capacitive node with a linear capacitor, a push-pull stage
  * (the open drain's release changes configuration), a recovery delay that does
@@ -26,11 +28,23 @@
  */
 import { BOUNDARY_TOLERANCE, EVENT, type ConfigModel } from './configs.ts';
 import { Kinematics } from './kinematics.ts';
-import { LOG, LOG_STRIDE, type PieceLog } from './piece-log.ts';
-import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
+import { LOG, LOG_STRIDE } from './piece-log.ts';
+import { AffineProbe, exitAtRest, firstExit, PieceEnds } from './root-solve.ts';
 import type { CompiledShape } from './compiled-network.ts';
 import { saturationHighV, saturationLowV, STEADY_STATE_TOLERANCE, TIME_EVENT, type OscillatorWalk, type SteadyCycle, type SteadyStart } from './walker.ts';
 
+// The log record's fields as plain numbers (as walker.ts reads them).
+const LOG_START = LOG.startS;
+const LOG_DURATION = LOG.durationS;
+const LOG_V0 = LOG.v0;
+const LOG_S0 = LOG.s0;
+const LOG_RATE = LOG.rate;
+const LOG_KEY = LOG.key;
+const LOG_LOGIC = LOG.logic;
+const LOG_TARGET = LOG.target;
+const LOG_VEND = LOG.vEnd;
+const LOG_INTEGRAL = LOG.integralV;
+const LOG_END = LOG.end;
 const TIME_TARGET = TIME_EVENT.target;
 const TIME_SLEW_END = TIME_EVENT.slewEnd;
 const THRESHOLD = EVENT.threshold;
@@ -39,7 +53,6 @@ export class CycleReplay {
   private readonly kin = new Kinematics();
   private readonly probe = new AffineProbe(this.kin);
   private readonly ends = new PieceEnds();
-  private readonly endScratch = new Float64Array(2);
   /** The cycle handed back (reused: read it before the next evaluation, like the walk's log). */
   private readonly cycle: SteadyCycle = {
     startIndex: 0,
@@ -166,25 +179,33 @@ export class CycleReplay {
           kind = TIME_SLEW_END;
         }
       }
-      ends.fill(kin, best, true);
+      // The far end as PieceEnds.fill computes it for a piece with a time event (∫v dt left out); a ramp's
+      // exit search reads both ends, a piece at rest decides from them at once (exitTime).
+      const horizonS = best;
+      const vT = horizonS < Infinity ? kin.vAtEnd(horizonS) : Number.NaN;
+      if (rate !== 0) ends.fillWithEnd(kin, horizonS, vT);
       const sg = logic ? 1 : -1;
-      const te = firstExit(this.probe, ends, sg * cfg.hC + halfHystV, sg * cfg.hV, sg * cfg.hS, vTol);
+      const te = this.exitTime(sg * cfg.hC + halfHystV, sg * cfg.hV, sg * cfg.hS, vTol, horizonS, vT);
       if (te < best) {
         best = te;
         kind = THRESHOLD;
       }
-      if (kind !== endings[p] || !(best > 0 && best < Infinity) || this.eventExitsBy(cfg, best)) return undefined;
-      let vEnd: number;
-      let integralV: number;
-      if (best === ends.durationS && !Number.isNaN(ends.integralV)) {
-        vEnd = ends.vT;
-        integralV = ends.integralV;
-      } else {
-        kin.endAndIntegral(best, this.endScratch);
-        vEnd = this.endScratch[0];
-        integralV = this.endScratch[1];
-      }
-      logPiece(log, t, best, v, s, rate, cfg.key, logic, target, vEnd, integralV, kind);
+      if (kind !== endings[p] || !(best > 0 && best < Infinity) || this.eventExitsBefore(cfg, best, horizonS, vT)) return undefined;
+      const vEnd = kind === THRESHOLD ? kin.vAtEnd(best) : vT;
+      // The walk's log record (OscillatorWalk.step writes the same fields; ∫v dt is left out: NaN).
+      const i = log.append();
+      const d = log.data;
+      d[i + LOG_START] = t;
+      d[i + LOG_DURATION] = best;
+      d[i + LOG_V0] = v;
+      d[i + LOG_S0] = s;
+      d[i + LOG_RATE] = rate;
+      d[i + LOG_KEY] = cfg.key;
+      d[i + LOG_LOGIC] = logic;
+      d[i + LOG_TARGET] = target;
+      d[i + LOG_VEND] = vEnd;
+      d[i + LOG_INTEGRAL] = Number.NaN;
+      d[i + LOG_END] = kind;
       v = vEnd;
       s = kin.s(best);
       t += best;
@@ -254,30 +275,25 @@ export class CycleReplay {
     return c;
   }
 
-  /** True when an event function (diode, clamp, current limit) of the configuration leaves its region within the piece. */
-  private eventExitsBy(cfg: ConfigModel, durationS: number): boolean {
+  /**
+   * firstExit of g = c0 + cv·v + cs·s from the piece set in kin (horizon T, far end vT): the walk's exit
+   * search, with a piece at rest decided at once by the closed form it would reach (exitOfProbe's branch).
+   */
+  private exitTime(c0: number, cv: number, cs: number, tolerance: number, horizonS: number, vT: number): number {
+    const kin = this.kin;
+    if (kin.r !== 0) return firstExit(this.probe, this.ends, c0, cv, cs, tolerance);
+    const g0 = c0 + cv * kin.v0 + cs * kin.s0;
+    if (g0 < -tolerance) return 0;
+    return exitAtRest(kin.a, kin.k0, kin.v0, g0, c0 + cv * vT + cs * kin.s(horizonS), c0 + cs * kin.s0, cv, horizonS);
+  }
+
+  /** True when an event function (diode, clamp, current limit) of the configuration would end the piece before `endS`. */
+  private eventExitsBefore(cfg: ConfigModel, endS: number, horizonS: number, vT: number): boolean {
     for (let k = 0; k < cfg.eventCount; k++) {
-      if (firstExit(this.probe, this.ends, cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k]) <= durationS) return true;
+      if (this.exitTime(cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k], horizonS, vT) < endS) return true;
     }
     return false;
   }
-}
-
-/** The walk's log record of a piece (OscillatorWalk.step writes the same fields). */
-function logPiece(log: PieceLog, startS: number, durationS: number, v0: number, s0: number, rate: number, key: number, logic: number, target: number, vEnd: number, integralV: number, end: number): void {
-  const i = log.append();
-  const d = log.data;
-  d[i + LOG.startS] = startS;
-  d[i + LOG.durationS] = durationS;
-  d[i + LOG.v0] = v0;
-  d[i + LOG.s0] = s0;
-  d[i + LOG.rate] = rate;
-  d[i + LOG.key] = key;
-  d[i + LOG.logic] = logic;
-  d[i + LOG.target] = target;
-  d[i + LOG.vEnd] = vEnd;
-  d[i + LOG.integralV] = integralV;
-  d[i + LOG.end] = end;
 }
 
 /** OscillatorWalk.resolve's test: is any function of the configuration beyond its boundary tolerance now? */

@@ -236,40 +236,60 @@ class CycleTotals {
 }
 const totals = new CycleTotals();
 
+let cyclePinBuffer = new Float64Array(32);
+const cyclePinConfigs: ConfigModel[] = [];
+
+/**
+ * The pin at the start and at the end of every cycle piece into [2k] and [2k + 1] (k counted from the
+ * cycle's first piece; a reused buffer, valid until the next call). The levels and every crossing search
+ * of one cycle read their pin values here, so each piece's configuration is looked up and its pin solved
+ * once, not once per search.
+ */
+export function cyclePins(walk: OscillatorWalk, cycle: SteadyCycle): Float64Array {
+  const n = cycle.endIndex - cycle.startIndex;
+  if (cyclePinBuffer.length < 2 * n) cyclePinBuffer = new Float64Array(4 * n);
+  const pins = cyclePinBuffer;
+  const d = walk.log.data;
+  for (let k = 0; k < n; k++) {
+    const b = (cycle.startIndex + k) * LOG_STRIDE;
+    const cfg = walk.cache.get(d[b + LOG_KEY]);
+    cyclePinConfigs[k] = cfg;
+    pins[2 * k] = pinAtStart(cfg, d, b);
+    pins[2 * k + 1] = pinAtEnd(cfg, d, b);
+  }
+  return pins;
+}
+
 /**
  * State levels of the cycle into out[0] (high), out[1] (low): the pin at the end
  * of the last piece before the output stage's target changes (the stage starts
  * leaving the level there). NaN for a level the cycle never leaves.
+ * `pins`: cyclePins of this cycle.
  */
-export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array): void {
+export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array, pins: Float64Array): void {
   const d = walk.log.data;
   out[0] = out[1] = Number.NaN;
   const n = cycle.endIndex - cycle.startIndex;
   for (let k = 0; k < n; k++) {
     const i = cycle.startIndex + k;
     const next = cycle.startIndex + ((k + 1) % n);
-    const target = d[i * LOG_STRIDE + LOG.target];
-    if (target === d[next * LOG_STRIDE + LOG.target]) continue;
-    out[target ? 0 : 1] = pinAtEnd(walk, d, i);
+    const target = d[i * LOG_STRIDE + LOG_TARGET];
+    if (target === d[next * LOG_STRIDE + LOG_TARGET]) continue;
+    out[target ? 0 : 1] = pins[2 * k + 1];
   }
 }
 
-/**
- * First rising and first falling crossing of the pin through levelV inside the
- * cycle, absolute times, into out[0] (rise) and out[1] (fall); NaN where none.
- * A jump of the pin between pieces (instant edge) crosses at the boundary.
- */
 const LOG_KEY = LOG.key;
 const LOG_V0 = LOG.v0;
 const LOG_S0 = LOG.s0;
 const LOG_VEND = LOG.vEnd;
 const LOG_RATE = LOG.rate;
 const LOG_DURATION = LOG.durationS;
+const LOG_TARGET = LOG.target;
+const LOG_START = LOG.startS;
 
-/** The pin at the end of logged piece i. */
-function pinAtEnd(walk: OscillatorWalk, d: Float64Array, i: number): number {
-  const b = i * LOG_STRIDE;
-  const cfg = walk.cache.get(d[b + LOG_KEY]);
+/** The pin at the end of the logged piece (record offset b) in its configuration. */
+function pinAtEnd(cfg: ConfigModel, d: Float64Array, b: number): number {
   if (cfg.dyn) {
     loggedState(d, b, endState);
     endModal.set(cfg.dyn, endState, d[b + LOG_S0], d[b + LOG_RATE]);
@@ -292,18 +312,26 @@ function pinAtStart(cfg: ConfigModel, d: Float64Array, b: number): number {
   return cfg.oC + cfg.oV * d[b + LOG_V0] + cfg.oS * d[b + LOG_S0];
 }
 
-export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, memo?: Float64Array): void {
+/**
+ * First rising and first falling crossing of the pin through levelV inside the
+ * cycle, absolute times, into out[0] (rise) and out[1] (fall); NaN where none.
+ * A jump of the pin between pieces (instant edge) crosses at the boundary.
+ * `pins`: cyclePins of this cycle (and the configurations it looked up).
+ */
+export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, pins: Float64Array, memo?: Float64Array): void {
   const ev = walk.evaluator;
   const d = walk.log.data;
   let riseAt = Number.NaN;
   let fallAt = Number.NaN;
-  let prevEnd = pinAtEnd(walk, d, cycle.endIndex - 1) - levelV;
-  for (let i = cycle.startIndex; i < cycle.endIndex && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); i++) {
+  const n = cycle.endIndex - cycle.startIndex;
+  let prevEnd = pins[2 * n - 1] - levelV;
+  for (let k = 0; k < n && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); k++) {
+    const i = cycle.startIndex + k;
     const b = i * LOG_STRIDE;
-    const pc = walk.cache.get(d[b + LOG_KEY]);
-    const start = pinAtStart(pc, d, b) - levelV;
-    const end = pinAtEnd(walk, d, i) - levelV;
-    const startS = d[i * LOG_STRIDE + LOG.startS];
+    const pc = cyclePinConfigs[k];
+    const start = pins[2 * k] - levelV;
+    const end = pins[2 * k + 1] - levelV;
+    const startS = d[b + LOG_START];
     if (prevEnd < 0 && start >= 0 && Number.isNaN(riseAt)) riseAt = startS;
     else if (prevEnd >= 0 && start < 0 && Number.isNaN(fallAt)) fallAt = startS;
     prevEnd = end;
@@ -319,16 +347,16 @@ export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: n
         if (end >= 0 && Number.isNaN(riseAt)) riseAt = startS + t;
         if (end < 0 && Number.isNaN(fallAt)) fallAt = startS + t;
       }
-      if (memo) memo[i - cycle.startIndex] = t;
+      if (memo) memo[k] = t;
       continue;
     }
     ev.load(i);
     const cfg = ev.config;
-    const n = cfg.dyn ? ev.crossingsRow(cfg.dyn.row(QUANTITY.o), -levelV, scratchT, scratchDir) : ev.crossings(cfg.oC - levelV, cfg.oV, cfg.oS, scratchT, scratchDir);
-    if (memo) memo[i - cycle.startIndex] = n > 0 ? scratchT[0] : Number.NaN;
-    for (let k = 0; k < n; k++) {
-      if (scratchDir[k] > 0 && Number.isNaN(riseAt)) riseAt = startS + scratchT[k];
-      if (scratchDir[k] < 0 && Number.isNaN(fallAt)) fallAt = startS + scratchT[k];
+    const found = cfg.dyn ? ev.crossingsRow(cfg.dyn.row(QUANTITY.o), -levelV, scratchT, scratchDir) : ev.crossings(cfg.oC - levelV, cfg.oV, cfg.oS, scratchT, scratchDir);
+    if (memo) memo[k] = found > 0 ? scratchT[0] : Number.NaN;
+    for (let c = 0; c < found; c++) {
+      if (scratchDir[c] > 0 && Number.isNaN(riseAt)) riseAt = startS + scratchT[c];
+      if (scratchDir[c] < 0 && Number.isNaN(fallAt)) fallAt = startS + scratchT[c];
     }
   }
   out[0] = riseAt;
@@ -341,14 +369,15 @@ const crossScratch = new Float64Array(2);
 /**
  * The 10–90 % transition durations of the cycle into out[0] (rise), out[1] (fall):
  * between the pin's crossings of the 10 % and 90 % reference levels (0 for an
- * instant edge). With `arrivals`, the walk times at which each edge ends go
- * there too: the rise's 90 % crossing in [0], the fall's 10 % crossing in [1].
+ * instant edge). `pins`: cyclePins of this cycle. With `arrivals`, the walk times
+ * at which each edge ends go there too: the rise's 90 % crossing in [0], the fall's
+ * 10 % crossing in [1].
  */
-export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array, arrivals?: Float64Array): void {
-  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.lower), crossScratch);
+export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array, pins: Float64Array, arrivals?: Float64Array): void {
+  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.lower), crossScratch, pins);
   const rise10 = crossScratch[0];
   const fall10 = crossScratch[1];
-  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.upper), crossScratch);
+  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.upper), crossScratch, pins);
   out[0] = durationBetween(rise10, crossScratch[0], cycle.periodS);
   out[1] = durationBetween(crossScratch[1], fall10, cycle.periodS);
   if (arrivals) {
@@ -421,7 +450,8 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
   sums.highPiece = sums.lowPiece = undefined;
   const meanHighV = pinHighS > 0 ? pinHighInt / pinHighS : Number.NaN;
   const meanLowV = pinLowS > 0 ? pinLowInt / pinLowS : Number.NaN;
-  cycleLevels(walk, cycle, levelScratch);
+  const pins = cyclePins(walk, cycle);
+  cycleLevels(walk, cycle, levelScratch, pins);
   const highV = Number.isNaN(levelScratch[0]) ? meanHighV : levelScratch[0];
   const lowV = Number.isNaN(levelScratch[1]) ? meanLowV : levelScratch[1];
   const midV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid);
@@ -429,7 +459,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
 
   const pieces = cycle.endIndex - cycle.startIndex;
   const memo = crossingMemoScratch(pieces);
-  pinCrossings(walk, cycle, midV, crossScratch, memo);
+  pinCrossings(walk, cycle, midV, crossScratch, pins, memo);
   const riseAt = crossScratch[0];
   const fallAt = crossScratch[1];
   let timeHighS: number;
@@ -440,7 +470,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
   }
   const timeLowS = periodS - timeHighS;
   const transitions = new Float64Array(2);
-  transitionDurations(walk, cycle, highV, lowV, transitions, arrivalScratch);
+  transitionDurations(walk, cycle, highV, lowV, transitions, pins, arrivalScratch);
 
   const firstEdgeS = firstCrossing(ev, walk.log.count, midV, cycle.startIndex, cycle.endIndex, memo);
   settleTimes(walk, cycle, ctx.nominalEdges, settleScratch);

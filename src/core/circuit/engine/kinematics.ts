@@ -13,7 +13,7 @@
  * every quantity affine in (v, s) has at most one extremum per piece. Root
  * finding and extremum search rely on that.
  */
-import { phiAll, series1, series2, SERIES_LIMIT } from './phi.ts';
+import { phi2, phiAll, series1, series2, SERIES_LIMIT } from './phi.ts';
 
 export class Kinematics {
   a = 0;
@@ -65,6 +65,17 @@ export class Kinematics {
       p2 = (1 - p1) / x;
     }
     return this.v0 * e + this.k0 * t * p1 + this.k1 * t * t * p2;
+  }
+
+  /**
+   * v(T) from one evaluation of e^−x, φ1, φ2 into the reused buffer: endAndIntegral's first number without
+   * ∫v dt (and v(T) itself, bit for bit), small enough to be inlined where a piece's far end is read.
+   */
+  vAtEnd(durationS: number): number {
+    const phi = this.phi;
+    const T = durationS;
+    phi2(this.a * T, phi);
+    return this.v0 * phi[0] + this.k0 * T * phi[1] + this.k1 * T * T * phi[2];
   }
 
   /** dv/dt given v(t) (the ODE itself). */

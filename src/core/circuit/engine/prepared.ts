@@ -26,7 +26,7 @@ import { CLAMP, configKey, NetworkCoefficients, STAGE, type CompiledShape, type 
 import { diodeBits, timingNodeStrayF } from './configs.ts';
 import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
 import { CycleReplay } from './cycle-replay.ts';
-import { cycleLevels, pinCrossings, transitionDurations } from './figures.ts';
+import { cycleLevels, cyclePins, pinCrossings, transitionDurations } from './figures.ts';
 import { exponentialExit } from './root-solve.ts';
 import { OscillatorWalk, saturationHighV, saturationLowV, SteadyStart, type SteadyCycle } from './walker.ts';
 
@@ -346,12 +346,13 @@ function fail(out: Float64Array, status: EvaluationStatus): EvaluationStatus {
 /** Period, duty, scope levels and (optionally) transitions of a walked cycle into out (OUTPUT_SLOT order). */
 export function readTiming(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array, withTransitions: boolean): void {
   const periodS = cycle.periodS;
-  cycleLevels(walk, cycle, levels);
+  const pins = cyclePins(walk, cycle);
+  cycleLevels(walk, cycle, levels, pins);
   const highV = levels[0];
   const lowV = levels[1];
   let timeHighS = Number.NaN;
   if (!Number.isNaN(highV) && !Number.isNaN(lowV)) {
-    pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid), crossings);
+    pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid), crossings, pins);
     if (!Number.isNaN(crossings[0]) && !Number.isNaN(crossings[1])) timeHighS = durationBetween(crossings[0], crossings[1], periodS);
   }
   if (Number.isNaN(timeHighS)) timeHighS = cycle.decisionHighS; // the pin never crosses its midpoint: the decision intervals
@@ -362,7 +363,7 @@ export function readTiming(walk: OscillatorWalk, cycle: SteadyCycle, out: Float6
   out[4] = highV;
   out[5] = lowV;
   if (withTransitions && !Number.isNaN(highV) && !Number.isNaN(lowV)) {
-    transitionDurations(walk, cycle, highV, lowV, transitions);
+    transitionDurations(walk, cycle, highV, lowV, transitions, pins);
     out[6] = transitions[0];
     out[7] = transitions[1];
   } else {

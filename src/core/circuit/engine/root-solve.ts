@@ -166,10 +166,7 @@ function exitOfProbe(probe: AffineProbe, ends: PieceEnds): number {
   if (kin.r === 0) {
     // Source at rest: an exponential (closed form), or with a C(v) capacitor the exit at a known voltage.
     if (kin.nonlinear) return (kin as CapacitorKinematics).voltageExit(g0, c0 + cs * ends.s0, cv, T);
-    // g is monotone in a plain exponential piece: strictly inside at a far end already evaluated (a piece
-    // that ends at a time event), it never left — no logarithm needed.
-    if (c0 + cv * ends.vT + cs * ends.sT > 0) return Infinity;
-    return exponentialExit(kin.a, kin.k0, kin.v0, g0, c0 + cs * ends.s0, cv, T);
+    return exitAtRest(kin.a, kin.k0, kin.v0, g0, c0 + cv * ends.vT + cs * ends.sT, c0 + cs * ends.s0, cv, T);
   }
 
   const gd0 = cv * ends.dv0 + cs * kin.r;
@@ -198,6 +195,18 @@ function exitOfProbe(probe: AffineProbe, ends: PieceEnds): number {
   if (gT >= 0) return Infinity;
   if (gExt < 0) return 0;
   return solveBracket(probe, tExt, T, gExt, gT);
+}
+
+/**
+ * firstExit in a plain exponential piece (linear capacitor, source at rest) from g at both ends (gT NaN
+ * when the far end is not known) and g0 not below the boundary tolerance. Numbers in, a number out: the
+ * walk's probe and the prepared model's cycle replay (cycle-replay.ts) both decide through it.
+ */
+export function exitAtRest(a: number, k0: number, v0: number, g0: number, gT: number, constPart: number, cv: number, T: number): number {
+  // g is monotone in a plain exponential piece: strictly inside at a far end already evaluated (a piece
+  // that ends at a time event), it never left — no logarithm needed.
+  if (gT > 0) return Infinity;
+  return exponentialExit(a, k0, v0, g0, constPart, cv, T);
 }
 
 /**
