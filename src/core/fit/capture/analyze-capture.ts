@@ -254,7 +254,8 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
   if (output !== undefined) {
     // IEEE 181 histogram-mode state levels (../../scope/ieee181.ts), then the reference instants between them.
     const levels = stateLevelsInRange(output, outputRange!.minV, outputRange!.maxV, { channelName: 'output', pointer: '/output' });
-    const read = readOutput(output, clock, levels.highV, levels.lowV, options);
+    const outputStepV = outputRange!.stepV;
+    const read = readOutput(output, clock, levels.highV, levels.lowV, options, outputStepV, sampleNoiseV(output, n, outputStepV));
     const period = read.period;
     if (!(period.count >= 1)) {
       const t = read.transitions;

@@ -46,39 +46,81 @@ export interface OutputReadings {
 
 /** Share of each state, before the output leaves it, that the end-of-state fit reads (our choice). */
 const STATE_END_SHARE = 0.3;
+/**
+ * The end-of-state fit keeps this share of each neighbouring 10–90 % duration
+ * away from the 10 %/90 % instants: twice the stretch a straight ramp spends
+ * between 0 % and 10 % (our choice). A released open drain's rise is mostly
+ * its tilted top creeping to 90 %, so a whole duration could swallow the state.
+ */
+const STATE_CLEARANCE_SHARE = 0.25;
 /** Fewest samples an end-of-state fit takes. */
 const STATE_END_MIN_SAMPLES = 8;
+/**
+ * The output has left its state once a sample runs past the state's own fit,
+ * towards the other state, by this share of the amplitude (our choice: a
+ * ramp leaving the state is then 0.1 % of its way in) or by
+ * DEPARTURE_NOISE_MULTIPLE noise σ / DEPARTURE_STEP_MULTIPLE ADC steps,
+ * whichever is larger (noise alone then does not trip it; common practice).
+ */
+const DEPARTURE_AMPLITUDE_SHARE = 1e-3;
+const DEPARTURE_NOISE_MULTIPLE = 6;
+const DEPARTURE_STEP_MULTIPLE = 2;
 
 /**
  * The state levels as the shared definition reads them on the exact cycle
  * (../../scope/ieee181.ts): the pin at the instant the output starts to leave
- * the state. On samples: per state, a quadratic through the samples of its
- * last STATE_END_SHARE (clear of both transitions by one transition duration)
- * evaluated at the instant the departing transition starts (its 10–90 %
- * line extended to 0 %, t_leave = startS − durationS/8). A tilted top (an
- * open-drain pull-up loaded by the timing resistor, an output resistance)
- * then reads its end value as the model does, where the histogram's modal
- * window leans into the tilt; a flat top reads its mean, as the mode does.
- * Undefined when no state holds enough samples.
+ * the state. On samples, per state: a quadratic through the samples of its
+ * last STATE_END_SHARE (clear of both transitions, STATE_CLEARANCE_SHARE),
+ * followed forward to the first sample that runs past it towards
+ * the other state (DEPARTURE_*): the output left the state between that
+ * sample and the one before; the same fit over the samples up to the one
+ * before, read in the middle of that sample interval, is the level. The departure is found, not assumed from the
+ * transition's shape: a released open drain leaves its low state with a jump
+ * and then creeps up its tilted top, so its 10–90 % duration (a stretch of
+ * the tilt) says nothing about where the low state ended; a slew ramp, an RC
+ * edge and a jump are all found within a sample of their start. A flat top
+ * reads its mean, as the histogram mode does. Undefined when no state holds
+ * enough samples.
  */
-function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions: readonly Transition[]): { highV?: number; lowV?: number } {
+function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions: readonly Transition[], amplitudeV: number, noiseV: number, stepV: number): { highV?: number; lowV?: number } {
   const n = Math.min(values.length, clockLength(clock));
   const highs: number[] = [];
   const lows: number[] = [];
+  const departureV = Math.max(DEPARTURE_AMPLITUDE_SHARE * Math.abs(amplitudeV), DEPARTURE_NOISE_MULTIPLE * noiseV, DEPARTURE_STEP_MULTIPLE * stepV);
   for (let k = 1; k < transitions.length; k++) {
     const arrive = transitions[k - 1];
     const leave = transitions[k];
-    const leaveS = leave.startS - leave.durationS / 8;
-    const fromS = arrive.endS + arrive.durationS;
-    const toS = leave.startS - leave.durationS;
+    const fromS = arrive.endS + STATE_CLEARANCE_SHARE * arrive.durationS;
+    const toS = leave.startS - STATE_CLEARANCE_SHARE * leave.durationS;
     const stateS = toS - fromS;
     if (!(stateS > 0)) continue;
     const i1 = Math.min(n - 1, Math.floor(indexAtTime(clock, toS)));
     const i0 = Math.max(0, Math.ceil(indexAtTime(clock, toS - STATE_END_SHARE * stateS)));
+    const iFirst = Math.max(0, Math.ceil(indexAtTime(clock, fromS)));
     if (i1 - i0 + 1 < STATE_END_MIN_SAMPLES) continue;
-    const q = quadraticFit(values, clock, i0, i1, leaveS);
+    const t0 = timeAt(clock, i1);
+    const q = quadraticFit(values, clock, i0, i1, t0);
     if (!q || !Number.isFinite(q[0])) continue;
-    (leave.direction === 'falling' ? highs : lows).push(q[0]);
+    // Towards the other state: a rising departure leaves the low state, a falling one the high state.
+    const sign = leave.direction === 'rising' ? 1 : -1;
+    const last = Math.min(n - 1, leave.index);
+    let i = i1 + 1;
+    for (; i <= last; i++) {
+      const u = timeAt(clock, i) - t0;
+      if (sign * (values[i] - (q[0] + u * (q[1] + u * q[2]))) > departureV) break;
+    }
+    if (i > last) continue;
+    // The same fit again, over as many samples ending at the last one still in the state: the level is
+    // then read half a sample past the fit, not extrapolated over the clearance (a decaying tail bends).
+    const j1 = i - 1;
+    const j0 = Math.max(iFirst, j1 - (i1 - i0));
+    const tEnd = timeAt(clock, j1);
+    const refit = j1 > i1 && j1 - j0 + 1 >= STATE_END_MIN_SAMPLES ? quadraticFit(values, clock, j0, j1, tEnd) : undefined;
+    const fit = refit && Number.isFinite(refit[0]) ? refit : q;
+    const u = 0.5 * (tEnd + timeAt(clock, i)) - (fit === q ? t0 : tEnd);
+    const levelV = fit[0] + u * (fit[1] + u * fit[2]);
+    if (!Number.isFinite(levelV)) continue;
+    (sign < 0 ? highs : lows).push(levelV);
   }
   const mean = (xs: number[]) => (xs.length === 0 ? undefined : xs.reduce((a, b) => a + b, 0) / xs.length);
   const out: { highV?: number; lowV?: number } = {};
@@ -95,13 +137,14 @@ function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions:
  * the end-of-state levels (endOfStateLevels) replace them, and the
  * transitions are found again between those; then per cycle the period
  * (like-direction 50 % instants), the duty cycle (rising to falling 50 %
- * instant over the cycle) and the 10–90 % durations.
+ * instant over the cycle) and the 10–90 % durations. `stepV`, `noiseV`: the
+ * channel's ADC step and sample noise (sampleNoiseV), for the departure test.
  */
-export function readOutput(values: Float64Array, clock: SampleClock, modeHighV: number, modeLowV: number, crossing: CrossingOptions = {}): OutputReadings {
+export function readOutput(values: Float64Array, clock: SampleClock, modeHighV: number, modeLowV: number, crossing: CrossingOptions = {}, stepV = 0, noiseV = 0): OutputReadings {
   let highV = modeHighV;
   let lowV = modeLowV;
   let transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
-  const ends = endOfStateLevels(values, clock, transitions);
+  const ends = endOfStateLevels(values, clock, transitions, highV - lowV, noiseV, stepV);
   // Only a refinement: levels that would not keep the two states apart leave the modes in place.
   if (ends.highV !== undefined && ends.lowV !== undefined && ends.highV - ends.lowV > 0.5 * (modeHighV - modeLowV)) {
     highV = ends.highV;
