@@ -16,6 +16,7 @@
  * The default fraction, 5 %, is our design margin (edges short enough that the
  * period is set by the timing network), not a figure from a standard.
  */
+import type { AmplifierModel } from '../amplifiers/model.ts';
 import { CoreError } from '../errors.ts';
 import type { PreparedCircuit } from './analyze.ts';
 import { CHECK_CODES, type Check } from './checks.ts';
@@ -50,14 +51,21 @@ export function checkEdgeFraction(fraction: number, pointer = '/edgeFractionLimi
 export function nominalEdgeTimes(prepared: PreparedCircuit): EdgeTimes {
   const { amplifier } = prepared.circuit;
   const { high, low } = prepared;
-  const delayS = amplifier.recoveryDelayS;
-  const slew = amplifier.slewRateVPerS;
   if (prepared.topology.needsOpenDrain) {
     const releasedV = evalAffine(high.outputPin, high.switchingV);
-    return { riseSettleS: delayS, fallSettleS: delayS + slewTimeS(releasedV - low.sourceV, slew) };
+    return { riseSettleS: amplifier.recoveryDelayS, fallSettleS: stageEdgeTimeS(releasedV - low.sourceV, amplifier) };
   }
-  const edgeS = delayS + slewTimeS(high.sourceV - low.sourceV, slew);
+  const edgeS = stageEdgeTimeS(high.sourceV - low.sourceV, amplifier);
   return { riseSettleS: edgeS, fallSettleS: edgeS };
+}
+
+/**
+ * The stage's own edge across `swingV`: its recovery delay, then slewing the
+ * swing (instant without a slew limit). The one edge-time formula behind the
+ * analysis's nominal edges and the design's frequency ceiling.
+ */
+export function stageEdgeTimeS(swingV: number, amplifier: Pick<AmplifierModel, 'recoveryDelayS' | 'slewRateVPerS'>): number {
+  return amplifier.recoveryDelayS + slewTimeS(swingV, amplifier.slewRateVPerS);
 }
 
 /** The longer of two estimates of each edge. */

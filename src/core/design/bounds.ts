@@ -6,7 +6,7 @@
 import type { AmplifierModel } from '../amplifiers/model.ts';
 import { BIAS_SHIFT_WARNING_FRACTION } from '../circuit/checks.ts';
 import { formatSi, formatVolts } from '../circuit/format.ts';
-import { DEFAULT_EDGE_FRACTION } from '../circuit/frequency-ceiling.ts';
+import { DEFAULT_EDGE_FRACTION, frequencyCeilingHz as circuitFrequencyCeilingHz, stageEdgeTimeS } from '../circuit/frequency-ceiling.ts';
 import type { Supply } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import type { OutputLevels, ThresholdPair } from './thresholds.ts';
@@ -84,8 +84,8 @@ export function decisionResistanceBounds(feedbackFraction: number, levels: Outpu
 
 /** Highest frequency whose edges and recovery delays fit the edge budget, Hz (Infinity for an ideal amplifier). */
 export function frequencyCeilingHz(levels: OutputLevels, amplifier: AmplifierModel): number {
-  const edgeS = (levels.highV - levels.lowV) / amplifier.slewRateVPerS + amplifier.recoveryDelayS;
-  return edgeS > 0 ? EDGE_BUDGET_FRACTION / edgeS : Infinity;
+  const edgeS = stageEdgeTimeS(levels.highV - levels.lowV, amplifier);
+  return circuitFrequencyCeilingHz({ riseSettleS: edgeS, fallSettleS: edgeS }, EDGE_BUDGET_FRACTION);
 }
 
 /** The request must fit the amplifier before any search: rated supply span, frequency ceiling. */
