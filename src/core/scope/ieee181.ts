@@ -18,9 +18,10 @@
  *   the centroid of the bins around it (`histogramModeLevels`), finds the
  *   states and the transitions between them; the level is then read where the
  *   definition puts it, by a local fit over the end of each state evaluated
- *   where the output starts to leave it (src/core/fit/capture/scope-readings.ts,
- *   endOfStateLevels): on a tilted top the modal window leans into the tilt,
- *   on a flat one both agree.
+ *   where the samples show the output leaving it (src/core/fit/capture/
+ *   scope-readings.ts, endOfStateLevels): on a tilted top the modal window
+ *   leans into the tilt, on a flat one both agree. On a tilted top this is the
+ *   histogram mode's limit for vanishing bins (docs/model.md §5, tilted tops).
  * - **Reference levels**: fractions of the amplitude above the low state
  *   (`REFERENCE_FRACTION`, §5.3.2); the 50 % reference-level instant is the
  *   transition's time.

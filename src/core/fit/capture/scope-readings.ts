@@ -67,14 +67,39 @@ const DEPARTURE_NOISE_MULTIPLE = 6;
 const DEPARTURE_STEP_MULTIPLE = 2;
 
 /**
+ * A level read from a state's end is good to this share of the amplitude
+ * (our choice): the end-of-state refit takes as many samples as its scatter
+ * needs for that, at least STATE_END_MIN_SAMPLES.
+ */
+const LEVEL_RESOLUTION_SHARE = 1e-5;
+/** A sample runs past the fit before it when it leaves it by more than this many times the scatter (our choice). */
+const SCATTER_MULTIPLE = 3;
+/** Variance of a least-squares quadratic's value at the end of its window, in units of σ²/N (9 for many evenly spaced samples). */
+const END_VALUE_VARIANCE_FACTOR = 9;
+
+/** RMS of the samples [i0, i1] about a quadratic fit `q` in u = t − t0, V. */
+function fitScatterV(values: Float64Array, clock: SampleClock, i0: number, i1: number, t0: number, q: readonly number[]): number {
+  let ss = 0;
+  for (let i = i0; i <= i1; i++) {
+    const u = timeAt(clock, i) - t0;
+    const r = values[i] - (q[0] + u * (q[1] + u * q[2]));
+    ss += r * r;
+  }
+  return Math.sqrt(ss / Math.max(1, i1 - i0 - 2));
+}
+
+/**
  * The state levels as the shared definition reads them on the exact cycle
  * (../../scope/ieee181.ts): the pin at the instant the output starts to leave
  * the state. On samples, per state: a quadratic through the samples of its
  * last STATE_END_SHARE (clear of both transitions, STATE_CLEARANCE_SHARE),
  * followed forward to the first sample that runs past it towards
  * the other state (DEPARTURE_*): the output left the state between that
- * sample and the one before; the same fit over the samples up to the one
- * before, read in the middle of that sample interval, is the level. The departure is found, not assumed from the
+ * sample and the one before, or a few samples earlier where those already
+ * leave the fit over the samples before them by more than the state's scatter
+ * (a ramp's first millivolts); a fit over the samples up to the last one still
+ * in the state (as many as the scatter needs, LEVEL_RESOLUTION_SHARE), read
+ * half a sample after it, is the level. The departure is found, not assumed from the
  * transition's shape: a released open drain leaves its low state with a jump
  * and then creeps up its tilted top, so its 10–90 % duration (a stretch of
  * the tilt) says nothing about where the low state ended; a slew ramp, an RC
@@ -110,14 +135,21 @@ function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions:
       if (sign * (values[i] - (q[0] + u * (q[1] + u * q[2]))) > departureV) break;
     }
     if (i > last) continue;
-    // The same fit again, over as many samples ending at the last one still in the state: the level is
-    // then read half a sample past the fit, not extrapolated over the clearance (a decaying tail bends).
-    const j1 = i - 1;
-    const j0 = Math.max(iFirst, j1 - (i1 - i0));
+    // The fit again, over samples ending at the last one still in the state: the level is then read half a
+    // sample past the fit, not extrapolated over the clearance. As few samples as the scatter about the
+    // first fit allows (LEVEL_RESOLUTION_SHARE): a quadratic bends away from a curved tail at its ends.
+    const scatterV = fitScatterV(values, clock, i0, i1, t0, q);
+    const wanted = Math.ceil(END_VALUE_VARIANCE_FACTOR * (scatterV / (LEVEL_RESOLUTION_SHARE * Math.abs(amplitudeV))) ** 2);
+    const width = Math.min(i1 - i0 + 1, Math.max(STATE_END_MIN_SAMPLES, wanted));
+    // The samples just before the one that tripped the test may already be on their way (a ramp's first
+    // millivolts, rounded by the pin's RC): step back while a sample runs past the fit over the first
+    // window's length of samples before it by more than the state's scatter.
+    const j1 = lastSampleInState(values, clock, i1, i - 1, i1 - i0 + 1, iFirst, sign, SCATTER_MULTIPLE * scatterV + 1e-12 * Math.abs(amplitudeV));
+    const j0 = Math.max(iFirst, j1 + 1 - width);
     const tEnd = timeAt(clock, j1);
     const refit = j1 > i1 && j1 - j0 + 1 >= STATE_END_MIN_SAMPLES ? quadraticFit(values, clock, j0, j1, tEnd) : undefined;
     const fit = refit && Number.isFinite(refit[0]) ? refit : q;
-    const u = 0.5 * (tEnd + timeAt(clock, i)) - (fit === q ? t0 : tEnd);
+    const u = 0.5 * (tEnd + timeAt(clock, j1 + 1)) - (fit === q ? t0 : tEnd);
     const levelV = fit[0] + u * (fit[1] + u * fit[2]);
     if (!Number.isFinite(levelV)) continue;
     (sign < 0 ? highs : lows).push(levelV);
@@ -176,6 +208,51 @@ export function readOutput(values: Float64Array, clock: SampleClock, modeHighV: 
     }
   }
   return { highV, lowV, transitions, period: intervalStats(periods), duty: spread(duties), rise: spread(rises), fall: spread(falls) };
+}
+
+/**
+ * Going back from sample `from` towards `stop`: the first sample that does not
+ * run past (in the direction `sign`) the least-squares quadratic through the
+ * `width` samples before it by more than `toleranceV`. The window slides one
+ * sample per step with running sums (time scaled to the window, values taken
+ * about the first sample's, so the normal equations stay well conditioned).
+ */
+function lastSampleInState(values: Float64Array, clock: SampleClock, stop: number, from: number, width: number, first: number, sign: number, toleranceV: number): number {
+  const tRef = timeAt(clock, from);
+  const scaleS = timeAt(clock, from) - timeAt(clock, Math.max(first, from - width));
+  if (!(scaleS > 0)) return from;
+  const yRef = values[from];
+  let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, y0 = 0, y1 = 0, y2 = 0;
+  const add = (k: number, w: number) => {
+    const u = (timeAt(clock, k) - tRef) / scaleS;
+    const u2 = u * u;
+    const y = values[k] - yRef;
+    s0 += w;
+    s1 += w * u;
+    s2 += w * u2;
+    s3 += w * u2 * u;
+    s4 += w * u2 * u2;
+    y0 += w * y;
+    y1 += w * y * u;
+    y2 += w * y * u2;
+  };
+  let j = from;
+  if (j - width < first) return j;
+  for (let k = j - width; k < j; k++) add(k, 1);
+  while (j > stop && j - width - 1 >= first) {
+    const det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+    if (!(Math.abs(det) > 0)) break;
+    const c0 = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+    const c1 = (s0 * (y1 * s4 - y2 * s3) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
+    const c2 = (s0 * (s2 * y2 - s3 * y1) - s1 * (s1 * y2 - s2 * y1) + y0 * (s1 * s3 - s2 * s2)) / det;
+    const u = (timeAt(clock, j) - tRef) / scaleS;
+    if (!(sign * (values[j] - yRef - (c0 + u * (c1 + u * c2))) > toleranceV)) break;
+    // Slide the window one sample back: sample j − 1 leaves it, j − width − 1 joins.
+    add(j - 1, -1);
+    add(j - width - 1, 1);
+    j--;
+  }
+  return j;
 }
 
 /** Least-squares quadratic through samples [i0, i1] in u = t − t0: [c0, c1, c2] (undefined if singular). */
