@@ -2,7 +2,8 @@
  * The cycle replay (engine/cycle-replay.ts, docs/model.md §4) is the walk compiled for vectors near a
  * nominal, not a second model. Held here
  * - to the walk itself: from the same steady start, the replayed cycle and every logged piece are the
- *   walk's bit for bit (but ∫v dt, which it leaves out), and so are the timing figures read off them;
+ *   walk's bit for bit (but ∫v dt, which it leaves out), so are the pins it records and the timing
+ *   figures read off them;
  * - to analyzeCircuit (1e-12), like every prepared evaluation, and for a few vectors to the independent
  *   reference — odex (Hairer & Wanner's ODEX extrapolation integrator, npm registry) integrating the same
  *   circuit ODE (engine-odex-reference.ts) — to 1e-6;
@@ -15,6 +16,7 @@ import { describe, expect, it } from 'vitest';
 import { analyzeCircuit, BUILT_IN_AMPLIFIERS, CoreError, prepareModel, TOPOLOGIES, type Circuit } from '../../../src/core/index.ts';
 import { findBuiltInAmplifier } from '../../../src/core/amplifiers/archetypes.ts';
 import { compileCycleReplay, OUTPUT_LENGTH, OUTPUT_SLOT, readTiming, walkToCycle, type PreparedModel } from '../../../src/core/circuit/engine/prepared.ts';
+import { CyclePins } from '../../../src/core/circuit/engine/figures.ts';
 import { LOG, LOG_STRIDE } from '../../../src/core/circuit/engine/piece-log.ts';
 import { OscillatorWalk, SteadyStart } from '../../../src/core/circuit/engine/walker.ts';
 import { referenceOscillation } from './engine-odex-reference.ts';
@@ -124,7 +126,10 @@ describe('cycle replay = the walk from the same start, bit for bit', () => {
           const fromWalk = new Float64Array(OUTPUT_LENGTH);
           const fromReplay = new Float64Array(OUTPUT_LENGTH);
           readTiming(walk, walked, fromWalk, true);
-          readTiming(own, cycle, fromReplay, true);
+          // The pins the replay recorded as it logged are the ones figures.ts solves off the log.
+          const solved = new CyclePins().of(own, cycle);
+          for (let k = 0; k < 2 * cycle.endIndex; k++) expect(Object.is(replay.pins.values[k], solved.values[k]), `pin ${k}`).toBe(true);
+          readTiming(own, cycle, fromReplay, true, replay.pins);
           expect(Array.from(fromReplay)).toEqual(Array.from(fromWalk));
           expectAnalyzeFigures(p, values, `${JSON.stringify(c)} vector ${j}`);
           if (odexChecked < 2 && !p.effects.includes('input-clamp')) {

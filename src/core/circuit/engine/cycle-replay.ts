@@ -27,6 +27,7 @@
  * one flip waiting for the delay.
  */
 import { BOUNDARY_TOLERANCE, EVENT, type ConfigModel } from './configs.ts';
+import { CyclePins } from './figures.ts';
 import { Kinematics } from './kinematics.ts';
 import { LOG, LOG_STRIDE } from './piece-log.ts';
 import { AffineProbe, exitAtRest, firstExit, PieceEnds } from './root-solve.ts';
@@ -53,6 +54,8 @@ export class CycleReplay {
   private readonly kin = new Kinematics();
   private readonly probe = new AffineProbe(this.kin);
   private readonly ends = new PieceEnds();
+  /** The pins of the replayed cycle's pieces (figures.ts), recorded as they are logged. */
+  readonly pins = new CyclePins();
   /** The cycle handed back (reused: read it before the next evaluation, like the walk's log). */
   private readonly cycle: SteadyCycle = {
     startIndex: 0,
@@ -160,6 +163,8 @@ export class CycleReplay {
     }
     const log = walk.log;
     log.clear();
+    const pins = this.pins;
+    pins.reserve(this.endings.length);
     const kin = this.kin;
     const ends = this.ends;
     const endings = this.endings;
@@ -184,13 +189,22 @@ export class CycleReplay {
       const horizonS = best;
       const vT = horizonS < Infinity ? kin.vAtEnd(horizonS) : Number.NaN;
       if (rate !== 0) ends.fillWithEnd(kin, horizonS, vT);
+      // The threshold (k = −1: h, signed for the decision) and each event function of the configuration,
+      // watched as OscillatorWalk.step watches them; an event function that would end the piece first
+      // leaves the nominal's sequence.
       const sg = logic ? 1 : -1;
-      const te = this.exitTime(sg * cfg.hC + halfHystV, sg * cfg.hV, sg * cfg.hS, vTol, horizonS, vT);
-      if (te < best) {
+      for (let k = -1; k < cfg.eventCount; k++) {
+        const threshold = k < 0;
+        const c0 = threshold ? sg * cfg.hC + halfHystV : cfg.evC[k];
+        const cv = threshold ? sg * cfg.hV : cfg.evV[k];
+        const cs = threshold ? sg * cfg.hS : cfg.evS[k];
+        const te = this.exitTime(c0, cv, cs, threshold ? vTol : cfg.evTol[k], horizonS, vT);
+        if (!(te < best)) continue;
+        if (!threshold) return undefined;
         best = te;
         kind = THRESHOLD;
       }
-      if (kind !== endings[p] || !(best > 0 && best < Infinity) || this.eventExitsBefore(cfg, best, horizonS, vT)) return undefined;
+      if (kind !== endings[p] || !(best > 0 && best < Infinity)) return undefined;
       const vEnd = kind === THRESHOLD ? kin.vAtEnd(best) : vT;
       // The walk's log record (OscillatorWalk.step writes the same fields; ∫v dt is left out: NaN).
       const i = log.append();
@@ -206,8 +220,10 @@ export class CycleReplay {
       d[i + LOG_VEND] = vEnd;
       d[i + LOG_INTEGRAL] = Number.NaN;
       d[i + LOG_END] = kind;
+      const sEnd = kin.s(best);
+      pins.setPiece(p, cfg, v, s, vEnd, sEnd);
       v = vEnd;
-      s = kin.s(best);
+      s = sEnd;
       t += best;
       // The event (OscillatorWalk.apply, changeTarget, flipDecision, motionDone for a push-pull stage).
       let motionDone = false;
@@ -285,14 +301,6 @@ export class CycleReplay {
     const g0 = c0 + cv * kin.v0 + cs * kin.s0;
     if (g0 < -tolerance) return 0;
     return exitAtRest(kin.a, kin.k0, kin.v0, g0, c0 + cv * vT + cs * kin.s(horizonS), c0 + cs * kin.s0, cv, horizonS);
-  }
-
-  /** True when an event function (diode, clamp, current limit) of the configuration would end the piece before `endS`. */
-  private eventExitsBefore(cfg: ConfigModel, endS: number, horizonS: number, vT: number): boolean {
-    for (let k = 0; k < cfg.eventCount; k++) {
-      if (this.exitTime(cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k], horizonS, vT) < endS) return true;
-    }
-    return false;
   }
 }
 

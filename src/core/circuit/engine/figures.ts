@@ -236,37 +236,61 @@ class CycleTotals {
 }
 const totals = new CycleTotals();
 
-let cyclePinBuffer = new Float64Array(32);
-const cyclePinConfigs: ConfigModel[] = [];
+/** The pin of a one-capacitor configuration at capacitor voltage v and source s (its network's affine row), V. */
+export function pinVoltage(cfg: ConfigModel, v: number, s: number): number {
+  return cfg.oC + cfg.oV * v + cfg.oS * s;
+}
 
 /**
- * The pin at the start and at the end of every cycle piece into [2k] and [2k + 1] (k counted from the
- * cycle's first piece; a reused buffer, valid until the next call). The levels and every crossing search
- * of one cycle read their pin values here, so each piece's configuration is looked up and its pin solved
- * once, not once per search.
+ * The pin at the start and at the end of every piece of one cycle ([2k] and [2k + 1], k counted from the
+ * cycle's first piece) and each piece's configuration. The levels and every crossing search of a cycle
+ * read their pin values here, so each piece's pin is solved once, not once per search. Reusable.
  */
-export function cyclePins(walk: OscillatorWalk, cycle: SteadyCycle): Float64Array {
-  const n = cycle.endIndex - cycle.startIndex;
-  if (cyclePinBuffer.length < 2 * n) cyclePinBuffer = new Float64Array(4 * n);
-  const pins = cyclePinBuffer;
-  const d = walk.log.data;
-  for (let k = 0; k < n; k++) {
-    const b = (cycle.startIndex + k) * LOG_STRIDE;
-    const cfg = walk.cache.get(d[b + LOG_KEY]);
-    cyclePinConfigs[k] = cfg;
-    pins[2 * k] = pinAtStart(cfg, d, b);
-    pins[2 * k + 1] = pinAtEnd(cfg, d, b);
+export class CyclePins {
+  values = new Float64Array(32);
+  readonly configs: ConfigModel[] = [];
+
+  /** Room for n pieces (the values may be reallocated: re-read them after the call). */
+  reserve(n: number): void {
+    if (this.values.length < 2 * n) this.values = new Float64Array(4 * n);
   }
-  return pins;
+
+  /** Solved off the walk's log of the cycle. */
+  of(walk: OscillatorWalk, cycle: SteadyCycle): this {
+    const n = cycle.endIndex - cycle.startIndex;
+    this.reserve(n);
+    const pins = this.values;
+    const d = walk.log.data;
+    for (let k = 0; k < n; k++) {
+      const b = (cycle.startIndex + k) * LOG_STRIDE;
+      const cfg = walk.cache.get(d[b + LOG_KEY]);
+      this.configs[k] = cfg;
+      pins[2 * k] = pinAtStart(cfg, d, b);
+      pins[2 * k + 1] = pinAtEnd(cfg, d, b);
+    }
+    return this;
+  }
+
+  /**
+   * Piece k of a one-capacitor configuration from the state at its ends (what pinAtStart/pinAtEnd read
+   * off its log record): for a caller that has the numbers at hand as it logs the piece.
+   */
+  setPiece(k: number, cfg: ConfigModel, v0: number, s0: number, vEnd: number, sEnd: number): void {
+    this.configs[k] = cfg;
+    this.values[2 * k] = pinVoltage(cfg, v0, s0);
+    this.values[2 * k + 1] = pinVoltage(cfg, vEnd, sEnd);
+  }
 }
+const figurePins = new CyclePins();
 
 /**
  * State levels of the cycle into out[0] (high), out[1] (low): the pin at the end
  * of the last piece before the output stage's target changes (the stage starts
  * leaving the level there). NaN for a level the cycle never leaves.
- * `pins`: cyclePins of this cycle.
+ * `pins`: the pins of this cycle.
  */
-export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array, pins: Float64Array): void {
+export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array, pins: CyclePins): void {
+  const values = pins.values;
   const d = walk.log.data;
   out[0] = out[1] = Number.NaN;
   const n = cycle.endIndex - cycle.startIndex;
@@ -275,7 +299,7 @@ export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float
     const next = cycle.startIndex + ((k + 1) % n);
     const target = d[i * LOG_STRIDE + LOG_TARGET];
     if (target === d[next * LOG_STRIDE + LOG_TARGET]) continue;
-    out[target ? 0 : 1] = pins[2 * k + 1];
+    out[target ? 0 : 1] = values[2 * k + 1];
   }
 }
 
@@ -295,7 +319,7 @@ function pinAtEnd(cfg: ConfigModel, d: Float64Array, b: number): number {
     endModal.set(cfg.dyn, endState, d[b + LOG_S0], d[b + LOG_RATE]);
     return endModal.setRow(cfg.dyn.row(QUANTITY.o)).at(d[b + LOG_DURATION]);
   }
-  return cfg.oC + cfg.oV * d[b + LOG_VEND] + cfg.oS * (d[b + LOG_S0] + d[b + LOG_RATE] * d[b + LOG_DURATION]);
+  return pinVoltage(cfg, d[b + LOG_VEND], d[b + LOG_S0] + d[b + LOG_RATE] * d[b + LOG_DURATION]);
 }
 
 /** The capacitive nodes' voltages at the start of logged piece (record offset b). */
@@ -309,16 +333,17 @@ function loggedState(d: Float64Array, b: number, out: Float64Array): Float64Arra
 /** The pin at the start of logged piece (record offset b). */
 function pinAtStart(cfg: ConfigModel, d: Float64Array, b: number): number {
   if (cfg.dyn) return rowAt(cfg.dyn.row(QUANTITY.o), loggedState(d, b, endState), d[b + LOG_S0]);
-  return cfg.oC + cfg.oV * d[b + LOG_V0] + cfg.oS * d[b + LOG_S0];
+  return pinVoltage(cfg, d[b + LOG_V0], d[b + LOG_S0]);
 }
 
 /**
  * First rising and first falling crossing of the pin through levelV inside the
  * cycle, absolute times, into out[0] (rise) and out[1] (fall); NaN where none.
  * A jump of the pin between pieces (instant edge) crosses at the boundary.
- * `pins`: cyclePins of this cycle (and the configurations it looked up).
+ * `pins`: the pins of this cycle.
  */
-export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, pins: Float64Array, memo?: Float64Array): void {
+export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, pinsOfCycle: CyclePins, memo?: Float64Array): void {
+  const pins = pinsOfCycle.values;
   const ev = walk.evaluator;
   const d = walk.log.data;
   let riseAt = Number.NaN;
@@ -328,7 +353,7 @@ export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: n
   for (let k = 0; k < n && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); k++) {
     const i = cycle.startIndex + k;
     const b = i * LOG_STRIDE;
-    const pc = cyclePinConfigs[k];
+    const pc = pinsOfCycle.configs[k];
     const start = pins[2 * k] - levelV;
     const end = pins[2 * k + 1] - levelV;
     const startS = d[b + LOG_START];
@@ -369,11 +394,11 @@ const crossScratch = new Float64Array(2);
 /**
  * The 10–90 % transition durations of the cycle into out[0] (rise), out[1] (fall):
  * between the pin's crossings of the 10 % and 90 % reference levels (0 for an
- * instant edge). `pins`: cyclePins of this cycle. With `arrivals`, the walk times
+ * instant edge). `pins`: the pins of this cycle. With `arrivals`, the walk times
  * at which each edge ends go there too: the rise's 90 % crossing in [0], the fall's
  * 10 % crossing in [1].
  */
-export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array, pins: Float64Array, arrivals?: Float64Array): void {
+export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array, pins: CyclePins, arrivals?: Float64Array): void {
   pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.lower), crossScratch, pins);
   const rise10 = crossScratch[0];
   const fall10 = crossScratch[1];
@@ -450,7 +475,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
   sums.highPiece = sums.lowPiece = undefined;
   const meanHighV = pinHighS > 0 ? pinHighInt / pinHighS : Number.NaN;
   const meanLowV = pinLowS > 0 ? pinLowInt / pinLowS : Number.NaN;
-  const pins = cyclePins(walk, cycle);
+  const pins = figurePins.of(walk, cycle);
   cycleLevels(walk, cycle, levelScratch, pins);
   const highV = Number.isNaN(levelScratch[0]) ? meanHighV : levelScratch[0];
   const lowV = Number.isNaN(levelScratch[1]) ? meanLowV : levelScratch[1];

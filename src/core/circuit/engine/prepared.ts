@@ -26,7 +26,7 @@ import { CLAMP, configKey, NetworkCoefficients, STAGE, type CompiledShape, type 
 import { diodeBits, timingNodeStrayF } from './configs.ts';
 import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
 import { CycleReplay } from './cycle-replay.ts';
-import { cycleLevels, cyclePins, pinCrossings, transitionDurations } from './figures.ts';
+import { cycleLevels, CyclePins, pinCrossings, transitionDurations } from './figures.ts';
 import { exponentialExit } from './root-solve.ts';
 import { OscillatorWalk, saturationHighV, saturationLowV, SteadyStart, type SteadyCycle } from './walker.ts';
 
@@ -207,7 +207,7 @@ export class PreparedModel {
       // The nominal's cycle replayed; a vector that leaves its piece sequence is walked below.
       const replayed = this.replay.run(walk, values, this.start);
       if (replayed) {
-        readTiming(walk, replayed, out, this.wantTransitions);
+        readTiming(walk, replayed, out, this.wantTransitions, this.replay.pins);
         return EVALUATION_STATUS.ok;
       }
     }
@@ -343,10 +343,14 @@ function fail(out: Float64Array, status: EvaluationStatus): EvaluationStatus {
   return status;
 }
 
-/** Period, duty, scope levels and (optionally) transitions of a walked cycle into out (OUTPUT_SLOT order). */
-export function readTiming(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array, withTransitions: boolean): void {
+const timingPins = new CyclePins();
+
+/**
+ * Period, duty, scope levels and (optionally) transitions of a walked cycle into out (OUTPUT_SLOT order);
+ * `pins`: the cycle's pins when the caller has them (the cycle replay records them as it logs).
+ */
+export function readTiming(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array, withTransitions: boolean, pins: CyclePins = timingPins.of(walk, cycle)): void {
   const periodS = cycle.periodS;
-  const pins = cyclePins(walk, cycle);
   cycleLevels(walk, cycle, levels, pins);
   const highV = levels[0];
   const lowV = levels[1];
