@@ -254,8 +254,7 @@ export function analyzeCapture(input: CaptureInput, options: CaptureAnalysisOpti
   if (output !== undefined) {
     // IEEE 181 histogram-mode state levels (../../scope/ieee181.ts), then the reference instants between them.
     const levels = stateLevelsInRange(output, outputRange!.minV, outputRange!.maxV, { channelName: 'output', pointer: '/output' });
-    const outputStepV = outputRange!.stepV;
-    const read = readOutput(output, clock, levels.highV, levels.lowV, options, outputStepV, sampleNoiseV(output, n, outputStepV));
+    const read = readOutput(output, clock, levels.highV, levels.lowV, options, outputRange!.stepV);
     const period = read.period;
     if (!(period.count >= 1)) {
       const t = read.transitions;

@@ -59,7 +59,8 @@ const STATE_END_MIN_SAMPLES = 8;
  * The output has left its state once a sample runs past the state's own fit,
  * towards the other state, by this share of the amplitude (our choice: a
  * ramp leaving the state is then 0.1 % of its way in) or by
- * DEPARTURE_NOISE_MULTIPLE noise σ / DEPARTURE_STEP_MULTIPLE ADC steps,
+ * DEPARTURE_NOISE_MULTIPLE times the state's scatter about that fit (its
+ * noise σ) / DEPARTURE_STEP_MULTIPLE ADC steps,
  * whichever is larger (noise alone then does not trip it; common practice).
  */
 const DEPARTURE_AMPLITUDE_SHARE = 1e-3;
@@ -107,11 +108,10 @@ function fitScatterV(values: Float64Array, clock: SampleClock, i0: number, i1: n
  * reads its mean, as the histogram mode does. Undefined when no state holds
  * enough samples.
  */
-function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions: readonly Transition[], amplitudeV: number, noiseV: number, stepV: number): { highV?: number; lowV?: number } {
+function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions: readonly Transition[], amplitudeV: number, stepV: number): { highV?: number; lowV?: number } {
   const n = Math.min(values.length, clockLength(clock));
   const highs: number[] = [];
   const lows: number[] = [];
-  const departureV = Math.max(DEPARTURE_AMPLITUDE_SHARE * Math.abs(amplitudeV), DEPARTURE_NOISE_MULTIPLE * noiseV, DEPARTURE_STEP_MULTIPLE * stepV);
   for (let k = 1; k < transitions.length; k++) {
     const arrive = transitions[k - 1];
     const leave = transitions[k];
@@ -128,6 +128,9 @@ function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions:
     if (!q || !Number.isFinite(q[0])) continue;
     // Towards the other state: a rising departure leaves the low state, a falling one the high state.
     const sign = leave.direction === 'rising' ? 1 : -1;
+    // The state's own scatter about its fit: its noise (and, noiseless, how well a quadratic follows it).
+    const scatterV = fitScatterV(values, clock, i0, i1, t0, q);
+    const departureV = Math.max(DEPARTURE_AMPLITUDE_SHARE * Math.abs(amplitudeV), DEPARTURE_NOISE_MULTIPLE * scatterV, DEPARTURE_STEP_MULTIPLE * stepV);
     const last = Math.min(n - 1, leave.index);
     let i = i1 + 1;
     for (; i <= last; i++) {
@@ -138,13 +141,15 @@ function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions:
     // The fit again, over samples ending at the last one still in the state: the level is then read half a
     // sample past the fit, not extrapolated over the clearance. As few samples as the scatter about the
     // first fit allows (LEVEL_RESOLUTION_SHARE): a quadratic bends away from a curved tail at its ends.
-    const scatterV = fitScatterV(values, clock, i0, i1, t0, q);
     const wanted = Math.ceil(END_VALUE_VARIANCE_FACTOR * (scatterV / (LEVEL_RESOLUTION_SHARE * Math.abs(amplitudeV))) ** 2);
     const width = Math.min(i1 - i0 + 1, Math.max(STATE_END_MIN_SAMPLES, wanted));
     // The samples just before the one that tripped the test may already be on their way (a ramp's first
-    // millivolts, rounded by the pin's RC): step back while a sample runs past the fit over the first
-    // window's length of samples before it by more than the state's scatter.
-    const j1 = lastSampleInState(values, clock, i1, i - 1, i1 - i0 + 1, iFirst, sign, SCATTER_MULTIPLE * scatterV + 1e-12 * Math.abs(amplitudeV));
+    // millivolts, rounded by the pin's RC): step back while a sample runs past the fit over the samples
+    // before it by more than the state's scatter.
+    // The sliding window stays several times longer than the stretch it may step back over (the departure
+    // lies past i1), so a departing stretch cannot bend it; no longer than the first window.
+    const slideWidth = Math.min(i1 - i0 + 1, Math.max(4 * STATE_END_MIN_SAMPLES, 4 * (i - i1)));
+    const j1 = lastSampleInState(values, clock, i1, i - 1, slideWidth, iFirst, sign, SCATTER_MULTIPLE * scatterV + 1e-12 * Math.abs(amplitudeV));
     const j0 = Math.max(iFirst, j1 + 1 - width);
     const tEnd = timeAt(clock, j1);
     const refit = j1 > i1 && j1 - j0 + 1 >= STATE_END_MIN_SAMPLES ? quadraticFit(values, clock, j0, j1, tEnd) : undefined;
@@ -169,14 +174,14 @@ function endOfStateLevels(values: Float64Array, clock: SampleClock, transitions:
  * the end-of-state levels (endOfStateLevels) replace them, and the
  * transitions are found again between those; then per cycle the period
  * (like-direction 50 % instants), the duty cycle (rising to falling 50 %
- * instant over the cycle) and the 10–90 % durations. `stepV`, `noiseV`: the
- * channel's ADC step and sample noise (sampleNoiseV), for the departure test.
+ * instant over the cycle) and the 10–90 % durations. `stepV`: the channel's
+ * ADC step (0 when unquantised), for the departure test.
  */
-export function readOutput(values: Float64Array, clock: SampleClock, modeHighV: number, modeLowV: number, crossing: CrossingOptions = {}, stepV = 0, noiseV = 0): OutputReadings {
+export function readOutput(values: Float64Array, clock: SampleClock, modeHighV: number, modeLowV: number, crossing: CrossingOptions = {}, stepV = 0): OutputReadings {
   let highV = modeHighV;
   let lowV = modeLowV;
   let transitions = findTransitions(values, clock, { lowV, amplitudeV: highV - lowV }, crossing);
-  const ends = endOfStateLevels(values, clock, transitions, highV - lowV, noiseV, stepV);
+  const ends = endOfStateLevels(values, clock, transitions, highV - lowV, stepV);
   // Only a refinement: levels that would not keep the two states apart leave the modes in place.
   if (ends.highV !== undefined && ends.lowV !== undefined && ends.highV - ends.lowV > 0.5 * (modeHighV - modeLowV)) {
     highV = ends.highV;
@@ -223,33 +228,43 @@ function lastSampleInState(values: Float64Array, clock: SampleClock, stop: numbe
   if (!(scaleS > 0)) return from;
   const yRef = values[from];
   let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, y0 = 0, y1 = 0, y2 = 0;
-  const add = (k: number, w: number) => {
+  let j = from;
+  if (j - width < first) return j;
+  for (let k = j - width; k < j; k++) {
     const u = (timeAt(clock, k) - tRef) / scaleS;
     const u2 = u * u;
     const y = values[k] - yRef;
-    s0 += w;
-    s1 += w * u;
-    s2 += w * u2;
-    s3 += w * u2 * u;
-    s4 += w * u2 * u2;
-    y0 += w * y;
-    y1 += w * y * u;
-    y2 += w * y * u2;
-  };
-  let j = from;
-  if (j - width < first) return j;
-  for (let k = j - width; k < j; k++) add(k, 1);
+    s0 += 1;
+    s1 += u;
+    s2 += u2;
+    s3 += u2 * u;
+    s4 += u2 * u2;
+    y0 += y;
+    y1 += y * u;
+    y2 += y * u2;
+  }
   while (j > stop && j - width - 1 >= first) {
     const det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
     if (!(Math.abs(det) > 0)) break;
     const c0 = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
     const c1 = (s0 * (y1 * s4 - y2 * s3) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
     const c2 = (s0 * (s2 * y2 - s3 * y1) - s1 * (s1 * y2 - s2 * y1) + y0 * (s1 * s3 - s2 * s2)) / det;
-    const u = (timeAt(clock, j) - tRef) / scaleS;
-    if (!(sign * (values[j] - yRef - (c0 + u * (c1 + u * c2))) > toleranceV)) break;
+    const uj = (timeAt(clock, j) - tRef) / scaleS;
+    if (!(sign * (values[j] - yRef - (c0 + uj * (c1 + uj * c2))) > toleranceV)) break;
     // Slide the window one sample back: sample j − 1 leaves it, j − width − 1 joins.
-    add(j - 1, -1);
-    add(j - width - 1, 1);
+    const uOut = (timeAt(clock, j - 1) - tRef) / scaleS;
+    const yOut = values[j - 1] - yRef;
+    const uIn = (timeAt(clock, j - width - 1) - tRef) / scaleS;
+    const yIn = values[j - width - 1] - yRef;
+    const o2 = uOut * uOut;
+    const i2 = uIn * uIn;
+    s1 += uIn - uOut;
+    s2 += i2 - o2;
+    s3 += i2 * uIn - o2 * uOut;
+    s4 += i2 * i2 - o2 * o2;
+    y0 += yIn - yOut;
+    y1 += yIn * uIn - yOut * uOut;
+    y2 += yIn * i2 - yOut * o2;
     j--;
   }
   return j;
