@@ -12,7 +12,10 @@
  * - 10 %–90 % transition durations (§5.3.2).
  * The engine computes its figures exactly from the pieces (docs/model.md §5);
  * the reference reads samples, so agreement is to the histogram bin width and
- * the sample interval (the bounds below, stated beside each check).
+ * the sample interval (the bounds below, stated beside each check). On a
+ * tilted top a bin of level uncertainty moves a 10 %/90 % crossing by a bin
+ * over the slope it is passed at, which the transition bounds add; the capture
+ * analysis and the engine, one definition, are held to the samples alone.
  * The fit reads the same definitions (src/core/scope/ieee181.ts): the capture
  * analysis on the same samples and the fit's forward model on the exact cycle
  * are held to the same reference, and the forward model to the engine exactly.
@@ -65,6 +68,21 @@ interface Scope {
   fallTimeS: number;
 }
 
+/**
+ * Slowest slope, V/s, at which y passes the 10 % and 90 % reference levels: a level known to a bin moves
+ * its crossing by up to a bin over that slope (a crossing on a tilted top moves far).
+ */
+function slowestReferenceSlope(t: ArrayLike<number>, y: ArrayLike<number>, lowV: number, highV: number): number {
+  let slowest = Infinity;
+  for (const f of [0.1, 0.9]) {
+    const level = lowV + f * (highV - lowV);
+    for (let i = 1; i < y.length; i++) {
+      if ((y[i - 1] - level) * (y[i] - level) < 0) slowest = Math.min(slowest, Math.abs(y[i] - y[i - 1]) / (t[i] - t[i - 1]));
+    }
+  }
+  return slowest;
+}
+
 function scopeFigures(t: ArrayLike<number>, y: ArrayLike<number>, bins: number): Scope {
   const { lowV, highV, binWidthV } = histogramStateLevels(y, bins);
   const at = (f: number) => lowV + f * (highV - lowV);
@@ -101,6 +119,14 @@ const cases: Record<string, Circuit> = {
     amplifier: amp({ slewRateVPerS: 5e6, outputResistanceOhm: 150, outputHeadroomHighV: 0.1, outputHeadroomLowV: 0.05 }),
     parts: { rTiming: 4.7e3, cTiming: 22e-9, rTop: 100e3, rBottom: 100e3, rFeedback: 100e3 },
   },
+  // Open drain without strays: the released pin jumps part of the way and creeps up a top the timing
+  // network tilts; its state level is the end of the tilt (the mode's limit, docs/model.md §5, tilted tops).
+  'open drain, tilted top': {
+    topology: 'open-drain-pullup',
+    supply: { positiveV: 5, negativeV: 0 },
+    amplifier: amp({ outputStage: 'open-drain', slewRateVPerS: 10e6, outputResistanceOhm: 40 }),
+    parts: { rPullup: 4.7e3, rTiming: 8.2e3, cTiming: 10e-9, rTop: 100e3, rBottom: 100e3, rFeedback: 82e3 },
+  },
   'fast edges': {
     topology: 'three-resistor-divider',
     supply: { positiveV: 3.3, negativeV: 0 },
@@ -125,9 +151,11 @@ describe('output levels, duty and transitions as IEEE Std 181-2011 reads them of
       // Period and duty from the 50 % crossings: within the level uncertainty (a bin) moving the crossing, plus a sample.
       expect(Math.abs(scope.periodS / figures.periodS - 1)).toBeLessThan(1e-4);
       expect(Math.abs(figures.dutyCycle - scope.dutyCycle)).toBeLessThan(2e-3);
-      // 10–90 % transition durations: to a few samples (linear interpolation across a curved edge).
-      expect(Math.abs(figures.transitions.riseTimeS - scope.riseTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.riseTimeS);
-      expect(Math.abs(figures.transitions.fallTimeS - scope.fallTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.fallTimeS);
+      // 10–90 % transition durations: to a few samples (linear interpolation across a curved edge), plus what
+      // a bin of level uncertainty moves a crossing on the slowest slope it is passed at (a tilted top).
+      const levelShiftS = scope.binWidthV / slowestReferenceSlope(samples.timeS, samples.outputV, scope.lowV, scope.highV);
+      expect(Math.abs(figures.transitions.riseTimeS - scope.riseTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.riseTimeS + levelShiftS);
+      expect(Math.abs(figures.transitions.fallTimeS - scope.fallTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.fallTimeS + levelShiftS);
       // The time-means say so in their names and differ from the levels once delay and slew take time.
       expect(figures.output.meanHighV).toBeLessThanOrEqual(figures.output.highV + 1e-12);
       // The fit path: the capture analysis of the same record against the same reference, ...
@@ -136,8 +164,11 @@ describe('output levels, duty and transitions as IEEE Std 181-2011 reads them of
       expect(Math.abs(capture.outputLowV! - scope.lowV)).toBeLessThanOrEqual(scope.binWidthV);
       expect(Math.abs(capture.periodS / scope.periodS - 1)).toBeLessThan(1e-4);
       expect(Math.abs(capture.dutyCycle! - scope.dutyCycle)).toBeLessThan(2e-3);
-      expect(Math.abs(capture.riseTimeS! - scope.riseTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.riseTimeS);
-      expect(Math.abs(capture.fallTimeS! - scope.fallTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.fallTimeS);
+      expect(Math.abs(capture.riseTimeS! - scope.riseTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.riseTimeS + levelShiftS);
+      expect(Math.abs(capture.fallTimeS! - scope.fallTimeS)).toBeLessThan(4 * dtS + 0.02 * scope.fallTimeS + levelShiftS);
+      // The capture and the engine, on the same samples, hold each other to the samples alone (one definition).
+      expect(Math.abs(capture.riseTimeS! - figures.transitions.riseTimeS)).toBeLessThan(4 * dtS);
+      expect(Math.abs(capture.fallTimeS! - figures.transitions.fallTimeS)).toBeLessThan(4 * dtS);
       // ... and the fit's forward model reads the engine's own figures (one definition: equal to rounding).
       const predicted = predictFigures(circuit);
       expect(predicted.outputHighV).toBeCloseTo(figures.output.highV, 12);
