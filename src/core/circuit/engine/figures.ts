@@ -242,43 +242,68 @@ export function pinVoltage(cfg: ConfigModel, v: number, s: number): number {
 }
 
 /**
- * The pin at the start and at the end of every piece of one cycle ([2k] and [2k + 1], k counted from the
- * cycle's first piece) and each piece's configuration. The levels and every crossing search of a cycle
- * read their pin values here, so each piece's pin is solved once, not once per search. Reusable.
+ * The pin at the start and at the end of every piece of one cycle (k counted from the cycle's first
+ * piece) and each piece's configuration. The levels and every crossing search of a cycle read their pin
+ * values here, so each piece's pin is solved once, not once per search, and only when first read (a
+ * multi-state piece's pin is a modal evaluation). Reusable.
  */
 export class CyclePins {
-  values = new Float64Array(32);
+  private values = new Float64Array(32);
+  private solved = new Uint8Array(16);
   readonly configs: ConfigModel[] = [];
+  private walk: OscillatorWalk | undefined;
+  private firstIndex = 0;
 
-  /** Room for n pieces (the values may be reallocated: re-read them after the call). */
+  /** Room for n pieces, none solved yet. */
   reserve(n: number): void {
-    if (this.values.length < 2 * n) this.values = new Float64Array(4 * n);
+    if (this.solved.length < n) {
+      this.values = new Float64Array(4 * n);
+      this.solved = new Uint8Array(2 * n);
+    }
+    this.solved.fill(0, 0, n);
   }
 
-  /** Solved off the walk's log of the cycle. */
+  /** The pins of the walk's cycle, solved off its log as they are read. */
   of(walk: OscillatorWalk, cycle: SteadyCycle): this {
     const n = cycle.endIndex - cycle.startIndex;
     this.reserve(n);
-    const pins = this.values;
+    this.walk = walk;
+    this.firstIndex = cycle.startIndex;
     const d = walk.log.data;
-    for (let k = 0; k < n; k++) {
-      const b = (cycle.startIndex + k) * LOG_STRIDE;
-      const cfg = walk.cache.get(d[b + LOG_KEY]);
-      this.configs[k] = cfg;
-      pins[2 * k] = pinAtStart(cfg, d, b);
-      pins[2 * k + 1] = pinAtEnd(cfg, d, b);
-    }
+    for (let k = 0; k < n; k++) this.configs[k] = walk.cache.get(d[(cycle.startIndex + k) * LOG_STRIDE + LOG_KEY]);
     return this;
   }
 
   /**
    * Piece k of a one-capacitor configuration from the state at its ends (what pinAtStart/pinAtEnd read
-   * off its log record): for a caller that has the numbers at hand as it logs the piece.
+   * off its log record): for a caller that has the numbers at hand as it logs the piece (after reserve).
    */
   setPiece(k: number, cfg: ConfigModel, v0: number, s0: number, vEnd: number, sEnd: number): void {
     this.configs[k] = cfg;
     this.values[2 * k] = pinVoltage(cfg, v0, s0);
     this.values[2 * k + 1] = pinVoltage(cfg, vEnd, sEnd);
+    this.solved[k] = 1;
+  }
+
+  /** The pin at the start of piece k, V. */
+  start(k: number): number {
+    if (this.solved[k] === 0) this.solve(k);
+    return this.values[2 * k];
+  }
+
+  /** The pin at the end of piece k, V. */
+  end(k: number): number {
+    if (this.solved[k] === 0) this.solve(k);
+    return this.values[2 * k + 1];
+  }
+
+  private solve(k: number): void {
+    const d = this.walk!.log.data;
+    const b = (this.firstIndex + k) * LOG_STRIDE;
+    const cfg = this.configs[k];
+    this.values[2 * k] = pinAtStart(cfg, d, b);
+    this.values[2 * k + 1] = pinAtEnd(cfg, d, b);
+    this.solved[k] = 1;
   }
 }
 const figurePins = new CyclePins();
@@ -290,7 +315,6 @@ const figurePins = new CyclePins();
  * `pins`: the pins of this cycle.
  */
 export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float64Array, pins: CyclePins): void {
-  const values = pins.values;
   const d = walk.log.data;
   out[0] = out[1] = Number.NaN;
   const n = cycle.endIndex - cycle.startIndex;
@@ -299,7 +323,7 @@ export function cycleLevels(walk: OscillatorWalk, cycle: SteadyCycle, out: Float
     const next = cycle.startIndex + ((k + 1) % n);
     const target = d[i * LOG_STRIDE + LOG_TARGET];
     if (target === d[next * LOG_STRIDE + LOG_TARGET]) continue;
-    out[target ? 0 : 1] = values[2 * k + 1];
+    out[target ? 0 : 1] = pins.end(k);
   }
 }
 
@@ -342,20 +366,19 @@ function pinAtStart(cfg: ConfigModel, d: Float64Array, b: number): number {
  * A jump of the pin between pieces (instant edge) crosses at the boundary.
  * `pins`: the pins of this cycle.
  */
-export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, pinsOfCycle: CyclePins, memo?: Float64Array): void {
-  const pins = pinsOfCycle.values;
+export function pinCrossings(walk: OscillatorWalk, cycle: SteadyCycle, levelV: number, out: Float64Array, pins: CyclePins, memo?: Float64Array): void {
   const ev = walk.evaluator;
   const d = walk.log.data;
   let riseAt = Number.NaN;
   let fallAt = Number.NaN;
   const n = cycle.endIndex - cycle.startIndex;
-  let prevEnd = pins[2 * n - 1] - levelV;
+  let prevEnd = pins.end(n - 1) - levelV;
   for (let k = 0; k < n && (Number.isNaN(riseAt) || Number.isNaN(fallAt)); k++) {
     const i = cycle.startIndex + k;
     const b = i * LOG_STRIDE;
-    const pc = pinsOfCycle.configs[k];
-    const start = pins[2 * k] - levelV;
-    const end = pins[2 * k + 1] - levelV;
+    const pc = pins.configs[k];
+    const start = pins.start(k) - levelV;
+    const end = pins.end(k) - levelV;
     const startS = d[b + LOG_START];
     if (prevEnd < 0 && start >= 0 && Number.isNaN(riseAt)) riseAt = startS;
     else if (prevEnd >= 0 && start < 0 && Number.isNaN(fallAt)) fallAt = startS;
