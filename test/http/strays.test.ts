@@ -1,4 +1,4 @@
-/** Strays and leakage over HTTP: analyze and tolerance see them; what the model does not solve is a 422 naming the field. */
+/** Strays and leakage over HTTP: analyze, waveform, tolerance and BOM checks see them; out-of-range values are a 400 naming the field. */
 import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { expectContract } from '../helpers/contract.ts';
@@ -192,5 +192,55 @@ describe('capacitance at P and at the output pin reaches every answer (the same 
     const stray = heavy.rules.find((r: { code: string }) => r.code === 'stray-capacitance-significant');
     expect(stray.figures).toMatchObject({ thresholdNodeCapacitanceF: 22e-9, maximumFrequencyShift: 0.02 });
     expect(Math.abs(stray.figures.frequencyShift)).toBeGreaterThan(0.02);
+  });
+});
+
+describe('capacitance at P and at the pin beside a class II C(V) timing capacitor (no 422: the C(V) multi-state pieces)', () => {
+  // Our own scenario: the lab timebase built with a small-case X7R part, behind a long output trace.
+  const x7r = { value: '10n', dielectric: 'X7R', ratedVoltageV: 6.3, caseSize: '0402' };
+  const trace = { ...timebase, amplifier: { outputResistanceOhm: 200 }, parts: { ...timebase.parts, cTiming: x7r }, strays: { thresholdNodeF: 470e-12, outputNodeF: 1e-9 } };
+
+  it('analyze, waveform and tolerance answer with one period; the strays move it from the C(V) circuit without them', async () => {
+    const analyzed = await post('/v1/analyze', trace);
+    expect(analyzed.statusCode).toBe(200);
+    const body = analyzed.json();
+    const bare = (await post('/v1/analyze', { ...trace, strays: undefined })).json();
+    expect(body.periodS).toBeGreaterThan(bare.periodS * (1 + 1e-6));
+    // The capacitor still reports its curve and the effective capacitance over the swing.
+    expect(body.capacitor.effectiveCapacitanceF).toBeLessThan(10e-9);
+    const wave = (await post('/v1/waveform', { circuit: trace, periods: 1, samples: 501 })).json();
+    expect(Math.abs(wave.periodS / body.periodS - 1)).toBeLessThan(1e-12);
+    const tol = (await post('/v1/tolerance', { circuit: trace, tolerances: { rTiming: 0.01 } })).json();
+    expect(Math.abs(tol.nominal.frequencyHz / body.frequencyHz - 1)).toBeLessThan(1e-9);
+    for (const role of ['thresholdNodeF', 'outputNodeF']) expect(tol.sensitivities.find((x: { role: string }) => x.role === role)).toMatchObject({ kind: 'stray' });
+  });
+
+  it('an amplifier input capacitance beside the C(V) capacitor is answered too', async () => {
+    const res = await post('/v1/analyze', { ...trace, amplifier: { outputResistanceOhm: 200, inputCapacitanceF: 5e-12 }, strays: undefined });
+    expect(res.statusCode).toBe(200);
+  });
+
+  it('BOM checks: an X7R line with strays at P and at the pin is analysed with both', async () => {
+    const assembly = {
+      id: 'x7r-long-trace',
+      lines: [
+        { refdes: 'R1', value: '47K 1% 0603' },
+        { refdes: 'C1', value: '10n 6.3V X7R 10% 0402' },
+        { refdes: 'R2', value: '10K 1% 0603' },
+        { refdes: 'R3', value: '20K 1% 0603' },
+      ],
+      roles: { rTiming: 'R1', cTiming: 'C1', rGround: 'R2', rFeedback: 'R3' },
+      topology: 'two-resistor-feedback',
+      amplifier: { outputResistanceOhm: 200 },
+      supply: { positiveV: 10, negativeV: -10 },
+      spec: { frequencyHz: 1000, frequencyTolerance: 0.5 },
+      strays: { thresholdNodeF: 470e-12, outputNodeF: 1e-9 },
+    };
+    const res = await post('/v1/bom-checks', { assemblies: [assembly, { ...assembly, id: 'x7r-no-trace', strays: undefined }] });
+    expect(res.statusCode).toBe(200);
+    const [loaded, bare] = res.json().results;
+    const nominalHz = (r: { rules: { code: string; figures: Record<string, number> }[] }) =>
+      r.rules.find((x) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec')!.figures.nominalFrequencyHz;
+    expect(nominalHz(loaded)).toBeLessThan(nominalHz(bare) * (1 - 1e-6));
   });
 });

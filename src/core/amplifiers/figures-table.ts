@@ -255,7 +255,7 @@ export const AMPLIFIER_FIGURE_TABLE = {
     kind: 'number',
     unit: 'F',
     description:
-      'Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it gives the threshold node an RC of its own (a state of the pieces, solved exactly; beside a class II/III C(V) timing capacitor refused as not-modelled). The archetypes leave it at 0',
+      'Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it gives the threshold node an RC of its own (a state of the pieces, solved exactly; beside a class II/III C(V) timing capacitor by collocation, to the accuracy of the model). The archetypes leave it at 0',
     min: 0,
     max: 1e-9,
     ideal: 0,

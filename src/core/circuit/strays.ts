@@ -12,8 +12,8 @@
  *   capacitance) and at the output pin: each makes its node a state of the
  *   piece beside N (an RC of its own, e.g. the open-drain rise through the
  *   pull-up), solved exactly by the multi-state form of the walk
- *   (engine/modal.ts). Beside a C(V) timing capacitor these are refused with
- *   'not-modelled' naming the field rather than answered approximately.
+ *   (engine/modal.ts; beside a C(V) timing capacitor the collocation pieces of
+ *   engine/modal-curved.ts).
  */
 import { CoreError } from '../errors.ts';
 import { FLAT_SHAPE, type BiasShape } from '../parts/capacitor/index.ts';
@@ -69,7 +69,7 @@ function inputCapacitanceOf(circuit: Circuit): number {
   return c > 0 ? c : 0;
 }
 
-/** Ranges, then what the model does not cover yet (422 'not-modelled', naming the field). */
+/** The ranges (invalid-value naming the field). Every combination in range is modelled. */
 export function validateStrays(circuit: Circuit): void {
   const strays = circuit.strays;
   if (strays) {
@@ -85,14 +85,6 @@ export function validateStrays(circuit: Circuit): void {
         throw new CoreError('invalid-value', `strays.${field} must be between ${LEAKAGE_RANGE_OHM.min} Ω and ${LEAKAGE_RANGE_OHM.max} Ω, or absent (no leakage)`, `/strays/${field}`);
       }
     }
-  }
-  // A capacitance at P or at the pin makes the pieces multi-state (engine/modal.ts), solved for linear
-  // capacitors; the C(V) piece kinds are one-state: the combination is refused, not approximated.
-  const shape = circuit.capacitorShape;
-  if (shape && shape.kind !== 'flat') {
-    if ((strays?.thresholdNodeF ?? 0) > 0) throw notModelled('/strays/thresholdNodeF', 'a capacitance at the threshold node P beside a C(V) timing capacitor');
-    if ((strays?.outputNodeF ?? 0) > 0) throw notModelled('/strays/outputNodeF', 'a capacitance at the output pin beside a C(V) timing capacitor');
-    if (inputCapacitanceOf(circuit) > 0) throw notModelled('/amplifier/inputCapacitanceF', 'the input capacitance at the non-inverting input P beside a C(V) timing capacitor');
   }
 }
 
@@ -129,14 +121,6 @@ export class StrayLoadedShape implements BiasShape {
   charge(voltageV: number): number {
     return this.strayFraction * voltageV + (1 - this.strayFraction) * this.inner.charge(voltageV);
   }
-}
-
-function notModelled(pointer: string, what: string): CoreError {
-  return new CoreError(
-    'not-modelled',
-    `${what[0].toUpperCase()}${what.slice(1)} adds a state to the network (an RC of its own) that the non-linear C(V) pieces do not solve yet; give it as 0, or the capacitor as a linear part (with a linear timing capacitor the model solves it exactly)`,
-    pointer,
-  );
 }
 
 /** The frequency with the capacitance at P and at the pin, and without it (the same model, the same circuit otherwise). */

@@ -120,11 +120,11 @@ export const Strays = Type.Object(
     ),
     thresholdNodeF: strayF(
       'at the threshold node P (non-inverting input)',
-      "Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces; check stray-capacitance-significant when it and outputNodeF move the frequency by more than 2 %); beside a class II/III C(V) capacitor: 422 not-modelled",
+      "Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces, beside a class II/III C(V) capacitor too; check stray-capacitance-significant when it and outputNodeF move the frequency by more than 2 %)",
     ),
     outputNodeF: strayF(
       'at the output pin',
-      'Makes the pin an RC of its own: an open-drain rise charges it through the pull-up, a driven pin through the output resistance (solved exactly); beside a class II/III C(V) capacitor: 422 not-modelled',
+      'Makes the pin an RC of its own: an open-drain rise charges it through the pull-up, a driven pin through the output resistance (solved exactly, beside a class II/III C(V) capacitor too)',
     ),
     timingLeakageOhm: leakageOhm('across the timing capacitor (N)'),
     thresholdLeakageOhm: leakageOhm('at the threshold node P'),

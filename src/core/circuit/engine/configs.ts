@@ -137,6 +137,9 @@ export class ConfigCache {
       while (this.dynPool.length <= this.used) this.dynPool.push(new DynamicModel());
       const dyn = this.dynPool[this.used];
       if (!this.shape.dynamicConfig(key).solveDynamic(this.values, this.stateCapF, this.biasA, this.limitA, this.offsetV, dyn)) return undefined;
+      // Beside a C(v) capacitor the node's curve makes the pieces the C(v) multi-state kind (modal-curved.ts).
+      dyn.curve = this.biasShape;
+      dyn.scaleV = this.spanV;
       m.dyn = dyn;
     } else {
       m.dyn = undefined;

@@ -23,8 +23,10 @@
  * this decomposition (λ = a), which kinematics.ts and root-solve.ts solve in
  * closed form (the compiled fast path); the convergence of the two is tested.
  */
+import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
 import { Kinematics } from './kinematics.ts';
 import { solveBracket, type BracketProbe } from './root-solve.ts';
+import { acquireCurvedPiece, releaseCurvedPiece, type CurvedModalPiece, type CurvedRow } from './modal-curved.ts';
 
 /** State slots of the capacitive nodes. */
 export const SLOT = { N: 0, P: 1, O: 2 } as const;
@@ -43,6 +45,14 @@ export const QUANTITY = { p: 0, o: 1, h: 2, i: 3, rail: 4, diode0: 5, event0: 7 
 const MAX_EVENT_ROWS = 8;
 export const QUANTITY_COUNT = QUANTITY.event0 + MAX_EVENT_ROWS;
 
+let generations = 0;
+// decompose()'s scratch (small, fixed: the walk's hot path allocates nothing).
+const DECOMPOSE_SLOTS = new Int8Array(MAX_STATES);
+const DECOMPOSE_A = new Float64Array(MAX_STATES * MAX_STATES);
+const DECOMPOSE_D = new Float64Array(MAX_STATES);
+const DECOMPOSE_U = new Float64Array(MAX_STATES * MAX_STATES);
+const DECOMPOSE_LAMBDA = new Float64Array(MAX_STATES);
+
 /** One configuration's dynamic model: the state equations, their modes and the affine rows. */
 export class DynamicModel {
   /** Which slots are states in this configuration (N always; O not while a stiff output drives the pin). */
@@ -51,8 +61,17 @@ export class DynamicModel {
   oPinned = false;
   /** The pin's capacitance while pinned, F: the source charges it directly (Co·ds/dt, not in any branch). */
   pinnedCapF = 0;
-  /** Capacitance per slot, F. */
+  /** Capacitance per slot, F (at N: at 0 V, the whole node's C(v) being capF[N]·curve.ratio(v)). */
   readonly capF = new Float64Array(MAX_STATES);
+  /**
+   * C(v)/C(0) of the timing node (FLAT_SHAPE: a linear capacitor). Not flat: the pieces are the
+   * multi-state C(v) pieces of modal-curved.ts; the modes below are then those at 0 V.
+   */
+  curve: BiasShape = FLAT_SHAPE;
+  /** Changes with every decomposition: (object, generation) names the equations exactly. */
+  generation = 0;
+  /** The voltage scale of the circuit (its supply span), V: the C(v) pieces' tolerances. */
+  scaleV = 1;
   /** Current into each slot's capacitor: q0 + Σ Q[k][j]·x_j + qS·s (G = −Q), A. */
   readonly q0 = new Float64Array(MAX_STATES);
   readonly qS = new Float64Array(MAX_STATES);
@@ -77,12 +96,13 @@ export class DynamicModel {
    * capacitance is not positive and finite (then the configuration cannot be solved).
    */
   decompose(): boolean {
-    const slots: number[] = [];
-    for (let k = 0; k < MAX_STATES; k++) if (this.active[k]) slots.push(k);
-    const n = slots.length;
+    this.generation = ++generations;
+    const slots = DECOMPOSE_SLOTS;
+    let n = 0;
+    for (let k = 0; k < MAX_STATES; k++) if (this.active[k]) slots[n++] = k;
     this.modeCount = n;
-    const A = new Float64Array(n * n);
-    const d = new Float64Array(n);
+    const A = DECOMPOSE_A;
+    const d = DECOMPOSE_D;
     for (let a = 0; a < n; a++) {
       const c = this.capF[slots[a]];
       if (!(c > 0) || c === Infinity) return false;
@@ -92,12 +112,13 @@ export class DynamicModel {
       for (let b = 0; b < n; b++) {
         // G = −Q is symmetric for a reciprocal network; average the two rounding-level different halves.
         const g = -0.5 * (this.Q[slots[a] * MAX_STATES + slots[b]] + this.Q[slots[b] * MAX_STATES + slots[a]]);
-        A[a * n + b] = d[a] * g * d[b];
+        const e = d[a] * g * d[b];
+        if (!Number.isFinite(e)) return false;
+        A[a * n + b] = e;
       }
     }
-    if (!A.every(Number.isFinite)) return false;
-    const U = new Float64Array(n * n);
-    const lam = new Float64Array(n);
+    const U = DECOMPOSE_U;
+    const lam = DECOMPOSE_LAMBDA;
     jacobiEigen(A, n, lam, U);
     this.T.fill(0);
     this.Ti.fill(0);
@@ -119,6 +140,18 @@ export class DynamicModel {
     return true;
   }
 
+  /** Copy another configuration's state equations (not its rows), to decompose them with other capacitances. */
+  copyEquations(from: DynamicModel): void {
+    this.active.set(from.active);
+    this.oPinned = from.oPinned;
+    this.pinnedCapF = from.pinnedCapF;
+    this.capF.set(from.capF);
+    this.q0.set(from.q0);
+    this.qS.set(from.qS);
+    this.Q.set(from.Q);
+    this.curve = from.curve;
+  }
+
   /** d/dt of a row's quantity at a state (the ODE itself), for a piece whose source moves at `rate`. */
   rowRate(row: ArrayLike<number>, x: ArrayLike<number>, s: number, rate: number): number {
     let g = row[R_S] * rate;
@@ -126,7 +159,7 @@ export class DynamicModel {
       if (!this.active[k] || row[R_X + k] === 0) continue;
       let i = this.q0[k] + this.qS[k] * s;
       for (let j = 0; j < MAX_STATES; j++) if (this.active[j]) i += this.Q[k * MAX_STATES + j] * x[j];
-      g += (row[R_X + k] * i) / this.capF[k];
+      g += (row[R_X + k] * i) / (k === SLOT.N ? this.capF[k] * this.curve.ratio(x[k]) : this.capF[k]);
     }
     if (this.oPinned) g += row[R_X + SLOT.O] * rate;
     return g;
@@ -281,10 +314,25 @@ export class ModalKinematics implements BracketProbe {
   /** Direction of each zero zerosBetween found (+1 rising through zero, −1 falling). */
   private readonly zeroDir: number[] = [];
 
+  /**
+   * A piece beside a C(v) timing capacitor (dyn.curve not flat): the collocation piece of
+   * modal-curved.ts answers every method below; undefined for the closed form.
+   */
+  private curved: CurvedModalPiece | undefined;
+  private readonly curvedRow: CurvedRow = { c: 0, s: 0, w: new Float64Array(MAX_STATES) };
+
   set(dyn: DynamicModel, x: ArrayLike<number>, s0: number, r: number): void {
     this.dyn = dyn;
     this.s0 = s0;
     this.r = r;
+    if (this.curved) {
+      releaseCurvedPiece(this.curved);
+      this.curved = undefined;
+    }
+    if (dyn.curve.kind !== 'flat') {
+      this.curved = acquireCurvedPiece(dyn, x, s0, r);
+      return;
+    }
     for (let i = 0; i < dyn.modeCount; i++) {
       let z0 = 0;
       for (let k = 0; k < MAX_STATES; k++) if (dyn.active[k]) z0 += dyn.Ti[i * MAX_STATES + k] * x[k];
@@ -298,6 +346,10 @@ export class ModalKinematics implements BracketProbe {
 
   /** The node voltages of the state slots at t into out (x_O = s while the stiff output holds the pin). */
   state(t: number, out: Float64Array | number[]): void {
+    if (this.curved) {
+      this.curved.state(t, out);
+      return;
+    }
     const dyn = this.dyn;
     const n = dyn.modeCount;
     for (let k = 0; k < MAX_STATES; k++) {
@@ -313,6 +365,7 @@ export class ModalKinematics implements BracketProbe {
 
   /** ∫₀ᵗ x_slot dt. */
   integralState(slot: number, t: number): number {
+    if (this.curved) return this.curved.integralState(slot, t);
     const dyn = this.dyn;
     if (!dyn.active[slot]) return slot === SLOT.O && dyn.oPinned ? this.s0 * t + 0.5 * this.r * t * t : 0;
     let x = 0;
@@ -325,6 +378,13 @@ export class ModalKinematics implements BracketProbe {
     const dyn = this.dyn;
     this.rowC = scale * row[R_C] + offset;
     this.rowS = scale * (row[R_S] + (dyn.oPinned ? row[R_X + SLOT.O] : 0));
+    if (this.curved) {
+      const target = this.curvedRow;
+      target.c = this.rowC;
+      target.s = this.rowS;
+      for (let k = 0; k < MAX_STATES; k++) target.w[k] = dyn.active[k] ? scale * row[R_X + k] : 0;
+      return this;
+    }
     for (let i = 0; i < dyn.modeCount; i++) {
       let w = 0;
       for (let k = 0; k < MAX_STATES; k++) if (dyn.active[k]) w += row[R_X + k] * dyn.T[k * MAX_STATES + i];
@@ -361,6 +421,7 @@ export class ModalKinematics implements BracketProbe {
   }
 
   at(t: number): number {
+    if (this.curved) return this.curved.rowAt(this.curvedRow, t);
     this.order = 0;
     this.eval(t);
     return this.value;
@@ -368,6 +429,7 @@ export class ModalKinematics implements BracketProbe {
 
   /** ∫₀ᵗ of the targeted row. */
   integral(t: number): number {
+    if (this.curved) return this.curved.rowIntegral(this.curvedRow, t);
     let g = this.rowC * t + this.rowS * (this.s0 * t + 0.5 * this.r * t * t);
     for (let i = 0; i < this.dyn.modeCount; i++) if (this.w[i] !== 0) g += this.w[i] * this.modes[i].integralV(t);
     return g;
@@ -504,6 +566,7 @@ export class ModalKinematics implements BracketProbe {
    * as root-solve.ts firstExit.
    */
   firstExit(T: number, tolerance: number): number {
+    if (this.curved) return this.curved.rowExit(this.curvedRow, T, tolerance);
     const g0 = this.at(0);
     if (g0 < -tolerance) return 0;
     const crit = this.crit;
@@ -535,6 +598,7 @@ export class ModalKinematics implements BracketProbe {
 
   /** Crossings of the targeted row through zero in (0, T]: times and directions (+1 rising, −1 falling); returns the count. */
   crossings(T: number, outT: Float64Array, outDir: Int8Array, max: number): number {
+    if (this.curved) return this.curved.rowCrossings(this.curvedRow, T, outT, outDir, max);
     const crit = this.crit;
     this.criticalPoints(T, crit);
     const zeros = this.zeros;
@@ -549,6 +613,10 @@ export class ModalKinematics implements BracketProbe {
 
   /** Minimum and maximum of the targeted row over [0, T] into out. */
   range(T: number, out: Float64Array): void {
+    if (this.curved) {
+      this.curved.rowRange(this.curvedRow, T, out);
+      return;
+    }
     let lo = Math.min(this.at(0), this.at(T));
     let hi = Math.max(this.at(0), this.at(T));
     const crit = this.crit;

@@ -22,9 +22,8 @@
  */
 import { CoreError } from '../../errors.ts';
 import type { BiasShape } from './dc-bias.ts';
+import { antiderivative, buildSplitStep, CHEBYSHEV_DEGREE as N, clenshaw, coefficients, INTEGRATE, NODE_X } from './chebyshev-basis.ts';
 
-/** Polynomial degree per sub-interval. */
-const N = 12;
 /**
  * a·h / r_A of the first try per sub-interval (halved while the tail check fails): the
  * polynomial must resolve e^(−a·t/r) over it, whose Chebyshev coefficients fall as (κ/4)^k/k!.
@@ -36,58 +35,6 @@ const MAX_PICARD = 60;
 const MAX_SEGMENTS = 512;
 /** Converged when the node values change by less than this, relative to the voltage scale. */
 const PICARD_TOLERANCE = 1e-14;
-
-// cos(π·j·k/N) for k = 0..N+1 (row k), j = 0..N: Lobatto nodes x_j = cos(πj/N) run from +1 down to −1.
-const COS = new Float64Array((N + 2) * (N + 1));
-for (let k = 0; k <= N + 1; k++) for (let j = 0; j <= N; j++) COS[k * (N + 1) + j] = Math.cos((Math.PI * j * k) / N);
-const NODE_X = Float64Array.from({ length: N + 1 }, (_, j) => Math.cos((Math.PI * j) / N));
-
-/** Chebyshev coefficients (true coefficients: p = Σ c_k T_k) of the interpolant through node values f_j. */
-function coefficients(f: Float64Array, c: Float64Array): void {
-  for (let k = 0; k <= N; k++) {
-    let s = 0.5 * (f[0] * COS[k * (N + 1)] + f[N] * COS[k * (N + 1) + N]);
-    for (let j = 1; j < N; j++) s += f[j] * COS[k * (N + 1) + j];
-    c[k] = (2 / N) * s;
-  }
-  c[0] *= 0.5;
-  c[N] *= 0.5;
-}
-
-/** Antiderivative coefficients b (degree N+1) of p = Σ c_k T_k with I(−1) = 0. */
-function antiderivative(c: Float64Array, b: Float64Array): void {
-  // c_k beyond N is 0 (written out: a helper closure here would be built on every call).
-  b[1] = c[0] - 0.5 * c[2];
-  for (let k = 2; k < N; k++) b[k] = (c[k - 1] - c[k + 1]) / (2 * k);
-  b[N] = c[N - 1] / (2 * N);
-  b[N + 1] = c[N] / (2 * (N + 1));
-  let s = 0;
-  for (let k = 1; k <= N + 1; k++) s += k & 1 ? -b[k] : b[k];
-  b[0] = -s;
-}
-
-/**
- * The Picard step's linear part as one matrix: node values of f → node values of
- * ∫_{−1}^{x_j} p_f (p_f the interpolant of f), i.e. coefficients, antiderivative
- * and evaluation at the nodes composed once (row j, column i).
- */
-const INTEGRATE = (() => {
-  const m = new Float64Array((N + 1) * (N + 1));
-  const e = new Float64Array(N + 1);
-  const c = new Float64Array(N + 1);
-  const b = new Float64Array(N + 2);
-  for (let i = 0; i <= N; i++) {
-    e.fill(0);
-    e[i] = 1;
-    coefficients(e, c);
-    antiderivative(c, b);
-    for (let j = 0; j <= N; j++) {
-      let sum = 0;
-      for (let k = 0; k <= N + 1; k++) sum += b[k] * COS[k * (N + 1) + j];
-      m[j * (N + 1) + i] = sum;
-    }
-  }
-  return m;
-})();
 
 /**
  * The split Picard step for the step level κ = α·h (α the frozen decay rate a/r_A):
@@ -108,56 +55,12 @@ function splitStep(level: number): SplitStep {
   if (cached) return cached;
   const kappa = STEP_KAPPA * 2 ** -level;
   const n = N + 1;
-  // Gauss–Jordan with partial pivoting on [I + (κ/2)·M | M | 1] gives P·M and P·1 together.
-  const w = 2 * n + 1;
-  const aug = new Float64Array(n * w);
-  for (let j = 0; j < n; j++) {
-    for (let i = 0; i < n; i++) {
-      aug[j * w + i] = (i === j ? 1 : 0) + 0.5 * kappa * INTEGRATE[j * n + i];
-      aug[j * w + n + i] = INTEGRATE[j * n + i];
-    }
-    aug[j * w + 2 * n] = 1;
-  }
-  for (let col = 0; col < n; col++) {
-    let pivot = col;
-    for (let r = col + 1; r < n; r++) if (Math.abs(aug[r * w + col]) > Math.abs(aug[pivot * w + col])) pivot = r;
-    if (pivot !== col) {
-      for (let k = 0; k < w; k++) {
-        const t = aug[col * w + k];
-        aug[col * w + k] = aug[pivot * w + k];
-        aug[pivot * w + k] = t;
-      }
-    }
-    const inv = 1 / aug[col * w + col];
-    for (let k = 0; k < w; k++) aug[col * w + k] *= inv;
-    for (let r = 0; r < n; r++) {
-      if (r === col) continue;
-      const factor = aug[r * w + col];
-      if (factor === 0) continue;
-      for (let k = 0; k < w; k++) aug[r * w + k] -= factor * aug[col * w + k];
-    }
-  }
   const pm = new Float64Array(n * n);
   const u = new Float64Array(n);
-  for (let j = 0; j < n; j++) {
-    for (let i = 0; i < n; i++) pm[j * n + i] = aug[j * w + n + i];
-    u[j] = aug[j * w + 2 * n];
-  }
+  buildSplitStep(kappa, pm, u, new Float64Array(n * (2 * n + 1)));
   const step = { kappa, pm, u };
   SPLIT_LEVELS[level] = step;
   return step;
-}
-
-/** Σ_{k=0}^{n} c_k T_k(x) by Clenshaw's recurrence. */
-function clenshaw(c: Float64Array, n: number, x: number, offset = 0): number {
-  let b1 = 0;
-  let b2 = 0;
-  for (let k = n; k >= 1; k--) {
-    const t = 2 * x * b1 - b2 + c[offset + k];
-    b2 = b1;
-    b1 = t;
-  }
-  return x * b1 - b2 + c[offset];
 }
 
 export class ChebyshevPiece {
