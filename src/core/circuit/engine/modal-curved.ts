@@ -39,21 +39,20 @@
  * figures and the samples that meet the same piece share one solve.
  */
 import { CoreError } from '../../errors.ts';
-import {
-  antiderivative,
-  buildExponentialStep,
-  buildSplitStep,
-  CHEBYSHEV_DEGREE as N,
-  clenshaw,
-  coefficients,
-  derivative,
-  EXPONENTIAL_STEP_KAPPA,
-  NODE_X,
-} from '../../parts/capacitor/chebyshev-basis.ts';
+import * as basis from '../../parts/capacitor/chebyshev-basis.ts';
 import type { BiasShape } from '../../parts/capacitor/index.ts';
 import { Kinematics } from './kinematics.ts';
 import { solveBracket, type BracketProbe } from './root-solve.ts';
 import { DynamicModel } from './modal.ts';
+
+// The basis read through module-local bindings: the hot loops below must not pay a live import binding's
+// accessor per read (some loaders compile one to a getter call).
+const N = basis.CHEBYSHEV_DEGREE;
+const NODE_X = basis.NODE_X;
+const antiderivative = basis.antiderivative;
+const clenshaw = basis.clenshaw;
+const coefficients = basis.coefficients;
+const derivative = basis.derivative;
 
 // modal.ts's MAX_STATES and SLOT, spelled out: that module imports this one, so its constants are not
 // initialised yet while this module's top level runs.
@@ -84,6 +83,39 @@ const KAPPA_MAX = 32;
 const MAX_DEPTH = 40;
 /** Monotone parts one sub-interval may be cut into (a safety bound; a degree-12 series has at most 12 zeros). */
 const MAX_PARTS = 256;
+
+/**
+ * The implicit step of a mode, per level κ_q = 2^(k/8) ≤ λ·h (the rest of λ explicit, as the one-state
+ * slew piece carries its frozen decay): built once per level and kept, so a sub-interval builds nothing.
+ * Below 1/16 plain Picard (κ_q = 0); from EXPONENTIAL_STEP_KAPPA the exponential step.
+ */
+interface ModeStep {
+  readonly kappa: number;
+  readonly pm: Float64Array;
+  readonly u: Float64Array;
+}
+const LEVELS_PER_OCTAVE = 8;
+const PLAIN_LEVEL_KAPPA = 1 / 16;
+const STEP_LEVELS = new Map<number, ModeStep>();
+const PLAIN_STEP: ModeStep = { kappa: 0, pm: basis.INTEGRATE, u: new Float64Array(N + 1).fill(1) };
+const STEP_SCRATCH = new Float64Array((N + 1) * (2 * N + 3));
+
+function modeStep(kappa: number): ModeStep {
+  if (!(kappa >= PLAIN_LEVEL_KAPPA)) return PLAIN_STEP;
+  const level = Math.floor(LEVELS_PER_OCTAVE * Math.log2(kappa));
+  let step = STEP_LEVELS.get(level);
+  if (!step) {
+    const kq = 2 ** (level / LEVELS_PER_OCTAVE);
+    const pm = new Float64Array((N + 1) * (N + 1));
+    const u = new Float64Array(N + 1);
+    // A fast mode over a long sub-interval: solved exactly for the interpolated forcing (its transient decays).
+    if (kq >= basis.EXPONENTIAL_STEP_KAPPA) basis.buildExponentialStep(kq, pm, u, STEP_SCRATCH);
+    else basis.buildSplitStep(kq, pm, u, STEP_SCRATCH);
+    step = { kappa: kq, pm, u };
+    STEP_LEVELS.set(level, step);
+  }
+  return step;
+}
 
 /** A quantity of the piece: constant + perSourceV·s + Σ w[k]·x_k (modal.ts rows, the pinned pin's share moved to s). */
 export interface CurvedRow {
@@ -164,9 +196,7 @@ export class CurvedModalPiece {
   // Solve scratch.
   private readonly frozen = new DynamicModel();
   private readonly modes = [new Kinematics(), new Kinematics(), new Kinematics()];
-  private readonly pm = new Float64Array(STATES * NC * NC);
-  private readonly u = new Float64Array(STATES * NC);
-  private readonly aug = new Float64Array(NC * (2 * NC + 1));
+  private readonly steps: ModeStep[] = [PLAIN_STEP, PLAIN_STEP, PLAIN_STEP];
   private readonly zNodes = new Float64Array(STATES * NC);
   private readonly xNodes = new Float64Array(STATES * NC);
   private readonly sNodes = new Float64Array(NC);
@@ -343,15 +373,9 @@ export class CurvedModalPiece {
     const dyn = this.dyn;
     const fz = this.frozen;
     const n = fz.modeCount;
-    const { pm, u, zNodes, xNodes, sNodes, dNodes, g, c } = this;
-    for (let i = 0; i < n; i++) {
-      const kappa = fz.lambda[i] * h;
-      const stepM = pm.subarray(i * NC * NC, (i + 1) * NC * NC);
-      const stepU = u.subarray(i * NC, (i + 1) * NC);
-      // A fast mode over a long sub-interval: solved exactly for the interpolated forcing (its transient decays).
-      if (kappa >= EXPONENTIAL_STEP_KAPPA) buildExponentialStep(kappa, stepM, stepU, this.aug);
-      else buildSplitStep(kappa, stepM, stepU, this.aug);
-    }
+    const { zNodes, xNodes, sNodes, dNodes, g, c } = this;
+    const steps = this.steps;
+    for (let i = 0; i < n; i++) steps[i] = modeStep(fz.lambda[i] * h);
     for (let j = 0; j <= N; j++) sNodes[j] = sA + (this.r * (NODE_X[j] + 1) * h) / 2;
     // Start: the frozen system's exact motion.
     for (let i = 0; i < n; i++) for (let j = 0; j <= N; j++) zNodes[i * NC + j] = this.modes[i].v(((NODE_X[j] + 1) * h) / 2);
@@ -375,14 +399,17 @@ export class CurvedModalPiece {
         const wN = fz.T[N_SLOT * STATES + i];
         const f0 = fz.f0[i];
         const fS = fz.fS[i];
-        for (let j = 0; j <= N; j++) g[j] = f0 + fS * sNodes[j] + wN * dNodes[j];
+        const { pm, u, kappa } = steps[i];
+        // The decay beyond the step's level stays explicit: (α_q − λ)·z with α_q = κ_q/h.
+        const rest = kappa / h - fz.lambda[i];
+        const base = i * NC;
+        for (let j = 0; j <= N; j++) g[j] = f0 + fS * sNodes[j] + wN * dNodes[j] + rest * zNodes[base + j];
         const zAi = this.zA[i];
-        const pmi = i * NC * NC;
         for (let j = 0; j <= N; j++) {
           let s = 0;
-          const row = pmi + j * NC;
+          const row = j * NC;
           for (let l = 0; l <= N; l++) s += pm[row + l] * g[l];
-          zNodes[i * NC + j] = zAi * u[i * NC + j] + 0.5 * h * s;
+          zNodes[base + j] = zAi * u[j] + 0.5 * h * s;
         }
       }
       converged = this.toStates(n) <= tol;

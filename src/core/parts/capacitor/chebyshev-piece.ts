@@ -22,7 +22,17 @@
  */
 import { CoreError } from '../../errors.ts';
 import type { BiasShape } from './dc-bias.ts';
-import { antiderivative, buildSplitStep, CHEBYSHEV_DEGREE as N, clenshaw, coefficients, INTEGRATE, NODE_X } from './chebyshev-basis.ts';
+import * as basis from './chebyshev-basis.ts';
+
+// The basis read through module-local bindings: the hot loops below must not pay a live import binding's
+// accessor per read (some loaders compile one to a getter call).
+const N = basis.CHEBYSHEV_DEGREE;
+const NODE_X = basis.NODE_X;
+const INTEGRATE = basis.INTEGRATE;
+const antiderivative = basis.antiderivative;
+const buildSplitStep = basis.buildSplitStep;
+const clenshaw = basis.clenshaw;
+const coefficients = basis.coefficients;
 
 /**
  * a·h / r_A of the first try per sub-interval (halved while the tail check fails): the
