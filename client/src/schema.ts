@@ -2233,7 +2233,7 @@ export interface components {
             inputCommonModeHighMarginV?: number | null;
             /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA?: number;
-            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it gives the threshold node an RC of its own (a state of the pieces, solved exactly; beside a class II/III C(V) timing capacitor refused as not-modelled). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
+            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it gives the threshold node an RC of its own (a state of the pieces, solved exactly; beside a class II/III C(V) timing capacitor by collocation, to the accuracy of the model). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
             inputCapacitanceF?: number;
             /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV?: number;
@@ -2367,12 +2367,12 @@ export interface components {
              */
             timingNodeF?: number;
             /**
-             * @description Board capacitance at the threshold node P (non-inverting input) to ground, F (default 0). Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces; check stray-capacitance-significant when it and outputNodeF move the frequency by more than 2 %); beside a class II/III C(V) capacitor: 422 not-modelled
+             * @description Board capacitance at the threshold node P (non-inverting input) to ground, F (default 0). Together with the amplifier's inputCapacitanceF it gives P an RC of its own (solved exactly, multi-state pieces, beside a class II/III C(V) capacitor too; check stray-capacitance-significant when it and outputNodeF move the frequency by more than 2 %)
              * @default 0
              */
             thresholdNodeF?: number;
             /**
-             * @description Board capacitance at the output pin to ground, F (default 0). Makes the pin an RC of its own: an open-drain rise charges it through the pull-up, a driven pin through the output resistance (solved exactly); beside a class II/III C(V) capacitor: 422 not-modelled
+             * @description Board capacitance at the output pin to ground, F (default 0). Makes the pin an RC of its own: an open-drain rise charges it through the pull-up, a driven pin through the output resistance (solved exactly, beside a class II/III C(V) capacitor too)
              * @default 0
              */
             outputNodeF?: number;
@@ -2615,7 +2615,7 @@ export interface components {
             inputCommonModeHighMarginV: number | null;
             /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA: number;
-            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it gives the threshold node an RC of its own (a state of the pieces, solved exactly; beside a class II/III C(V) timing capacitor refused as not-modelled). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
+            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it gives the threshold node an RC of its own (a state of the pieces, solved exactly; beside a class II/III C(V) timing capacitor by collocation, to the accuracy of the model). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
             inputCapacitanceF: number;
             /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV: number;
@@ -2690,7 +2690,7 @@ export interface components {
             inputCommonModeHighMarginV?: number | null;
             /** @description Input bias current flowing INTO each input pin (negative for PNP-input stages), A. Accepted: -0.0001 to 0.0001 A. Range: ±100 µA; bipolar inputs take nanoamperes to a few microamperes, CMOS picoamperes. */
             inputBiasCurrentA?: number;
-            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it gives the threshold node an RC of its own (a state of the pieces, solved exactly; beside a class II/III C(V) timing capacitor refused as not-modelled). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
+            /** @description Capacitance from each input pin to ground (common mode). At the inverting input it adds to the timing capacitor; at the non-inverting input it gives the threshold node an RC of its own (a state of the pieces, solved exactly; beside a class II/III C(V) timing capacitor by collocation, to the accuracy of the model). The archetypes leave it at 0, F. Accepted: 0 to 1e-9 F. Range: real inputs have about 1 to 20 pF; up to 1 nF accepted. */
             inputCapacitanceF?: number;
             /** @description Input offset voltage referred to the non-inverting input (switching happens at N = P + offset), V. Accepted: -0.1 to 0.1 V. Range: ±100 mV; real parts are microvolts to about 10 mV. */
             inputOffsetV?: number;
