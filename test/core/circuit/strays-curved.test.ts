@@ -77,6 +77,19 @@ describe('strays at P and at the pin beside a C(V) timing capacitor, against ode
     expect(rel(curved.periodS, linear.periodS)).toBeGreaterThan(0.05);
   });
 
+  it('a piece that never reaches its threshold latches (no-oscillation with the asymptote), proven by the energy bound, not cut off by a segment budget', () => {
+    // Leakage at N pulls the high-state asymptote to 5 V·20k/(22k + 20k) = 2.38 V, below the 3.33 V upper threshold (hand divider).
+    const circuit: Circuit = {
+      topology: 'three-resistor-divider',
+      supply: { positiveV: 5, negativeV: 0 },
+      amplifier: { ...ideal, outputResistanceOhm: 50 },
+      parts: { rTiming: 22e3, cTiming: c4n7.capacitanceF, rTop: 68e3, rBottom: 68e3, rFeedback: 68e3 },
+      capacitorShape: c4n7.shape,
+      strays: strays({ thresholdNodeF: 47e-12, outputNodeF: 100e-12, timingLeakageOhm: 20e3 }),
+    };
+    expect(() => analyzeCircuit(circuit)).toThrow(expect.objectContaining({ code: 'no-oscillation', message: expect.stringContaining('latches high') }));
+  });
+
   it('the prepared form (tolerance, BOM checks, fit) gives analyze\'s answer for perturbed vectors', { timeout: 60_000 }, () => {
     const { circuit } = cases[1];
     const model = prepareModel(circuit);
