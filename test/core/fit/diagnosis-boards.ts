@@ -199,22 +199,73 @@ export interface Verdict {
   detected: boolean;
   top1: boolean;
   top3: boolean;
+  /** top-1 / top-3 under the earlier, looser rule: any declared look-alike naming the fault counts, whatever the measurement it suggests. */
+  looseTop1: boolean;
+  looseTop3: boolean;
   falseAlarm: boolean;
+}
+
+/** Whether an explanation id blames a role at fault (a swap names both). */
+const blamesFault = (board: Board, id: string) => board.faultRoles.some((r) => new RegExp(`\\b${r}\\b`).test(id));
+
+/**
+ * Whether the measurement an ambiguity suggests tells the fault from its
+ * look-alike on the board itself: it must weigh a hypothesis that blames the
+ * fault against one that does not, and where it is a swap experiment ("a part
+ * of known value in role r, then the frequency") the board with that swap,
+ * run by the odex reference, must land nearer the fault's prediction. Other
+ * experiments (a figure not measured) are taken at their word.
+ */
+function separatesOnBoard(board: Board, ambiguity: FitReport['diagnosis']['ambiguities'][number]): boolean {
+  const best = ambiguity.separatingMeasurement;
+  if (!best || best.predictions.length !== 2) return false;
+  const [a, b] = best.predictions;
+  if (blamesFault(board, a.hypothesis) === blamesFault(board, b.hypothesis)) return false;
+  const swap = /^frequencyHz with a known (\w+)$/.exec(best.figure);
+  if (!swap) return true;
+  const role = swap[1];
+  const topology = TOPOLOGIES.find((t) => t.id === board.topology)!;
+  const swapped: Circuit = { ...board.truth, parts: { ...board.truth.parts, [role]: board.nominal.parts[role] } };
+  // A known capacitor is the part as declared, its own C(V) with it.
+  if (role === topology.capacitorRole) {
+    if (board.nominal.capacitorShape) swapped.capacitorShape = board.nominal.capacitorShape;
+    else delete swapped.capacitorShape;
+  }
+  let frequencyHz: number;
+  try {
+    frequencyHz = 1 / referenceOscillation(swapped, { tolerance: 1e-8, maxCycles: 400 }).periodS;
+  } catch {
+    return false;
+  }
+  const [fault, other] = blamesFault(board, a.hypothesis) ? [a, b] : [b, a];
+  return Math.abs(frequencyHz - fault.value) < Math.abs(frequencyHz - other.value);
 }
 
 /**
  * Scoring: a faulty board counts as found at rank k when one of the first k
  * explanations names a role at fault; when the service declares the leading
- * hypotheses indistinguishable, any of them counts (the issue's rule).
+ * hypotheses indistinguishable, it counts when one of them blames the fault
+ * and the measurement it suggests tells the fault apart on the board itself
+ * (separatesOnBoard).
  * An in-tolerance board is a false alarm when the verdict says it departs.
  * A faulty board whose record the verdict finds within the tolerance spread is
  * not detected: its channels cannot tell the fault from parts in tolerance.
  */
 export function score(board: Board, report: FitReport): Verdict {
   const faulty = board.faultRoles.length > 0;
-  if (!faulty) return { faulty, detected: false, top1: false, top3: false, falseAlarm: !report.diagnosis.verdict.agreesWithNominal };
+  if (!faulty) return { faulty, detected: false, top1: false, top3: false, looseTop1: false, looseTop3: false, falseAlarm: !report.diagnosis.verdict.agreesWithNominal };
   const names = (k: number) => report.diagnosis.explanations.slice(0, k).some((e) => rolesOf(e).some((r) => board.faultRoles.includes(r)));
-  const ambiguous = report.diagnosis.ambiguities.some((a) => a.hypotheses.some((h) => board.faultRoles.some((r) => h.includes(r))));
+  const namedLookAlike = report.diagnosis.ambiguities.filter((a) => a.hypotheses.some((h) => blamesFault(board, h)));
+  const ambiguous = namedLookAlike.some((a) => separatesOnBoard(board, a));
+  const loose = namedLookAlike.length > 0;
   const leaderIsFault = !report.diagnosis.verdict.agreesWithNominal;
-  return { faulty, detected: leaderIsFault, top1: leaderIsFault && (names(1) || ambiguous), top3: names(3) || ambiguous, falseAlarm: false };
+  return {
+    faulty,
+    detected: leaderIsFault,
+    top1: leaderIsFault && (names(1) || ambiguous),
+    top3: names(3) || ambiguous,
+    looseTop1: leaderIsFault && (names(1) || loose),
+    looseTop3: names(3) || loose,
+    falseAlarm: false,
+  };
 }

@@ -83,4 +83,31 @@ describe('diagnosis regressions: the causes it names are possible, and the true 
     const declared = r.diagnosis.ambiguities.some((a) => a.hypotheses.some((h) => h.includes('rTiming')));
     expect(lead.includes('rTiming') || declared).toBe(true);
   });
+
+  // A decade slip with the other parts inside their tolerances: the slip moves the figures tenfold, and the same
+  // in-tolerance spread of its neighbours moves them tenfold too; weighed around the nominal circuit instead,
+  // the slip was outranked by a continuous cause a factor ten off. The other timing part is set 0.8 %–1.5 % off
+  // by hand (inside its 1 % / 2 % tolerance), as a board from the reel is.
+  it('timing capacitor a decade down (1 nF for 10 nF), timing resistor +0.8 %: a decade slip leads, and a resistor slip only with the pair declared alike and the swap that tells them', () => {
+    const slipped = boardWith('three-resistor-divider', { cTiming: 1e-9 });
+    const board = { ...slipped, truth: { ...slipped.truth, parts: { ...slipped.truth.parts, rTiming: 10.08e3 } } };
+    for (const [channels, seed] of [['both', 15], ['output', 16]] as const) {
+      const r = diagnoseBoard(board, channels, seed);
+      const lead = r.diagnosis.explanations[0].hypothesis;
+      expect(lead).toMatch(/^decade-slip:(cTiming|rTiming)÷10$/);
+      if (lead !== 'decade-slip:cTiming÷10') {
+        const amb = r.diagnosis.ambiguities.find((a) => a.hypotheses.includes('decade-slip:cTiming÷10'));
+        expect(amb?.separatingMeasurement?.figure).toMatch(/^frequencyHz with a known (cTiming|rTiming)$/);
+      }
+    }
+  });
+
+  it('feedback-network ground resistor a decade down (10 kΩ for 100 kΩ), timing capacitor −1.5 %, output channel: rGround leads', () => {
+    const slipped = boardWith('two-resistor-feedback', { rGround: 10e3 });
+    const board = { ...slipped, truth: { ...slipped.truth, parts: { ...slipped.truth.parts, cTiming: 10e-9 * 0.985 } } };
+    const r = diagnoseBoard(board, 'output', 17);
+    expect(r.diagnosis.verdict.agreesWithNominal).toBe(false);
+    expect(firstRoles(r)).toContain('rGround');
+    expectGoodnessOrder(r);
+  });
 });

@@ -5,8 +5,9 @@
  *
  * - the effects a hypothesis does not free still wander within their
  *   tolerances (the `nuisance` priors of parameters.ts); they are marginalised
- *   in the linear approximation around the nominal circuit: with J the
- *   measurements' sensitivity to them (in prior σ), the measurements are
+ *   in the linear approximation around the nominal circuit (around its own
+ *   circuit for a wrong part that moves a value far, LOCAL_COLUMNS_RATIO): with
+ *   J the measurements' sensitivity to them (in prior σ), the measurements are
  *   Gaussian with covariance C = I + J·Jᵀ (in measurement σ), so residuals are
  *   whitened by C's Cholesky factor and ln det C enters the evidence;
  * - the freed effects are fitted by MAP (map-lm.ts) in their bounded spaces
@@ -17,8 +18,9 @@
  *   the weakest passing one (our rule), so ranks and scores agree;
  * - scores are posterior probabilities normalised over the nominal circuit and
  *   the explanations listed.
- * When the leading hypotheses predict the measured figures alike, the
- * diagnosis says so and computes which further measurement separates them.
+ * When the leading hypotheses predict the measured figures alike, or the
+ * record leaves the part to rework undecided (UNDECIDED_ODDS), the diagnosis
+ * says so and computes which further measurement separates them.
  */
 import { findTopology } from '../../circuit/topologies/index.ts';
 import { CoreError } from '../../errors.ts';
@@ -124,6 +126,24 @@ export interface DiagnoseOptions {
 const PAIR_POOL = 6;
 /** Nuisance sensitivities by a step of this many prior σ. */
 const NUISANCE_STEP = 0.3;
+/**
+ * The in-tolerance spread of the other effects is marginalised in the linear
+ * approximation (the columns of J). Around the nominal circuit that is right
+ * for every hypothesis that stays near it, but a figure's sensitivity to a
+ * part (in measurement σ) moves with the circuit: a timing part a decade off
+ * makes a tenfold frequency, and the same 1 % spread of the other timing part
+ * then moves it by ten times as many hertz. Weighed with the nominal's
+ * columns, a wrong part that is exactly what was fitted leaves a residual its
+ * in-tolerance neighbours would explain (hundreds of σ on the frequency), and
+ * a continuous `off` cause that absorbs the scatter in its free value wins
+ * instead — the Laplace approximation must be taken where the hypothesis puts
+ * the circuit (MacKay, ch. 27–28). A wrong part that moves a value by more
+ * than this factor is therefore marginalised with the columns of its own
+ * circuit; below it (the neighbouring values of the stocked series, steps of
+ * 5–21 %) the columns change by about the step, a second-order change of χ²
+ * not worth a further walk per effect.
+ */
+const LOCAL_COLUMNS_RATIO = 1.5;
 /** A hypothesis counts as a contender at this share of the leader's posterior (our choice). */
 const CONTENDER_SHARE = 0.2;
 /**
@@ -135,6 +155,17 @@ const CONTENDER_SHARE = 0.2;
 const CONTENDER_CHI_SQUARE = 1;
 /** Predictions closer than this on every measured figure, in σ, cannot be told apart (our choice). */
 const SEPARABLE_SIGMA = 1;
+/**
+ * Posterior odds of the leader over a contender that blames another part,
+ * below which the measurements have not decided which part to rework:
+ * Jeffreys' scale (Theory of Probability, 3rd ed., appendix B) calls a Bayes
+ * factor under √10 "barely worth mentioning". Their predictions may lie a
+ * little over SEPARABLE_SIGMA apart (a decade slip of the timing resistor
+ * loads the output a few tens of millivolts more than one of the capacitor),
+ * yet with the board's noise the record sits between them; naming the leader
+ * alone would send the engineer to one joint on odds near even.
+ */
+const UNDECIDED_ODDS = Math.sqrt(10);
 const LN_GOF_CAP = Math.log(1000);
 
 interface Scored {
@@ -149,6 +180,11 @@ interface Scored {
   chiSquare: number;
   logEvidence: number;
   passes: boolean;
+  /**
+   * The nuisance whitening of the hypothesis' circuit, every effect's spread allowed for: distances to it are
+   * read in it. The nominal's (`all`) unless a wrong part moves the circuit far (LOCAL_COLUMNS_RATIO): then its own.
+   */
+  whiten: (r: Float64Array) => Float64Array;
 }
 
 export function residualEntries(setup: FitSetup, fig: PredictedFigures): ResidualEntry[] {
@@ -159,14 +195,15 @@ export function residualEntries(setup: FitSetup, fig: PredictedFigures): Residua
 }
 
 /** Whitening by C = I + Σ_{j∈S} J_j J_jᵀ: returns the transform and ln det C. */
-function whitener(columns: readonly Float64Array[], m: number, excluded: readonly number[]): { whiten: (r: Float64Array) => Float64Array; logDet: number } {
+function whitener(columns: readonly Float64Array[], m: number, excluded: readonly number[]): { whiten: (r: Float64Array) => Float64Array; logDet: number } | undefined {
   const c = new Float64Array(m * m);
   for (let i = 0; i < m; i++) c[i * m + i] = 1;
   columns.forEach((col, j) => {
     if (excluded.includes(j)) return;
     for (let p = 0; p < m; p++) for (let q = 0; q < m; q++) c[p * m + q] += col[p] * col[q];
   });
-  const l = cholesky(c, m)!;
+  const l = cholesky(c, m);
+  if (!l) return undefined; // columns that overflow (a circuit at the edge of oscillating): no covariance to whiten by
   const whiten = (r: Float64Array) => {
     const y = new Float64Array(m);
     for (let i = 0; i < m; i++) {
@@ -200,26 +237,40 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
   const maxCauses = options.maxCauses ?? 2;
   const maxExplanations = options.maxExplanations ?? 8;
 
-  // Sensitivity of the normalised residuals to each effect's nuisance spread (one prior σ).
-  const r0 = setup.residualsAt(setup.nominalX);
-  const columns: Float64Array[] = params.map((p, j) => {
-    const x = Float64Array.from(setup.nominalX);
-    x[j] += NUISANCE_STEP * p.priorSd;
-    let rp: Float64Array;
-    try {
-      rp = setup.residualsAt(x);
-    } catch {
-      return new Float64Array(m);
-    }
-    return Float64Array.from(rp, (v, i) => (Number.isFinite(v) ? (v - r0[i]) / NUISANCE_STEP : 0));
-  });
-  const all = whitener(columns, m, []);
+  // Sensitivity of the normalised residuals to each effect's nuisance spread (one prior σ), at a parameter
+  // vector and circuit variant (the nominal circuit unless a hypothesis places another part).
+  const nuisanceColumns = (at: Float64Array, variant?: CircuitVariant, r0 = setup.residualsAt(at, variant)): Float64Array[] => {
+    return params.map((p, j) => {
+      const x = Float64Array.from(at);
+      x[j] += NUISANCE_STEP * p.priorSd;
+      let rp: Float64Array;
+      try {
+        rp = setup.residualsAt(x, variant);
+      } catch {
+        return new Float64Array(m);
+      }
+      return Float64Array.from(rp, (v, i) => (Number.isFinite(v) ? (v - r0[i]) / NUISANCE_STEP : 0));
+    });
+  };
+  const columns = nuisanceColumns(setup.nominalX);
+  const movesFar = (variant: CircuitVariant) =>
+    Object.entries(variant.parts ?? {}).some(([role, value]) => Math.abs(Math.log(value / setup.circuit.parts[role])) > Math.log(LOCAL_COLUMNS_RATIO));
+  const all = whitener(columns, m, [])!;
 
   const score = (h: Hypothesis): Scored | undefined => {
     // A hypothesis that widens a nuisance (another part's tolerance) is whitened by its own covariance.
     const widened = h.nuisanceSd;
-    const whitenerOf = () => (widened ? whitener(columns.map((c, j) => (widened[j] === undefined ? c : c.map((v) => (v * widened[j]) / params[j].priorSd))), m, []) : all);
-    if (h.scalar) return scoreScalar(setup, h, whitenerOf(), m);
+    const widen = (base: readonly Float64Array[]) => (widened ? base.map((c, j) => (widened[j] === undefined ? c : c.map((v) => (v * widened[j]) / params[j].priorSd))) : base);
+    // A wrong part far from the nominal value is marginalised around its own circuit (LOCAL_COLUMNS_RATIO); where
+    // its circuit's sensitivities overflow (it barely oscillates) the nominal's columns stand in, as before.
+    const whitenerOf = (r0?: Float64Array): { w: NonNullable<ReturnType<typeof whitener>>; local: boolean } => {
+      if (h.variant && movesFar(h.variant)) {
+        const local = whitener(widen(nuisanceColumns(setup.nominalX, h.variant, r0)), m, []);
+        if (local) return { w: local, local: true };
+      }
+      return { w: widened ? whitener(widen(columns), m, [])! : all, local: false };
+    };
+    if (h.scalar) return scoreScalar(setup, h, whitenerOf().w, m, all.whiten);
     if (h.kind !== 'off' && h.active.length === 0) {
       let r: Float64Array;
       try {
@@ -227,17 +278,17 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
       } catch {
         return undefined; // the wrong part stops the oscillation: not what was measured
       }
-      const w = whitenerOf();
+      const { w, local } = whitenerOf(r);
       const chi = sumSq(w.whiten(r));
       if (!Number.isFinite(chi)) return undefined;
-      return { h, x: setup.nominalX, ...(h.variant ? { variant: h.variant } : {}), covariance: new Float64Array(0), chiSquare: chi, logEvidence: h.logPrior - 0.5 * chi - 0.5 * w.logDet, passes: chi <= chiSquareQuantile999(m) };
+      return { h, x: setup.nominalX, ...(h.variant ? { variant: h.variant } : {}), covariance: new Float64Array(0), chiSquare: chi, logEvidence: h.logPrior - 0.5 * chi - 0.5 * w.logDet, passes: chi <= chiSquareQuantile999(m), whiten: local ? w.whiten : all.whiten };
     }
-    const w = whitener(columns, m, h.active);
+    const w = whitener(columns, m, h.active)!;
     try {
       const fit = fitSubset(setup, h.active, { priorSd: h.active.map((j) => params[j].offSd), transform: w.whiten, maxIterations: 30, ...(h.variant ? { variant: h.variant } : {}) });
       const s = fit.solution;
       const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
-      return { h, x: fit.x, ...(h.variant ? { variant: h.variant } : {}), covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - h.active.length)) };
+      return { h, x: fit.x, ...(h.variant ? { variant: h.variant } : {}), covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - h.active.length)), whiten: all.whiten };
     } catch {
       return undefined;
     }
@@ -323,19 +374,29 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
     // spread of the other effects allowed for (whitened by the same covariance as the evidence).
     const residualsOf = (s: Scored) => setup.residualsAt(s.x, s.variant);
     const rl = residualsOf(leader);
-    const alike: { s: Scored; sep: number }[] = [];
+    const alike: { s: Scored; sep: number; otherPart: boolean }[] = [];
+    const leaderRoles = new Set(params.filter((p) => p.kind === 'part' && blames(setup, leader, p.name)).map((p) => p.name));
     for (const c of contenders) {
       const rc = residualsOf(c);
-      const sep = Math.sqrt(sumSq(all.whiten(Float64Array.from(rl, (v, i) => v - rc[i]))));
-      if (sep < SEPARABLE_SIGMA) alike.push({ s: c, sep });
+      const sep = Math.sqrt(sumSq(leader.whiten(Float64Array.from(rl, (v, i) => v - rc[i]))));
+      const otherPart = leader.h.kind !== 'nominal' && params.some((p) => p.kind === 'part' && !leaderRoles.has(p.name) && blames(setup, c, p.name));
+      const undecided = otherPart && c.passes && posterior(c) * UNDECIDED_ODDS >= posterior(leader);
+      if (sep < SEPARABLE_SIGMA || undecided) alike.push({ s: c, sep, otherPart });
     }
+    // A look-alike that blames another part first: the measurement that tells which joint to rework matters more
+    // than one that tells how far the same part is off (the separating measurement is sought for the first).
+    alike.sort((a, b) => Number(b.otherPart) - Number(a.otherPart));
     if (alike.length > 0) {
       const names = [leader, ...alike.map((a) => a.s)].map((s) => s.h.id);
       const best = separatingMeasurement(setup, leader, alike[0].s, figs);
       const label = (s: Scored) => (s.h.kind === 'nominal' ? 'nothing off' : causesOf(setup, s).map((c) => c.parameter + (c.fault === 'off' ? '' : ` (${c.fault})`)).join(' + '));
       const group = [leader, ...alike.map((a) => a.s)];
+      // The odds against the strongest look-alike that is told apart by the evidence only (not by its predictions).
+      const apart = alike.filter((a) => a.sep >= SEPARABLE_SIGMA);
+      const undecidedOdds = apart.length === 0 ? undefined : posterior(leader) / Math.max(...apart.map((a) => posterior(a.s)));
       const statement =
-        `The measured figures cannot tell ${label(leader)} from ${alike.map((a) => label(a.s)).join(', ')} (their predictions differ by at most ${Math.max(...alike.map((a) => a.sep)).toPrecision(2)} σ).` +
+        `The measured figures cannot tell ${label(leader)} from ${alike.map((a) => label(a.s)).join(', ')} (their predictions differ by at most ${Math.max(...alike.map((a) => a.sep)).toPrecision(2)} σ` +
+        (undecidedOdds === undefined ? ').' : `; the record favours ${label(leader)} by odds of only ${undecidedOdds.toPrecision(2)} : 1).`) +
         whyAlike(setup, group) +
         (best ? ` To separate them: ${separationWords(best)}.` : '');
       const amb: Ambiguity = { hypotheses: names, measuredSeparationSigma: Math.max(...alike.map((a) => a.sep)), statement };
@@ -346,7 +407,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
       const capacitor = group.find((s) => s !== strayAtN && blames(setup, s, capacitorRoleOf(setup)));
       if (strayAtN && capacitor && !(best && [leader, alike[0].s].includes(strayAtN) && [leader, alike[0].s].includes(capacitor))) {
         const pair = separatingMeasurement(setup, capacitor, strayAtN, figs);
-        const sep = Math.sqrt(sumSq(all.whiten(Float64Array.from(residualsOf(capacitor), (v, i) => v - residualsOf(strayAtN)[i]))));
+        const sep = Math.sqrt(sumSq(capacitor.whiten(Float64Array.from(residualsOf(capacitor), (v, i) => v - residualsOf(strayAtN)[i]))));
         const words = `The measured figures cannot tell ${label(capacitor)} from ${label(strayAtN)}.${whyAlike(setup, [capacitor, strayAtN])}${pair ? ` To separate them: ${separationWords(pair)}.` : ''}`;
         const extra: Ambiguity = { hypotheses: [capacitor.h.id, strayAtN.h.id], measuredSeparationSigma: sep, statement: words };
         if (pair) extra.separatingMeasurement = pair;
@@ -358,7 +419,7 @@ export function diagnoseWithLeader(setup: FitSetup, options: DiagnoseOptions = {
     // figures fix their product only, whatever the leader's sharper prior made of it: declared, with the
     // swap that tells them apart (the leader's own group above may not hold the contender: a wrong part's
     // fixed value predicts a little apart from both).
-    const product = productAmbiguity(setup, leader, contenders, scored, alike.map((a) => a.s), residualsOf, all.whiten, figs);
+    const product = productAmbiguity(setup, leader, contenders, scored, alike.map((a) => a.s), residualsOf, leader.whiten, figs);
     if (product) ambiguities.push(product);
   }
 
@@ -632,11 +693,20 @@ const SCALAR_STEP_TOLERANCE = 1e-2;
  * near-flat prior), every other effect marginalised within its tolerance (the
  * hypothesis' whitener) like any single cause; evidence by the same Laplace formula.
  */
-function scoreScalar(setup: FitSetup, h: Hypothesis, w: { whiten: (r: Float64Array) => Float64Array; logDet: number }, m: number): Scored | undefined {
+function scoreScalar(setup: FitSetup, h: Hypothesis, w: { whiten: (r: Float64Array) => Float64Array; logDet: number }, m: number, nominalWhiten: (r: Float64Array) => Float64Array): Scored | undefined {
   const scalar = h.scalar!;
   const p = scalar.parameter;
   const variantAt = (x: number): CircuitVariant => scalar.variantAt(naturalValue(p, x));
-  const residuals = (xs: Float64Array) => w.whiten(setup.residualsAt(setup.nominalX, variantAt(xs[0])));
+  // The search's first evaluation is at the best start, already walked while choosing it: kept, not walked again
+  // (the same value gives the same walk, so nothing changes but the cost).
+  const walked = new Map<number, Float64Array>();
+  const residuals = (xs: Float64Array) => {
+    const known = walked.get(xs[0]);
+    if (known) return known;
+    const r = w.whiten(setup.residualsAt(setup.nominalX, variantAt(xs[0])));
+    if (walked.size < (scalar.starts ?? SCALAR_STARTS).length) walked.set(xs[0], r);
+    return r;
+  };
   let start = p.priorMean;
   let best = Infinity;
   for (const x0 of scalar.starts ?? SCALAR_STARTS) {
@@ -655,7 +725,7 @@ function scoreScalar(setup: FitSetup, h: Hypothesis, w: { whiten: (r: Float64Arr
     const s = solveMap({ size: 1, priorMean: [p.priorMean], priorSd: [p.priorSd], residuals, start: [start] }, { ...FIT_SEARCH, stepTolerance: SCALAR_STEP_TOLERANCE, maxIterations: scalar.iterations ?? SCALAR_ITERATIONS });
     const x = s.x[0];
     const logEvidence = h.logPrior - 0.5 * (s.dataChiSquare + s.priorChiSquare) - 0.5 * s.logDetNormal - 0.5 * w.logDet;
-    return { h, x: setup.nominalX, variant: variantAt(x), scalarX: x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - 1)) };
+    return { h, x: setup.nominalX, variant: variantAt(x), scalarX: x, covariance: s.covariance, chiSquare: s.dataChiSquare, logEvidence, passes: s.dataChiSquare <= chiSquareQuantile999(Math.max(1, m - 1)), whiten: nominalWhiten };
   } catch {
     return undefined;
   }
