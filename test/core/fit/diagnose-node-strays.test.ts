@@ -30,6 +30,8 @@ import { NO_STRAYS, type Strays } from '../../../src/core/circuit/strays.ts';
 import { findTopology } from '../../../src/core/circuit/topologies/index.ts';
 import type { Circuit } from '../../../src/core/circuit/types.ts';
 import { fitCircuit, type FitReport } from '../../../src/core/fit/index.ts';
+import { typicalBiasShape } from '../../../src/core/parts/capacitor/dc-bias.ts';
+import { parseDielectric } from '../../../src/core/parts/dielectric.ts';
 import { captureOf, CAPACITOR_TOLERANCE, nominalBoard, RESISTOR_TOLERANCE, type Board, type BoardRecord, type ChannelSet } from './diagnosis-boards.ts';
 import { engineCapture } from './estimate-engine-capture.ts';
 
@@ -66,6 +68,9 @@ const withParts = (topologyId: string, parts: Record<string, number>): Circuit =
 const openDrain = withParts('open-drain-pullup', { cTiming: 1e-9 });
 const asymmetricDivider = withParts('three-resistor-divider', { cTiming: 680e-12, rBottom: 220e3 });
 const symmetricDivider = withParts('three-resistor-divider', { cTiming: 680e-12 });
+// The open-drain clock with its 1 nF as a class II part declared as such (X7R, 16 V, 0603; class-typical C(V),
+// from memory): the pin's RC beside a C(V) capacitor is solved by the collocation pieces (engine/modal-curved.ts).
+const openDrainClassII: Circuit = { ...openDrain, capacitorShape: typicalBiasShape(parseDielectric('X7R'), 16, '0603') };
 
 /** Fitted value within this share of the planted one (the 8-bit records fix it to a few per cent; our bound). */
 const VALUE_TOLERANCE = 0.1;
@@ -96,6 +101,25 @@ describe('diagnosis: a capacitance at the output pin', () => {
       expect(rise.value).toBeLessThan(rcRiseS + rampS + dt);
     });
   }
+});
+
+describe('diagnosis: a capacitance at the output pin beside a declared class II timing capacitor', () => {
+  it('100 pF on the open-drain pin, X7R timing capacitor declared: the pin capacitance leads, fitted within 10 %', { timeout: 120_000 }, () => {
+    const d = diagnoseBoard(openDrainClassII, { outputNodeF: 100e-12 }, 'both', 27).diagnosis;
+    expect(d.verdict.agreesWithNominal).toBe(false);
+    const first = d.explanations[0];
+    expect(first.hypothesis).toBe('stray:outputNodeF');
+    expect(Math.abs(first.causes[0].estimate / 100e-12 - 1)).toBeLessThan(VALUE_TOLERANCE);
+    expect(first.passesGoodnessOfFit).toBe(true);
+  });
+
+  it('the same board without the stray agrees with its nominal circuit, no stray preferred', { timeout: 120_000 }, () => {
+    const d = diagnoseBoard(openDrainClassII, {}, 'both', 33).diagnosis;
+    expect(d.verdict.agreesWithNominal).toBe(true);
+    for (const e of d.explanations.filter((x) => x.hypothesis === 'stray:thresholdNodeF' || x.hypothesis === 'stray:outputNodeF')) {
+      expect(e.score).toBeLessThan(0.1 * d.verdict.nominalScore);
+    }
+  });
 });
 
 describe('diagnosis: a capacitance at the threshold node P', () => {

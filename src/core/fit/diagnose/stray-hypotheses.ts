@@ -44,9 +44,9 @@
  * indistinguishable (explain.ts) and names the swap of a known capacitor as the
  * experiment that separates them. With a class II capacitor (C(V)) a flat stray
  * changes the shape of the charging curve, and the capture can tell.
- * A capacitance at P or at the pin needs the multi-state pieces, which the
- * model solves for a linear timing capacitor only (validateStrays): beside a
- * C(V) capacitor these two hypotheses are not weighed.
+ * A capacitance at P or at the pin makes the pieces multi-state (engine/modal.ts;
+ * beside a C(V) capacitor engine/modal-curved.ts): weighed for every timing
+ * capacitor, linear or not.
  */
 import { formatSi } from '../../circuit/format.ts';
 import { NO_STRAYS, type Strays } from '../../circuit/strays.ts';
@@ -100,31 +100,27 @@ export function strayEffects(circuit: Circuit): StrayEffect[] {
   const { lo: cLo, hi: cHi } = STRAY_CAPACITANCE_WINDOW_F;
   const { lo: rLo, hi: rHi } = STRAY_LEAKAGE_WINDOW_OHM;
   const { lo: pinLo, hi: pinHi } = PIN_CAPACITANCE_WINDOW_F;
-  // A capacitance at P or at the pin makes the pieces multi-state: solved beside a linear timing capacitor only.
-  const linear = (circuit.capacitorShape?.kind ?? 'flat') === 'flat';
-  const nodeStrays: StrayEffect[] = !linear
-    ? []
-    : [
-        {
-          field: 'thresholdNodeF',
-          prior: PRIOR_STRAY_CAPACITANCE,
-          parameter: windowParameter('strayThresholdNodeF', 'F', declared.thresholdNodeF, cLo, cHi, 'capacitance at the threshold node P'),
-          strays: (c, value) => ({ ...NO_STRAYS, ...c.strays, thresholdNodeF: declared.thresholdNodeF + value }),
-          starts: NODE_STRAY_STARTS,
-          iterations: NODE_STRAY_ITERATIONS,
-          words: (value) =>
-            `a capacitance of ${formatSi(value, 'F', 3)} at the threshold node P (board, amplifier input or a probe left on the node): P lags each switch, so the capacitor turns short of the thresholds`,
-        },
-        {
-          field: 'outputNodeF',
-          prior: PRIOR_STRAY_CAPACITANCE,
-          parameter: windowParameter('strayOutputNodeF', 'F', declared.outputNodeF, pinLo, pinHi, 'capacitance at the output pin'),
-          strays: (c, value) => ({ ...NO_STRAYS, ...c.strays, outputNodeF: declared.outputNodeF + value }),
-          starts: NODE_STRAY_STARTS,
-          iterations: NODE_STRAY_ITERATIONS,
-          words: (value) => `a capacitance of ${formatSi(value, 'F', 3)} at the output pin (trace, the inputs it drives, a cable or a probe)${pinEdgeWords(circuit)}`,
-        },
-      ];
+  const nodeStrays: StrayEffect[] = [
+    {
+      field: 'thresholdNodeF',
+      prior: PRIOR_STRAY_CAPACITANCE,
+      parameter: windowParameter('strayThresholdNodeF', 'F', declared.thresholdNodeF, cLo, cHi, 'capacitance at the threshold node P'),
+      strays: (c, value) => ({ ...NO_STRAYS, ...c.strays, thresholdNodeF: declared.thresholdNodeF + value }),
+      starts: NODE_STRAY_STARTS,
+      iterations: NODE_STRAY_ITERATIONS,
+      words: (value) =>
+        `a capacitance of ${formatSi(value, 'F', 3)} at the threshold node P (board, amplifier input or a probe left on the node): P lags each switch, so the capacitor turns short of the thresholds`,
+    },
+    {
+      field: 'outputNodeF',
+      prior: PRIOR_STRAY_CAPACITANCE,
+      parameter: windowParameter('strayOutputNodeF', 'F', declared.outputNodeF, pinLo, pinHi, 'capacitance at the output pin'),
+      strays: (c, value) => ({ ...NO_STRAYS, ...c.strays, outputNodeF: declared.outputNodeF + value }),
+      starts: NODE_STRAY_STARTS,
+      iterations: NODE_STRAY_ITERATIONS,
+      words: (value) => `a capacitance of ${formatSi(value, 'F', 3)} at the output pin (trace, the inputs it drives, a cable or a probe)${pinEdgeWords(circuit)}`,
+    },
+  ];
   return [
     {
       field: 'timingNodeF',
