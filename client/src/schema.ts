@@ -2305,7 +2305,7 @@ export interface components {
             value: components["schemas"]["ComponentValue"];
             /** @description Fraction (0.1), percent text ("10%") or an IEC 60062 letter ("K") */
             tolerance?: number | string;
-            /** @description EIA-198 code (C0G, X7R, Y5V...) or technology word (PP, PET, mica...). Class II/III codes bring a class-typical C(V) curve, ageing and leakage */
+            /** @description EIA-198 code (C0G, X7R, Y5V...) or technology word (PP, PET, mica...). Class II/III codes bring a class-typical C(V) curve and ageing; every code brings its class's minimum insulation resistance, checked (capacitor-leakage-significant: the frequency with that leakage across the part), not applied */
             dielectric?: string;
             /** @description Rated DC voltage, V (class II/III default: 16 V); ceramic ratings start at a few volts, so below 1 V is refused as a slip */
             ratedVoltageV?: number;
@@ -2978,7 +2978,7 @@ export interface components {
         };
         /** @description One rule result for an assembly */
         BomRule: {
-            /** @description Stable rule code: role-unassigned, role-unknown, refdes-missing, refdes-duplicated, topology-unknown, amplifier-unresolved, catalogue-unavailable, series-unknown, spec-inconsistent, value-read, value-unreadable, value-text-leftover, tolerance-assumed, tempco-assumed, value-off-series, part-number-unlisted, value-disagrees-with-catalogue, value-not-in-catalogue, part-not-for-new-designs, dielectric-unfit-for-timing, electrolytic-in-timing-path, dielectric-unstated, voltage-rating-below-supply, voltage-rating-unstated, temperature-beyond-part-rating, bias-derating, bias-derating-leaves-spec, circuit-rejected, supply-outside-amplifier-range, output-drive-exceeded, inputs-outside-common-mode, input-clamp-conducts, bias-shifts-thresholds, selv-caution, stored-energy-caution, dynamics-approximated, stray-capacitance-significant, frequency-within-spec, frequency-outside-spec, duty-within-spec, duty-outside-spec, yield-met, yield-below-minimum, yield-not-evaluated, evaluation-failed; checks the analysis adds later arrive as analysis-<code> */
+            /** @description Stable rule code: role-unassigned, role-unknown, refdes-missing, refdes-duplicated, topology-unknown, amplifier-unresolved, catalogue-unavailable, series-unknown, spec-inconsistent, value-read, value-unreadable, value-text-leftover, tolerance-assumed, tempco-assumed, value-off-series, part-number-unlisted, value-disagrees-with-catalogue, value-not-in-catalogue, part-not-for-new-designs, dielectric-unfit-for-timing, electrolytic-in-timing-path, dielectric-unstated, voltage-rating-below-supply, voltage-rating-unstated, temperature-beyond-part-rating, bias-derating, bias-derating-leaves-spec, circuit-rejected, supply-outside-amplifier-range, output-drive-exceeded, inputs-outside-common-mode, input-clamp-conducts, bias-shifts-thresholds, selv-caution, stored-energy-caution, dynamics-approximated, stray-capacitance-significant, capacitor-leakage-significant, frequency-within-spec, frequency-outside-spec, duty-within-spec, duty-outside-spec, yield-met, yield-below-minimum, yield-not-evaluated, evaluation-failed; checks the analysis adds later arrive as analysis-<code> */
             code: string;
             /** @description error: the board will not meet its spec or work as intended; warning: it works with reduced margin; caution: safety note; info: for the record */
             severity: "error" | "warning" | "caution" | "info";

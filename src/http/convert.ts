@@ -60,6 +60,8 @@ export function circuitFromBody(body: CircuitBody, directory: AmplifierLookup, p
   };
   const capacitor = timingCapacitorFromParts(body.topology, body.parts as Record<string, PartValue>, `${pointer}/parts`);
   if (capacitor && capacitor.shape.kind !== 'flat') circuit.capacitorShape = capacitor.shape;
+  // Its class-minimum insulation is checked (capacitor-leakage-significant), not applied.
+  if (capacitor?.dielectric && Number.isFinite(capacitor.insulationResistanceOhm)) circuit.capacitorInsulationOhm = capacitor.insulationResistanceOhm;
   if (body.load) circuit.load = { resistanceOhm: body.load.resistanceOhm, returnV: body.load.returnV ?? 0 };
   if (body.strays) circuit.strays = straysFromBody(body.strays);
   if (body.diode) {

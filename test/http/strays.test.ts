@@ -245,3 +245,47 @@ describe('capacitance at P and at the pin beside a class II C(V) timing capacito
     expect(nominalHz(loaded)).toBeLessThan(nominalHz(bare) * (1 - 1e-6));
   });
 });
+
+describe("the timing capacitor's insulation (checked, not applied)", () => {
+  // Our own scenario: a 0.1 Hz heartbeat blinker whose 10 µF timing part is an aluminium electrolytic behind 470 kΩ.
+  const blinker = {
+    topology: 'two-resistor-feedback',
+    supply: { positiveV: 10, negativeV: -10 },
+    amplifier: 'ideal',
+    parts: { rTiming: '470k', cTiming: { value: '10u', dielectric: 'electrolytic' }, rGround: '10k', rFeedback: '20k' },
+  };
+
+  it('/v1/analyze reports the frequency at the class-minimum insulation (10 MΩ for 10 µF) beside the answer without it', async () => {
+    const body = (await post('/v1/analyze', blinker)).json();
+    const check = body.checks.find((c: { code: string }) => c.code === 'capacitor-leakage-significant');
+    expect(check).toMatchObject({ severity: 'warning' });
+    expect(check.insulationResistanceOhm).toBeCloseTo(10e6, 0);
+    // The answer is the part without leakage; the check's figure is the same circuit with 10 MΩ in strays (the one model).
+    const leaky = (await post('/v1/analyze', { ...blinker, parts: { ...blinker.parts, cTiming: '10u' }, strays: { timingLeakageOhm: check.insulationResistanceOhm } })).json();
+    expect(check.frequencyWithLeakageHz / leaky.frequencyHz - 1).toBeCloseTo(0, 12);
+    expect(check.frequencyHz / body.frequencyHz - 1).toBeCloseTo(0, 12);
+  });
+
+  it('/v1/bom-checks reports it as a rule for an electrolytic timing line, not for a film one', async () => {
+    const assembly = {
+      id: 'blinker',
+      lines: [
+        { refdes: 'R1', value: '470K 1% 0603' },
+        { refdes: 'C1', value: '10uF 25V electrolytic 20%' },
+        { refdes: 'R2', value: '10K 1% 0603' },
+        { refdes: 'R3', value: '20K 1% 0603' },
+      ],
+      roles: { rTiming: 'R1', cTiming: 'C1', rGround: 'R2', rFeedback: 'R3' },
+      topology: 'two-resistor-feedback',
+      amplifier: 'ideal',
+      supply: { positiveV: 10, negativeV: -10 },
+      spec: { frequencyHz: 0.1, frequencyTolerance: 0.5 },
+    };
+    const film = { ...assembly, id: 'blinker-film', lines: assembly.lines.map((l) => (l.refdes === 'C1' ? { refdes: 'C1', value: '10uF 63V PET 5%' } : l)) };
+    const res = await post('/v1/bom-checks', { assemblies: [assembly, film] });
+    expect(res.statusCode).toBe(200);
+    const [electrolytic, pet] = res.json().results;
+    expect(electrolytic.rules.map((r: { code: string }) => r.code)).toContain('capacitor-leakage-significant');
+    expect(pet.rules.map((r: { code: string }) => r.code)).not.toContain('capacitor-leakage-significant');
+  });
+});

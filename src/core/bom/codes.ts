@@ -48,6 +48,7 @@ export const BOM_RULES = {
   storedEnergyCaution: { code: 'stored-energy-caution', severity: 'caution' },
   dynamicsApproximated: { code: 'dynamics-approximated', severity: 'info' },
   strayCapacitanceSignificant: { code: 'stray-capacitance-significant', severity: 'warning' },
+  capacitorLeakageSignificant: { code: 'capacitor-leakage-significant', severity: 'warning' },
   // --- against the spec ---
   frequencyWithinSpec: { code: 'frequency-within-spec', severity: 'info' },
   frequencyOutsideSpec: { code: 'frequency-outside-spec', severity: 'error' },

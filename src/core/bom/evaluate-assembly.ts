@@ -18,7 +18,7 @@ import { readBomLine } from './read-line.ts';
 import { ruleResult } from './rule.ts';
 import { catalogueRules } from './rules/catalogue.ts';
 import { analyzeCircuit } from '../circuit/analyze.ts';
-import { biasDeratingRule, dielectricRule, timingCapacitorShape, voltageRatingRule } from './rules/capacitor.ts';
+import { biasDeratingRule, dielectricRule, timingCapacitorInsulationOhm, timingCapacitorShape, voltageRatingRule } from './rules/capacitor.ts';
 import { circuitRules, supplyAt } from './rules/circuit.ts';
 import { seriesRule } from './rules/series.ts';
 import { dutyRule, frequencyRule, yieldRule, yieldSkippedRule } from './rules/spec.ts';
@@ -153,6 +153,8 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
     circuit = { topology: topology.id, supply: supplyAt(assembly.supply, 'nominal'), amplifier, parts };
     // A class II/III timing capacitor: every analysis of the assembly runs its C(V) (one model).
     if (capacitorShape) circuit.capacitorShape = capacitorShape;
+    const insulationOhm = capacitorLine ? timingCapacitorInsulationOhm(capacitorLine) : undefined;
+    if (insulationOhm !== undefined) circuit.capacitorInsulationOhm = insulationOhm;
     if (assembly.strays) circuit.strays = assembly.strays;
     const evaluation = circuitRules(circuit, assembly.supply);
     rules.push(...evaluation.rules);

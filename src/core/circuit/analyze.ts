@@ -16,7 +16,17 @@ import { effectsOf, evaluateOnce, EVALUATION_STATUS, nominalKey, OUTPUT_LENGTH, 
 import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck, slowerEdges } from './frequency-ceiling.ts';
 import type { AnalysisResult, ModelEffect, ModelName, OscillationFigures } from './result.ts';
 import { stateModelOf, type StateModel } from './state-model.ts';
-import { hasNodeStrays, strayCapacitanceCheck, timingNodeStrayF, withoutNodeStrays, type NodeStrayShift } from './strays.ts';
+import {
+  capacitorLeakageCheck,
+  hasNodeStrays,
+  INSULATION_SCREEN_RATIO,
+  strayCapacitanceCheck,
+  timingNodeStrayF,
+  withInsulationLeakage,
+  withoutNodeStrays,
+  type InsulationShift,
+  type NodeStrayShift,
+} from './strays.ts';
 import { findTopology, TOPOLOGY_IDS } from './topologies/index.ts';
 import type { TopologyDefinition } from './topologies/topology.ts';
 import type { Circuit } from './types.ts';
@@ -139,6 +149,23 @@ function nodeStrayShift(circuit: Circuit, frequencyHz: number, model: ModelChoic
   }
 }
 
+/**
+ * The same circuit run by the same model with the timing capacitor's class-minimum insulation across it,
+ * when the part states a dielectric and that leakage is not negligible against the timing node (the screen).
+ */
+function insulationShift(circuit: Circuit, frequencyHz: number, timingResistanceOhm: number, model: ModelChoice | undefined): InsulationShift | undefined {
+  const insulationResistanceOhm = circuit.capacitorInsulationOhm;
+  if (insulationResistanceOhm === undefined || !(timingResistanceOhm / insulationResistanceOhm > INSULATION_SCREEN_RATIO)) return undefined;
+  try {
+    const leaky = analyzeTimeDomain(prepareCircuit(withInsulationLeakage(circuit, insulationResistanceOhm), model));
+    return { insulationResistanceOhm, frequencyHz, frequencyWithLeakageHz: leaky.frequencyHz };
+  } catch (err) {
+    if (err instanceof CoreError && err.code === 'no-oscillation') return { insulationResistanceOhm, frequencyHz, frequencyWithLeakageHz: null };
+    if (err instanceof CoreError) return undefined;
+    throw err;
+  }
+}
+
 /** Points of the C(v) curve an analysis reports over the capacitor's swing. */
 const CURVE_POINTS = 9;
 
@@ -150,19 +177,22 @@ export function analyzeCircuit(circuit: Circuit, options: AnalyzeOptions = {}): 
   // An open-drain stage cannot source: whatever the walk's round-off leaves there is not a current.
   if (prepared.shape.openDrain) figures.currents.outputPeakSourceA = 0;
   const capacitanceF = circuit.parts[prepared.topology.capacitorRole];
+  // τ is set by everything at the timing node: the capacitor and the strays beside it.
+  const timingResistanceOhm = Math.max(prepared.high.tauS, prepared.low.tauS) / (capacitanceF + timingNodeStrayF(circuit));
   const checks: Check[] = [
     ...supplyChecks(circuit.supply, circuit.amplifier, capacitanceF),
     ...oscillationChecks(figures, {
       supply: circuit.supply,
       amplifier: circuit.amplifier,
       capacitanceF,
-      // τ is set by everything at the timing node: the capacitor and the strays beside it.
-      timingResistanceOhm: Math.max(prepared.high.tauS, prepared.low.tauS) / (capacitanceF + timingNodeStrayF(circuit)),
+      timingResistanceOhm,
       frequencyWithoutClampHz: prepared.dynamics && clampReached(figures, circuit.amplifier) ? frequencyWithoutClamp(circuit, options.model) : undefined,
     }),
   ];
   const strayCheck = strayCapacitanceCheck(circuit, capacitanceF, nodeStrayShift(circuit, figures.frequencyHz, options.model));
   if (strayCheck) checks.push(strayCheck);
+  const leakageCheck = capacitorLeakageCheck(insulationShift(circuit, figures.frequencyHz, timingResistanceOhm, options.model));
+  if (leakageCheck) checks.push(leakageCheck);
   if (!prepared.dynamics && hasDynamicLimits(circuit.amplifier)) {
     checks.push({
       code: CHECK_CODES.dynamicsApproximated,

@@ -30,6 +30,7 @@ export const CHECK_CODES = {
   dynamicsApproximated: 'dynamics-approximated',
   slewLimited: 'slew-limited',
   strayCapacitanceSignificant: 'stray-capacitance-significant',
+  capacitorLeakageSignificant: 'capacitor-leakage-significant',
 } as const;
 
 /** SELV limit for ripple-free DC in dry conditions (IEC 61140 / IEC 60364-4-41): 60 V. */

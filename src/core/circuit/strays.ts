@@ -186,3 +186,65 @@ export function strayCapacitanceCheck(circuit: Circuit, timingCapacitanceF: numb
   check.message = parts.join('. ');
   return check;
 }
+
+/** A frequency shift from the timing capacitor's class-minimum insulation worth a warning (our margin: a tenth of a 1 % budget). */
+export const INSULATION_SHIFT_WARNING = 0.001;
+/**
+ * The insulation is not run through the model when its conductance is below this share of the timing
+ * node's (R/R_ins): the shift is of the order of that ratio times the thresholds' leverage, and this leaves
+ * a margin of 100 below the warning (a C0G or film part behind kilohms to megohms is never run).
+ */
+export const INSULATION_SCREEN_RATIO = INSULATION_SHIFT_WARNING / 100;
+
+export interface InsulationShift {
+  insulationResistanceOhm: number;
+  frequencyHz: number;
+  /** With the insulation's leakage across the capacitor; null when the circuit then stops oscillating. */
+  frequencyWithLeakageHz: number | null;
+}
+
+/** The circuit with its timing capacitor's class-minimum insulation across it, beside any leakage it declares. */
+export function withInsulationLeakage(circuit: Circuit, insulationOhm: number): Circuit {
+  const declared = circuit.strays ?? NO_STRAYS;
+  // The strays' range floor (a contaminated board) holds the leakiest real timing part too; a part leakier
+  // still is reported with its own figure and run at the floor.
+  const ohm = Math.max(insulationOhm, LEAKAGE_RANGE_OHM.min);
+  const leakageOhm = Number.isFinite(declared.timingLeakageOhm) ? (declared.timingLeakageOhm * ohm) / (declared.timingLeakageOhm + ohm) : ohm;
+  return { ...circuit, strays: { ...declared, timingLeakageOhm: leakageOhm }, capacitorInsulationOhm: undefined };
+}
+
+/**
+ * capacitor-leakage-significant (warning): the timing capacitor's insulation resistance at its class's
+ * guaranteed minimum (parts/capacitor/insulation.ts, class-typical, from memory) would move the frequency by
+ * more than INSULATION_SHIFT_WARNING, or stop the clock. Typical parts leak less, and ceramics lose about a
+ * decade of insulation per 100 K of heating: a figure for the designer to weigh, not applied to the answer.
+ */
+export function capacitorLeakageCheck(shift: InsulationShift | undefined): Check | undefined {
+  if (!shift) return undefined;
+  const { insulationResistanceOhm, frequencyHz, frequencyWithLeakageHz } = shift;
+  const insulation = formatSi(insulationResistanceOhm, 'Ω');
+  const advice = 'give strays.timingLeakageOhm to include it in the answers, lower the timing impedance, or choose a part that leaks less (film or class I ceramic)';
+  if (frequencyWithLeakageHz === null) {
+    return {
+      code: CHECK_CODES.capacitorLeakageSignificant,
+      severity: 'warning',
+      message: `At its class's minimum insulation resistance (${insulation}) the timing capacitor's leakage would stop the oscillation: the capacitor no longer reaches a threshold; ${advice}`,
+      insulationResistanceOhm,
+      frequencyHz,
+      frequencyWithLeakageHz: null,
+      maximumFrequencyShift: INSULATION_SHIFT_WARNING,
+    };
+  }
+  const relativeShift = frequencyWithLeakageHz / frequencyHz - 1;
+  if (!(Math.abs(relativeShift) > INSULATION_SHIFT_WARNING)) return undefined;
+  return {
+    code: CHECK_CODES.capacitorLeakageSignificant,
+    severity: 'warning',
+    message: `At its class's minimum insulation resistance (${insulation}, 25 °C) the timing capacitor's leakage moves the frequency by ${(relativeShift * 100).toFixed(2)} % (${formatSi(frequencyWithLeakageHz, 'Hz')} against ${formatSi(frequencyHz, 'Hz')}); typical parts leak less, hot ceramics more; ${advice}`,
+    insulationResistanceOhm,
+    frequencyHz,
+    frequencyWithLeakageHz,
+    frequencyShift: relativeShift,
+    maximumFrequencyShift: INSULATION_SHIFT_WARNING,
+  };
+}

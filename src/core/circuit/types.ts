@@ -41,6 +41,13 @@ export interface Circuit {
   capacitorShape?: BiasShape;
   /** Board capacitances and leakage at the nodes (circuit/strays.ts); absent: none. */
   strays?: Strays;
+  /**
+   * The timing capacitor's insulation resistance as its dielectric's class guarantees it (the minimum at
+   * 25 °C, parts/capacitor/insulation.ts), when its part names a dielectric. Checked, not applied: the
+   * analysis reports what that leakage across the capacitor would do (check capacitor-leakage-significant);
+   * a leakage to include in the answers goes in strays.timingLeakageOhm.
+   */
+  capacitorInsulationOhm?: number;
 }
 
 /** What differs between the linear pieces of one output state. */

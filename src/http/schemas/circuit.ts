@@ -15,7 +15,7 @@ export const TimingCapacitor = Type.Object(
       }),
     ),
     dielectric: Type.Optional(
-      Type.String({ minLength: 1, maxLength: 40, description: 'EIA-198 code (C0G, X7R, Y5V...) or technology word (PP, PET, mica...). Class II/III codes bring a class-typical C(V) curve, ageing and leakage' }),
+      Type.String({ minLength: 1, maxLength: 40, description: 'EIA-198 code (C0G, X7R, Y5V...) or technology word (PP, PET, mica...). Class II/III codes bring a class-typical C(V) curve and ageing; every code brings its class\'s minimum insulation resistance, checked (capacitor-leakage-significant: the frequency with that leakage across the part), not applied' }),
     ),
     ratedVoltageV: Type.Optional(Type.Number({ minimum: 1, maximum: 10000, description: 'Rated DC voltage, V (class II/III default: 16 V); ceramic ratings start at a few volts, so below 1 V is refused as a slip' })),
     caseSize: Type.Optional(Type.Union(CASE_SIZES.map((c) => Type.Literal(c)), { description: 'EIA inch case code (class II/III default: 0805)' })),

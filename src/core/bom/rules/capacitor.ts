@@ -16,6 +16,7 @@ import {
   CASE_SIZES,
   DEFAULT_CASE_SIZE,
   DEFAULT_RATED_VOLTAGE_V,
+  insulationResistanceOhm,
   isBiasDependent,
   typicalBiasShape,
   type BiasShape,
@@ -117,6 +118,18 @@ function biasBasis(line: BomLineReading): { dielectric: Dielectric; ratedVoltage
  */
 export function timingCapacitorShape(line: BomLineReading): BiasShape | undefined {
   return biasBasis(line)?.shape;
+}
+
+/**
+ * The timing capacitor line's insulation resistance at its class's guaranteed minimum (25 °C), when the
+ * line states a dielectric: the assembly's analysis checks what that leakage would do (capacitor-leakage-significant).
+ */
+export function timingCapacitorInsulationOhm(line: BomLineReading): number | undefined {
+  if (line.kind !== 'capacitor' || line.value === undefined) return undefined;
+  const d = dielectricOf(line);
+  if (!d) return undefined;
+  const ohm = insulationResistanceOhm(d, line.value);
+  return Number.isFinite(ohm) ? ohm : undefined;
 }
 
 /**

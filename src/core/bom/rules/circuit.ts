@@ -25,6 +25,7 @@ const CHECK_TO_RULE: Readonly<Record<string, RuleDefinition>> = {
   [CHECK_CODES.storedEnergy]: BOM_RULES.storedEnergyCaution,
   [CHECK_CODES.dynamicsApproximated]: BOM_RULES.dynamicsApproximated,
   [CHECK_CODES.strayCapacitanceSignificant]: BOM_RULES.strayCapacitanceSignificant,
+  [CHECK_CODES.capacitorLeakageSignificant]: BOM_RULES.capacitorLeakageSignificant,
 };
 
 export type SupplyCorner = 'nominal' | 'low' | 'high';
