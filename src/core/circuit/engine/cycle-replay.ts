@@ -29,10 +29,10 @@
 import { BOUNDARY_TOLERANCE, EVENT, type ConfigModel } from './configs.ts';
 import { CyclePins } from './figures.ts';
 import { Kinematics } from './kinematics.ts';
-import { LOG, LOG_STRIDE } from './piece-log.ts';
-import { AffineProbe, exitAtRest, firstExit, PieceEnds } from './root-solve.ts';
+import { LOG, LOG_STRIDE, type PieceLog } from './piece-log.ts';
+import { AffineProbe, exitAtRest as exitAtRestImported, firstExit as firstExitImported, PieceEnds } from './root-solve.ts';
 import type { CompiledShape } from './compiled-network.ts';
-import { saturationHighV, saturationLowV, STEADY_STATE_TOLERANCE, TIME_EVENT, type OscillatorWalk, type SteadyCycle, type SteadyStart } from './walker.ts';
+import { saturationHighV as saturationHighVImported, saturationLowV as saturationLowVImported, STEADY_STATE_TOLERANCE, TIME_EVENT, type OscillatorWalk, type SteadyCycle, type SteadyStart } from './walker.ts';
 
 // The log record's fields as plain numbers (as walker.ts reads them).
 const LOG_START = LOG.startS;
@@ -49,6 +49,14 @@ const LOG_END = LOG.end;
 const TIME_TARGET = TIME_EVENT.target;
 const TIME_SLEW_END = TIME_EVENT.slewEnd;
 const THRESHOLD = EVENT.threshold;
+// The functions and constants of the other modules as module-local bindings too: each sample's replay must
+// not pay a live import binding's accessor per call (some loaders compile one to a getter call).
+const firstExit = firstExitImported;
+const exitAtRest = exitAtRestImported;
+const saturationHighV = saturationHighVImported;
+const saturationLowV = saturationLowVImported;
+const STEADY_TOLERANCE = STEADY_STATE_TOLERANCE;
+const BOUNDARY_TOL = BOUNDARY_TOLERANCE;
 
 export class CycleReplay {
   private readonly kin = new Kinematics();
@@ -106,6 +114,37 @@ export class CycleReplay {
     return new CycleReplay(shape, endings, key);
   }
 
+  // The replay's state between pieces, in fields: run() and the per-piece steps below are separate
+  // compilation units (each with its own inlining budget: one function held the budget's worth of callees,
+  // so the exit searches and φ evaluations were called out of line with their numbers boxed), and fields
+  // hand the numbers over without boxing them.
+  private slewVPerS = 0.5;
+  private delayS = 0.5;
+  private halfHystV = 0.5;
+  private vTol = 0.5;
+  private highV = 0.5;
+  private lowV = 0.5;
+  private t = 0.5;
+  private v = 0.5;
+  private s = 0.5;
+  private rate = 0.5;
+  private logic = 0;
+  private target = 0;
+  private pendingAtS = 0.5;
+  private motionFlipS = 0.5;
+  private lastRiseT = 0.5;
+  private lastRiseV = 0.5;
+  private lastFallT = 0.5;
+  private upperV = 0.5;
+  private riseS = 0.5;
+  private fallS = 0.5;
+  private riseDoneT = 0.5;
+  private fallDoneT = 0.5;
+  /** The piece just searched (pieceEnd): its duration, what ends it and the capacitor voltage there. */
+  private pieceS = 0.5;
+  private pieceKind = 0;
+  private pieceVEnd = 0.5;
+
   /**
    * Replay the cycle for `values` from the nominal's steady `start`, in the walk's
    * configuration cache and log (the walk's own switching state is left alone).
@@ -123,172 +162,208 @@ export class CycleReplay {
     if (!cfg || !(cfg.hV !== 0)) return undefined;
     const slewVPerS = values[slot.slew];
     const delayS = values[slot.delay];
-    const halfHystV = values[slot.hysteresis] / 2;
-    const vTol = BOUNDARY_TOLERANCE * cache.spanV;
-    const steadyTolV = STEADY_STATE_TOLERANCE * cache.spanV;
+    const steadyTolV = STEADY_TOLERANCE * cache.spanV;
     const highV = saturationHighV(shape, values);
     const lowV = saturationLowV(shape, values);
     // walkToCycle's hysteresis test (both states are this configuration).
     if (!((cfg.hC + cfg.hS * highV) / -cfg.hV > (cfg.hC + cfg.hS * lowV) / -cfg.hV)) return undefined;
     // The start state as OscillatorWalk.startFrom places it (the decision's own flip due a full delay ahead).
     if (delayS > 0 !== start.pendingCount > 0) return undefined;
-    let t = 0;
-    let rate = start.rateAt(slewVPerS);
-    let s = start.sourceAt(lowV, highV, rate);
-    let v = (cfg.hC + cfg.hS * s) / -cfg.hV;
-    let logic = start.logic;
-    let target = start.target;
-    let pendingAtS = start.pendingCount > 0 ? delayS : Number.NaN;
-    let motionFlipS = start.motionFlipRelS;
-    const startV = v;
-    const startS = s;
-    const startLogic = logic;
-    const startTarget = target;
+    this.slewVPerS = slewVPerS;
+    this.delayS = delayS;
+    this.halfHystV = values[slot.hysteresis] / 2;
+    this.vTol = BOUNDARY_TOL * cache.spanV;
+    this.highV = highV;
+    this.lowV = lowV;
+    const rate = start.rateAt(slewVPerS);
+    const s = start.sourceAt(lowV, highV, rate);
+    const v = (cfg.hC + cfg.hS * s) / -cfg.hV;
+    this.t = 0;
+    this.rate = rate;
+    this.s = s;
+    this.v = v;
+    this.logic = start.logic;
+    this.target = start.target;
+    this.pendingAtS = start.pendingCount > 0 ? delayS : Number.NaN;
+    this.motionFlipS = start.motionFlipRelS;
+    const startLogic = start.logic;
+    const startTarget = start.target;
     const startPendingRelS = start.pendingCount > 0 ? delayS : 0;
     // What the cycle's figures need (OscillatorWalk.startFrom / flipDecision / motionDone).
-    let lastRiseT = Number.NaN;
-    let lastRiseV = Number.NaN;
-    let lastFallT = Number.NaN;
-    let upperV = Number.NaN;
-    let riseS = Number.NaN;
-    let fallS = Number.NaN;
-    let riseDoneT = Number.NaN;
-    let fallDoneT = Number.NaN;
-    if (logic) {
-      lastRiseT = 0;
-      lastRiseV = v;
+    this.lastRiseT = this.lastRiseV = this.lastFallT = this.upperV = Number.NaN;
+    this.riseS = this.fallS = this.riseDoneT = this.fallDoneT = Number.NaN;
+    if (startLogic) {
+      this.lastRiseT = 0;
+      this.lastRiseV = v;
     } else {
-      lastFallT = 0;
-      upperV = v;
+      this.lastFallT = 0;
+      this.upperV = v;
     }
     const log = walk.log;
     log.clear();
-    const pins = this.pins;
-    pins.reserve(this.endings.length);
-    const kin = this.kin;
-    const ends = this.ends;
     const endings = this.endings;
+    this.pins.reserve(endings.length);
     for (let p = 0; p < endings.length; p++) {
-      // OscillatorWalk.step on this configuration: the earliest time event, then the function exits.
-      kin.set(cfg.a, cfg.b0 + cfg.bS * s, cfg.bS * rate, v, s, rate);
-      let best = Infinity;
-      let kind = 0;
-      if (!Number.isNaN(pendingAtS)) {
-        best = Math.max(0, pendingAtS - t);
-        kind = TIME_TARGET;
-      }
-      if (rate !== 0) {
-        const dt = Math.max(0, ((target ? highV : lowV) - s) / rate);
-        if (dt < best) {
-          best = dt;
-          kind = TIME_SLEW_END;
-        }
-      }
-      // The far end as PieceEnds.fill computes it for a piece with a time event (∫v dt left out); a ramp's
-      // exit search reads both ends, a piece at rest decides from them at once (exitTime).
-      const horizonS = best;
-      const vT = horizonS < Infinity ? kin.vAtEnd(horizonS) : Number.NaN;
-      if (rate !== 0) ends.fillWithEnd(kin, horizonS, vT);
-      // The threshold (k = −1: h, signed for the decision) and each event function of the configuration,
-      // watched as OscillatorWalk.step watches them; an event function that would end the piece first
-      // leaves the nominal's sequence.
-      const sg = logic ? 1 : -1;
-      for (let k = -1; k < cfg.eventCount; k++) {
-        const threshold = k < 0;
-        const c0 = threshold ? sg * cfg.hC + halfHystV : cfg.evC[k];
-        const cv = threshold ? sg * cfg.hV : cfg.evV[k];
-        const cs = threshold ? sg * cfg.hS : cfg.evS[k];
-        const te = this.exitTime(c0, cv, cs, threshold ? vTol : cfg.evTol[k], horizonS, vT);
-        if (!(te < best)) continue;
-        if (!threshold) return undefined;
-        best = te;
-        kind = THRESHOLD;
-      }
-      if (kind !== endings[p] || !(best > 0 && best < Infinity)) return undefined;
-      const vEnd = kind === THRESHOLD ? kin.vAtEnd(best) : vT;
-      // The walk's log record (OscillatorWalk.step writes the same fields; ∫v dt is left out: NaN).
-      const i = log.append();
-      const d = log.data;
-      d[i + LOG_START] = t;
-      d[i + LOG_DURATION] = best;
-      d[i + LOG_V0] = v;
-      d[i + LOG_S0] = s;
-      d[i + LOG_RATE] = rate;
-      d[i + LOG_KEY] = cfg.key;
-      d[i + LOG_LOGIC] = logic;
-      d[i + LOG_TARGET] = target;
-      d[i + LOG_VEND] = vEnd;
-      d[i + LOG_INTEGRAL] = Number.NaN;
-      d[i + LOG_END] = kind;
-      const sEnd = kin.s(best);
-      pins.setPiece(p, cfg, v, s, vEnd, sEnd);
-      v = vEnd;
-      s = sEnd;
-      t += best;
-      // The event (OscillatorWalk.apply, changeTarget, flipDecision, motionDone for a push-pull stage).
-      let motionDone = false;
-      if (kind === THRESHOLD) {
-        logic ^= 1;
-        if (logic === 0) {
-          upperV = v;
-          lastFallT = t;
-        } else {
-          lastRiseT = t;
-          lastRiseV = v;
-        }
-        if (delayS > 0) pendingAtS = t + delayS;
-      }
-      if (kind === TIME_TARGET || (kind === THRESHOLD && !(delayS > 0))) {
-        if (kind === TIME_TARGET) pendingAtS = Number.NaN;
-        target ^= 1;
-        motionFlipS = t - (kind === TIME_TARGET ? delayS : 0);
-        const level = target ? highV : lowV;
-        if (!Number.isFinite(slewVPerS) || s === level) {
-          s = level;
-          rate = 0;
-          motionDone = true;
-        } else {
-          rate = level > s ? slewVPerS : -slewVPerS;
-        }
-      } else if (kind === TIME_SLEW_END) {
-        s = target ? highV : lowV;
-        rate = 0;
-        motionDone = true;
-      }
-      if (motionDone) {
-        if (target) {
-          riseS = t - motionFlipS;
-          riseDoneT = t;
-        } else {
-          fallS = t - motionFlipS;
-          fallDoneT = t;
-        }
-      }
-      // OscillatorWalk.resolve would flip whatever the event left violated: not the nominal's sequence.
-      if (violated(cfg, v, s, logic ? 1 : -1, halfHystV, vTol)) return undefined;
+      if (!this.pieceEnd(cfg, endings[p])) return undefined;
+      if (!this.logAndApply(log, cfg, p)) return undefined;
     }
     // OscillatorWalk.recordDecision: back at the start's decision, the switching state must repeat.
+    const t = this.t;
+    const pendingAtS = this.pendingAtS;
     const pendingRelS = Number.isNaN(pendingAtS) ? 0 : pendingAtS - t;
     if (
-      logic !== startLogic ||
-      target !== startTarget ||
+      this.logic !== startLogic ||
+      this.target !== startTarget ||
       Number.isNaN(pendingAtS) !== !(start.pendingCount > 0) ||
-      !(Math.abs(v - startV) <= steadyTolV) ||
-      !(Math.abs(s - startS) <= steadyTolV) ||
-      !(Math.abs(pendingRelS - startPendingRelS) <= STEADY_STATE_TOLERANCE * t)
+      !(Math.abs(this.v - v) <= steadyTolV) ||
+      !(Math.abs(this.s - s) <= steadyTolV) ||
+      !(Math.abs(pendingRelS - startPendingRelS) <= STEADY_TOLERANCE * t)
     ) {
       return undefined;
     }
     const c = this.cycle;
     c.endIndex = log.count;
     c.periodS = t;
-    c.risingS = logic === 1 ? 0 : lastRiseT;
-    c.lowerV = lastRiseV;
-    c.upperV = upperV;
-    c.decisionHighS = logic === 1 ? lastFallT : t - lastRiseT;
-    c.riseS = riseDoneT >= 0 ? riseS : Number.NaN;
-    c.fallS = fallDoneT >= 0 ? fallS : Number.NaN;
+    c.risingS = this.logic === 1 ? 0 : this.lastRiseT;
+    c.lowerV = this.lastRiseV;
+    c.upperV = this.upperV;
+    c.decisionHighS = this.logic === 1 ? this.lastFallT : t - this.lastRiseT;
+    c.riseS = this.riseDoneT >= 0 ? this.riseS : Number.NaN;
+    c.fallS = this.fallDoneT >= 0 ? this.fallS : Number.NaN;
     return c;
+  }
+
+  /**
+   * OscillatorWalk.step on this configuration from the replay's state: the earliest time event, then the
+   * function exits. Leaves the piece's duration, end and far-end voltage in pieceS, pieceKind, pieceVEnd;
+   * false when the piece does not end as the nominal's did (`expected`).
+   */
+  private pieceEnd(cfg: ConfigModel, expected: number): boolean {
+    const kin = this.kin;
+    const s = this.s;
+    const rate = this.rate;
+    kin.set(cfg.a, cfg.b0 + cfg.bS * s, cfg.bS * rate, this.v, s, rate);
+    let best = Infinity;
+    let kind = 0;
+    const pendingAtS = this.pendingAtS;
+    if (!Number.isNaN(pendingAtS)) {
+      best = Math.max(0, pendingAtS - this.t);
+      kind = TIME_TARGET;
+    }
+    if (rate !== 0) {
+      const dt = Math.max(0, ((this.target ? this.highV : this.lowV) - s) / rate);
+      if (dt < best) {
+        best = dt;
+        kind = TIME_SLEW_END;
+      }
+    }
+    // The far end as PieceEnds.fill computes it for a piece with a time event (∫v dt left out); a ramp's
+    // exit search reads both ends, a piece at rest decides from them at once (exitTime).
+    const horizonS = best;
+    const vT = horizonS < Infinity ? kin.vAtEnd(horizonS) : Number.NaN;
+    if (rate !== 0) this.ends.fillWithEnd(kin, horizonS, vT);
+    // The threshold (k = −1: h, signed for the decision) and each event function of the configuration,
+    // watched as OscillatorWalk.step watches them; an event function that would end the piece first
+    // leaves the nominal's sequence.
+    const sg = this.logic ? 1 : -1;
+    for (let k = -1; k < cfg.eventCount; k++) {
+      const threshold = k < 0;
+      const c0 = threshold ? sg * cfg.hC + this.halfHystV : cfg.evC[k];
+      const cv = threshold ? sg * cfg.hV : cfg.evV[k];
+      const cs = threshold ? sg * cfg.hS : cfg.evS[k];
+      const te = this.exitTime(c0, cv, cs, threshold ? this.vTol : cfg.evTol[k], horizonS, vT);
+      if (!(te < best)) continue;
+      if (!threshold) return false;
+      best = te;
+      kind = THRESHOLD;
+    }
+    if (kind !== expected || !(best > 0 && best < Infinity)) return false;
+    this.pieceS = best;
+    this.pieceKind = kind;
+    this.pieceVEnd = kind === THRESHOLD ? kin.vAtEnd(best) : vT;
+    return true;
+  }
+
+  /**
+   * The searched piece logged as piece p (the walk's record, its pins), then its event applied
+   * (OscillatorWalk.apply, changeTarget, flipDecision, motionDone for a push-pull stage); false when the
+   * event leaves something violated (OscillatorWalk.resolve would flip it: not the nominal's sequence).
+   */
+  private logAndApply(log: PieceLog, cfg: ConfigModel, p: number): boolean {
+    const best = this.pieceS;
+    const kind = this.pieceKind;
+    const vEnd = this.pieceVEnd;
+    const v0 = this.v;
+    const s0 = this.s;
+    const rate0 = this.rate;
+    // The walk's log record (OscillatorWalk.step writes the same fields; ∫v dt is left out: NaN).
+    const i = log.append();
+    const d = log.data;
+    d[i + LOG_START] = this.t;
+    d[i + LOG_DURATION] = best;
+    d[i + LOG_V0] = v0;
+    d[i + LOG_S0] = s0;
+    d[i + LOG_RATE] = rate0;
+    d[i + LOG_KEY] = cfg.key;
+    d[i + LOG_LOGIC] = this.logic;
+    d[i + LOG_TARGET] = this.target;
+    d[i + LOG_VEND] = vEnd;
+    d[i + LOG_INTEGRAL] = Number.NaN;
+    d[i + LOG_END] = kind;
+    let s = s0 + rate0 * best; // Kinematics.s at the piece's end
+    this.pins.setPiece(p, cfg, v0, s0, vEnd, s);
+    const v = vEnd;
+    const t = this.t + best;
+    this.v = v;
+    this.t = t;
+    const delayS = this.delayS;
+    let rate = rate0;
+    let target = this.target;
+    let logic = this.logic;
+    let motionDone = false;
+    if (kind === THRESHOLD) {
+      logic ^= 1;
+      this.logic = logic;
+      if (logic === 0) {
+        this.upperV = v;
+        this.lastFallT = t;
+      } else {
+        this.lastRiseT = t;
+        this.lastRiseV = v;
+      }
+      if (delayS > 0) this.pendingAtS = t + delayS;
+    }
+    if (kind === TIME_TARGET || (kind === THRESHOLD && !(delayS > 0))) {
+      if (kind === TIME_TARGET) this.pendingAtS = Number.NaN;
+      target ^= 1;
+      this.target = target;
+      this.motionFlipS = t - (kind === TIME_TARGET ? delayS : 0);
+      const level = target ? this.highV : this.lowV;
+      const slewVPerS = this.slewVPerS;
+      if (!Number.isFinite(slewVPerS) || s === level) {
+        s = level;
+        rate = 0;
+        motionDone = true;
+      } else {
+        rate = level > s ? slewVPerS : -slewVPerS;
+      }
+    } else if (kind === TIME_SLEW_END) {
+      s = target ? this.highV : this.lowV;
+      rate = 0;
+      motionDone = true;
+    }
+    this.s = s;
+    this.rate = rate;
+    if (motionDone) {
+      if (target) {
+        this.riseS = t - this.motionFlipS;
+        this.riseDoneT = t;
+      } else {
+        this.fallS = t - this.motionFlipS;
+        this.fallDoneT = t;
+      }
+    }
+    return !violated(cfg, v, s, logic ? 1 : -1, this.halfHystV, this.vTol);
   }
 
   /**

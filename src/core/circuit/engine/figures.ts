@@ -15,16 +15,25 @@
  * - firstEdgeS: first 50 % crossing of the pin after power-up;
  * - peaks and extremes: exact over every piece (interior extrema included).
  */
-import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
+import { durationBetween as durationBetweenImported, REFERENCE_FRACTION, referenceLevelV as referenceLevelVImported } from '../../scope/ieee181.ts';
 import { powerUpState } from '../closed-form.ts';
 import type { EdgeTimes } from '../frequency-ceiling.ts';
 import type { ModelEffect, OscillationFigures, StateSummary } from '../result.ts';
 import type { StateModel } from '../state-model.ts';
 import { configKey, STAGE, type ConfigCache, type ConfigModel } from './configs.ts';
 import type { PieceEvaluator } from './piece-evaluator.ts';
-import { LOG, LOG_STRIDE } from './piece-log.ts';
+import { LOG, LOG_STRIDE as LOG_STRIDE_IMPORTED } from './piece-log.ts';
 import type { OscillatorWalk, SteadyCycle } from './walker.ts';
 import { MAX_STATES, ModalKinematics, QUANTITY, ROW, R_C, R_X, rowAt, SLOT } from './modal.ts';
+
+// Module-local bindings: the per-evaluation reads of the prepared model (levels, crossings) must not pay a
+// live import binding's accessor per read (some loaders compile one to a getter call).
+const LOG_STRIDE = LOG_STRIDE_IMPORTED;
+const durationBetween = durationBetweenImported;
+const referenceLevelV = referenceLevelVImported;
+const FRACTION_LOWER = REFERENCE_FRACTION.lower;
+const FRACTION_MID = REFERENCE_FRACTION.mid;
+const FRACTION_UPPER = REFERENCE_FRACTION.upper;
 
 export interface TimeDomainFigures extends OscillationFigures {
   edges: EdgeTimes;
@@ -422,10 +431,10 @@ const crossScratch = new Float64Array(2);
  * 10 % crossing in [1].
  */
 export function transitionDurations(walk: OscillatorWalk, cycle: SteadyCycle, highV: number, lowV: number, out: Float64Array, pins: CyclePins, arrivals?: Float64Array): void {
-  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.lower), crossScratch, pins);
+  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, FRACTION_LOWER), crossScratch, pins);
   const rise10 = crossScratch[0];
   const fall10 = crossScratch[1];
-  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.upper), crossScratch, pins);
+  pinCrossings(walk, cycle, referenceLevelV(lowV, highV, FRACTION_UPPER), crossScratch, pins);
   out[0] = durationBetween(rise10, crossScratch[0], cycle.periodS);
   out[1] = durationBetween(crossScratch[1], fall10, cycle.periodS);
   if (arrivals) {
@@ -502,7 +511,7 @@ export function figuresFromWalk(walk: OscillatorWalk, cycle: SteadyCycle, ctx: F
   cycleLevels(walk, cycle, levelScratch, pins);
   const highV = Number.isNaN(levelScratch[0]) ? meanHighV : levelScratch[0];
   const lowV = Number.isNaN(levelScratch[1]) ? meanLowV : levelScratch[1];
-  const midV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid);
+  const midV = referenceLevelV(lowV, highV, FRACTION_MID);
   if (extras) extras.outputMidV = midV;
 
   const pieces = cycle.endIndex - cycle.startIndex;

@@ -13,7 +13,15 @@
  * every quantity affine in (v, s) has at most one extremum per piece. Root
  * finding and extremum search rely on that.
  */
-import { phi2, phiAll, series1, series2, SERIES_LIMIT } from './phi.ts';
+import * as phi from './phi.ts';
+
+// The φ-functions read through module-local bindings: every root solve's innermost call must not pay a live
+// import binding's accessor per read (some loaders compile one to a getter call).
+const phi2 = phi.phi2;
+const phiAll = phi.phiAll;
+const series1 = phi.series1;
+const series2 = phi.series2;
+const SERIES_LIMIT = phi.SERIES_LIMIT;
 
 export class Kinematics {
   a = 0;

@@ -24,11 +24,23 @@ import type { Circuit } from '../types.ts';
 import type { ModelEffect, ModelName } from '../result.ts';
 import { CLAMP, configKey, NetworkCoefficients, STAGE, type CompiledShape, type ParameterInfo } from './compiled-network.ts';
 import { diodeBits, timingNodeStrayF } from './configs.ts';
-import { durationBetween, REFERENCE_FRACTION, referenceLevelV } from '../../scope/ieee181.ts';
+import { durationBetween as durationBetweenImported, REFERENCE_FRACTION, referenceLevelV as referenceLevelVImported } from '../../scope/ieee181.ts';
 import { CycleReplay } from './cycle-replay.ts';
-import { cycleLevels, CyclePins, pinCrossings, transitionDurations } from './figures.ts';
-import { exponentialExit } from './root-solve.ts';
+import { cycleLevels as cycleLevelsImported, CyclePins, pinCrossings as pinCrossingsImported, transitionDurations as transitionDurationsImported } from './figures.ts';
+import { exponentialExit as exponentialExitImported } from './root-solve.ts';
 import { OscillatorWalk, saturationHighV, saturationLowV, SteadyStart, type SteadyCycle } from './walker.ts';
+
+// Module-local bindings: every evaluation calls these, and must not pay a live import binding's accessor per
+// call (some loaders compile one to a getter call).
+const cycleLevels = cycleLevelsImported;
+const pinCrossings = pinCrossingsImported;
+const transitionDurations = transitionDurationsImported;
+const durationBetween = durationBetweenImported;
+const referenceLevelV = referenceLevelVImported;
+const exponentialExit = exponentialExitImported;
+const FRACTION_LOWER = REFERENCE_FRACTION.lower;
+const FRACTION_MID = REFERENCE_FRACTION.mid;
+const FRACTION_UPPER = REFERENCE_FRACTION.upper;
 
 /** Result status of one evaluation (0 = oscillates; the figures are then in the output). */
 export const EVALUATION_STATUS = {
@@ -303,11 +315,11 @@ function twoPieceCycle(shape: CompiledShape, values: ArrayLike<number>, dynamics
   // A reference level is crossed by both jumps when it lies above lowV and fallBottomV and at or below highV and riseTopV.
   const jumpsFromV = Math.max(lowV, fallBottomV);
   const jumpsToV = Math.min(highV, riseTopV);
-  const midV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid);
+  const midV = referenceLevelV(lowV, highV, FRACTION_MID);
   if (!(jumpsFromV < midV && midV <= jumpsToV)) return undefined;
   if (withTransitions) {
-    const tenV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.lower);
-    const ninetyV = referenceLevelV(lowV, highV, REFERENCE_FRACTION.upper);
+    const tenV = referenceLevelV(lowV, highV, FRACTION_LOWER);
+    const ninetyV = referenceLevelV(lowV, highV, FRACTION_UPPER);
     if (!(jumpsFromV < tenV && tenV <= jumpsToV && jumpsFromV < ninetyV && ninetyV <= jumpsToV)) return undefined;
   }
   out[0] = periodS;
@@ -356,7 +368,7 @@ export function readTiming(walk: OscillatorWalk, cycle: SteadyCycle, out: Float6
   const lowV = levels[1];
   let timeHighS = Number.NaN;
   if (!Number.isNaN(highV) && !Number.isNaN(lowV)) {
-    pinCrossings(walk, cycle, referenceLevelV(lowV, highV, REFERENCE_FRACTION.mid), crossings, pins);
+    pinCrossings(walk, cycle, referenceLevelV(lowV, highV, FRACTION_MID), crossings, pins);
     if (!Number.isNaN(crossings[0]) && !Number.isNaN(crossings[1])) timeHighS = durationBetween(crossings[0], crossings[1], periodS);
   }
   if (Number.isNaN(timeHighS)) timeHighS = cycle.decisionHighS; // the pin never crosses its midpoint: the decision intervals
