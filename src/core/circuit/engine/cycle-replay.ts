@@ -140,7 +140,7 @@ export class CycleReplay {
   private fallS = 0.5;
   private riseDoneT = 0.5;
   private fallDoneT = 0.5;
-  /** The piece just searched (pieceEnd): its duration, what ends it and the capacitor voltage there. */
+  /** The piece just searched (pieceEnd): its duration, what ends it and the capacitor voltage at its horizon. */
   private pieceS = 0.5;
   private pieceKind = 0;
   private pieceVEnd = 0.5;
@@ -235,7 +235,7 @@ export class CycleReplay {
 
   /**
    * OscillatorWalk.step on this configuration from the replay's state: the earliest time event, then the
-   * function exits. Leaves the piece's duration, end and far-end voltage in pieceS, pieceKind, pieceVEnd;
+   * function exits. Leaves the piece's duration, end and the voltage at its horizon in pieceS, pieceKind, pieceVEnd;
    * false when the piece does not end as the nominal's did (`expected`).
    */
   private pieceEnd(cfg: ConfigModel, expected: number): boolean {
@@ -280,7 +280,9 @@ export class CycleReplay {
     if (kind !== expected || !(best > 0 && best < Infinity)) return false;
     this.pieceS = best;
     this.pieceKind = kind;
-    this.pieceVEnd = kind === THRESHOLD ? kin.vAtEnd(best) : vT;
+    // A threshold ends the piece before its horizon: logAndApply evaluates v there (keeping this function's
+    // inlining budget for the exit searches); a time event ends it at the horizon, whose v is known.
+    this.pieceVEnd = vT;
     return true;
   }
 
@@ -292,7 +294,7 @@ export class CycleReplay {
   private logAndApply(log: PieceLog, cfg: ConfigModel, p: number): boolean {
     const best = this.pieceS;
     const kind = this.pieceKind;
-    const vEnd = this.pieceVEnd;
+    const vEnd = kind === THRESHOLD ? this.kin.vAtEnd(best) : this.pieceVEnd;
     const v0 = this.v;
     const s0 = this.s;
     const rate0 = this.rate;
