@@ -22,11 +22,15 @@ import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
 import { MAX_STATES, QUANTITY, ROW, R_C, R_S, R_X, SLOT, type DynamicModel } from './modal.ts';
 import { WALK_FIGURES, type WalkFigureName } from '../../amplifiers/figures-table.ts';
 import type { AmplifierModel } from '../../amplifiers/model.ts';
-import { NODE } from '../nodes.ts';
+import { NODE as NODE_IMPORTED } from '../nodes.ts';
 import { DEFAULT_STEERING_DIODE } from '../topologies/diode-steered.ts';
 import type { Branch } from '../network.ts';
 import type { TopologyDefinition } from '../topologies/topology.ts';
 import type { Circuit, PieceConfig } from '../types.ts';
+
+// Module-local binding: every solve reads the node numbers, and must not pay a live import binding's accessor
+// per read (some loaders compile one to a getter call).
+const NODE = NODE_IMPORTED;
 
 /** Kinds of entry in a parameter vector. */
 export type ParameterKind = 'resistor' | 'capacitor' | 'supply' | 'amplifier' | 'load' | 'diode' | 'stray';

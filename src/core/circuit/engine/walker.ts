@@ -31,7 +31,7 @@
 import { CoreError } from '../../errors.ts';
 import { formatVolts } from '../format.ts';
 import type { CompiledShape } from './compiled-network.ts';
-import { CLAMP, configKey, STAGE } from './compiled-network.ts';
+import { CLAMP, configKey, STAGE as STAGE_IMPORTED } from './compiled-network.ts';
 import { BOUNDARY_TOLERANCE, ConfigCache, diodeBits, EVENT, type ConfigModel } from './configs.ts';
 import { delayForRampS } from '../../amplifiers/propagation-delay.ts';
 import { CapacitorKinematics } from './capacitor-kinematics.ts';
@@ -40,6 +40,10 @@ import { LOG, PieceLog } from './piece-log.ts';
 import { AffineProbe, firstExit, PieceEnds } from './root-solve.ts';
 import { MAX_STATES, ModalKinematics, QUANTITY, R_C, R_S, R_X, rowAt, SLOT } from './modal.ts';
 import type { DynamicModel } from './modal.ts';
+
+// Module-local binding: SteadyStart.sourceAt reads it for every prepared evaluation, and must not pay a live
+// import binding's accessor per read (some loaders compile one to a getter call).
+const STAGE = STAGE_IMPORTED;
 
 /** Full switching cycles the walk may take to repeat before it gives up. */
 export const MAX_CYCLES = 200;
