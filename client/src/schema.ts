@@ -3959,7 +3959,7 @@ export interface components {
             }[];
             /** @description Monte Carlo settings (default 10 000 samples, seed 1, normal) */
             monteCarlo?: {
-                /** @description Samples (up to 1e6 with the closed form; 422 beyond) */
+                /** @description Samples (up to 1e6; 422 beyond). Also 422 limit-exceeded, before the bulk of the samples, when the time of the first samples projects the run past half the task deadline (slow circuits: a C(V) capacitor with strays costs ~2 ms an evaluation); figures.limit is the count that would fit */
                 samples: number;
                 /** @description Seed (default 1): the same seed gives the same result */
                 seed?: number;

@@ -162,3 +162,37 @@ describe('event loop stays free during a heavy run', () => {
     }
   }, 60_000);
 });
+
+describe('Monte Carlo too costly for the task deadline', () => {
+  // Our own scenario: the ±10 V timebase built with a small-case X7R part (C(V)), 470 pF at P and 1 nF on the
+  // pin behind 200 Ω: each evaluation solves collocation pieces (~2 ms, bench/capacitor.bench.ts).
+  const trace = {
+    topology: 'two-resistor-feedback',
+    supply: { positiveV: 10, negativeV: -10 },
+    amplifier: { outputResistanceOhm: 200 },
+    parts: { rTiming: '47k', cTiming: { value: '10n', dielectric: 'X7R', ratedVoltageV: 6.3, caseSize: '0402' }, rGround: '10k', rFeedback: '20k' },
+    strays: { thresholdNodeF: 470e-12, outputNodeF: 1e-9 },
+  };
+
+  it('the default 10,000 samples are refused with 422 at /monteCarlo/samples, not stopped with 503', async () => {
+    // A 4 s deadline (as TICKWRIGHT_TASK_DEADLINE_MS=4000 sets it): 10,000 × ~2 ms would outlast it several times.
+    const server = await testApp({ config: { taskDeadlineMs: 4000 } });
+    try {
+      const started = performance.now();
+      const res = await server.inject({ method: 'POST', url: '/v1/tolerance', payload: { circuit: trace, tolerances: { rTiming: 0.01, cTiming: 0.1 } } });
+      const elapsedMs = performance.now() - started;
+      await expectContract(res, 'POST', '/v1/tolerance');
+      expect(res.statusCode).toBe(422);
+      const problem = res.json();
+      expect(problem.code).toBe('limit-exceeded');
+      expect(problem.errors[0].pointer).toBe('/monteCarlo/samples');
+      expect(problem.detail).toMatch(/per evaluation: a C\(V\) timing capacitor with strays at P and on the output pin is solved piece by piece/);
+      console.log(`C(V) + strays, 10,000 samples, 4000 ms deadline: 422 after ${elapsedMs.toFixed(0)} ms — ${problem.detail}`);
+      expect(problem.figures.requested).toBe(10_000);
+      expect(problem.figures.limit).toBeGreaterThan(0);
+      expect(problem.figures.limit).toBeLessThan(10_000);
+    } finally {
+      await server.close();
+    }
+  }, 30_000);
+});

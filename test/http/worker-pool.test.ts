@@ -48,14 +48,14 @@ describe('WorkerPool from the TypeScript source', () => {
 
   it('runs a named task in a thread and returns its value', async () => {
     expect(await pool.run('echo', { a: 1, limit: Infinity })).toEqual({ a: 1, limit: Infinity });
-    const r = await pool.run('tolerance', { circuit, tolerances: { rTiming: 0.01 }, monteCarlo: { samples: 1000, seed: 1 } });
+    const r = await pool.run('tolerance', { request: { circuit, tolerances: { rTiming: 0.01 }, monteCarlo: { samples: 1000, seed: 1 } } });
     // Sedra & Smith astable: f = 1/(2RC·ln((1+β)/(1−β))), β = 1/3 -> ln 2.
     expect(r.nominal.frequencyHz * 2 * 10e3 * 10e-9 * Math.log(2)).toBeCloseTo(1, 12);
     expect(pool.stats.completed).toBeGreaterThanOrEqual(2);
   });
 
   it('rethrows a core error as CoreError with its code and pointer', async () => {
-    const err = await pool.run('tolerance', { circuit, tolerances: { rTop: 0.01 } }).catch((e: unknown) => e);
+    const err = await pool.run('tolerance', { request: { circuit, tolerances: { rTop: 0.01 } } }).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(CoreError);
     expect(err).toMatchObject({ code: 'invalid-value', pointer: '/tolerances/rTop' });
   });
@@ -112,8 +112,8 @@ describe('WorkerPool from compiled JavaScript', () => {
       const circuit = ${JSON.stringify(circuit).replace(/null/g, 'Infinity')};
       circuit.amplifier.inputCommonModeLowMarginV = -Infinity;
       circuit.amplifier.inputCommonModeHighMarginV = -Infinity;
-      const r = await pool.run('tolerance', { circuit, tolerances: { rTiming: 0.01 }, monteCarlo: { samples: 1000, seed: 1 } });
-      const err = await pool.run('tolerance', { circuit, tolerances: { rTop: 0.01 } }).catch((e) => e);
+      const r = await pool.run('tolerance', { request: { circuit, tolerances: { rTiming: 0.01 }, monteCarlo: { samples: 1000, seed: 1 } } });
+      const err = await pool.run('tolerance', { request: { circuit, tolerances: { rTop: 0.01 } } }).catch((e) => e);
       console.log(JSON.stringify({ entry: workerEntry(), f: r.nominal.frequencyHz, errName: err.name, code: err.code }));
       await pool.close();
     `;

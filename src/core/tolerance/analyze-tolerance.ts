@@ -12,6 +12,7 @@ import { createSampleEvaluator } from './sample-evaluator.ts';
 import { parameterSensitivities, varianceBudget } from './sensitivity.ts';
 import { summarize, wilsonInterval } from './statistics.ts';
 import type { FrequencySpec, MonteCarloResult, PartSensitivity, ToleranceRequest, ToleranceResult, VariationKind } from './types.ts';
+import { defaultClock, evaluationCostReason, monteCarloPilot, type AnalysisTimeBudget } from './time-budget.ts';
 import { buildVariationModel } from './variation-model.ts';
 import { worstCaseSearch } from './worst-case.ts';
 
@@ -75,6 +76,11 @@ export interface ToleranceRunOptions {
   keepSamples?: boolean;
   /** Parts to compute (default: all). With this option the result type marks them optional. */
   parts?: ToleranceParts;
+  /**
+   * Time the caller allows the analysis (time-budget.ts): Monte Carlo times its first samples and refuses
+   * with limit-exceeded at /monteCarlo/samples when the projected run would not fit. Absent: no limit.
+   */
+  budget?: AnalysisTimeBudget;
 }
 
 export interface ToleranceRun extends ToleranceResult {
@@ -100,6 +106,8 @@ export function runToleranceAnalysis(request: ToleranceRequest, options: Toleran
 export function runToleranceAnalysis(request: ToleranceRequest, options: ToleranceRunOptions = {}): PartialToleranceRun {
   const wantMonteCarlo = options.parts?.monteCarlo ?? true;
   const wantSensitivities = options.parts?.sensitivities ?? true;
+  const clock = options.budget?.clock ?? defaultClock;
+  const startedMs = clock();
   const evaluator = withPrefix('/circuit', () => createSampleEvaluator(request.circuit, request.model ?? 'auto'));
   const model = buildVariationModel(request, evaluator.parameters, evaluator.nominal, evaluator.model);
   if (request.spec) checkSpec(request.spec);
@@ -117,7 +125,21 @@ export function runToleranceAnalysis(request: ToleranceRequest, options: Toleran
   const nominal = { frequencyHz: 1 / out[0], dutyCycle: out[1] };
 
   const worstCase = worstCaseSearch(model, evaluator, request.spec);
-  const drawn = mcOptions ? drawSamples(model, evaluator, mcOptions) : undefined;
+  const timeBudget = options.budget;
+  const pilot = timeBudget && mcOptions
+    ? monteCarloPilot(
+        {
+          requestedSamples: mcOptions.samples,
+          // parameterSensitivities: two per parameter; varianceBudget: two per dimension.
+          laterEvaluations: wantSensitivities ? 2 * (model.parameters.length + model.dimensions.length) : 0,
+          limitMs: timeBudget.limitMs,
+          costReason: evaluationCostReason(request.circuit, evaluator.model === 'time-domain'),
+          ...(timeBudget.alternative ? { alternative: timeBudget.alternative } : {}),
+        },
+        () => clock() - startedMs,
+      )
+    : undefined;
+  const drawn = mcOptions ? drawSamples(model, evaluator, mcOptions, pilot, clock) : undefined;
   const monteCarlo = drawn && mcOptions ? monteCarloResult(drawn, mcOptions, request.spec) : undefined;
 
   let sensitivities: PartSensitivity[] | undefined;

@@ -25,6 +25,13 @@ export interface SamplingOptions {
   sigmaPerTolerance: number;
 }
 
+/** Looks at the run every `every` samples until it answers true (time-budget.ts); throwing stops the run there. */
+export interface SamplingPilot {
+  every: number;
+  /** Called with the samples drawn so far and their time, ms; true: done looking. */
+  check(samplesDrawn: number, pilotMs: number): boolean;
+}
+
 export interface MonteCarloSamples {
   /** 1/period per sample, Hz (NaN where the sample does not oscillate). */
   frequencyHz: Float64Array;
@@ -40,10 +47,22 @@ export function checkSigmaPerTolerance(sigmaPerTolerance: number): void {
   }
 }
 
-export function drawSamples(model: VariationModel, evaluator: SampleEvaluator, options: SamplingOptions): MonteCarloSamples {
+/**
+ * `pilot`: looks at the time of the first samples, inside the one loop, so the stream of an admitted run
+ * is the unchecked run's draw for draw. `clock`: monotonic ms (elapsedS and the pilot's time).
+ */
+export function drawSamples(
+  model: VariationModel,
+  evaluator: SampleEvaluator,
+  options: SamplingOptions,
+  pilot?: SamplingPilot,
+  clock: () => number = () => performance.now(),
+): MonteCarloSamples {
   const { samples, seed, distribution, sigmaPerTolerance } = options;
   checkSigmaPerTolerance(sigmaPerTolerance);
-  const started = performance.now();
+  const started = clock();
+  let piloting = pilot !== undefined;
+  const every = pilot?.every ?? 1;
   const rng = new Xoshiro128(seed);
   const dims = model.dimensions;
   const d = dims.length;
@@ -59,6 +78,7 @@ export function drawSamples(model: VariationModel, evaluator: SampleEvaluator, o
   const dutyCycle = new Float64Array(samples);
   let latched = 0;
   for (let i = 0; i < samples; i++) {
+    if (piloting && i > 0 && i % every === 0) piloting = !pilot?.check(i, clock() - started);
     for (let k = 0; k < d; k++) {
       if (spread[k] === 1 && normal) {
         let z: number;
@@ -79,5 +99,5 @@ export function drawSamples(model: VariationModel, evaluator: SampleEvaluator, o
       latched++;
     }
   }
-  return { frequencyHz, dutyCycle, latched, elapsedS: (performance.now() - started) / 1000 };
+  return { frequencyHz, dutyCycle, latched, elapsedS: (clock() - started) / 1000 };
 }

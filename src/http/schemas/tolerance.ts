@@ -98,7 +98,7 @@ export const ToleranceRequest = Type.Object(
     monteCarlo: Type.Optional(
       Type.Object(
         {
-          samples: Type.Integer({ minimum: 1, description: 'Samples (up to 1e6 with the closed form; 422 beyond)' }),
+          samples: Type.Integer({ minimum: 1, description: 'Samples (up to 1e6; 422 beyond). Also 422 limit-exceeded, before the bulk of the samples, when the time of the first samples projects the run past half the task deadline (slow circuits: a C(V) capacitor with strays costs ~2 ms an evaluation); figures.limit is the count that would fit' }),
           seed: Type.Optional(Type.Integer({ minimum: 0, maximum: Number.MAX_SAFE_INTEGER, description: 'Seed (default 1): the same seed gives the same result' })),
           distribution: Type.Optional(
             Type.Union([Type.Literal('uniform'), Type.Literal('normal')], {

@@ -18,9 +18,16 @@ function reviveCircuitShape<T extends { circuit?: unknown }>(input: T): T {
   return input;
 }
 
+/** A tolerance run and the time it may take (ms; absent: no limit), measured on the thread's own clock. */
+export interface ToleranceTaskInput {
+  request: ToleranceRequest;
+  budgetMs?: number;
+}
+
 export const TASKS = {
-  /** POST /v1/tolerance: worst case, Monte Carlo, sensitivities. */
-  tolerance: (input: ToleranceRequest) => runToleranceAnalysis(reviveCircuitShape(input)),
+  /** POST /v1/tolerance: worst case, Monte Carlo, sensitivities (Monte Carlo refused up front when it would not fit budgetMs). */
+  tolerance: (input: ToleranceTaskInput) =>
+    runToleranceAnalysis(reviveCircuitShape(input.request), input.budgetMs === undefined ? {} : { budget: { limitMs: input.budgetMs } }),
   /** POST /v1/design: searches over series or catalogues with full analyses (tens to hundreds of ms). */
   design: (input: DesignRequest) => designOscillator(input),
   /** POST /v1/fit: capture analysis (up to millions of samples), MAP fit, diagnosis. */
