@@ -2959,7 +2959,7 @@ export interface components {
              */
             failOn?: "error" | "warning";
             /**
-             * @description Monte Carlo samples per assembly
+             * @description Monte Carlo samples per assembly. An assembly whose yield run is projected (from the time of its first samples) past half the task deadline is not run: its yield rule is yield-not-evaluated, naming the cost per evaluation and the samples that would fit
              * @default 500
              */
             monteCarloSamples?: number;

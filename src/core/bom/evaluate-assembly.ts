@@ -182,7 +182,7 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
     if (y) rules.push(y);
     return done();
   }
-  const spread = assemblySpread(circuit, readings, assembly, ctx.options, ctx.spreadCache);
+  const spread = assemblySpread(circuit, readings, assembly, ctx.options, ctx.spreadCache, ctx.clock);
   if (spread.worstCase) {
     rules.push(frequencyRule(assembly.spec, spread.worstCase));
     const duty = dutyRule(assembly.spec, spread.worstCase);

@@ -39,7 +39,7 @@ import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { AGEING_REFERENCE_HOURS, ageingRatePerDecade } from '../parts/capacitor/ageing.ts';
 import { capacitanceChangeAt, parseDielectric } from '../parts/dielectric.ts';
-import { REFERENCE_TEMPERATURE_C, runToleranceAnalysis, type ToleranceRequest } from '../tolerance/index.ts';
+import { REFERENCE_TEMPERATURE_C, runToleranceAnalysis, type AnalysisTimeBudget, type ToleranceRequest } from '../tolerance/index.ts';
 import { BOM_RULES } from './codes.ts';
 import { at, ruleResult } from './rule.ts';
 import type { WorstCaseFigures, YieldFigures } from './rules/spec.ts';
@@ -60,6 +60,8 @@ const WORST_CASE_ONLY_SAMPLES = 1;
 export interface SpreadFigures {
   worstCase: WorstCaseFigures;
   yield?: YieldFigures;
+  /** Why the Monte Carlo was not run although a yield was asked for (too costly for the time budget). */
+  yieldRefused?: string;
 }
 
 export interface AssemblySpread {
@@ -209,8 +211,8 @@ function temperatureRules(lines: readonly BomLineReading[], range: BomTemperatur
  * sensitivities never (so a design whose nominal sits at the edge of latching, where a
  * sensitivity step would stop it, still gets its worst case).
  */
-function spreadFigures(request: ToleranceRequest, wantYield: boolean): SpreadFigures {
-  const run = runToleranceAnalysis(request, { parts: { monteCarlo: wantYield, sensitivities: false } });
+function spreadFigures(request: ToleranceRequest, wantYield: boolean, budget?: AnalysisTimeBudget): SpreadFigures {
+  const run = runToleranceAnalysis(request, { parts: { monteCarlo: wantYield, sensitivities: false }, ...(budget ? { budget } : {}) });
   const wc = run.worstCase;
   const figures: SpreadFigures = {
     worstCase: {
@@ -231,6 +233,26 @@ function spreadFigures(request: ToleranceRequest, wantYield: boolean): SpreadFig
     figures.yield = { yield: run.monteCarlo.yield, samples: run.monteCarlo.samples, failedSamples: run.monteCarlo.latched, seed: run.monteCarlo.seed };
   }
   return figures;
+}
+
+/**
+ * The figures within options.monteCarloBudgetMs: a Monte Carlo projected past it (time-budget.ts) is
+ * refused, and the assembly keeps its worst case (run again without Monte Carlo: the worst case of a
+ * worst-case-only run is the full run's, number for number) with the refusal as the yield rule's reason.
+ */
+function admittedSpreadFigures(request: ToleranceRequest, wantYield: boolean, options: BomCheckOptions, clock?: () => number): SpreadFigures {
+  if (!wantYield || options.monteCarloBudgetMs === undefined) return spreadFigures(request, wantYield);
+  const budget: AnalysisTimeBudget = {
+    limitMs: options.monteCarloBudgetMs,
+    alternative: "set options.mode to 'worst-case'",
+    ...(clock ? { clock } : {}),
+  };
+  try {
+    return spreadFigures(request, true, budget);
+  } catch (error) {
+    if (!(error instanceof CoreError && error.code === 'limit-exceeded' && error.pointer === '/monteCarlo/samples')) throw error;
+    return { ...spreadFigures(request, false), yieldRefused: `options.monteCarloSamples: ${error.message}` };
+  }
 }
 
 /** What makes two analysis runs identical (the amplifier object is compared by identity through its id and figures). */
@@ -261,6 +283,7 @@ export function assemblySpread(
   assembly: BomAssembly,
   options: BomCheckOptions,
   cache?: Map<string, SpreadFigures | CoreError>,
+  clock?: () => number,
 ): AssemblySpread {
   const wantYield = assembly.spec.minimumYield !== undefined && options.mode === 'full';
   const drifts = lineDrifts(lines, assembly.temperature);
@@ -270,7 +293,7 @@ export function assemblySpread(
   let figures = cache?.get(key);
   if (figures === undefined) {
     try {
-      figures = spreadFigures(request, wantYield);
+      figures = admittedSpreadFigures(request, wantYield, options, clock);
     } catch (error) {
       if (!(error instanceof CoreError)) throw error;
       figures = error;
@@ -292,6 +315,7 @@ export function assemblySpread(
   }
   const result: AssemblySpread = { rules, worstCase: figures.worstCase };
   if (figures.yield) result.yield = figures.yield;
+  else if (figures.yieldRefused) result.yieldSkippedBecause = figures.yieldRefused;
   else result.yieldSkippedBecause = options.mode === 'worst-case' ? 'the request asked for worst case only (options.mode)' : 'not requested';
   return result;
 }

@@ -111,6 +111,11 @@ export interface BomCheckOptions {
   monteCarloSamples: number;
   /** Seed of the Monte Carlo generator, so a BOM revision re-checks to the same figures. */
   seed: number;
+  /**
+   * Longest one assembly's analysis may take, ms (absent: no limit). A Monte Carlo projected past it from
+   * the time of its first samples is not run: the yield rule says why and how many samples would fit.
+   */
+  monteCarloBudgetMs?: number;
 }
 
 /** What the evaluation needs from outside: pure lookups injected by the caller. */
@@ -119,6 +124,8 @@ export interface BomCheckContext {
   /** Resolves a catalogue id; throws CoreError('unknown-reference') when there is none. */
   lookupCatalogue?: (id: string) => Catalogue;
   options: BomCheckOptions;
+  /** Monotonic clock, ms, for options.monteCarloBudgetMs (default performance.now; tests inject one). */
+  clock?: () => number;
   /**
    * Tolerance-analysis figures of designs already checked in this batch, by their
    * inputs: PLM batches carry many revisions whose timing parts are identical.

@@ -28,6 +28,7 @@ import { catalogueLookupFor, type CatalogueLookup } from '../catalogue-source.ts
 import { inlineAmplifierFromBody, straysFromBody } from '../convert.ts';
 import { BomCheckRequest, BomCheckResponse, BomCheckResult, type BomAssemblyBody } from '../schemas/bom.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
+import { ANALYSIS_DEADLINE_SHARE } from '../workers/pool.ts';
 
 export const NDJSON_MEDIA_TYPE = 'application/x-ndjson';
 
@@ -184,7 +185,8 @@ export const bomCheckRoutes: FastifyPluginAsyncTypebox = async (app) => {
       const ctx: BomCheckContext = {
         lookupAmplifier: amplifiers.lookup,
         lookupCatalogue: catalogueLookup(catalogues),
-        options: { ...DEFAULT_BOM_OPTIONS, ...body.options },
+        // One assembly's analysis gets the share of the task deadline a /v1/tolerance run gets.
+        options: { ...DEFAULT_BOM_OPTIONS, ...body.options, monteCarloBudgetMs: app.services.workers.deadlineMs * ANALYSIS_DEADLINE_SHARE },
         spreadCache: new Map(),
       };
       const assemblies = body.assemblies.map(bomAssemblyFromBody);

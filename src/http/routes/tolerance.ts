@@ -10,17 +10,12 @@ import { renderHistogramSvg } from '../../core/plot/index.ts';
 import { monteCarloOptions, type ToleranceRequest, type ToleranceResult } from '../../core/tolerance/index.ts';
 import { circuitFromBody, timingCapacitorFromParts, withPointerPrefix } from '../convert.ts';
 import { HttpProblem } from '../problem.ts';
+import { ANALYSIS_DEADLINE_SHARE } from '../workers/pool.ts';
 import { runForRequest } from '../workers/run-for-request.ts';
 import { problemResponses, ref } from '../schemas/common.ts';
 import { ToleranceRequest as ToleranceRequestSchema, ToleranceResult as ToleranceResultSchema, type ToleranceRequestBody } from '../schemas/tolerance.ts';
 
 export const DEFAULT_HISTOGRAM_BINS = 60;
-/**
- * Share of the task deadline one analysis may be projected to take (our own figure). The other half
- * covers what the projection cannot see: time in the queue and a thread's start-up (both count against
- * the deadline), and a machine that gets busier after the pilot was timed.
- */
-export const ANALYSIS_DEADLINE_SHARE = 0.5;
 const SVG = 'image/svg+xml';
 const JSON_TYPE = 'application/json';
 

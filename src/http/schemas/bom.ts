@@ -121,7 +121,7 @@ export const BomCheckOptions = Type.Object(
     failOn: Type.Optional(
       Type.Union([Type.Literal('error'), Type.Literal('warning')], { default: 'error', description: 'Lowest rule severity that fails an assembly' }),
     ),
-    monteCarloSamples: Type.Optional(Type.Integer({ minimum: 50, maximum: MAX_MONTE_CARLO_SAMPLES, default: 500, description: 'Monte Carlo samples per assembly' })),
+    monteCarloSamples: Type.Optional(Type.Integer({ minimum: 50, maximum: MAX_MONTE_CARLO_SAMPLES, default: 500, description: 'Monte Carlo samples per assembly. An assembly whose yield run is projected (from the time of its first samples) past half the task deadline is not run: its yield rule is yield-not-evaluated, naming the cost per evaluation and the samples that would fit' })),
     seed: Type.Optional(Type.Integer({ minimum: 0, maximum: 2 ** 31 - 1, default: 1, description: 'Monte Carlo seed (same seed, same figures)' })),
   },
   { $id: 'BomCheckOptions', additionalProperties: false, description: 'How deeply to check and what fails an assembly' },

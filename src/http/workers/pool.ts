@@ -71,6 +71,13 @@ export function workerEntry(): { filename: string; execArgv: string[] } {
 
 export const DEFAULT_TASK_DEADLINE_MS = 30_000;
 
+/**
+ * Share of the task deadline one analysis (a tolerance run, one BOM assembly) may be projected to take (our own figure). The other half
+ * covers what the projection cannot see: time in the queue and a thread's start-up (both count against
+ * the deadline), and a machine that gets busier after the pilot was timed.
+ */
+export const ANALYSIS_DEADLINE_SHARE = 0.5;
+
 export class WorkerPool {
   private readonly piscina: Piscina | undefined;
   private closed = false;
