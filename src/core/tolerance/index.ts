@@ -6,4 +6,4 @@ export { Xoshiro128 } from './prng.ts';
 export { DEFAULT_SIGMA_PER_TOLERANCE } from './monte-carlo.ts';
 export { REFERENCE_TEMPERATURE_C } from './variation-model.ts';
 export { MAX_EXHAUSTIVE_DIMENSIONS } from './worst-case.ts';
-export { PILOT_MIN_MS, PILOT_STRIDE, readableFloor, type AnalysisTimeBudget, type MonotonicClockMs } from './time-budget.ts';
+export { PILOT_MEASURE_MS, PILOT_STRIDE, PILOT_WARMUP_MS, readableFloor, type AnalysisTimeBudget, type MonotonicClockMs } from './time-budget.ts';

@@ -10,7 +10,7 @@ import { NO_STRAYS } from '../../../src/core/circuit/strays.ts';
 import type { Circuit } from '../../../src/core/circuit/types.ts';
 import { CoreError } from '../../../src/core/errors.ts';
 import { resolveCapacitor } from '../../../src/core/parts/capacitor/index.ts';
-import { PILOT_MIN_MS, PILOT_STRIDE, readableFloor, runToleranceAnalysis, type ToleranceRequest } from '../../../src/core/tolerance/index.ts';
+import { PILOT_MEASURE_MS, PILOT_STRIDE, PILOT_WARMUP_MS, readableFloor, runToleranceAnalysis, type ToleranceRequest } from '../../../src/core/tolerance/index.ts';
 
 const ideal = findBuiltInAmplifier('ideal')!;
 // Our own scenarios: a ±12 V astable with a film capacitor, and the ±10 V timebase with a small-case X7R
@@ -67,11 +67,11 @@ function withoutTiming<T extends { monteCarlo?: { elapsedS: number; samplesPerSe
 
 describe('Monte Carlo admission by projected time', () => {
   it('refuses over the limit with limit-exceeded at /monteCarlo/samples, a readable limit that is then admitted', () => {
-    // 10 ms per reading, one reading per PILOT_STRIDE samples: the pilot decides when its readings reach
-    // PILOT_MIN_MS, after pilotSamples, at PILOT_MIN_MS / pilotSamples ms (0.16) a sample: 10,000 project to ~1.6 s.
+    // 10 ms per reading, one reading per PILOT_STRIDE samples: the warm-up ends after PILOT_WARMUP_MS / 10 readings,
+    // the measure takes PILOT_MEASURE_MS / 10 more, so a sample reads 10 / PILOT_STRIDE ms (0.16): 10,000 project to ~1.6 s.
     const limitMs = 500;
-    const pilotSamples = (PILOT_MIN_MS / 10) * PILOT_STRIDE;
-    const perSampleMs = PILOT_MIN_MS / pilotSamples;
+    const pilotSamples = ((PILOT_WARMUP_MS + PILOT_MEASURE_MS) / 10) * PILOT_STRIDE;
+    const perSampleMs = 10 / PILOT_STRIDE;
     const err = refusal(() => runToleranceAnalysis(request(linear, 10_000), { budget: { limitMs, clock: steppingClock(10) } }));
     expect(err.code).toBe('limit-exceeded');
     expect(err.pointer).toBe('/monteCarlo/samples');
@@ -81,7 +81,7 @@ describe('Monte Carlo admission by projected time', () => {
     expect(limit).toBeLessThan(requested);
     expect(readableFloor(limit)).toBe(limit); // two significant figures
     // Arithmetic of the projection: the samples after the pilot fit in what the limit leaves.
-    expect((limit - pilotSamples) * perSampleMs).toBeLessThan(limitMs - PILOT_MIN_MS);
+    expect((limit - pilotSamples) * perSampleMs).toBeLessThan(limitMs - PILOT_WARMUP_MS - PILOT_MEASURE_MS);
     expect(err.message).toMatch(/10,000 Monte Carlo samples would take about 1\.\d s/);
     expect(err.message).toContain(`at most ${limit.toLocaleString('en-US')} samples`);
     // The figure offered is admitted under the same clock, and a tenth more than the unrounded fit is not.
@@ -91,19 +91,19 @@ describe('Monte Carlo admission by projected time', () => {
 
   it('admitted: the same result as the run without a limit, the seeded stream sample for sample', () => {
     const unlimited = runToleranceAnalysis(request(linear, 5000), { keepSamples: true });
-    // 2 ms a reading: the pilot decides (and admits) after 50 readings, 3,200 samples into the 5,000.
-    const clock = steppingClock(2);
+    // 3 ms a reading: the pilot decides (and admits) after ~67 readings, ~4,300 samples into the 5,000.
+    const clock = steppingClock(3);
     const limited = runToleranceAnalysis(request(linear, 5000), { keepSamples: true, budget: { limitMs: 60_000, clock } });
-    expect(clock.readings()).toBeGreaterThan(PILOT_MIN_MS / 2);
+    expect(clock.readings()).toBeGreaterThan((PILOT_WARMUP_MS + PILOT_MEASURE_MS) / 3);
     expect(limited.samples!.frequencyHz).toEqual(unlimited.samples!.frequencyHz);
     expect(limited.samples!.dutyCycle).toEqual(unlimited.samples!.dutyCycle);
     expect(withoutTiming(limited)).toEqual(withoutTiming(unlimited));
   });
 
   it('admitted on the slow C(V) circuit with strays: unchanged too (the pilot is the run\'s first samples)', () => {
-    const unlimited = runToleranceAnalysis(request(curvedWithStrays, 96), { keepSamples: true });
-    // PILOT_MIN_MS a reading: the pilot decides at its first look, 64 samples into the 96.
-    const limited = runToleranceAnalysis(request(curvedWithStrays, 96), { keepSamples: true, budget: { limitMs: 60_000, clock: steppingClock(PILOT_MIN_MS) } });
+    const unlimited = runToleranceAnalysis(request(curvedWithStrays, 160), { keepSamples: true });
+    // 100 ms a reading: the warm-up ends at the first look, the pilot decides at the second, 128 samples into the 160.
+    const limited = runToleranceAnalysis(request(curvedWithStrays, 160), { keepSamples: true, budget: { limitMs: 60_000, clock: steppingClock(Math.max(PILOT_WARMUP_MS, PILOT_MEASURE_MS)) } });
     expect(limited.samples!.frequencyHz).toEqual(unlimited.samples!.frequencyHz);
     expect(withoutTiming(limited)).toEqual(withoutTiming(unlimited));
   });
@@ -120,10 +120,10 @@ describe('Monte Carlo admission by projected time', () => {
     expect(performance.now() - started).toBeLessThan(2000 + 10_000);
   });
 
-  it('a run that ends before its pilot has taken PILOT_MIN_MS is never refused', () => {
-    // 1 ms a reading: 5,000 samples make 78 readings, under PILOT_MIN_MS, so the 1 ms limit is never applied.
-    expect(() => runToleranceAnalysis(request(linear, 5000), { budget: { limitMs: 1, clock: steppingClock(1) } })).not.toThrow();
-    expect(() => runToleranceAnalysis(request(linear, 10_000), { budget: { limitMs: 1, clock: steppingClock(1) } })).toThrow(CoreError);
+  it('a run that ends before its pilot has measured is never refused', () => {
+    // 1 ms a reading: 10,000 samples make 156 readings, short of the pilot's warm-up and measure, so the 1 ms limit is never applied.
+    expect(() => runToleranceAnalysis(request(linear, 10_000), { budget: { limitMs: 1, clock: steppingClock(1) } })).not.toThrow();
+    expect(() => runToleranceAnalysis(request(linear, 20_000), { budget: { limitMs: 1, clock: steppingClock(1) } })).toThrow(CoreError);
   });
 });
 
