@@ -265,17 +265,15 @@ export class CycleReplay {
     // The threshold (k = −1: h, signed for the decision) and each event function of the configuration,
     // watched as OscillatorWalk.step watches them; an event function that would end the piece first
     // leaves the nominal's sequence.
+    // The threshold first, then the event functions (the walk's order), each without the other's branches.
     const sg = this.logic ? 1 : -1;
-    for (let k = -1; k < cfg.eventCount; k++) {
-      const threshold = k < 0;
-      const c0 = threshold ? sg * cfg.hC + this.halfHystV : cfg.evC[k];
-      const cv = threshold ? sg * cfg.hV : cfg.evV[k];
-      const cs = threshold ? sg * cfg.hS : cfg.evS[k];
-      const te = this.exitTime(c0, cv, cs, threshold ? this.vTol : cfg.evTol[k], horizonS, vT);
-      if (!(te < best)) continue;
-      if (!threshold) return false;
-      best = te;
+    const thresholdS = this.exitTime(sg * cfg.hC + this.halfHystV, sg * cfg.hV, sg * cfg.hS, this.vTol, horizonS, vT);
+    if (thresholdS < best) {
+      best = thresholdS;
       kind = THRESHOLD;
+    }
+    for (let k = 0; k < cfg.eventCount; k++) {
+      if (this.exitTime(cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k], horizonS, vT) < best) return false;
     }
     if (kind !== expected || !(best > 0 && best < Infinity)) return false;
     this.pieceS = best;
