@@ -44,6 +44,7 @@ import type { BiasShape } from '../../parts/capacitor/index.ts';
 import { Kinematics } from './kinematics.ts';
 import { solveBracket, type BracketProbe } from './root-solve.ts';
 import { DynamicModel } from './modal.ts';
+import { MAX_STATES, SLOT } from './modal-slots.ts';
 
 // The basis read through module-local bindings: the hot loops below must not pay a live import binding's
 // accessor per read (some loaders compile one to a getter call).
@@ -54,11 +55,10 @@ const clenshaw = basis.clenshaw;
 const coefficients = basis.coefficients;
 const derivative = basis.derivative;
 
-// modal.ts's MAX_STATES and SLOT, spelled out: that module imports this one, so its constants are not
-// initialised yet while this module's top level runs.
-const STATES = 3;
-const N_SLOT = 0;
-const O_SLOT = 2;
+// The slots as module-local numbers (modal-slots.ts: modal.ts imports this module, so they live apart).
+const STATES = MAX_STATES;
+const N_SLOT = SLOT.N;
+const O_SLOT = SLOT.O;
 
 /** Coefficients per state and sub-interval (degree N), and of its antiderivative (degree N + 1). */
 const NC = N + 1;

@@ -27,10 +27,11 @@ import { FLAT_SHAPE, type BiasShape } from '../../parts/capacitor/index.ts';
 import { Kinematics } from './kinematics.ts';
 import { solveBracket, type BracketProbe } from './root-solve.ts';
 import { acquireCurvedPiece, releaseCurvedPiece, type CurvedModalPiece, type CurvedRow } from './modal-curved.ts';
+import { MAX_STATES, SLOT } from './modal-slots.ts';
 
-/** State slots of the capacitive nodes. */
-export const SLOT = { N: 0, P: 1, O: 2 } as const;
-export const MAX_STATES = 3;
+/** State slots of the capacitive nodes (modal-slots.ts), for the engine's other modules. */
+export { MAX_STATES, SLOT } from './modal-slots.ts';
+
 /**
  * An affine quantity of a dynamic piece: [constant, per volt of s, per volt of x_N, x_P, x_O].
  * The one-capacitor triplet (c0, cv, cs) is the row [c0, cs, cv, 0, 0].
