@@ -216,6 +216,68 @@ export function readOutput(values: Float64Array, clock: SampleClock, modeHighV: 
 }
 
 /**
+ * Running sums of the normal equations of a least-squares quadratic y ≈ c0 + c1·u + c2·u², solved by
+ * Cramer's rule: one implementation for the one-off fits (quadraticFit) and the sliding window
+ * (lastSampleInState). One scratch instance: the callers never interleave.
+ */
+class QuadraticMoments {
+  s0 = 0;
+  s1 = 0;
+  s2 = 0;
+  s3 = 0;
+  s4 = 0;
+  y0 = 0;
+  y1 = 0;
+  y2 = 0;
+  c0 = 0;
+  c1 = 0;
+  c2 = 0;
+
+  reset(): this {
+    this.s0 = this.s1 = this.s2 = this.s3 = this.s4 = this.y0 = this.y1 = this.y2 = 0;
+    return this;
+  }
+
+  add(u: number, y: number): void {
+    const u2 = u * u;
+    this.s0 += 1;
+    this.s1 += u;
+    this.s2 += u2;
+    this.s3 += u2 * u;
+    this.s4 += u2 * u2;
+    this.y0 += y;
+    this.y1 += y * u;
+    this.y2 += y * u2;
+  }
+
+  /** The sample (uIn, yIn) joins the window and (uOut, yOut) leaves it (the count stays). */
+  slide(uIn: number, yIn: number, uOut: number, yOut: number): void {
+    const o2 = uOut * uOut;
+    const i2 = uIn * uIn;
+    this.s1 += uIn - uOut;
+    this.s2 += i2 - o2;
+    this.s3 += i2 * uIn - o2 * uOut;
+    this.s4 += i2 * i2 - o2 * o2;
+    this.y0 += yIn - yOut;
+    this.y1 += yIn * uIn - yOut * uOut;
+    this.y2 += yIn * i2 - yOut * o2;
+  }
+
+  /** c0, c1, c2 from the sums; false when the system is singular. */
+  solve(): boolean {
+    const { s0, s1, s2, s3, s4, y0, y1, y2 } = this;
+    const det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+    if (!(Math.abs(det) > 0)) return false;
+    this.c0 = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+    this.c1 = (s0 * (y1 * s4 - y2 * s3) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
+    this.c2 = (s0 * (s2 * y2 - s3 * y1) - s1 * (s1 * y2 - s2 * y1) + y0 * (s1 * s3 - s2 * s2)) / det;
+    return true;
+  }
+}
+
+const moments = new QuadraticMoments();
+
+/**
  * Going back from sample `from` towards `stop`: the first sample that does not
  * run past (in the direction `sign`) the least-squares quadratic through the
  * `width` samples before it by more than `toleranceV`. The window slides one
@@ -227,44 +289,16 @@ function lastSampleInState(values: Float64Array, clock: SampleClock, stop: numbe
   const scaleS = timeAt(clock, from) - timeAt(clock, Math.max(first, from - width));
   if (!(scaleS > 0)) return from;
   const yRef = values[from];
-  let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, y0 = 0, y1 = 0, y2 = 0;
+  const m = moments.reset();
   let j = from;
   if (j - width < first) return j;
-  for (let k = j - width; k < j; k++) {
-    const u = (timeAt(clock, k) - tRef) / scaleS;
-    const u2 = u * u;
-    const y = values[k] - yRef;
-    s0 += 1;
-    s1 += u;
-    s2 += u2;
-    s3 += u2 * u;
-    s4 += u2 * u2;
-    y0 += y;
-    y1 += y * u;
-    y2 += y * u2;
-  }
+  for (let k = j - width; k < j; k++) m.add((timeAt(clock, k) - tRef) / scaleS, values[k] - yRef);
   while (j > stop && j - width - 1 >= first) {
-    const det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
-    if (!(Math.abs(det) > 0)) break;
-    const c0 = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
-    const c1 = (s0 * (y1 * s4 - y2 * s3) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
-    const c2 = (s0 * (s2 * y2 - s3 * y1) - s1 * (s1 * y2 - s2 * y1) + y0 * (s1 * s3 - s2 * s2)) / det;
+    if (!m.solve()) break;
     const uj = (timeAt(clock, j) - tRef) / scaleS;
-    if (!(sign * (values[j] - yRef - (c0 + uj * (c1 + uj * c2))) > toleranceV)) break;
+    if (!(sign * (values[j] - yRef - (m.c0 + uj * (m.c1 + uj * m.c2))) > toleranceV)) break;
     // Slide the window one sample back: sample j − 1 leaves it, j − width − 1 joins.
-    const uOut = (timeAt(clock, j - 1) - tRef) / scaleS;
-    const yOut = values[j - 1] - yRef;
-    const uIn = (timeAt(clock, j - width - 1) - tRef) / scaleS;
-    const yIn = values[j - width - 1] - yRef;
-    const o2 = uOut * uOut;
-    const i2 = uIn * uIn;
-    s1 += uIn - uOut;
-    s2 += i2 - o2;
-    s3 += i2 * uIn - o2 * uOut;
-    s4 += i2 * i2 - o2 * o2;
-    y0 += yIn - yOut;
-    y1 += yIn * uIn - yOut * uOut;
-    y2 += yIn * i2 - yOut * o2;
+    m.slide((timeAt(clock, j - width - 1) - tRef) / scaleS, values[j - width - 1] - yRef, (timeAt(clock, j - 1) - tRef) / scaleS, values[j - 1] - yRef);
     j--;
   }
   return j;
@@ -272,27 +306,9 @@ function lastSampleInState(values: Float64Array, clock: SampleClock, stop: numbe
 
 /** Least-squares quadratic through samples [i0, i1] in u = t − t0: [c0, c1, c2] (undefined if singular). */
 function quadraticFit(values: Float64Array, clock: SampleClock, i0: number, i1: number, t0: number): [number, number, number] | undefined {
-  let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, y0 = 0, y1 = 0, y2 = 0;
-  for (let i = i0; i <= i1; i++) {
-    const u = timeAt(clock, i) - t0;
-    const u2 = u * u;
-    const y = values[i];
-    s0 += 1;
-    s1 += u;
-    s2 += u2;
-    s3 += u2 * u;
-    s4 += u2 * u2;
-    y0 += y;
-    y1 += y * u;
-    y2 += y * u2;
-  }
-  // Cramer's rule on the 3×3 normal equations.
-  const det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
-  if (!(Math.abs(det) > 0)) return undefined;
-  const c0 = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
-  const c1 = (s0 * (y1 * s4 - y2 * s3) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
-  const c2 = (s0 * (s2 * y2 - s3 * y1) - s1 * (s1 * y2 - s2 * y1) + y0 * (s1 * s3 - s2 * s2)) / det;
-  return [c0, c1, c2];
+  const m = moments.reset();
+  for (let i = i0; i <= i1; i++) m.add(timeAt(clock, i) - t0, values[i]);
+  return m.solve() ? [m.c0, m.c1, m.c2] : undefined;
 }
 
 const SCAN_STEPS = 64;
