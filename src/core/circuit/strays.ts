@@ -117,6 +117,10 @@ export class StrayLoadedShape implements BiasShape {
     return this.strayFraction + (1 - this.strayFraction) * this.inner.ratio(voltageV);
   }
 
+  slope(voltageV: number): number {
+    return (1 - this.strayFraction) * this.inner.slope(voltageV);
+  }
+
   /** ∫₀ᵛ ratio(u) du: the stray's share is linear, the capacitor's is its own curve's charge. */
   charge(voltageV: number): number {
     return this.strayFraction * voltageV + (1 - this.strayFraction) * this.inner.charge(voltageV);

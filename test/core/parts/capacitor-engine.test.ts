@@ -38,6 +38,25 @@ describe('engine with a C(v) timing capacitor against odex', () => {
     });
   }
 
+  // The capacitor's extremes lie inside a slew piece here (the output slews for a third of the cycle): an
+  // extremum search on the C(v) polynomial, against the largest and smallest of odex's samples on a fine grid.
+  for (const rTiming of [4.7e3, 100e3]) {
+    it(`slewing CMOS op-amp, rTiming ${rTiming} Ω: capacitor max and min within 1e-6 of odex's sampled waveform`, () => {
+      const c = { ...circuit('cmos-rro-micropower', 5), parts: { ...circuit('cmos-rro-micropower', 5).parts, rTiming } };
+      const got = analyzeCircuit(c);
+      const ref = referenceOscillation(c, { tolerance: 1e-11, sample: { perPeriod: 20000, periods: 1 } });
+      const samples = ref.samples!.capacitorV;
+      let maxV = -Infinity;
+      let minV = Infinity;
+      for (const v of samples) {
+        maxV = Math.max(maxV, v);
+        minV = Math.min(minV, v);
+      }
+      expect(Math.abs(got.capacitor.maxV / maxV - 1)).toBeLessThan(1e-6);
+      expect(Math.abs(got.capacitor.minV / minV - 1)).toBeLessThan(1e-6);
+    });
+  }
+
   it('the curve slows nothing and speeds the clock: shorter period than the same value as a linear capacitor', () => {
     const c = circuit('ideal', 5);
     const linear = analyzeCircuit({ ...c, capacitorShape: undefined });

@@ -75,12 +75,26 @@ export class CapacitorKinematics extends Kinematics {
 
   override dv(t: number, vAtT: number): number {
     if (!this.nonlinear) return super.dv(t, vAtT);
-    return (-this.a * vAtT + this.k0 + this.k1 * t) / this.shape.ratio(vAtT);
+    const r = this.shape.ratio(vAtT);
+    this.dvAtV = vAtT;
+    this.dvRatio = r;
+    return (-this.a * vAtT + this.k0 + this.k1 * t) / r;
   }
 
-  /** Slope of v' for Newton steps of the bracketed solvers (exact for a flat curve; the curve's own slope term left out). */
+  /** v and r(v) of the last dv call: d2v, which the probe calls right after it, needs them. */
+  private dvAtV = 0;
+  private dvRatio = 1;
+
+  /**
+   * v'' from v' for the Newton steps of the bracketed solvers. With C(v), d(r·v')/dt = k1 − a·v' gives
+   * v'' = (k1 − a·v' − r'(v)·v'²)/r(v) at the v of the preceding dv call. The curve's terms matter: a
+   * slope without them (off by the factor r and the r'·v'² term) made the Newton steps of an
+   * extremum search converge only linearly, ~30 evaluations each on a slewing edge.
+   */
   override d2v(dvAtT: number): number {
-    return -this.a * dvAtT + this.k1;
+    if (!this.nonlinear) return -this.a * dvAtT + this.k1;
+    const v = this.dvAtV;
+    return (this.k1 - this.a * dvAtT - this.shape.slope(v) * dvAtT * dvAtT) / this.dvRatio;
   }
 
   override integralV(durationS: number): number {

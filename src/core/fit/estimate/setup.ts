@@ -53,6 +53,9 @@ class AdjustableLaw implements BiasShape {
   charge(voltageV: number): number {
     return this.law.charge(voltageV);
   }
+  slope(voltageV: number): number {
+    return this.law.slope(voltageV);
+  }
 }
 const FITTED_LAW = new AdjustableLaw();
 

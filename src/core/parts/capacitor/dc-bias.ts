@@ -42,6 +42,8 @@ export interface BiasShape {
   ratio(voltageV: number): number;
   /** ∫₀ᵛ ratio(u) du, V: the charge at v per unit C(0) (odd in v). Exact to rounding, no quadrature. */
   charge(voltageV: number): number;
+  /** d ratio/dv, 1/V (odd in v; a point-wise curve's segment slope, either one at a knee): Newton slopes of the root solves. */
+  slope(voltageV: number): number;
   /** |v| where the shape has a kink (point-wise curves); quadrature splits there. Empty when smooth. */
   readonly kneesV: readonly number[];
 }
@@ -51,6 +53,7 @@ export const FLAT_SHAPE: BiasShape = Object.freeze({
   key: 'flat',
   ratio: () => 1,
   charge: (voltageV: number) => voltageV,
+  slope: () => 0,
   kneesV: Object.freeze([]) as readonly number[],
 });
 
@@ -66,6 +69,11 @@ export class JohnsonShape implements BiasShape {
   }
   ratio(voltageV: number): number {
     return 1 / Math.cbrt(1 + voltageV * voltageV * this.invScaleSq);
+  }
+  /** r' = −(2/3)·(v/V_a²)·r/(1 + (v/V_a)²). */
+  slope(voltageV: number): number {
+    const y = 1 + voltageV * voltageV * this.invScaleSq;
+    return ((-2 / 3) * voltageV * this.invScaleSq) / (y * Math.cbrt(y));
   }
   /** In units of V_a the law is (1 + x²)^(−1/3) whatever the part: one table serves every scale. */
   charge(voltageV: number): number {
@@ -128,6 +136,21 @@ export class PointsShape implements BiasShape {
     }
     const w = (x - vs[lo]) / (vs[hi] - vs[lo]);
     return this.rs[lo] + w * (this.rs[hi] - this.rs[lo]);
+  }
+  /** The slope of the segment |v| lies in (held flat outside the points), signed like v. */
+  slope(voltageV: number): number {
+    const x = Math.abs(voltageV);
+    const vs = this.vs;
+    const n = vs.length;
+    if (x < vs[0] || x >= vs[n - 1]) return 0;
+    let lo = 0;
+    let hi = n - 1;
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if (vs[mid] <= x) lo = mid;
+      else hi = mid;
+    }
+    return (Math.sign(voltageV) * (this.rs[hi] - this.rs[lo])) / (vs[hi] - vs[lo]);
   }
   /** Piecewise quadratic: the trapezoids of the linear pieces below |v|, plus the part of the one |v| is in. */
   charge(voltageV: number): number {
