@@ -6,6 +6,9 @@
  * effects point to and then flips single coordinates, and when that stalls
  * pairs of coordinates, while that improves the objective (a local search on
  * the corners: it may miss an extreme that needs three coordinates at once).
+ * A pair whose interaction, as measured by the pairs tried so far, is far too
+ * small to outweigh what each of its flips alone loses is not tried
+ * (PairInteractions below).
  * Where the board temperature reverses the effect of other dimensions (tempco
  * spreads, offset drift of unknown sign) it starts from both temperature ends.
  *
@@ -138,6 +141,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     // (Bits of a 32-bit integer: beyond 30 dimensions nothing is remembered.)
     const remember = n <= 30;
     const visited = new CornerMemo(remember ? n : 0);
+    const interactions = new PairInteractions(n);
     const evaluateCorner = (p: Float64Array, bits: number): Figures | undefined => {
       if (!remember) {
         const fresh = evaluate(p, true);
@@ -206,7 +210,10 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         if (improved) continue;
         for (let k = 0; k < n; k++) {
           for (let l = k + 1; l < n; l++) {
+            if (remember && interactions.rulesOut(o, k, l, bits, current, visited)) continue;
+            const from = bits;
             if (tryFlips(o, k, l, -1)) improved = true;
+            if (remember) interactions.record(k, l, from, visited);
           }
         }
         if (improved) continue;
@@ -341,7 +348,78 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
   };
 }
 
+/**
+ * Safety factor of the pair screen: a pair is skipped only when the largest interaction measured for it
+ * would have to grow by more than this to make the pair improve (PairInteractions).
+ */
+export const PAIR_SCREEN_SAFETY = 16;
+
+/**
+ * What flipping two coordinates together adds beyond flipping each alone, measured where the ascents
+ * tried pairs: for the square of corners x, x^k, x^l, x^kl the interaction f(x^kl) − f(x^k) − f(x^l) + f(x),
+ * largest |value| met per pair, for the frequency and for the duty cycle.
+ *
+ * Why a screen may skip a pair: at a corner where no single flip improves, flipping k alone changes the
+ * objective by g_k ≤ 0 and l alone by g_l ≤ 0, so the pair improves only if its interaction exceeds
+ * |g_k| + |g_l|. Part tolerances enter the period to first order on their own and to second order
+ * together (a product of two small relative changes), so interactions are small and vary slowly over the
+ * box while single-flip losses are first order. A pair is skipped when PAIR_SCREEN_SAFETY times the largest
+ * interaction measured for it is still below that loss; a pair never measured, or next to a latched corner
+ * (where the figures jump), is always tried. The first pair scan of a search therefore tries every pair,
+ * and every pair a later scan tries adds to what is known. Checked against the exhaustive enumeration
+ * (test/core/tolerance/worst-case-search.test.ts).
+ */
+class PairInteractions {
+  /** Largest |interaction| per pair (index k·n + l, k < l), frequency then duty; NaN: never measured. */
+  private readonly frequencyHz: Float64Array;
+  private readonly duty: Float64Array;
+
+  constructor(private readonly n: number) {
+    this.frequencyHz = new Float64Array(n * n).fill(Number.NaN);
+    this.duty = new Float64Array(n * n).fill(Number.NaN);
+  }
+
+  /** Whether the pair (k, l) cannot improve objective o at the corner `bits` (figures `at`) by the measured interactions. */
+  rulesOut(o: Objective, k: number, l: number, bits: number, at: Figures | undefined, memo: CornerMemo): boolean {
+    if (at === undefined) return false;
+    const known = (o === 'frequencyMin' || o === 'frequencyMax' ? this.frequencyHz : this.duty)[k * this.n + l];
+    if (Number.isNaN(known)) return false;
+    const fk = memo.lookup(bits ^ (1 << k));
+    const fl = memo.lookup(bits ^ (1 << l));
+    if (fk === UNSEEN || fk === LATCHED || fl === UNSEEN || fl === LATCHED) return false;
+    const s = score(o, at.frequencyHz, at.dutyCycle);
+    const lossK = s - score(o, fk.frequencyHz, fk.dutyCycle);
+    const lossL = s - score(o, fl.frequencyHz, fl.dutyCycle);
+    // Only at a corner the single flips could not improve (each loss ≥ 0) does the pair need its interaction.
+    if (!(lossK >= 0 && lossL >= 0)) return false;
+    return PAIR_SCREEN_SAFETY * known < lossK + lossL;
+  }
+
+  /** Adds every square the corner `bits` completes (its other three corners met and oscillating). */
+  recordAround(bits: number, memo: CornerMemo): void {
+    for (let k = 0; k < this.n; k++) {
+      if (!isFigures(memo.lookup(bits ^ (1 << k)))) continue;
+      for (let l = k + 1; l < this.n; l++) this.record(k, l, bits, memo);
+    }
+  }
+
+  /** Adds the square of corners `bits`, ^k, ^l, ^kl when all four oscillate. */
+  record(k: number, l: number, bits: number, memo: CornerMemo): void {
+    const a = memo.lookup(bits);
+    const b = memo.lookup(bits ^ (1 << k));
+    const c = memo.lookup(bits ^ (1 << l));
+    const d = memo.lookup(bits ^ (1 << k) ^ (1 << l));
+    for (const r of [a, b, c, d]) if (r === UNSEEN || r === LATCHED) return;
+    const i = k * this.n + l;
+    const frequency = Math.abs(d.frequencyHz - b.frequencyHz - c.frequencyHz + a.frequencyHz);
+    const duty = Math.abs(d.dutyCycle - b.dutyCycle - c.dutyCycle + a.dutyCycle);
+    if (!(this.frequencyHz[i] >= frequency)) this.frequencyHz[i] = frequency;
+    if (!(this.duty[i] >= duty)) this.duty[i] = duty;
+  }
+}
+
 /** What a CornerMemo holds for a corner not evaluated yet, and for one that latched. */
+const isFigures = (r: Figures) => r !== UNSEEN && r !== LATCHED;
 const UNSEEN: Figures = { frequencyHz: Number.NaN, dutyCycle: Number.NaN };
 const LATCHED: Figures = { frequencyHz: Number.NaN, dutyCycle: Number.NaN };
 /** Most dimensions whose corners a CornerMemo keeps in a flat table (2^16 entries). */
