@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { ChebyshevPiece, FLAT_SHAPE, JohnsonShape } from '../../../src/core/parts/capacitor/index.ts';
 import { odexRampIntegral, odexRampVoltageAt } from './capacitor-odex-reference.ts';
+import { CapacitorKinematics } from '../../../src/core/circuit/engine/capacitor-kinematics.ts';
 
 /**
  * Slew pieces with C(v): r(v)·v' = k0 + k1·t − a·v solved by Picard–Chebyshev
@@ -42,3 +43,23 @@ describe('ChebyshevPiece against odex', () => {
     expect(p.v(t)).toBeCloseTo(exact, 12);
   });
 });
+
+describe('solved slew pieces shared between kinematics', () => {
+  // The walk's and the evaluator's kinematics share one pool of solved slew pieces: a kinematics whose
+  // piece another one took over must still answer for its own inputs (against odex, as above).
+  it('a piece evicted by a dozen other slews still answers for its own inputs', () => {
+    const mine = new CapacitorKinematics();
+    const other = new CapacitorKinematics();
+    mine.setShape(shape, 5);
+    other.setShape(shape, 5);
+    const k1 = (10 / tau) * a;
+    mine.set(a, -5 * a, k1, 10 / 3, 0, 10 / tau);
+    const t = 0.5 * tau;
+    for (let i = 0; i < 12; i++) {
+      other.set(a, -5 * a, k1, 1 + 0.1 * i, 0, 10 / tau);
+      other.v(t);
+    }
+    expect(Math.abs(mine.v(t) - odexRampVoltageAt(shape, a, -5 * a, k1, 10 / 3, t)) / 5).toBeLessThan(1e-9);
+  });
+});
+

@@ -22,20 +22,25 @@ import { Kinematics } from './kinematics.ts';
 /** Event functions a piece can watch (threshold + diodes + clamp + limit). */
 const EXIT_MEMORY = 10;
 /**
- * Slew pieces kept solved: a walk meets the same few pieces again and again (the
- * rising and falling edge of every settled cycle, and the re-tries of a piece
- * shortened by an event), and each is the same polynomial every time.
+ * Slew pieces kept solved, one pool for every kinematics of the thread: a walk meets the
+ * same few pieces again and again (the rising and falling edge of every settled cycle,
+ * and the re-tries of a piece shortened by an event), and the figures then re-read the
+ * walk's logged pieces through the evaluator's own kinematics (piece-evaluator.ts) with
+ * the same inputs: each is the same polynomial every time, solved once. A kinematics
+ * whose piece was taken over by another (its generation moved on) sets it again.
  */
-const SLEW_MEMORY = 4;
+const SLEW_MEMORY = 8;
+const SLEWS = Array.from({ length: SLEW_MEMORY }, () => new ChebyshevPiece());
+let slewNext = 0;
 
 export class CapacitorKinematics extends Kinematics {
   shape: BiasShape = FLAT_SHAPE;
   private autonomous = true;
   private scaleV = 1;
   private readonly charge = new NonlinearCharge();
-  private readonly slews = Array.from({ length: SLEW_MEMORY }, () => new ChebyshevPiece());
-  private slewNext = 0;
-  private cheb = this.slews[0];
+  private cheb = SLEWS[0];
+  /** The generation of cheb when this kinematics set or found it (another taking it over moves it on). */
+  private chebGeneration = -1;
   /** Events of this piece located at known voltages: their times and voltages (save the inverse at the piece end). */
   private readonly exitT = new Float64Array(EXIT_MEMORY);
   private readonly exitV = new Float64Array(EXIT_MEMORY);
@@ -49,26 +54,37 @@ export class CapacitorKinematics extends Kinematics {
   }
 
   protected override setNonlinearPiece(): void {
-    const { a, k0, k1, v0 } = this;
+    const { a, k0, k1 } = this;
     this.autonomous = k1 === 0;
     this.exits = 0;
     // Per unit C0: the "capacitance" is 1 and the current k0 − a·v.
     if (this.autonomous) this.charge.setPiece(this.shape, 1, k0, a);
-    else this.cheb = this.slewPiece(a, k0, k1, v0);
+    else this.takeSlewPiece();
   }
 
-  /** The solved slew piece for these inputs if one is kept, else the oldest slot set to them. */
-  private slewPiece(a: number, k0: number, k1: number, v0: number): ChebyshevPiece {
-    for (const piece of this.slews) if (piece.holds(this.shape, a, k0, k1, v0, this.scaleV)) return piece;
-    const piece = this.slews[this.slewNext];
-    this.slewNext = (this.slewNext + 1) % SLEW_MEMORY;
-    return piece.set(this.shape, a, k0, k1, v0, this.scaleV);
+  /** The solved slew piece for this piece's inputs if the pool keeps one, else the oldest slot set to them. */
+  private takeSlewPiece(): ChebyshevPiece {
+    const { a, k0, k1, v0 } = this;
+    let piece: ChebyshevPiece | undefined;
+    for (let i = 0; i < SLEW_MEMORY && !piece; i++) if (SLEWS[i].holds(this.shape, a, k0, k1, v0, this.scaleV)) piece = SLEWS[i];
+    if (!piece) {
+      piece = SLEWS[slewNext].set(this.shape, a, k0, k1, v0, this.scaleV);
+      slewNext = (slewNext + 1) % SLEW_MEMORY;
+    }
+    this.cheb = piece;
+    this.chebGeneration = piece.generation;
+    return piece;
+  }
+
+  /** This piece's slew solution (set again if another kinematics took its slot over since). */
+  private slew(): ChebyshevPiece {
+    return this.cheb.generation === this.chebGeneration ? this.cheb : this.takeSlewPiece();
   }
 
   override v(t: number): number {
     if (!this.nonlinear) return super.v(t);
     if (t === 0) return this.v0;
-    if (!this.autonomous) return this.cheb.v(t);
+    if (!this.autonomous) return this.slew().v(t);
     for (let k = 0; k < this.exits; k++) if (this.exitT[k] === t) return this.exitV[k];
     return this.charge.voltageAfter(this.v0, t);
   }
@@ -99,7 +115,7 @@ export class CapacitorKinematics extends Kinematics {
 
   override integralV(durationS: number): number {
     if (!this.nonlinear) return super.integralV(durationS);
-    if (!this.autonomous) return this.cheb.integralV(durationS);
+    if (!this.autonomous) return this.slew().integralV(durationS);
     return this.charge.voltageTimeOver(this.v0, this.v(durationS), durationS);
   }
 
@@ -109,8 +125,9 @@ export class CapacitorKinematics extends Kinematics {
       return;
     }
     if (!this.autonomous) {
-      out[0] = this.cheb.v(durationS);
-      out[1] = this.cheb.integralV(durationS);
+      const piece = this.slew();
+      out[0] = piece.v(durationS);
+      out[1] = piece.integralV(durationS);
       return;
     }
     const vEnd = this.v(durationS);

@@ -117,12 +117,15 @@ export class ChebyshevPiece {
   }
 
   private scaleInput = Number.NaN;
+  /** Counts the sets: a holder that remembers it knows whether the piece still answers for its inputs. */
+  generation = 0;
 
   /**
    * r(v)·v' = k0 + k1·t − a·v from v(0) = v0; scaleV sets the convergence tolerance (the supply span);
    * horizonS (when known: the end of the slew) bounds the first sub-interval.
    */
   set(shape: BiasShape, a: number, k0: number, k1: number, v0: number, scaleV: number, horizonS = Infinity): this {
+    this.generation++;
     this.shape = shape;
     this.a = a;
     this.k0 = k0;
