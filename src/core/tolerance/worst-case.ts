@@ -41,8 +41,16 @@ const MAX_ASCENT_PASSES = 64;
 /** Rounds of re-ascending from the best corners met (stops earlier when a round changes no extreme). */
 const MAX_POLISH_ROUNDS = 4;
 
-type Objective = 'frequencyMin' | 'frequencyMax' | 'dutyMin' | 'dutyMax';
-const OBJECTIVES: readonly Objective[] = ['frequencyMin', 'frequencyMax', 'dutyMin', 'dutyMax'];
+/**
+ * The four figures searched, by number (the ascents compare scores millions of times per batch):
+ * frequency min and max, duty min and max. A score is the figure signed so that larger is worse.
+ */
+const FREQUENCY_MIN = 0;
+const FREQUENCY_MAX = 1;
+const DUTY_MIN = 2;
+const DUTY_MAX = 3;
+type Objective = typeof FREQUENCY_MIN | typeof FREQUENCY_MAX | typeof DUTY_MIN | typeof DUTY_MAX;
+const OBJECTIVES: readonly Objective[] = [FREQUENCY_MIN, FREQUENCY_MAX, DUTY_MIN, DUTY_MAX];
 
 interface Found {
   score: number;
@@ -59,12 +67,7 @@ interface Figures {
 }
 
 function score(objective: Objective, frequencyHz: number, dutyCycle: number): number {
-  switch (objective) {
-    case 'frequencyMin': return -frequencyHz;
-    case 'frequencyMax': return frequencyHz;
-    case 'dutyMin': return -dutyCycle;
-    case 'dutyMax': return dutyCycle;
-  }
+  return objective === FREQUENCY_MIN ? -frequencyHz : objective === FREQUENCY_MAX ? frequencyHz : objective === DUTY_MIN ? -dutyCycle : dutyCycle;
 }
 
 export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluator, spec: FrequencySpec | undefined): WorstCase {
@@ -159,8 +162,12 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     const point = new Float64Array(n);
     let bits = 0;
     let current: Figures | undefined;
-    const lowEnd = Float64Array.from(dims, (d) => d.low);
-    const highEnd = Float64Array.from(dims, (d) => d.high);
+    const lowEnd = new Float64Array(n);
+    const highEnd = new Float64Array(n);
+    for (let k = 0; k < n; k++) {
+      lowEnd[k] = dims[k].low;
+      highEnd[k] = dims[k].high;
+    }
     const flip = (k: number) => {
       point[k] = point[k] === highEnd[k] ? lowEnd[k] : highEnd[k];
       bits ^= 1 << k;
@@ -236,7 +243,7 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     // was met and none improves, and remembered corners never change, so an ascent for that objective
     // started there again would end at once without evaluating anything. It is skipped.
     const settled = new Set<number>();
-    const settledKey = (o: Objective) => bits * OBJECTIVES.length + OBJECTIVES.indexOf(o);
+    const settledKey = (o: Objective) => bits * OBJECTIVES.length + o;
     const ascendFrom = (o: Objective) => {
       if (settled.has(settledKey(o))) return;
       if (ascend(o)) settled.add(settledKey(o));
@@ -275,7 +282,8 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     // best signs for those dimensions are opposite. At the centre ΔT ≈ 0 and their effects say nothing:
     // they are probed at each temperature end, and the search starts from both ends.
     const t = model.temperatureDimension;
-    const signDims = t >= 0 ? dims.flatMap((d, k) => (d.kind === 'tempco-spread' ? [k] : [])) : [];
+    const signDims: number[] = [];
+    for (let k = 0; t >= 0 && k < n; k++) if (dims[k].kind === 'tempco-spread') signDims.push(k);
     const basins = signDims.length > 0 ? [dims[t].low, dims[t].high] : [];
     const basinEnds = basins.map((temperature) => {
       const byDim = new Map<number, (Figures | undefined)[]>();
@@ -333,8 +341,8 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     }
   }
   if (best[0] === undefined) throw new CoreError('no-oscillation', 'The circuit oscillates at no point of the tolerance box (nominal and corners all latch)');
-  const describe = (o: Objective): Corner => describeCorner(model, best[OBJECTIVES.indexOf(o)]!, values);
-  const corners = { frequencyMin: describe('frequencyMin'), frequencyMax: describe('frequencyMax'), dutyMin: describe('dutyMin'), dutyMax: describe('dutyMax') };
+  const describe = (o: Objective): Corner => describeCorner(model, best[o]!, values);
+  const corners = { frequencyMin: describe(FREQUENCY_MIN), frequencyMax: describe(FREQUENCY_MAX), dutyMin: describe(DUTY_MIN), dutyMax: describe(DUTY_MAX) };
   return {
     frequencyMinHz: corners.frequencyMin.frequencyHz,
     frequencyMaxHz: corners.frequencyMax.frequencyHz,
@@ -382,7 +390,7 @@ class PairInteractions {
   /** Whether the pair (k, l) cannot improve objective o at the corner `bits` (figures `at`) by the measured interactions. */
   rulesOut(o: Objective, k: number, l: number, bits: number, at: Figures | undefined, memo: CornerMemo): boolean {
     if (at === undefined) return false;
-    const known = (o === 'frequencyMin' || o === 'frequencyMax' ? this.frequencyHz : this.duty)[k * this.n + l];
+    const known = (o === FREQUENCY_MIN || o === FREQUENCY_MAX ? this.frequencyHz : this.duty)[k * this.n + l];
     if (Number.isNaN(known)) return false;
     const fk = memo.lookup(bits ^ (1 << k));
     const fl = memo.lookup(bits ^ (1 << l));
