@@ -35,6 +35,7 @@
  * limit, a class II/III timing capacitor's C(V) carried on the circuit): the
  * prepared walk (circuit/engine/prepared.ts) keeps a batch fast.
  */
+import type { AmplifierModel } from '../amplifiers/model.ts';
 import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import { AGEING_REFERENCE_HOURS, ageingRatePerDecade } from '../parts/capacitor/ageing.ts';
@@ -255,23 +256,43 @@ function admittedSpreadFigures(request: ToleranceRequest, wantYield: boolean, op
   }
 }
 
-/** What makes two analysis runs identical (the amplifier object is compared by identity through its id and figures). */
-function cacheKey(request: ToleranceRequest): string {
-  return JSON.stringify([
-    request.circuit.topology,
-    request.circuit.supply,
-    request.circuit.parts,
-    request.circuit.amplifier,
-    request.circuit.capacitorShape?.key ?? 'flat',
-    request.circuit.strays ?? null,
-    request.tolerances,
-    request.temperature ?? null,
-    request.supplyTolerance,
-    request.serviceLifeYears ?? 0,
-    request.timingCapacitor ?? null,
-    request.spec,
-    request.monteCarlo,
-  ]);
+/**
+ * The amplifier's serialisation per object, one memo per spread cache: a batch resolves an id to the
+ * same object for every assembly naming it, so its forty-odd figures are written out once per batch
+ * rather than once per assembly (a fresh memo per cache: nothing outlives the batch that read it).
+ */
+const amplifierKeys = new WeakMap<Map<string, SpreadFigures | CoreError>, WeakMap<AmplifierModel, string>>();
+
+function amplifierKey(amplifier: AmplifierModel, cache: Map<string, SpreadFigures | CoreError>): string {
+  let memo = amplifierKeys.get(cache);
+  if (memo === undefined) amplifierKeys.set(cache, (memo = new WeakMap()));
+  let key = memo.get(amplifier);
+  if (key === undefined) memo.set(amplifier, (key = JSON.stringify(amplifier)));
+  return key;
+}
+
+/**
+ * What makes two analysis runs identical: the amplifier's figures (a JSON object, so the joined key
+ * stays unambiguous) and everything else the request carries.
+ */
+function cacheKey(request: ToleranceRequest, cache: Map<string, SpreadFigures | CoreError>): string {
+  return (
+    amplifierKey(request.circuit.amplifier, cache) +
+    JSON.stringify([
+      request.circuit.topology,
+      request.circuit.supply,
+      request.circuit.parts,
+      request.circuit.capacitorShape?.key ?? 'flat',
+      request.circuit.strays ?? null,
+      request.tolerances,
+      request.temperature ?? null,
+      request.supplyTolerance,
+      request.serviceLifeYears ?? 0,
+      request.timingCapacitor ?? null,
+      request.spec,
+      request.monteCarlo,
+    ])
+  );
 }
 
 /** Most entries kept by a spread cache before it starts over (bounds a batch's memory). */
@@ -289,7 +310,7 @@ export function assemblySpread(
   const drifts = lineDrifts(lines, assembly.temperature);
   const request = toleranceRequest(circuit, lines, assembly, wantYield ? options.monteCarloSamples : WORST_CASE_ONLY_SAMPLES, options.seed, drifts);
   const rules = temperatureRules(lines, assembly.temperature, drifts);
-  const key = cache ? cacheKey(request) : '';
+  const key = cache ? cacheKey(request, cache) : '';
   let figures = cache?.get(key);
   if (figures === undefined) {
     try {

@@ -546,11 +546,14 @@ export class VariationTerms {
   private readonly gD: Int32Array;
   /**
    * The temperature-only factors of the bias-doubling and delay laws (a power and a product), kept for
-   * the last board temperature: a search or a sample run meets a handful of temperatures over and over.
-   * NaN: none computed yet. The product x·factor is the one driftedValue forms.
+   * the last two board temperatures: a search or a sample run meets a handful of temperatures over and
+   * over, a corner search mostly the two ends of the range in turn. NaN: none computed yet. The product
+   * x·factor is the one driftedValue forms.
    */
   private factorDT = Number.NaN;
-  private readonly dFactor: Float64Array;
+  private dFactor: Float64Array;
+  private otherFactorDT = Number.NaN;
+  private otherFactor: Float64Array;
 
   constructor(
     private readonly nominal: Float64Array,
@@ -578,19 +581,27 @@ export class VariationTerms {
     this.gHours = column(Float64Array, lists.ageing, (g) => g.ageHours);
     this.gD = column(Int32Array, lists.ageing, (g) => g.yearsDim);
     this.dFactor = new Float64Array(lists.drifts.length);
+    this.otherFactor = new Float64Array(lists.drifts.length);
   }
 
-  /** dFactor for board temperature dT kelvin from 25 °C (recomputed only when dT changes). */
+  /** The factors for board temperature dT kelvin from 25 °C (computed only for a temperature not among the last two). */
   private driftFactorsAt(dT: number): Float64Array {
-    if (dT !== this.factorDT) {
-      const { dLaw, dFigure, dFactor } = this;
+    if (dT === this.factorDT) return this.dFactor;
+    // Swap in the other slot: it holds the factors of dT already, or is the older one and is overwritten.
+    const otherDT = this.otherFactorDT;
+    const other = this.otherFactor;
+    this.otherFactorDT = this.factorDT;
+    this.otherFactor = this.dFactor;
+    this.factorDT = dT;
+    this.dFactor = other;
+    if (dT !== otherDT) {
+      const { dLaw, dFigure } = this;
       for (let i = 0; i < dLaw.length; i++) {
-        if (dLaw[i] === DRIFT_LAW.biasDoubling) dFactor[i] = biasCurrentFactorAt(dFigure[i], dT);
-        else if (dLaw[i] === DRIFT_LAW.delay) dFactor[i] = delayFactorAt(dFigure[i], dT);
+        if (dLaw[i] === DRIFT_LAW.biasDoubling) other[i] = biasCurrentFactorAt(dFigure[i], dT);
+        else if (dLaw[i] === DRIFT_LAW.delay) other[i] = delayFactorAt(dFigure[i], dT);
       }
-      this.factorDT = dT;
     }
-    return this.dFactor;
+    return other;
   }
 
   apply(u: Float64Array, values: Float64Array): void {

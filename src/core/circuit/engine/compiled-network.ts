@@ -154,6 +154,20 @@ export class NetworkCoefficients {
   readonly diodeF = new Float64Array(6);
 }
 
+/** Where a layout slot's value is read from in a circuit (ParameterLayout.valuesOf). */
+const SOURCE = { part: 0, supplyPositive: 1, supplyNegative: 2, loadResistance: 3, loadReturn: 4, diodeDrop: 5, stray: 6, amplifier: 7 } as const;
+
+function sourceOf(p: ParameterInfo): number {
+  if (p.kind === 'resistor' || p.kind === 'capacitor') return SOURCE.part;
+  if (p.name === 'supplyPositiveV') return SOURCE.supplyPositive;
+  if (p.name === 'supplyNegativeV') return SOURCE.supplyNegative;
+  if (p.name === 'loadResistanceOhm') return SOURCE.loadResistance;
+  if (p.name === 'loadReturnV') return SOURCE.loadReturn;
+  if (p.name === 'diodeForwardDropV') return SOURCE.diodeDrop;
+  if (p.kind === 'stray') return SOURCE.stray;
+  return SOURCE.amplifier;
+}
+
 /** The parameter vector of a shape: roles present (role order), supply, amplifier figures, load, diode drop. */
 export class ParameterLayout {
   readonly parameters: readonly ParameterInfo[];
@@ -165,6 +179,9 @@ export class ParameterLayout {
   /** Slot of the steering diodes' forward drop, −1 for a topology without diodes. */
   readonly diodeDropSlot: number;
 
+  /** Where each slot's value comes from in a circuit (SOURCE), decided once here rather than per vector. */
+  private readonly sources: Uint8Array;
+
   constructor(topology: TopologyDefinition, rolesPresent: readonly string[], hasLoad: boolean, strays: readonly StrayParameter[] = []) {
     const params: ParameterInfo[] = [];
     for (const role of rolesPresent) params.push({ name: role, kind: topology.roles[role].kind });
@@ -175,6 +192,7 @@ export class ParameterLayout {
     for (const name of strays) params.push({ name, kind: 'stray' });
     this.parameters = params;
     params.forEach((p, i) => this.index.set(p.name, i));
+    this.sources = Uint8Array.from(params, sourceOf);
     this.roleSlots = Int32Array.from(rolesPresent, (r) => this.index.get(r)!);
     this.capacitorSlot = this.indexOf(topology.capacitorRole);
     this.diodeDropSlot = this.indexOf('diodeForwardDropV');
@@ -191,18 +209,23 @@ export class ParameterLayout {
 
   /** The circuit's own values in this layout (a fresh vector). */
   valuesOf(circuit: Circuit): Float64Array {
-    const v = new Float64Array(this.parameters.length);
+    const parameters = this.parameters;
+    const sources = this.sources;
+    const v = new Float64Array(parameters.length);
     const amp = circuit.amplifier;
-    this.parameters.forEach((p, i) => {
-      if (p.kind === 'resistor' || p.kind === 'capacitor') v[i] = circuit.parts[p.name];
-      else if (p.name === 'supplyPositiveV') v[i] = circuit.supply.positiveV;
-      else if (p.name === 'supplyNegativeV') v[i] = circuit.supply.negativeV;
-      else if (p.name === 'loadResistanceOhm') v[i] = circuit.load!.resistanceOhm;
-      else if (p.name === 'loadReturnV') v[i] = circuit.load!.returnV;
-      else if (p.name === 'diodeForwardDropV') v[i] = (circuit.diode ?? DEFAULT_STEERING_DIODE).forwardDropV;
-      else if (p.kind === 'stray') v[i] = circuit.strays![p.name as StrayParameter];
-      else v[i] = amp[p.name as AmplifierParameter];
-    });
+    for (let i = 0; i < parameters.length; i++) {
+      const name = parameters[i].name;
+      switch (sources[i]) {
+        case SOURCE.part: v[i] = circuit.parts[name]; break;
+        case SOURCE.supplyPositive: v[i] = circuit.supply.positiveV; break;
+        case SOURCE.supplyNegative: v[i] = circuit.supply.negativeV; break;
+        case SOURCE.loadResistance: v[i] = circuit.load!.resistanceOhm; break;
+        case SOURCE.loadReturn: v[i] = circuit.load!.returnV; break;
+        case SOURCE.diodeDrop: v[i] = (circuit.diode ?? DEFAULT_STEERING_DIODE).forwardDropV; break;
+        case SOURCE.stray: v[i] = circuit.strays![name as StrayParameter]; break;
+        default: v[i] = amp[name as AmplifierParameter];
+      }
+    }
     return v;
   }
 
