@@ -236,9 +236,48 @@ export class CycleReplay {
   /**
    * OscillatorWalk.step on this configuration from the replay's state: the earliest time event, then the
    * function exits. Leaves the piece's duration, end and the voltage at its horizon in pieceS, pieceKind, pieceVEnd;
-   * false when the piece does not end as the nominal's did (`expected`).
+   * false when the piece does not end as the nominal's did (`expected`). A ramp and a piece at rest take
+   * separate steps (the same arithmetic): each is its own compilation unit, whose inlining budget then holds
+   * all of its exit searches (one step for both called the closed-form exit and the φ series out of line,
+   * boxing their numbers).
    */
   private pieceEnd(cfg: ConfigModel, expected: number): boolean {
+    return this.rate !== 0 ? this.rampEnd(cfg, expected) : this.restEnd(cfg, expected);
+  }
+
+  /** pieceEnd for a source at rest (a plain exponential piece). */
+  private restEnd(cfg: ConfigModel, expected: number): boolean {
+    const kin = this.kin;
+    const s = this.s;
+    kin.set(cfg.a, cfg.b0 + cfg.bS * s, cfg.bS * 0, this.v, s, 0);
+    let best = Infinity;
+    let kind = 0;
+    const pendingAtS = this.pendingAtS;
+    if (!Number.isNaN(pendingAtS)) {
+      best = Math.max(0, pendingAtS - this.t);
+      kind = TIME_TARGET;
+    }
+    // The far end as PieceEnds.fill computes it for a piece with a time event (∫v dt left out); a piece at
+    // rest decides from its ends at once (exitTime's at-rest branch).
+    const horizonS = best;
+    const vT = horizonS < Infinity ? kin.vAtEnd(horizonS) : Number.NaN;
+    // The threshold (k = −1: h, signed for the decision) and each event function of the configuration,
+    // watched as OscillatorWalk.step watches them; an event function that would end the piece first
+    // leaves the nominal's sequence.
+    const sg = this.logic ? 1 : -1;
+    const thresholdS = this.exitAtRestOf(sg * cfg.hC + this.halfHystV, sg * cfg.hV, sg * cfg.hS, this.vTol, horizonS, vT);
+    if (thresholdS < best) {
+      best = thresholdS;
+      kind = THRESHOLD;
+    }
+    for (let k = 0; k < cfg.eventCount; k++) {
+      if (this.exitAtRestOf(cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k], horizonS, vT) < best) return false;
+    }
+    return this.pieceFound(expected, best, kind, vT);
+  }
+
+  /** pieceEnd for a source on its slew ramp. */
+  private rampEnd(cfg: ConfigModel, expected: number): boolean {
     const kin = this.kin;
     const s = this.s;
     const rate = this.rate;
@@ -250,31 +289,30 @@ export class CycleReplay {
       best = Math.max(0, pendingAtS - this.t);
       kind = TIME_TARGET;
     }
-    if (rate !== 0) {
-      const dt = Math.max(0, ((this.target ? this.highV : this.lowV) - s) / rate);
-      if (dt < best) {
-        best = dt;
-        kind = TIME_SLEW_END;
-      }
+    const dt = Math.max(0, ((this.target ? this.highV : this.lowV) - s) / rate);
+    if (dt < best) {
+      best = dt;
+      kind = TIME_SLEW_END;
     }
-    // The far end as PieceEnds.fill computes it for a piece with a time event (∫v dt left out); a ramp's
-    // exit search reads both ends, a piece at rest decides from them at once (exitTime).
+    // The far end as PieceEnds.fill computes it for a piece with a time event (∫v dt left out); the
+    // exit search reads both ends.
     const horizonS = best;
     const vT = horizonS < Infinity ? kin.vAtEnd(horizonS) : Number.NaN;
-    if (rate !== 0) this.ends.fillWithEnd(kin, horizonS, vT);
-    // The threshold (k = −1: h, signed for the decision) and each event function of the configuration,
-    // watched as OscillatorWalk.step watches them; an event function that would end the piece first
-    // leaves the nominal's sequence.
-    // The threshold first, then the event functions (the walk's order), each without the other's branches.
+    this.ends.fillWithEnd(kin, horizonS, vT);
     const sg = this.logic ? 1 : -1;
-    const thresholdS = this.exitTime(sg * cfg.hC + this.halfHystV, sg * cfg.hV, sg * cfg.hS, this.vTol, horizonS, vT);
+    const thresholdS = firstExit(this.probe, this.ends, sg * cfg.hC + this.halfHystV, sg * cfg.hV, sg * cfg.hS, this.vTol);
     if (thresholdS < best) {
       best = thresholdS;
       kind = THRESHOLD;
     }
     for (let k = 0; k < cfg.eventCount; k++) {
-      if (this.exitTime(cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k], horizonS, vT) < best) return false;
+      if (firstExit(this.probe, this.ends, cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k]) < best) return false;
     }
+    return this.pieceFound(expected, best, kind, vT);
+  }
+
+  /** The searched piece's end kept for logAndApply; false when it is not the nominal's (`expected`). */
+  private pieceFound(expected: number, best: number, kind: number, vT: number): boolean {
     if (kind !== expected || !(best > 0 && best < Infinity)) return false;
     this.pieceS = best;
     this.pieceKind = kind;
@@ -367,12 +405,11 @@ export class CycleReplay {
   }
 
   /**
-   * firstExit of g = c0 + cv·v + cs·s from the piece set in kin (horizon T, far end vT): the walk's exit
-   * search, with a piece at rest decided at once by the closed form it would reach (exitOfProbe's branch).
+   * firstExit of g = c0 + cv·v + cs·s from the piece at rest set in kin (horizon T, far end vT): the walk's
+   * exit search decided at once by the closed form it would reach (exitOfProbe's branch for a source at rest).
    */
-  private exitTime(c0: number, cv: number, cs: number, tolerance: number, horizonS: number, vT: number): number {
+  private exitAtRestOf(c0: number, cv: number, cs: number, tolerance: number, horizonS: number, vT: number): number {
     const kin = this.kin;
-    if (kin.r !== 0) return firstExit(this.probe, this.ends, c0, cv, cs, tolerance);
     const g0 = c0 + cv * kin.v0 + cs * kin.s0;
     if (g0 < -tolerance) return 0;
     return exitAtRest(kin.a, kin.k0, kin.v0, g0, c0 + cv * vT + cs * kin.s(horizonS), c0 + cs * kin.s0, cv, horizonS);
