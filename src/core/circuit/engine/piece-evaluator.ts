@@ -4,6 +4,7 @@
  */
 import type { ConfigCache, ConfigModel } from './configs.ts';
 import { CapacitorKinematics } from './capacitor-kinematics.ts';
+import { Kinematics } from './kinematics.ts';
 import { LOG, LOG_STRIDE, type PieceLog } from './piece-log.ts';
 import { AffineProbe, extremumTime, PieceEnds, solveBracket } from './root-solve.ts';
 import { MAX_STATES, ModalKinematics, R_C, R_S, R_X, SLOT } from './modal.ts';
@@ -11,6 +12,13 @@ import { MAX_STATES, ModalKinematics, R_C, R_S, R_X, SLOT } from './modal.ts';
 export class PieceEvaluator {
   readonly kin = new CapacitorKinematics();
   private readonly probe = new AffineProbe(this.kin);
+  /**
+   * The loaded piece once more as a plain Kinematics (the same fields, so the same v(t) bit for bit) for the
+   * crossing solves of a linear capacitor: the solver's probe then meets one kinematics class there, and
+   * its v(t) is compiled into the solve instead of called through the C(v) override.
+   */
+  private readonly linearKin = new Kinematics();
+  private readonly linearProbe = new AffineProbe(this.linearKin);
   readonly ends = new PieceEnds();
   startS = 0;
   durationS = 0;
@@ -215,7 +223,12 @@ export class PieceEvaluator {
   }
 
   private crossIn(c0: number, cv: number, cs: number, a: number, b: number, ga: number, gb: number, out: Float64Array, dir: Int8Array, n: number, tol?: number): number {
-    const probe = this.probe;
+    let probe = this.probe;
+    const k = this.kin;
+    if (!k.nonlinear) {
+      probe = this.linearProbe;
+      this.linearKin.set(k.a, k.k0, k.k1, k.v0, k.s0, k.r);
+    }
     probe.order = 0;
     if (ga >= 0 && gb < 0) {
       probe.setAffine(c0, cv, cs);
