@@ -183,6 +183,32 @@ describe('cycle replay hands vectors that leave the nominal sequence to the walk
     expect(cycle.endIndex).toBe(6);
     expect(Array.from({ length: 6 }, (_, i) => own.log.data[i * LOG_STRIDE + LOG.end])).toEqual([-1, -2, 0, -1, -2, 0]);
   });
+  // The replay skips the event functions of a cycle only when none can come near its boundary
+  // (cycle-replay.ts quietEvents): a current limit at the cycle's own peak output current, analyzeCircuit's
+  // figure, must still be watched — reached just below the peak, missed just above it.
+  const peakA = (() => {
+    const a = analyzeCircuit(circuit);
+    return Math.max(a.currents.outputPeakSourceA, a.currents.outputPeakSinkA);
+  })();
+  it('a current limit 0.1 % below the peak output current: reached, the replay declines', () => {
+    const values = Float64Array.from(p.nominal);
+    values[p.indexOf('outputCurrentLimitA')] = 0.999 * peakA;
+    expect(replay!.run(new OscillatorWalk(), values, start)).toBeUndefined();
+  });
+  it('a current limit 0.1 % above the peak output current: watched, never reached, the replay = the walk bit for bit', () => {
+    const values = Float64Array.from(p.nominal);
+    values[p.indexOf('outputCurrentLimitA')] = 1.001 * peakA;
+    const walk = new OscillatorWalk();
+    const walked = walkToCycle(walk, p.shape, values, true, start, false);
+    const own = new OscillatorWalk();
+    const cycle = replay!.run(own, values, start);
+    expect(cycle).toBeDefined();
+    expect({ ...cycle }).toEqual({ ...walked });
+    for (let i = 0; i < cycle!.endIndex; i++) {
+      for (const f of LOGGED_FIELDS) expect(Object.is(own.log.data[i * LOG_STRIDE + f], walk.log.data[i * LOG_STRIDE + f]), `piece ${i} field ${f}`).toBe(true);
+    }
+    expectAnalyzeFigures(p, values, 'limit just above the peak');
+  });
   for (const [label, change] of leaving) {
     it(`${label}: the replay declines, the walk answers as analyzeCircuit does`, () => {
       const values = Float64Array.from(p.nominal);

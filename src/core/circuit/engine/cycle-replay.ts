@@ -10,7 +10,8 @@
  * decision), and checks at every piece what the general walk would check:
  * - the piece ends by the event that ended the nominal's piece, after a time > 0,
  *   and no other function (threshold, diode, clamp, current limit) leaves its
- *   region first;
+ *   region first (an event function that stays clear of its boundary over the
+ *   cycle's whole range of v and s is cleared once per vector: quietEvents);
  * - after the event nothing is violated at once (the walk would resolve it);
  * - after the cycle the switching state repeats within the walk's steady-state
  *   tolerance.
@@ -143,6 +144,8 @@ export class CycleReplay {
   /** The piece just searched (pieceEnd): its duration, what ends it and the capacitor voltage at its horizon. */
   private pieceS = 0.5;
   private pieceKind = 0;
+  /** Event functions to watch in this vector's cycle: the configuration's, or 0 when none can reach its boundary (quietEvents). */
+  private events = 0;
   private pieceVEnd = 0.5;
 
   /**
@@ -178,6 +181,7 @@ export class CycleReplay {
     const rate = start.rateAt(slewVPerS);
     const s = start.sourceAt(lowV, highV, rate);
     const v = (cfg.hC + cfg.hS * s) / -cfg.hV;
+    this.events = quietEvents(cfg, v, lowV, highV) ? 0 : cfg.eventCount;
     this.t = 0;
     this.rate = rate;
     this.s = s;
@@ -270,7 +274,7 @@ export class CycleReplay {
       best = thresholdS;
       kind = THRESHOLD;
     }
-    for (let k = 0; k < cfg.eventCount; k++) {
+    for (let k = 0; k < this.events; k++) {
       if (this.exitAtRestOf(cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k], horizonS, vT) < best) return false;
     }
     return this.pieceFound(expected, best, kind, vT);
@@ -305,7 +309,7 @@ export class CycleReplay {
       best = thresholdS;
       kind = THRESHOLD;
     }
-    for (let k = 0; k < cfg.eventCount; k++) {
+    for (let k = 0; k < this.events; k++) {
       if (firstExit(this.probe, this.ends, cfg.evC[k], cfg.evV[k], cfg.evS[k], cfg.evTol[k]) < best) return false;
     }
     return this.pieceFound(expected, best, kind, vT);
@@ -401,7 +405,7 @@ export class CycleReplay {
         this.fallDoneT = t;
       }
     }
-    return !violated(cfg, v, s, logic ? 1 : -1, this.halfHystV, this.vTol);
+    return !violated(cfg, v, s, logic ? 1 : -1, this.halfHystV, this.vTol, this.events);
   }
 
   /**
@@ -416,11 +420,54 @@ export class CycleReplay {
   }
 }
 
-/** OscillatorWalk.resolve's test: is any function of the configuration beyond its boundary tolerance now? */
-function violated(cfg: ConfigModel, v: number, s: number, sg: number, halfHystV: number, vTol: number): boolean {
+/**
+ * OscillatorWalk.resolve's test: is any function of the configuration beyond its boundary tolerance now?
+ * (`events`: the event functions to test, 0 when quietEvents cleared them for the cycle.)
+ */
+function violated(cfg: ConfigModel, v: number, s: number, sg: number, halfHystV: number, vTol: number, events: number): boolean {
   if ((sg * (cfg.hC + cfg.hV * v + cfg.hS * s) + halfHystV) / vTol < -1) return true;
-  for (let k = 0; k < cfg.eventCount; k++) {
+  for (let k = 0; k < events; k++) {
     if ((cfg.evC[k] + cfg.evV[k] * v + cfg.evS[k] * s) / cfg.evTol[k] < -1) return true;
   }
   return false;
+}
+
+/**
+ * Relative margin, against the size of its terms, by which every event function must stay positive over the
+ * cycle's whole (v, s) box for quietEvents to clear it: far above the rounding of any value the exit
+ * searches compute (a few ulps of those terms) and of the box's own corners.
+ */
+const QUIET_MARGIN = 1e-6;
+
+/**
+ * True when no event function of the configuration (current limit, input clamp) can leave its region
+ * anywhere in this vector's cycle, so the exit searches and the resolve test would find nothing for them in
+ * any piece: the replay's one configuration moves v by dv/dt = b0 + bS·s − a·v with the source s between the
+ * saturation levels, so v never leaves the hull of its start and the asymptotes (b0 + bS·s)/a at both
+ * levels (at v's ends of the hull dv/dt points inward); an affine function positive over that box by a
+ * margin far above rounding is positive at every value the searches compute (their closed-form asymptote
+ * and interior extremum included), and each of them then answers "never" (Infinity) exactly as when
+ * evaluated. Otherwise (no resistive path, a function near its boundary) the replay watches them all.
+ */
+function quietEvents(cfg: ConfigModel, vStart: number, lowV: number, highV: number): boolean {
+  const n = cfg.eventCount;
+  if (n === 0) return true;
+  if (!(cfg.a > 0)) return false;
+  const vAtLow = (cfg.b0 + cfg.bS * lowV) / cfg.a;
+  const vAtHigh = (cfg.b0 + cfg.bS * highV) / cfg.a;
+  const vLo = Math.min(vStart, vAtLow, vAtHigh);
+  const vHi = Math.max(vStart, vAtLow, vAtHigh);
+  const sLo = Math.min(lowV, highV);
+  const sHi = Math.max(lowV, highV);
+  const vMag = Math.max(Math.abs(vLo), Math.abs(vHi));
+  const sMag = Math.max(Math.abs(sLo), Math.abs(sHi));
+  for (let k = 0; k < n; k++) {
+    const c = cfg.evC[k];
+    const cv = cfg.evV[k];
+    const cs = cfg.evS[k];
+    const least = c + Math.min(cv * vLo, cv * vHi) + Math.min(cs * sLo, cs * sHi);
+    const size = Math.abs(c) + Math.abs(cv) * vMag + Math.abs(cs) * sMag;
+    if (!(least > QUIET_MARGIN * size)) return false;
+  }
+  return true;
 }
