@@ -133,6 +133,26 @@ function ageingRatio(ratePerDecade: number, ageHours: number, years: number): nu
   return ageingFactor(ratePerDecade, ageHours + years * HOURS_PER_YEAR) / ageingFactor(ratePerDecade, ageHours);
 }
 
+/** A linear tempco's relative change at board temperature T, with its spread taken at w. */
+function linearChange(tempcoPpmPerK: number, spreadPpmPerK: number, w: number, temperatureC: number): number {
+  return (tempcoPpmPerK + spreadPpmPerK * w) * 1e-6 * (temperatureC - REFERENCE_TEMPERATURE_C);
+}
+
+/**
+ * Slot of each parameter by name, one map per parameter list: every model of a shape is built on the
+ * layout's own list, so a batch of assemblies builds the map once per shape rather than per assembly.
+ */
+const parameterIndexes = new WeakMap<readonly ParameterInfo[], ReadonlyMap<string, number>>();
+
+function parameterIndex(parameters: readonly ParameterInfo[]): ReadonlyMap<string, number> {
+  let index = parameterIndexes.get(parameters);
+  if (index === undefined) {
+    index = new Map(parameters.map((p, i) => [p.name, i]));
+    parameterIndexes.set(parameters, index);
+  }
+  return index;
+}
+
 function invalid(message: string, pointer: string): never {
   throw new CoreError('invalid-value', message, pointer);
 }
@@ -148,7 +168,7 @@ export function buildVariationModel(
   model: ModelName,
 ): VariationModel {
   request = withPartDefaults(request, parameters);
-  const index = new Map(parameters.map((p, i) => [p.name, i]));
+  const index = parameterIndex(parameters);
   const partIndex = (role: string, pointer: string): number => {
     const i = index.get(role);
     const kind = i === undefined ? undefined : parameters[i].kind;
@@ -301,13 +321,17 @@ export function buildVariationModel(
     dims[temperatureDimension].targets.push(p);
     linear.push({ param: p, tempcoPpmPerK, spreadPpmPerK, spreadDim: spread });
     const t = dims[temperatureDimension];
-    const changes = [t.low, t.high].flatMap((T) => [-1, 1].map((w) => (tempcoPpmPerK + spreadPpmPerK * w) * 1e-6 * (T - REFERENCE_TEMPERATURE_C)));
+    // The change at both ends of the range with both ends of the tempco spread, (low, −1), (low, +1), (high, −1), (high, +1).
+    const c0 = linearChange(tempcoPpmPerK, spreadPpmPerK, -1, t.low);
+    const c1 = linearChange(tempcoPpmPerK, spreadPpmPerK, 1, t.low);
+    const c2 = linearChange(tempcoPpmPerK, spreadPpmPerK, -1, t.high);
+    const c3 = linearChange(tempcoPpmPerK, spreadPpmPerK, 1, t.high);
     temperatureModels.push({
       role,
       model: dielectric ? 'dielectric' : 'tempco',
       dielectric,
-      changeMinFraction: Math.min(...changes) + 0,
-      changeMaxFraction: Math.max(...changes) + 0,
+      changeMinFraction: Math.min(c0, c1, c2, c3) + 0,
+      changeMaxFraction: Math.max(c0, c1, c2, c3) + 0,
       withinRatedRange: within,
     });
   }
@@ -333,8 +357,12 @@ export function buildVariationModel(
       drifts.push({ param: p, law, figure, signDim });
       t.targets.push(p);
       if (signDim >= 0) dims[signDim].targets.push(p);
-      const ends = [t.low, t.high].flatMap((T) => [-1, 1].map((w) => driftedValue(law, figure, x0, T - REFERENCE_TEMPERATURE_C, w)));
-      temperatureDrifts.push({ parameter: name, source, law: words, valueAtReference: x0, valueMin: Math.min(...ends) + 0, valueMax: Math.max(...ends) + 0 });
+      // The value at both ends of the range with both signs, (low, −1), (low, +1), (high, −1), (high, +1).
+      const e0 = driftedValue(law, figure, x0, t.low - REFERENCE_TEMPERATURE_C, -1);
+      const e1 = driftedValue(law, figure, x0, t.low - REFERENCE_TEMPERATURE_C, 1);
+      const e2 = driftedValue(law, figure, x0, t.high - REFERENCE_TEMPERATURE_C, -1);
+      const e3 = driftedValue(law, figure, x0, t.high - REFERENCE_TEMPERATURE_C, 1);
+      temperatureDrifts.push({ parameter: name, source, law: words, valueAtReference: x0, valueMin: Math.min(e0, e1, e2, e3) + 0, valueMax: Math.max(e0, e1, e2, e3) + 0 });
     };
     const timeDomain = model === 'time-domain';
     if (drift.inputOffsetDriftVPerK > 0) {
@@ -438,8 +466,8 @@ export function buildVariationModel(
   const terms = new VariationTerms(nominal, { multParam, multDim, multScale, linear, bandParam, bandDim, addParam, addDim, addScale, drifts, ageing: ageingTerms }, temperatureDimension);
   const apply = (u: Float64Array, values: Float64Array) => terms.apply(u, values);
 
-  const reference = Float64Array.from(dims, (d) => d.reference);
-  const center = Float64Array.from(dims, (d) => d.center);
+  const reference = column(Float64Array, dims, (d) => d.reference);
+  const center = column(Float64Array, dims, (d) => d.center);
   const varied = new Set<number>();
   for (const d of dims) for (const t of d.targets) varied.add(t);
   return {
