@@ -43,7 +43,11 @@ const coefficients = basis.coefficients;
 const STEP_KAPPA = 0.5;
 const MAX_PICARD = 60;
 const MAX_SEGMENTS = 512;
-/** Converged when the node values change by less than this, relative to the voltage scale. */
+/**
+ * Converged when the node values are within this of the fixed point, relative to the voltage scale:
+ * the last change, or its geometric continuation change·ρ/(1 − ρ) once the sweeps contract (ρ, the
+ * ratio of the last two changes, below 1/2), which saves the sweep that would only confirm it.
+ */
 const PICARD_TOLERANCE = 1e-14;
 
 /**
@@ -255,6 +259,7 @@ export class ChebyshevPiece {
     const { f, vNodes, c } = this;
     const tol = PICARD_TOLERANCE * this.scaleV;
     let converged = false;
+    let previous = 0;
     const { pm, u } = step;
     // The sweep's invariants out of the loop: the drive k0 + k1·t at each node, the curve, a.
     const { drive, shape, a: decay } = this;
@@ -275,7 +280,8 @@ export class ChebyshevPiece {
         if (d > change) change = d;
         vNodes[j] = next;
       }
-      converged = change <= tol;
+      converged = change <= tol || (change < 0.5 * previous && change * change <= tol * (previous - change));
+      previous = change;
     }
     coefficients(vNodes, c);
     return converged;
