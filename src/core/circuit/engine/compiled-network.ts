@@ -685,6 +685,7 @@ class CompiledConfig {
  * when a column has no pivot (a node without a DC path).
  */
 export function gaussJordan(a: Float64Array, m: number, width: number): boolean {
+  if (m === 2) return gaussJordan2(a, width);
   for (let col = 0; col < m; col++) {
     let pivot = col;
     let best = Math.abs(a[col * width + col]);
@@ -712,6 +713,38 @@ export function gaussJordan(a: Float64Array, m: number, width: number): boolean 
       for (let c = col; c < width; c++) a[r * width + c] -= f * a[col * width + c];
     }
   }
+  return true;
+}
+
+/**
+ * gaussJordan for m = 2 (the two unknown nodes of the commonest networks: the threshold node and the
+ * output pin behind the output resistance), written out: the same pivot choice and the same operations in
+ * the same order as the loops, so the same numbers bit for bit, without their index bookkeeping.
+ */
+function gaussJordan2(a: Float64Array, width: number): boolean {
+  // Column 0: pivot between rows 0 and 1, scale row 0, eliminate row 1.
+  let best = Math.abs(a[0]);
+  const other = Math.abs(a[width]);
+  if (other > best) {
+    best = other;
+    for (let c = 0; c < width; c++) {
+      const t = a[c];
+      a[c] = a[width + c];
+      a[width + c] = t;
+    }
+  }
+  if (!(best > 0)) return false;
+  let inv = 1 / a[0];
+  for (let c = 0; c < width; c++) a[c] *= inv;
+  let f = a[width];
+  if (f !== 0) for (let c = 0; c < width; c++) a[width + c] -= f * a[c];
+  // Column 1: row 1 is the only pivot left; scale it, eliminate row 0.
+  best = Math.abs(a[width + 1]);
+  if (!(best > 0)) return false;
+  inv = 1 / a[width + 1];
+  for (let c = 1; c < width; c++) a[width + c] *= inv;
+  f = a[1];
+  if (f !== 0) for (let c = 1; c < width; c++) a[c] -= f * a[width + c];
   return true;
 }
 
