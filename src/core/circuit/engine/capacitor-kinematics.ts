@@ -91,6 +91,11 @@ export class CapacitorKinematics extends Kinematics {
 
   override dv(t: number, vAtT: number): number {
     if (!this.nonlinear) return super.dv(t, vAtT);
+    return this.curvedDv(t, vAtT);
+  }
+
+  /** dv for a C(v) capacitor, out of dv so that a linear capacitor's dv stays as small as before (it is inlined into the root solves). */
+  private curvedDv(t: number, vAtT: number): number {
     const r = this.shape.ratio(vAtT);
     this.dvAtV = vAtT;
     this.dvRatio = r;
@@ -109,8 +114,11 @@ export class CapacitorKinematics extends Kinematics {
    */
   override d2v(dvAtT: number): number {
     if (!this.nonlinear) return -this.a * dvAtT + this.k1;
-    const v = this.dvAtV;
-    return (this.k1 - this.a * dvAtT - this.shape.slope(v) * dvAtT * dvAtT) / this.dvRatio;
+    return this.curvedD2v(dvAtT);
+  }
+
+  private curvedD2v(dvAtT: number): number {
+    return (this.k1 - this.a * dvAtT - this.shape.slope(this.dvAtV) * dvAtT * dvAtT) / this.dvRatio;
   }
 
   override integralV(durationS: number): number {
