@@ -161,6 +161,113 @@ function checkFraction(value: number, pointer: string): void {
   if (!Number.isFinite(value) || value < 0 || value >= 1) invalid('a tolerance is a fraction from 0 up to (not including) 1', pointer);
 }
 
+/** Slot of a role that is a part (resistor or capacitor) of this circuit. */
+function partIndexOf(index: ReadonlyMap<string, number>, parameters: readonly ParameterInfo[], role: string, pointer: string): number {
+  const i = index.get(role);
+  const kind = i === undefined ? undefined : parameters[i].kind;
+  if (i === undefined || (kind !== 'resistor' && kind !== 'capacitor')) {
+    const roles = parameters.filter((p) => p.kind === 'resistor' || p.kind === 'capacitor').map((p) => p.name);
+    invalid(`'${role}' is not a part of this circuit; its parts are ${roles.join(', ')}`, pointer);
+  }
+  return i;
+}
+
+/**
+ * What a model build collects as it goes. The steps below are module functions over it rather than
+ * closures of buildVariationModel: a model is built per tolerance run (once per BOM assembly), and a
+ * runner that keeps function names (tsx) pays for every closure each build creates.
+ */
+interface ModelBuild {
+  index: ReadonlyMap<string, number>;
+  nominal: Float64Array;
+  dims: Dimension[];
+  lists: TermLists;
+  /** Index of the temperature dimension, −1 when there is none. */
+  temperatureDimension: number;
+  temperatureModels: TemperatureModelSummary[];
+  temperatureDrifts: TemperatureDriftSummary[];
+}
+
+function spreadDim(build: ModelBuild, name: string, kind: VariationKind, targets: number[]): number {
+  build.dims.push({ name, kind, sampling: 'spread', low: -1, high: 1, reference: 0, center: 0, targets });
+  return build.dims.length - 1;
+}
+
+function multiply(build: ModelBuild, param: number, dim: number, scale: number): void {
+  build.lists.multParam.push(param);
+  build.lists.multDim.push(dim);
+  build.lists.multScale.push(scale);
+}
+
+function addLinear(build: ModelBuild, role: string, p: number, tempcoPpmPerK: number, spreadPpmPerK: number, dielectric: string | null, within: boolean): void {
+  const dims = build.dims;
+  let spread = -1;
+  if (spreadPpmPerK > 0) {
+    dims.push({ name: `${role} tempco`, kind: 'tempco-spread', sampling: 'uniform', low: -1, high: 1, reference: 0, center: 0, targets: [p] });
+    spread = dims.length - 1;
+  }
+  dims[build.temperatureDimension].targets.push(p);
+  build.lists.linear.push({ param: p, tempcoPpmPerK, spreadPpmPerK, spreadDim: spread });
+  const t = dims[build.temperatureDimension];
+  // The change at both ends of the range with both ends of the tempco spread, (low, −1), (low, +1), (high, −1), (high, +1).
+  const c0 = linearChange(tempcoPpmPerK, spreadPpmPerK, -1, t.low);
+  const c1 = linearChange(tempcoPpmPerK, spreadPpmPerK, 1, t.low);
+  const c2 = linearChange(tempcoPpmPerK, spreadPpmPerK, -1, t.high);
+  const c3 = linearChange(tempcoPpmPerK, spreadPpmPerK, 1, t.high);
+  build.temperatureModels.push({
+    role,
+    model: dielectric ? 'dielectric' : 'tempco',
+    dielectric,
+    changeMinFraction: Math.min(c0, c1, c2, c3) + 0,
+    changeMaxFraction: Math.max(c0, c1, c2, c3) + 0,
+    withinRatedRange: within,
+  });
+}
+
+/** One active-part parameter drifting with the board temperature (absent from this shape: nothing). */
+function addDrift(build: ModelBuild, name: string, law: DriftLaw, figure: number, source: TemperatureDriftSummary['source'], words: string, signDim = -1): void {
+  const p = build.index.get(name);
+  if (p === undefined) return;
+  const dims = build.dims;
+  const t = dims[build.temperatureDimension];
+  const x0 = build.nominal[p];
+  build.lists.drifts.push({ param: p, law, figure, signDim });
+  t.targets.push(p);
+  if (signDim >= 0) dims[signDim].targets.push(p);
+  // The value at both ends of the range with both signs, (low, −1), (low, +1), (high, −1), (high, +1).
+  const e0 = driftedValue(law, figure, x0, t.low - REFERENCE_TEMPERATURE_C, -1);
+  const e1 = driftedValue(law, figure, x0, t.low - REFERENCE_TEMPERATURE_C, 1);
+  const e2 = driftedValue(law, figure, x0, t.high - REFERENCE_TEMPERATURE_C, -1);
+  const e3 = driftedValue(law, figure, x0, t.high - REFERENCE_TEMPERATURE_C, 1);
+  build.temperatureDrifts.push({ parameter: name, source, law: words, valueAtReference: x0, valueMin: Math.min(e0, e1, e2, e3) + 0, valueMax: Math.max(e0, e1, e2, e3) + 0 });
+}
+
+function addActiveDrift(build: ModelBuild, amp: AmplifierModel, model: ModelName): void {
+  const { dims, index, nominal } = build;
+  const drift = driftOf(amp);
+  const timeDomain = model === 'time-domain';
+  if (drift.inputOffsetDriftVPerK > 0) {
+    dims.push({ name: 'inputOffsetV drift sign', kind: 'tempco-spread', sampling: 'uniform', low: -1, high: 1, reference: 0, center: 0, targets: [] });
+    addDrift(build, 'inputOffsetV', DRIFT_LAW.offset, drift.inputOffsetDriftVPerK, 'amplifier', `± ${micro(drift.inputOffsetDriftVPerK)} µV/K (sign unknown: both)`, dims.length - 1);
+  }
+  const biasIndex = index.get('inputBiasCurrentA');
+  if (Number.isFinite(drift.inputBiasDoublingK) && biasIndex !== undefined && nominal[biasIndex] > 0) {
+    addDrift(build, 'inputBiasCurrentA', DRIFT_LAW.biasDoubling, drift.inputBiasDoublingK, 'amplifier', `doubles every ${drift.inputBiasDoublingK} K`);
+  }
+  if (drift.outputHeadroomDriftVPerK !== 0) {
+    const words = `${milli(drift.outputHeadroomDriftVPerK)} mV/K (not below 0)`;
+    addDrift(build, 'outputHeadroomHighV', DRIFT_LAW.headroom, drift.outputHeadroomDriftVPerK, 'amplifier', words);
+    addDrift(build, 'outputHeadroomLowV', DRIFT_LAW.headroom, drift.outputHeadroomDriftVPerK, 'amplifier', words);
+  }
+  const delayIndex = index.get('recoveryDelayS');
+  if (timeDomain && drift.delayDriftPerK !== 0 && delayIndex !== undefined && nominal[delayIndex] > 0) {
+    addDrift(build, 'recoveryDelayS', DRIFT_LAW.delay, drift.delayDriftPerK, 'amplifier', `${Number((drift.delayDriftPerK * 100).toPrecision(3))} %/K`);
+  }
+  if (index.has('diodeForwardDropV')) {
+    addDrift(build, 'diodeForwardDropV', DRIFT_LAW.diodeDrop, DIODE_FORWARD_DROP_TEMPCO_V_PER_K, 'steering-diodes', `${milli(DIODE_FORWARD_DROP_TEMPCO_V_PER_K)} mV/K (silicon junction, common practice; not below 0)`);
+  }
+}
+
 export function buildVariationModel(
   request: ToleranceRequest,
   parameters: readonly ParameterInfo[],
@@ -169,37 +276,18 @@ export function buildVariationModel(
 ): VariationModel {
   request = withPartDefaults(request, parameters);
   const index = parameterIndex(parameters);
-  const partIndex = (role: string, pointer: string): number => {
-    const i = index.get(role);
-    const kind = i === undefined ? undefined : parameters[i].kind;
-    if (i === undefined || (kind !== 'resistor' && kind !== 'capacitor')) {
-      const roles = parameters.filter((p) => p.kind === 'resistor' || p.kind === 'capacitor').map((p) => p.name);
-      invalid(`'${role}' is not a part of this circuit; its parts are ${roles.join(', ')}`, pointer);
-    }
-    return i;
+  const build: ModelBuild = {
+    index,
+    nominal,
+    dims: [],
+    lists: { multParam: [], multDim: [], multScale: [], linear: [], bandParam: [], bandDim: [], addParam: [], addDim: [], addScale: [], drifts: [], ageing: [] },
+    temperatureDimension: -1,
+    temperatureModels: [],
+    temperatureDrifts: [],
   };
-  const dims: Dimension[] = [];
+  const { dims, temperatureModels, temperatureDrifts } = build;
+  const { addParam, addDim, addScale, bandParam, bandDim, drifts } = build.lists;
   const notes: ToleranceNote[] = [];
-  const multParam: number[] = [];
-  const multDim: number[] = [];
-  const multScale: number[] = [];
-  const addParam: number[] = [];
-  const addDim: number[] = [];
-  const addScale: number[] = [];
-  const bandParam: number[] = [];
-  const bandDim: number[] = [];
-  const linear: LinearTempTerm[] = [];
-  const temperatureModels: TemperatureModelSummary[] = [];
-
-  const spreadDim = (name: string, kind: VariationKind, targets: number[]): number => {
-    dims.push({ name, kind, sampling: 'spread', low: -1, high: 1, reference: 0, center: 0, targets });
-    return dims.length - 1;
-  };
-  const multiply = (param: number, dim: number, scale: number) => {
-    multParam.push(param);
-    multDim.push(dim);
-    multScale.push(scale);
-  };
 
   // --- tracking groups first: their members take no independent tolerance dimension
   const tracked = new Map<string, number>();
@@ -209,20 +297,20 @@ export function buildVariationModel(
     const members = group.roles.map((role, k) => {
       if (tracked.has(role)) invalid(`'${role}' is already in tracking group ${tracked.get(role)}`, `${pointer}/roles/${k}`);
       tracked.set(role, g);
-      return partIndex(role, `${pointer}/roles/${k}`);
+      return partIndexOf(index, parameters, role, `${pointer}/roles/${k}`);
     });
     const shared = group.tolerance ?? Math.max(0, ...group.roles.map((r) => request.tolerances[r] ?? 0));
     checkFraction(shared, `${pointer}/tolerance`);
     if (shared > 0) {
-      const d = spreadDim(`tracking[${g}]`, 'tracking', members);
-      for (const p of members) multiply(p, d, shared);
+      const d = spreadDim(build, `tracking[${g}]`, 'tracking', members);
+      for (const p of members) multiply(build, p, d, shared);
     }
     const residual = group.residualTolerance ?? 0;
     checkFraction(residual, `${pointer}/residualTolerance`);
     if (residual > 0) {
       group.roles.forEach((role, k) => {
-        const d = spreadDim(`${role} residual`, 'tracking-residual', [members[k]]);
-        multiply(members[k], d, residual);
+        const d = spreadDim(build, `${role} residual`, 'tracking-residual', [members[k]]);
+        multiply(build, members[k], d, residual);
       });
     }
   });
@@ -230,14 +318,13 @@ export function buildVariationModel(
   // --- independent part tolerances
   for (const [role, tolerance] of Object.entries(request.tolerances)) {
     const pointer = `/tolerances/${role}`;
-    const p = partIndex(role, pointer);
+    const p = partIndexOf(index, parameters, role, pointer);
     checkFraction(tolerance, pointer);
     if (tracked.has(role) || tolerance === 0) continue;
-    multiply(p, spreadDim(role, 'part-tolerance', [p]), tolerance);
+    multiply(build, p, spreadDim(build, role, 'part-tolerance', [p]), tolerance);
   }
 
   // --- temperature
-  let temperatureDimension = -1;
   const range = request.temperature;
   if (range) {
     const { minC, maxC } = range;
@@ -254,15 +341,16 @@ export function buildVariationModel(
       center: (minC + maxC) / 2,
       targets: [],
     });
-    temperatureDimension = dims.length - 1;
+    build.temperatureDimension = dims.length - 1;
   }
+  const temperatureDimension = build.temperatureDimension;
   const coefficients = Object.entries(request.temperatureCoefficients ?? {});
   if (coefficients.length > 0 && !range) {
     notes.push({ code: 'no-temperature-range', message: 'temperatureCoefficients are given but no temperature range: the parts are taken at 25 °C' });
   }
   for (const [role, coefficient] of range ? coefficients : []) {
     const pointer = `/temperatureCoefficients/${role}`;
-    const p = partIndex(role, pointer);
+    const p = partIndexOf(index, parameters, role, pointer);
     const tempDim = dims[temperatureDimension];
     if ('dielectric' in coefficient) {
       if (parameters[p].kind !== 'capacitor') invalid(`'${role}' is a resistor: give tempcoPpmPerK, not a dielectric`, `${pointer}/dielectric`);
@@ -275,7 +363,7 @@ export function buildVariationModel(
         });
       }
       if (dielectric.tempcoPpmPerK !== undefined) {
-        addLinear(role, p, dielectric.tempcoPpmPerK, dielectric.tempcoTolerancePpmPerK ?? 0, dielectric.code, within);
+        addLinear(build, role, p, dielectric.tempcoPpmPerK, dielectric.tempcoTolerancePpmPerK ?? 0, dielectric.code, within);
       } else {
         // Class II/III (and electrolytic) figures are one band across the rated range.
         const band = capacitanceChangeAt(dielectric, tempDim.center);
@@ -308,38 +396,12 @@ export function buildVariationModel(
       if (!Number.isFinite(tempcoTolerancePpmPerK) || tempcoTolerancePpmPerK < 0 || tempcoTolerancePpmPerK > TEMPCO_LIMIT_PPM_PER_K) {
         invalid('tempcoTolerancePpmPerK must be a non-negative ppm/K figure', `${pointer}/tempcoTolerancePpmPerK`);
       }
-      addLinear(role, p, tempcoPpmPerK, tempcoTolerancePpmPerK, null, true);
+      addLinear(build, role, p, tempcoPpmPerK, tempcoTolerancePpmPerK, null, true);
     }
-  }
-
-  function addLinear(role: string, p: number, tempcoPpmPerK: number, spreadPpmPerK: number, dielectric: string | null, within: boolean) {
-    let spread = -1;
-    if (spreadPpmPerK > 0) {
-      dims.push({ name: `${role} tempco`, kind: 'tempco-spread', sampling: 'uniform', low: -1, high: 1, reference: 0, center: 0, targets: [p] });
-      spread = dims.length - 1;
-    }
-    dims[temperatureDimension].targets.push(p);
-    linear.push({ param: p, tempcoPpmPerK, spreadPpmPerK, spreadDim: spread });
-    const t = dims[temperatureDimension];
-    // The change at both ends of the range with both ends of the tempco spread, (low, −1), (low, +1), (high, −1), (high, +1).
-    const c0 = linearChange(tempcoPpmPerK, spreadPpmPerK, -1, t.low);
-    const c1 = linearChange(tempcoPpmPerK, spreadPpmPerK, 1, t.low);
-    const c2 = linearChange(tempcoPpmPerK, spreadPpmPerK, -1, t.high);
-    const c3 = linearChange(tempcoPpmPerK, spreadPpmPerK, 1, t.high);
-    temperatureModels.push({
-      role,
-      model: dielectric ? 'dielectric' : 'tempco',
-      dielectric,
-      changeMinFraction: Math.min(c0, c1, c2, c3) + 0,
-      changeMaxFraction: Math.max(c0, c1, c2, c3) + 0,
-      withinRatedRange: within,
-    });
   }
 
   // --- drift of the active parts with the board temperature
-  const drifts: DriftTerm[] = [];
-  const temperatureDrifts: TemperatureDriftSummary[] = [];
-  if (range) addActiveDrift(request.circuit.amplifier);
+  if (range) addActiveDrift(build, request.circuit.amplifier, model);
   if (range && coefficients.length === 0 && drifts.length === 0) {
     notes.push({
       code: 'temperature-without-coefficients',
@@ -347,48 +409,8 @@ export function buildVariationModel(
     });
   }
 
-  function addActiveDrift(amp: AmplifierModel) {
-    const t = dims[temperatureDimension];
-    const drift = driftOf(amp);
-    const add = (name: string, law: DriftLaw, figure: number, source: TemperatureDriftSummary['source'], words: string, signDim = -1) => {
-      const p = index.get(name);
-      if (p === undefined) return;
-      const x0 = nominal[p];
-      drifts.push({ param: p, law, figure, signDim });
-      t.targets.push(p);
-      if (signDim >= 0) dims[signDim].targets.push(p);
-      // The value at both ends of the range with both signs, (low, −1), (low, +1), (high, −1), (high, +1).
-      const e0 = driftedValue(law, figure, x0, t.low - REFERENCE_TEMPERATURE_C, -1);
-      const e1 = driftedValue(law, figure, x0, t.low - REFERENCE_TEMPERATURE_C, 1);
-      const e2 = driftedValue(law, figure, x0, t.high - REFERENCE_TEMPERATURE_C, -1);
-      const e3 = driftedValue(law, figure, x0, t.high - REFERENCE_TEMPERATURE_C, 1);
-      temperatureDrifts.push({ parameter: name, source, law: words, valueAtReference: x0, valueMin: Math.min(e0, e1, e2, e3) + 0, valueMax: Math.max(e0, e1, e2, e3) + 0 });
-    };
-    const timeDomain = model === 'time-domain';
-    if (drift.inputOffsetDriftVPerK > 0) {
-      dims.push({ name: 'inputOffsetV drift sign', kind: 'tempco-spread', sampling: 'uniform', low: -1, high: 1, reference: 0, center: 0, targets: [] });
-      add('inputOffsetV', DRIFT_LAW.offset, drift.inputOffsetDriftVPerK, 'amplifier', `± ${micro(drift.inputOffsetDriftVPerK)} µV/K (sign unknown: both)`, dims.length - 1);
-    }
-    const biasIndex = index.get('inputBiasCurrentA');
-    if (Number.isFinite(drift.inputBiasDoublingK) && biasIndex !== undefined && nominal[biasIndex] > 0) {
-      add('inputBiasCurrentA', DRIFT_LAW.biasDoubling, drift.inputBiasDoublingK, 'amplifier', `doubles every ${drift.inputBiasDoublingK} K`);
-    }
-    if (drift.outputHeadroomDriftVPerK !== 0) {
-      const words = `${milli(drift.outputHeadroomDriftVPerK)} mV/K (not below 0)`;
-      add('outputHeadroomHighV', DRIFT_LAW.headroom, drift.outputHeadroomDriftVPerK, 'amplifier', words);
-      add('outputHeadroomLowV', DRIFT_LAW.headroom, drift.outputHeadroomDriftVPerK, 'amplifier', words);
-    }
-    const delayIndex = index.get('recoveryDelayS');
-    if (timeDomain && drift.delayDriftPerK !== 0 && delayIndex !== undefined && nominal[delayIndex] > 0) {
-      add('recoveryDelayS', DRIFT_LAW.delay, drift.delayDriftPerK, 'amplifier', `${Number((drift.delayDriftPerK * 100).toPrecision(3))} %/K`);
-    }
-    if (index.has('diodeForwardDropV')) {
-      add('diodeForwardDropV', DRIFT_LAW.diodeDrop, DIODE_FORWARD_DROP_TEMPCO_V_PER_K, 'steering-diodes', `${milli(DIODE_FORWARD_DROP_TEMPCO_V_PER_K)} mV/K (silicon junction, common practice; not below 0)`);
-    }
-  }
-
   // --- ageing of the timing capacitor over the service life
-  const ageingTerms: AgeingTerm[] = [];
+  const ageingTerms = build.lists.ageing;
   let ageing: AgeingSummary | null = null;
   const serviceLifeYears = request.serviceLifeYears ?? 0;
   if (!Number.isFinite(serviceLifeYears) || serviceLifeYears < 0 || serviceLifeYears > SERVICE_LIFE_LIMIT_YEARS) {
@@ -427,10 +449,10 @@ export function buildVariationModel(
   if (supplyTolerance > 0) {
     const rails = ['supplyPositiveV', 'supplyNegativeV'].map((n) => index.get(n)!).filter((i) => nominal[i] !== 0);
     if (request.supplyRailsIndependent) {
-      for (const r of rails) multiply(r, spreadDim(parameters[r].name, 'supply', [r]), supplyTolerance);
+      for (const r of rails) multiply(build, r, spreadDim(build, parameters[r].name, 'supply', [r]), supplyTolerance);
     } else {
-      const d = spreadDim('supply', 'supply', rails);
-      for (const r of rails) multiply(r, d, supplyTolerance);
+      const d = spreadDim(build, 'supply', 'supply', rails);
+      for (const r of rails) multiply(build, r, d, supplyTolerance);
     }
   }
 
@@ -451,20 +473,19 @@ export function buildVariationModel(
       notes.push({ code: 'spread-without-effect', message: `${field} is ${nominal[p] === 0 ? '0' : 'unlimited'} for this amplifier, so a relative spread has no effect` });
       continue;
     }
-    multiply(p, spreadDim(field, 'amplifier', [p]), fraction);
+    multiply(build, p, spreadDim(build, field, 'amplifier', [p]), fraction);
   }
   const offsetRangeV = spreads.inputOffsetRangeV ?? 0;
   if (!Number.isFinite(offsetRangeV) || offsetRangeV < 0 || offsetRangeV > 1) invalid('inputOffsetRangeV must be from 0 to 1 V', '/amplifierSpreads/inputOffsetRangeV');
   if (offsetRangeV > 0) {
     const p = index.get('inputOffsetV')!;
-    const d = spreadDim('inputOffsetRange', 'amplifier', [p]);
+    const d = spreadDim(build, 'inputOffsetRange', 'amplifier', [p]);
     addParam.push(p);
     addDim.push(d);
     addScale.push(offsetRangeV);
   }
 
-  const terms = new VariationTerms(nominal, { multParam, multDim, multScale, linear, bandParam, bandDim, addParam, addDim, addScale, drifts, ageing: ageingTerms }, temperatureDimension);
-  const apply = (u: Float64Array, values: Float64Array) => terms.apply(u, values);
+  const terms = new VariationTerms(nominal, build.lists, temperatureDimension);
 
   const reference = column(Float64Array, dims, (d) => d.reference);
   const center = column(Float64Array, dims, (d) => d.center);
@@ -476,10 +497,17 @@ export function buildVariationModel(
     dimensions: dims,
     temperatureDimension,
     variedParameters: [...varied].sort((a, b) => a - b),
-    apply,
+    // Methods, not arrow properties: nothing per build but the object (keepNames runners name every arrow).
+    apply(u: Float64Array, values: Float64Array) {
+      terms.apply(u, values);
+    },
     terms,
-    referencePoint: () => reference.slice(),
-    centerPoint: () => center.slice(),
+    referencePoint() {
+      return reference.slice();
+    },
+    centerPoint() {
+      return center.slice();
+    },
     temperatureModels,
     temperatureDrifts,
     ageing,
