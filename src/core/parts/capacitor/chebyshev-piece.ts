@@ -193,7 +193,8 @@ export class ChebyshevPiece {
       const converged = this.picard(tA, vA, step, plain ? 0 : step.kappa / this.h);
       const c = this.c;
       const tail = Math.abs(c[N]) + Math.abs(c[N - 1]);
-      if (tail <= tailTol) break;
+      // An iteration that did not converge is no answer, whatever its tail says.
+      if (converged && tail <= tailTol) break;
       // Only a try that converged to numbers is a start (a first length far past a short slew can overflow).
       hFailed = converged && Number.isFinite(tail) ? this.h : 0;
       if (plain) this.h *= 0.5;
@@ -281,6 +282,9 @@ export class ChebyshevPiece {
         vNodes[j] = next;
       }
       converged = change <= tol || (change < 0.5 * previous && change * change <= tol * (previous - change));
+      // Not contracting (or not numbers) after the first sweeps: this length is too long (typically a first
+      // length far past a short slew, where the ramp runs away); give it up now instead of after MAX_PICARD.
+      if (!converged && it >= 2 && !(change < previous)) break;
       previous = change;
     }
     coefficients(vNodes, c);
