@@ -127,13 +127,8 @@ export class PointsShape implements BiasShape {
     const n = vs.length;
     if (x <= vs[0]) return this.rs[0];
     if (x >= vs[n - 1]) return this.rs[n - 1];
-    let lo = 0;
-    let hi = n - 1;
-    while (hi - lo > 1) {
-      const mid = (lo + hi) >> 1;
-      if (vs[mid] <= x) lo = mid;
-      else hi = mid;
-    }
+    const lo = this.segmentOf(x);
+    const hi = lo + 1;
     const w = (x - vs[lo]) / (vs[hi] - vs[lo]);
     return this.rs[lo] + w * (this.rs[hi] - this.rs[lo]);
   }
@@ -143,14 +138,21 @@ export class PointsShape implements BiasShape {
     const vs = this.vs;
     const n = vs.length;
     if (x < vs[0] || x >= vs[n - 1]) return 0;
+    const lo = this.segmentOf(x);
+    const hi = lo + 1;
+    return (Math.sign(voltageV) * (this.rs[hi] - this.rs[lo])) / (vs[hi] - vs[lo]);
+  }
+  /** The first point of the segment holding x (vs[0] ≤ x < vs[n − 1]), by bisection. */
+  private segmentOf(x: number): number {
+    const vs = this.vs;
     let lo = 0;
-    let hi = n - 1;
+    let hi = vs.length - 1;
     while (hi - lo > 1) {
       const mid = (lo + hi) >> 1;
       if (vs[mid] <= x) lo = mid;
       else hi = mid;
     }
-    return (Math.sign(voltageV) * (this.rs[hi] - this.rs[lo])) / (vs[hi] - vs[lo]);
+    return lo;
   }
   /** Piecewise quadratic: the trapezoids of the linear pieces below |v|, plus the part of the one |v| is in. */
   charge(voltageV: number): number {
