@@ -1,10 +1,15 @@
 /**
  * The engine with a class II timing capacitor (non-linear C(v) pieces) against
  * the same engine with a linear capacitor of the same value, measured in this
- * run — target: ≥ 100k analyses/s per core with C(v).
+ * run — target: ≥ 100k analyses/s per core with C(v), on the ideal amplifier
+ * (the C(v) machinery itself: one source-at-rest piece per state), repeated and
+ * over a ring of circuits.
  * Two circuits of our own: a 5 V moisture-probe clock on the ideal amplifier
  * (one source-at-rest piece per state: quadrature) and on a slewing CMOS part
- * (slew pieces too: Picard–Chebyshev); then the ±10 V timebase with 470 pF at P and
+ * (slew pieces too: Picard–Chebyshev). With the slewing part the linear-capacitor
+ * engine itself runs below 100k/s (its slew and delay pieces), so that case is
+ * reported as its ratio to the linear engine, not against the absolute target.
+ * Then the ±10 V timebase with 470 pF at P and
  * 1 nF on the pin behind 200 Ω (multi-state pieces: modal closed form for the linear
  * capacitor, collocation for C(v)), as Monte Carlo evaluates it (prepared model, a ring
  * of vectors). No target for the last yet: its figures are printed beside the linear one's.
@@ -61,7 +66,8 @@ for (const amp of ['ideal', 'cmos-rro-micropower']) {
   const fc = analyzeTimeDomain(curved).frequencyHz;
   console.log(`${amp}: linear 10 nF ${fl.toFixed(1)} Hz, 0402 6.3 V X7R ${fc.toFixed(1)} Hz`);
   console.log(`  engine, linear capacitor:  ${fmt(l.wall)} analyses/s wall, ${fmt(l.cpu)} per CPU-second`);
-  console.log(`  engine, class II C(v):     ${fmt(c.wall)} analyses/s wall, ${fmt(c.cpu)} per CPU-second (target ≥ 100,000/s per core)`);
+  const target = amp === 'ideal' ? (c.cpu >= 100_000 ? '(target ≥ 100,000/s per core: met)' : '(target ≥ 100,000/s per core: NOT met)') : `(linear engine ${fmt(l.cpu)}/s here: ratio below)`;
+  console.log(`  engine, class II C(v):     ${fmt(c.wall)} analyses/s wall, ${fmt(c.cpu)} per CPU-second ${target}`);
   console.log(`  ratio C(v)/linear (CPU):   ${(c.cpu / l.cpu).toFixed(3)}`);
   // The engine keeps the last few solved slew pieces: a circuit analysed again re-uses them. A ring of
   // circuits that differ in R (as Monte Carlo draws do) meets no piece twice in a row: the cold figure.
@@ -75,7 +81,8 @@ for (const amp of ['ideal', 'cmos-rro-micropower']) {
   rate(() => analyzeTimeDomain(cr[ci++ % RING]).periodS);
   const lc = rate(() => analyzeTimeDomain(lr[li++ % RING]).periodS);
   const cc = rate(() => analyzeTimeDomain(cr[ci++ % RING]).periodS);
-  console.log(`  ring of ${RING} circuits (R varies), linear: ${fmt(lc.cpu)} per CPU-second; C(v): ${fmt(cc.cpu)} per CPU-second`);
+  const ringTarget = amp === 'ideal' ? (cc.cpu >= 100_000 ? ' (target: met)' : ' (target: NOT met)') : '';
+  console.log(`  ring of ${RING} circuits (R varies), linear: ${fmt(lc.cpu)} per CPU-second; C(v): ${fmt(cc.cpu)} per CPU-second${ringTarget}`);
   console.log(`  ratio C(v)/linear, ring (CPU): ${(cc.cpu / lc.cpu).toFixed(3)}`);
   if (!Number.isFinite(l.check + c.check + lc.check + cc.check)) bad = true;
 }
