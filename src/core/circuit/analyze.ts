@@ -12,7 +12,7 @@ import { CHECK_CODES, clampReached, oscillationChecks, supplyChecks, type Check 
 import { shapeFor, type CompiledShape } from './engine/compiled-network.ts';
 import { ConfigCache } from './engine/configs.ts';
 import { analyzeTimeDomain } from './engine/index.ts';
-import { effectsOf, evaluateOnce, EVALUATION_STATUS, nominalKey, OUTPUT_LENGTH, OUTPUT_SLOT, PreparedModel, type PrepareModelOptions } from './engine/prepared.ts';
+import { effectsOf, evaluateOnce, EVALUATION_STATUS, nominalKey, OUTPUT_LENGTH, OUTPUT_SLOT, PreparedModel, walkedStarts, type PrepareModelOptions } from './engine/prepared.ts';
 import { checkEdgeFraction, DEFAULT_EDGE_FRACTION, frequencyCeilingHz, nominalEdgeTimes, slewLimitedCheck, slowerEdges } from './frequency-ceiling.ts';
 import type { AnalysisResult, ModelEffect, ModelName, OscillationFigures } from './result.ts';
 import { stateModelOf, type StateModel } from './state-model.ts';
@@ -71,17 +71,17 @@ export function prepareCircuit(circuit: Circuit, model: ModelChoice = 'auto'): P
   const shape = shapeFor(circuit, topology);
   const values = shape.layout.valuesOf(circuit);
   const dynamics = model !== 'closed-form';
+  const { high, low } = nominalStateModels(circuit, shape, values, dynamics);
+  return { circuit, topology, shape, values, dynamics, effects: effectsOf(values, shape, dynamics), high, low };
+}
+
+/** Both nominal output states solved (throws 'no-oscillation' when one has no path or cannot switch). */
+function nominalStateModels(circuit: Circuit, shape: CompiledShape, values: Float64Array, dynamics: boolean): { high: StateModel; low: StateModel } {
   nominalCache.reset(shape, values, dynamics);
   const amp = circuit.amplifier;
   const highSourceV = shape.openDrain ? Number.NaN : circuit.supply.positiveV - amp.outputHeadroomHighV;
   const lowSourceV = circuit.supply.negativeV + amp.outputHeadroomLowV;
   return {
-    circuit,
-    topology,
-    shape,
-    values,
-    dynamics,
-    effects: effectsOf(values, shape, dynamics),
     high: stateModelOf(nominalCache.get(nominalKey(shape, 'high')), 'high', highSourceV, amp.inputOffsetV),
     low: stateModelOf(nominalCache.get(nominalKey(shape, 'low')), 'low', lowSourceV, amp.inputOffsetV),
   };
@@ -92,8 +92,16 @@ export function prepareCircuit(circuit: Circuit, model: ModelChoice = 'auto'): P
  * sensitivities, searches, fitting): validates, then compiles. See engine/prepared.ts.
  */
 export function prepareModel(circuit: Circuit, options: PrepareModelOptions & { model?: ModelChoice } = {}): PreparedModel {
-  const prepared = prepareCircuit(circuit, options.model);
-  return new PreparedModel(prepared.shape, circuit, { dynamics: prepared.dynamics, transitions: options.transitions });
+  const topology = getTopology(circuit.topology);
+  validateCircuit(circuit, topology);
+  const shape = shapeFor(circuit, topology);
+  const values = shape.layout.valuesOf(circuit);
+  const dynamics = options.model !== 'closed-form';
+  // The same vector just analysed: its walk's steady start, and prepareCircuit's state models already
+  // accepted it (walkedStarts); else those state models are checked here (they throw like an analysis).
+  const walked = walkedStarts.take(shape, values, dynamics);
+  if (!walked) nominalStateModels(circuit, shape, values, dynamics);
+  return new PreparedModel(shape, circuit, { dynamics, transitions: options.transitions }, values, walked);
 }
 
 const screenOut = new Float64Array(OUTPUT_LENGTH);

@@ -86,9 +86,60 @@ const levels = new Float64Array(2);
 const crossings = new Float64Array(2);
 const transitions = new Float64Array(2);
 
+/** Walks from power-up whose steady start is kept (WalkedStarts). */
+const WALKED_STARTS = 16;
+
+/**
+ * The steady starts of the latest full walks from power-up (an analysis' walk, currents included), by
+ * shape, dynamics and the vector bit for bit. A PreparedModel of a vector just analysed — a BOM check
+ * prepares the very circuit its nominal-supply analysis walked — takes its start from here instead of
+ * walking the same vector the same way again: the same walk, so the same start. Every recorded walk came
+ * after prepareCircuit accepted the same vector (analyzeCircuit, prepareModel), so a hit also stands for
+ * its nominal state models (prepareModel). Each start is handed over once (its new owner keeps it).
+ */
+class WalkedStarts {
+  private readonly shapes: (CompiledShape | undefined)[] = new Array<CompiledShape | undefined>(WALKED_STARTS);
+  private readonly dynamics = new Uint8Array(WALKED_STARTS);
+  private readonly values: Float64Array[] = [];
+  private readonly starts: SteadyStart[] = [];
+  private next = 0;
+
+  record(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean): void {
+    const k = this.next;
+    this.next = (k + 1) % WALKED_STARTS;
+    if (this.starts.length <= k) this.starts.push(new SteadyStart());
+    let copy = this.values[k];
+    if (!copy || copy.length !== values.length) copy = this.values[k] = new Float64Array(values.length);
+    for (let i = 0; i < values.length; i++) copy[i] = values[i];
+    walk.snapshot(this.starts[k]);
+    this.shapes[k] = shape;
+    this.dynamics[k] = dynamics ? 1 : 0;
+  }
+
+  /** The recorded start of this vector, removed from the record (undefined: none). */
+  take(shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean): SteadyStart | undefined {
+    for (let k = 0; k < WALKED_STARTS; k++) {
+      if (this.shapes[k] !== shape || this.dynamics[k] !== (dynamics ? 1 : 0)) continue;
+      const recorded = this.values[k];
+      if (recorded.length !== values.length) continue;
+      let same = true;
+      for (let i = 0; i < values.length && same; i++) same = Object.is(recorded[i], values[i]);
+      if (!same) continue;
+      const start = this.starts[k];
+      this.starts[k] = new SteadyStart();
+      this.shapes[k] = undefined;
+      return start;
+    }
+    return undefined;
+  }
+}
+
+export const walkedStarts = new WalkedStarts();
+
 /**
  * Walk `values` to its steady cycle: from `start` when given and it converges,
- * else from power-up. Throws CoreError like an analysis would.
+ * else from power-up. Throws CoreError like an analysis would. A walk from power-up
+ * with currents (an analysis') leaves its steady start in walkedStarts.
  */
 export function walkToCycle(walk: OscillatorWalk, shape: CompiledShape, values: ArrayLike<number>, dynamics: boolean, start?: SteadyStart, currents = true): SteadyCycle {
   walk.reset(shape, values, dynamics, currents);
@@ -112,7 +163,9 @@ export function walkToCycle(walk: OscillatorWalk, shape: CompiledShape, values: 
     }
   }
   walk.powerUp(0 < upperV ? 'high' : 'low');
-  return walk.runToSteadyState();
+  const cycle = walk.runToSteadyState();
+  if (currents && !start) walkedStarts.record(walk, shape, values, dynamics);
+  return cycle;
 }
 
 export interface PrepareModelOptions {
@@ -133,7 +186,7 @@ export class PreparedModel {
   readonly dynamics: boolean;
   readonly effects: readonly ModelEffect[];
   readonly model: ModelName;
-  private readonly start = new SteadyStart();
+  private readonly start: SteadyStart;
   /** The nominal's steady cycle compiled for replay (undefined: not replayable, the walk answers). */
   private readonly replay: CycleReplay | undefined;
   private readonly twoPiece: boolean;
@@ -146,14 +199,20 @@ export class PreparedModel {
   private readonly limitSlot: number;
   private readonly clampSlot: number;
 
+  /**
+   * `nominal`: the circuit's vector when the caller has it; `walked`: the steady start of that vector's
+   * walk from power-up when one was just made (walkedStarts), else the nominal is walked here.
+   */
   constructor(
     readonly shape: CompiledShape,
     readonly circuit: Circuit,
     options: PrepareModelOptions = {},
+    nominal: Float64Array = shape.layout.valuesOf(circuit),
+    walked?: SteadyStart,
   ) {
     const layout = shape.layout;
     this.parameters = layout.parameters;
-    this.nominal = layout.valuesOf(circuit);
+    this.nominal = nominal;
     this.dynamics = options.dynamics ?? true;
     this.wantTransitions = options.transitions ?? false;
     this.effects = effectsOf(this.nominal, shape, this.dynamics);
@@ -169,12 +228,17 @@ export class PreparedModel {
     this.limitSlot = layout.indexOf('outputCurrentLimitA');
     this.clampSlot = layout.indexOf('differentialClampV');
     // The nominal's steady state, the start of every later walk (a circuit that does not oscillate has none).
-    try {
-      walkToCycle(sharedWalk, shape, this.nominal, this.dynamics);
-      sharedWalk.snapshot(this.start);
-    } catch (err) {
-      if (!(err instanceof CoreError)) throw err;
-      this.start.valid = false;
+    if (walked) {
+      this.start = walked;
+    } else {
+      this.start = new SteadyStart();
+      try {
+        walkToCycle(sharedWalk, shape, this.nominal, this.dynamics);
+        sharedWalk.snapshot(this.start);
+      } catch (err) {
+        if (!(err instanceof CoreError)) throw err;
+        this.start.valid = false;
+      }
     }
     this.replay = compileCycleReplay(sharedWalk, shape, this.nominal, this.dynamics, this.start);
   }
