@@ -71,6 +71,21 @@ describe('NonlinearCharge against odex (same C(v) ODE integrated in time)', () =
     });
   }
 
+  it('pieces met again (the kept quadratures) give their own times: same voltages, other asymptote, curve or current', () => {
+    // One 1→2 V motion per (curve, v∞, g): a kept integral handed to the wrong piece is off by far more than 1e-6.
+    const mildX7R = JohnsonShape.throughRetention(16, 0.6);
+    const pieces = [strongX7R, mildX7R].flatMap((shape) =>
+      [5, 3].flatMap((vInfV) => [1e-4, 2e-4].map((gS) => ({ shape, cF: 10e-9, i0A: gS * vInfV, gS }))),
+    );
+    const first = pieces.map((p) => new NonlinearCharge().setPiece(p.shape, p.cF, p.i0A, p.gS).timeBetween(1, 2));
+    const again = [...pieces].reverse().map((p) => new NonlinearCharge().setPiece(p.shape, p.cF, p.i0A, p.gS).timeBetween(1, 2)).reverse();
+    pieces.forEach((p, k) => {
+      const ref = odexTimeTo({ shape: p.shape, capacitanceF: p.cF, i0A: p.i0A, conductanceS: p.gS }, 1, 2, 3 * first[k]);
+      expect(Math.abs(first[k] - ref) / ref).toBeLessThanOrEqual(REL);
+      expect(again[k]).toBe(first[k]);
+    });
+  });
+
   it('refuses to reach the asymptote or move against the current', () => {
     const ch = new NonlinearCharge().setPiece(strongX7R, 10e-9, 5e-4, 1e-4);
     expect(ch.timeBetween(1, 5)).toBe(Infinity);

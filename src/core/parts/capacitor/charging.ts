@@ -37,6 +37,20 @@ export const CHARGE_RELATIVE_TOLERANCE = 1e-11;
 const MAX_NEWTON = 60;
 
 /**
+ * Quadratures of source-at-rest pieces kept, one pool per thread for every integrator (as the
+ * slew pieces are kept, engine/capacitor-kinematics.ts): a settled walk meets the same two
+ * edges in every analysis of a circuit, and corners or draws that change only the time
+ * constant meet them again. Keyed by the curve object and the three voltages, compared exactly.
+ */
+const REST_MEMORY = 8;
+const restShape: (BiasShape | undefined)[] = Array.from({ length: REST_MEMORY }, () => undefined);
+const restV0 = new Float64Array(REST_MEMORY).fill(Number.NaN);
+const restV1 = new Float64Array(REST_MEMORY).fill(Number.NaN);
+const restVInf = new Float64Array(REST_MEMORY).fill(Number.NaN);
+const restValue = new Float64Array(REST_MEMORY);
+let restNext = 0;
+
+/**
  * A reusable integrator (no allocation per call): set the piece with setPiece,
  * then ask for times or voltages. Not re-entrant across pieces.
  */
@@ -84,9 +98,7 @@ export class NonlinearCharge {
       if (d0 === 0 || d1 / d0 <= 0 || Math.abs(d1) >= Math.abs(d0)) return Infinity;
       const logPart = this.rInf * Math.log(d0 / d1);
       if (this.shape.kind === 'flat') return (this.capacitanceF / this.g) * logPart;
-      const scale = Math.abs(logPart) + Math.abs(this.remainder(0.5 * (v0 + v1)) * (v1 - v0)) + 1e-300;
-      const rest = this.split(this.remainder, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale);
-      return (this.capacitanceF / this.g) * (logPart + rest);
+      return (this.capacitanceF / this.g) * (logPart + this.remainderBetween(v0, v1, logPart));
     }
     if (this.i0 === 0 || (v1 - v0) * this.i0 < 0) return Infinity;
     if (this.shape.kind === 'flat') return (this.capacitanceF * (v1 - v0)) / this.i0;
@@ -164,6 +176,31 @@ export class NonlinearCharge {
       v = vNext;
     }
     return v;
+  }
+
+  /**
+   * ∫ (r(v) − r(v∞))/(v∞ − v) dv from v0 to v1: the quadrature of timeBetween, or the pool's
+   * value when it keeps this (curve, v0, v1, v∞). The integral and its tolerance depend on
+   * those four alone (logPart = r(v∞)·ln((v∞−v0)/(v∞−v1)) is theirs too), not on the
+   * current's scale g nor on C0, so a piece met again, in this walk or a later one, is the
+   * same number: circuits that differ only in the timing resistor or capacitor (corners,
+   * draws) have the same pieces in units of their time constant.
+   */
+  private remainderBetween(v0: number, v1: number, logPart: number): number {
+    const shape = this.shape;
+    const vInf = this.vInf;
+    for (let i = 0; i < REST_MEMORY; i++) {
+      if (restShape[i] === shape && restV0[i] === v0 && restV1[i] === v1 && restVInf[i] === vInf) return restValue[i];
+    }
+    const scale = Math.abs(logPart) + Math.abs(this.remainder(0.5 * (v0 + v1)) * (v1 - v0)) + 1e-300;
+    const rest = this.split(this.remainder, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale);
+    restShape[restNext] = shape;
+    restV0[restNext] = v0;
+    restV1[restNext] = v1;
+    restVInf[restNext] = vInf;
+    restValue[restNext] = rest;
+    restNext = (restNext + 1) % REST_MEMORY;
+    return rest;
   }
 
   /** Time from a to b allowing b to lie behind a (negative time), for Newton steps. */
