@@ -137,6 +137,20 @@ describe('charge and effective capacitance over a swing', () => {
     // And it is well below the flat 5 C: the curve loses capacitance with bias.
     expect(chargeBetween(strongX7R, 1, 0, 5)).toBeLessThan(0.8 * 5);
   });
+  it('two curves asked in turn at the same voltages (the kept charges) each give their own ∫C dv (composite trapezoids)', () => {
+    const mildX7R = JohnsonShape.throughRetention(16, 0.6);
+    const trapezoids = (shape: BiasShape, v1: number) => {
+      const n = 20000;
+      let s = 0;
+      for (let k = 0; k <= n; k++) s += (k === 0 || k === n ? 0.5 : 1) * shape.ratio((v1 * k) / n);
+      return (s * v1) / n;
+    };
+    for (let pass = 0; pass < 2; pass++) {
+      for (const shape of [strongX7R, mildX7R, measured]) {
+        for (const v1 of [2, 4]) expect(chargeBetween(shape, 1, 0, v1)).toBeCloseTo(trapezoids(shape, v1), 6);
+      }
+    }
+  });
   it('flat: Ceff = C; points: Ceff lies between the curve ends', () => {
     expect(effectiveCapacitanceF(FLAT_SHAPE, 10e-9, 1, 3)).toBe(10e-9);
     const ceff = effectiveCapacitanceF(measured, 100e-9, 1, 4);

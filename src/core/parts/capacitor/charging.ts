@@ -51,6 +51,29 @@ const restValue = new Float64Array(REST_MEMORY);
 let restNext = 0;
 
 /**
+ * The curve's charge Q(v) at the last voltages asked, one pool per thread: the pieces of a walk
+ * start and end at the same few voltages (the thresholds, power-up's 0 V), each asked for again by
+ * every piece that meets it, in this analysis and the next; a table value (charge-table.ts) costs a
+ * bisection and a degree-21 Chebyshev sum. Keyed by the curve object and the voltage, compared exactly.
+ */
+const CHARGE_MEMORY = 8;
+const chargeShape: (BiasShape | undefined)[] = Array.from({ length: CHARGE_MEMORY }, () => undefined);
+const chargeV = new Float64Array(CHARGE_MEMORY).fill(Number.NaN);
+const chargeQ = new Float64Array(CHARGE_MEMORY);
+let chargeNext = 0;
+
+/** shape.charge(v), from the pool when it keeps it. */
+function chargeAt(shape: BiasShape, v: number): number {
+  for (let i = 0; i < CHARGE_MEMORY; i++) if (chargeShape[i] === shape && chargeV[i] === v) return chargeQ[i];
+  const q = shape.charge(v);
+  chargeShape[chargeNext] = shape;
+  chargeV[chargeNext] = v;
+  chargeQ[chargeNext] = q;
+  chargeNext = (chargeNext + 1) % CHARGE_MEMORY;
+  return q;
+}
+
+/**
  * A reusable integrator (no allocation per call): set the piece with setPiece,
  * then ask for times or voltages. Not re-entrant across pieces.
  */
@@ -103,7 +126,7 @@ export class NonlinearCharge {
     if (this.i0 === 0 || (v1 - v0) * this.i0 < 0) return Infinity;
     if (this.shape.kind === 'flat') return (this.capacitanceF * (v1 - v0)) / this.i0;
     // A constant current: the time is the charge over the current, C·(Q(v1) − Q(v0))/i.
-    return (this.capacitanceF * (this.shape.charge(v1) - this.shape.charge(v0))) / this.i0;
+    return (this.capacitanceF * (chargeAt(this.shape, v1) - chargeAt(this.shape, v0))) / this.i0;
   }
 
   /**
@@ -119,7 +142,7 @@ export class NonlinearCharge {
     if (this.g > 0) {
       const t = this.timeBetween(v0, v1);
       if (!Number.isFinite(t)) return t;
-      return this.vInf * t - (this.capacitanceF * (this.shape.charge(v1) - this.shape.charge(v0))) / this.g;
+      return this.vInf * t - (this.capacitanceF * (chargeAt(this.shape, v1) - chargeAt(this.shape, v0))) / this.g;
     }
     if (this.i0 === 0 || (v1 - v0) * this.i0 < 0) return Infinity;
     const scale = Math.abs(v1 - v0) * (Math.abs(v0) + Math.abs(v1)) + 1e-300;
@@ -132,7 +155,7 @@ export class NonlinearCharge {
    */
   voltageTimeOver(v0: number, v1: number, tS: number): number {
     if (this.g > 0 && Number.isFinite(tS)) {
-      return this.vInf * tS - (this.capacitanceF * (this.shape.charge(v1) - this.shape.charge(v0))) / this.g;
+      return this.vInf * tS - (this.capacitanceF * (chargeAt(this.shape, v1) - chargeAt(this.shape, v0))) / this.g;
     }
     return this.voltageTimeBetween(v0, v1);
   }
@@ -236,7 +259,7 @@ export class NonlinearCharge {
 /** Charge moved between v0 and v1 on a capacitor of capacitanceF (at 0 V) with this shape: ∫C(v)dv, coulomb. */
 export function chargeBetween(shape: BiasShape, capacitanceF: number, v0: number, v1: number): number {
   if (shape.kind === 'flat') return capacitanceF * (v1 - v0);
-  return capacitanceF * (shape.charge(v1) - shape.charge(v0));
+  return capacitanceF * (chargeAt(shape, v1) - chargeAt(shape, v0));
 }
 
 /** The capacitance that moves the same charge over the swing v0…v1 as the curve: ΔQ/ΔV, farad. */
