@@ -1,9 +1,11 @@
 /**
  * The engine with a class II timing capacitor (non-linear C(v) pieces) against
  * the same engine with a linear capacitor of the same value, measured in this
- * run — target: ≥ 100k analyses/s per core with C(v), on the ideal amplifier
- * (the C(v) machinery itself: one source-at-rest piece per state), repeated and
- * over a ring of circuits.
+ * run — target: ≥ 100k analyses/s per core with C(v), judged on the ideal
+ * amplifier (the C(v) machinery itself: one source-at-rest piece per state) over
+ * a cold ring of circuits (the divider varies, so no solved piece comes back);
+ * the same circuit repeated and a ring varying only the timing R (whose at-rest
+ * pieces are re-used) are printed beside it.
  * Two circuits of our own: a 5 V moisture-probe clock on the ideal amplifier
  * (one source-at-rest piece per state: quadrature) and on a slewing CMOS part
  * (slew pieces too: Picard–Chebyshev). With the slewing part the linear-capacitor
@@ -27,12 +29,12 @@ const SECONDS = 1.5;
 const RING = 64;
 const cap = resolveCapacitor({ value: '10n', dielectric: 'X7R', ratedVoltageV: 6.3, caseSize: '0402' });
 
-function circuitWith(amplifierId: string, nonlinear: boolean, rTimingOhm = 22e3): Circuit {
+function circuitWith(amplifierId: string, nonlinear: boolean, rTimingOhm = 22e3, rTopOhm = 68e3): Circuit {
   return {
     topology: 'three-resistor-divider',
     supply: { positiveV: 5, negativeV: 0 },
     amplifier: findBuiltInAmplifier(amplifierId)!,
-    parts: { rTiming: rTimingOhm, cTiming: cap.capacitanceF, rTop: 68e3, rBottom: 68e3, rFeedback: 68e3 },
+    parts: { rTiming: rTimingOhm, cTiming: cap.capacitanceF, rTop: rTopOhm, rBottom: 68e3, rFeedback: 68e3 },
     ...(nonlinear ? { capacitorShape: cap.shape } : {}),
   };
 }
@@ -66,25 +68,35 @@ for (const amp of ['ideal', 'cmos-rro-micropower']) {
   const fc = analyzeTimeDomain(curved).frequencyHz;
   console.log(`${amp}: linear 10 nF ${fl.toFixed(1)} Hz, 0402 6.3 V X7R ${fc.toFixed(1)} Hz`);
   console.log(`  engine, linear capacitor:  ${fmt(l.wall)} analyses/s wall, ${fmt(l.cpu)} per CPU-second`);
-  const target = amp === 'ideal' ? (c.cpu >= 100_000 ? '(target ≥ 100,000/s per core: met)' : '(target ≥ 100,000/s per core: NOT met)') : `(linear engine ${fmt(l.cpu)}/s here: ratio below)`;
-  console.log(`  engine, class II C(v):     ${fmt(c.wall)} analyses/s wall, ${fmt(c.cpu)} per CPU-second ${target}`);
+  console.log(`  engine, class II C(v):     ${fmt(c.wall)} analyses/s wall, ${fmt(c.cpu)} per CPU-second`);
   console.log(`  ratio C(v)/linear (CPU):   ${(c.cpu / l.cpu).toFixed(3)}`);
-  // The engine keeps the last few solved slew pieces: a circuit analysed again re-uses them. A ring of
-  // circuits that differ in R (as Monte Carlo draws do) meets no piece twice in a row: the cold figure.
-  const ring = (nonlinear: boolean) =>
-    Array.from({ length: RING }, (_, i) => prepareCircuit(circuitWith(amp, nonlinear, 22e3 * (1 + 1e-4 * i))));
-  const lr = ring(false);
-  const cr = ring(true);
-  let li = 0;
-  let ci = 0;
-  rate(() => analyzeTimeDomain(lr[li++ % RING]).periodS);
-  rate(() => analyzeTimeDomain(cr[ci++ % RING]).periodS);
-  const lc = rate(() => analyzeTimeDomain(lr[li++ % RING]).periodS);
-  const cc = rate(() => analyzeTimeDomain(cr[ci++ % RING]).periodS);
-  const ringTarget = amp === 'ideal' ? (cc.cpu >= 100_000 ? ' (target: met)' : ' (target: NOT met)') : '';
-  console.log(`  ring of ${RING} circuits (R varies), linear: ${fmt(lc.cpu)} per CPU-second; C(v): ${fmt(cc.cpu)} per CPU-second${ringTarget}`);
-  console.log(`  ratio C(v)/linear, ring (CPU): ${(cc.cpu / lc.cpu).toFixed(3)}`);
-  if (!Number.isFinite(l.check + c.check + lc.check + cc.check)) bad = true;
+  // The engine keeps the last few solved pieces per thread (slew pieces; at-rest quadratures, which do not
+  // depend on R or C; charge-table values): a circuit analysed again re-uses them, and so does a ring of
+  // circuits that differ only in the timing R (the thresholds and levels stay). A ring that varies the
+  // divider moves the thresholds, so no piece comes back: the cold figure, what a Monte Carlo over every
+  // part meets, and the one the target is judged on.
+  const ringOf = (nonlinear: boolean, vary: 'rTiming' | 'rTop') =>
+    Array.from({ length: RING }, (_, i) => {
+      const k = 1 + 1e-4 * i;
+      return prepareCircuit(vary === 'rTiming' ? circuitWith(amp, nonlinear, 22e3 * k) : circuitWith(amp, nonlinear, 22e3, 68e3 * k));
+    });
+  for (const vary of ['rTiming', 'rTop'] as const) {
+    const lr = ringOf(false, vary);
+    const cr = ringOf(true, vary);
+    let li = 0;
+    let ci = 0;
+    rate(() => analyzeTimeDomain(lr[li++ % RING]).periodS);
+    rate(() => analyzeTimeDomain(cr[ci++ % RING]).periodS);
+    const lc = rate(() => analyzeTimeDomain(lr[li++ % RING]).periodS);
+    const cc = rate(() => analyzeTimeDomain(cr[ci++ % RING]).periodS);
+    const cold = vary === 'rTop';
+    const verdict = !cold ? '' : amp === 'ideal' ? (cc.cpu >= 100_000 ? ' (target ≥ 100,000/s per core: met)' : ' (target ≥ 100,000/s per core: NOT met)') : ` (the linear engine itself runs ${fmt(lc.cpu)}/s here)`;
+    const label = cold ? 'divider varies: cold' : 'timing R varies: at-rest pieces re-used';
+    console.log(`  ring of ${RING} circuits (${label}), linear: ${fmt(lc.cpu)} per CPU-second; C(v): ${fmt(cc.cpu)} per CPU-second${verdict}`);
+    console.log(`    ratio C(v)/linear (CPU): ${(cc.cpu / lc.cpu).toFixed(3)}`);
+    if (!Number.isFinite(lc.check + cc.check)) bad = true;
+  }
+  if (!Number.isFinite(l.check + c.check)) bad = true;
 }
 
 // Strays at P and at the pin (multi-state pieces), as tolerance and BOM checks evaluate them.
