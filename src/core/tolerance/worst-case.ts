@@ -394,7 +394,7 @@ class PairInteractions {
     if (Number.isNaN(known)) return false;
     const fk = memo.lookup(bits ^ (1 << k));
     const fl = memo.lookup(bits ^ (1 << l));
-    if (fk === UNSEEN || fk === LATCHED || fl === UNSEEN || fl === LATCHED) return false;
+    if (!oscillates(fk) || !oscillates(fl)) return false;
     const s = score(o, at.frequencyHz, at.dutyCycle);
     const lossK = s - score(o, fk.frequencyHz, fk.dutyCycle);
     const lossL = s - score(o, fl.frequencyHz, fl.dutyCycle);
@@ -403,21 +403,13 @@ class PairInteractions {
     return PAIR_SCREEN_SAFETY * known < lossK + lossL;
   }
 
-  /** Adds every square the corner `bits` completes (its other three corners met and oscillating). */
-  recordAround(bits: number, memo: CornerMemo): void {
-    for (let k = 0; k < this.n; k++) {
-      if (!isFigures(memo.lookup(bits ^ (1 << k)))) continue;
-      for (let l = k + 1; l < this.n; l++) this.record(k, l, bits, memo);
-    }
-  }
-
   /** Adds the square of corners `bits`, ^k, ^l, ^kl when all four oscillate. */
   record(k: number, l: number, bits: number, memo: CornerMemo): void {
     const a = memo.lookup(bits);
     const b = memo.lookup(bits ^ (1 << k));
     const c = memo.lookup(bits ^ (1 << l));
     const d = memo.lookup(bits ^ (1 << k) ^ (1 << l));
-    for (const r of [a, b, c, d]) if (r === UNSEEN || r === LATCHED) return;
+    if (!oscillates(a) || !oscillates(b) || !oscillates(c) || !oscillates(d)) return;
     const i = k * this.n + l;
     const frequency = Math.abs(d.frequencyHz - b.frequencyHz - c.frequencyHz + a.frequencyHz);
     const duty = Math.abs(d.dutyCycle - b.dutyCycle - c.dutyCycle + a.dutyCycle);
@@ -427,9 +419,10 @@ class PairInteractions {
 }
 
 /** What a CornerMemo holds for a corner not evaluated yet, and for one that latched. */
-const isFigures = (r: Figures) => r !== UNSEEN && r !== LATCHED;
 const UNSEEN: Figures = { frequencyHz: Number.NaN, dutyCycle: Number.NaN };
 const LATCHED: Figures = { frequencyHz: Number.NaN, dutyCycle: Number.NaN };
+/** Whether a CornerMemo entry holds figures (a corner met that oscillates). */
+const oscillates = (r: Figures) => r !== UNSEEN && r !== LATCHED;
 /** Most dimensions whose corners a CornerMemo keeps in a flat table (2^16 entries). */
 const MEMO_TABLE_DIMENSIONS = 16;
 
