@@ -34,6 +34,30 @@ async function post(url: string, payload: unknown) {
   return res;
 }
 
+/** The nominal frequency a BOM result's spec rule reports, Hz. */
+function nominalHz(r: { rules: { code: string; figures: Record<string, number> }[] }): number {
+  return r.rules.find((x) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec')!.figures.nominalFrequencyHz;
+}
+
+/** The lab timebase as a BOM assembly behind a long output trace (470 pF at P, 1 nF on the pin, 200 Ω output). */
+function longTraceAssembly(id: string, capacitorText: string, frequencyTolerance: number) {
+  return {
+    id,
+    lines: [
+      { refdes: 'R1', value: '47K 1% 0603' },
+      { refdes: 'C1', value: capacitorText },
+      { refdes: 'R2', value: '10K 1% 0603' },
+      { refdes: 'R3', value: '20K 1% 0603' },
+    ],
+    roles: { rTiming: 'R1', cTiming: 'C1', rGround: 'R2', rFeedback: 'R3' },
+    topology: 'two-resistor-feedback',
+    amplifier: { outputResistanceOhm: 200 },
+    supply: { positiveV: 10, negativeV: -10 },
+    spec: { frequencyHz: 1000, frequencyTolerance },
+    strays: { thresholdNodeF: 470e-12, outputNodeF: 1e-9 },
+  };
+}
+
 describe('strays in /v1/analyze', () => {
   it('leakage and timing-node capacitance enter the answer (hand derivation within 1e-12)', async () => {
     const res = await post('/v1/analyze', { ...timebase, strays: { timingLeakageOhm: 2e6, timingNodeF: 220e-12 } });
@@ -120,8 +144,6 @@ describe('strays in /v1/bom-checks', () => {
     const res = await post('/v1/bom-checks', { assemblies: [assembly, { ...assembly, id: 'residue', strays }] });
     expect(res.statusCode).toBe(200);
     const [clean, residue] = res.json().results;
-    const nominalHz = (r: { rules: { code: string; figures: Record<string, number> }[] }) =>
-      r.rules.find((x) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec')!.figures.nominalFrequencyHz;
     const circuit = { topology: 'three-resistor-divider', supply: { positiveV: 5 }, amplifier: 'ideal', parts: { rTiming: '22k', cTiming: '4n7', rTop: '68k', rBottom: '68k', rFeedback: '68k' } };
     const plain = (await post('/v1/analyze', circuit)).json();
     const loaded = (await post('/v1/analyze', { ...circuit, strays })).json();
@@ -164,27 +186,12 @@ describe('capacitance at P and at the output pin reaches every answer (the same 
   });
 
   it('BOM checks: the assembly\'s strays at P and at the pin are in its analysis', async () => {
-    const assembly = {
-      id: 'long-trace',
-      lines: [
-        { refdes: 'R1', value: '47K 1% 0603' },
-        { refdes: 'C1', value: '10n 50V C0G 2%' },
-        { refdes: 'R2', value: '10K 1% 0603' },
-        { refdes: 'R3', value: '20K 1% 0603' },
-      ],
-      roles: { rTiming: 'R1', cTiming: 'C1', rGround: 'R2', rFeedback: 'R3' },
-      topology: 'two-resistor-feedback',
-      amplifier: { outputResistanceOhm: 200 },
-      supply: { positiveV: 10, negativeV: -10 },
-      spec: { frequencyHz: 1000, frequencyTolerance: 0.2 },
-      strays: { thresholdNodeF: 470e-12, outputNodeF: 1e-9 },
-    };
+    const assembly = longTraceAssembly('long-trace', '10n 50V C0G 2%', 0.2);
     const res = await post('/v1/bom-checks', { assemblies: [assembly] });
     expect(res.statusCode).toBe(200);
     const [result] = res.json().results;
-    const rule = result.rules.find((x: { code: string }) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec');
     const analyzed = (await post('/v1/analyze', trace)).json();
-    expect(rule.figures.nominalFrequencyHz / analyzed.frequencyHz - 1).toBeCloseTo(0, 9);
+    expect(nominalHz(result) / analyzed.frequencyHz - 1).toBeCloseTo(0, 9);
     // 470 pF at P and 1 nF at the pin move it by well under 2 %: no stray rule.
     expect(result.rules.map((r: { code: string }) => r.code)).not.toContain('stray-capacitance-significant');
     // 22 nF at P (a filter capacitor fitted there by mistake) does: the rule names both frequencies.
@@ -222,26 +229,10 @@ describe('capacitance at P and at the pin beside a class II C(V) timing capacito
   });
 
   it('BOM checks: an X7R line with strays at P and at the pin is analysed with both', async () => {
-    const assembly = {
-      id: 'x7r-long-trace',
-      lines: [
-        { refdes: 'R1', value: '47K 1% 0603' },
-        { refdes: 'C1', value: '10n 6.3V X7R 10% 0402' },
-        { refdes: 'R2', value: '10K 1% 0603' },
-        { refdes: 'R3', value: '20K 1% 0603' },
-      ],
-      roles: { rTiming: 'R1', cTiming: 'C1', rGround: 'R2', rFeedback: 'R3' },
-      topology: 'two-resistor-feedback',
-      amplifier: { outputResistanceOhm: 200 },
-      supply: { positiveV: 10, negativeV: -10 },
-      spec: { frequencyHz: 1000, frequencyTolerance: 0.5 },
-      strays: { thresholdNodeF: 470e-12, outputNodeF: 1e-9 },
-    };
+    const assembly = longTraceAssembly('x7r-long-trace', '10n 6.3V X7R 10% 0402', 0.5);
     const res = await post('/v1/bom-checks', { assemblies: [assembly, { ...assembly, id: 'x7r-no-trace', strays: undefined }] });
     expect(res.statusCode).toBe(200);
     const [loaded, bare] = res.json().results;
-    const nominalHz = (r: { rules: { code: string; figures: Record<string, number> }[] }) =>
-      r.rules.find((x) => x.code === 'frequency-within-spec' || x.code === 'frequency-outside-spec')!.figures.nominalFrequencyHz;
     expect(nominalHz(loaded)).toBeLessThan(nominalHz(bare) * (1 - 1e-6));
   });
 });
