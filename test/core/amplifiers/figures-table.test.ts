@@ -11,7 +11,6 @@ import {
   AMPLIFIER_FIGURE_NAMES,
   AMPLIFIER_FIGURE_TABLE,
   BUILT_IN_AMPLIFIERS,
-  CoreError,
   AMPLIFIER_PARAMETERS,
   FITTED_FIGURES,
   fitWindow,
@@ -31,18 +30,9 @@ import { prepareModel } from '../../../src/core/circuit/analyze.ts';
 import { buildParameters } from '../../../src/core/fit/estimate/parameters.ts';
 import { figureValueInRange } from '../../../src/core/amplifiers/validate-figures.ts';
 import { amplifierFigureSchema } from '../../../src/http/schemas/common.ts';
+import { refusal } from '../../helpers/core-error.ts';
 
 const Ajv2020 = (Ajv2020Module as unknown as { default: typeof Ajv2020Module.default }).default ?? Ajv2020Module;
-
-function refusal(fn: () => unknown): CoreError {
-  try {
-    fn();
-  } catch (err) {
-    if (err instanceof CoreError) return err;
-    throw err;
-  }
-  throw new Error('expected a CoreError');
-}
 
 describe('amplifier figure table', () => {
   it('gives the ideal part and every built-in archetype a valid figure set', () => {

@@ -11,6 +11,7 @@ import type { Circuit } from '../../../src/core/circuit/types.ts';
 import { CoreError } from '../../../src/core/errors.ts';
 import { resolveCapacitor } from '../../../src/core/parts/capacitor/index.ts';
 import { PILOT_MEASURE_MS, PILOT_STRIDE, PILOT_WARMUP_MS, readableFloor, runToleranceAnalysis, type ToleranceRequest } from '../../../src/core/tolerance/index.ts';
+import { refusal } from '../../helpers/core-error.ts';
 
 const ideal = findBuiltInAmplifier('ideal')!;
 // Our own scenarios: a ±12 V astable with a film capacitor, and the ±10 V timebase with a small-case X7R
@@ -37,16 +38,6 @@ function steppingClock(stepMs: number) {
   const clock = () => (t += stepMs);
   clock.readings = () => t / stepMs;
   return clock;
-}
-
-function refusal(fn: () => unknown): CoreError {
-  try {
-    fn();
-  } catch (err) {
-    if (err instanceof CoreError) return err;
-    throw err;
-  }
-  throw new Error('expected a CoreError');
 }
 
 const request = (circuit: Circuit, samples: number, seed = 3): ToleranceRequest => ({
