@@ -16,7 +16,7 @@
  *   engine/modal-curved.ts).
  */
 import { CoreError } from '../errors.ts';
-import { FLAT_SHAPE, type BiasShape } from '../parts/capacitor/index.ts';
+import { FLAT_SHAPE, newCurveId, type BiasShape } from '../parts/capacitor/index.ts';
 import { formatSi } from './format.ts';
 import { CHECK_CODES, type Check } from './checks.ts';
 import type { Circuit } from './types.ts';
@@ -99,8 +99,15 @@ export class StrayLoadedShape implements BiasShape {
   kneesV: readonly number[] = [];
   private inner: BiasShape = FLAT_SHAPE;
   private strayFraction = 0;
+  /** A new one whenever the inner curve or the stray's share changes (BiasShape.curveId). */
+  curveId = 0;
+  private innerCurveId = 0;
 
   set(inner: BiasShape, strayFraction: number): this {
+    if (inner.curveId !== this.innerCurveId || strayFraction !== this.strayFraction || this.curveId === 0) {
+      this.curveId = newCurveId();
+      this.innerCurveId = inner.curveId;
+    }
     this.inner = inner;
     this.strayFraction = strayFraction;
     this.kind = inner.kind;

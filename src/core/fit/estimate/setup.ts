@@ -56,6 +56,10 @@ class AdjustableLaw implements BiasShape {
   slope(voltageV: number): number {
     return this.law.slope(voltageV);
   }
+  /** The law of the current scale's (a new law, so a new id, whenever the scale changes). */
+  get curveId(): number {
+    return this.law.curveId;
+  }
 }
 const FITTED_LAW = new AdjustableLaw();
 

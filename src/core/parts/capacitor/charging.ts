@@ -40,10 +40,10 @@ const MAX_NEWTON = 60;
  * Quadratures of source-at-rest pieces kept, one pool per thread for every integrator (as the
  * slew pieces are kept, engine/capacitor-kinematics.ts): a settled walk meets the same two
  * edges in every analysis of a circuit, and corners or draws that change only the time
- * constant meet them again. Keyed by the curve object and the three voltages, compared exactly.
+ * constant meet them again. Keyed by the curve's curveId (a mutable shape takes a new one when its curve changes) and the three voltages, compared exactly.
  */
 const REST_MEMORY = 8;
-const restShape: (BiasShape | undefined)[] = Array.from({ length: REST_MEMORY }, () => undefined);
+const restCurve = new Float64Array(REST_MEMORY).fill(-1);
 const restV0 = new Float64Array(REST_MEMORY).fill(Number.NaN);
 const restV1 = new Float64Array(REST_MEMORY).fill(Number.NaN);
 const restVInf = new Float64Array(REST_MEMORY).fill(Number.NaN);
@@ -54,19 +54,19 @@ let restNext = 0;
  * The curve's charge Q(v) at the last voltages asked, one pool per thread: the pieces of a walk
  * start and end at the same few voltages (the thresholds, power-up's 0 V), each asked for again by
  * every piece that meets it, in this analysis and the next; a table value (charge-table.ts) costs a
- * bisection and a degree-21 Chebyshev sum. Keyed by the curve object and the voltage, compared exactly.
+ * bisection and a degree-21 Chebyshev sum. Keyed by the curve's curveId and the voltage, compared exactly.
  */
 const CHARGE_MEMORY = 8;
-const chargeShape: (BiasShape | undefined)[] = Array.from({ length: CHARGE_MEMORY }, () => undefined);
+const chargeCurve = new Float64Array(CHARGE_MEMORY).fill(-1);
 const chargeV = new Float64Array(CHARGE_MEMORY).fill(Number.NaN);
 const chargeQ = new Float64Array(CHARGE_MEMORY);
 let chargeNext = 0;
 
 /** shape.charge(v), from the pool when it keeps it. */
 function chargeAt(shape: BiasShape, v: number): number {
-  for (let i = 0; i < CHARGE_MEMORY; i++) if (chargeShape[i] === shape && chargeV[i] === v) return chargeQ[i];
+  for (let i = 0; i < CHARGE_MEMORY; i++) if (chargeCurve[i] === shape.curveId && chargeV[i] === v) return chargeQ[i];
   const q = shape.charge(v);
-  chargeShape[chargeNext] = shape;
+  chargeCurve[chargeNext] = shape.curveId;
   chargeV[chargeNext] = v;
   chargeQ[chargeNext] = q;
   chargeNext = (chargeNext + 1) % CHARGE_MEMORY;
@@ -213,11 +213,11 @@ export class NonlinearCharge {
     const shape = this.shape;
     const vInf = this.vInf;
     for (let i = 0; i < REST_MEMORY; i++) {
-      if (restShape[i] === shape && restV0[i] === v0 && restV1[i] === v1 && restVInf[i] === vInf) return restValue[i];
+      if (restCurve[i] === shape.curveId && restV0[i] === v0 && restV1[i] === v1 && restVInf[i] === vInf) return restValue[i];
     }
     const scale = Math.abs(logPart) + Math.abs(this.remainder(0.5 * (v0 + v1)) * (v1 - v0)) + 1e-300;
     const rest = this.split(this.remainder, v0, v1, CHARGE_RELATIVE_TOLERANCE * scale);
-    restShape[restNext] = shape;
+    restCurve[restNext] = shape.curveId;
     restV0[restNext] = v0;
     restV1[restNext] = v1;
     restVInf[restNext] = vInf;

@@ -110,7 +110,7 @@ export class ChebyshevPiece {
    */
   holds(shape: BiasShape, a: number, k0: number, k1: number, v0: number, scaleV: number): boolean {
     return (
-      this.shape === shape &&
+      this.curveId === shape.curveId &&
       this.a === a &&
       this.k0 === k0 &&
       this.k1 === k1 &&
@@ -121,6 +121,8 @@ export class ChebyshevPiece {
   }
 
   private scaleInput = Number.NaN;
+  /** The curve's curveId when the piece was solved (a mutable shape's curve may have changed since). */
+  private curveId = -1;
   /** Counts the sets: a holder that remembers it knows whether the piece still answers for its inputs. */
   generation = 0;
 
@@ -131,6 +133,7 @@ export class ChebyshevPiece {
   set(shape: BiasShape, a: number, k0: number, k1: number, v0: number, scaleV: number, horizonS = Infinity): this {
     this.generation++;
     this.shape = shape;
+    this.curveId = shape.curveId;
     this.a = a;
     this.k0 = k0;
     this.k1 = k1;

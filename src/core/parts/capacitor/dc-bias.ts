@@ -38,6 +38,13 @@ export interface BiasShape {
   readonly kind: 'flat' | 'class-typical' | 'points';
   /** Identity of the curve (compiled circuit shapes are keyed by it). */
   readonly key: string;
+  /**
+   * Identity of the values the curve gives now: two reads with the same curveId give the same ratio,
+   * charge and slope everywhere. A shape whose curve can change (a stray's share that follows the
+   * parameter vector, a fit's adjustable law) takes a new one whenever it does. The per-thread pools of
+   * solved pieces key on it, never on the object (newCurveId).
+   */
+  readonly curveId: number;
   /** C(v)/C(0), even in v. */
   ratio(voltageV: number): number;
   /** ∫₀ᵛ ratio(u) du, V: the charge at v per unit C(0) (odd in v). Exact to rounding, no quadrature. */
@@ -48,9 +55,16 @@ export interface BiasShape {
   readonly kneesV: readonly number[];
 }
 
+let lastCurveId = 0;
+/** A curveId no curve of this thread has had yet (0 is the flat curve's). */
+export function newCurveId(): number {
+  return ++lastCurveId;
+}
+
 export const FLAT_SHAPE: BiasShape = Object.freeze({
   kind: 'flat' as const,
   key: 'flat',
+  curveId: 0,
   ratio: () => 1,
   charge: (voltageV: number) => voltageV,
   slope: () => 0,
@@ -63,6 +77,7 @@ export class JohnsonShape implements BiasShape {
   readonly kneesV: readonly number[] = [];
   private readonly invScaleSq: number;
   readonly key: string;
+  readonly curveId = newCurveId();
   constructor(readonly scaleV: number) {
     this.invScaleSq = 1 / (scaleV * scaleV);
     this.key = `johnson:${scaleV}`;
@@ -101,6 +116,7 @@ export class PointsShape implements BiasShape {
   private readonly rs: Float64Array;
   /** Capacitance at 0 V of the caller's curve, F. */
   readonly zeroBiasF: number;
+  readonly curveId = newCurveId();
   constructor(points: readonly CapacitancePoint[], pointer?: string) {
     const list: readonly CapacitancePoint[] = points;
     if (!Array.isArray(list as unknown) || list.length === 0) invalid('a C(V) curve needs at least one point', pointer);
