@@ -6,9 +6,10 @@
  * effects point to and then flips single coordinates, and when that stalls
  * pairs of coordinates, while that improves the objective (a local search on
  * the corners: it may miss an extreme that needs three coordinates at once).
- * A pair whose interaction, as measured by the pairs tried so far, is far too
- * small to outweigh what each of its flips alone loses is not tried
- * (PairInteractions below).
+ * Every start is ascended by single flips first and by pairs only then, from
+ * where the single flips stopped. A pair whose interaction, as measured on the
+ * squares of corners met so far, is far too small to outweigh what each of its
+ * flips alone loses is not tried (PairInteractions below).
  * Where the board temperature reverses the effect of other dimensions (tempco
  * spreads, offset drift of unknown sign) it starts from both temperature ends.
  *
@@ -137,7 +138,16 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
       probe[k] = center[k];
       return r;
     };
-    const ends = dims.map((d, k) => [probeAt(k, d.low), probeAt(k, d.high)]);
+    // A part tolerance scales its value linearly across a band symmetric about the nominal, and a small
+    // band moves the figures almost linearly: its low end is predicted by mirroring the high end's effect
+    // about the nominal (when the nominal is the centre) instead of evaluated. The probes only choose the
+    // ascents' start corners, which the ascents correct.
+    const centre = nominal && reference.every((x, k) => x === center[k]) ? nominal : undefined;
+    const ends = dims.map((d, k): (Figures | undefined)[] => {
+      const high = probeAt(k, d.high);
+      if (d.kind === 'part-tolerance' && high && centre) return [{ frequencyHz: 2 * centre.frequencyHz - high.frequencyHz, dutyCycle: 2 * centre.dutyCycle - high.dutyCycle }, high];
+      return [probeAt(k, d.low), high];
+    });
     // The ascents revisit corners (each other's starts and neighbours): a corner is evaluated once, keyed
     // by its bits (bit k set: dimension k at its high end). The model is deterministic, so a remembered
     // result is the result; it was offered to every objective when first evaluated.
@@ -155,7 +165,10 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
       if (seen !== UNSEEN) return seen === LATCHED ? undefined : seen;
       const r = evaluate(p, true);
       visited.set(bits, r);
-      if (r) offer(p, r, true);
+      if (r) {
+        offer(p, r, true);
+        interactions.harvest(bits, visited); // the single-flip ascents measure interactions as they go
+      }
       return r;
     };
     // The working corner of the ascent under way: its coordinates, bits and figures (undefined: latched).
@@ -208,13 +221,14 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     // offsets can hide an extreme behind two coordinates); stop when neither helps. Latched corners never
     // improve (score -Infinity), so the ascent keeps to oscillating corners. True when it ended by itself
     // (no flip, pair or triple it tries improves), false at the pass cap or without memory.
-    const ascend = (o: Objective): boolean => {
+    const ascend = (o: Objective, singlesOnly = false): boolean => {
       for (let pass = 0; pass < MAX_ASCENT_PASSES; pass++) {
         let improved = false;
         for (let k = 0; k < n; k++) {
           if (tryFlips(o, k, -1, -1)) improved = true;
         }
         if (improved) continue;
+        if (singlesOnly) return false;
         for (let k = 0; k < n; k++) {
           for (let l = k + 1; l < n; l++) {
             if (remember && interactions.rulesOut(o, k, l, bits, current, visited)) continue;
@@ -313,14 +327,26 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
         gain[k] = lo && hi ? Math.abs(score(o, hi.frequencyHz, hi.dutyCycle) - score(o, lo.frequencyHz, lo.dutyCycle)) : Infinity;
       }
     };
+    // Every start is first ascended by single flips alone, and only then by pairs and triples from where
+    // those stopped: the single-flip ascents complete many squares of corners on the way (harvest), so the
+    // pair screen has measured interactions before the first pair scan instead of trying every pair there.
+    const stops: { o: Objective; at: Float64Array; figures: Figures }[] = [];
     for (const o of OBJECTIVES) {
       for (let basin = basins.length > 0 ? 0 : -1; basin < basins.length; basin++) {
         predict(o, basin);
         moveTo(start);
         current = evaluateCorner(point, bits);
         if (!current) backOff(o, gain);
-        if (current) ascendFrom(o);
+        if (current && remember) {
+          ascend(o, true);
+          stops.push({ o, at: point.slice(), figures: current });
+        } else if (current) ascendFrom(o);
       }
+    }
+    for (const stop of stops) {
+      moveTo(stop.at);
+      current = stop.figures;
+      ascendFrom(stop.o);
     }
     // Polish: ascend again for each objective from the best corner met for every objective (an extreme of
     // one figure is often next to another's). Remembered corners cost nothing, so a start whose
@@ -363,8 +389,8 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
 export const PAIR_SCREEN_SAFETY = 16;
 
 /**
- * What flipping two coordinates together adds beyond flipping each alone, measured where the ascents
- * tried pairs: for the square of corners x, x^k, x^l, x^kl the interaction f(x^kl) − f(x^k) − f(x^l) + f(x),
+ * What flipping two coordinates together adds beyond flipping each alone, measured on the squares of
+ * corners the search met (where it tried pairs, and where single-flip ascents completed one): for the square of corners x, x^k, x^l, x^kl the interaction f(x^kl) − f(x^k) − f(x^l) + f(x),
  * largest |value| met per pair, for the frequency and for the duty cycle.
  *
  * Why a screen may skip a pair: at a corner where no single flip improves, flipping k alone changes the
@@ -373,8 +399,8 @@ export const PAIR_SCREEN_SAFETY = 16;
  * together (a product of two small relative changes), so interactions are small and vary slowly over the
  * box while single-flip losses are first order. A pair is skipped when PAIR_SCREEN_SAFETY times the largest
  * interaction measured for it is still below that loss; a pair never measured, or next to a latched corner
- * (where the figures jump), is always tried. The first pair scan of a search therefore tries every pair,
- * and every pair a later scan tries adds to what is known. Checked against the exhaustive enumeration
+ * (where the figures jump), is always tried. A pair no square has measured yet is tried at the first
+ * pair scan, and every pair a scan tries adds to what is known. Checked against the exhaustive enumeration
  * (test/core/tolerance/worst-case-search.test.ts).
  */
 class PairInteractions {
@@ -401,6 +427,17 @@ class PairInteractions {
     // Only at a corner the single flips could not improve (each loss ≥ 0) does the pair need its interaction.
     if (!(lossK >= 0 && lossL >= 0)) return false;
     return PAIR_SCREEN_SAFETY * known < lossK + lossL;
+  }
+
+  /**
+   * Measures the pairs not measured yet on the squares the corner `bits` completes (its other three corners
+   * met and oscillating). Pairs already measured are left to record(): this runs for every corner met.
+   */
+  harvest(bits: number, memo: CornerMemo): void {
+    for (let k = 0; k < this.n; k++) {
+      if (!oscillates(memo.lookup(bits ^ (1 << k)))) continue;
+      for (let l = k + 1; l < this.n; l++) if (Number.isNaN(this.frequencyHz[k * this.n + l])) this.record(k, l, bits, memo);
+    }
   }
 
   /** Adds the square of corners `bits`, ^k, ^l, ^kl when all four oscillate. */

@@ -524,7 +524,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
           "dutyMin": 0.4957184018121218,
           "dutyMax": 0.5046962666314798,
           "method": "sensitivity-guided",
-          "cornersEvaluated": 214,
+          "cornersEvaluated": 205,
           "latchedCorners": 0,
           "corners": {
             "frequencyMin": {
@@ -2271,7 +2271,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                   "worstCaseMinHz": 6543.341767734211,
                   "worstCaseMaxHz": 7252.463169058929,
                   "method": "sensitivity-guided",
-                  "cornersEvaluated": 140,
+                  "cornersEvaluated": 126,
                   "latchedCorners": 0,
                   "model": "time-domain",
                   "modelEffects": "slew-rate, recovery-delay, current-limit"
@@ -2516,7 +2516,7 @@ export const RESPONSE_EXAMPLES: Record<string, Record<string, { summary: string;
                   "worstCaseMinHz": 4264.780204888283,
                   "worstCaseMaxHz": 52443.230603819095,
                   "method": "sensitivity-guided",
-                  "cornersEvaluated": 124,
+                  "cornersEvaluated": 112,
                   "latchedCorners": 0,
                   "model": "time-domain",
                   "modelEffects": "slew-rate, recovery-delay, current-limit"
