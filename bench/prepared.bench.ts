@@ -54,8 +54,17 @@ const closed = prepareModel(slow, { model: 'closed-form' });
 }
 mcRate(full, 50_000); // warm-up (JIT)
 mcRate(closed, 200_000);
-const td = mcRate(full, 500_000);
-const cf = mcRate(closed, 1_000_000);
+// Best of MC_ROUNDS, the two paths alternating: rounds of one process on these machines range over ±20 %,
+// and a shared machine only ever slows a round down, so the best round of each is the closest to an idle core.
+const MC_ROUNDS = 5;
+let td = { rate: 0, latched: 0 };
+let cf = { rate: 0, latched: 0 };
+for (let round = 0; round < MC_ROUNDS; round++) {
+  const t = mcRate(full, 200_000);
+  if (t.rate > td.rate) td = t;
+  const c = mcRate(closed, 600_000);
+  if (c.rate > cf.rate) cf = c;
+}
 // Baseline: the same walk from power-up for every sample (no steady-state start).
 const fromPowerUp: SampleEvaluator = {
   ...full,
