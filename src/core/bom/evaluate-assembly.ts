@@ -12,6 +12,7 @@ import type { TopologyDefinition } from '../circuit/topologies/topology.ts';
 import type { Circuit } from '../circuit/types.ts';
 import { CoreError } from '../errors.ts';
 import type { Catalogue } from '../parts/catalogue.ts';
+import { REFERENCE_TEMPERATURE_C } from '../parts/capacitor/index.ts';
 import { isSeriesName, SERIES_NAMES, type SeriesName } from '../parts/series.ts';
 import { BOM_RULES } from './codes.ts';
 import { readBomLine } from './read-line.ts';
@@ -153,8 +154,13 @@ function evaluate(assembly: BomAssembly, index: number, ctx: BomCheckContext): B
     circuit = { topology: topology.id, supply: supplyAt(assembly.supply, 'nominal'), amplifier, parts };
     // A class II/III timing capacitor: every analysis of the assembly runs its C(V) (one model).
     if (capacitorShape) circuit.capacitorShape = capacitorShape;
-    const insulationOhm = capacitorLine ? timingCapacitorInsulationOhm(capacitorLine) : undefined;
-    if (insulationOhm !== undefined) circuit.capacitorInsulationOhm = insulationOhm;
+    // The insulation at the board's hottest (catalogues state it at 25 °C; ceramics lose it as they heat).
+    const insulationTemperatureC = assembly.temperature?.maxC ?? REFERENCE_TEMPERATURE_C;
+    const insulationOhm = capacitorLine ? timingCapacitorInsulationOhm(capacitorLine, insulationTemperatureC) : undefined;
+    if (insulationOhm !== undefined) {
+      circuit.capacitorInsulationOhm = insulationOhm;
+      circuit.capacitorInsulationTemperatureC = insulationTemperatureC;
+    }
     if (assembly.strays) circuit.strays = assembly.strays;
     const evaluation = circuitRules(circuit, assembly.supply);
     rules.push(...evaluation.rules);

@@ -6,7 +6,7 @@
  * current-limit pieces.
  */
 import { hasDynamicLimits } from '../amplifiers/model.ts';
-import { curvePoints, effectiveCapacitanceF } from '../parts/capacitor/index.ts';
+import { curvePoints, effectiveCapacitanceF, REFERENCE_TEMPERATURE_C } from '../parts/capacitor/index.ts';
 import { CoreError } from '../errors.ts';
 import { CHECK_CODES, clampReached, oscillationChecks, supplyChecks, type Check } from './checks.ts';
 import { shapeFor, type CompiledShape } from './engine/compiled-network.ts';
@@ -163,12 +163,13 @@ function nodeStrayShift(circuit: Circuit, frequencyHz: number, model: ModelChoic
  */
 function insulationShift(circuit: Circuit, frequencyHz: number, timingResistanceOhm: number, model: ModelChoice | undefined): InsulationShift | undefined {
   const insulationResistanceOhm = circuit.capacitorInsulationOhm;
+  const temperatureC = circuit.capacitorInsulationTemperatureC ?? REFERENCE_TEMPERATURE_C;
   if (insulationResistanceOhm === undefined || !(timingResistanceOhm / insulationResistanceOhm > INSULATION_SCREEN_RATIO)) return undefined;
   try {
     const leaky = analyzeTimeDomain(prepareCircuit(withInsulationLeakage(circuit, insulationResistanceOhm), model));
-    return { insulationResistanceOhm, frequencyHz, frequencyWithLeakageHz: leaky.frequencyHz };
+    return { insulationResistanceOhm, temperatureC, frequencyHz, frequencyWithLeakageHz: leaky.frequencyHz };
   } catch (err) {
-    if (err instanceof CoreError && err.code === 'no-oscillation') return { insulationResistanceOhm, frequencyHz, frequencyWithLeakageHz: null };
+    if (err instanceof CoreError && err.code === 'no-oscillation') return { insulationResistanceOhm, temperatureC, frequencyHz, frequencyWithLeakageHz: null };
     if (err instanceof CoreError) return undefined;
     throw err;
   }

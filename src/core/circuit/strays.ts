@@ -16,7 +16,7 @@
  *   engine/modal-curved.ts).
  */
 import { CoreError } from '../errors.ts';
-import { FLAT_SHAPE, newCurveId, type BiasShape } from '../parts/capacitor/index.ts';
+import { FLAT_SHAPE, newCurveId, REFERENCE_TEMPERATURE_C, type BiasShape } from '../parts/capacitor/index.ts';
 import { formatSi } from './format.ts';
 import { CHECK_CODES, type Check } from './checks.ts';
 import type { Circuit } from './types.ts';
@@ -209,6 +209,8 @@ export const INSULATION_SCREEN_RATIO = INSULATION_SHIFT_WARNING / 100;
 
 export interface InsulationShift {
   insulationResistanceOhm: number;
+  /** The board temperature that insulation applies at, °C. */
+  temperatureC: number;
   frequencyHz: number;
   /** With the insulation's leakage across the capacitor; null when the circuit then stops oscillating. */
   frequencyWithLeakageHz: number | null;
@@ -221,7 +223,7 @@ export function withInsulationLeakage(circuit: Circuit, insulationOhm: number): 
   // still is reported with its own figure and run at the floor.
   const ohm = Math.max(insulationOhm, LEAKAGE_RANGE_OHM.min);
   const leakageOhm = Number.isFinite(declared.timingLeakageOhm) ? (declared.timingLeakageOhm * ohm) / (declared.timingLeakageOhm + ohm) : ohm;
-  return { ...circuit, strays: { ...declared, timingLeakageOhm: leakageOhm }, capacitorInsulationOhm: undefined };
+  return { ...circuit, strays: { ...declared, timingLeakageOhm: leakageOhm }, capacitorInsulationOhm: undefined, capacitorInsulationTemperatureC: undefined };
 }
 
 /**
@@ -232,8 +234,10 @@ export function withInsulationLeakage(circuit: Circuit, insulationOhm: number): 
  */
 export function capacitorLeakageCheck(shift: InsulationShift | undefined): Check | undefined {
   if (!shift) return undefined;
-  const { insulationResistanceOhm, frequencyHz, frequencyWithLeakageHz } = shift;
-  const insulation = formatSi(insulationResistanceOhm, 'Ω');
+  const { insulationResistanceOhm, temperatureC, frequencyHz, frequencyWithLeakageHz } = shift;
+  const insulation = `${formatSi(insulationResistanceOhm, 'Ω')}, ${Number(temperatureC.toFixed(1))} °C`;
+  // Ceramics lose insulation as they heat (insulation.ts): at the reference temperature the message says so.
+  const hotter = temperatureC <= REFERENCE_TEMPERATURE_C ? 'hot ceramics more' : 'cooler ceramics less';
   const advice = 'give strays.timingLeakageOhm to include it in the answers, lower the timing impedance, or choose a part that leaks less (film or class I ceramic)';
   if (frequencyWithLeakageHz === null) {
     return {
@@ -241,6 +245,7 @@ export function capacitorLeakageCheck(shift: InsulationShift | undefined): Check
       severity: 'warning',
       message: `At its class's minimum insulation resistance (${insulation}) the timing capacitor's leakage would stop the oscillation: the capacitor no longer reaches a threshold; ${advice}`,
       insulationResistanceOhm,
+      insulationTemperatureC: temperatureC,
       frequencyHz,
       frequencyWithLeakageHz: null,
       maximumFrequencyShift: INSULATION_SHIFT_WARNING,
@@ -251,8 +256,9 @@ export function capacitorLeakageCheck(shift: InsulationShift | undefined): Check
   return {
     code: CHECK_CODES.capacitorLeakageSignificant,
     severity: 'warning',
-    message: `At its class's minimum insulation resistance (${insulation}, 25 °C) the timing capacitor's leakage moves the frequency by ${(relativeShift * 100).toFixed(2)} % (${formatSi(frequencyWithLeakageHz, 'Hz')} against ${formatSi(frequencyHz, 'Hz')}); typical parts leak less, hot ceramics more; ${advice}`,
+    message: `At its class's minimum insulation resistance (${insulation}) the timing capacitor's leakage moves the frequency by ${(relativeShift * 100).toFixed(2)} % (${formatSi(frequencyWithLeakageHz, 'Hz')} against ${formatSi(frequencyHz, 'Hz')}); typical parts leak less, ${hotter}; ${advice}`,
     insulationResistanceOhm,
+    insulationTemperatureC: temperatureC,
     frequencyHz,
     frequencyWithLeakageHz,
     frequencyShift: relativeShift,

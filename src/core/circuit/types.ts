@@ -43,11 +43,16 @@ export interface Circuit {
   strays?: Strays;
   /**
    * The timing capacitor's insulation resistance as its dielectric's class guarantees it (the minimum at
-   * 25 °C, parts/capacitor/insulation.ts), when its part names a dielectric. Checked, not applied: the
-   * analysis reports what that leakage across the capacitor would do (check capacitor-leakage-significant);
-   * a leakage to include in the answers goes in strays.timingLeakageOhm.
+   * capacitorInsulationTemperatureC, parts/capacitor/insulation.ts), when its part names a dielectric.
+   * Checked, not applied: the analysis reports what that leakage across the capacitor would do (check
+   * capacitor-leakage-significant); a leakage to include in the answers goes in strays.timingLeakageOhm.
    */
   capacitorInsulationOhm?: number;
+  /**
+   * The board temperature capacitorInsulationOhm applies at, °C (absent: 25 °C, where catalogues state it).
+   * A BOM check with a temperature range takes its hottest end: insulation falls as a part heats.
+   */
+  capacitorInsulationTemperatureC?: number;
 }
 
 /** What differs between the linear pieces of one output state. */

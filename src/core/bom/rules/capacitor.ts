@@ -121,14 +121,15 @@ export function timingCapacitorShape(line: BomLineReading): BiasShape | undefine
 }
 
 /**
- * The timing capacitor line's insulation resistance at its class's guaranteed minimum (25 °C), when the
- * line states a dielectric: the assembly's analysis checks what that leakage would do (capacitor-leakage-significant).
+ * The timing capacitor line's insulation resistance at its class's guaranteed minimum at temperatureC (the
+ * assembly's hottest: insulation falls as a part heats), when the line states a dielectric: the assembly's
+ * analysis checks what that leakage would do (capacitor-leakage-significant).
  */
-export function timingCapacitorInsulationOhm(line: BomLineReading): number | undefined {
+export function timingCapacitorInsulationOhm(line: BomLineReading, temperatureC: number): number | undefined {
   if (line.kind !== 'capacitor' || line.value === undefined) return undefined;
   const d = dielectricOf(line);
   if (!d) return undefined;
-  const ohm = insulationResistanceOhm(d, line.value);
+  const ohm = insulationResistanceOhm(d, line.value, temperatureC);
   return Number.isFinite(ohm) ? ohm : undefined;
 }
 
