@@ -38,6 +38,7 @@ import { biasCurrentFactorAt, delayFactorAt, driftOf, headroomAtV } from '../amp
 import type { AmplifierModel } from '../amplifiers/model.ts';
 import { DIODE_FORWARD_DROP_TEMPCO_V_PER_K, forwardDropAtV } from '../parts/diode-drift.ts';
 import { ageingFactor, ageingRatePerDecade, AGEING_REFERENCE_HOURS, HOURS_PER_YEAR } from '../parts/capacitor/ageing.ts';
+import { REFERENCE_TEMPERATURE_C } from '../parts/capacitor/temperature.ts';
 import {
   AMPLIFIER_SPREAD_FIELDS,
   SERVICE_LIFE_LIMIT_YEARS,
@@ -49,8 +50,8 @@ import {
   type VariationKind,
 } from './types.ts';
 
-/** Reference temperature of tempcos and EIA-198 change figures, °C. */
-export const REFERENCE_TEMPERATURE_C = 25;
+/** Reference temperature of tempcos and EIA-198 change figures, °C: the capacitor model's, one constant. */
+export { REFERENCE_TEMPERATURE_C };
 /** Plausible board temperatures, °C (outside: a typo, not a design). */
 export const TEMPERATURE_LIMITS_C = { min: -273.15, max: 500 } as const;
 /** A tempco beyond this is a units mistake (ppm/K vs %/K), ppm/K. */

@@ -390,8 +390,9 @@ export const PAIR_SCREEN_SAFETY = 16;
 
 /**
  * What flipping two coordinates together adds beyond flipping each alone, measured on the squares of
- * corners the search met (where it tried pairs, and where single-flip ascents completed one): for the square of corners x, x^k, x^l, x^kl the interaction f(x^kl) − f(x^k) − f(x^l) + f(x),
- * largest |value| met per pair, for the frequency and for the duty cycle.
+ * corners the search met (where it tried pairs, and where single-flip ascents completed one): for the
+ * square of corners x, x^k, x^l, x^kl the interaction f(x^kl) − f(x^k) − f(x^l) + f(x), largest |value|
+ * met per pair, for the frequency and for the duty cycle.
  *
  * Why a screen may skip a pair: at a corner where no single flip improves, flipping k alone changes the
  * objective by g_k ≤ 0 and l alone by g_l ≤ 0, so the pair improves only if its interaction exceeds
