@@ -236,8 +236,8 @@ export function capacitorLeakageCheck(shift: InsulationShift | undefined): Check
   if (!shift) return undefined;
   const { insulationResistanceOhm, temperatureC, frequencyHz, frequencyWithLeakageHz } = shift;
   const insulation = `${formatSi(insulationResistanceOhm, 'Ω')}, ${Number(temperatureC.toFixed(1))} °C`;
-  // Ceramics lose insulation as they heat (insulation.ts): at the reference temperature the message says so.
-  const hotter = temperatureC <= REFERENCE_TEMPERATURE_C ? 'hot ceramics more' : 'cooler ceramics less';
+  // Ceramics lose insulation as they heat (insulation.ts): the message says which way the figure moves.
+  const margin = temperatureC <= REFERENCE_TEMPERATURE_C ? 'typical parts leak less, hot ceramics more' : 'typical parts, and ceramics running cooler, leak less';
   const advice = 'give strays.timingLeakageOhm to include it in the answers, lower the timing impedance, or choose a part that leaks less (film or class I ceramic)';
   if (frequencyWithLeakageHz === null) {
     return {
@@ -256,7 +256,7 @@ export function capacitorLeakageCheck(shift: InsulationShift | undefined): Check
   return {
     code: CHECK_CODES.capacitorLeakageSignificant,
     severity: 'warning',
-    message: `At its class's minimum insulation resistance (${insulation}) the timing capacitor's leakage moves the frequency by ${(relativeShift * 100).toFixed(2)} % (${formatSi(frequencyWithLeakageHz, 'Hz')} against ${formatSi(frequencyHz, 'Hz')}); typical parts leak less, ${hotter}; ${advice}`,
+    message: `At its class's minimum insulation resistance (${insulation}) the timing capacitor's leakage moves the frequency by ${(relativeShift * 100).toFixed(2)} % (${formatSi(frequencyWithLeakageHz, 'Hz')} against ${formatSi(frequencyHz, 'Hz')}); ${margin}; ${advice}`,
     insulationResistanceOhm,
     insulationTemperatureC: temperatureC,
     frequencyHz,
