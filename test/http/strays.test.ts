@@ -3,6 +3,7 @@ import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { expectContract } from '../helpers/contract.ts';
 import { testApp } from '../helpers/app.ts';
+import { leakyAstablePeriodS } from '../helpers/leaky-astable.ts';
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -22,10 +23,9 @@ const C = 10e-9;
 const V = 10;
 const BETA = 1 / 3;
 
-/** Hand derivation (Thevenin + RC charging, Sedra & Smith astable): T = 2·(R‖R_L)·C·ln((V_th + βV)/(V_th − βV)), V_th = V·R_L/(R + R_L). */
+/** The hand-derived leaky astable (test/helpers/leaky-astable.ts) with a stray beside the timing capacitor. */
 function leakyPeriodS(leakOhm: number, strayF = 0): number {
-  const vTh = (V * leakOhm) / (R + leakOhm);
-  return 2 * ((R * leakOhm) / (R + leakOhm)) * (C + strayF) * Math.log((vTh + BETA * V) / (vTh - BETA * V));
+  return leakyAstablePeriodS({ supplyV: V, beta: BETA, rOhm: R, cF: C + strayF, leakOhm });
 }
 
 async function post(url: string, payload: unknown) {

@@ -163,8 +163,8 @@ function nodeStrayShift(circuit: Circuit, frequencyHz: number, model: ModelChoic
  */
 function insulationShift(circuit: Circuit, frequencyHz: number, timingResistanceOhm: number, model: ModelChoice | undefined): InsulationShift | undefined {
   const insulationResistanceOhm = circuit.capacitorInsulationOhm;
-  const temperatureC = circuit.capacitorInsulationTemperatureC ?? REFERENCE_TEMPERATURE_C;
   if (insulationResistanceOhm === undefined || !(timingResistanceOhm / insulationResistanceOhm > INSULATION_SCREEN_RATIO)) return undefined;
+  const temperatureC = circuit.capacitorInsulationTemperatureC ?? REFERENCE_TEMPERATURE_C;
   try {
     const leaky = analyzeTimeDomain(prepareCircuit(withInsulationLeakage(circuit, insulationResistanceOhm), model));
     return { insulationResistanceOhm, temperatureC, frequencyHz, frequencyWithLeakageHz: leaky.frequencyHz };

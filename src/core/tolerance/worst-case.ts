@@ -142,10 +142,12 @@ export function worstCaseSearch(model: VariationModel, evaluator: SampleEvaluato
     // band moves the figures almost linearly: its low end is predicted by mirroring the high end's effect
     // about the nominal (when the nominal is the centre) instead of evaluated. The probes only choose the
     // ascents' start corners, which the ascents correct.
-    const centre = nominal && reference.every((x, k) => x === center[k]) ? nominal : undefined;
+    const centerFigures = nominal && reference.every((x, k) => x === center[k]) ? nominal : undefined;
     const ends = dims.map((d, k): (Figures | undefined)[] => {
       const high = probeAt(k, d.high);
-      if (d.kind === 'part-tolerance' && high && centre) return [{ frequencyHz: 2 * centre.frequencyHz - high.frequencyHz, dutyCycle: 2 * centre.dutyCycle - high.dutyCycle }, high];
+      if (d.kind === 'part-tolerance' && high && centerFigures) {
+        return [{ frequencyHz: 2 * centerFigures.frequencyHz - high.frequencyHz, dutyCycle: 2 * centerFigures.dutyCycle - high.dutyCycle }, high];
+      }
       return [probeAt(k, d.low), high];
     });
     // The ascents revisit corners (each other's starts and neighbours): a corner is evaluated once, keyed

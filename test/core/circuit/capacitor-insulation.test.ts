@@ -9,6 +9,7 @@ import { describe, expect, it } from 'vitest';
 import { analyzeCircuit, findBuiltInAmplifier, type Circuit } from '../../../src/core/index.ts';
 import { INSULATION_SHIFT_WARNING } from '../../../src/core/circuit/strays.ts';
 import { resolveCapacitor } from '../../../src/core/parts/capacitor/index.ts';
+import { leakyAstablePeriodS } from '../../helpers/leaky-astable.ts';
 
 const ideal = findBuiltInAmplifier('ideal')!;
 const V = 10;
@@ -26,9 +27,7 @@ function astable(rTimingOhm: number, capacitor: { value: string; dielectric: str
 }
 
 function leakyPeriodS(rOhm: number, cF: number, leakOhm: number): number {
-  const vTh = (V * leakOhm) / (rOhm + leakOhm);
-  const rTh = (rOhm * leakOhm) / (rOhm + leakOhm);
-  return 2 * rTh * cF * Math.log((vTh + BETA * V) / (vTh - BETA * V));
+  return leakyAstablePeriodS({ supplyV: V, beta: BETA, rOhm, cF, leakOhm });
 }
 
 describe('check capacitor-leakage-significant', () => {
